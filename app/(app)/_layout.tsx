@@ -1,0 +1,16 @@
+import { Redirect, Slot } from 'expo-router';
+import { useAuth } from '@/components/auth/auth-provider';
+import { AppShell } from '@/components/shell/app-shell';
+import { LoadingState } from '@/components/ui/state-view';
+
+/** Everything in this group needs a signed-in user. */
+export default function SignedInLayout() {
+  const { user, ready } = useAuth();
+  if (!user && !ready) return <LoadingState label="Opening Warmfold…" />;
+  if (!user) return <Redirect href="/sign-in" />;
+  return (
+    <AppShell>
+      <Slot />
+    </AppShell>
+  );
+}

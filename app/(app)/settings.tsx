@@ -1,0 +1,5 @@
+import { SettingsScreen } from '@/components/screens/settings-screen';
+
+export default function SettingsRoute() {
+  return <SettingsScreen />;
+}

@@ -1,0 +1,106 @@
+import { useQueryClient } from '@tanstack/react-query';
+import { createContext, useCallback, useContext, useEffect, useMemo, useState, type ReactNode } from 'react';
+import type { SessionUser, SignInInput } from '@/shared/schemas/auth';
+import { api, configureApi } from '../api/client';
+import { storage } from '../api/storage';
+
+const TOKEN_KEY = 'warmfold.token';
+const USER_KEY = 'warmfold.user';
+
+interface AuthState {
+  user: SessionUser | null;
+  /** False until the stored session has been read. */
+  ready: boolean;
+  signIn: (input: SignInInput) => Promise<SessionUser>;
+  signOut: () => Promise<void>;
+  replaceUser: (user: SessionUser) => void;
+  /** Set when the server ended the session, so sign-in can say why. */
+  endedMessage: string | null;
+}
+
+const AuthContext = createContext<AuthState | null>(null);
+
+function readStoredUser(): SessionUser | null {
+  const raw = storage.get(USER_KEY);
+  if (!raw) return null;
+  try {
+    return JSON.parse(raw) as SessionUser;
+  } catch {
+    return null;
+  }
+}
+
+export function AuthProvider({ children }: { children: ReactNode }) {
+  const queryClient = useQueryClient();
+  const [user, setUser] = useState<SessionUser | null>(() => (storage.get(TOKEN_KEY) ? readStoredUser() : null));
+  const [ready, setReady] = useState(false);
+  const [endedMessage, setEndedMessage] = useState<string | null>(null);
+
+  const clear = useCallback(() => {
+    storage.remove(TOKEN_KEY);
+    storage.remove(USER_KEY);
+    setUser(null);
+    queryClient.clear();
+  }, [queryClient]);
+
+  useEffect(() => {
+    configureApi({
+      token: () => storage.get(TOKEN_KEY),
+      onUnauthorized: () => {
+        if (storage.get(TOKEN_KEY)) setEndedMessage('Your session ended. Please sign in again.');
+        clear();
+      },
+    });
+    if (!storage.get(TOKEN_KEY)) {
+      setReady(true);
+      return;
+    }
+    // Confirm the stored session with the server; a 401 signs out through onUnauthorized.
+    api<{ user: SessionUser }>('/auth/me')
+      .then(({ user: fresh }) => {
+        storage.set(USER_KEY, JSON.stringify(fresh));
+        setUser(fresh);
+      })
+      .catch(() => {})
+      .finally(() => setReady(true));
+  }, [clear]);
+
+  const signIn = useCallback(async (input: SignInInput) => {
+    const result = await api<{ token: string; user: SessionUser }>('/auth/sign-in', { method: 'POST', body: input, skipUnauthorizedHandler: true });
+    storage.set(TOKEN_KEY, result.token);
+    storage.set(USER_KEY, JSON.stringify(result.user));
+    setEndedMessage(null);
+    setUser(result.user);
+    return result.user;
+  }, []);
+
+  const signOut = useCallback(async () => {
+    try {
+      await api('/auth/sign-out', { method: 'POST', skipUnauthorizedHandler: true });
+    } catch {
+      // Signing out locally still happens when the server cannot be reached.
+    }
+    clear();
+  }, [clear]);
+
+  const replaceUser = useCallback((next: SessionUser) => {
+    storage.set(USER_KEY, JSON.stringify(next));
+    setUser(next);
+  }, []);
+
+  const value = useMemo(() => ({ user, ready, signIn, signOut, replaceUser, endedMessage }), [user, ready, signIn, signOut, replaceUser, endedMessage]);
+  return <AuthContext.Provider value={value}>{children}</AuthContext.Provider>;
+}
+
+export function useAuth(): AuthState {
+  const ctx = useContext(AuthContext);
+  if (!ctx) throw new Error('useAuth must be used inside AuthProvider');
+  return ctx;
+}
+
+/** The signed-in user; only for screens behind the signed-in layout. */
+export function useUser(): SessionUser {
+  const { user } = useAuth();
+  if (!user) throw new Error('useUser needs a signed-in user');
+  return user;
+}

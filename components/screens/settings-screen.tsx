@@ -1,0 +1,99 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { StyleSheet } from 'react-native';
+import { ROLE_LABELS } from '@/shared/roles';
+import { changePasswordSchema, type ChangePasswordInput } from '@/shared/schemas/auth';
+import { problemOf } from '../api/client';
+import { useAuth, useUser } from '../auth/auth-provider';
+import { useChangePasswordMutation, usePreferencesMutation } from '../queries/account';
+import { useThemeChoice } from '../theme/theme-provider';
+import { Button } from '../ui/button';
+import { Card } from '../ui/card';
+import { Screen } from '../ui/screen';
+import { Segmented } from '../ui/segmented';
+import { Text } from '../ui/text';
+import { TextField } from '../ui/text-field';
+
+export function SettingsScreen() {
+  const user = useUser();
+  const { signOut } = useAuth();
+  const prefs = usePreferencesMutation();
+  const { setChoice } = useThemeChoice();
+  return (
+    <Screen title="Settings" subtitle={`${user.name} · ${ROLE_LABELS[user.role]}`}>
+      <Card>
+        <Text variant="title" role="heading" aria-level={2}>
+          Display
+        </Text>
+        <Segmented
+          label="Temperature unit"
+          value={user.tempUnit}
+          options={[
+            { value: 'C', label: '°C' },
+            { value: 'F', label: '°F' },
+          ]}
+          onChange={(tempUnit) => prefs.mutate({ tempUnit })}
+        />
+        <Segmented
+          label="Clock"
+          value={user.clock}
+          options={[
+            { value: '24h', label: '24-hour' },
+            { value: '12h', label: '12-hour' },
+          ]}
+          onChange={(clock) => prefs.mutate({ clock })}
+        />
+        <Segmented
+          label="Theme"
+          value={user.theme}
+          options={[
+            { value: 'system', label: 'Follow the device' },
+            { value: 'light', label: 'Light' },
+            { value: 'dark', label: 'Night' },
+          ]}
+          onChange={(theme) => {
+            setChoice(theme);
+            prefs.mutate({ theme });
+          }}
+        />
+        {prefs.isError ? <Text tone="danger">{problemOf(prefs.error).message}</Text> : null}
+      </Card>
+      <PasswordCard onChanged={() => void signOut()} />
+      <Button label="Sign out" variant="secondary" icon="out" onPress={() => void signOut()} />
+    </Screen>
+  );
+}
+
+function PasswordCard({ onChanged }: { onChanged: () => void }) {
+  const change = useChangePasswordMutation();
+  const [serverFields, setServerFields] = useState<Record<string, string>>({});
+  const { control, handleSubmit, reset } = useForm<ChangePasswordInput>({
+    resolver: zodResolver(changePasswordSchema),
+    defaultValues: { currentPassword: '', newPassword: '' },
+  });
+  const submit = handleSubmit(async (values) => {
+    setServerFields({});
+    try {
+      await change.mutateAsync(values);
+      reset();
+      onChanged();
+    } catch (err) {
+      const p = problemOf(err);
+      setServerFields(p.kind === 'invalid' ? p.fields : { newPassword: p.message });
+    }
+  });
+  return (
+    <Card style={styles.gap}>
+      <Text variant="title" role="heading" aria-level={2}>
+        Password
+      </Text>
+      <Text tone="muted">At least 12 characters. Changing it signs you out everywhere.</Text>
+      <TextField control={control} name="currentPassword" label="Current password" secureTextEntry autoComplete="current-password" serverError={serverFields.currentPassword} />
+      <TextField control={control} name="newPassword" label="New password" secureTextEntry autoComplete="new-password" serverError={serverFields.newPassword} />
+      <Button label="Change password" onPress={() => void submit()} busy={change.isPending} />
+    </Card>
+  );
+}
+
+const styles = StyleSheet.create({ gap: { gap: 12 } });

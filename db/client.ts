@@ -1,0 +1,49 @@
+import Database from 'better-sqlite3';
+import { drizzle, type BetterSQLite3Database } from 'drizzle-orm/better-sqlite3';
+import { migrate } from 'drizzle-orm/better-sqlite3/migrator';
+import fs from 'node:fs';
+import path from 'node:path';
+import * as schema from './schema';
+
+export type Db = BetterSQLite3Database<typeof schema>;
+
+export interface Database_ {
+  sqlite: Database.Database;
+  db: Db;
+  close(): void;
+}
+
+/**
+ * The migrations live in drizzle/ at the project root. Resolve them from the working
+ * directory (or WARMFOLD_ROOT), never from __dirname: the compiled server sits in build/.
+ */
+export function migrationsFolder(): string {
+  const root = process.env.WARMFOLD_ROOT ?? process.cwd();
+  return path.join(root, 'drizzle');
+}
+
+/** Open (creating if needed) and migrate a Warmfold database with the pragmas the record needs. */
+export function openDatabase(file: string): Database_ {
+  if (file !== ':memory:') fs.mkdirSync(path.dirname(file), { recursive: true });
+  const sqlite = new Database(file);
+  sqlite.pragma('journal_mode = WAL');
+  // FULL: a reading acknowledged with 201 survives a power cut, not just a process crash.
+  sqlite.pragma('synchronous = FULL');
+  sqlite.pragma('foreign_keys = ON');
+  sqlite.pragma('busy_timeout = 5000');
+  const mode = sqlite.pragma('journal_mode', { simple: true });
+  const sync = sqlite.pragma('synchronous', { simple: true });
+  if (file !== ':memory:' && mode !== 'wal') throw new Error(`SQLite refused WAL mode (got ${String(mode)})`);
+  if (sync !== 2) throw new Error(`SQLite refused synchronous=FULL (got ${String(sync)})`);
+  const db = drizzle(sqlite, { schema });
+  migrate(db, { migrationsFolder: migrationsFolder() });
+  return { sqlite, db, close: () => sqlite.close() };
+}
+
+/**
+ * Run `fn` in a write transaction that takes the write lock up front (BEGIN IMMEDIATE),
+ * so two writers never both read and then fight to upgrade their locks.
+ */
+export function writeTx<T>(sqlite: Database.Database, fn: () => T): T {
+  return sqlite.transaction(fn).immediate();
+}

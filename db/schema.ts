@@ -1,0 +1,388 @@
+/**
+ * The whole Warmfold schema. Temperatures are integer hundredths of a degree Celsius
+ * (`*_centi`); instants are UTC milliseconds since the epoch (`*_at`, integer, mode
+ * 'timestamp_ms'). Clinical rows (readings, flags, flag_resolutions, actions, reviews,
+ * audit_events) are append-only: triggers in the migrations refuse UPDATE and DELETE.
+ */
+import { sql } from 'drizzle-orm';
+import {
+  index,
+  integer,
+  primaryKey,
+  sqliteTable,
+  text,
+  uniqueIndex,
+} from 'drizzle-orm/sqlite-core';
+
+const instant = (name: string) => integer(name, { mode: 'timestamp_ms' });
+const flag = (name: string) => integer(name, { mode: 'boolean' });
+
+export const units = sqliteTable('units', {
+  id: text('id').primaryKey(),
+  name: text('name').notNull(),
+  hospitalName: text('hospital_name').notNull(),
+  timeZone: text('time_zone').notNull().default('Europe/London'),
+  checkIntervalMinutes: integer('check_interval_minutes').notNull().default(120),
+  dueSoonMinutes: integer('due_soon_minutes').notNull().default(15),
+  gapLimitCenti: integer('gap_limit_centi').notNull().default(50),
+  escalationDelayMinutes: integer('escalation_delay_minutes').notNull().default(30),
+  highOutputPct: integer('high_output_pct').notNull().default(80),
+  dayShiftStart: text('day_shift_start').notNull().default('07:00'),
+  nightShiftStart: text('night_shift_start').notNull().default('19:00'),
+  createdAt: instant('created_at').notNull(),
+});
+
+export const beds = sqliteTable(
+  'beds',
+  {
+    id: text('id').primaryKey(),
+    unitId: text('unit_id')
+      .notNull()
+      .references(() => units.id),
+    label: text('label').notNull(),
+    sortOrder: integer('sort_order').notNull().default(0),
+    active: flag('active').notNull().default(true),
+  },
+  (t) => [uniqueIndex('beds_unit_label').on(t.unitId, t.label)],
+);
+
+export const users = sqliteTable('users', {
+  id: text('id').primaryKey(),
+  email: text('email').notNull().unique(),
+  name: text('name').notNull(),
+  role: text('role', { enum: ['nurse', 'charge', 'educator', 'admin'] }).notNull(),
+  passwordHash: text('password_hash'),
+  tempUnit: text('temp_unit', { enum: ['C', 'F'] }).notNull().default('C'),
+  clock: text('clock', { enum: ['24h', '12h'] }).notNull().default('24h'),
+  theme: text('theme', { enum: ['system', 'light', 'dark'] }).notNull().default('system'),
+  active: flag('active').notNull().default(true),
+  /** Bumped by a password change, role or unit change, or deactivation: older tokens stop working. */
+  sessionVersion: integer('session_version').notNull().default(1),
+  createdAt: instant('created_at').notNull(),
+  updatedAt: instant('updated_at').notNull(),
+});
+
+/** Which units a user belongs to. Nurses and charge nurses usually have one; educators may have several. */
+export const userUnits = sqliteTable(
+  'user_units',
+  {
+    userId: text('user_id')
+      .notNull()
+      .references(() => users.id),
+    unitId: text('unit_id')
+      .notNull()
+      .references(() => units.id),
+  },
+  (t) => [primaryKey({ columns: [t.userId, t.unitId] })],
+);
+
+/** One row per signed-in session; the token's `jti` is the id. */
+export const authSessions = sqliteTable(
+  'auth_sessions',
+  {
+    id: text('id').primaryKey(),
+    userId: text('user_id')
+      .notNull()
+      .references(() => users.id),
+    sessionVersion: integer('session_version').notNull(),
+    createdAt: instant('created_at').notNull(),
+    lastSeenAt: instant('last_seen_at').notNull(),
+    expiresAt: instant('expires_at').notNull(),
+    revokedAt: instant('revoked_at'),
+  },
+  (t) => [index('auth_sessions_user').on(t.userId)],
+);
+
+export const signInAttempts = sqliteTable(
+  'sign_in_attempts',
+  {
+    id: integer('id').primaryKey({ autoIncrement: true }),
+    email: text('email').notNull(),
+    address: text('address').notNull(),
+    at: instant('at').notNull(),
+    succeeded: flag('succeeded').notNull(),
+  },
+  (t) => [index('sign_in_attempts_email_at').on(t.email, t.at), index('sign_in_attempts_address_at').on(t.address, t.at)],
+);
+
+/** Single-use links sent by e-mail: invitations and password resets. Only a hash of the token is kept. */
+export const emailTokens = sqliteTable('email_tokens', {
+  id: text('id').primaryKey(),
+  userId: text('user_id')
+    .notNull()
+    .references(() => users.id),
+  kind: text('kind', { enum: ['invite', 'reset'] }).notNull(),
+  tokenHash: text('token_hash').notNull().unique(),
+  createdAt: instant('created_at').notNull(),
+  expiresAt: instant('expires_at').notNull(),
+  usedAt: instant('used_at'),
+});
+
+export const infants = sqliteTable(
+  'infants',
+  {
+    id: text('id').primaryKey(),
+    unitId: text('unit_id')
+      .notNull()
+      .references(() => units.id),
+    bedId: text('bed_id').references(() => beds.id),
+    displayName: text('display_name').notNull(),
+    birthAt: instant('birth_at').notNull(),
+    gestationWeeks: integer('gestation_weeks').notNull(),
+    gestationDays: integer('gestation_days').notNull(),
+    birthWeightGrams: integer('birth_weight_grams').notNull(),
+    weightGrams: integer('weight_grams').notNull(),
+    heatSource: text('heat_source', { enum: ['radiant-warmer', 'incubator', 'convertible'] }).notNull(),
+    status: text('status', { enum: ['admitted', 'discharged'] }).notNull().default('admitted'),
+    admittedAt: instant('admitted_at').notNull(),
+    dischargedAt: instant('discharged_at'),
+  },
+  (t) => [index('infants_unit_status').on(t.unitId, t.status)],
+);
+
+/** A nurse's assignment to an infant for one shift; the latest row for (infant, shift) wins. */
+export const assignments = sqliteTable(
+  'assignments',
+  {
+    id: text('id').primaryKey(),
+    unitId: text('unit_id')
+      .notNull()
+      .references(() => units.id),
+    infantId: text('infant_id')
+      .notNull()
+      .references(() => infants.id),
+    nurseId: text('nurse_id')
+      .notNull()
+      .references(() => users.id),
+    /** Local date of the shift's start in the unit's time zone, YYYY-MM-DD. */
+    shiftDate: text('shift_date').notNull(),
+    shift: text('shift', { enum: ['day', 'night'] }).notNull(),
+    createdBy: text('created_by')
+      .notNull()
+      .references(() => users.id),
+    createdAt: instant('created_at').notNull(),
+  },
+  (t) => [index('assignments_shift').on(t.unitId, t.shiftDate, t.shift), index('assignments_nurse').on(t.nurseId, t.shiftDate)],
+);
+
+export const skinToSkinSessions = sqliteTable(
+  'skin_to_skin_sessions',
+  {
+    id: text('id').primaryKey(),
+    infantId: text('infant_id')
+      .notNull()
+      .references(() => infants.id),
+    unitId: text('unit_id')
+      .notNull()
+      .references(() => units.id),
+    startedAt: instant('started_at').notNull(),
+    startedBy: text('started_by')
+      .notNull()
+      .references(() => users.id),
+    referenceCenti: integer('reference_centi').notNull(),
+    limitCenti: integer('limit_centi').notNull(),
+    carer: text('carer'),
+    endedAt: instant('ended_at'),
+    endedBy: text('ended_by').references(() => users.id),
+  },
+  (t) => [index('s2s_infant').on(t.infantId, t.startedAt)],
+);
+
+export const readings = sqliteTable(
+  'readings',
+  {
+    /** Made by the client, so a retried request is stored once. */
+    id: text('id').primaryKey(),
+    infantId: text('infant_id')
+      .notNull()
+      .references(() => infants.id),
+    unitId: text('unit_id')
+      .notNull()
+      .references(() => units.id),
+    takenAt: instant('taken_at').notNull(),
+    recordedAt: instant('recorded_at').notNull(),
+    recordedBy: text('recorded_by')
+      .notNull()
+      .references(() => users.id),
+    probeCenti: integer('probe_centi'),
+    remoteCenti: integer('remote_centi'),
+    remoteSite: text('remote_site', { enum: ['axilla', 'rectal', 'other'] }),
+    airCenti: integer('air_centi'),
+    setCenti: integer('set_centi'),
+    controlMode: text('control_mode', { enum: ['skin-servo', 'air-servo', 'manual'] }),
+    heaterOutputPct: integer('heater_output_pct'),
+    heartRate: integer('heart_rate'),
+    /** JSON array of heat-stress sign codes. */
+    heatSigns: text('heat_signs').notNull().default('[]'),
+    note: text('note'),
+    /** The unit the nurse typed in, kept so the record shows what was entered. */
+    enteredUnit: text('entered_unit', { enum: ['C', 'F'] }).notNull().default('C'),
+    lateReason: text('late_reason'),
+    sessionId: text('session_id').references(() => skinToSkinSessions.id),
+    replacesId: text('replaces_id'),
+    correctionReason: text('correction_reason', { enum: ['corrected-value', 'entered-in-error', 'late-entry'] }),
+    correctionNote: text('correction_note'),
+    enteredInError: flag('entered_in_error').notNull().default(false),
+    /** SHA-256 of the request body that created the row, so a retried id with other content is refused. */
+    requestHash: text('request_hash'),
+  },
+  (t) => [
+    index('readings_infant_taken').on(t.infantId, t.takenAt),
+    index('readings_unit_taken').on(t.unitId, t.takenAt),
+    uniqueIndex('readings_replaces').on(t.replacesId),
+  ],
+);
+
+/** A flag as raised by the rules; its closing is a row in flag_resolutions. */
+export const flags = sqliteTable(
+  'flags',
+  {
+    id: text('id').primaryKey(),
+    infantId: text('infant_id')
+      .notNull()
+      .references(() => infants.id),
+    unitId: text('unit_id')
+      .notNull()
+      .references(() => units.id),
+    /** The rules' stable key (for example `gap:<reading id>`), unique per infant. */
+    key: text('key').notNull(),
+    kind: text('kind', {
+      enum: ['gap', 'overdue-check', 'heat-stress', 'cold-stress', 'manual-mode', 'skin-to-skin-deviation'],
+    }).notNull(),
+    raisedAt: instant('raised_at').notNull(),
+    raisedByReadingId: text('raised_by_reading_id'),
+    detail: text('detail').notNull().default('{}'),
+    createdAt: instant('created_at').notNull(),
+  },
+  (t) => [uniqueIndex('flags_infant_key').on(t.infantId, t.key), index('flags_unit_raised').on(t.unitId, t.raisedAt)],
+);
+
+export const flagResolutions = sqliteTable('flag_resolutions', {
+  flagId: text('flag_id')
+    .primaryKey()
+    .references(() => flags.id),
+  closedAt: instant('closed_at').notNull(),
+  closedByReadingId: text('closed_by_reading_id'),
+  /** How it closed: 'recheck', 'check-recorded', 'session-ended', 'reading-corrected', 'discharged'. */
+  how: text('how').notNull(),
+  createdAt: instant('created_at').notNull(),
+});
+
+export const actions = sqliteTable(
+  'actions',
+  {
+    id: text('id').primaryKey(),
+    flagId: text('flag_id')
+      .notNull()
+      .references(() => flags.id),
+    infantId: text('infant_id')
+      .notNull()
+      .references(() => infants.id),
+    unitId: text('unit_id')
+      .notNull()
+      .references(() => units.id),
+    kind: text('kind').notNull(),
+    note: text('note'),
+    at: instant('at').notNull(),
+    recordedBy: text('recorded_by')
+      .notNull()
+      .references(() => users.id),
+    createdAt: instant('created_at').notNull(),
+  },
+  (t) => [index('actions_flag').on(t.flagId), index('actions_infant').on(t.infantId, t.at)],
+);
+
+export const escalations = sqliteTable('escalations', {
+  id: text('id').primaryKey(),
+  flagId: text('flag_id')
+    .notNull()
+    .unique()
+    .references(() => flags.id),
+  unitId: text('unit_id')
+    .notNull()
+    .references(() => units.id),
+  escalatedAt: instant('escalated_at').notNull(),
+  mailedAt: instant('mailed_at'),
+  acknowledgedAt: instant('acknowledged_at'),
+  acknowledgedBy: text('acknowledged_by').references(() => users.id),
+  acknowledgeNote: text('acknowledge_note'),
+});
+
+/** An educator's teaching note on a flag; shown to the nurse concerned. */
+export const reviews = sqliteTable(
+  'reviews',
+  {
+    id: text('id').primaryKey(),
+    flagId: text('flag_id')
+      .notNull()
+      .references(() => flags.id),
+    unitId: text('unit_id')
+      .notNull()
+      .references(() => units.id),
+    reviewerId: text('reviewer_id')
+      .notNull()
+      .references(() => users.id),
+    note: text('note').notNull(),
+    createdAt: instant('created_at').notNull(),
+  },
+  (t) => [index('reviews_flag').on(t.flagId)],
+);
+
+export const uploads = sqliteTable(
+  'uploads',
+  {
+    id: text('id').primaryKey(),
+    kind: text('kind', { enum: ['roster', 'readings'] }).notNull(),
+    unitId: text('unit_id').references(() => units.id),
+    filename: text('filename').notNull(),
+    storedName: text('stored_name').notNull(),
+    sha256: text('sha256').notNull(),
+    sizeBytes: integer('size_bytes').notNull(),
+    rowCount: integer('row_count').notNull().default(0),
+    status: text('status', { enum: ['previewed', 'imported', 'rejected'] }).notNull(),
+    uploadedBy: text('uploaded_by')
+      .notNull()
+      .references(() => users.id),
+    createdAt: instant('created_at').notNull(),
+    importedAt: instant('imported_at'),
+  },
+  (t) => [index('uploads_sha').on(t.kind, t.sha256)],
+);
+
+/** Mail caught by the local fake SMTP server (development and tests). */
+export const caughtMail = sqliteTable('caught_mail', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  receivedAt: instant('received_at').notNull(),
+  from: text('from_address').notNull(),
+  to: text('to_addresses').notNull(),
+  subject: text('subject').notNull(),
+  text: text('text_body').notNull(),
+  html: text('html_body'),
+});
+
+/** Every change and every chart read; each row carries the hash of the one before it. */
+export const auditEvents = sqliteTable(
+  'audit_events',
+  {
+    id: integer('id').primaryKey({ autoIncrement: true }),
+    at: instant('at').notNull(),
+    actorId: text('actor_id'),
+    action: text('action').notNull(),
+    entityType: text('entity_type').notNull(),
+    entityId: text('entity_id'),
+    unitId: text('unit_id'),
+    before: text('before'),
+    after: text('after'),
+    prevHash: text('prev_hash').notNull(),
+    hash: text('hash').notNull(),
+  },
+  (t) => [index('audit_entity').on(t.entityType, t.entityId)],
+);
+
+export const settings = sqliteTable('app_settings', {
+  key: text('key').primaryKey(),
+  value: text('value').notNull(),
+  updatedAt: instant('updated_at')
+    .notNull()
+    .default(sql`(unixepoch() * 1000)`),
+});

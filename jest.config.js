@@ -1,0 +1,20 @@
+/** One `npx jest` runs the pure rules, the server over HTTP, and the components. */
+const alias = { '^@/(.*)$': '<rootDir>/$1' };
+
+module.exports = {
+  projects: [
+    {
+      displayName: 'server',
+      testEnvironment: 'node',
+      testMatch: ['<rootDir>/tests/shared/**/*.test.ts', '<rootDir>/tests/server/**/*.test.ts'],
+      transform: { '^.+\\.[jt]sx?$': 'babel-jest' },
+      moduleNameMapper: alias,
+    },
+    {
+      displayName: 'client',
+      preset: 'jest-expo/web',
+      testMatch: ['<rootDir>/tests/components/**/*.test.tsx'],
+      moduleNameMapper: alias,
+    },
+  ],
+};

@@ -1,0 +1,102 @@
+import cors from 'cors';
+import express, { type Express } from 'express';
+import helmet from 'helmet';
+import fs from 'node:fs';
+import path from 'node:path';
+import type { Database_ } from '../db/client';
+import type { Clock } from './clock';
+import type { AppConfig } from './config';
+import type { AppContext } from './context';
+import { apiNotFound, errorHandler } from './errors';
+import type { Mailer } from './mail/mailer';
+import { requestLog } from './middleware/request-log';
+import { apiRouters } from './routes';
+
+export interface CreateAppOptions {
+  db: Database_;
+  mailer: Mailer;
+  clock: Clock;
+  config: AppConfig;
+  log?: (line: string) => void;
+}
+
+export const JSON_BODY_LIMIT = '100kb';
+
+/** Builds the whole product as an Express app. Tests call this; server/index.ts listens. */
+export function createApp({ db, mailer, clock, config, log = (line) => process.stdout.write(`${line}\n`) }: CreateAppOptions): Express & { context: AppContext } {
+  const ctx: AppContext = { database: db, mailer, clock, config, log };
+  const app = express() as Express & { context: AppContext };
+  app.context = ctx;
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: true,
+        directives: {
+          'default-src': ["'self'"],
+          // react-native-web writes its styles into a <style> element at run time.
+          'style-src': ["'self'", "'unsafe-inline'"],
+          'script-src': ["'self'"],
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'font-src': ["'self'", 'data:'],
+          'connect-src': ["'self'"],
+          'frame-ancestors': ["'none'"],
+          'object-src': ["'none'"],
+          'base-uri': ["'self'"],
+          'form-action': ["'self'"],
+          'upgrade-insecure-requests': null,
+        },
+      },
+      strictTransportSecurity: { maxAge: 31_536_000, includeSubDomains: true },
+      referrerPolicy: { policy: 'no-referrer' },
+      crossOriginEmbedderPolicy: false,
+    }),
+  );
+  if (config.logRequests) app.use(requestLog(log));
+
+  const api = express.Router();
+  api.use(
+    cors({
+      origin: (origin, cb) => cb(null, !origin || config.corsOrigins.includes(origin) ? origin ?? false : false),
+      credentials: false,
+    }),
+  );
+  api.use((_req, res, next) => {
+    res.set('Cache-Control', 'no-store');
+    next();
+  });
+  api.use(express.json({ limit: JSON_BODY_LIMIT, strict: true, type: ['application/json', 'application/*+json'] }));
+  for (const [mount, router] of apiRouters(ctx)) api.use(mount, router);
+  api.use(apiNotFound);
+  app.use('/api', api);
+
+  serveWeb(app, config.webDir);
+  app.use(errorHandler(log));
+  return app;
+}
+
+/** The exported web build, with index.html for every client route. */
+function serveWeb(app: Express, webDir: string): void {
+  const index = path.join(webDir, 'index.html');
+  if (!fs.existsSync(index)) {
+    app.get('/', (_req, res) => {
+      res.type('text').send('Warmfold API is running. The web app has not been built: run `npm run build:web`.');
+    });
+    return;
+  }
+  app.use(
+    express.static(webDir, {
+      index: false,
+      setHeaders(res, file) {
+        // Hashed bundles never change; index.html must always be fresh.
+        if (/[\\/]_expo[\\/]|[\\/]assets[\\/]/.test(file)) res.set('Cache-Control', 'public, max-age=31536000, immutable');
+      },
+    }),
+  );
+  app.get('/{*splat}', (_req, res) => {
+    res.set('Cache-Control', 'no-cache');
+    res.sendFile(index);
+  });
+}

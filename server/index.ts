@@ -1,0 +1,68 @@
+import type { AddressInfo } from 'node:net';
+import { openDatabase } from '../db/client';
+import { seedDemo, isEmpty } from '../db/seed';
+import { createApp } from './app';
+import { systemClock } from './clock';
+import { loadConfig } from './config';
+import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
+import { smtpMailer } from './mail/mailer';
+import { startScheduler } from './scheduler';
+
+async function main(): Promise<void> {
+  const config = loadConfig();
+  const log = (line: string) => process.stdout.write(`${line}\n`);
+  const database = openDatabase(config.databasePath);
+
+  if (config.seedDemo && isEmpty(database)) {
+    log('First start: adding the demo unit, infants and accounts.');
+    await seedDemo(database, { now: new Date(), bcryptCost: config.bcryptCost });
+  }
+
+  let fake: FakeSmtp | null = null;
+  let smtpPort = config.smtp.port;
+  if (config.smtp.fake) {
+    fake = await startFakeSmtp(database, config.smtp.port);
+    smtpPort = fake.port;
+  }
+  const mailer = smtpMailer({ ...config.smtp, port: smtpPort });
+  const app = createApp({ db: database, mailer, clock: systemClock, config, log });
+  const scheduler = startScheduler(app.context);
+
+  const server = app.listen(config.port, config.host, () => {
+    const { port } = server.address() as AddressInfo;
+    log(`Warmfold is running at http://localhost:${port}`);
+    if (fake) log(`Local mail catcher (fake SMTP) on 127.0.0.1:${fake.port}; read it as an admin under Admin → Mailbox.`);
+    if (config.seedDemo) {
+      log('Demo accounts (password for all: "warm-hands-at-night"):');
+      log('  nurse     nia.okafor@warmfold.test');
+      log('  charge    marta.lindqvist@warmfold.test');
+      log('  educator  priya.raman@warmfold.test');
+      log('  admin     tomas.vidal@warmfold.test');
+    }
+  });
+
+  let closing = false;
+  const shutdown = (signal: string) => {
+    if (closing) return;
+    closing = true;
+    log(`${signal}: finishing open requests, then closing.`);
+    scheduler.stop();
+    server.close(() => {
+      void (async () => {
+        mailer.close();
+        if (fake) await fake.close();
+        database.close();
+        process.exit(0);
+      })();
+    });
+    server.closeIdleConnections();
+    setTimeout(() => process.exit(1), 10_000).unref();
+  };
+  process.on('SIGTERM', () => shutdown('SIGTERM'));
+  process.on('SIGINT', () => shutdown('SIGINT'));
+}
+
+main().catch((err: unknown) => {
+  process.stderr.write(`Warmfold could not start: ${err instanceof Error ? err.message : String(err)}\n`);
+  process.exit(1);
+});

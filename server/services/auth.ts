@@ -1,0 +1,156 @@
+import bcrypt from 'bcryptjs';
+import { and, eq, gt } from 'drizzle-orm';
+import jwt from 'jsonwebtoken';
+import { randomUUID } from 'node:crypto';
+import { authSessions, signInAttempts, userUnits, users } from '../../db/schema';
+import type { SessionUser } from '../../shared/schemas/auth';
+import type { AppContext } from '../context';
+import { ApiError, unauthorized } from '../errors';
+import type { AuthContext } from '../types';
+
+/** ASVS 3.3: idle and absolute session limits. */
+export const IDLE_LIMIT_MS = 30 * 60_000;
+export const ABSOLUTE_LIMIT_MS = 12 * 60 * 60_000;
+/** ASVS 2.2.1: at most five failures per account in fifteen minutes. */
+export const ACCOUNT_FAILURE_LIMIT = 5;
+export const ADDRESS_FAILURE_LIMIT = 30;
+export const THROTTLE_WINDOW_MS = 15 * 60_000;
+const ALGORITHM = 'HS256' as const;
+
+let dummyHash: string | null = null;
+/** Compared against when the account does not exist, so both answers take about as long. */
+async function timingDummy(cost: number): Promise<string> {
+  if (!dummyHash) dummyHash = await bcrypt.hash('warmfold-not-a-real-password', cost);
+  return dummyHash;
+}
+
+export async function hashPassword(password: string, cost: number): Promise<string> {
+  return bcrypt.hash(password, cost);
+}
+
+export function loadSessionUser(ctx: AppContext, userId: string): SessionUser | null {
+  const { db } = ctx.database;
+  const user = db.select().from(users).where(eq(users.id, userId)).get();
+  if (!user) return null;
+  const unitIds = db
+    .select({ unitId: userUnits.unitId })
+    .from(userUnits)
+    .where(eq(userUnits.userId, userId))
+    .all()
+    .map((r) => r.unitId);
+  return { id: user.id, email: user.email, name: user.name, role: user.role, unitIds, tempUnit: user.tempUnit, clock: user.clock, theme: user.theme };
+}
+
+function failuresSince(ctx: AppContext, column: 'email' | 'address', value: string, since: number): { count: number; oldest: number | null } {
+  const row = ctx.database.sqlite
+    .prepare(`SELECT COUNT(*) AS n, MIN(at) AS oldest FROM sign_in_attempts WHERE ${column} = ? AND succeeded = 0 AND at > ?`)
+    .get(value, since) as { n: number; oldest: number | null };
+  return { count: row.n, oldest: row.oldest };
+}
+
+function throttle(ctx: AppContext, email: string, address: string): void {
+  const now = ctx.clock.now().getTime();
+  const since = now - THROTTLE_WINDOW_MS;
+  const byAccount = failuresSince(ctx, 'email', email, since);
+  const byAddress = failuresSince(ctx, 'address', address, since);
+  const blocked =
+    byAccount.count >= ACCOUNT_FAILURE_LIMIT ? byAccount : byAddress.count >= ADDRESS_FAILURE_LIMIT ? byAddress : null;
+  if (blocked) {
+    const retryAfter = Math.max(1, Math.ceil(((blocked.oldest ?? now) + THROTTLE_WINDOW_MS - now) / 1000));
+    throw new ApiError(
+      429,
+      'too-many-requests',
+      `Too many sign-in attempts. Try again in ${Math.ceil(retryAfter / 60)} minutes, or ask your administrator to reset your password.`,
+      undefined,
+      { 'Retry-After': String(retryAfter) },
+    );
+  }
+}
+
+export async function signIn(ctx: AppContext, email: string, password: string, address: string): Promise<{ token: string; user: SessionUser; expiresAt: number }> {
+  throttle(ctx, email, address);
+  const { db } = ctx.database;
+  const user = db.select().from(users).where(eq(users.email, email)).get();
+  const hash = user?.passwordHash ?? (await timingDummy(ctx.config.bcryptCost));
+  const matches = await bcrypt.compare(password, hash);
+  const ok = Boolean(user && user.active && user.passwordHash && matches);
+  const now = ctx.clock.now();
+  db.insert(signInAttempts).values({ email, address, at: now, succeeded: ok }).run();
+  if (!ok || !user) {
+    throw new ApiError(401, 'unauthorized', 'That e-mail and password do not match an active account.', { password: 'Check the e-mail and password.' });
+  }
+  const sessionId = randomUUID();
+  const expiresAt = now.getTime() + ABSOLUTE_LIMIT_MS;
+  db.insert(authSessions)
+    .values({ id: sessionId, userId: user.id, sessionVersion: user.sessionVersion, createdAt: now, lastSeenAt: now, expiresAt: new Date(expiresAt) })
+    .run();
+  // iat follows the app's clock, so exp agrees with the session row even under a test clock.
+  const iat = Math.floor(now.getTime() / 1000);
+  const token = jwt.sign({ sub: user.id, sv: user.sessionVersion, iat }, ctx.config.jwtSecret, {
+    algorithm: ALGORITHM,
+    jwtid: sessionId,
+    expiresIn: Math.floor(ABSOLUTE_LIMIT_MS / 1000),
+  });
+  return { token, user: loadSessionUser(ctx, user.id)!, expiresAt };
+}
+
+interface TokenClaims {
+  sub: string;
+  sv: number;
+  jti: string;
+  exp: number;
+}
+
+/** Check a bearer token against its signature, its session row and the user's current state. */
+export function verifyToken(ctx: AppContext, token: string): AuthContext {
+  let claims: TokenClaims;
+  try {
+    claims = jwt.verify(token, ctx.config.jwtSecret, {
+      algorithms: [ALGORITHM],
+      clockTimestamp: Math.floor(ctx.clock.now().getTime() / 1000),
+    }) as TokenClaims;
+  } catch {
+    throw unauthorized('Your session has ended. Please sign in again.');
+  }
+  if (typeof claims.jti !== 'string' || typeof claims.sub !== 'string' || typeof claims.exp !== 'number') {
+    throw unauthorized('Your session has ended. Please sign in again.');
+  }
+  const { db } = ctx.database;
+  const now = ctx.clock.now().getTime();
+  const session = db.select().from(authSessions).where(eq(authSessions.id, claims.jti)).get();
+  if (!session || session.userId !== claims.sub || session.revokedAt) throw unauthorized('Your session has ended. Please sign in again.');
+  if (now > session.expiresAt.getTime()) throw unauthorized('Your session reached its 12-hour limit. Please sign in again.');
+  if (now - session.lastSeenAt.getTime() > IDLE_LIMIT_MS) throw unauthorized('You were signed out after 30 minutes without activity.');
+  const user = db.select().from(users).where(eq(users.id, claims.sub)).get();
+  if (!user || !user.active || user.sessionVersion !== session.sessionVersion || claims.sv !== user.sessionVersion) {
+    throw unauthorized('Your account changed. Please sign in again.');
+  }
+  // Keep the idle timer fresh without writing on every request.
+  if (now - session.lastSeenAt.getTime() > 15_000) {
+    db.update(authSessions).set({ lastSeenAt: new Date(now) }).where(eq(authSessions.id, session.id)).run();
+  }
+  const unitIds = db
+    .select({ unitId: userUnits.unitId })
+    .from(userUnits)
+    .where(eq(userUnits.userId, user.id))
+    .all()
+    .map((r) => r.unitId);
+  return { userId: user.id, sessionId: session.id, role: user.role, unitIds, name: user.name, email: user.email };
+}
+
+export function revokeSession(ctx: AppContext, sessionId: string): void {
+  ctx.database.db
+    .update(authSessions)
+    .set({ revokedAt: ctx.clock.now() })
+    .where(eq(authSessions.id, sessionId))
+    .run();
+}
+
+/** Ends every session of a user, used by password changes, role changes and deactivation. */
+export function revokeAllSessions(ctx: AppContext, userId: string): void {
+  ctx.database.db
+    .update(authSessions)
+    .set({ revokedAt: ctx.clock.now() })
+    .where(and(eq(authSessions.userId, userId), gt(authSessions.expiresAt, new Date(0))))
+    .run();
+}

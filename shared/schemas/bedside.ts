@@ -1,0 +1,127 @@
+import { z } from 'zod';
+
+/** Values arrive as the nurse typed them, in her unit; the server converts to hundredths of °C. */
+export const tempUnitSchema = z.enum(['C', 'F'], { error: 'Choose °C or °F.' });
+export const remoteSiteSchema = z.enum(['axilla', 'rectal', 'other'], { error: 'Choose axilla, rectal or other.' });
+export const controlModeSchema = z.enum(['skin-servo', 'air-servo', 'manual'], { error: 'Choose skin servo, air servo or manual.' });
+export const heatSignSchema = z.enum(['red-skin', 'warm-to-touch', 'sweating', 'irritability', 'fast-breathing']);
+export const heatSourceSchema = z.enum(['radiant-warmer', 'incubator', 'convertible'], { error: 'Choose a heat source.' });
+
+const temperature = (label: string) =>
+  z
+    .number({ error: `${label} must be a number.` })
+    .refine(Number.isFinite, `${label} must be a number.`)
+    .nullable()
+    .optional();
+
+const uuid = z.string().uuid({ error: 'Must be an id made by the app (a UUID).' });
+const isoInstant = z.iso.datetime({ offset: true, error: 'Must be a date and time (ISO 8601).' });
+
+export const createReadingSchema = z
+  .strictObject({
+    id: uuid,
+    unit: tempUnitSchema,
+    takenAt: isoInstant.optional(),
+    probe: temperature('Probe temperature'),
+    remote: temperature('Remote-site temperature'),
+    remoteSite: remoteSiteSchema.nullable().optional(),
+    air: temperature('Air temperature'),
+    set: temperature('Set temperature'),
+    controlMode: controlModeSchema.nullable().optional(),
+    heaterOutputPct: z.number({ error: 'Heater output must be a number.' }).int('Use a whole percentage.').min(0, 'At least 0 %.').max(100, 'At most 100 %.').nullable().optional(),
+    heartRate: z.number({ error: 'Heart rate must be a number.' }).int('Use whole beats per minute.').min(30, 'Below 30/min is not a plausible heart rate.').max(300, 'Above 300/min is not a plausible heart rate.').nullable().optional(),
+    heatSigns: z.array(heatSignSchema).max(5).default([]),
+    note: z.string().trim().max(1000, 'Keep the note under 1,000 characters.').nullable().optional(),
+    lateReason: z.string().trim().max(300).nullable().optional(),
+    /** The nurse confirmed a value outside the plausible range. */
+    confirmedImplausible: z.boolean().default(false),
+  })
+  .superRefine((v, ctx) => {
+    if (v.probe == null && v.remote == null && v.air == null && v.heartRate == null) {
+      ctx.addIssue({ code: 'custom', path: ['probe'], message: 'Enter at least one temperature or the heart rate.' });
+    }
+    if (v.remote != null && !v.remoteSite) {
+      ctx.addIssue({ code: 'custom', path: ['remoteSite'], message: 'Choose where the remote-site temperature was taken.' });
+    }
+  });
+export type CreateReadingInput = z.input<typeof createReadingSchema>;
+export type CreateReading = z.output<typeof createReadingSchema>;
+
+export const correctionReasonSchema = z.enum(['corrected-value', 'entered-in-error', 'late-entry'], { error: 'Choose why it is being corrected.' });
+
+/** A correction is a whole new version of the reading plus why. */
+export const correctReadingSchema = z.strictObject({
+  id: uuid,
+  reason: correctionReasonSchema,
+  note: z.string().trim().min(1, 'Say briefly what was wrong.').max(500),
+  values: z
+    .strictObject({
+      unit: tempUnitSchema,
+      takenAt: isoInstant.optional(),
+      probe: temperature('Probe temperature'),
+      remote: temperature('Remote-site temperature'),
+      remoteSite: remoteSiteSchema.nullable().optional(),
+      air: temperature('Air temperature'),
+      set: temperature('Set temperature'),
+      controlMode: controlModeSchema.nullable().optional(),
+      heaterOutputPct: z.number().int().min(0).max(100).nullable().optional(),
+      heartRate: z.number().int().min(30).max(300).nullable().optional(),
+      heatSigns: z.array(heatSignSchema).max(5).default([]),
+      note: z.string().trim().max(1000).nullable().optional(),
+    })
+    .optional(),
+});
+export type CorrectReadingInput = z.input<typeof correctReadingSchema>;
+
+export const ACTION_KINDS = [
+  'checked-probe-contact',
+  'checked-cover',
+  'moved-probe',
+  'adjusted-set-temperature',
+  'changed-control-mode',
+  'removed-coverings',
+  'reduced-heater-output',
+  'informed-charge-nurse',
+  'informed-medical-team',
+  'recorded-check',
+  'other',
+] as const;
+export type ActionKind = (typeof ACTION_KINDS)[number];
+
+export const ACTION_LABELS: Record<ActionKind, string> = {
+  'checked-probe-contact': 'Checked probe contact',
+  'checked-cover': 'Checked the heat-reflecting cover',
+  'moved-probe': 'Moved the probe to another site',
+  'adjusted-set-temperature': 'Adjusted the set temperature',
+  'changed-control-mode': 'Changed the control mode',
+  'removed-coverings': 'Removed extra coverings',
+  'reduced-heater-output': 'Reduced heater output',
+  'informed-charge-nurse': 'Told the charge nurse',
+  'informed-medical-team': 'Told the medical team',
+  'recorded-check': 'Recorded the check',
+  other: 'Something else (see note)',
+};
+
+export const createActionSchema = z.strictObject({
+  id: uuid,
+  kind: z.enum(ACTION_KINDS, { error: 'Choose what was done.' }),
+  note: z.string().trim().max(500).nullable().optional(),
+  at: isoInstant.optional(),
+});
+export type CreateActionInput = z.input<typeof createActionSchema>;
+
+export const startSessionSchema = z.strictObject({
+  id: uuid,
+  unit: tempUnitSchema,
+  reference: z.number({ error: 'Enter the reference temperature.' }).refine(Number.isFinite, 'Enter the reference temperature.'),
+  limitCenti: z.union([z.literal(50), z.literal(100)], { error: 'Choose 0.5 °C or 1.0 °C.' }),
+  carer: z.string().trim().max(80).nullable().optional(),
+  startedAt: isoInstant.optional(),
+});
+export type StartSessionInput = z.input<typeof startSessionSchema>;
+
+export const endSessionSchema = z.strictObject({ endedAt: isoInstant.optional() });
+
+export const flowsheetQuerySchema = z.strictObject({
+  hours: z.coerce.number().int().refine((h) => [12, 24, 72].includes(h), 'Choose 12, 24 or 72 hours.').default(24),
+});
