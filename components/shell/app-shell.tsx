@@ -1,4 +1,4 @@
-import { Link, usePathname } from 'expo-router';
+import { router, usePathname } from 'expo-router';
 import type { ReactNode } from 'react';
 import { Pressable, StyleSheet, View, useWindowDimensions } from 'react-native';
 import { ROLE_LABELS } from '@/shared/roles';
@@ -71,22 +71,23 @@ function NavLink({ item, layout }: { item: NavItem; layout: 'rail' | 'tabs' }) {
   const active = pathname === item.href || pathname.startsWith(`${item.href}/`);
   const color = active ? theme.colors.primary : theme.colors.textMuted;
   return (
-    <Link href={item.href} asChild>
-      <Pressable
-        accessibilityRole="link"
-        accessibilityLabel={item.label}
-        aria-current={active ? 'page' : undefined}
-        style={[
-          layout === 'rail' ? styles.railItem : styles.tabItem,
-          active && { backgroundColor: theme.colors.primarySoft },
-        ]}
-      >
-        <Icon name={item.icon} color={color} size={layout === 'rail' ? 22 : 24} />
-        <Text variant={layout === 'rail' ? 'label' : 'caption'} style={{ color }}>
-          {item.label}
-        </Text>
-      </Pressable>
-    </Link>
+    <Pressable
+      role="link"
+      // react-native-web renders an <a href>, so the link works with a middle click and a screen reader.
+      {...({ href: item.href } as object)}
+      accessibilityLabel={item.label}
+      aria-current={active ? 'page' : undefined}
+      onPress={(e) => {
+        e.preventDefault?.();
+        router.push(item.href);
+      }}
+      style={[layout === 'rail' ? styles.railItem : styles.tabItem, active && { backgroundColor: theme.colors.primarySoft }]}
+    >
+      <Icon name={item.icon} color={color} size={layout === 'rail' ? 22 : 24} />
+      <Text variant={layout === 'rail' ? 'label' : 'caption'} style={{ color }}>
+        {item.label}
+      </Text>
+    </Pressable>
   );
 }
 

@@ -1,0 +1,20 @@
+/** `npm run db:seed`: empty the database and lay the demo down again. */
+import { loadConfig } from '../server/config';
+import { openDatabase } from './client';
+import { resetDatabase, seedDemo, DEMO_ACCOUNTS, DEMO_PASSWORD } from './seed';
+
+async function main() {
+  const config = loadConfig();
+  const database = openDatabase(config.databasePath);
+  resetDatabase(database);
+  await seedDemo(database, { now: new Date(), bcryptCost: config.bcryptCost });
+  database.close();
+  process.stdout.write(`Demo data laid down in ${config.databasePath}.\n`);
+  for (const a of DEMO_ACCOUNTS) process.stdout.write(`  ${a.role.padEnd(9)} ${a.email}\n`);
+  process.stdout.write(`Password for all: ${DEMO_PASSWORD}\n`);
+}
+
+main().catch((err: unknown) => {
+  process.stderr.write(`${err instanceof Error ? err.message : String(err)}\n`);
+  process.exit(1);
+});
