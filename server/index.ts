@@ -6,7 +6,8 @@ import { systemClock } from './clock';
 import { loadConfig } from './config';
 import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
 import { smtpMailer } from './mail/mailer';
-import { startScheduler } from './scheduler';
+import { escalationJob, startScheduler } from './scheduler';
+import { runEscalations } from './services/escalations';
 
 async function main(): Promise<void> {
   const config = loadConfig();
@@ -26,7 +27,9 @@ async function main(): Promise<void> {
   }
   const mailer = smtpMailer({ ...config.smtp, port: smtpPort });
   const app = createApp({ db: database, mailer, clock: systemClock, config, log });
-  const scheduler = startScheduler(app.context);
+  // Escalate what is already overdue at start-up, then keep checking on the scheduler.
+  await runEscalations(app.context, systemClock.now()).catch((err: unknown) => log(`escalations at start-up failed: ${String(err)}`));
+  const scheduler = startScheduler(app.context, [escalationJob(process.env.ESCALATION_INTERVAL_SECONDS)]);
 
   const server = app.listen(config.port, config.host, () => {
     const { port } = server.address() as AddressInfo;

@@ -1,5 +1,5 @@
-import { PlaceholderScreen } from '@/components/screens/placeholder-screen';
+import { BoardScreen } from '@/components/board/board-screen';
 
 export default function BoardRoute() {
-  return <PlaceholderScreen title="Unit board" subtitle="Every bed, most urgent first" body="The board appears here." />;
+  return <BoardScreen />;
 }

@@ -2,7 +2,7 @@ import type { Role } from '@/shared/roles';
 import type { IconName } from '../ui/icon';
 
 export interface NavItem {
-  href: '/infants' | '/board' | '/review' | '/reports' | '/admin' | '/settings';
+  href: '/infants' | '/board' | '/handover' | '/review' | '/reports' | '/admin' | '/settings';
   label: string;
   icon: IconName;
 }
@@ -10,6 +10,7 @@ export interface NavItem {
 const ITEMS: Record<NavItem['href'], NavItem> = {
   '/infants': { href: '/infants', label: 'My infants', icon: 'cot' },
   '/board': { href: '/board', label: 'Board', icon: 'grid' },
+  '/handover': { href: '/handover', label: 'Handover', icon: 'print' },
   '/review': { href: '/review', label: 'Review queue', icon: 'review' },
   '/reports': { href: '/reports', label: 'Reports', icon: 'list' },
   '/admin': { href: '/admin', label: 'Admin', icon: 'users' },
@@ -20,7 +21,7 @@ const ITEMS: Record<NavItem['href'], NavItem> = {
 export function navItemsFor(role: Role): NavItem[] {
   switch (role) {
     case 'nurse':
-      return [ITEMS['/infants'], ITEMS['/board'], ITEMS['/settings']];
+      return [ITEMS['/infants'], ITEMS['/board'], ITEMS['/handover'], ITEMS['/settings']];
     case 'charge':
       return [ITEMS['/board'], { ...ITEMS['/infants'], label: 'Infants' }, ITEMS['/settings']];
     case 'educator':

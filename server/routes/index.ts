@@ -1,12 +1,24 @@
 import type { Router } from 'express';
 import type { AppContext } from '../context';
+import { admissionsRouter } from './admissions';
 import { authRouter } from './auth';
+import { bedsideRouter } from './bedside';
+import { escalationsRouter } from './escalations';
+import { handoverRouter } from './handover';
 import { healthRouter } from './health';
+import { infantsRouter } from './infants';
+import { unitBoardRouter } from './unit-board';
 
 /** Every API router and where it is mounted under /api. Add new resources here. */
 export function apiRouters(ctx: AppContext): Array<[string, Router]> {
   return [
     ['/', healthRouter(ctx)],
     ['/auth', authRouter(ctx)],
+    ['/infants', infantsRouter(ctx)],
+    ['/', bedsideRouter(ctx)],
+    ['/', unitBoardRouter(ctx)],
+    ['/', admissionsRouter(ctx)],
+    ['/', escalationsRouter(ctx)],
+    ['/', handoverRouter(ctx)],
   ];
 }

@@ -68,6 +68,7 @@ export const correctReadingSchema = z.strictObject({
       heartRate: z.number().int().min(30).max(300).nullable().optional(),
       heatSigns: z.array(heatSignSchema).max(5).default([]),
       note: z.string().trim().max(1000).nullable().optional(),
+      confirmedImplausible: z.boolean().default(false),
     })
     .optional(),
 });
@@ -125,3 +126,18 @@ export const endSessionSchema = z.strictObject({ endedAt: isoInstant.optional() 
 export const flowsheetQuerySchema = z.strictObject({
   hours: z.coerce.number().int().refine((h) => [12, 24, 72].includes(h), 'Choose 12, 24 or 72 hours.').default(24),
 });
+
+export const infantListQuerySchema = z.strictObject({
+  unitId: z.string().trim().min(1, 'Choose a unit.').max(100).optional(),
+});
+export type InfantListQuery = z.output<typeof infantListQuerySchema>;
+export type FlowsheetQuery = z.output<typeof flowsheetQuerySchema>;
+export type CorrectReading = z.output<typeof correctReadingSchema>;
+export type CreateAction = z.output<typeof createActionSchema>;
+export type StartSession = z.output<typeof startSessionSchema>;
+export type EndSession = z.output<typeof endSessionSchema>;
+
+/** Minutes a reading's time may lag the clock before it counts as a late entry needing a reason. */
+export const LATE_ENTRY_MINUTES = 10;
+/** Minutes a time may run ahead of the server's clock (phone clocks drift). */
+export const FUTURE_TOLERANCE_MINUTES = 2;

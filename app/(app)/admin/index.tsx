@@ -1,5 +1,5 @@
-import { PlaceholderScreen } from '@/components/screens/placeholder-screen';
+import { AdminHomeScreen } from '@/components/admin/admin-home-screen';
 
 export default function AdminRoute() {
-  return <PlaceholderScreen title="Administration" subtitle="Users, units and beds" body="Administration appears here." />;
+  return <AdminHomeScreen />;
 }

@@ -1,0 +1,34 @@
+import { StyleSheet, View } from 'react-native';
+import { useMailboxQuery } from '@/components/queries/board';
+import { Card } from '@/components/ui/card';
+import { Screen } from '@/components/ui/screen';
+import { EmptyState, ErrorState, LoadingState } from '@/components/ui/state-view';
+import { Text } from '@/components/ui/text';
+
+/** What the local mail catcher received: escalations, invitations, resets. Nothing here left the machine. */
+export function MailboxScreen() {
+  const query = useMailboxQuery();
+  if (query.error && !query.data) return <ErrorState error={query.error} onRetry={() => void query.refetch()} />;
+  if (!query.data) return <LoadingState label="Opening the mailbox…" />;
+  return (
+    <Screen title="Mailbox" subtitle="Mail caught by the local SMTP catcher, newest first" refreshing={query.isRefetching} onRefresh={() => void query.refetch()}>
+      {query.data.length === 0 ? <EmptyState title="No mail yet" message="Escalations and invitations appear here when they are sent." /> : null}
+      {query.data.map((m) => (
+        <Card key={m.id} accessibilityLabel={`Mail: ${m.subject}`}>
+          <Text variant="bodyStrong">{m.subject}</Text>
+          <View style={styles.meta}>
+            <Text variant="caption" tone="muted">
+              To {m.to} · from {m.from} · {new Date(m.receivedAt).toLocaleString()}
+            </Text>
+          </View>
+          <Text style={styles.body}>{m.text}</Text>
+        </Card>
+      ))}
+    </Screen>
+  );
+}
+
+const styles = StyleSheet.create({
+  meta: { flexDirection: 'row', flexWrap: 'wrap' },
+  body: { fontFamily: undefined },
+});

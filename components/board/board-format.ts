@@ -1,0 +1,45 @@
+import type { IconName } from '@/components/ui/icon';
+import type { StatusTone } from '@/components/ui/status-badge';
+import type { FlagKind } from '@/shared/thermal';
+
+export const FLAG_WORDS: Record<FlagKind, { label: string; icon: IconName; tone: StatusTone }> = {
+  gap: { label: 'Gap flag', icon: 'alert', tone: 'danger' },
+  'overdue-check': { label: 'Check overdue', icon: 'clock', tone: 'danger' },
+  'heat-stress': { label: 'Heat-stress prompt', icon: 'flame', tone: 'heat' },
+  'cold-stress': { label: 'Cold stress', icon: 'snow', tone: 'warning' },
+  'manual-mode': { label: 'Manual mode', icon: 'hand', tone: 'warning' },
+  'skin-to-skin-deviation': { label: 'Outside deviation limit', icon: 'hands', tone: 'together' },
+};
+
+/** "2:05" or "1:02:05" for a number of whole seconds. */
+export function clockSpan(totalSeconds: number): string {
+  const s = Math.max(0, Math.floor(totalSeconds));
+  const h = Math.floor(s / 3600);
+  const m = Math.floor((s % 3600) / 60);
+  const sec = String(s % 60).padStart(2, '0');
+  return h > 0 ? `${h}:${String(m).padStart(2, '0')}:${sec}` : `${m}:${sec}`;
+}
+
+/** The countdown to the next remote-site check at `nowMs`. */
+export function countdown(dueAt: string | null, nowMs: number, dueSoonMinutes: number): { text: string; tone: StatusTone; icon: IconName } {
+  if (!dueAt) return { text: 'No check yet', tone: 'neutral', icon: 'clock' };
+  const left = (Date.parse(dueAt) - nowMs) / 1000;
+  if (left < 0) return { text: `Overdue ${clockSpan(-left)}`, tone: 'danger', icon: 'alert' };
+  if (left <= dueSoonMinutes * 60) return { text: `Due in ${clockSpan(left)}`, tone: 'warning', icon: 'clock' };
+  return { text: `Check in ${clockSpan(left)}`, tone: 'ok', icon: 'check' };
+}
+
+/** "4 min ago", "2 h 10 min ago". */
+export function ageOf(iso: string, nowMs: number): string {
+  const minutes = Math.max(0, Math.floor((nowMs - Date.parse(iso)) / 60_000));
+  if (minutes < 60) return `${minutes} min ago`;
+  return `${Math.floor(minutes / 60)} h ${minutes % 60} min ago`;
+}
+
+export function clockTime(iso: string, timeZone: string): string {
+  try {
+    return new Intl.DateTimeFormat('en-GB', { timeZone, hour: '2-digit', minute: '2-digit', hour12: false }).format(new Date(iso));
+  } catch {
+    return new Date(iso).toISOString().slice(11, 16);
+  }
+}

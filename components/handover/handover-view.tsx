@@ -1,0 +1,175 @@
+import { StyleSheet, View, useWindowDimensions } from 'react-native';
+import { Card } from '@/components/ui/card';
+import { StatusBadge } from '@/components/ui/status-badge';
+import { Text } from '@/components/ui/text';
+import { useTheme } from '@/components/theme/theme-provider';
+import { CONTROL_MODE_LABELS, HEAT_SOURCE_LABELS } from '@/shared/schemas/unit';
+import { formatTemperature, type TempUnit } from '@/shared/thermal';
+import type { HandoverInfant, HandoverReading } from '@/shared/types/board';
+import { FLAG_WORDS } from '../board/board-format';
+
+const TABLE_BREAKPOINT = 720;
+
+function when(iso: string, timeZone: string): string {
+  return new Intl.DateTimeFormat('en-GB', { timeZone, day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit', hour12: false }).format(new Date(iso));
+}
+
+const t = (centi: number | null, unit: TempUnit) => (centi === null ? '—' : formatTemperature(centi, unit));
+
+/** One infant's handover: who, settings now, what is outstanding, then the last 12 hours. */
+export function HandoverView({ handover, tempUnit, timeZone }: { handover: HandoverInfant; tempUnit: TempUnit; timeZone: string }) {
+  const { infant, settings, nextCheck } = handover;
+  const open = handover.flags.filter((f) => f.closedAt === null);
+  return (
+    <Card style={styles.card} accessibilityLabel={`Handover for ${infant.displayName}`}>
+      <View style={styles.head}>
+        <Text variant="heading">
+          {infant.bedLabel ?? '—'} · {infant.displayName}
+        </Text>
+        <Text tone="muted">
+          {infant.gestationWeeks}+{infant.gestationDays} weeks at birth · {infant.weightGrams} g · {HEAT_SOURCE_LABELS[infant.heatSource]} · nurse {handover.nurse?.name ?? 'unassigned'}
+        </Text>
+        <Text variant="caption" tone="muted">
+          {when(handover.from, timeZone)} to {when(handover.to, timeZone)} ({timeZone})
+        </Text>
+      </View>
+
+      <View data-print-block style={styles.section}>
+        <Text variant="title">Settings now</Text>
+        <Text>
+          {settings.controlMode ? CONTROL_MODE_LABELS[settings.controlMode] : 'Mode not charted'} · set {t(settings.setCenti, tempUnit)}
+          {settings.heaterOutputPct !== null ? ` · heater ${settings.heaterOutputPct} %` : ''} · probe {t(settings.probeCenti, tempUnit)} · remote site {t(settings.remoteCenti, tempUnit)}
+        </Text>
+      </View>
+
+      <View style={styles.section}>
+        <Text variant="title">Outstanding</Text>
+        <View style={styles.badges}>
+          <StatusBadge
+            tone={nextCheck.status === 'overdue' ? 'danger' : nextCheck.status === 'due-soon' ? 'warning' : 'ok'}
+            icon="clock"
+            label={
+              nextCheck.dueAt
+                ? nextCheck.status === 'overdue'
+                  ? `Remote-site check overdue since ${when(nextCheck.dueAt, timeZone)}`
+                  : `Next remote-site check due ${when(nextCheck.dueAt, timeZone)}`
+                : 'No remote-site check charted'
+            }
+          />
+          {open.map((f) => (
+            <StatusBadge key={f.id} tone={FLAG_WORDS[f.kind].tone} icon={FLAG_WORDS[f.kind].icon} label={`${FLAG_WORDS[f.kind].label} since ${when(f.raisedAt, timeZone)}`} />
+          ))}
+        </View>
+      </View>
+
+      <View style={styles.section}>
+        <Text variant="title">Readings ({handover.readings.length})</Text>
+        {handover.readings.length === 0 ? <Text tone="muted">No readings in the last 12 hours.</Text> : <ReadingsTable readings={handover.readings} tempUnit={tempUnit} timeZone={timeZone} />}
+      </View>
+
+      <View style={styles.section}>
+        <Text variant="title">Flags and actions</Text>
+        {handover.flags.length === 0 ? <Text tone="muted">No flags in the last 12 hours.</Text> : null}
+        {handover.flags.map((f) => (
+          <View key={f.id} data-print-block style={styles.flag}>
+            <Text variant="bodyStrong">
+              {FLAG_WORDS[f.kind].label}: raised {when(f.raisedAt, timeZone)}
+              {f.closedAt ? `, closed ${when(f.closedAt, timeZone)} (${f.how})` : ', still open'}
+              {f.escalatedAt ? ` · escalated ${when(f.escalatedAt, timeZone)}${f.acknowledgedAt ? ', acknowledged' : ''}` : ''}
+            </Text>
+            {f.actions.map((a, i) => (
+              <Text key={i} variant="caption" tone="muted">
+                {when(a.at, timeZone)} · {a.kind.replace(/-/g, ' ')}
+                {a.note ? `: ${a.note}` : ''} · {a.by}
+              </Text>
+            ))}
+          </View>
+        ))}
+      </View>
+
+      <View style={styles.section}>
+        <Text variant="title">Skin-to-skin sessions</Text>
+        {handover.sessions.length === 0 ? <Text tone="muted">None in the last 12 hours.</Text> : null}
+        {handover.sessions.map((s) => (
+          <Text key={s.id}>
+            {when(s.startedAt, timeZone)} to {s.endedAt ? when(s.endedAt, timeZone) : 'now'} · reference {t(s.referenceCenti, tempUnit)}, deviation limit {(s.limitCenti / 100).toFixed(1)} °C
+            {s.carer ? ` · with ${s.carer}` : ''}
+          </Text>
+        ))}
+      </View>
+    </Card>
+  );
+}
+
+function ReadingsTable({ readings, tempUnit, timeZone }: { readings: HandoverReading[]; tempUnit: TempUnit; timeZone: string }) {
+  const { width } = useWindowDimensions();
+  const { colors } = useTheme();
+  const rows = [...readings].reverse();
+  if (width < TABLE_BREAKPOINT) {
+    return (
+      <View style={styles.lines}>
+        {rows.map((r) => (
+          <View key={r.id} style={[styles.line, { borderBottomColor: colors.border }]}>
+            <Text variant="bodyStrong">{when(r.takenAt, timeZone)}</Text>
+            <Text>
+              probe {t(r.probeCenti, tempUnit)} · remote {t(r.remoteCenti, tempUnit)}
+              {r.remoteSite ? ` (${r.remoteSite})` : ''} · set {t(r.setCenti, tempUnit)}
+              {r.controlMode ? ` ${CONTROL_MODE_LABELS[r.controlMode].toLowerCase()}` : ''}
+              {r.heartRate !== null ? ` · HR ${r.heartRate}` : ''}
+            </Text>
+            {r.note ? (
+              <Text variant="caption" tone="muted">
+                {r.note}
+              </Text>
+            ) : null}
+          </View>
+        ))}
+      </View>
+    );
+  }
+  const head = ['Time', 'Probe', 'Remote site', 'Air', 'Set', 'Mode', 'Heater', 'HR', 'Note', 'By'];
+  return (
+    <View role="table" aria-label="Readings, newest first">
+      <View role="row" style={[styles.tr, { borderBottomColor: colors.text }]}>
+        {head.map((h, i) => (
+          <Text key={h} role="columnheader" variant="label" style={[styles.td, i === 8 && styles.wide]}>
+            {h}
+          </Text>
+        ))}
+      </View>
+      {rows.map((r) => (
+        <View key={r.id} role="row" style={[styles.tr, { borderBottomColor: colors.border }]} data-print-block>
+          {[
+            when(r.takenAt, timeZone),
+            t(r.probeCenti, tempUnit),
+            `${t(r.remoteCenti, tempUnit)}${r.remoteSite ? ` ${r.remoteSite}` : ''}`,
+            t(r.airCenti, tempUnit),
+            t(r.setCenti, tempUnit),
+            r.controlMode ? CONTROL_MODE_LABELS[r.controlMode] : '—',
+            r.heaterOutputPct !== null ? `${r.heaterOutputPct} %` : '—',
+            r.heartRate !== null ? String(r.heartRate) : '—',
+            [r.heatSigns.join(', '), r.note ?? ''].filter(Boolean).join(' · ') || '',
+            r.recordedBy,
+          ].map((cell, i) => (
+            <Text key={i} role="cell" variant="caption" style={[styles.td, i === 8 && styles.wide]}>
+              {cell}
+            </Text>
+          ))}
+        </View>
+      ))}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  card: { gap: 16 },
+  head: { gap: 4 },
+  section: { gap: 6 },
+  badges: { flexDirection: 'row', flexWrap: 'wrap', gap: 6 },
+  flag: { gap: 2 },
+  lines: { gap: 0 },
+  line: { paddingVertical: 6, borderBottomWidth: 1, gap: 2 },
+  tr: { flexDirection: 'row', borderBottomWidth: 1, paddingVertical: 4, gap: 6 },
+  td: { flex: 1, minWidth: 0 },
+  wide: { flex: 2.5 },
+});

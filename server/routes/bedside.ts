@@ -1,0 +1,235 @@
+import { writeTx } from '../../db/client';
+import { correctReadingSchema, createActionSchema, endSessionSchema, type CorrectReading, type CreateAction, type EndSession } from '../../shared/schemas/bedside';
+import { appendAudit } from '../audit';
+import type { AppContext } from '../context';
+import { ApiError, badRequest, conflict, notFound } from '../errors';
+import { allow, assertUnit, secureRouter } from '../middleware/access';
+import { valid, validate } from '../middleware/validate';
+import {
+  checkTakenAt,
+  convertAndCheck,
+  insertReading,
+  loadReading,
+  loadSession,
+  readingJson,
+  requestHash,
+  sessionJson,
+  type NewReadingRow,
+} from '../services/bedside';
+import { syncFlags } from '../services/flags';
+import { nextCheckJson, openFlagJson } from '../services/summaries';
+
+type IdParams = { id: string };
+
+/** Corrections, flag actions and the end of a skin-to-skin session: records reached by their own id. */
+export function bedsideRouter(ctx: AppContext) {
+  const router = secureRouter();
+  const { sqlite } = ctx.database;
+
+  const evaluationBody = (infantId: string, sync: ReturnType<typeof syncFlags>) => {
+    const ids = new Map((sqlite.prepare('SELECT id, key FROM flags WHERE infant_id = ?').all(infantId) as Array<{ id: string; key: string }>).map((f) => [f.key, f.id]));
+    return {
+      openFlags: sync.evaluation.openFlags.map((f) => openFlagJson(f, ids.get(f.key) ?? null, false)),
+      nextCheck: nextCheckJson(sync.evaluation.nextCheck),
+      raisedFlagIds: sync.raised,
+      closedFlagIds: sync.closed,
+    };
+  };
+
+  /** A correction is a new version of the reading; only the current version can be corrected. */
+  router.post('/readings/:id/corrections', allow(ctx, 'chart:write'), validate('body', correctReadingSchema), (req, res) => {
+    const { id: readingId } = req.params as IdParams;
+    const input = valid<CorrectReading>(req, 'body');
+    const original = loadReading(sqlite, readingId);
+    if (!original) throw notFound('That reading');
+    assertUnit(req, original.unit_id);
+    const auth = req.auth!;
+    const now = ctx.clock.now();
+    const hash = requestHash({ ...input, replacesId: readingId });
+
+    const replay = () => {
+      const existing = loadReading(sqlite, input.id);
+      if (!existing) return null;
+      if (existing.request_hash !== hash) throw conflict('A different record was already saved with this id.', { id: 'This id belongs to another record.' });
+      return existing;
+    };
+    const already = replay();
+    let row: NewReadingRow | null = null;
+    if (!already) {
+      const infant = sqlite.prepare('SELECT status, admitted_at FROM infants WHERE id = ?').get(original.infant_id) as { status: string; admitted_at: number };
+      if (infant.status !== 'admitted') throw conflict('This infant has been discharged; the chart is closed.');
+      if (input.reason === 'corrected-value' && !input.values) {
+        throw badRequest('Enter the corrected values.', { values: 'Enter the corrected values.' });
+      }
+      const base: NewReadingRow = {
+        id: input.id,
+        infantId: original.infant_id,
+        unitId: original.unit_id,
+        takenAt: original.taken_at,
+        recordedAt: now.getTime(),
+        recordedBy: auth.userId,
+        probeCenti: original.probe_centi,
+        remoteCenti: original.remote_centi,
+        remoteSite: original.remote_site,
+        airCenti: original.air_centi,
+        setCenti: original.set_centi,
+        controlMode: original.control_mode,
+        heaterOutputPct: original.heater_output_pct,
+        heartRate: original.heart_rate,
+        heatSigns: JSON.parse(original.heat_signs) as string[],
+        note: original.note,
+        enteredUnit: original.entered_unit,
+        lateReason: original.late_reason,
+        sessionId: original.session_id,
+        replacesId: original.id,
+        correctionReason: input.reason,
+        correctionNote: input.note,
+        enteredInError: input.reason === 'entered-in-error',
+        requestHash: hash,
+      };
+      if (input.values && input.reason !== 'entered-in-error') {
+        const v = input.values;
+        const converted = convertAndCheck(v, v.confirmedImplausible, 'values.');
+        if (v.remote != null && !v.remoteSite) throw badRequest('Choose the remote site.', { 'values.remoteSite': 'Choose where the remote-site temperature was taken.' });
+        if (v.probe == null && v.remote == null && v.air == null && v.heartRate == null) {
+          throw badRequest('Enter at least one temperature or the heart rate.', { 'values.probe': 'Enter at least one temperature or the heart rate.' });
+        }
+        const takenAt = v.takenAt ? Date.parse(v.takenAt) : original.taken_at;
+        if (v.takenAt) checkTakenAt(new Date(takenAt), now, infant.admitted_at, input.reason === 'late-entry' ? input.note : original.late_reason ?? input.note, 'values.takenAt');
+        row = {
+          ...base,
+          ...converted,
+          takenAt,
+          remoteSite: v.remote == null ? null : (v.remoteSite ?? null),
+          controlMode: v.controlMode ?? null,
+          heaterOutputPct: v.heaterOutputPct ?? null,
+          heartRate: v.heartRate ?? null,
+          heatSigns: v.heatSigns,
+          note: v.note || null,
+          enteredUnit: v.unit,
+          lateReason: input.reason === 'late-entry' ? input.note : original.late_reason,
+        };
+      } else {
+        row = base;
+      }
+    }
+
+    const result = writeTx(sqlite, () => {
+      if (replay()) return { created: false, sync: syncFlags(sqlite, original.infant_id, now, auth.userId) };
+      const newer = sqlite.prepare('SELECT id FROM readings WHERE replaces_id = ?').get(readingId) as { id: string } | undefined;
+      if (newer) {
+        throw new ApiError(409, 'conflict', 'This version has already been corrected. Correct the latest version instead.', { replacesId: newer.id });
+      }
+      insertReading(sqlite, row!);
+      appendAudit(sqlite, {
+        at: now,
+        actorId: auth.userId,
+        action: 'reading-correct',
+        entityType: 'reading',
+        entityId: row!.id,
+        unitId: original.unit_id,
+        before: readingJson(original),
+        after: { ...row!, requestHash: undefined },
+      });
+      return { created: true, sync: syncFlags(sqlite, original.infant_id, now, auth.userId) };
+    });
+    res.status(result.created ? 201 : 200).json({
+      reading: readingJson(loadReading(sqlite, input.id)!),
+      created: result.created,
+      ...evaluationBody(original.infant_id, result.sync),
+    });
+  });
+
+  /** Something done about a flag. Idempotent by the client's id. */
+  router.post('/flags/:id/actions', allow(ctx, 'chart:write'), validate('body', createActionSchema), (req, res) => {
+    const { id: flagId } = req.params as IdParams;
+    const input = valid<CreateAction>(req, 'body');
+    const flag = sqlite
+      .prepare('SELECT f.id, f.infant_id, f.unit_id, f.key, f.raised_at, r.flag_id AS resolved FROM flags f LEFT JOIN flag_resolutions r ON r.flag_id = f.id WHERE f.id = ?')
+      .get(flagId) as { id: string; infant_id: string; unit_id: string; key: string; raised_at: number; resolved: string | null } | undefined;
+    if (!flag) throw notFound('That flag');
+    assertUnit(req, flag.unit_id);
+    const auth = req.auth!;
+    const now = ctx.clock.now();
+    const at = input.at ? new Date(input.at) : now;
+    const loadAction = () =>
+      sqlite.prepare('SELECT a.*, u.name FROM actions a JOIN users u ON u.id = a.recorded_by WHERE a.id = ?').get(input.id) as
+        | { id: string; flag_id: string; kind: string; note: string | null; at: number; recorded_by: string; name: string }
+        | undefined;
+    const same = (a: NonNullable<ReturnType<typeof loadAction>>) => {
+      if (a.flag_id !== flagId || a.kind !== input.kind || (a.note ?? null) !== (input.note || null) || (input.at && a.at !== at.getTime())) {
+        throw conflict('A different action was already saved with this id.', { id: 'This id belongs to another action.' });
+      }
+      return a;
+    };
+    const existing = loadAction();
+    if (!existing) {
+      if (flag.resolved) throw conflict('This flag has already closed.', { flag: 'Closed.' });
+      if (at.getTime() > now.getTime() + 2 * 60_000) throw badRequest('The time is in the future.', { at: 'The time cannot be in the future.' });
+      if (at.getTime() < flag.raised_at) throw badRequest('The time is before the flag was raised.', { at: 'The time is before the flag was raised.' });
+    }
+    const result = writeTx(sqlite, () => {
+      const again = loadAction();
+      if (again) return { created: false, sync: syncFlags(sqlite, flag.infant_id, now, auth.userId) };
+      sqlite
+        .prepare('INSERT INTO actions (id, flag_id, infant_id, unit_id, kind, note, at, recorded_by, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)')
+        .run(input.id, flagId, flag.infant_id, flag.unit_id, input.kind, input.note || null, at.getTime(), auth.userId, now.getTime());
+      appendAudit(sqlite, {
+        at: now,
+        actorId: auth.userId,
+        action: 'flag-action',
+        entityType: 'action',
+        entityId: input.id,
+        unitId: flag.unit_id,
+        after: { flagId, flagKey: flag.key, kind: input.kind, note: input.note ?? null, at: at.toISOString() },
+      });
+      return { created: true, sync: syncFlags(sqlite, flag.infant_id, now, auth.userId) };
+    });
+    const a = same(loadAction()!);
+    const evaluated = result.sync.evaluation.flags.find((f) => f.key === flag.key);
+    res.status(result.created ? 201 : 200).json({
+      action: { id: a.id, flagId: a.flag_id, kind: a.kind, note: a.note, at: new Date(a.at).toISOString(), recordedBy: { id: a.recorded_by, name: a.name } },
+      created: result.created,
+      flag: evaluated
+        ? { id: flagId, key: flag.key, status: evaluated.status, recheckDueAt: evaluated.recheckDueAt ? evaluated.recheckDueAt.toISOString() : null }
+        : { id: flagId, key: flag.key, status: 'closed', recheckDueAt: null },
+      ...evaluationBody(flag.infant_id, result.sync),
+    });
+  });
+
+  /** End a skin-to-skin session. Ending an ended session answers with it, unchanged. */
+  router.post('/skin-to-skin/:id/end', allow(ctx, 'chart:write'), validate('body', endSessionSchema), (req, res) => {
+    const { id } = req.params as IdParams;
+    const input = valid<EndSession>(req, 'body');
+    const session = loadSession(sqlite, id);
+    if (!session) throw notFound('That skin-to-skin session');
+    assertUnit(req, session.unit_id);
+    const auth = req.auth!;
+    const now = ctx.clock.now();
+    if (session.ended_at !== null) {
+      res.status(200).json({ session: sessionJson(session), created: false });
+      return;
+    }
+    const endedAt = input.endedAt ? new Date(input.endedAt) : now;
+    if (endedAt.getTime() > now.getTime() + 2 * 60_000) throw badRequest('The end time is in the future.', { endedAt: 'The time cannot be in the future.' });
+    if (endedAt.getTime() < session.started_at) throw badRequest('The end time is before the start.', { endedAt: 'The end is before the start.' });
+    writeTx(sqlite, () => {
+      const changed = sqlite.prepare('UPDATE skin_to_skin_sessions SET ended_at = ?, ended_by = ? WHERE id = ? AND ended_at IS NULL').run(endedAt.getTime(), auth.userId, id);
+      if (changed.changes === 0) return;
+      appendAudit(sqlite, {
+        at: now,
+        actorId: auth.userId,
+        action: 'skin-to-skin-end',
+        entityType: 'skin-to-skin-session',
+        entityId: id,
+        unitId: session.unit_id,
+        before: { endedAt: null },
+        after: { endedAt: endedAt.toISOString() },
+      });
+      syncFlags(sqlite, session.infant_id, now, auth.userId);
+    });
+    res.status(200).json({ session: sessionJson(loadSession(sqlite, id)!), created: true });
+  });
+
+  return router;
+}

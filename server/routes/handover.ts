@@ -1,0 +1,59 @@
+import { writeTx } from '../../db/client';
+import type { HandoverResponse } from '../../shared/types/board';
+import { appendAudit } from '../audit';
+import type { AppContext } from '../context';
+import { notFound } from '../errors';
+import { allow, assertUnit, secureRouter } from '../middleware/access';
+import { loadInfant } from '../services/admissions';
+import { buildHandover, handoverCsv, myInfantIds } from '../services/handover';
+
+/** The shift handover: one infant, all of mine, and one infant's readings as CSV. */
+export function handoverRouter(ctx: AppContext) {
+  const router = secureRouter();
+  const { sqlite } = ctx.database;
+
+  const audit = (actorId: string, infantId: string, unitId: string, action: string) =>
+    appendAudit(sqlite, { at: ctx.clock.now(), actorId, action, entityType: 'infant', entityId: infantId, unitId });
+
+  router.get('/nurses/me/handover', allow(ctx, 'chart:read'), (req, res) => {
+    const auth = req.auth!;
+    const now = ctx.clock.now();
+    const infants = myInfantIds(ctx, auth.userId, auth.unitIds, now)
+      .map((id) => buildHandover(ctx, id, now))
+      .filter((h) => h !== null);
+    infants.sort((a, b) => (a.infant.bedLabel ?? '').localeCompare(b.infant.bedLabel ?? ''));
+    writeTx(sqlite, () => {
+      for (const h of infants) audit(auth.userId, h.infant.id, loadInfant(ctx, h.infant.id).unit_id, 'handover-read');
+    });
+    const body: HandoverResponse = { generatedAt: now.toISOString(), infants };
+    res.json(body);
+  });
+
+  router.get('/infants/:id/handover', allow(ctx, 'chart:read'), (req, res) => {
+    const infant = loadInfant(ctx, (req.params as { id: string }).id);
+    assertUnit(req, infant.unit_id);
+    const now = ctx.clock.now();
+    const handover = buildHandover(ctx, infant.id, now);
+    if (!handover) throw notFound('That infant');
+    writeTx(sqlite, () => audit(req.auth!.userId, infant.id, infant.unit_id, 'handover-read'));
+    const body: HandoverResponse = { generatedAt: now.toISOString(), infants: [handover] };
+    res.json(body);
+  });
+
+  router.get('/infants/:id/handover.csv', allow(ctx, 'chart:read'), (req, res) => {
+    const infant = loadInfant(ctx, (req.params as { id: string }).id);
+    assertUnit(req, infant.unit_id);
+    const now = ctx.clock.now();
+    const handover = buildHandover(ctx, infant.id, now);
+    if (!handover) throw notFound('That infant');
+    const user = sqlite.prepare('SELECT temp_unit FROM users WHERE id = ?').get(req.auth!.userId) as { temp_unit: 'C' | 'F' } | undefined;
+    const unit = sqlite.prepare('SELECT time_zone FROM units WHERE id = ?').get(infant.unit_id) as { time_zone: string };
+    writeTx(sqlite, () => audit(req.auth!.userId, infant.id, infant.unit_id, 'handover-export'));
+    const safeName = handover.infant.displayName.replace(/[^A-Za-z0-9-]+/g, '-').replace(/^-|-$/g, '') || 'infant';
+    res.set('Content-Type', 'text/csv; charset=utf-8');
+    res.set('Content-Disposition', `attachment; filename="handover-${safeName}-${now.toISOString().slice(0, 10)}.csv"`);
+    res.send(handoverCsv(handover, user?.temp_unit ?? 'C', unit.time_zone));
+  });
+
+  return router;
+}

@@ -1,0 +1,277 @@
+import { writeTx } from '../../db/client';
+import {
+  createReadingSchema,
+  flowsheetQuerySchema,
+  infantListQuerySchema,
+  startSessionSchema,
+  type CreateReading,
+  type FlowsheetQuery,
+  type InfantListQuery,
+  type StartSession,
+} from '../../shared/schemas/bedside';
+import { checkPlausibility, toCentiCelsius } from '../../shared/thermal';
+import { shiftAt } from '../../shared/shifts';
+import type { CreateReadingResult, Flowsheet, InfantDetail } from '../../shared/types/bedside';
+import { appendAudit } from '../audit';
+import type { AppContext } from '../context';
+import { ApiError, badRequest, conflict } from '../errors';
+import { allow, assertUnit, secureRouter } from '../middleware/access';
+import { valid, validate } from '../middleware/validate';
+import {
+  checkTakenAt,
+  convertAndCheck,
+  flowsheetFlags,
+  insertReading,
+  loadInfantFor,
+  loadReading,
+  loadSession,
+  READING_SELECT,
+  readingChains,
+  readingJson,
+  requestHash,
+  requireAdmitted,
+  sessionAt,
+  sessionJson,
+  type StoredReading,
+} from '../services/bedside';
+import { loadUnitRow, policyForUnit, syncFlags, type UnitRow } from '../services/flags';
+import { nextCheckJson, openFlagJson, summarizeInfants } from '../services/summaries';
+
+type IdParams = { id: string };
+
+export function infantsRouter(ctx: AppContext) {
+  const router = secureRouter();
+  const { sqlite } = ctx.database;
+
+  /** The signed-in nurse's infants for the current shift (the latest assignment row wins). */
+  router.get('/mine', allow(ctx, 'chart:read'), (req, res) => {
+    const auth = req.auth!;
+    const now = ctx.clock.now();
+    const ids: string[] = [];
+    for (const unitId of auth.unitIds) {
+      const unit = loadUnitRow(sqlite, unitId);
+      if (!unit) continue;
+      const slot = shiftAt(now, { dayShiftStart: unit.day_shift_start, nightShiftStart: unit.night_shift_start, timeZone: unit.time_zone });
+      const rows = sqlite
+        .prepare(
+          `SELECT a.infant_id, a.nurse_id FROM assignments a JOIN infants i ON i.id = a.infant_id LEFT JOIN beds b ON b.id = i.bed_id
+            WHERE a.unit_id = ? AND a.shift_date = ? AND a.shift = ? AND i.status = 'admitted'
+            ORDER BY a.created_at, a.id`,
+        )
+        .all(unitId, slot.shiftDate, slot.shift) as Array<{ infant_id: string; nurse_id: string }>;
+      const latest = new Map<string, string>();
+      for (const r of rows) latest.set(r.infant_id, r.nurse_id);
+      for (const [infantId, nurseId] of latest) if (nurseId === auth.userId) ids.push(infantId);
+    }
+    const ordered = orderByBed(ids);
+    res.json({ infants: summarizeInfants(sqlite, ordered, now) });
+  });
+
+  /** Every admitted infant of one of my units, or of all of them. */
+  router.get('/', allow(ctx, 'chart:read'), validate('query', infantListQuerySchema), (req, res) => {
+    const { unitId } = valid<InfantListQuery>(req, 'query');
+    if (unitId) assertUnit(req, unitId);
+    const unitIds = unitId ? [unitId] : req.auth!.unitIds;
+    const rows = sqlite
+      .prepare(
+        `SELECT i.id FROM infants i LEFT JOIN beds b ON b.id = i.bed_id
+          WHERE i.unit_id IN (SELECT value FROM json_each(?)) AND i.status = 'admitted'
+          ORDER BY i.unit_id, b.sort_order, b.label, i.display_name`,
+      )
+      .all(JSON.stringify(unitIds)) as Array<{ id: string }>;
+    res.json({ infants: summarizeInfants(sqlite, rows.map((r) => r.id), ctx.clock.now()) });
+  });
+
+  router.get('/:id', allow(ctx, 'chart:read'), (req, res) => {
+    const { id } = req.params as IdParams;
+    const infant = loadInfantFor(sqlite, req, id);
+    const now = ctx.clock.now();
+    const unit = loadUnitRow(sqlite, infant.unit_id)! as UnitRow & { name: string };
+    writeTx(sqlite, () => {
+      if (infant.status === 'admitted') syncFlags(sqlite, id, now, null);
+      appendAudit(sqlite, { at: now, actorId: req.auth!.userId, action: 'chart-read', entityType: 'infant', entityId: id, unitId: infant.unit_id, after: { view: 'summary' } });
+    });
+    const [summary] = summarizeInfants(sqlite, [id], now);
+    const last = (column: string) =>
+      (sqlite.prepare(`SELECT ${column} AS v FROM readings r WHERE infant_id = ? AND ${column} IS NOT NULL AND entered_in_error = 0 AND NOT EXISTS (SELECT 1 FROM readings y WHERE y.replaces_id = r.id) ORDER BY taken_at DESC, recorded_at DESC LIMIT 1`).get(id) as { v: unknown } | undefined)?.v ?? null;
+    const detail: InfantDetail = {
+      infant: summary!,
+      birthAt: new Date(infant.birth_at).toISOString(),
+      birthWeightGrams: infant.birth_weight_grams,
+      admittedAt: new Date(infant.admitted_at).toISOString(),
+      unitName: unit.name,
+      timeZone: unit.time_zone,
+      defaults: {
+        controlMode: summary!.controlMode,
+        setCenti: summary!.setCenti,
+        remoteSite: last('remote_site') as InfantDetail['defaults']['remoteSite'],
+      },
+    };
+    res.json(detail);
+  });
+
+  router.get('/:id/flowsheet', allow(ctx, 'chart:read'), validate('query', flowsheetQuerySchema), (req, res) => {
+    const { id } = req.params as IdParams;
+    const { hours } = valid<FlowsheetQuery>(req, 'query');
+    const infant = loadInfantFor(sqlite, req, id);
+    const now = ctx.clock.now();
+    const fromMs = now.getTime() - hours * 3_600_000;
+    const unit = loadUnitRow(sqlite, infant.unit_id)!;
+    const policy = policyForUnit(unit);
+    const sync = writeTx(sqlite, () => {
+      const result = syncFlags(sqlite, id, now, null);
+      appendAudit(sqlite, { at: now, actorId: req.auth!.userId, action: 'chart-read', entityType: 'infant', entityId: id, unitId: infant.unit_id, after: { view: 'flowsheet', hours } });
+      return result;
+    });
+    const rows = sqlite.prepare(`${READING_SELECT} WHERE r.infant_id = ? ORDER BY r.taken_at, r.recorded_at`).all(id) as StoredReading[];
+    const chains = readingChains(rows).filter((c) => Date.parse(c.takenAt) >= fromMs || c.history.some((h) => Date.parse(h.takenAt) >= fromMs));
+    const sessions = sqlite
+      .prepare(
+        `SELECT s.*, u.name AS started_by_name FROM skin_to_skin_sessions s JOIN users u ON u.id = s.started_by
+          WHERE s.infant_id = ? AND (s.ended_at IS NULL OR s.ended_at >= ?) ORDER BY s.started_at DESC`,
+      )
+      .all(id, fromMs) as Parameters<typeof sessionJson>[0][];
+    const [summary] = summarizeInfants(sqlite, [id], now);
+    const body: Flowsheet = {
+      infant: summary!,
+      hours,
+      from: new Date(fromMs).toISOString(),
+      to: now.toISOString(),
+      readings: chains.filter((c) => !c.enteredInError),
+      removed: chains.filter((c) => c.enteredInError),
+      flags: flowsheetFlags(sqlite, id, sync.evaluation, fromMs, now, policy),
+      sessions: sessions.map(sessionJson),
+      nextCheck: nextCheckJson(sync.evaluation.nextCheck),
+      policy: {
+        checkIntervalMinutes: policy.checkIntervalMinutes,
+        dueSoonMinutes: policy.dueSoonMinutes,
+        gapLimitCenti: policy.gapLimitCenti,
+        recheckMinutes: policy.recheckMinutes,
+        escalationDelayMinutes: policy.escalationDelayMinutes,
+        timeZone: policy.timeZone,
+      },
+    };
+    res.json(body);
+  });
+
+  /** Record a reading. Idempotent by the client's id: a retry returns the stored reading. */
+  router.post('/:id/readings', allow(ctx, 'chart:write'), validate('body', createReadingSchema), (req, res) => {
+    const { id: infantId } = req.params as IdParams;
+    const input = valid<CreateReading>(req, 'body');
+    const infant = loadInfantFor(sqlite, req, infantId);
+    const auth = req.auth!;
+    const now = ctx.clock.now();
+    const hash = requestHash({ ...input, infantId });
+
+    const replay = () => {
+      const existing = loadReading(sqlite, input.id);
+      if (!existing) return null;
+      if (existing.request_hash !== hash || existing.infant_id !== infantId) {
+        throw conflict('A different reading was already saved with this id.', { id: 'This id belongs to another reading.' });
+      }
+      return existing;
+    };
+    const already = replay();
+    if (!already) requireAdmitted(infant);
+    const converted = already ? null : convertAndCheck(input, input.confirmedImplausible);
+    const takenAt = input.takenAt ? new Date(input.takenAt) : now;
+    if (!already) checkTakenAt(takenAt, now, infant.admitted_at, input.lateReason);
+
+    const result = writeTx(sqlite, () => {
+      const again = replay();
+      if (again) return { created: false, sync: syncFlags(sqlite, infantId, now, auth.userId) };
+      const row = {
+        id: input.id,
+        infantId,
+        unitId: infant.unit_id,
+        takenAt: takenAt.getTime(),
+        recordedAt: now.getTime(),
+        recordedBy: auth.userId,
+        ...converted!,
+        remoteSite: input.remote == null ? null : (input.remoteSite ?? null),
+        controlMode: input.controlMode ?? null,
+        heaterOutputPct: input.heaterOutputPct ?? null,
+        heartRate: input.heartRate ?? null,
+        heatSigns: input.heatSigns,
+        note: input.note || null,
+        enteredUnit: input.unit,
+        lateReason: input.lateReason || null,
+        sessionId: sessionAt(sqlite, infantId, takenAt.getTime()),
+        replacesId: null,
+        correctionReason: null,
+        correctionNote: null,
+        enteredInError: false,
+        requestHash: hash,
+      };
+      insertReading(sqlite, row);
+      appendAudit(sqlite, { at: now, actorId: auth.userId, action: 'reading-create', entityType: 'reading', entityId: row.id, unitId: infant.unit_id, after: { ...row, requestHash: undefined } });
+      return { created: true, sync: syncFlags(sqlite, infantId, now, auth.userId) };
+    });
+    const stored = loadReading(sqlite, input.id)!;
+    const stored_ = new Map(
+      (sqlite.prepare('SELECT id, key FROM flags WHERE infant_id = ?').all(infantId) as Array<{ id: string; key: string }>).map((f) => [f.key, f.id]),
+    );
+    const body: CreateReadingResult = {
+      reading: readingJson(stored),
+      created: result.created,
+      openFlags: result.sync.evaluation.openFlags.map((f) => openFlagJson(f, stored_.get(f.key) ?? null, false)),
+      nextCheck: nextCheckJson(result.sync.evaluation.nextCheck),
+      raisedFlagIds: result.sync.raised,
+      closedFlagIds: result.sync.closed,
+    };
+    res.status(result.created ? 201 : 200).json(body);
+  });
+
+  /** Start a skin-to-skin session; one at a time per infant. Idempotent by the client's id. */
+  router.post('/:id/skin-to-skin', allow(ctx, 'chart:write'), validate('body', startSessionSchema), (req, res) => {
+    const { id: infantId } = req.params as IdParams;
+    const input = valid<StartSession>(req, 'body');
+    const infant = loadInfantFor(sqlite, req, infantId);
+    const auth = req.auth!;
+    const now = ctx.clock.now();
+    const existing = loadSession(sqlite, input.id);
+    if (existing) {
+      if (existing.infant_id !== infantId) throw conflict('This id belongs to another session.', { id: 'Already used.' });
+      res.status(200).json({ session: sessionJson(existing) });
+      return;
+    }
+    requireAdmitted(infant);
+    const referenceCenti = toCentiCelsius(input.reference, input.unit, 'reference');
+    const check = checkPlausibility('remote', referenceCenti, input.unit);
+    if (check.result === 'refuse') throw badRequest(check.reason, { reference: check.reason });
+    const startedAt = input.startedAt ? new Date(input.startedAt) : now;
+    if (startedAt.getTime() > now.getTime() + 2 * 60_000) throw badRequest('The start time is in the future.', { startedAt: 'The time cannot be in the future.' });
+    if (now.getTime() - startedAt.getTime() > 12 * 3_600_000) throw badRequest('The start time is too far back.', { startedAt: 'Start a session within the last 12 hours.' });
+    writeTx(sqlite, () => {
+      const running = sqlite.prepare('SELECT id FROM skin_to_skin_sessions WHERE infant_id = ? AND ended_at IS NULL').get(infantId) as { id: string } | undefined;
+      if (running) throw new ApiError(409, 'conflict', 'A skin-to-skin session is already running. End it before starting another.', { id: running.id });
+      sqlite
+        .prepare('INSERT INTO skin_to_skin_sessions (id, infant_id, unit_id, started_at, started_by, reference_centi, limit_centi, carer) VALUES (?, ?, ?, ?, ?, ?, ?, ?)')
+        .run(input.id, infantId, infant.unit_id, startedAt.getTime(), auth.userId, referenceCenti, input.limitCenti, input.carer || null);
+      appendAudit(sqlite, {
+        at: now,
+        actorId: auth.userId,
+        action: 'skin-to-skin-start',
+        entityType: 'skin-to-skin-session',
+        entityId: input.id,
+        unitId: infant.unit_id,
+        after: { infantId, startedAt: startedAt.toISOString(), referenceCenti, limitCenti: input.limitCenti, carer: input.carer ?? null },
+      });
+      syncFlags(sqlite, infantId, now, auth.userId);
+    });
+    res.status(201).json({ session: sessionJson(loadSession(sqlite, input.id)!) });
+  });
+
+  function orderByBed(ids: string[]): string[] {
+    if (ids.length === 0) return ids;
+    const rows = sqlite
+      .prepare(
+        `SELECT i.id FROM infants i LEFT JOIN beds b ON b.id = i.bed_id WHERE i.id IN (SELECT value FROM json_each(?))
+          ORDER BY i.unit_id, b.sort_order, b.label, i.display_name`,
+      )
+      .all(JSON.stringify(ids)) as Array<{ id: string }>;
+    return rows.map((r) => r.id);
+  }
+
+  return router;
+}

@@ -1,0 +1,197 @@
+import { randomUUID } from 'node:crypto';
+import { writeTx } from '../../db/client';
+import type { AdmitInfant, AssignNurseInput, UpdateInfantInput } from '../../shared/schemas/unit';
+import { nextShift, shiftAt, type ShiftSlot } from '../../shared/shifts';
+import { toCentiCelsius } from '../../shared/thermal';
+import { appendAudit } from '../audit';
+import type { AppContext } from '../context';
+import { badRequest, conflict, notFound } from '../errors';
+import { loadUnitRow, syncFlags } from './flags';
+
+export interface InfantRow {
+  id: string;
+  unit_id: string;
+  bed_id: string | null;
+  display_name: string;
+  heat_source: string;
+  weight_grams: number;
+  status: 'admitted' | 'discharged';
+}
+
+export function loadInfant(ctx: AppContext, infantId: string): InfantRow {
+  const row = ctx.database.sqlite
+    .prepare('SELECT id, unit_id, bed_id, display_name, heat_source, weight_grams, status FROM infants WHERE id = ?')
+    .get(infantId) as InfantRow | undefined;
+  if (!row) throw notFound('That infant');
+  return row;
+}
+
+/** A bed that is active, in the unit and has no admitted infant on it; otherwise a 400 or 409 naming `bedId`. */
+function requireEmptyBed(ctx: AppContext, unitId: string, bedId: string): { id: string; label: string } {
+  const { sqlite } = ctx.database;
+  const bed = sqlite.prepare('SELECT id, label FROM beds WHERE id = ? AND unit_id = ? AND active = 1').get(bedId, unitId) as { id: string; label: string } | undefined;
+  if (!bed) throw badRequest('Choose a bed in this unit.', { bedId: 'This bed is not in this unit.' });
+  const occupant = sqlite.prepare("SELECT display_name FROM infants WHERE bed_id = ? AND status = 'admitted'").get(bedId) as { display_name: string } | undefined;
+  if (occupant) throw conflict(`Bed ${bed.label} is taken.`, { bedId: `Bed ${bed.label} already has ${occupant.display_name}.` });
+  return bed;
+}
+
+export function admitInfant(ctx: AppContext, unitId: string, input: AdmitInfant, actorId: string): { id: string } {
+  const { sqlite } = ctx.database;
+  const now = ctx.clock.now();
+  if (Date.parse(input.birthAt) > now.getTime() + 5 * 60_000) throw badRequest('The birth cannot be in the future.', { birthAt: 'The time of birth is in the future.' });
+  const setCenti = toCentiCelsius(input.setTemperature, input.tempUnit, 'setTemperature');
+  return writeTx(sqlite, () => {
+    const bed = requireEmptyBed(ctx, unitId, input.bedId);
+    const id = randomUUID();
+    sqlite
+      .prepare(
+        `INSERT INTO infants (id, unit_id, bed_id, display_name, birth_at, gestation_weeks, gestation_days, birth_weight_grams, weight_grams, heat_source, status, admitted_at)
+         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, 'admitted', ?)`,
+      )
+      .run(id, unitId, bed.id, input.displayName, Date.parse(input.birthAt), input.gestationWeeks, input.gestationDays, input.birthWeightGrams, input.birthWeightGrams, input.heatSource, now.getTime());
+    // The initial settings are charted as the first reading, so the flowsheet and rules see them.
+    const readingId = randomUUID();
+    sqlite
+      .prepare(
+        `INSERT INTO readings (id, infant_id, unit_id, taken_at, recorded_at, recorded_by, set_centi, control_mode, heat_signs, note, entered_unit)
+         VALUES (?, ?, ?, ?, ?, ?, ?, ?, '[]', ?, ?)`,
+      )
+      .run(readingId, id, unitId, now.getTime(), now.getTime(), actorId, setCenti, input.controlMode, 'Settings on admission.', input.tempUnit);
+    appendAudit(sqlite, {
+      at: now,
+      actorId,
+      action: 'infant-admitted',
+      entityType: 'infant',
+      entityId: id,
+      unitId,
+      after: { ...input, bedLabel: bed.label, setCenti, initialReadingId: readingId },
+    });
+    syncFlags(sqlite, id, now, actorId);
+    return { id };
+  });
+}
+
+export function moveInfant(ctx: AppContext, infant: InfantRow, bedId: string, actorId: string): { bedId: string; bedLabel: string } {
+  const { sqlite } = ctx.database;
+  const now = ctx.clock.now();
+  if (infant.status !== 'admitted') throw conflict('This infant has been discharged.');
+  return writeTx(sqlite, () => {
+    const bed = requireEmptyBed(ctx, infant.unit_id, bedId);
+    sqlite.prepare('UPDATE infants SET bed_id = ? WHERE id = ?').run(bed.id, infant.id);
+    appendAudit(sqlite, { at: now, actorId, action: 'infant-moved', entityType: 'infant', entityId: infant.id, unitId: infant.unit_id, before: { bedId: infant.bed_id }, after: { bedId: bed.id } });
+    return { bedId: bed.id, bedLabel: bed.label };
+  });
+}
+
+export function updateInfant(ctx: AppContext, infant: InfantRow, input: UpdateInfantInput & { weightGrams?: number }, actorId: string): void {
+  const { sqlite } = ctx.database;
+  const now = ctx.clock.now();
+  if (infant.status !== 'admitted') throw conflict('This infant has been discharged.');
+  const after = { heatSource: input.heatSource ?? infant.heat_source, weightGrams: input.weightGrams ?? infant.weight_grams };
+  writeTx(sqlite, () => {
+    sqlite.prepare('UPDATE infants SET heat_source = ?, weight_grams = ? WHERE id = ?').run(after.heatSource, after.weightGrams, infant.id);
+    appendAudit(sqlite, {
+      at: now,
+      actorId,
+      action: 'infant-updated',
+      entityType: 'infant',
+      entityId: infant.id,
+      unitId: infant.unit_id,
+      before: { heatSource: infant.heat_source, weightGrams: infant.weight_grams },
+      after,
+    });
+  });
+}
+
+/** The infant stays in the record; the bed is freed and every open flag closes as 'discharged'. */
+export function dischargeInfant(ctx: AppContext, infant: InfantRow, note: string | undefined, actorId: string): { closedFlags: number } {
+  const { sqlite } = ctx.database;
+  const now = ctx.clock.now();
+  if (infant.status !== 'admitted') throw conflict('This infant has already been discharged.');
+  return writeTx(sqlite, () => {
+    // Store what the rules say up to the discharge first, so the record is complete.
+    syncFlags(sqlite, infant.id, now, actorId);
+    sqlite.prepare("UPDATE infants SET status = 'discharged', discharged_at = ?, bed_id = NULL WHERE id = ?").run(now.getTime(), infant.id);
+    const open = sqlite
+      .prepare('SELECT f.id, f.key FROM flags f LEFT JOIN flag_resolutions r ON r.flag_id = f.id WHERE f.infant_id = ? AND r.flag_id IS NULL')
+      .all(infant.id) as Array<{ id: string; key: string }>;
+    const close = sqlite.prepare("INSERT INTO flag_resolutions (flag_id, closed_at, closed_by_reading_id, how, created_at) VALUES (?, ?, NULL, 'discharged', ?)");
+    for (const f of open) {
+      close.run(f.id, now.getTime(), now.getTime());
+      appendAudit(sqlite, { at: now, actorId, action: 'flag-closed', entityType: 'flag', entityId: f.id, unitId: infant.unit_id, after: { key: f.key, how: 'discharged' } });
+    }
+    appendAudit(sqlite, {
+      at: now,
+      actorId,
+      action: 'infant-discharged',
+      entityType: 'infant',
+      entityId: infant.id,
+      unitId: infant.unit_id,
+      before: { status: 'admitted', bedId: infant.bed_id },
+      after: { status: 'discharged', note: note ?? null },
+    });
+    return { closedFlags: open.length };
+  });
+}
+
+export function shiftSlot(ctx: AppContext, unitId: string, which: 'current' | 'next'): ShiftSlot {
+  const unit = loadUnitRow(ctx.database.sqlite, unitId);
+  if (!unit) throw notFound('That unit');
+  const times = { dayShiftStart: unit.day_shift_start, nightShiftStart: unit.night_shift_start, timeZone: unit.time_zone };
+  const current = shiftAt(ctx.clock.now(), times);
+  return which === 'next' ? nextShift(current, times) : current;
+}
+
+export function listAssignableNurses(ctx: AppContext, unitId: string): Array<{ id: string; name: string; role: string }> {
+  return ctx.database.sqlite
+    .prepare(
+      `SELECT u.id, u.name, u.role FROM users u JOIN user_units m ON m.user_id = u.id
+        WHERE m.unit_id = ? AND u.active = 1 AND u.role IN ('nurse', 'charge') ORDER BY u.name`,
+    )
+    .all(unitId) as Array<{ id: string; name: string; role: string }>;
+}
+
+/** A new assignment row for the shift; the latest row for (infant, shift) is the one that counts. */
+export function assignNurse(ctx: AppContext, unitId: string, input: Required<AssignNurseInput>, actorId: string) {
+  const { sqlite } = ctx.database;
+  const now = ctx.clock.now();
+  const slot = shiftSlot(ctx, unitId, input.shift);
+  return writeTx(sqlite, () => {
+    const infant = sqlite.prepare("SELECT id FROM infants WHERE id = ? AND unit_id = ? AND status = 'admitted'").get(input.infantId, unitId);
+    if (!infant) throw badRequest('Choose an infant admitted to this unit.', { infantId: 'No infant with this id is admitted to this unit.' });
+    const nurse = sqlite
+      .prepare(
+        `SELECT u.id, u.name FROM users u JOIN user_units m ON m.user_id = u.id
+          WHERE u.id = ? AND m.unit_id = ? AND u.active = 1 AND u.role IN ('nurse', 'charge')`,
+      )
+      .get(input.nurseId, unitId) as { id: string; name: string } | undefined;
+    if (!nurse) throw badRequest('Choose a nurse of this unit.', { nurseId: 'This person is not a nurse of this unit.' });
+    const before = sqlite
+      .prepare('SELECT nurse_id FROM assignments WHERE infant_id = ? AND shift_date = ? AND shift = ? ORDER BY created_at DESC, rowid DESC LIMIT 1')
+      .get(input.infantId, slot.shiftDate, slot.shift) as { nurse_id: string } | undefined;
+    const id = randomUUID();
+    sqlite
+      .prepare('INSERT INTO assignments (id, unit_id, infant_id, nurse_id, shift_date, shift, created_by, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?)')
+      .run(id, unitId, input.infantId, nurse.id, slot.shiftDate, slot.shift, actorId, now.getTime());
+    appendAudit(sqlite, {
+      at: now,
+      actorId,
+      action: 'nurse-assigned',
+      entityType: 'assignment',
+      entityId: id,
+      unitId,
+      before: before ? { nurseId: before.nurse_id } : null,
+      after: { infantId: input.infantId, nurseId: nurse.id, shiftDate: slot.shiftDate, shift: slot.shift },
+    });
+    return {
+      id,
+      infantId: input.infantId,
+      nurse,
+      shiftDate: slot.shiftDate,
+      shift: slot.shift,
+      startsAt: slot.startsAt.toISOString(),
+      endsAt: slot.endsAt.toISOString(),
+    };
+  });
+}

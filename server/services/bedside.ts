@@ -1,0 +1,334 @@
+import type Database from 'better-sqlite3';
+import { createHash } from 'node:crypto';
+import type { Request } from 'express';
+import {
+  checkPlausibility,
+  isThermalInputError,
+  flagEscalation,
+  toCentiCelsius,
+  type PlausibilityField,
+  type TempUnit,
+} from '../../shared/thermal';
+import { FUTURE_TOLERANCE_MINUTES, LATE_ENTRY_MINUTES } from '../../shared/schemas/bedside';
+import type { FlowsheetFlag, FlowsheetReading, ReadingVersion, SessionRecord } from '../../shared/types/bedside';
+import { ApiError, badRequest, notFound } from '../errors';
+import { assertUnit } from '../middleware/access';
+import type { syncFlags } from './flags';
+import { plainDetail } from './summaries';
+
+export interface InfantRow {
+  id: string;
+  unit_id: string;
+  status: 'admitted' | 'discharged';
+  admitted_at: number;
+  birth_at: number;
+  birth_weight_grams: number;
+}
+
+/** The infant, or 404; then 403 unless the signed-in user belongs to its unit. */
+export function loadInfantFor(sqlite: Database.Database, req: Request, infantId: string): InfantRow {
+  const row = sqlite.prepare('SELECT id, unit_id, status, admitted_at, birth_at, birth_weight_grams FROM infants WHERE id = ?').get(infantId) as InfantRow | undefined;
+  if (!row) throw notFound('That infant');
+  assertUnit(req, row.unit_id);
+  return row;
+}
+
+export function requireAdmitted(infant: InfantRow): void {
+  if (infant.status !== 'admitted') throw new ApiError(409, 'conflict', 'This infant has been discharged; the chart is closed.');
+}
+
+/** Canonical JSON (sorted keys), hashed: a retried request with the same content matches. */
+export function requestHash(value: unknown): string {
+  const canonical = (v: unknown): unknown => {
+    if (Array.isArray(v)) return v.map(canonical);
+    if (v && typeof v === 'object') {
+      return Object.fromEntries(
+        Object.keys(v as Record<string, unknown>)
+          .sort()
+          .filter((k) => (v as Record<string, unknown>)[k] !== undefined)
+          .map((k) => [k, canonical((v as Record<string, unknown>)[k])]),
+      );
+    }
+    return v;
+  };
+  return createHash('sha256').update(JSON.stringify(canonical(value))).digest('hex');
+}
+
+export interface TypedTemperatures {
+  unit: TempUnit;
+  probe?: number | null;
+  remote?: number | null;
+  air?: number | null;
+  set?: number | null;
+  heartRate?: number | null;
+}
+
+export interface Converted {
+  probeCenti: number | null;
+  remoteCenti: number | null;
+  airCenti: number | null;
+  setCenti: number | null;
+}
+
+const TEMPERATURE_FIELDS = ['probe', 'remote', 'air', 'set'] as const;
+const FIELD_LABELS: Record<(typeof TEMPERATURE_FIELDS)[number], string> = {
+  probe: 'Probe temperature',
+  remote: 'Remote-site temperature',
+  air: 'Air temperature',
+  set: 'Set temperature',
+};
+
+/**
+ * Convert typed temperatures to hundredths of °C and check them: outside the hard limits is
+ * refused (400 naming the field); outside the plausible range needs `confirmed` (else 422,
+ * with `confirmedImplausible: 'confirm'` among the fields so the form can ask).
+ */
+export function convertAndCheck(input: TypedTemperatures, confirmed: boolean, prefix = ''): Converted {
+  const out: Converted = { probeCenti: null, remoteCenti: null, airCenti: null, setCenti: null };
+  const needConfirm: Record<string, string> = {};
+  for (const field of TEMPERATURE_FIELDS) {
+    const value = input[field];
+    if (value === null || value === undefined) continue;
+    let centi: number;
+    try {
+      centi = toCentiCelsius(value, input.unit, `${prefix}${field}`);
+    } catch (err) {
+      if (!isThermalInputError(err)) throw err;
+      const reason = `${FIELD_LABELS[field]} ${err.message.replace(/^\S+ /, '')}: check the entry and the unit.`;
+      throw badRequest(reason, { [`${prefix}${field}`]: reason });
+    }
+    const check = checkPlausibility(field as PlausibilityField, centi, input.unit);
+    if (check.result === 'refuse') throw badRequest(check.reason, { [`${prefix}${field}`]: check.reason });
+    if (check.result === 'confirm') needConfirm[`${prefix}${field}`] = check.reason;
+    out[`${field}Centi`] = centi;
+  }
+  if (input.heartRate !== null && input.heartRate !== undefined) {
+    const check = checkPlausibility('heartRate', input.heartRate, input.unit);
+    if (check.result === 'refuse') throw badRequest(check.reason, { [`${prefix}heartRate`]: check.reason });
+    if (check.result === 'confirm') needConfirm[`${prefix}heartRate`] = check.reason;
+  }
+  if (!confirmed && Object.keys(needConfirm).length > 0) {
+    throw new ApiError(422, 'invalid', 'Some values are outside the usual range. Check them, then confirm to save.', {
+      ...needConfirm,
+      [`${prefix}confirmedImplausible`]: 'confirm',
+    });
+  }
+  return out;
+}
+
+/** A chart time: not in the future; more than 10 minutes back needs a late-entry reason. */
+export function checkTakenAt(takenAt: Date, now: Date, admittedAt: number, lateReason: string | null | undefined, field = 'takenAt'): { late: boolean } {
+  if (takenAt.getTime() > now.getTime() + FUTURE_TOLERANCE_MINUTES * 60_000) {
+    throw badRequest('The time is in the future.', { [field]: 'The time cannot be in the future.' });
+  }
+  if (takenAt.getTime() < admittedAt - 60 * 60_000) {
+    throw badRequest('The time is before the infant was admitted.', { [field]: 'The time is before admission.' });
+  }
+  const late = now.getTime() - takenAt.getTime() > LATE_ENTRY_MINUTES * 60_000;
+  if (late && !lateReason) {
+    throw badRequest('A late entry needs a reason.', { lateReason: `This time is more than ${LATE_ENTRY_MINUTES} minutes ago: say why it is charted late.` });
+  }
+  return { late };
+}
+
+export interface StoredReading {
+  id: string;
+  infant_id: string;
+  unit_id: string;
+  taken_at: number;
+  recorded_at: number;
+  recorded_by: string;
+  recorded_by_name: string;
+  probe_centi: number | null;
+  remote_centi: number | null;
+  remote_site: ReadingVersion['remoteSite'];
+  air_centi: number | null;
+  set_centi: number | null;
+  control_mode: ReadingVersion['controlMode'];
+  heater_output_pct: number | null;
+  heart_rate: number | null;
+  heat_signs: string;
+  note: string | null;
+  entered_unit: 'C' | 'F';
+  late_reason: string | null;
+  session_id: string | null;
+  replaces_id: string | null;
+  correction_reason: ReadingVersion['correctionReason'];
+  correction_note: string | null;
+  entered_in_error: number;
+  request_hash: string | null;
+}
+
+export const READING_SELECT = 'SELECT r.*, u.name AS recorded_by_name FROM readings r JOIN users u ON u.id = r.recorded_by';
+
+export function loadReading(sqlite: Database.Database, id: string): StoredReading | undefined {
+  return sqlite.prepare(`${READING_SELECT} WHERE r.id = ?`).get(id) as StoredReading | undefined;
+}
+
+export function readingJson(r: StoredReading): ReadingVersion {
+  return {
+    id: r.id,
+    infantId: r.infant_id,
+    takenAt: new Date(r.taken_at).toISOString(),
+    recordedAt: new Date(r.recorded_at).toISOString(),
+    recordedBy: { id: r.recorded_by, name: r.recorded_by_name },
+    probeCenti: r.probe_centi,
+    remoteCenti: r.remote_centi,
+    remoteSite: r.remote_site,
+    airCenti: r.air_centi,
+    setCenti: r.set_centi,
+    controlMode: r.control_mode,
+    heaterOutputPct: r.heater_output_pct,
+    heartRate: r.heart_rate,
+    heatSigns: JSON.parse(r.heat_signs) as string[],
+    note: r.note,
+    enteredUnit: r.entered_unit,
+    lateReason: r.late_reason,
+    sessionId: r.session_id,
+    replacesId: r.replaces_id,
+    correctionReason: r.correction_reason,
+    correctionNote: r.correction_note,
+    enteredInError: r.entered_in_error === 1,
+  };
+}
+
+export interface NewReadingRow {
+  id: string;
+  infantId: string;
+  unitId: string;
+  takenAt: number;
+  recordedAt: number;
+  recordedBy: string;
+  probeCenti: number | null;
+  remoteCenti: number | null;
+  remoteSite: string | null;
+  airCenti: number | null;
+  setCenti: number | null;
+  controlMode: string | null;
+  heaterOutputPct: number | null;
+  heartRate: number | null;
+  heatSigns: string[];
+  note: string | null;
+  enteredUnit: 'C' | 'F';
+  lateReason: string | null;
+  sessionId: string | null;
+  replacesId: string | null;
+  correctionReason: string | null;
+  correctionNote: string | null;
+  enteredInError: boolean;
+  requestHash: string;
+}
+
+export function insertReading(sqlite: Database.Database, r: NewReadingRow): void {
+  sqlite
+    .prepare(
+      `INSERT INTO readings (id, infant_id, unit_id, taken_at, recorded_at, recorded_by, probe_centi, remote_centi, remote_site, air_centi, set_centi,
+         control_mode, heater_output_pct, heart_rate, heat_signs, note, entered_unit, late_reason, session_id, replaces_id, correction_reason,
+         correction_note, entered_in_error, request_hash)
+       VALUES (@id, @infantId, @unitId, @takenAt, @recordedAt, @recordedBy, @probeCenti, @remoteCenti, @remoteSite, @airCenti, @setCenti,
+         @controlMode, @heaterOutputPct, @heartRate, @heatSigns, @note, @enteredUnit, @lateReason, @sessionId, @replacesId, @correctionReason,
+         @correctionNote, @enteredInError, @requestHash)`,
+    )
+    .run({ ...r, heatSigns: JSON.stringify(r.heatSigns), enteredInError: r.enteredInError ? 1 : 0 });
+}
+
+/** The skin-to-skin session running at `at`, if any. */
+export function sessionAt(sqlite: Database.Database, infantId: string, at: number): string | null {
+  const row = sqlite
+    .prepare('SELECT id FROM skin_to_skin_sessions WHERE infant_id = ? AND started_at <= ? AND (ended_at IS NULL OR ended_at >= ?) ORDER BY started_at DESC LIMIT 1')
+    .get(infantId, at, at) as { id: string } | undefined;
+  return row?.id ?? null;
+}
+
+interface SessionRow {
+  id: string;
+  started_at: number;
+  ended_at: number | null;
+  reference_centi: number;
+  limit_centi: number;
+  carer: string | null;
+  started_by: string;
+  started_by_name: string;
+}
+
+export function loadSession(sqlite: Database.Database, id: string): (SessionRow & { infant_id: string; unit_id: string }) | undefined {
+  return sqlite
+    .prepare('SELECT s.*, u.name AS started_by_name FROM skin_to_skin_sessions s JOIN users u ON u.id = s.started_by WHERE s.id = ?')
+    .get(id) as (SessionRow & { infant_id: string; unit_id: string }) | undefined;
+}
+
+export function sessionJson(s: SessionRow): SessionRecord {
+  return {
+    id: s.id,
+    startedAt: new Date(s.started_at).toISOString(),
+    endedAt: s.ended_at === null ? null : new Date(s.ended_at).toISOString(),
+    referenceCenti: s.reference_centi,
+    limitCenti: s.limit_centi,
+    carer: s.carer,
+    startedBy: { id: s.started_by, name: s.started_by_name },
+  };
+}
+
+/** Every version of the infant's readings grouped into chains: the current version with its history. */
+export function readingChains(rows: StoredReading[]): FlowsheetReading[] {
+  const byId = new Map(rows.map((r) => [r.id, r]));
+  const replacedBy = new Map<string, StoredReading>();
+  for (const r of rows) if (r.replaces_id && byId.has(r.replaces_id)) replacedBy.set(r.replaces_id, r);
+  const chains: FlowsheetReading[] = [];
+  for (const root of rows) {
+    if (root.replaces_id && byId.has(root.replaces_id)) continue;
+    const versions: StoredReading[] = [root];
+    let cursor = replacedBy.get(root.id);
+    while (cursor && versions.length < 1000) {
+      versions.push(cursor);
+      cursor = replacedBy.get(cursor.id);
+    }
+    const tip = versions[versions.length - 1]!;
+    chains.push({
+      ...readingJson(tip),
+      rootId: root.id,
+      history: versions.slice(0, -1).map(readingJson),
+      corrected: versions.length > 1,
+    });
+  }
+  return chains.sort((a, b) => b.takenAt.localeCompare(a.takenAt) || b.recordedAt.localeCompare(a.recordedAt));
+}
+
+export function flowsheetFlags(
+  sqlite: Database.Database,
+  infantId: string,
+  evaluation: ReturnType<typeof syncFlags>['evaluation'],
+  fromMs: number,
+  now: Date,
+  policy: Parameters<typeof flagEscalation>[2],
+): FlowsheetFlag[] {
+  const stored = sqlite
+    .prepare('SELECT f.id, f.key, e.id AS escalation_id FROM flags f LEFT JOIN escalations e ON e.flag_id = f.id WHERE f.infant_id = ?')
+    .all(infantId) as Array<{ id: string; key: string; escalation_id: string | null }>;
+  const byKey = new Map(stored.map((s) => [s.key, s]));
+  const actions = sqlite
+    .prepare('SELECT a.id, a.flag_id, a.kind, a.note, a.at, a.recorded_by, u.name FROM actions a JOIN users u ON u.id = a.recorded_by WHERE a.infant_id = ? ORDER BY a.at, a.created_at')
+    .all(infantId) as Array<{ id: string; flag_id: string; kind: string; note: string | null; at: number; recorded_by: string; name: string }>;
+  return evaluation.flags
+    .filter((f) => f.status === 'open' || f.raisedAt.getTime() >= fromMs || (f.closedAt !== null && f.closedAt.getTime() >= fromMs))
+    .map((f) => {
+      const row = byKey.get(f.key);
+      return {
+        id: row?.id ?? null,
+        key: f.key,
+        kind: f.kind,
+        status: f.status,
+        raisedAt: f.raisedAt.toISOString(),
+        raisedByReadingId: f.raisedByReadingId,
+        closedAt: f.closedAt ? f.closedAt.toISOString() : null,
+        closedByReadingId: f.closedByReadingId,
+        recheckDueAt: f.recheckDueAt ? f.recheckDueAt.toISOString() : null,
+        escalated: f.status === 'open' && (row?.escalation_id != null || flagEscalation(f, now, policy).escalated),
+        detail: plainDetail(f.detail),
+        actions: actions
+          .filter((a) => row && a.flag_id === row.id)
+          .map((a) => ({ id: a.id, flagId: a.flag_id, kind: a.kind, note: a.note, at: new Date(a.at).toISOString(), recordedBy: { id: a.recorded_by, name: a.name } })),
+      };
+    })
+    .reverse();
+}

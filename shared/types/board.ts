@@ -1,0 +1,117 @@
+/** What the board, handover and mailbox endpoints answer. Instants are ISO strings. */
+import type { CheckStatus, FlagKind } from '../thermal';
+import type { ControlModeName, HeatSource, InfantSummary } from './bedside';
+
+export type { HeatSource } from './bedside';
+export type ControlMode = ControlModeName;
+
+/** 0 needs attention now (overdue check, unresolved gap flag), 1 due soon, 2 the rest, 3 empty bed. */
+export type UrgencyTier = 0 | 1 | 2 | 3;
+export const URGENCY_LABELS: Record<UrgencyTier, string> = { 0: 'Needs attention', 1: 'Check due soon', 2: 'Settled', 3: 'Empty bed' };
+
+export interface BoardEscalation {
+  id: string;
+  flagId: string;
+  flagKind: FlagKind;
+  escalatedAt: string;
+  mailedAt: string | null;
+  acknowledgedAt: string | null;
+  acknowledgedBy: { id: string; name: string } | null;
+  note: string | null;
+}
+
+export interface BoardBed {
+  bedId: string;
+  label: string;
+  tier: UrgencyTier;
+  /** When the bed's most urgent matter began (ISO), for ordering within a tier. */
+  since: string | null;
+  infant: InfantSummary | null;
+  /** Escalations of the infant's open flags, acknowledged or not. */
+  escalations: BoardEscalation[];
+}
+
+export interface BoardResponse {
+  serverTime: string;
+  unit: {
+    id: string;
+    name: string;
+    hospitalName: string;
+    timeZone: string;
+    checkIntervalMinutes: number;
+    dueSoonMinutes: number;
+    gapLimitCenti: number;
+    escalationDelayMinutes: number;
+    dayShiftStart: string;
+    nightShiftStart: string;
+  };
+  shift: { shiftDate: string; shift: 'day' | 'night'; startsAt: string; endsAt: string };
+  beds: BoardBed[];
+  /** Everyone who can be assigned in this unit (for the nurse filter and reassigning). */
+  nurses: Array<{ id: string; name: string; role: 'nurse' | 'charge' }>;
+}
+
+export interface HandoverReading {
+  id: string;
+  takenAt: string;
+  probeCenti: number | null;
+  remoteCenti: number | null;
+  remoteSite: string | null;
+  airCenti: number | null;
+  setCenti: number | null;
+  controlMode: ControlMode | null;
+  heaterOutputPct: number | null;
+  heartRate: number | null;
+  heatSigns: string[];
+  note: string | null;
+  recordedBy: string;
+  /** Set when this row corrects an earlier one. */
+  corrects: boolean;
+}
+
+export interface HandoverFlag {
+  id: string;
+  kind: FlagKind;
+  raisedAt: string;
+  closedAt: string | null;
+  how: string | null;
+  actions: Array<{ kind: string; note: string | null; at: string; by: string }>;
+  escalatedAt: string | null;
+  acknowledgedAt: string | null;
+}
+
+export interface HandoverInfant {
+  infant: {
+    id: string;
+    displayName: string;
+    bedLabel: string | null;
+    gestationWeeks: number;
+    gestationDays: number;
+    weightGrams: number;
+    birthAt: string;
+    heatSource: HeatSource;
+    status: 'admitted' | 'discharged';
+  };
+  from: string;
+  to: string;
+  settings: { controlMode: ControlMode | null; setCenti: number | null; heaterOutputPct: number | null; probeCenti: number | null; remoteCenti: number | null; remoteTakenAt: string | null };
+  nextCheck: { status: CheckStatus; dueAt: string | null; minutesLate: number };
+  readings: HandoverReading[];
+  flags: HandoverFlag[];
+  sessions: Array<{ id: string; startedAt: string; endedAt: string | null; referenceCenti: number; limitCenti: number; carer: string | null }>;
+  nurse: { id: string; name: string } | null;
+}
+
+export interface HandoverResponse {
+  generatedAt: string;
+  infants: HandoverInfant[];
+}
+
+export interface CaughtMail {
+  id: number;
+  receivedAt: string;
+  from: string;
+  to: string;
+  subject: string;
+  text: string;
+}
