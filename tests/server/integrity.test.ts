@@ -1,0 +1,117 @@
+/**
+ * Record integrity: append-only clinical tables (21 CFR 11.10(e)), a hash-chained audit trail
+ * (HIPAA 45 CFR 164.312(b), (c)), and an online backup that restores whole.
+ */
+import Database from 'better-sqlite3';
+import { execFileSync } from 'node:child_process';
+import fs from 'node:fs';
+import path from 'node:path';
+import { verifyAuditChain } from '../../server/audit';
+import { backupDatabase } from '../../server/backup';
+import { makeEnv, type TestEnv } from './helpers';
+
+let env: TestEnv;
+beforeAll(async () => {
+  env = await makeEnv();
+});
+afterAll(() => env.close());
+
+const APPEND_ONLY = ['readings', 'flags', 'flag_resolutions', 'actions', 'reviews', 'audit_events'];
+
+describe('append-only tables', () => {
+  it.each(APPEND_ONLY)('refuses UPDATE and DELETE on %s', (table) => {
+    const { sqlite } = env.database;
+    // Every table has at least one column; an UPDATE that changes nothing still fires the trigger.
+    const column = (sqlite.prepare(`PRAGMA table_info(${table})`).all() as Array<{ name: string }>)[0]!.name;
+    const rows = (sqlite.prepare(`SELECT COUNT(*) AS n FROM ${table}`).get() as { n: number }).n;
+    if (rows === 0) {
+      // No row to hit: the trigger must still exist.
+      const trigger = sqlite.prepare("SELECT name FROM sqlite_master WHERE type = 'trigger' AND tbl_name = ?").all(table);
+      expect(trigger.length).toBe(2);
+      return;
+    }
+    expect(() => sqlite.prepare(`UPDATE ${table} SET ${column} = ${column}`).run()).toThrow(/append-only/);
+    expect(() => sqlite.prepare(`DELETE FROM ${table}`).run()).toThrow(/append-only/);
+    expect((sqlite.prepare(`SELECT COUNT(*) AS n FROM ${table}`).get() as { n: number }).n).toBe(rows);
+  });
+});
+
+describe('audit chain', () => {
+  it('is intact after the seed and after sign-ins', async () => {
+    await env.signIn('nia.okafor@warmfold.test');
+    const report = verifyAuditChain(env.database.sqlite);
+    expect(report.ok).toBe(true);
+    expect(report.checked).toBeGreaterThan(10);
+  });
+
+  it('finds an edited row in a copy of the database, by id', async () => {
+    const copy = path.join(env.dir, 'tampered.db');
+    await env.database.sqlite.backup(copy);
+    const db = new Database(copy);
+    // Someone with file access removes the guard and rewrites history.
+    db.prepare('DROP TRIGGER audit_events_no_update').run();
+    const target = db.prepare('SELECT id FROM audit_events ORDER BY id LIMIT 1 OFFSET 5').get() as { id: number };
+    db.prepare("UPDATE audit_events SET after = '{\"probeCenti\":3650}' WHERE id = ?").run(target.id);
+    const report = verifyAuditChain(db);
+    db.close();
+    expect(report.ok).toBe(false);
+    expect(report.firstBrokenId).toBe(target.id);
+  });
+
+  it('npm run audit:verify reports the broken link and exits non-zero', async () => {
+    const copy = path.join(env.dir, 'tampered-cli.db');
+    await env.database.sqlite.backup(copy);
+    const db = new Database(copy);
+    db.prepare('DROP TRIGGER audit_events_no_delete').run();
+    const victim = db.prepare('SELECT id FROM audit_events ORDER BY id LIMIT 1 OFFSET 3').get() as { id: number };
+    db.prepare('DELETE FROM audit_events WHERE id = ?').run(victim.id);
+    db.close();
+    let output = '';
+    let code = 0;
+    try {
+      output = execFileSync(process.execPath, ['--import', 'tsx', 'scripts/audit-verify.ts', copy], { encoding: 'utf8' });
+    } catch (err) {
+      const e = err as { status: number; stdout: string };
+      code = e.status;
+      output = e.stdout;
+    }
+    expect(code).toBe(2);
+    expect(output).toMatch(new RegExp(`BROKEN at event ${victim.id + 1}`));
+  });
+});
+
+describe('backup and restore', () => {
+  it('takes an online copy that passes integrity_check with the same rows and audit chain', async () => {
+    const dir = path.join(env.dir, 'backups');
+    const first = await backupDatabase(env.database.sqlite, dir, 2, new Date('2026-11-16T10:00:00Z'));
+    await backupDatabase(env.database.sqlite, dir, 2, new Date('2026-11-16T11:00:00Z'));
+    const third = await backupDatabase(env.database.sqlite, dir, 2, new Date('2026-11-16T12:00:00Z'));
+    expect(third.removed).toEqual([first.file]);
+    expect(fs.readdirSync(dir).filter((f) => f.endsWith('.db'))).toHaveLength(2);
+
+    const restored = new Database(third.file, { readonly: true });
+    expect(restored.pragma('integrity_check', { simple: true })).toBe('ok');
+    for (const table of ['users', 'infants', 'readings', 'flags', 'actions', 'audit_events']) {
+      const a = (env.database.sqlite.prepare(`SELECT COUNT(*) AS n FROM ${table}`).get() as { n: number }).n;
+      const b = (restored.prepare(`SELECT COUNT(*) AS n FROM ${table}`).get() as { n: number }).n;
+      expect(b).toBe(a);
+    }
+    const original = verifyAuditChain(env.database.sqlite);
+    const copy = verifyAuditChain(restored);
+    expect(copy.ok).toBe(true);
+    expect(copy.checked).toBe(original.checked);
+    const lastA = env.database.sqlite.prepare('SELECT hash FROM audit_events ORDER BY id DESC LIMIT 1').get();
+    const lastB = restored.prepare('SELECT hash FROM audit_events ORDER BY id DESC LIMIT 1').get();
+    expect(lastB).toEqual(lastA);
+    restored.close();
+  });
+});
+
+describe('durability settings', () => {
+  it('opens in WAL with synchronous=FULL and foreign keys on', () => {
+    const { sqlite } = env.database;
+    expect(sqlite.pragma('journal_mode', { simple: true })).toBe('wal');
+    expect(sqlite.pragma('synchronous', { simple: true })).toBe(2);
+    expect(sqlite.pragma('foreign_keys', { simple: true })).toBe(1);
+  });
+});
