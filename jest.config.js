@@ -12,7 +12,9 @@ module.exports = {
     },
     {
       displayName: 'client',
-      preset: 'jest-expo/web',
+      // The native preset: @testing-library/react-native queries React Native's host
+      // components (Text, TextInput), which the web preset replaces with DOM elements.
+      preset: 'jest-expo',
       testMatch: ['<rootDir>/tests/components/**/*.test.tsx'],
       moduleNameMapper: alias,
     },

@@ -7,6 +7,7 @@ import bcrypt from 'bcryptjs';
 import { randomUUID } from 'node:crypto';
 import { writeTx, type Database_ } from './client';
 import { shiftAt } from '../shared/shifts';
+import { appendAudit } from '../server/audit';
 import { syncFlags } from '../server/services/flags';
 
 export const DEMO_PASSWORD = 'warm-hands-at-night';
@@ -88,6 +89,8 @@ export function resetDatabase(database: Database_): void {
   sqlite.pragma('foreign_keys = ON');
   void APPEND_ONLY;
 }
+
+const pendingActions: Array<{ infant: string; unit: string; readingId: string; by: string; at: number; at2: number }> = [];
 
 export interface SeedOptions {
   now: Date;
@@ -194,11 +197,19 @@ export async function seedDemo(database: Database_, { now, bcryptCost }: SeedOpt
       action.run(randomUUID(), flag.id, p.infant, p.unit, 'checked-probe-contact', null, p.at, p.by, p.at);
       action.run(randomUUID(), flag.id, p.infant, p.unit, 'moved-probe', 'Moved to the left flank under a new cover.', p.at2, p.by, p.at2);
     }
+    // The demo's history gets its audit trail too, so the chain covers every clinical row.
+    const rows = sqlite.prepare('SELECT * FROM readings ORDER BY recorded_at, id').all() as Array<Record<string, unknown>>;
+    for (const r of rows) {
+      appendAudit(sqlite, { at: new Date(r.recorded_at as number), actorId: r.recorded_by as string, action: 'reading-create', entityType: 'reading', entityId: r.id as string, unitId: r.unit_id as string, after: r });
+    }
+    const acts = sqlite.prepare('SELECT * FROM actions ORDER BY at, id').all() as Array<Record<string, unknown>>;
+    for (const a of acts) {
+      appendAudit(sqlite, { at: new Date(a.at as number), actorId: a.recorded_by as string, action: 'action-create', entityType: 'action', entityId: a.id as string, unitId: a.unit_id as string, after: a });
+    }
     for (const inf of INFANTS) syncFlags(sqlite, inf.id, new Date(t0), null);
+    appendAudit(sqlite, { at: new Date(t0), actorId: null, action: 'demo-seeded', entityType: 'database', entityId: null, unitId: null, after: { infants: INFANTS.length } });
   });
 }
-
-const pendingActions: Array<{ infant: string; unit: string; readingId: string; by: string; at: number; at2: number }> = [];
 
 function pad(n: number): string {
   return String(n).padStart(2, '0');

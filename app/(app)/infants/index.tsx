@@ -1,5 +1,5 @@
-import { PlaceholderScreen } from '@/components/screens/placeholder-screen';
+import { MyInfantsScreen } from '@/components/bedside/my-infants-screen';
 
 export default function MyInfantsRoute() {
-  return <PlaceholderScreen title="My infants" subtitle="This shift" body="Your assigned infants appear here." />;
+  return <MyInfantsScreen />;
 }

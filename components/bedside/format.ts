@@ -1,0 +1,50 @@
+import { TZDate } from '@date-fns/tz';
+import { format } from 'date-fns';
+import { formatTemperature, formatTemperatureDifference, type TempUnit } from '@/shared/thermal';
+
+export interface DisplayPrefs {
+  tempUnit: TempUnit;
+  clock: '24h' | '12h';
+}
+
+export function temp(centi: number | null | undefined, unit: TempUnit): string {
+  return centi === null || centi === undefined ? '—' : formatTemperature(centi, unit);
+}
+
+export function tempDelta(centi: number, unit: TempUnit): string {
+  return formatTemperatureDifference(centi, unit);
+}
+
+/** A time of day in the unit's zone, by the user's 12/24-hour setting. */
+export function clockTime(iso: string | Date, timeZone: string, clock: '24h' | '12h'): string {
+  const ms = typeof iso === 'string' ? Date.parse(iso) : iso.getTime();
+  return format(new TZDate(ms, timeZone), clock === '24h' ? 'HH:mm' : 'h:mm a');
+}
+
+export function dayTime(iso: string, timeZone: string, clock: '24h' | '12h'): string {
+  return format(new TZDate(Date.parse(iso), timeZone), clock === '24h' ? 'EEE d MMM, HH:mm' : 'EEE d MMM, h:mm a');
+}
+
+/** "1 h 05 min", "12 min". */
+export function duration(ms: number): string {
+  const minutes = Math.max(0, Math.floor(ms / 60_000));
+  const h = Math.floor(minutes / 60);
+  const m = minutes % 60;
+  return h > 0 ? `${h} h ${String(m).padStart(2, '0')} min` : `${m} min`;
+}
+
+export function gestation(weeks: number, days: number): string {
+  return `${weeks}+${days} wk`;
+}
+
+export const HEAT_SOURCE_LABELS = { 'radiant-warmer': 'Radiant warmer', incubator: 'Incubator', convertible: 'Convertible bed' } as const;
+export const CONTROL_MODE_LABELS = { 'skin-servo': 'Skin servo', 'air-servo': 'Air servo', manual: 'Manual' } as const;
+export const SITE_LABELS = { axilla: 'Axilla', rectal: 'Rectal', other: 'Other site' } as const;
+export const FLAG_LABELS = {
+  gap: 'Gap flag',
+  'overdue-check': 'Check overdue',
+  'heat-stress': 'Heat-stress prompt',
+  'cold-stress': 'Cold stress',
+  'manual-mode': 'Manual mode',
+  'skin-to-skin-deviation': 'Skin-to-skin deviation',
+} as const;

@@ -1,0 +1,111 @@
+import { useRouter } from 'expo-router';
+import { useState } from 'react';
+import { Pressable, StyleSheet, View } from 'react-native';
+import type { InfantSummary } from '@/shared/types/bedside';
+import { useUser } from '../auth/auth-provider';
+import { useMyInfantsQuery, useUnitInfantsQuery } from '../queries/infants';
+import { useTheme } from '../theme/theme-provider';
+import { Card } from '../ui/card';
+import { Screen } from '../ui/screen';
+import { Segmented } from '../ui/segmented';
+import { EmptyState, ErrorState, LoadingState } from '../ui/state-view';
+import { StatusBadge } from '../ui/status-badge';
+import { Text } from '../ui/text';
+import { CheckBadge } from './check-badge';
+import { clockTime, CONTROL_MODE_LABELS, FLAG_LABELS, gestation, HEAT_SOURCE_LABELS, SITE_LABELS, temp } from './format';
+import { usePendingReadings } from './pending-readings';
+import { useNow } from './use-now';
+
+type Tab = 'mine' | 'unit';
+
+export function MyInfantsScreen() {
+  const [tab, setTab] = useState<Tab>('mine');
+  const mine = useMyInfantsQuery();
+  const unit = useUnitInfantsQuery();
+  const query = tab === 'mine' ? mine : unit;
+  return (
+    <Screen title="My infants" subtitle="This shift" refreshing={query.isRefetching} onRefresh={() => void query.refetch()}>
+      <Segmented
+        label="Show"
+        value={tab}
+        options={[
+          { value: 'mine', label: 'My infants' },
+          { value: 'unit', label: 'Whole unit' },
+        ]}
+        onChange={setTab}
+      />
+      {query.isError && !query.data ? (
+        <ErrorState error={query.error} onRetry={() => void query.refetch()} />
+      ) : query.isPending ? (
+        <LoadingState label="Loading infants…" />
+      ) : query.data.length === 0 ? (
+        <EmptyState title={tab === 'mine' ? 'No infants assigned to you this shift' : 'No infants admitted'} message="Ask the charge nurse if this looks wrong." />
+      ) : (
+        <View style={styles.list} role="list">
+          {query.data.map((infant) => (
+            <InfantRow key={infant.id} infant={infant} />
+          ))}
+        </View>
+      )}
+    </Screen>
+  );
+}
+
+export function InfantRow({ infant }: { infant: InfantSummary }) {
+  const user = useUser();
+  const theme = useTheme();
+  const router = useRouter();
+  const now = useNow();
+  const pending = usePendingReadings(infant.id);
+  const t = (iso: string) => clockTime(iso, infant.timeZone, user.clock);
+  const { probe, remote } = infant.latest;
+  return (
+    <Pressable
+      role="listitem"
+      accessibilityRole="link"
+      accessibilityLabel={`${infant.bedLabel ?? 'No bed'}, ${infant.displayName}: open flowsheet`}
+      onPress={() => router.push(`/infants/${infant.id}`)}
+    >
+      <Card style={[styles.row, { borderColor: infant.openFlags.length ? theme.colors.danger : theme.colors.border }]}>
+        <View style={styles.head}>
+          <Text variant="title">
+            {infant.bedLabel ?? '—'} · {infant.displayName}
+          </Text>
+          <CheckBadge next={infant.nextCheck} now={now} />
+        </View>
+        <Text tone="muted">
+          GA {gestation(infant.gestationWeeks, infant.gestationDays)} · corrected {gestation(infant.correctedWeeks, infant.correctedDays)} · day {infant.ageDays} ·{' '}
+          {infant.weightGrams} g
+        </Text>
+        <Text tone="muted">
+          {HEAT_SOURCE_LABELS[infant.heatSource]}
+          {infant.controlMode ? ` · ${CONTROL_MODE_LABELS[infant.controlMode]}` : ''}
+          {infant.setCenti !== null ? ` · set ${temp(infant.setCenti, user.tempUnit)}` : ''}
+        </Text>
+        <Text>
+          Probe {probe ? `${temp(probe.centi, user.tempUnit)} at ${t(probe.takenAt)}` : '—'} · Remote{' '}
+          {remote ? `${temp(remote.centi, user.tempUnit)} ${remote.site ? SITE_LABELS[remote.site].toLowerCase() : ''} at ${t(remote.takenAt)}` : '—'}
+        </Text>
+        <View style={styles.badges}>
+          {infant.openFlags.map((f) => (
+            <StatusBadge
+              key={f.key}
+              tone={f.kind === 'heat-stress' ? 'heat' : f.kind === 'cold-stress' ? 'warning' : f.kind === 'skin-to-skin-deviation' ? 'together' : 'danger'}
+              icon={f.kind === 'heat-stress' ? 'flame' : f.kind === 'cold-stress' ? 'snow' : 'alert'}
+              label={`${FLAG_LABELS[f.kind]}${f.escalated ? ' (escalated)' : ''}`}
+            />
+          ))}
+          {infant.skinToSkin ? <StatusBadge tone="together" icon="hands" label="Skin-to-skin" /> : null}
+          {pending.length ? <StatusBadge tone="warning" icon="cloud-off" label={`${pending.length} not yet saved`} /> : null}
+        </View>
+      </Card>
+    </Pressable>
+  );
+}
+
+const styles = StyleSheet.create({
+  list: { gap: 12 },
+  row: { borderWidth: 2 },
+  head: { flexDirection: 'row', flexWrap: 'wrap', justifyContent: 'space-between', gap: 8, alignItems: 'center' },
+  badges: { flexDirection: 'row', flexWrap: 'wrap', gap: 6 },
+});

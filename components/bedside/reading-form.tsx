@@ -1,0 +1,247 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useMemo, useRef, useState } from 'react';
+import { useForm, useFormState, useWatch, type Control } from 'react-hook-form';
+import { Pressable, StyleSheet, View, type TextInput } from 'react-native';
+import type { CreateReadingInput } from '@/shared/schemas/bedside';
+import { assessGapCenti, BAND_LABELS, heatStressPrompt, HEAT_STRESS_CHECKLIST, HEAT_STRESS_SIGNS, temperatureBand, type TempUnit } from '@/shared/thermal';
+import { TOUCH_TARGET } from '../theme/theme';
+import { useTheme } from '../theme/theme-provider';
+import { Button } from '../ui/button';
+import { Card } from '../ui/card';
+import { Caution } from '../ui/caution';
+import { Segmented } from '../ui/segmented';
+import { StatusBadge } from '../ui/status-badge';
+import { Text } from '../ui/text';
+import { TextField } from '../ui/text-field';
+import { tempDelta } from './format';
+import {
+  centiOf,
+  implausibleReasons,
+  isLate,
+  readingFormResolverSchema,
+  toCreateReading,
+  type ReadingFormValues,
+} from './reading-form-schema';
+
+export interface ReadingFormProps {
+  unit: TempUnit;
+  timeZone: string;
+  gapLimitCenti: number;
+  defaults: { controlMode: ReadingFormValues['controlMode']; set: string; remoteSite: ReadingFormValues['remoteSite'] };
+  now?: () => Date;
+  makeId?: () => string;
+  busy?: boolean;
+  /** Errors the server named, by field. */
+  serverFields?: Record<string, string>;
+  serverMessage?: string | null;
+  onSubmit: (body: CreateReadingInput & { takenAt: string }) => void;
+  onCancel?: () => void;
+}
+
+/** Probe, remote site and save first: a routine check is digits, Tab, digits, Enter. */
+export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () => new Date(), makeId = () => globalThis.crypto.randomUUID(), busy, serverFields = {}, serverMessage, onSubmit, onCancel }: ReadingFormProps) {
+  const theme = useTheme();
+  const schema = useMemo(() => readingFormResolverSchema(unit, timeZone, now), [unit, timeZone, now]);
+  const { control, handleSubmit, setValue } = useForm<ReadingFormValues>({
+    resolver: zodResolver(schema),
+    defaultValues: {
+      probe: '',
+      remote: '',
+      remoteSite: defaults.remoteSite ?? 'axilla',
+      air: '',
+      set: defaults.set,
+      controlMode: defaults.controlMode,
+      heaterOutputPct: '',
+      heartRate: '',
+      heatSigns: [],
+      note: '',
+      time: '',
+      lateReason: '',
+    },
+  });
+  const values = useWatch({ control }) as ReadingFormValues;
+  const remoteRef = useRef<TextInput>(null);
+  const [confirming, setConfirming] = useState<string[] | null>(null);
+  // One id per reading: a retry after an error or a lost connection reuses it.
+  const [id] = useState(makeId);
+  const u = `°${unit}`;
+
+  const submit = (confirmed: boolean) =>
+    handleSubmit((v) => {
+      const reasons = implausibleReasons(v, unit);
+      if (reasons.length > 0 && !confirmed) {
+        setConfirming(reasons);
+        return;
+      }
+      setConfirming(null);
+      onSubmit(toCreateReading(v, { id, unit, now: now(), timeZone, confirmed: reasons.length > 0 }));
+    });
+
+  const late = isLate(values, now(), timeZone);
+  const serverConfirm = serverFields.confirmedImplausible === 'confirm';
+
+  return (
+    <View style={styles.form}>
+      <TextField
+        control={control}
+        name="probe"
+        label={`Probe temperature (${u})`}
+        suffix={u}
+        inputMode="decimal"
+        keyboardType="decimal-pad"
+        autoFocus
+        returnKeyType="next"
+        blurOnSubmit={false}
+        onSubmitEditing={() => remoteRef.current?.focus()}
+        serverError={serverFields.probe}
+      />
+      <TextField
+        ref={remoteRef}
+        control={control}
+        name="remote"
+        label={`Remote-site temperature (${u})`}
+        suffix={u}
+        inputMode="decimal"
+        keyboardType="decimal-pad"
+        returnKeyType="done"
+        onSubmitEditing={() => void submit(false)()}
+        serverError={serverFields.remote}
+      />
+      <Segmented
+        label="Remote site"
+        value={values.remoteSite}
+        options={[
+          { value: 'axilla', label: 'Axilla' },
+          { value: 'rectal', label: 'Rectal' },
+          { value: 'other', label: 'Other' },
+        ]}
+        onChange={(site) => setValue('remoteSite', site, { shouldValidate: false })}
+      />
+      <FieldError control={control} name="remoteSite" fallback={serverFields.remoteSite} />
+
+      <Preview values={values} unit={unit} gapLimitCenti={gapLimitCenti} />
+
+      {confirming || serverConfirm ? (
+        <Card style={{ borderColor: theme.colors.warning, backgroundColor: theme.colors.warningSoft }} role="alert">
+          <StatusBadge tone="warning" icon="alert" label="Confirm unusual values" />
+          {(confirming ?? Object.entries(serverFields).filter(([k]) => k !== 'confirmedImplausible').map(([, v]) => v)).map((r) => (
+            <Text key={r}>{r}</Text>
+          ))}
+          <Button label="Confirm and save" variant="danger" onPress={() => void submit(true)()} busy={busy} />
+        </Card>
+      ) : null}
+
+      <View style={styles.actions}>
+        <Button label="Save reading" icon="check" onPress={() => void submit(false)()} busy={busy} />
+        {onCancel ? <Button label="Cancel" variant="quiet" onPress={onCancel} /> : null}
+      </View>
+      {serverMessage && !serverConfirm ? (
+        <Text tone="danger" role="alert">
+          {serverMessage}
+        </Text>
+      ) : null}
+
+      <Text variant="title" role="heading" aria-level={2}>
+        More observations
+      </Text>
+      <Segmented
+        label="Control mode"
+        value={values.controlMode}
+        options={[
+          { value: 'skin-servo', label: 'Skin servo' },
+          { value: 'air-servo', label: 'Air servo' },
+          { value: 'manual', label: 'Manual' },
+        ]}
+        onChange={(mode) => setValue('controlMode', mode)}
+      />
+      <TextField control={control} name="set" label={`Set temperature (${u})`} suffix={u} inputMode="decimal" keyboardType="decimal-pad" serverError={serverFields.set} />
+      <TextField control={control} name="air" label={`Air temperature (${u})`} suffix={u} inputMode="decimal" keyboardType="decimal-pad" serverError={serverFields.air} />
+      <TextField control={control} name="heaterOutputPct" label="Heater output (%)" suffix="%" inputMode="numeric" keyboardType="number-pad" serverError={serverFields.heaterOutputPct} />
+      <TextField control={control} name="heartRate" label="Heart rate (/min)" suffix="/min" inputMode="numeric" keyboardType="number-pad" serverError={serverFields.heartRate} />
+      <View style={styles.wrap} role="group" aria-label="Heat-stress signs">
+        <Text variant="label">Heat-stress signs</Text>
+        <View style={styles.chips}>
+          {HEAT_STRESS_SIGNS.map((s) => {
+            const on = values.heatSigns?.includes(s.sign) ?? false;
+            return (
+              <Pressable
+                key={s.sign}
+                role="checkbox"
+                aria-checked={on}
+                accessibilityLabel={s.label}
+                onPress={() => setValue('heatSigns', on ? values.heatSigns.filter((x) => x !== s.sign) : [...(values.heatSigns ?? []), s.sign])}
+                style={[styles.chip, { borderColor: on ? theme.colors.heat : theme.colors.border, backgroundColor: on ? theme.colors.heatSoft : theme.colors.surface }]}
+              >
+                <Text variant="label" style={{ color: on ? theme.colors.heat : theme.colors.text }}>
+                  {on ? '☑ ' : '☐ '}
+                  {s.label}
+                </Text>
+              </Pressable>
+            );
+          })}
+        </View>
+      </View>
+      <TextField control={control} name="time" label="Time taken (leave empty for now)" placeholder="Now" hint={`HH:MM, ${timeZone} time`} inputMode="numeric" serverError={serverFields.takenAt} />
+      {late ? <TextField control={control} name="lateReason" label="Why is this charted late?" serverError={serverFields.lateReason} /> : null}
+      <TextField control={control} name="note" label="Note" multiline serverError={serverFields.note} />
+    </View>
+  );
+}
+
+function FieldError({ control, name, fallback }: { control: Control<ReadingFormValues>; name: keyof ReadingFormValues; fallback?: string }) {
+  const { errors } = useFormState({ control, name });
+  const message = errors[name]?.message ?? fallback;
+  return message ? (
+    <Text variant="caption" tone="danger" role="alert">
+      {message}
+    </Text>
+  ) : null;
+}
+
+/** What the rules will say about the values as typed: shown before saving. */
+export function Preview({ values, unit, gapLimitCenti }: { values: ReadingFormValues; unit: TempUnit; gapLimitCenti: number }) {
+  const probe = centiOf(values.probe ?? '', unit);
+  const remote = centiOf(values.remote ?? '', unit);
+  const heartRate = Number(values.heartRate) || null;
+  const gap = probe !== null && remote !== null ? assessGapCenti(probe, remote, gapLimitCenti) : null;
+  const band = remote !== null ? temperatureBand(remote) : null;
+  const heat = heatStressPrompt({ remoteCenti: remote, heartRate, signs: values.heatSigns ?? [] });
+  const implausible = implausibleReasons(values, unit);
+  if (!gap && !band && !heat.raised && implausible.length === 0) return null;
+  return (
+    <Card role="status" aria-live="polite" aria-label="What the rules say">
+      {gap ? (
+        gap.exceeds ? (
+          <StatusBadge tone="danger" icon="alert" label={`Gap ${tempDelta(gap.gapCenti, unit)}: over the ${tempDelta(gapLimitCenti, unit)} limit. A gap flag will be raised.`} />
+        ) : (
+          <StatusBadge tone="ok" icon="check" label={`Gap ${tempDelta(gap.gapCenti, unit)}: within the ${tempDelta(gapLimitCenti, unit)} limit.`} />
+        )
+      ) : null}
+      {band ? (
+        <StatusBadge tone={band === 'normal' ? 'ok' : band === 'hyperthermia' ? 'heat' : 'warning'} icon={band === 'normal' ? 'check' : band === 'hyperthermia' ? 'flame' : 'snow'} label={`Remote site: ${BAND_LABELS[band]}`} />
+      ) : null}
+      {heat.raised ? (
+        <View style={{ gap: 4 }}>
+          <StatusBadge tone="heat" icon="flame" label="Heat-stress prompt" />
+          {HEAT_STRESS_CHECKLIST.map((step) => (
+            <Text key={step} variant="caption">
+              • {step}
+            </Text>
+          ))}
+        </View>
+      ) : null}
+      {implausible.map((r) => (
+        <StatusBadge key={r} tone="warning" icon="alert" label={r} />
+      ))}
+      <Caution />
+    </Card>
+  );
+}
+
+const styles = StyleSheet.create({
+  form: { gap: 14 },
+  actions: { flexDirection: 'row', gap: 12, flexWrap: 'wrap' },
+  wrap: { gap: 6 },
+  chips: { flexDirection: 'row', flexWrap: 'wrap', gap: 8 },
+  chip: { minHeight: TOUCH_TARGET, paddingHorizontal: 12, borderRadius: 10, borderWidth: 2, justifyContent: 'center' },
+});

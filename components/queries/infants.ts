@@ -1,0 +1,130 @@
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { CorrectReadingInput, CreateActionInput, StartSessionInput } from '@/shared/schemas/bedside';
+import type { CreateReadingResult, Flowsheet, FlagAction, InfantDetail, InfantSummary, ReadingVersion, SessionRecord } from '@/shared/types/bedside';
+import { api, ApiFailure } from '../api/client';
+import { STALE } from '../api/query-client';
+import { pendingReadings, sendReading, type PendingReading } from '../bedside/pending-readings';
+
+export const RQKEY_ROOT = 'infants';
+export const REFRESH_MS = 30_000;
+
+export const infantKeys = {
+  all: () => [RQKEY_ROOT] as const,
+  mine: () => [RQKEY_ROOT, 'mine'] as const,
+  unit: (unitId: string | null) => [RQKEY_ROOT, 'unit', unitId ?? 'all'] as const,
+  detail: (id: string) => [RQKEY_ROOT, 'detail', id] as const,
+  flowsheet: (id: string, hours: number) => [RQKEY_ROOT, 'flowsheet', id, hours] as const,
+  flowsheets: (id: string) => [RQKEY_ROOT, 'flowsheet', id] as const,
+};
+
+const enc = encodeURIComponent;
+
+export function useMyInfantsQuery() {
+  return useQuery({
+    queryKey: infantKeys.mine(),
+    queryFn: ({ signal }) => api<{ infants: InfantSummary[] }>('/infants/mine', { signal }).then((r) => r.infants),
+    staleTime: STALE.live,
+    refetchInterval: REFRESH_MS,
+  });
+}
+
+export function useUnitInfantsQuery(unitId: string | null = null) {
+  return useQuery({
+    queryKey: infantKeys.unit(unitId),
+    queryFn: ({ signal }) => api<{ infants: InfantSummary[] }>(`/infants${unitId ? `?unitId=${enc(unitId)}` : ''}`, { signal }).then((r) => r.infants),
+    staleTime: STALE.live,
+    refetchInterval: REFRESH_MS,
+  });
+}
+
+export function useInfantQuery(id: string) {
+  return useQuery({
+    queryKey: infantKeys.detail(id),
+    queryFn: ({ signal }) => api<InfantDetail>(`/infants/${enc(id)}`, { signal }),
+    staleTime: STALE.live,
+  });
+}
+
+export function useFlowsheetQuery(id: string, hours: 12 | 24 | 72) {
+  return useQuery({
+    queryKey: infantKeys.flowsheet(id, hours),
+    queryFn: ({ signal }) => api<Flowsheet>(`/infants/${enc(id)}/flowsheet?hours=${hours}`, { signal }),
+    staleTime: STALE.live,
+    refetchInterval: REFRESH_MS,
+  });
+}
+
+/** A clinical write changes the lists, the infant and every window of its flowsheet. */
+function invalidateInfant(queryClient: ReturnType<typeof useQueryClient>, infantId: string) {
+  void queryClient.invalidateQueries({ queryKey: infantKeys.mine() });
+  void queryClient.invalidateQueries({ queryKey: [RQKEY_ROOT, 'unit'] });
+  void queryClient.invalidateQueries({ queryKey: infantKeys.detail(infantId) });
+  void queryClient.invalidateQueries({ queryKey: infantKeys.flowsheets(infantId) });
+}
+
+export type SaveReadingOutcome = { saved: true; result: CreateReadingResult } | { saved: false; pending: PendingReading };
+
+/**
+ * Save a reading. It goes into the device's pending store first; if the server cannot be
+ * reached it stays there, shown as "not yet saved", and is resent when the connection returns.
+ * A refusal (bad input) comes back as an error for the form and leaves nothing pending.
+ */
+export function useCreateReadingMutation(infantId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    networkMode: 'always',
+    mutationFn: async (body: PendingReading['body']): Promise<SaveReadingOutcome> => {
+      const pending: PendingReading = { infantId, body, savedAt: new Date().toISOString() };
+      pendingReadings.add(pending);
+      try {
+        const result = await sendReading(infantId, body);
+        pendingReadings.remove(body.id);
+        return { saved: true, result };
+      } catch (err) {
+        if (err instanceof ApiFailure && (err.problem.kind === 'cannot-connect' || err.problem.kind === 'server-error')) {
+          return { saved: false, pending };
+        }
+        pendingReadings.remove(body.id);
+        throw err;
+      }
+    },
+    onSettled: () => invalidateInfant(queryClient, infantId),
+  });
+}
+
+export function useCorrectReadingMutation(infantId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: ({ readingId, body }: { readingId: string; body: CorrectReadingInput }) =>
+      api<{ reading: ReadingVersion }>(`/readings/${enc(readingId)}/corrections`, { method: 'POST', body }),
+    onSuccess: () => invalidateInfant(queryClient, infantId),
+  });
+}
+
+export function useFlagActionMutation(infantId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: ({ flagId, body }: { flagId: string; body: CreateActionInput }) =>
+      api<{ action: FlagAction; flag: { id: string; status: 'open' | 'closed'; recheckDueAt: string | null } }>(`/flags/${enc(flagId)}/actions`, {
+        method: 'POST',
+        body,
+      }),
+    onSuccess: () => invalidateInfant(queryClient, infantId),
+  });
+}
+
+export function useStartSkinToSkinMutation(infantId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (body: StartSessionInput) => api<{ session: SessionRecord }>(`/infants/${enc(infantId)}/skin-to-skin`, { method: 'POST', body }),
+    onSuccess: () => invalidateInfant(queryClient, infantId),
+  });
+}
+
+export function useEndSkinToSkinMutation(infantId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (sessionId: string) => api<{ session: SessionRecord }>(`/skin-to-skin/${enc(sessionId)}/end`, { method: 'POST', body: {} }),
+    onSuccess: () => invalidateInfant(queryClient, infantId),
+  });
+}
