@@ -1,7 +1,7 @@
 import { Router, type NextFunction, type Request, type RequestHandler, type Response } from 'express';
 import { can, type Permission } from '../../shared/roles';
 import type { AppContext } from '../context';
-import { forbidden, unauthorized } from '../errors';
+import { forbidden, notFound, unauthorized } from '../errors';
 import { verifyToken } from '../services/auth';
 
 export type Access = 'public' | 'signed-in' | Permission;
@@ -18,10 +18,56 @@ export function allow(ctx: AppContext, access: Access): AccessHandler {
     if (!match) return next(unauthorized('Please sign in.'));
     req.auth = verifyToken(ctx, match[1]!);
     if (access !== 'signed-in' && !can(req.auth.role, access)) return next(forbidden());
+    // The unit check runs before any validation, so another unit's record answers 403 whatever the body.
+    checkUnitScope(ctx, req);
     next();
   }) as AccessHandler;
   handler.access = access;
   return handler;
+}
+
+/** Which table a path's `:id` names, by the path it sits under. */
+const ENTITY_BY_PATH: Array<[RegExp, string, string]> = [
+  [/\/infants\/:id(\/|$)/, 'infants', 'infant'],
+  [/\/readings\/:id(\/|$)/, 'readings', 'reading'],
+  [/\/flags\/:id(\/|$)/, 'flags', 'flag'],
+  [/\/skin-to-skin\/:id(\/|$)/, 'skin_to_skin_sessions', 'skin-to-skin session'],
+  [/\/escalations\/:id(\/|$)/, 'escalations', 'escalation'],
+  [/\/beds\/:id(\/|$)/, 'beds', 'bed'],
+  [/\/reviews\/:id(\/|$)/, 'reviews', 'review'],
+];
+
+/**
+ * Resolve the unit a route's record belongs to from its path parameters and refuse another
+ * unit's record (403) or a record that does not exist (404). Routes whose records carry no unit
+ * in the path check it in their handlers with `assertUnit`.
+ */
+export function checkUnitScope(ctx: AppContext, req: Request): void {
+  const auth = req.auth!;
+  const params = (req.params ?? {}) as Record<string, string>;
+  const { sqlite } = ctx.database;
+  if (typeof params.unitId === 'string') {
+    if (!auth.unitIds.includes(params.unitId)) throw forbidden('You are not part of that unit.');
+    return;
+  }
+  const pattern = `${req.baseUrl}${(req.route as { path?: string } | undefined)?.path ?? ''}`;
+  if (typeof params.flagId === 'string') return assertRowUnit(sqlite, auth.unitIds, 'flags', params.flagId, 'flag');
+  if (typeof params.id !== 'string') return;
+  if (/\/users\/:id(\/|$)/.test(pattern)) {
+    const units = (sqlite.prepare('SELECT unit_id FROM user_units WHERE user_id = ?').all(params.id) as Array<{ unit_id: string }>).map((r) => r.unit_id);
+    const exists = sqlite.prepare('SELECT 1 FROM users WHERE id = ?').get(params.id);
+    if (!exists) throw notFound('That user');
+    if (units.length > 0 && !units.some((u) => auth.unitIds.includes(u))) throw forbidden('That person works in a unit you do not manage.');
+    return;
+  }
+  const entry = ENTITY_BY_PATH.find(([re]) => re.test(pattern));
+  if (entry) assertRowUnit(sqlite, auth.unitIds, entry[1], params.id, entry[2]);
+}
+
+function assertRowUnit(sqlite: AppContext['database']['sqlite'], unitIds: string[], table: string, id: string, what: string): void {
+  const row = sqlite.prepare(`SELECT unit_id FROM ${table} WHERE id = ?`).get(id) as { unit_id: string | null } | undefined;
+  if (!row) throw notFound(`That ${what}`);
+  if (row.unit_id && !unitIds.includes(row.unit_id)) throw forbidden('This record belongs to a unit you are not part of.');
 }
 
 /** Throws 403 unless the signed-in user belongs to the unit. */
