@@ -1,6 +1,8 @@
 /** Sign-in and session rules, after OWASP ASVS 4.0.3 chapters 2 and 3. */
 import jwt from 'jsonwebtoken';
 import request from 'supertest';
+import { assertPasswordAllowed } from '../../server/services/passwords';
+import { newPasswordSchema } from '../../shared/schemas/auth';
 import { DEMO, makeEnv, type TestEnv } from './helpers';
 
 let env: TestEnv;
@@ -74,5 +76,23 @@ describe('throttling', () => {
     const unknown = await time('nobody-here@warmfold.test');
     // Both pay for one bcrypt comparison; a missing account must not answer in a fraction of the time.
     expect(unknown).toBeGreaterThan(known * 0.3);
+  });
+});
+
+describe('demo passwords follow the same rules', () => {
+  it('meets the length, byte and common-list rules', async () => {
+    expect(newPasswordSchema.safeParse(DEMO.password).success).toBe(true);
+    expect(() => assertPasswordAllowed(DEMO.password, 'password')).not.toThrow();
+  });
+});
+
+describe('CORS', () => {
+  it('allows only configured origins', async () => {
+    const withCors = await makeEnv({ seed: false, config: { corsOrigins: ['https://ward.example'] } });
+    const allowed = await request(withCors.app).get('/api/health').set('Origin', 'https://ward.example');
+    expect(allowed.headers['access-control-allow-origin']).toBe('https://ward.example');
+    const other = await request(withCors.app).get('/api/health').set('Origin', 'https://elsewhere.example');
+    expect(other.headers['access-control-allow-origin']).toBeUndefined();
+    withCors.close();
   });
 });
