@@ -1,5 +1,5 @@
 import type { NextCheck } from '@/shared/types/bedside';
-import { StatusBadge } from '../ui/status-badge';
+import { StatusBadge } from '@/components/ui/status-badge';
 import { duration } from './format';
 
 /** The next remote-site check as a live countdown: word, icon and colour together. */

@@ -1,25 +1,24 @@
 import { useRouter } from 'expo-router';
 import { useQueryClient } from '@tanstack/react-query';
 import { useEffect, useState } from 'react';
-import { StyleSheet, useWindowDimensions, View } from 'react-native';
-import { ACTION_LABELS, type ActionKind } from '@/shared/schemas/bedside';
-import { CLINICAL_PROMPT_CAVEAT, HEAT_STRESS_CHECKLIST, HEAT_STRESS_SIGNS } from '@/shared/thermal';
-import type { Flowsheet, FlowsheetFlag, FlowsheetReading } from '@/shared/types/bedside';
-import { problemOf } from '../api/client';
-import { useUser } from '../auth/auth-provider';
-import { useEndSkinToSkinMutation, useFlagActionMutation, useFlowsheetQuery } from '../queries/infants';
-import { useTheme } from '../theme/theme-provider';
-import { WIDE_BREAKPOINT } from '../theme/theme';
-import { Button } from '../ui/button';
-import { Card } from '../ui/card';
-import { Screen } from '../ui/screen';
-import { Segmented } from '../ui/segmented';
-import { ErrorState, LoadingState } from '../ui/state-view';
-import { StatusBadge } from '../ui/status-badge';
-import { Text } from '../ui/text';
+import { Pressable, StyleSheet, useWindowDimensions, View } from 'react-native';
+import type { Flowsheet, FlowsheetReading, ReadingVersion } from '@/shared/types/bedside';
+import { useUser } from '@/components/auth/auth-provider';
+import { useFlowsheetQuery } from '@/components/queries/infants';
+import { useTheme } from '@/components/theme/theme-provider';
+import { WIDE_BREAKPOINT } from '@/components/theme/theme';
+import { Button } from '@/components/ui/button';
+import { Card } from '@/components/ui/card';
+import { Screen } from '@/components/ui/screen';
+import { Segmented } from '@/components/ui/segmented';
+import { ErrorState, LoadingState } from '@/components/ui/state-view';
+import { StatusBadge } from '@/components/ui/status-badge';
+import { Text } from '@/components/ui/text';
 import { CheckBadge } from './check-badge';
-import { clockTime, CONTROL_MODE_LABELS, dayTime, duration, FLAG_LABELS, SITE_LABELS, temp, tempDelta } from './format';
+import { ClosedFlags, FlagCard } from './flag-card';
+import { clockTime, CONTROL_MODE_LABELS, CORRECTION_REASON_LABELS, dayTime, SITE_LABELS, temp } from './format';
 import { startPendingFlush, usePendingReadings } from './pending-readings';
+import { SkinToSkinPanel } from './skin-to-skin';
 import { TrendChart } from './trend-chart';
 import { useNow } from './use-now';
 
@@ -57,9 +56,10 @@ function FlowsheetBody({ sheet, hours, setHours, canChart }: { sheet: Flowsheet;
   const user = useUser();
   const now = useNow();
   const { width } = useWindowDimensions();
+  const wide = width >= WIDE_BREAKPOINT;
   const pending = usePendingReadings(sheet.infant.id);
   const openFlags = sheet.flags.filter((f) => f.status === 'open');
-  const closedFlags = sheet.flags.filter((f) => f.status === 'closed');
+  const corrected = [...sheet.readings.filter((r) => r.corrected), ...sheet.removed];
   return (
     <View style={styles.body}>
       <View style={styles.badges}>
@@ -77,10 +77,15 @@ function FlowsheetBody({ sheet, hours, setHours, canChart }: { sheet: Flowsheet;
           </Text>
         </Card>
       ))}
-      {openFlags.map((f) => (
-        <FlagCard key={f.key} flag={f} sheet={sheet} canChart={canChart} now={now} />
-      ))}
-      {sheet.infant.skinToSkin ? <SessionCard sheet={sheet} canChart={canChart} now={now} /> : null}
+      <View style={[styles.columns, wide && styles.columnsWide]}>
+        {openFlags.map((f) => (
+          <View key={f.key} style={wide ? styles.column : undefined}>
+            <FlagCard flag={f} sheet={sheet} canChart={canChart} now={now} />
+          </View>
+        ))}
+      </View>
+      <ClosedFlags sheet={sheet} />
+      <SkinToSkinPanel sheet={sheet} canChart={canChart} now={now} />
       <Card>
         <Text variant="title" role="heading" aria-level={2}>
           Trend
@@ -100,16 +105,20 @@ function FlowsheetBody({ sheet, hours, setHours, canChart }: { sheet: Flowsheet;
       <Text variant="title" role="heading" aria-level={2}>
         Readings
       </Text>
-      {sheet.readings.length === 0 ? <Text tone="muted">No readings in this window.</Text> : width >= WIDE_BREAKPOINT ? <ReadingGrid sheet={sheet} /> : sheet.readings.map((r) => <ReadingCard key={r.rootId} reading={r} sheet={sheet} />)}
-      {closedFlags.length ? (
-        <Card>
+      {sheet.readings.length === 0 ? (
+        <Text tone="muted">No readings in this window.</Text>
+      ) : wide ? (
+        <ReadingGrid sheet={sheet} canChart={canChart} />
+      ) : (
+        sheet.readings.map((r) => <ReadingCard key={r.rootId} reading={r} sheet={sheet} canChart={canChart} />)
+      )}
+      {corrected.length ? (
+        <Card role="region" aria-label="Corrected entries">
           <Text variant="title" role="heading" aria-level={2}>
-            Closed flags
+            Corrected entries
           </Text>
-          {closedFlags.map((f) => (
-            <Text key={f.key}>
-              {FLAG_LABELS[f.kind]} raised {clockTime(f.raisedAt, sheet.infant.timeZone, user.clock)}, closed {f.closedAt ? clockTime(f.closedAt, sheet.infant.timeZone, user.clock) : ''} · {f.actions.map((a) => ACTION_LABELS[a.kind as ActionKind] ?? a.kind).join(', ') || 'no actions'}
-            </Text>
+          {corrected.map((r) => (
+            <History key={r.rootId} reading={r} sheet={sheet} />
           ))}
         </Card>
       ) : null}
@@ -117,130 +126,85 @@ function FlowsheetBody({ sheet, hours, setHours, canChart }: { sheet: Flowsheet;
   );
 }
 
-const GAP_ACTIONS: ActionKind[] = ['checked-probe-contact', 'checked-cover', 'moved-probe', 'adjusted-set-temperature', 'changed-control-mode'];
-const HEAT_ACTIONS: ActionKind[] = ['adjusted-set-temperature', 'checked-probe-contact', 'removed-coverings', 'reduced-heater-output', 'informed-charge-nurse'];
-const OTHER_ACTIONS: ActionKind[] = ['checked-probe-contact', 'adjusted-set-temperature', 'informed-charge-nurse'];
-
-function FlagCard({ flag, sheet, canChart, now }: { flag: FlowsheetFlag; sheet: Flowsheet; canChart: boolean; now: Date }) {
-  const user = useUser();
+function useCorrect(sheet: Flowsheet) {
   const router = useRouter();
-  const { colors } = useTheme();
-  const mutation = useFlagActionMutation(sheet.infant.id);
-  const tz = sheet.infant.timeZone;
-  const kinds = flag.kind === 'gap' ? GAP_ACTIONS : flag.kind === 'heat-stress' ? HEAT_ACTIONS : flag.kind === 'overdue-check' ? [] : OTHER_ACTIONS;
-  const done = new Set(flag.actions.map((a) => a.kind));
-  const detail = flag.detail as { gapCenti?: number; limitCenti?: number; minutesLate?: number };
-  const recheckMs = flag.recheckDueAt ? Date.parse(flag.recheckDueAt) - now.getTime() : null;
-  return (
-    <Card style={{ borderColor: colors.danger, borderWidth: 2 }} role="region" aria-label={FLAG_LABELS[flag.kind]}>
-      <StatusBadge tone={flag.kind === 'heat-stress' ? 'heat' : 'danger'} icon={flag.kind === 'heat-stress' ? 'flame' : 'alert'} label={`${FLAG_LABELS[flag.kind]} open${flag.escalated ? ', escalated' : ''}`} large />
-      <Text>
-        Raised {clockTime(flag.raisedAt, tz, user.clock)}
-        {flag.kind === 'gap' && detail.gapCenti !== undefined ? ` · probe and remote site ${tempDelta(detail.gapCenti, user.tempUnit)} apart (limit ${tempDelta(detail.limitCenti ?? 50, user.tempUnit)})` : ''}
-      </Text>
-      {recheckMs !== null ? (
-        <StatusBadge tone={recheckMs < 0 ? 'danger' : 'warning'} icon="clock" label={recheckMs < 0 ? `Recheck overdue by ${duration(-recheckMs)}` : `Recheck due in ${duration(recheckMs)}`} />
-      ) : null}
-      {flag.kind === 'heat-stress' ? (
-        <View>
-          <Text variant="label">Signs to look for: {HEAT_STRESS_SIGNS.map((s) => s.label.toLowerCase()).join(', ')}.</Text>
-          {HEAT_STRESS_CHECKLIST.map((s) => (
-            <Text key={s} variant="caption">
-              • {s}
-            </Text>
-          ))}
-        </View>
-      ) : null}
-      {flag.actions.map((a) => (
-        <Text key={a.id} variant="caption">
-          ✓ {ACTION_LABELS[a.kind as ActionKind] ?? a.kind} · {a.recordedBy.name} at {clockTime(a.at, tz, user.clock)}
-        </Text>
-      ))}
-      {canChart && flag.id ? (
-        <View style={styles.badges} role="group" aria-label="Actions taken">
-          {kinds.map((kind) => (
-            <Button
-              key={kind}
-              compact
-              variant={done.has(kind) ? 'quiet' : 'secondary'}
-              label={ACTION_LABELS[kind]}
-              icon={done.has(kind) ? 'check' : undefined}
-              busy={mutation.isPending && mutation.variables?.body.kind === kind}
-              onPress={() => mutation.mutate({ flagId: flag.id!, body: { id: globalThis.crypto.randomUUID(), kind } })}
-            />
-          ))}
-          <Button compact label={flag.kind === 'overdue-check' ? 'Record the check' : 'Record recheck'} icon="thermometer" onPress={() => router.push(`/infants/${sheet.infant.id}/record`)} />
-        </View>
-      ) : null}
-      {mutation.isError ? <Text tone="danger">{problemOf(mutation.error).message}</Text> : null}
-      <Text variant="caption" tone="muted">
-        {CLINICAL_PROMPT_CAVEAT} Recheck {sheet.policy.recheckMinutes} minutes after an action.
-      </Text>
-    </Card>
-  );
+  return (r: FlowsheetReading) => router.push(`/infants/${sheet.infant.id}/correct/${r.id}`);
 }
 
-function SessionCard({ sheet, canChart, now }: { sheet: Flowsheet; canChart: boolean; now: Date }) {
-  const user = useUser();
-  const s = sheet.infant.skinToSkin!;
-  const end = useEndSkinToSkinMutation(sheet.infant.id);
-  return (
-    <Card role="region" aria-label="Skin-to-skin session">
-      <StatusBadge tone="together" icon="hands" label="Skin-to-skin session running" large />
-      <Text>
-        Since {clockTime(s.startedAt, sheet.infant.timeZone, user.clock)} ({duration(now.getTime() - Date.parse(s.startedAt))}) · reference {temp(s.referenceCenti, user.tempUnit)} · deviation limit{' '}
-        {tempDelta(s.limitCenti, user.tempUnit)}
-      </Text>
-      {canChart ? <Button label="End session" variant="secondary" busy={end.isPending} onPress={() => end.mutate(s.id)} /> : null}
-      {end.isError ? <Text tone="danger">{problemOf(end.error).message}</Text> : null}
-    </Card>
-  );
-}
-
-function ReadingCard({ reading: r, sheet }: { reading: FlowsheetReading; sheet: Flowsheet }) {
+function ReadingCard({ reading: r, sheet, canChart }: { reading: FlowsheetReading; sheet: Flowsheet; canChart: boolean }) {
   const user = useUser();
   const tz = sheet.infant.timeZone;
+  const correct = useCorrect(sheet);
   const [open, setOpen] = useState(false);
   return (
     <Card>
-      <Text variant="bodyStrong">
-        {clockTime(r.takenAt, tz, user.clock)}
-        {r.corrected ? ' · corrected' : ''}
-        {r.lateReason ? ' · late entry' : ''}
-      </Text>
+      <View style={styles.head}>
+        <Text variant="bodyStrong">{clockTime(r.takenAt, tz, user.clock)}</Text>
+        {r.corrected ? <StatusBadge tone="neutral" icon="review" label={`Corrected: ${CORRECTION_REASON_LABELS[r.correctionReason ?? 'corrected-value'].toLowerCase()}`} /> : null}
+        {r.lateReason ? <StatusBadge tone="neutral" icon="clock" label="Late entry" /> : null}
+      </View>
       <Text>
         Probe {temp(r.probeCenti, user.tempUnit)} · Remote {temp(r.remoteCenti, user.tempUnit)}
         {r.remoteSite ? ` (${SITE_LABELS[r.remoteSite].toLowerCase()})` : ''} · Set {temp(r.setCenti, user.tempUnit)}
       </Text>
       <Text tone="muted">
-        {r.controlMode ? CONTROL_MODE_LABELS[r.controlMode] : ''}
-        {r.airCenti !== null ? ` · air ${temp(r.airCenti, user.tempUnit)}` : ''}
-        {r.heaterOutputPct !== null ? ` · output ${r.heaterOutputPct} %` : ''}
-        {r.heartRate !== null ? ` · HR ${r.heartRate}/min` : ''}
-        {' · '}
-        {r.recordedBy.name}
+        {[
+          r.controlMode ? CONTROL_MODE_LABELS[r.controlMode] : null,
+          r.airCenti !== null ? `air ${temp(r.airCenti, user.tempUnit)}` : null,
+          r.heaterOutputPct !== null ? `output ${r.heaterOutputPct} %` : null,
+          r.heartRate !== null ? `HR ${r.heartRate}/min` : null,
+          r.recordedBy.name,
+        ]
+          .filter(Boolean)
+          .join(' · ')}
       </Text>
       {r.note ? <Text variant="caption">{r.note}</Text> : null}
-      {r.corrected ? (
-        <>
-          <Button compact variant="quiet" label={open ? 'Hide history' : `History (${r.history.length + 1} versions)`} onPress={() => setOpen(!open)} />
-          {open
-            ? [...r.history, r].map((v) => (
-                <Text key={v.id} variant="caption">
-                  {dayTime(v.recordedAt, tz, user.clock)} · {v.recordedBy.name} · probe {temp(v.probeCenti, user.tempUnit)}, remote {temp(v.remoteCenti, user.tempUnit)}
-                  {v.correctionReason ? ` · ${v.correctionReason.replace(/-/g, ' ')}: ${v.correctionNote ?? ''}` : ' · first entry'}
-                </Text>
-              ))
-            : null}
-        </>
-      ) : null}
+      {r.lateReason ? <Text variant="caption" tone="muted">Charted late: {r.lateReason}</Text> : null}
+      <View style={styles.badges}>
+        {canChart ? <Button compact variant="secondary" label="Correct" accessibilityLabel={`Correct the reading of ${clockTime(r.takenAt, tz, user.clock)}`} onPress={() => correct(r)} /> : null}
+        {r.corrected ? <Button compact variant="quiet" label={open ? 'Hide history' : `History (${r.history.length + 1} versions)`} onPress={() => setOpen(!open)} /> : null}
+      </View>
+      {open ? <Versions reading={r} sheet={sheet} /> : null}
     </Card>
   );
 }
 
-function ReadingGrid({ sheet }: { sheet: Flowsheet }) {
+/** Every version of a reading, oldest first: what it said, who saved it and when, and why it changed. */
+function Versions({ reading: r, sheet }: { reading: FlowsheetReading; sheet: Flowsheet }) {
   const user = useUser();
-  const cols = sheet.readings.slice(0, 24);
+  const tz = sheet.infant.timeZone;
+  const versions: ReadingVersion[] = [...r.history, r];
+  return (
+    <View role="list" style={styles.versions} aria-label="Versions">
+      {versions.map((v, i) => (
+        <Text key={v.id} role="listitem" variant="caption">
+          {i === versions.length - 1 ? 'Now' : `Version ${i + 1}`}: {v.enteredInError ? 'removed' : `probe ${temp(v.probeCenti, user.tempUnit)}, remote ${temp(v.remoteCenti, user.tempUnit)}, set ${temp(v.setCenti, user.tempUnit)}`} · {v.recordedBy.name},{' '}
+          {dayTime(v.recordedAt, tz, user.clock)}
+          {v.correctionReason ? ` · ${CORRECTION_REASON_LABELS[v.correctionReason]}: ${v.correctionNote ?? ''}` : ' · first entry'}
+        </Text>
+      ))}
+    </View>
+  );
+}
+
+function History({ reading: r, sheet }: { reading: FlowsheetReading; sheet: Flowsheet }) {
+  const user = useUser();
+  return (
+    <View style={styles.history}>
+      <Text variant="label">
+        Reading of {dayTime(r.takenAt, sheet.infant.timeZone, user.clock)}
+        {r.enteredInError ? ' (removed: entered in error)' : ''}
+      </Text>
+      <Versions reading={r} sheet={sheet} />
+    </View>
+  );
+}
+
+function ReadingGrid({ sheet, canChart }: { sheet: Flowsheet; canChart: boolean }) {
+  const user = useUser();
+  const { colors } = useTheme();
+  const correct = useCorrect(sheet);
+  const cols = sheet.readings.slice(0, 10);
   const rows: Array<[string, (r: FlowsheetReading) => string]> = [
     ['Probe', (r) => temp(r.probeCenti, user.tempUnit)],
     ['Remote site', (r) => temp(r.remoteCenti, user.tempUnit)],
@@ -250,44 +214,76 @@ function ReadingGrid({ sheet }: { sheet: Flowsheet }) {
     ['Mode', (r) => (r.controlMode ? CONTROL_MODE_LABELS[r.controlMode] : '—')],
     ['Output', (r) => (r.heaterOutputPct === null ? '—' : `${r.heaterOutputPct} %`)],
     ['Heart rate', (r) => (r.heartRate === null ? '—' : String(r.heartRate))],
+    ['By', (r) => r.recordedBy.name.split(' ')[0] ?? ''],
   ];
   return (
-    <View role="table" style={styles.grid}>
-      <View role="row" style={styles.gridRow}>
-        <Text role="columnheader" variant="label" style={styles.gridHead}>
-          Time
-        </Text>
-        {cols.map((r) => (
-          <Text key={r.id} role="columnheader" variant="label" style={styles.gridCell}>
-            {clockTime(r.takenAt, sheet.infant.timeZone, user.clock)}
-            {r.corrected ? ' *' : ''}
-          </Text>
-        ))}
-      </View>
-      {rows.map(([label, pick]) => (
-        <View key={label} role="row" style={styles.gridRow}>
-          <Text role="rowheader" variant="label" style={styles.gridHead}>
-            {label}
+    <Card>
+      <View role="table" aria-label="Readings" style={styles.grid}>
+        <View role="row" style={[styles.gridRow, { borderBottomColor: colors.border }]}>
+          <Text role="columnheader" variant="label" style={styles.gridHead}>
+            Time
           </Text>
           {cols.map((r) => (
-            <Text key={r.id} role="cell" style={styles.gridCell}>
-              {pick(r)}
+            <Text key={r.id} role="columnheader" variant="label" style={styles.gridCell}>
+              {clockTime(r.takenAt, sheet.infant.timeZone, user.clock)}
+              {r.corrected ? ' ✎' : ''}
             </Text>
           ))}
         </View>
-      ))}
+        {rows.map(([label, pick], i) => (
+          <View key={label} role="row" style={[styles.gridRow, { borderBottomColor: colors.border }, i % 2 === 1 && { backgroundColor: colors.surfaceSunken }]}>
+            <Text role="rowheader" variant="label" style={styles.gridHead}>
+              {label}
+            </Text>
+            {cols.map((r) => (
+              <Text key={r.id} role="cell" style={styles.gridCell}>
+                {pick(r)}
+              </Text>
+            ))}
+          </View>
+        ))}
+        {canChart ? (
+          <View role="row" style={styles.gridRow}>
+            <Text role="rowheader" variant="label" style={styles.gridHead}>
+              {' '}
+            </Text>
+            {cols.map((r) => (
+              <View key={r.id} role="cell" style={styles.gridCell}>
+                <Pressable
+                  role="button"
+                  aria-label={`Correct the reading of ${clockTime(r.takenAt, sheet.infant.timeZone, user.clock)}`}
+                  onPress={() => correct(r)}
+                  style={styles.gridLink}
+                >
+                  <Text variant="caption" tone="primary" style={styles.underline}>
+                    Correct
+                  </Text>
+                </Pressable>
+              </View>
+            ))}
+          </View>
+        ) : null}
+      </View>
       <Text variant="caption" tone="muted">
-        * corrected: open the reading on a phone-width view for its history.
+        Newest first; the latest 10 readings (all of them as cards on a phone). ✎ marks a corrected entry: its history is under Corrected entries.
       </Text>
-    </View>
+    </Card>
   );
 }
 
 const styles = StyleSheet.create({
   body: { gap: 14 },
-  badges: { flexDirection: 'row', flexWrap: 'wrap', gap: 8 },
-  grid: { gap: 2 },
-  gridRow: { flexDirection: 'row' },
+  badges: { flexDirection: 'row', flexWrap: 'wrap', gap: 8, alignItems: 'center' },
+  head: { flexDirection: 'row', flexWrap: 'wrap', gap: 8, alignItems: 'center' },
+  columns: { gap: 14 },
+  columnsWide: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'flex-start' },
+  column: { flexBasis: 420, flexGrow: 1 },
+  versions: { gap: 4 },
+  history: { gap: 4, paddingVertical: 4 },
+  grid: { gap: 0 },
+  gridRow: { flexDirection: 'row', alignItems: 'center', minHeight: 36, borderBottomWidth: StyleSheet.hairlineWidth },
   gridHead: { width: 110 },
-  gridCell: { width: 76, textAlign: 'center' },
+  gridCell: { width: 72, textAlign: 'center', alignItems: 'center' },
+  gridLink: { minHeight: 44, minWidth: 64, alignItems: 'center', justifyContent: 'center' },
+  underline: { textDecorationLine: 'underline' },
 });

@@ -7,12 +7,16 @@ export interface DisplayPrefs {
   clock: '24h' | '12h';
 }
 
+/** A no-break space keeps a value and its unit on one line: "36.9" and "°C" never part. */
+const NBSP = '\u00a0';
+const keepTogether = (text: string) => text.replace(/ °/g, `${NBSP}°`);
+
 export function temp(centi: number | null | undefined, unit: TempUnit): string {
-  return centi === null || centi === undefined ? '—' : formatTemperature(centi, unit);
+  return centi === null || centi === undefined ? '—' : keepTogether(formatTemperature(centi, unit));
 }
 
 export function tempDelta(centi: number, unit: TempUnit): string {
-  return formatTemperatureDifference(centi, unit);
+  return keepTogether(formatTemperatureDifference(centi, unit));
 }
 
 /** A time of day in the unit's zone, by the user's 12/24-hour setting. */
@@ -48,3 +52,4 @@ export const FLAG_LABELS = {
   'manual-mode': 'Manual mode',
   'skin-to-skin-deviation': 'Skin-to-skin deviation',
 } as const;
+export const CORRECTION_REASON_LABELS = { 'corrected-value': 'Corrected value', 'entered-in-error': 'Entered in error', 'late-entry': 'Late entry' } as const;

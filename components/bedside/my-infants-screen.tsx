@@ -1,16 +1,17 @@
 import { useRouter } from 'expo-router';
 import { useState } from 'react';
-import { Pressable, StyleSheet, View } from 'react-native';
+import { Pressable, StyleSheet, useWindowDimensions, View } from 'react-native';
 import type { InfantSummary } from '@/shared/types/bedside';
-import { useUser } from '../auth/auth-provider';
-import { useMyInfantsQuery, useUnitInfantsQuery } from '../queries/infants';
-import { useTheme } from '../theme/theme-provider';
-import { Card } from '../ui/card';
-import { Screen } from '../ui/screen';
-import { Segmented } from '../ui/segmented';
-import { EmptyState, ErrorState, LoadingState } from '../ui/state-view';
-import { StatusBadge } from '../ui/status-badge';
-import { Text } from '../ui/text';
+import { useUser } from '@/components/auth/auth-provider';
+import { useMyInfantsQuery, useUnitInfantsQuery } from '@/components/queries/infants';
+import { useTheme } from '@/components/theme/theme-provider';
+import { WIDE_BREAKPOINT } from '@/components/theme/theme';
+import { Card } from '@/components/ui/card';
+import { Screen } from '@/components/ui/screen';
+import { Segmented } from '@/components/ui/segmented';
+import { EmptyState, ErrorState, LoadingState } from '@/components/ui/state-view';
+import { StatusBadge } from '@/components/ui/status-badge';
+import { Text } from '@/components/ui/text';
 import { CheckBadge } from './check-badge';
 import { clockTime, CONTROL_MODE_LABELS, FLAG_LABELS, gestation, HEAT_SOURCE_LABELS, SITE_LABELS, temp } from './format';
 import { usePendingReadings } from './pending-readings';
@@ -23,6 +24,7 @@ export function MyInfantsScreen() {
   const mine = useMyInfantsQuery();
   const unit = useUnitInfantsQuery();
   const query = tab === 'mine' ? mine : unit;
+  const wide = useWindowDimensions().width >= WIDE_BREAKPOINT;
   return (
     <Screen title="My infants" subtitle="This shift" refreshing={query.isRefetching} onRefresh={() => void query.refetch()}>
       <Segmented
@@ -41,9 +43,9 @@ export function MyInfantsScreen() {
       ) : query.data.length === 0 ? (
         <EmptyState title={tab === 'mine' ? 'No infants assigned to you this shift' : 'No infants admitted'} message="Ask the charge nurse if this looks wrong." />
       ) : (
-        <View style={styles.list} role="list">
+        <View style={[styles.list, wide && styles.listWide]} role="list">
           {query.data.map((infant) => (
-            <InfantRow key={infant.id} infant={infant} />
+            <InfantRow key={infant.id} infant={infant} wide={wide} />
           ))}
         </View>
       )}
@@ -51,7 +53,7 @@ export function MyInfantsScreen() {
   );
 }
 
-export function InfantRow({ infant }: { infant: InfantSummary }) {
+export function InfantRow({ infant, wide = false }: { infant: InfantSummary; wide?: boolean }) {
   const user = useUser();
   const theme = useTheme();
   const router = useRouter();
@@ -60,10 +62,10 @@ export function InfantRow({ infant }: { infant: InfantSummary }) {
   const t = (iso: string) => clockTime(iso, infant.timeZone, user.clock);
   const { probe, remote } = infant.latest;
   return (
+    <View role="listitem" style={wide ? styles.itemWide : undefined}>
     <Pressable
-      role="listitem"
-      accessibilityRole="link"
-      accessibilityLabel={`${infant.bedLabel ?? 'No bed'}, ${infant.displayName}: open flowsheet`}
+      role="link"
+      aria-label={`${infant.bedLabel ?? 'No bed'}, ${infant.displayName}: open flowsheet`}
       onPress={() => router.push(`/infants/${infant.id}`)}
     >
       <Card style={[styles.row, { borderColor: infant.openFlags.length ? theme.colors.danger : theme.colors.border }]}>
@@ -100,11 +102,15 @@ export function InfantRow({ infant }: { infant: InfantSummary }) {
         </View>
       </Card>
     </Pressable>
+    </View>
   );
 }
 
 const styles = StyleSheet.create({
   list: { gap: 12 },
+  listWide: { flexDirection: 'row', flexWrap: 'wrap' },
+  // Two columns on a wide screen; each row keeps a readable width.
+  itemWide: { flexBasis: 400, flexGrow: 1, maxWidth: '49.4%' },
   row: { borderWidth: 2 },
   head: { flexDirection: 'row', flexWrap: 'wrap', justifyContent: 'space-between', gap: 8, alignItems: 'center' },
   badges: { flexDirection: 'row', flexWrap: 'wrap', gap: 6 },

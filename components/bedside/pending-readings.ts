@@ -2,8 +2,8 @@ import { onlineManager, type QueryClient } from '@tanstack/react-query';
 import { useSyncExternalStore } from 'react';
 import type { CreateReadingInput } from '@/shared/schemas/bedside';
 import type { CreateReadingResult } from '@/shared/types/bedside';
-import { api, ApiFailure } from '../api/client';
-import { storage } from '../api/storage';
+import { api, ApiFailure } from '@/components/api/client';
+import { storage } from '@/components/api/storage';
 
 /**
  * Readings saved on this device but not yet acknowledged by the server. Kept in storage so a

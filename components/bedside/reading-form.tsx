@@ -4,15 +4,15 @@ import { useForm, useFormState, useWatch, type Control } from 'react-hook-form';
 import { Pressable, StyleSheet, View, type TextInput } from 'react-native';
 import type { CreateReadingInput } from '@/shared/schemas/bedside';
 import { assessGapCenti, BAND_LABELS, heatStressPrompt, HEAT_STRESS_CHECKLIST, HEAT_STRESS_SIGNS, temperatureBand, type TempUnit } from '@/shared/thermal';
-import { TOUCH_TARGET } from '../theme/theme';
-import { useTheme } from '../theme/theme-provider';
-import { Button } from '../ui/button';
-import { Card } from '../ui/card';
-import { Caution } from '../ui/caution';
-import { Segmented } from '../ui/segmented';
-import { StatusBadge } from '../ui/status-badge';
-import { Text } from '../ui/text';
-import { TextField } from '../ui/text-field';
+import { TOUCH_TARGET } from '@/components/theme/theme';
+import { useTheme } from '@/components/theme/theme-provider';
+import { Button } from '@/components/ui/button';
+import { Card } from '@/components/ui/card';
+import { Caution } from '@/components/ui/caution';
+import { Segmented } from '@/components/ui/segmented';
+import { StatusBadge } from '@/components/ui/status-badge';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
 import { tempDelta } from './format';
 import {
   centiOf,
@@ -239,7 +239,7 @@ export function Preview({ values, unit, gapLimitCenti }: { values: ReadingFormVa
 }
 
 const styles = StyleSheet.create({
-  form: { gap: 14 },
+  form: { gap: 14, width: '100%', maxWidth: 560 },
   actions: { flexDirection: 'row', gap: 12, flexWrap: 'wrap' },
   wrap: { gap: 6 },
   chips: { flexDirection: 'row', flexWrap: 'wrap', gap: 8 },

@@ -1,12 +1,12 @@
 import { useRouter } from 'expo-router';
 import { useEffect, useState } from 'react';
 import { fromCentiCelsius } from '@/shared/thermal';
-import { problemOf } from '../api/client';
-import { useUser } from '../auth/auth-provider';
-import { useCreateReadingMutation, useFlowsheetQuery, useInfantQuery } from '../queries/infants';
+import { problemOf } from '@/components/api/client';
+import { useUser } from '@/components/auth/auth-provider';
+import { useCreateReadingMutation, useFlowsheetQuery, useInfantQuery } from '@/components/queries/infants';
 import { useQueryClient } from '@tanstack/react-query';
-import { Screen } from '../ui/screen';
-import { ErrorState, LoadingState } from '../ui/state-view';
+import { Screen } from '@/components/ui/screen';
+import { ErrorState, LoadingState } from '@/components/ui/state-view';
 import { startPendingFlush } from './pending-readings';
 import { ReadingForm } from './reading-form';
 

@@ -3,8 +3,8 @@ import { View, type LayoutChangeEvent } from 'react-native';
 import { VictoryArea, VictoryAxis, VictoryChart, VictoryLine, VictoryScatter } from 'victory-native';
 import { NORMAL_MAX_CENTI, NORMAL_MIN_CENTI, fromCentiCelsius, type TempUnit } from '@/shared/thermal';
 import type { Flowsheet } from '@/shared/types/bedside';
-import { useTheme } from '../theme/theme-provider';
-import { Text } from '../ui/text';
+import { useTheme } from '@/components/theme/theme-provider';
+import { Text } from '@/components/ui/text';
 import { clockTime, FLAG_LABELS, temp } from './format';
 
 /** Probe, remote site and set temperature over the window, the normal band shaded, gap flags marked. */

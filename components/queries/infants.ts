@@ -1,9 +1,9 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { CorrectReadingInput, CreateActionInput, StartSessionInput } from '@/shared/schemas/bedside';
 import type { CreateReadingResult, Flowsheet, FlagAction, InfantDetail, InfantSummary, ReadingVersion, SessionRecord } from '@/shared/types/bedside';
-import { api, ApiFailure } from '../api/client';
-import { STALE } from '../api/query-client';
-import { pendingReadings, sendReading, type PendingReading } from '../bedside/pending-readings';
+import { api, ApiFailure } from '@/components/api/client';
+import { STALE } from '@/components/api/query-client';
+import { pendingReadings, sendReading, type PendingReading } from '@/components/bedside/pending-readings';
 
 export const RQKEY_ROOT = 'infants';
 export const REFRESH_MS = 30_000;

@@ -1,7 +1,7 @@
 import assert from 'node:assert/strict';
 import { after, before, describe, it } from 'node:test';
 import type { Browser, Page } from 'playwright-core';
-import { ACCOUNTS, apiToken, BASE_URL, launch, newPage, PHONE, shot, signIn } from './support';
+import { ACCOUNTS, apiToken, BASE_URL, launch, newPage, PHONE, shot, signIn, WIDE } from './support';
 
 let browser: Browser;
 before(async () => {
@@ -46,7 +46,7 @@ async function gapStory(page: Page, unit: 'C' | 'F', infant: string, bed: string
 
   const flag = page.getByRole('region', { name: 'Gap flag' });
   await flag.waitFor();
-  assert.match(await flag.innerText(), unit === 'C' ? /0\.7 °C apart/ : /1\.3 °F apart/);
+  assert.match(await flag.innerText(), unit === 'C' ? /0\.7\s°C apart/ : /1\.3\s°F apart/);
   await shot(page, `bedside-${tag}-3-gap-flag`);
 
   await flag.getByRole('button', { name: 'Checked probe contact' }).click();
@@ -61,7 +61,9 @@ async function gapStory(page: Page, unit: 'C' | 'F', infant: string, bed: string
   await shot(page, `bedside-${tag}-5-recheck`);
   await page.keyboard.press('Enter');
   await page.getByRole('region', { name: 'Gap flag' }).waitFor({ state: 'detached' });
-  await page.getByText(/Closed flags/).waitFor();
+  const closed = page.getByRole('region', { name: 'Closed flags' });
+  await closed.getByText(/Gap flag closed/).waitFor();
+  await closed.scrollIntoViewIfNeeded();
   await shot(page, `bedside-${tag}-6-flag-closed`);
 }
 
@@ -82,5 +84,110 @@ describe('bedside charting on a phone', () => {
     await page.goto(`${BASE_URL}/infants`);
     await page.getByRole('heading', { name: 'My infants', level: 1 }).waitFor();
     await gapStory(page, 'F', 'Baby Glimmerton B', 'N08');
+  });
+
+  it('a routine check from the opened infant takes 3 key presses besides the digits', async () => {
+    await setTempUnit(ACCOUNTS.nurse, 'C');
+    const page = await newPage(browser, PHONE);
+    await signIn(page, ACCOUNTS.nurse);
+    await page.goto(`${BASE_URL}/infants`);
+    await page.getByRole('radio', { name: 'Whole unit' }).click();
+    await page.getByRole('link', { name: /^N08, Baby Glimmerton B/ }).click();
+    await page.getByRole('heading', { name: /Baby Glimmerton B/, level: 1 }).waitFor();
+
+    let presses = 0;
+    const press = async (key: string) => {
+      presses += 1;
+      await page.keyboard.press(key);
+    };
+    const digits = (text: string) => page.keyboard.type(text);
+
+    presses += 1;
+    await page.getByRole('button', { name: 'Record', exact: true }).click();
+    // The probe field has the focus when the form opens: no tap to reach it.
+    await page.getByLabel(/^Probe temperature/).waitFor();
+    await page.waitForFunction(() => document.activeElement?.getAttribute('aria-label')?.startsWith('Probe temperature') ?? false);
+    await digits('36.8');
+    await press('Tab');
+    await digits('36.6');
+    await shot(page, 'bedside-routine-1-typed');
+    await press('Enter');
+
+    await page.getByRole('heading', { name: /Baby Glimmerton B/, level: 1 }).waitFor();
+    const newest = page.getByText(/^Probe 36\.8\s°C · Remote 36\.6\s°C/).first();
+    await newest.waitFor();
+    assert.equal(await page.getByText('Not yet saved').count(), 0);
+    await shot(page, 'bedside-routine-2-saved');
+    assert.ok(presses <= 6, `a routine check took ${presses} presses besides the digits`);
+    assert.equal(presses, 3);
+  });
+
+  it('a nurse corrects a reading and sees the mark and the history', async () => {
+    const page = await newPage(browser, PHONE);
+    await signIn(page, ACCOUNTS.nurse);
+    await page.goto(`${BASE_URL}/infants`);
+    await page.getByRole('radio', { name: 'Whole unit' }).click();
+    await page.getByRole('link', { name: /^N08, Baby Glimmerton B/ }).click();
+    await page.getByRole('heading', { name: /Baby Glimmerton B/, level: 1 }).waitFor();
+    await page.getByRole('button', { name: /^Correct the reading of/ }).first().click();
+    await page.getByRole('heading', { name: /^Correct:/, level: 1 }).waitFor();
+    await page.getByRole('radio', { name: 'Corrected value' }).click();
+    await page.getByLabel('What was wrong').fill('Typed the probe value wrong.');
+    await page.getByLabel(/^Probe temperature/).fill('36.7');
+    await shot(page, 'bedside-correct-1-form');
+    await page.getByRole('button', { name: 'Save correction' }).click();
+
+    await page.getByRole('heading', { name: /Baby Glimmerton B/, level: 1 }).waitFor();
+    await page.getByText(/^Corrected: corrected value/).first().waitFor();
+    const history = page.getByRole('region', { name: 'Corrected entries' });
+    await history.waitFor();
+    const text = await history.innerText();
+    assert.match(text, /Version 1: probe 36\.8\s°C/);
+    assert.match(text, /Now: probe 36\.7\s°C.*Nia Okafor.*Corrected value: Typed the probe value wrong\./s);
+    await history.scrollIntoViewIfNeeded();
+    await shot(page, 'bedside-correct-2-history');
+  });
+
+  it('a nurse starts a skin-to-skin session and sees it running', async () => {
+    const page = await newPage(browser, PHONE);
+    await signIn(page, ACCOUNTS.nurse);
+    await page.goto(`${BASE_URL}/infants`);
+    await page.getByRole('radio', { name: 'Whole unit' }).click();
+    await page.getByRole('link', { name: /^N08, Baby Glimmerton B/ }).click();
+    await page.getByRole('heading', { name: /Baby Glimmerton B/, level: 1 }).waitFor();
+    await page.getByRole('button', { name: 'Start skin-to-skin' }).click();
+    const form = page.getByRole('region', { name: 'Start a skin-to-skin session' });
+    await form.getByRole('radio', { name: /1\.0\s°C/ }).click();
+    await form.getByLabel(/^Reference temperature/).fill('36.8');
+    await form.getByLabel(/^Carer/).fill('Mother');
+    await form.scrollIntoViewIfNeeded();
+    await shot(page, 'bedside-skin-to-skin-1-start');
+    await form.getByRole('button', { name: 'Start session' }).click();
+    const session = page.getByRole('region', { name: 'Skin-to-skin session', exact: true });
+    await session.waitFor();
+    const text = await session.innerText();
+    assert.match(text, /0 min so far/);
+    assert.match(text, /with Mother · reference 36\.8\s°C · deviation limit 1\.0\s°C/);
+    await session.scrollIntoViewIfNeeded();
+    await shot(page, 'bedside-skin-to-skin-2-running');
+    await session.getByRole('button', { name: 'End session' }).click();
+    await page.getByRole('button', { name: 'Start skin-to-skin' }).waitFor();
+  });
+
+  it('my infants, the flowsheet and the record form on a wide screen', async () => {
+    const page = await newPage(browser, WIDE);
+    await signIn(page, ACCOUNTS.nurse);
+    await page.goto(`${BASE_URL}/infants`);
+    await page.getByRole('heading', { name: 'My infants', level: 1 }).waitFor();
+    await page.getByRole('link', { name: /^N01, / }).waitFor();
+    await shot(page, 'bedside-wide-1-my-infants');
+    await page.getByRole('link', { name: /^N01, / }).click();
+    await page.getByRole('region', { name: 'Gap flag' }).waitFor();
+    await shot(page, 'bedside-wide-2-flowsheet');
+    await page.getByRole('table', { name: 'Readings' }).scrollIntoViewIfNeeded();
+    await shot(page, 'bedside-wide-3-grid');
+    await page.getByRole('button', { name: 'Record', exact: true }).click();
+    await page.getByLabel(/^Probe temperature/).waitFor();
+    await shot(page, 'bedside-wide-4-record');
   });
 });

@@ -1,0 +1,163 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useMemo, useState } from 'react';
+import { useForm, useWatch } from 'react-hook-form';
+import { StyleSheet, View } from 'react-native';
+import { z } from 'zod';
+import { Button } from '@/components/ui/button';
+import { Card } from '@/components/ui/card';
+import { Segmented } from '@/components/ui/segmented';
+import { StatusBadge } from '@/components/ui/status-badge';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
+import { correctionReasonSchema, type CorrectReadingInput } from '@/shared/schemas/bedside';
+import { fromCentiCelsius, type TempUnit } from '@/shared/thermal';
+import type { CorrectionReason, ReadingVersion } from '@/shared/types/bedside';
+import { clockTime, CORRECTION_REASON_LABELS, temp } from './format';
+import { implausibleReasons, instantOfLocalTime, readingFormResolverSchema, readingFormSchema, toCreateReading, type ReadingFormValues } from './reading-form-schema';
+
+export function correctReadingFormSchema(unit: TempUnit, timeZone: string, now: () => Date) {
+  const values = readingFormResolverSchema(unit, timeZone, now);
+  return readingFormSchema
+    .extend({ reason: correctionReasonSchema, why: z.string().trim().min(1, 'Say briefly what was wrong.').max(500, 'Keep it under 500 characters.') })
+    .superRefine((v, ctx) => {
+      if (v.reason === 'entered-in-error') return;
+      // The new version must pass the same checks as a new reading; the late-entry reason is the note.
+      const parsed = values.safeParse({ ...v, lateReason: v.why || v.lateReason });
+      if (!parsed.success) for (const issue of parsed.error.issues) ctx.addIssue({ code: 'custom', path: issue.path as string[], message: issue.message });
+    });
+}
+export type CorrectReadingFormValues = z.infer<ReturnType<typeof correctReadingFormSchema>>;
+
+const str = (centi: number | null, unit: TempUnit) => (centi === null ? '' : fromCentiCelsius(centi, unit).toFixed(1));
+
+export interface CorrectReadingFormProps {
+  reading: ReadingVersion;
+  unit: TempUnit;
+  timeZone: string;
+  clock: '24h' | '12h';
+  now?: () => Date;
+  makeId?: () => string;
+  busy?: boolean;
+  serverFields?: Record<string, string>;
+  serverMessage?: string | null;
+  onSubmit: (body: CorrectReadingInput) => void;
+  onCancel?: () => void;
+}
+
+/** A correction never edits the reading: it saves a new version with the reason, who and when. */
+export function CorrectReadingForm({ reading, unit, timeZone, clock, now = () => new Date(), makeId = () => globalThis.crypto.randomUUID(), busy, serverFields = {}, serverMessage, onSubmit, onCancel }: CorrectReadingFormProps) {
+  const schema = useMemo(() => correctReadingFormSchema(unit, timeZone, now), [unit, timeZone, now]);
+  const originalTime = clockTime(reading.takenAt, timeZone, '24h');
+  const { control, handleSubmit, setValue } = useForm<CorrectReadingFormValues>({
+    resolver: zodResolver(schema),
+    defaultValues: {
+      reason: 'corrected-value',
+      why: '',
+      probe: str(reading.probeCenti, unit),
+      remote: str(reading.remoteCenti, unit),
+      remoteSite: reading.remoteSite ?? 'axilla',
+      air: str(reading.airCenti, unit),
+      set: str(reading.setCenti, unit),
+      controlMode: reading.controlMode,
+      heaterOutputPct: reading.heaterOutputPct === null ? '' : String(reading.heaterOutputPct),
+      heartRate: reading.heartRate === null ? '' : String(reading.heartRate),
+      heatSigns: reading.heatSigns as ReadingFormValues['heatSigns'],
+      note: reading.note ?? '',
+      time: originalTime,
+      lateReason: '',
+    },
+  });
+  const reason = useWatch({ control, name: 'reason' }) as CorrectionReason;
+  const remoteSite = useWatch({ control, name: 'remoteSite' });
+  const [id] = useState(makeId);
+  const [confirming, setConfirming] = useState<string[] | null>(null);
+  const u = `°${unit}`;
+  const withValues = reason !== 'entered-in-error';
+  const f = (name: string) => serverFields[`values.${name}`];
+
+  const submit = (confirmed: boolean) =>
+    handleSubmit((v) => {
+      const body: CorrectReadingInput = { id, reason: v.reason, note: v.why.trim() };
+      if (v.reason !== 'entered-in-error') {
+        const reasons = implausibleReasons(v, unit);
+        if (reasons.length && !confirmed) {
+          setConfirming(reasons);
+          return;
+        }
+        const at = now();
+        // Only a changed time is sent: the HH:MM field cannot name the day of an older reading.
+        const timeChanged = v.time.trim() !== '' && v.time.trim() !== originalTime;
+        const created = toCreateReading({ ...v, time: '', lateReason: '' }, { id, unit, now: at, timeZone, confirmed: reasons.length > 0 });
+        const { id: _id, lateReason: _late, takenAt: _takenAt, ...values } = created;
+        body.values = { ...values, ...(timeChanged ? { takenAt: (instantOfLocalTime(v.time, at, timeZone) ?? at).toISOString() } : {}) };
+      }
+      setConfirming(null);
+      onSubmit(body);
+    });
+
+  return (
+    <View style={styles.form}>
+      <Card>
+        <Text variant="label">Correcting the reading of {clockTime(reading.takenAt, timeZone, clock)}</Text>
+        <Text>
+          Probe {temp(reading.probeCenti, unit)} · Remote {temp(reading.remoteCenti, unit)} · Set {temp(reading.setCenti, unit)}
+        </Text>
+        <Text variant="caption" tone="muted">
+          The reading stays in the chart&apos;s history; the correction is saved as a new version under your name.
+        </Text>
+      </Card>
+      <Segmented
+        label="Why correct it?"
+        value={reason}
+        options={(Object.keys(CORRECTION_REASON_LABELS) as CorrectionReason[]).map((r) => ({ value: r, label: CORRECTION_REASON_LABELS[r] }))}
+        onChange={(r) => setValue('reason', r)}
+      />
+      <TextField control={control} name="why" label={reason === 'late-entry' ? 'Why it was charted late' : 'What was wrong'} multiline serverError={serverFields.note} />
+      {withValues ? (
+        <>
+          <TextField control={control} name="probe" label={`Probe temperature (${u})`} suffix={u} inputMode="decimal" keyboardType="decimal-pad" serverError={f('probe')} />
+          <TextField control={control} name="remote" label={`Remote-site temperature (${u})`} suffix={u} inputMode="decimal" keyboardType="decimal-pad" serverError={f('remote')} />
+          <Segmented
+            label="Remote site"
+            value={remoteSite}
+            options={[
+              { value: 'axilla', label: 'Axilla' },
+              { value: 'rectal', label: 'Rectal' },
+              { value: 'other', label: 'Other' },
+            ]}
+            onChange={(site) => setValue('remoteSite', site)}
+          />
+          <TextField control={control} name="set" label={`Set temperature (${u})`} suffix={u} inputMode="decimal" keyboardType="decimal-pad" serverError={f('set')} />
+          <TextField control={control} name="air" label={`Air temperature (${u})`} suffix={u} inputMode="decimal" keyboardType="decimal-pad" serverError={f('air')} />
+          <TextField control={control} name="heartRate" label="Heart rate (/min)" suffix="/min" inputMode="numeric" keyboardType="number-pad" serverError={f('heartRate')} />
+          <TextField control={control} name="time" label="Time taken" hint={`HH:MM, ${timeZone} time`} inputMode="numeric" serverError={f('takenAt')} />
+        </>
+      ) : (
+        <StatusBadge tone="warning" icon="alert" label="The reading will be removed from the chart; its history stays." />
+      )}
+      {confirming ? (
+        <Card role="alert">
+          <StatusBadge tone="warning" icon="alert" label="Confirm unusual values" />
+          {confirming.map((r) => (
+            <Text key={r}>{r}</Text>
+          ))}
+          <Button label="Confirm and save correction" variant="danger" busy={busy} onPress={() => void submit(true)()} />
+        </Card>
+      ) : null}
+      <View style={styles.actions}>
+        <Button label="Save correction" icon="check" busy={busy} onPress={() => void submit(false)()} />
+        {onCancel ? <Button label="Cancel" variant="quiet" onPress={onCancel} /> : null}
+      </View>
+      {serverMessage ? (
+        <Text tone="danger" role="alert">
+          {serverMessage}
+        </Text>
+      ) : null}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  form: { gap: 14, width: '100%', maxWidth: 560 },
+  actions: { flexDirection: 'row', flexWrap: 'wrap', gap: 12 },
+});

@@ -1,0 +1,196 @@
+import { useRouter } from 'expo-router';
+import { StyleSheet, View } from 'react-native';
+import { problemOf } from '@/components/api/client';
+import { useUser } from '@/components/auth/auth-provider';
+import { useFlagActionMutation } from '@/components/queries/infants';
+import { useTheme } from '@/components/theme/theme-provider';
+import { Button } from '@/components/ui/button';
+import { Card } from '@/components/ui/card';
+import { StatusBadge, type StatusTone } from '@/components/ui/status-badge';
+import type { IconName } from '@/components/ui/icon';
+import { Text } from '@/components/ui/text';
+import { ACTION_LABELS, type ActionKind } from '@/shared/schemas/bedside';
+import { BAND_LABELS, CLINICAL_PROMPT_CAVEAT, HEAT_STRESS_CHECKLIST, HEAT_STRESS_SIGN_LABELS, type FlagKind, type HeatStressReason } from '@/shared/thermal';
+import type { Flowsheet, FlowsheetFlag } from '@/shared/types/bedside';
+import { clockTime, duration, FLAG_LABELS, temp, tempDelta } from './format';
+
+/** What a nurse can record against each kind of flag, in the order she would usually try them. */
+export const FLAG_ACTIONS: Record<FlagKind, ActionKind[]> = {
+  gap: ['checked-probe-contact', 'checked-cover', 'moved-probe', 'adjusted-set-temperature', 'changed-control-mode'],
+  'heat-stress': ['adjusted-set-temperature', 'reduced-heater-output', 'checked-probe-contact', 'removed-coverings', 'informed-charge-nurse', 'informed-medical-team'],
+  'cold-stress': ['checked-probe-contact', 'checked-cover', 'adjusted-set-temperature', 'informed-charge-nurse'],
+  'manual-mode': ['changed-control-mode', 'reduced-heater-output', 'informed-charge-nurse'],
+  'skin-to-skin-deviation': ['checked-probe-contact', 'informed-charge-nurse'],
+  'overdue-check': [],
+};
+
+export function flagTone(kind: FlagKind): { tone: StatusTone; icon: IconName } {
+  if (kind === 'heat-stress') return { tone: 'heat', icon: 'flame' };
+  if (kind === 'cold-stress') return { tone: 'warning', icon: 'snow' };
+  if (kind === 'skin-to-skin-deviation') return { tone: 'together', icon: 'hands' };
+  if (kind === 'overdue-check') return { tone: 'danger', icon: 'clock' };
+  return { tone: 'danger', icon: 'alert' };
+}
+
+const HEAT_REASON_LABELS = { 'remote-above-normal': 'Remote-site temperature above the normal band', 'heart-rate-high': 'Heart rate above the normal range' } as const;
+
+function heatReasonLabel(r: HeatStressReason): string {
+  return r.kind === 'sign' ? HEAT_STRESS_SIGN_LABELS[r.sign] : HEAT_REASON_LABELS[r.kind];
+}
+
+/** An open flag: what raised it, what has been done, what can be done next, and its recheck clock. */
+export function FlagCard({ flag, sheet, canChart, now }: { flag: FlowsheetFlag; sheet: Flowsheet; canChart: boolean; now: Date }) {
+  const user = useUser();
+  const router = useRouter();
+  const { colors } = useTheme();
+  const mutation = useFlagActionMutation(sheet.infant.id);
+  const tz = sheet.infant.timeZone;
+  const unit = user.tempUnit;
+  const kinds = FLAG_ACTIONS[flag.kind];
+  const done = new Set(flag.actions.map((a) => a.kind));
+  const recheckMs = flag.recheckDueAt ? Date.parse(flag.recheckDueAt) - now.getTime() : null;
+  const { tone, icon } = flagTone(flag.kind);
+  const openRecord = () => router.push(`/infants/${sheet.infant.id}/record`);
+  return (
+    <Card style={[styles.card, { borderColor: colors[tone === 'together' ? 'together' : tone === 'heat' ? 'heat' : tone === 'warning' ? 'warning' : 'danger'] }]} role="region" aria-label={FLAG_LABELS[flag.kind]}>
+      <StatusBadge tone={tone} icon={icon} label={`${FLAG_LABELS[flag.kind]} open${flag.escalated ? ', escalated' : ''}`} large />
+      <Text>
+        Raised {clockTime(flag.raisedAt, tz, user.clock)} ({duration(now.getTime() - Date.parse(flag.raisedAt))} ago)
+      </Text>
+      <FlagDetail flag={flag} unit={unit} tz={tz} clock={user.clock} />
+      {recheckMs !== null ? (
+        <StatusBadge tone={recheckMs < 0 ? 'danger' : 'warning'} icon="clock" label={recheckMs < 0 ? `Recheck overdue by ${duration(-recheckMs)}` : `Recheck due in ${duration(recheckMs)}`} />
+      ) : null}
+      {flag.kind === 'heat-stress' ? (
+        <View style={styles.list} role="list" aria-label="Heat-stress steps">
+          <Text variant="label">Steps</Text>
+          {HEAT_STRESS_CHECKLIST.map((step, i) => (
+            <Text key={step} role="listitem" variant="caption">
+              {i + 1}. {step}
+            </Text>
+          ))}
+        </View>
+      ) : null}
+      {flag.actions.length ? (
+        <View style={styles.list} role="list" aria-label="Done so far">
+          <Text variant="label">Done so far</Text>
+          {flag.actions.map((a) => (
+            <Text key={a.id} role="listitem" variant="caption">
+              ✓ {ACTION_LABELS[a.kind as ActionKind] ?? a.kind} · {a.recordedBy.name} at {clockTime(a.at, tz, user.clock)}
+            </Text>
+          ))}
+        </View>
+      ) : null}
+      {canChart ? (
+        <View style={styles.list}>
+          {kinds.length && flag.id ? <Text variant="label">Record what you did</Text> : null}
+          <View style={styles.buttons} role="group" aria-label="Actions">
+            {flag.id
+              ? kinds.map((kind) => (
+                  <Button
+                    key={kind}
+                    compact
+                    variant={done.has(kind) ? 'quiet' : 'secondary'}
+                    label={ACTION_LABELS[kind]}
+                    icon={done.has(kind) ? 'check' : undefined}
+                    busy={mutation.isPending && mutation.variables?.body.kind === kind}
+                    onPress={() => mutation.mutate({ flagId: flag.id!, body: { id: globalThis.crypto.randomUUID(), kind } })}
+                  />
+                ))
+              : null}
+            <Button compact label={flag.kind === 'overdue-check' ? 'Record the check' : 'Record recheck'} icon="thermometer" onPress={openRecord} />
+          </View>
+        </View>
+      ) : null}
+      {mutation.isError ? (
+        <Text tone="danger" role="alert">
+          {problemOf(mutation.error).message}
+        </Text>
+      ) : null}
+      <Text variant="caption" tone="muted">
+        {CLINICAL_PROMPT_CAVEAT}
+        {flag.kind === 'overdue-check' ? '' : ` Recheck ${sheet.policy.recheckMinutes} minutes after an action.`}
+      </Text>
+    </Card>
+  );
+}
+
+function FlagDetail({ flag, unit, tz, clock }: { flag: FlowsheetFlag; unit: 'C' | 'F'; tz: string; clock: '24h' | '12h' }) {
+  const d = flag.detail as Record<string, unknown>;
+  const n = (k: string) => (typeof d[k] === 'number' ? (d[k] as number) : null);
+  if (flag.kind === 'gap' && n('gapCenti') !== null) {
+    const worst = n('worstGapCenti');
+    return (
+      <Text variant="bodyStrong">
+        Probe and remote site {tempDelta(n('gapCenti')!, unit)} apart (limit {tempDelta(n('limitCenti') ?? 50, unit)})
+        {worst !== null && worst > n('gapCenti')! ? `; worst ${tempDelta(worst, unit)}` : ''}
+      </Text>
+    );
+  }
+  if (flag.kind === 'overdue-check') {
+    const due = typeof d.dueAt === 'string' ? d.dueAt : null;
+    return <Text variant="bodyStrong">The remote-site check was due{due ? ` at ${clockTime(due, tz, clock)}` : ''}. Take and record it now.</Text>;
+  }
+  if (flag.kind === 'heat-stress') {
+    const reasons = Array.isArray(d.reasons) ? (d.reasons as HeatStressReason[]) : [];
+    return (
+      <View style={styles.list} role="list" aria-label="Signs seen">
+        <Text variant="label">Signs seen</Text>
+        {reasons.length ? (
+          reasons.map((r) => (
+            <Text key={heatReasonLabel(r)} role="listitem">
+              • {heatReasonLabel(r)}
+            </Text>
+          ))
+        ) : (
+          <Text tone="muted">None recorded</Text>
+        )}
+      </View>
+    );
+  }
+  if (flag.kind === 'cold-stress' && typeof d.band === 'string') {
+    return (
+      <Text variant="bodyStrong">
+        {BAND_LABELS[d.band as keyof typeof BAND_LABELS] ?? d.band}; lowest remote site {temp(n('lowestCenti'), unit)}
+      </Text>
+    );
+  }
+  if (flag.kind === 'skin-to-skin-deviation' && n('deviationCenti') !== null) {
+    return (
+      <Text variant="bodyStrong">
+        {tempDelta(n('deviationCenti')!, unit)} from the reference {temp(n('referenceCenti'), unit)} (limit {tempDelta(n('limitCenti') ?? 50, unit)})
+      </Text>
+    );
+  }
+  return null;
+}
+
+/** Flags closed in the window, most recent first: shown near the top so a closed flag is seen to close. */
+export function ClosedFlags({ sheet }: { sheet: Flowsheet }) {
+  const user = useUser();
+  const tz = sheet.infant.timeZone;
+  const closed = sheet.flags.filter((f) => f.status === 'closed').sort((a, b) => Date.parse(b.closedAt ?? b.raisedAt) - Date.parse(a.closedAt ?? a.raisedAt));
+  if (!closed.length) return null;
+  return (
+    <Card role="region" aria-label="Closed flags">
+      <Text variant="title" role="heading" aria-level={2}>
+        Closed flags
+      </Text>
+      {closed.map((f) => (
+        <View key={f.key} style={styles.closed}>
+          <StatusBadge tone="ok" icon="check" label={`${FLAG_LABELS[f.kind]} closed${f.closedAt ? ` ${clockTime(f.closedAt, tz, user.clock)}` : ''}`} />
+          <Text variant="caption" tone="muted">
+            Raised {clockTime(f.raisedAt, tz, user.clock)} · {f.actions.map((a) => ACTION_LABELS[a.kind as ActionKind] ?? a.kind).join(', ') || 'no actions recorded'}
+          </Text>
+        </View>
+      ))}
+    </Card>
+  );
+}
+
+const styles = StyleSheet.create({
+  card: { borderWidth: 2 },
+  list: { gap: 4 },
+  buttons: { flexDirection: 'row', flexWrap: 'wrap', gap: 8 },
+  closed: { gap: 2 },
+});

@@ -1,0 +1,134 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useMemo, useState } from 'react';
+import { useForm, useWatch } from 'react-hook-form';
+import { StyleSheet, View } from 'react-native';
+import { z } from 'zod';
+import { problemOf } from '@/components/api/client';
+import { useUser } from '@/components/auth/auth-provider';
+import { useEndSkinToSkinMutation, useStartSkinToSkinMutation } from '@/components/queries/infants';
+import { Button } from '@/components/ui/button';
+import { Card } from '@/components/ui/card';
+import { Caution } from '@/components/ui/caution';
+import { Segmented } from '@/components/ui/segmented';
+import { StatusBadge } from '@/components/ui/status-badge';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
+import { checkPlausibility, fromCentiCelsius, SKIN_TO_SKIN_LIMITS_CENTI, type TempUnit } from '@/shared/thermal';
+import type { Flowsheet } from '@/shared/types/bedside';
+import { clockTime, duration, temp, tempDelta } from './format';
+import { centiOf, parseNumber } from './reading-form-schema';
+
+export function startSessionFormSchema(unit: TempUnit) {
+  return z
+    .object({
+      reference: z.string(),
+      limit: z.enum(['50', '100']),
+      carer: z.string().max(80, 'Keep the name under 80 characters.'),
+    })
+    .superRefine((v, ctx) => {
+      const n = parseNumber(v.reference);
+      const centi = centiOf(v.reference, unit);
+      if (n === null) ctx.addIssue({ code: 'custom', path: ['reference'], message: 'Enter the reference temperature.' });
+      else if (n === 'invalid' || centi === null) ctx.addIssue({ code: 'custom', path: ['reference'], message: `Reference temperature must be a number, like ${unit === 'C' ? '36.8' : '98.2'}.` });
+      else {
+        const check = checkPlausibility('remote', centi, unit);
+        if (check.result === 'refuse') ctx.addIssue({ code: 'custom', path: ['reference'], message: check.reason });
+      }
+    });
+}
+type StartSessionFormValues = z.infer<ReturnType<typeof startSessionFormSchema>>;
+
+/** The running session, or a way to start one. */
+export function SkinToSkinPanel({ sheet, canChart, now }: { sheet: Flowsheet; canChart: boolean; now: Date }) {
+  const [starting, setStarting] = useState(false);
+  if (sheet.infant.skinToSkin) return <RunningSession sheet={sheet} canChart={canChart} now={now} />;
+  if (!canChart) return null;
+  if (!starting) return <Button label="Start skin-to-skin" icon="hands" variant="secondary" style={styles.start} onPress={() => setStarting(true)} />;
+  return <StartSessionForm sheet={sheet} onDone={() => setStarting(false)} />;
+}
+
+function RunningSession({ sheet, canChart, now }: { sheet: Flowsheet; canChart: boolean; now: Date }) {
+  const user = useUser();
+  const s = sheet.infant.skinToSkin!;
+  const end = useEndSkinToSkinMutation(sheet.infant.id);
+  const record = sheet.sessions.find((x) => x.id === s.id);
+  return (
+    <Card role="region" aria-label="Skin-to-skin session">
+      <StatusBadge tone="together" icon="hands" label="Skin-to-skin session running" large />
+      <Text variant="bodyStrong">{duration(now.getTime() - Date.parse(s.startedAt))} so far</Text>
+      <Text>
+        Since {clockTime(s.startedAt, sheet.infant.timeZone, user.clock)}
+        {record?.carer ? ` with ${record.carer}` : ''} · reference {temp(s.referenceCenti, user.tempUnit)} · deviation limit {tempDelta(s.limitCenti, user.tempUnit)}
+      </Text>
+      <Text variant="caption" tone="muted">
+        Readings charted now count against the deviation limit; one outside it raises a flag.
+      </Text>
+      {canChart ? <Button label="End session" variant="secondary" style={styles.start} busy={end.isPending} onPress={() => end.mutate(s.id)} /> : null}
+      {end.isError ? (
+        <Text tone="danger" role="alert">
+          {problemOf(end.error).message}
+        </Text>
+      ) : null}
+    </Card>
+  );
+}
+
+function StartSessionForm({ sheet, onDone }: { sheet: Flowsheet; onDone: () => void }) {
+  const user = useUser();
+  const unit = user.tempUnit;
+  const mutation = useStartSkinToSkinMutation(sheet.infant.id);
+  const [id] = useState(() => globalThis.crypto.randomUUID());
+  const latestRemote = sheet.infant.latest.remote?.centi ?? null;
+  const schema = useMemo(() => startSessionFormSchema(unit), [unit]);
+  const { control, handleSubmit, setValue } = useForm<StartSessionFormValues>({
+    resolver: zodResolver(schema),
+    defaultValues: { reference: latestRemote === null ? '' : fromCentiCelsius(latestRemote, unit).toFixed(1), limit: '50', carer: '' },
+  });
+  const limit = useWatch({ control, name: 'limit' });
+  const problem = mutation.isError ? problemOf(mutation.error) : null;
+  const submit = handleSubmit((v) =>
+    mutation.mutate(
+      { id, unit, reference: parseNumber(v.reference) as number, limitCenti: Number(v.limit) as 50 | 100, carer: v.carer.trim() || null },
+      { onSuccess: onDone },
+    ),
+  );
+  return (
+    <Card role="region" aria-label="Start a skin-to-skin session">
+      <Text variant="title" role="heading" aria-level={2}>
+        Start skin-to-skin
+      </Text>
+      <Segmented
+        label="Deviation limit"
+        value={limit}
+        options={SKIN_TO_SKIN_LIMITS_CENTI.map((c) => ({ value: String(c) as '50' | '100', label: `± ${tempDelta(c, unit)}` }))}
+        onChange={(v) => setValue('limit', v)}
+      />
+      <TextField
+        control={control}
+        name="reference"
+        label={`Reference temperature (°${unit})`}
+        hint="Usually the last remote-site temperature."
+        suffix={`°${unit}`}
+        inputMode="decimal"
+        keyboardType="decimal-pad"
+        serverError={problem && 'fields' in problem ? problem.fields?.reference : undefined}
+      />
+      <TextField control={control} name="carer" label="Carer (optional)" placeholder="For example: mother" serverError={problem && 'fields' in problem ? problem.fields?.carer : undefined} />
+      <View style={styles.row}>
+        <Button label="Start session" icon="hands" busy={mutation.isPending} onPress={() => void submit()} />
+        <Button label="Cancel" variant="quiet" onPress={onDone} />
+      </View>
+      {problem ? (
+        <Text tone="danger" role="alert">
+          {problem.message}
+        </Text>
+      ) : null}
+      <Caution />
+    </Card>
+  );
+}
+
+const styles = StyleSheet.create({
+  row: { flexDirection: 'row', flexWrap: 'wrap', gap: 12 },
+  start: { alignSelf: 'flex-start' },
+});
