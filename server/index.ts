@@ -7,6 +7,7 @@ import { loadConfig } from './config';
 import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
 import { smtpMailer } from './mail/mailer';
 import { escalationJob, startScheduler } from './scheduler';
+import { weeklyDigestJob } from './services/digest';
 import { runEscalations } from './services/escalations';
 
 async function main(): Promise<void> {
@@ -29,7 +30,7 @@ async function main(): Promise<void> {
   const app = createApp({ db: database, mailer, clock: systemClock, config, log });
   // Escalate what is already overdue at start-up, then keep checking on the scheduler.
   await runEscalations(app.context, systemClock.now()).catch((err: unknown) => log(`escalations at start-up failed: ${String(err)}`));
-  const scheduler = startScheduler(app.context, [escalationJob(process.env.ESCALATION_INTERVAL_SECONDS)]);
+  const scheduler = startScheduler(app.context, [escalationJob(process.env.ESCALATION_INTERVAL_SECONDS), weeklyDigestJob()]);
 
   const server = app.listen(config.port, config.host, () => {
     const { port } = server.address() as AddressInfo;

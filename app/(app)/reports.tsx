@@ -1,5 +1,5 @@
-import { PlaceholderScreen } from '@/components/screens/placeholder-screen';
+import { ReportsScreen } from '@/components/reports/reports-screen';
 
 export default function ReportsRoute() {
-  return <PlaceholderScreen title="Reports" subtitle="On-time checks and response times" body="Reports appear here." />;
+  return <ReportsScreen />;
 }

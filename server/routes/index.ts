@@ -1,13 +1,18 @@
 import type { Router } from 'express';
 import type { AppContext } from '../context';
 import { admissionsRouter } from './admissions';
+import { accountLinksRouter } from './account-links';
+import { adminRouter } from './admin';
 import { authRouter } from './auth';
 import { bedsideRouter } from './bedside';
 import { escalationsRouter } from './escalations';
 import { handoverRouter } from './handover';
 import { healthRouter } from './health';
 import { infantsRouter } from './infants';
+import { reportsRouter } from './reports';
+import { reviewRouter } from './review';
 import { unitBoardRouter } from './unit-board';
+import { uploadsRouter } from './uploads';
 
 /** Every API router and where it is mounted under /api. Add new resources here. */
 export function apiRouters(ctx: AppContext): Array<[string, Router]> {
@@ -20,5 +25,10 @@ export function apiRouters(ctx: AppContext): Array<[string, Router]> {
     ['/', admissionsRouter(ctx)],
     ['/', escalationsRouter(ctx)],
     ['/', handoverRouter(ctx)],
+    ['/auth', accountLinksRouter(ctx)],
+    ['/', reviewRouter(ctx)],
+    ['/', reportsRouter(ctx)],
+    ['/', adminRouter(ctx)],
+    ['/', uploadsRouter(ctx)],
   ];
 }

@@ -1,4 +1,4 @@
-import { AdminHomeScreen } from '@/components/admin/admin-home-screen';
+import { AdminHomeScreen } from '@/components/admin-users/admin-home-screen';
 
 export default function AdminRoute() {
   return <AdminHomeScreen />;

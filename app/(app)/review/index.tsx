@@ -1,0 +1,5 @@
+import { ReviewQueueScreen } from '@/components/review/review-queue-screen';
+
+export default function ReviewRoute() {
+  return <ReviewQueueScreen />;
+}

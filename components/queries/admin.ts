@@ -1,0 +1,92 @@
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { CreateUserInput, UnitSettingsInput, UpdateUserInput } from '@/shared/schemas/admin';
+import type { LinkPasswordInput } from '@/shared/schemas/auth';
+import type { AdminUnit, AdminUser, ImportResult, UploadPreview } from '@/shared/types/admin';
+import { api } from '../api/client';
+
+export const ADMIN_RQKEY_ROOT = 'admin';
+export const adminKeys = {
+  users: () => [ADMIN_RQKEY_ROOT, 'users'] as const,
+  units: () => [ADMIN_RQKEY_ROOT, 'units'] as const,
+};
+
+export function useAdminUsersQuery() {
+  return useQuery({ queryKey: adminKeys.users(), queryFn: ({ signal }) => api<{ users: AdminUser[] }>('/admin/users', { signal }).then((r) => r.users) });
+}
+
+export function useAdminUnitsQuery() {
+  return useQuery({ queryKey: adminKeys.units(), queryFn: ({ signal }) => api<{ units: AdminUnit[] }>('/admin/units', { signal }).then((r) => r.units) });
+}
+
+/** Invalidates the user list. */
+export function useCreateUserMutation() {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: (input: CreateUserInput) => api<{ user: AdminUser; mailed: boolean }>('/admin/users', { method: 'POST', body: input }),
+    onSuccess: () => client.invalidateQueries({ queryKey: adminKeys.users() }),
+  });
+}
+
+/** Invalidates the user list. */
+export function useUpdateUserMutation() {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: ({ id, input }: { id: string; input: UpdateUserInput }) => api<{ user: AdminUser }>(`/admin/users/${id}`, { method: 'PATCH', body: input }),
+    onSuccess: () => client.invalidateQueries({ queryKey: adminKeys.users() }),
+  });
+}
+
+/** deactivate, reactivate, invitation, password-reset. Invalidates the user list. */
+export function useUserActionMutation() {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: ({ id, action }: { id: string; action: 'deactivate' | 'reactivate' | 'invitation' | 'password-reset' }) =>
+      api<unknown>(`/admin/users/${id}/${action}`, { method: 'POST' }),
+    onSuccess: () => client.invalidateQueries({ queryKey: adminKeys.users() }),
+  });
+}
+
+/** Invalidates the units. */
+export function useUnitSettingsMutation() {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: ({ id, input }: { id: string; input: UnitSettingsInput }) => api<{ unit: AdminUnit }>(`/admin/units/${id}`, { method: 'PATCH', body: input }),
+    onSuccess: () => client.invalidateQueries({ queryKey: adminKeys.units() }),
+  });
+}
+
+/** Invalidates the units. */
+export function useAddBedMutation() {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: ({ unitId, label }: { unitId: string; label: string }) => api<unknown>(`/admin/units/${unitId}/beds`, { method: 'POST', body: { label } }),
+    onSuccess: () => client.invalidateQueries({ queryKey: adminKeys.units() }),
+  });
+}
+
+export function useUploadPreviewMutation(path: string) {
+  return useMutation({
+    mutationFn: (form: FormData) => api<UploadPreview>(path, { method: 'POST', body: form }),
+  });
+}
+
+/** Invalidates the user list (a roster creates people). */
+export function useUploadImportMutation(pathOf: (uploadId: string) => string) {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: (uploadId: string) => api<ImportResult>(pathOf(uploadId), { method: 'POST' }),
+    onSuccess: () => client.invalidateQueries({ queryKey: adminKeys.users() }),
+  });
+}
+
+export function useDigestSendMutation() {
+  return useMutation({ mutationFn: () => api<{ sent: number; units: string[] }>('/admin/digest/send', { method: 'POST' }) });
+}
+
+/** Public: accepting an invitation or resetting a password with an e-mailed link. */
+export function useLinkPasswordMutation(kind: 'invite' | 'reset') {
+  return useMutation({
+    mutationFn: (input: LinkPasswordInput) =>
+      api<void>(kind === 'invite' ? '/auth/invitations/accept' : '/auth/password-reset', { method: 'POST', body: input, skipUnauthorizedHandler: true }),
+  });
+}

@@ -1,0 +1,16 @@
+import { useQuery } from '@tanstack/react-query';
+import type { ReportTable, UnitReport } from '@/shared/reports';
+import { api } from '../api/client';
+import { queryString } from './review';
+
+export const REPORTS_RQKEY_ROOT = 'reports';
+export const reportKeys = { unit: (unitId: string, from: string, to: string) => [REPORTS_RQKEY_ROOT, unitId, from, to] as const };
+
+export function useReportQuery(unitId: string | null, from: string, to: string) {
+  return useQuery({
+    queryKey: reportKeys.unit(unitId ?? '', from, to),
+    queryFn: ({ signal }) => api<{ report: UnitReport; tables: ReportTable[] }>(`/reports${queryString({ unitId, from, to })}`, { signal }),
+    enabled: !!unitId,
+    staleTime: 60_000,
+  });
+}

@@ -1,0 +1,42 @@
+import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { ReviewQueueQuery } from '@/shared/schemas/review';
+import type { ReviewItemDetail, ReviewNote, ReviewQueueResponse } from '@/shared/types/review';
+import { api } from '../api/client';
+
+export const REVIEW_RQKEY_ROOT = 'review';
+export const reviewKeys = {
+  all: () => [REVIEW_RQKEY_ROOT] as const,
+  queue: (filters: Partial<ReviewQueueQuery>) => [REVIEW_RQKEY_ROOT, 'queue', filters] as const,
+  item: (flagId: string) => [REVIEW_RQKEY_ROOT, 'item', flagId] as const,
+};
+const QUEUE_STALE_MS = 30_000;
+
+export function queryString(params: Record<string, string | undefined | null>): string {
+  const entries = Object.entries(params).filter((e): e is [string, string] => typeof e[1] === 'string' && e[1] !== '');
+  return entries.length ? `?${new URLSearchParams(entries).toString()}` : '';
+}
+
+export function useReviewQueueQuery(filters: Partial<ReviewQueueQuery>) {
+  return useQuery({
+    queryKey: reviewKeys.queue(filters),
+    queryFn: ({ signal }) => api<ReviewQueueResponse>(`/review/queue${queryString(filters)}`, { signal }),
+    staleTime: QUEUE_STALE_MS,
+    placeholderData: keepPreviousData,
+  });
+}
+
+export function useReviewItemQuery(flagId: string) {
+  return useQuery({
+    queryKey: reviewKeys.item(flagId),
+    queryFn: ({ signal }) => api<ReviewItemDetail>(`/review/items/${encodeURIComponent(flagId)}`, { signal }),
+  });
+}
+
+/** Invalidates the item and every queue (its reviewed status changed). */
+export function useTeachingNoteMutation(flagId: string) {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: (note: string) => api<{ review: ReviewNote }>(`/review/items/${encodeURIComponent(flagId)}/notes`, { method: 'POST', body: { note } }),
+    onSuccess: () => client.invalidateQueries({ queryKey: reviewKeys.all() }),
+  });
+}

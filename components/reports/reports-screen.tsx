@@ -1,0 +1,80 @@
+import { useEffect, useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+import { formatMinutes, formatPercent } from '@/shared/reports';
+import { useUser } from '../auth/auth-provider';
+import { useReportQuery } from '../queries/reports';
+import { useReviewQueueQuery } from '../queries/review';
+import { DateRange, isDate } from '../review/date-range';
+import { localDay } from '../review/format';
+import { Card } from '../ui/card';
+import { Screen } from '../ui/screen';
+import { Segmented } from '../ui/segmented';
+import { ErrorState, LoadingState } from '../ui/state-view';
+import { Text } from '../ui/text';
+import { OnTimeChart } from './on-time-chart';
+import { ReportTableCard } from './report-table';
+
+/** On-time checks, gap rate, response times and skin-to-skin deviation for one unit and a date range. */
+export function ReportsScreen() {
+  const user = useUser();
+  const units = useReviewQueueQuery({ status: 'all', from: '2999-01-01' }).data?.units ?? [];
+  const [unitId, setUnitId] = useState<string | null>(user.unitIds[0] ?? null);
+  const [range, setRange] = useState({ from: localDay(-7), to: localDay(0) });
+  useEffect(() => {
+    if (!unitId && units[0]) setUnitId(units[0].id);
+  }, [unitId, units]);
+  const valid = isDate(range.from) && isDate(range.to) && range.from <= range.to;
+  const query = useReportQuery(valid ? unitId : null, range.from, range.to);
+  const data = query.data;
+  return (
+    <Screen title="Reports" subtitle="On-time checks and response times" wide>
+      <Card>
+        {units.length > 1 ? <Segmented label="Unit" value={unitId} onChange={setUnitId} options={units.map((u) => ({ value: u.id, label: u.name }))} /> : null}
+        <DateRange from={range.from} to={range.to} onChange={setRange} error={valid ? undefined : 'Use dates as YYYY-MM-DD, the end not before the start.'} />
+      </Card>
+      {query.error ? (
+        <ErrorState error={query.error} onRetry={() => void query.refetch()} />
+      ) : !data ? (
+        <LoadingState label="Working out the figures…" />
+      ) : (
+        <>
+          <View style={styles.figures}>
+            <Figure label="On-time remote-site checks" value={formatPercent(data.report.onTime.overall.rate)} detail={`${data.report.onTime.overall.onTime} of ${data.report.onTime.overall.checks}`} />
+            <Figure label="Gap flags per 100 checks" value={data.report.gapRate.per100 === null ? '—' : data.report.gapRate.per100.toFixed(1)} detail={`${data.report.gapRate.gapFlags} gap flags`} />
+            <Figure label="Flag to first action (median / 90th)" value={`${formatMinutes(data.report.responseTimes[0]!.toFirstAction.medianMinutes)} / ${formatMinutes(data.report.responseTimes[0]!.toFirstAction.p90Minutes)}`} detail="nearest-rank percentiles" />
+            <Figure label="Skin-to-skin time with a deviation" value={formatPercent(data.report.skinToSkin.share)} detail={`${Math.round(data.report.skinToSkin.sessionMinutes)} min of sessions`} />
+          </View>
+          <Card>
+            <OnTimeChart title="On time by shift" rows={data.report.onTime.byShift.map((r) => ({ ...r, label: r.shift === 'day' ? 'Day' : 'Night' }))} />
+            <OnTimeChart title="On time by day" rows={data.report.onTime.byDay.map((r) => ({ ...r, label: r.date.slice(5) }))} />
+          </Card>
+          {data.tables.map((t) => (
+            <ReportTableCard key={t.name} table={t} fileSuffix={`${range.from}-${range.to}`} />
+          ))}
+          <Text variant="caption" tone="muted">
+            A check is on time when taken no later than the unit&apos;s check interval after the one before it (or admission). Median and 90th percentile use the nearest-rank method: the value at rank ⌈P/100 × n⌉.
+          </Text>
+        </>
+      )}
+    </Screen>
+  );
+}
+
+function Figure({ label, value, detail }: { label: string; value: string; detail: string }) {
+  return (
+    <Card style={styles.figure}>
+      <Text variant="caption" tone="muted">
+        {label}
+      </Text>
+      <Text variant="title">{value}</Text>
+      <Text variant="caption" tone="muted">
+        {detail}
+      </Text>
+    </Card>
+  );
+}
+
+const styles = StyleSheet.create({
+  figures: { flexDirection: 'row', flexWrap: 'wrap', gap: 12 },
+  figure: { flexGrow: 1, minWidth: 200 },
+});

@@ -1,0 +1,67 @@
+import { z } from 'zod';
+import { toCsv } from '../../shared/csv';
+import { REPORT_TABLE_NAMES, reportTables } from '../../shared/reports';
+import { reviewQueueQuerySchema, unitRangeQuerySchema, type ReviewQueueQuery, type UnitRangeQuery } from '../../shared/schemas/review';
+import { appendAudit } from '../audit';
+import type { AppContext } from '../context';
+import { notFound } from '../errors';
+import { allow, assertUnit, secureRouter } from '../middleware/access';
+import { valid, validate } from '../middleware/validate';
+import { flagsCsv, infantFhirBundle, readingsCsv } from '../services/exports';
+import { unitReport } from '../services/reports';
+import { reviewQueue } from '../services/review';
+
+const tableParams = z.object({ table: z.enum(REPORT_TABLE_NAMES as [string, ...string[]], { error: 'No such report table.' }) });
+
+function sendCsv(res: import('express').Response, name: string, body: string): void {
+  res.set('Content-Type', 'text/csv; charset=utf-8');
+  res.set('Content-Disposition', `attachment; filename="${name}"`);
+  res.send(body);
+}
+
+/** Reports and exports: the educator's. */
+export function reportsRouter(ctx: AppContext) {
+  const router = secureRouter();
+
+  router.get('/reports', allow(ctx, 'review:work'), validate('query', unitRangeQuerySchema), (req, res) => {
+    const query = valid<UnitRangeQuery>(req, 'query');
+    assertUnit(req, query.unitId);
+    const report = unitReport(ctx, query, req.auth!.userId);
+    res.json({ report, tables: reportTables(report) });
+  });
+
+  router.get('/reports/tables/:table.csv', allow(ctx, 'review:work'), validate('params', tableParams), validate('query', unitRangeQuerySchema), (req, res) => {
+    const query = valid<UnitRangeQuery>(req, 'query');
+    const { table } = valid<{ table: string }>(req, 'params');
+    assertUnit(req, query.unitId);
+    const found = reportTables(unitReport(ctx, query, req.auth!.userId)).find((t) => t.name === table);
+    if (!found) throw notFound('That table');
+    sendCsv(res, `${table}-${query.from}-${query.to}.csv`, toCsv(found.header, found.rows));
+  });
+
+  router.get('/exports/readings.csv', allow(ctx, 'review:work'), validate('query', unitRangeQuerySchema), (req, res) => {
+    const query = valid<UnitRangeQuery>(req, 'query');
+    assertUnit(req, query.unitId);
+    sendCsv(res, `readings-${query.from}-${query.to}.csv`, readingsCsv(ctx, query, req.auth!.userId));
+  });
+
+  /** Flags of the review queue's kinds, with the queue's filters (a date range among them). */
+  router.get('/exports/flags.csv', allow(ctx, 'review:work'), validate('query', reviewQueueQuerySchema), (req, res) => {
+    const query = valid<ReviewQueueQuery>(req, 'query');
+    if (query.unitId) assertUnit(req, query.unitId);
+    const { items } = reviewQueue(ctx, req.auth!.unitIds, query);
+    const { sqlite } = ctx.database;
+    sqlite
+      .transaction(() => appendAudit(sqlite, { at: ctx.clock.now(), actorId: req.auth!.userId, action: 'export-flags-csv', entityType: 'flag', entityId: null, unitId: query.unitId ?? null, after: { ...query, rows: items.length } }))
+      .immediate();
+    sendCsv(res, `flags-${query.from ?? 'all'}-${query.to ?? 'all'}.csv`, flagsCsv(items));
+  });
+
+  router.get('/exports/infants/:infantId/fhir', allow(ctx, 'review:work'), (req, res) => {
+    const bundle = infantFhirBundle(ctx, (req.params as { infantId: string }).infantId, req.auth!);
+    res.set('Content-Type', 'application/fhir+json; charset=utf-8');
+    res.send(JSON.stringify(bundle));
+  });
+
+  return router;
+}

@@ -1,0 +1,30 @@
+import { readingsImportQuerySchema } from '../../shared/schemas/admin';
+import type { AppContext } from '../context';
+import { allow, secureRouter } from '../middleware/access';
+import { valid, validate } from '../middleware/validate';
+import { csvUpload, importReadings, importRoster, previewReadings, previewRoster } from '../services/uploads';
+
+/** Roster (admin) and readings (charge nurse) CSV uploads: preview first, then import. */
+export function uploadsRouter(ctx: AppContext) {
+  const router = secureRouter();
+  const upload = csvUpload(ctx);
+  const uploadId = (req: { params: unknown }) => (req.params as { uploadId: string }).uploadId;
+
+  router.post('/admin/roster/preview', allow(ctx, 'admin:manage'), upload, (req, res) => {
+    res.status(201).json(previewRoster(ctx, req));
+  });
+
+  router.post('/admin/roster/:uploadId/import', allow(ctx, 'admin:manage'), async (req, res) => {
+    res.json(await importRoster(ctx, uploadId(req), req.auth!));
+  });
+
+  router.post('/readings-import/preview', allow(ctx, 'readings:import'), validate('query', readingsImportQuerySchema), upload, (req, res) => {
+    res.status(201).json(previewReadings(ctx, req, valid<{ unitId: string }>(req, 'query').unitId));
+  });
+
+  router.post('/readings-import/:uploadId/import', allow(ctx, 'readings:import'), (req, res) => {
+    res.json(importReadings(ctx, uploadId(req), req.auth!));
+  });
+
+  return router;
+}

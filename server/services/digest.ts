@@ -1,0 +1,97 @@
+import { TZDate } from '@date-fns/tz';
+import { formatMinutes, formatPercent } from '../../shared/reports';
+import { REVIEW_KIND_LABELS } from '../../shared/schemas/review';
+import { appendAudit } from '../audit';
+import type { AppContext } from '../context';
+import { unitReport } from './reports';
+import { localDateOf, reviewQueue } from './review';
+
+/** Monday 07:00 in each unit's own time zone. */
+export const DIGEST_WEEKDAY = 1;
+export const DIGEST_HOUR = 7;
+
+function addDays(date: string, days: number): string {
+  const [y, m, d] = date.split('-').map(Number);
+  return new Date(Date.UTC(y!, m! - 1, d! + days)).toISOString().slice(0, 10);
+}
+
+export interface DigestResult {
+  sent: number;
+  units: string[];
+}
+
+/**
+ * The weekly digest: for each unit, the last seven local days' figures and the review items
+ * still without a teaching note, e-mailed to each active educator of the unit. Without `force`
+ * a unit is sent only in its Monday 07:00 hour and only once that day.
+ */
+export async function sendWeeklyDigests(ctx: AppContext, now: Date, options: { unitIds?: string[]; force?: boolean; actorId?: string | null } = {}): Promise<DigestResult> {
+  const { sqlite } = ctx.database;
+  const units = sqlite.prepare('SELECT id, name, time_zone FROM units ORDER BY name').all() as Array<{ id: string; name: string; time_zone: string }>;
+  const result: DigestResult = { sent: 0, units: [] };
+  for (const unit of units) {
+    if (options.unitIds && !options.unitIds.includes(unit.id)) continue;
+    const today = localDateOf(now, unit.time_zone);
+    const key = `digest:${unit.id}`;
+    if (!options.force) {
+      const local = new TZDate(now.getTime(), unit.time_zone);
+      if (local.getDay() !== DIGEST_WEEKDAY || local.getHours() !== DIGEST_HOUR) continue;
+      const last = sqlite.prepare('SELECT value FROM app_settings WHERE key = ?').get(key) as { value: string } | undefined;
+      if (last?.value === today) continue;
+    }
+    const educators = sqlite
+      .prepare("SELECT u.email, u.name FROM users u JOIN user_units m ON m.user_id = u.id WHERE m.unit_id = ? AND u.role = 'educator' AND u.active = 1 ORDER BY u.name")
+      .all(unit.id) as Array<{ email: string; name: string }>;
+    const from = addDays(today, -7);
+    const to = addDays(today, -1);
+    const report = unitReport(ctx, { unitId: unit.id, from, to }, options.actorId ?? null);
+    const open = reviewQueue(ctx, [unit.id], { unitId: unit.id, status: 'unreviewed', from, to }).items;
+    const all = report.responseTimes[0]!;
+    const lines = [
+      `Weekly digest for ${unit.name}, ${from} to ${to}.`,
+      '',
+      `On-time remote-site checks: ${formatPercent(report.onTime.overall.rate)} (${report.onTime.overall.onTime} of ${report.onTime.overall.checks})`,
+      ...report.onTime.byShift.map((s) => `  ${s.shift} shifts: ${formatPercent(s.rate)} (${s.onTime} of ${s.checks})`),
+      `Gap flags per 100 remote-site checks: ${report.gapRate.per100 === null ? '—' : report.gapRate.per100.toFixed(1)} (${report.gapRate.gapFlags} gap flags)`,
+      `Flag to first action: median ${formatMinutes(all.toFirstAction.medianMinutes)}, 90th percentile ${formatMinutes(all.toFirstAction.p90Minutes)}`,
+      `Flag to resolution: median ${formatMinutes(all.toResolution.medianMinutes)}, 90th percentile ${formatMinutes(all.toResolution.p90Minutes)}`,
+      `Skin-to-skin time with a deviation: ${formatPercent(report.skinToSkin.share)}`,
+      '',
+      `Review items without a teaching note: ${open.length}`,
+      ...open.slice(0, 20).map((i) => `  ${i.raisedAt.slice(0, 16).replace('T', ' ')} UTC · ${REVIEW_KIND_LABELS[i.kind]} · ${i.infantName} · ${i.shift} shift · ${i.nurse?.name ?? 'nurse unknown'}`),
+      open.length > 20 ? `  …and ${open.length - 20} more.` : '',
+      '',
+      `Open the review queue: ${ctx.config.publicUrl}/review`,
+      'Percentiles are by nearest rank.',
+    ].filter((l, i, a) => !(l === '' && a[i - 1] === ''));
+    for (const educator of educators) {
+      try {
+        await ctx.mailer.send({ to: [educator.email], subject: `Warmfold weekly digest: ${unit.name}, week to ${to}`, text: [`Hello ${educator.name},`, '', ...lines].join('\n') });
+        result.sent += 1;
+      } catch (err) {
+        ctx.log(`digest to ${educator.email} failed: ${String(err)}`);
+      }
+    }
+    sqlite
+      .transaction(() => {
+        // A send-now by an admin does not stand in for the Monday run.
+        if (!options.force) sqlite.prepare('INSERT INTO app_settings (key, value, updated_at) VALUES (?, ?, ?) ON CONFLICT(key) DO UPDATE SET value = excluded.value, updated_at = excluded.updated_at').run(key, today, now.getTime());
+        appendAudit(sqlite, { at: now, actorId: options.actorId ?? null, action: 'digest-sent', entityType: 'unit', entityId: unit.id, unitId: unit.id, after: { from, to, educators: educators.length, openItems: open.length } });
+      })
+      .immediate();
+    result.units.push(unit.id);
+  }
+  return result;
+}
+
+/** Checked hourly so each unit's Monday 07:00 is met in its own time zone. */
+export function weeklyDigestJob() {
+  return {
+    name: 'weekly-digest',
+    pattern: '0 0 * * * *',
+    run: async (ctx: AppContext) => {
+      const result = await sendWeeklyDigests(ctx, ctx.clock.now());
+      if (result.units.length) ctx.log(`weekly digest: ${result.sent} e-mails for ${result.units.length} units`);
+    },
+  };
+}

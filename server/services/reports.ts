@@ -1,0 +1,126 @@
+import { TZDate } from '@date-fns/tz';
+import type Database from 'better-sqlite3';
+import {
+  gapFlagsPer100,
+  onTimeReport,
+  responseTimesByKind,
+  skinToSkinDeviationShare,
+  type FlagTimes,
+  type RemoteCheck,
+  type SkinToSkinSession,
+  type UnitReport,
+} from '../../shared/reports';
+import { REVIEW_KINDS, type UnitRangeQuery } from '../../shared/schemas/review';
+import { appendAudit } from '../audit';
+import type { AppContext } from '../context';
+import { notFound } from '../errors';
+import type { UnitRow } from './flags';
+
+const MINUTE = 60_000;
+
+export interface UnitWindow {
+  unit: UnitRow & { name: string };
+  fromMs: number;
+  toMs: number;
+}
+
+/** Local midnight at the start of `date` in the zone. */
+export function localMidnight(date: string, timeZone: string): number {
+  const [y, m, d] = date.split('-').map(Number);
+  return new TZDate(y!, m! - 1, d!, 0, 0, 0, timeZone).getTime();
+}
+
+/** [from 00:00, the day after `to` 00:00) in the unit's zone. */
+export function unitWindow(sqlite: Database.Database, query: UnitRangeQuery): UnitWindow {
+  const unit = sqlite.prepare('SELECT * FROM units WHERE id = ?').get(query.unitId) as (UnitRow & { name: string }) | undefined;
+  if (!unit) throw notFound('That unit');
+  const [y, m, d] = query.to.split('-').map(Number);
+  const next = new Date(Date.UTC(y!, m! - 1, d! + 1)).toISOString().slice(0, 10);
+  return { unit, fromMs: localMidnight(query.from, unit.time_zone), toMs: localMidnight(next, unit.time_zone) };
+}
+
+/**
+ * Every current remote-site check in the window with the instant it would have become overdue:
+ * the infant's previous current check (or admission) plus the unit's check interval.
+ */
+export function remoteChecks(sqlite: Database.Database, w: UnitWindow): RemoteCheck[] {
+  const rows = sqlite
+    .prepare(
+      `SELECT r.infant_id, r.taken_at, i.admitted_at FROM readings r JOIN infants i ON i.id = r.infant_id
+        WHERE r.unit_id = ? AND r.remote_centi IS NOT NULL AND r.entered_in_error = 0 AND r.taken_at < ?
+          AND NOT EXISTS (SELECT 1 FROM readings c WHERE c.replaces_id = r.id)
+        ORDER BY r.infant_id, r.taken_at`,
+    )
+    .all(w.unit.id, w.toMs) as Array<{ infant_id: string; taken_at: number; admitted_at: number }>;
+  const interval = w.unit.check_interval_minutes * MINUTE;
+  const checks: RemoteCheck[] = [];
+  let infant = '';
+  let previous = 0;
+  for (const r of rows) {
+    if (r.infant_id !== infant) {
+      infant = r.infant_id;
+      previous = r.admitted_at;
+    }
+    if (r.taken_at >= w.fromMs) checks.push({ takenAt: new Date(r.taken_at), dueAt: new Date(previous + interval) });
+    previous = r.taken_at;
+  }
+  return checks;
+}
+
+export function flagTimes(sqlite: Database.Database, w: UnitWindow): FlagTimes[] {
+  const rows = sqlite
+    .prepare(
+      `SELECT f.kind, f.raised_at, (SELECT MIN(a.at) FROM actions a WHERE a.flag_id = f.id) AS first_action_at, fr.closed_at
+         FROM flags f LEFT JOIN flag_resolutions fr ON fr.flag_id = f.id
+        WHERE f.unit_id = ? AND f.raised_at >= ? AND f.raised_at < ? AND f.kind IN (${REVIEW_KINDS.map((k) => `'${k}'`).join(', ')})`,
+    )
+    .all(w.unit.id, w.fromMs, w.toMs) as Array<{ kind: string; raised_at: number; first_action_at: number | null; closed_at: number | null }>;
+  return rows.map((r) => ({
+    kind: r.kind,
+    raisedAt: new Date(r.raised_at),
+    firstActionAt: r.first_action_at === null ? null : new Date(r.first_action_at),
+    closedAt: r.closed_at === null ? null : new Date(r.closed_at),
+  }));
+}
+
+function skinToSkinSessions(sqlite: Database.Database, w: UnitWindow): SkinToSkinSession[] {
+  const sessions = sqlite
+    .prepare('SELECT id, started_at, ended_at FROM skin_to_skin_sessions WHERE unit_id = ? AND started_at < ? AND (ended_at IS NULL OR ended_at > ?)')
+    .all(w.unit.id, w.toMs, w.fromMs) as Array<{ id: string; started_at: number; ended_at: number | null }>;
+  const deviations = sqlite
+    .prepare(
+      `SELECT f.detail, f.raised_at, fr.closed_at FROM flags f LEFT JOIN flag_resolutions fr ON fr.flag_id = f.id
+        WHERE f.unit_id = ? AND f.kind = 'skin-to-skin-deviation' AND f.raised_at < ?`,
+    )
+    .all(w.unit.id, w.toMs) as Array<{ detail: string; raised_at: number; closed_at: number | null }>;
+  return sessions.map((s) => ({
+    id: s.id,
+    start: new Date(s.started_at),
+    end: s.ended_at === null ? null : new Date(s.ended_at),
+    deviations: deviations
+      .filter((d) => (JSON.parse(d.detail) as { sessionId?: string }).sessionId === s.id)
+      .map((d) => ({ start: new Date(d.raised_at), end: d.closed_at === null ? null : new Date(d.closed_at) })),
+  }));
+}
+
+/** The unit's report for a range of local dates. A running session is counted up to now. */
+export function unitReport(ctx: AppContext, query: UnitRangeQuery, actorId: string | null): UnitReport {
+  const { sqlite } = ctx.database;
+  const w = unitWindow(sqlite, query);
+  const checks = remoteChecks(sqlite, w);
+  const flags = flagTimes(sqlite, w);
+  const end = Math.min(w.toMs, ctx.clock.now().getTime());
+  const report: UnitReport = {
+    unitId: w.unit.id,
+    from: query.from,
+    to: query.to,
+    onTime: onTimeReport(checks, { dayShiftStart: w.unit.day_shift_start, nightShiftStart: w.unit.night_shift_start, timeZone: w.unit.time_zone }),
+    gapRate: gapFlagsPer100(flags.filter((f) => f.kind === 'gap').length, checks.length),
+    responseTimes: responseTimesByKind(flags, REVIEW_KINDS),
+    skinToSkin: skinToSkinDeviationShare(skinToSkinSessions(sqlite, w), new Date(w.fromMs), new Date(Math.max(end, w.fromMs))),
+  };
+  sqlite
+    .transaction(() => appendAudit(sqlite, { at: ctx.clock.now(), actorId, action: 'report-read', entityType: 'unit', entityId: w.unit.id, unitId: w.unit.id, after: query }))
+    .immediate();
+  return report;
+}

@@ -1,0 +1,242 @@
+import type Database from 'better-sqlite3';
+import { randomUUID } from 'node:crypto';
+import { REVIEW_KINDS, type ReviewKind, type ReviewQueueQuery } from '../../shared/schemas/review';
+import { shiftAt } from '../../shared/shifts';
+import { formatTemperature } from '../../shared/thermal';
+import type { MyReviewNote, PersonRef, ReviewItemDetail, ReviewNote, ReviewQueueItem, ReviewQueueResponse } from '../../shared/types/review';
+import { appendAudit } from '../audit';
+import type { AppContext } from '../context';
+import { forbidden, notFound } from '../errors';
+
+interface FlagRow {
+  id: string;
+  kind: ReviewKind;
+  unit_id: string;
+  unit_name: string;
+  time_zone: string;
+  day_shift_start: string;
+  night_shift_start: string;
+  infant_id: string;
+  infant_name: string;
+  bed_label: string | null;
+  raised_at: number;
+  raised_by_reading_id: string | null;
+  detail: string;
+  reading_by: string | null;
+  reading_by_name: string | null;
+  first_action_at: number | null;
+  closed_at: number | null;
+  review_count: number;
+  last_review_at: number | null;
+}
+
+const MINUTE = 60_000;
+const KIND_LIST = REVIEW_KINDS.map((k) => `'${k}'`).join(', ');
+
+/** Local calendar date of an instant in a zone, YYYY-MM-DD. */
+export function localDateOf(instant: Date, timeZone: string): string {
+  return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(instant);
+}
+
+function loadFlagRows(sqlite: Database.Database, unitIds: string[], flagId?: string): FlagRow[] {
+  if (unitIds.length === 0) return [];
+  const marks = unitIds.map(() => '?').join(', ');
+  return sqlite
+    .prepare(
+      `SELECT f.id, f.kind, f.unit_id, u.name AS unit_name, u.time_zone, u.day_shift_start, u.night_shift_start,
+              f.infant_id, i.display_name AS infant_name, b.label AS bed_label, f.raised_at, f.raised_by_reading_id, f.detail,
+              r.recorded_by AS reading_by, ru.name AS reading_by_name,
+              (SELECT MIN(a.at) FROM actions a WHERE a.flag_id = f.id) AS first_action_at,
+              fr.closed_at,
+              (SELECT COUNT(*) FROM reviews v WHERE v.flag_id = f.id) AS review_count,
+              (SELECT MAX(v.created_at) FROM reviews v WHERE v.flag_id = f.id) AS last_review_at
+         FROM flags f
+         JOIN units u ON u.id = f.unit_id
+         JOIN infants i ON i.id = f.infant_id
+         LEFT JOIN beds b ON b.id = i.bed_id
+         LEFT JOIN readings r ON r.id = f.raised_by_reading_id
+         LEFT JOIN users ru ON ru.id = r.recorded_by
+         LEFT JOIN flag_resolutions fr ON fr.flag_id = f.id
+        WHERE f.kind IN (${KIND_LIST}) AND f.unit_id IN (${marks}) ${flagId ? 'AND f.id = ?' : ''}
+        ORDER BY f.raised_at DESC, f.id`,
+    )
+    .all(...unitIds, ...(flagId ? [flagId] : [])) as FlagRow[];
+}
+
+function assignedNurse(sqlite: Database.Database, infantId: string, shiftDate: string, shift: string): PersonRef | null {
+  const row = sqlite
+    .prepare(
+      `SELECT n.id, n.name FROM assignments a JOIN users n ON n.id = a.nurse_id
+        WHERE a.infant_id = ? AND a.shift_date = ? AND a.shift = ? ORDER BY a.created_at DESC LIMIT 1`,
+    )
+    .get(infantId, shiftDate, shift) as PersonRef | undefined;
+  return row ?? null;
+}
+
+function summaryOf(kind: ReviewKind, detail: Record<string, unknown>): string {
+  const t = (v: unknown) => (typeof v === 'number' ? formatTemperature(v, 'C') : '—');
+  switch (kind) {
+    case 'gap':
+      return `Probe ${t(detail.probeCenti)}, remote site ${t(detail.remoteCenti)}`;
+    case 'overdue-check':
+      return typeof detail.minutesLate === 'number' ? `Remote-site check ${detail.minutesLate} min late` : 'Remote-site check overdue';
+    case 'heat-stress':
+      return Array.isArray(detail.reasons) ? `Reasons: ${detail.reasons.map((r) => (typeof r === 'string' ? r : (r as { kind?: string }).kind ?? 'sign')).join(', ')}` : 'Heat-stress prompt';
+    case 'manual-mode':
+      return 'Manual mode at high heater output';
+  }
+}
+
+function toItem(sqlite: Database.Database, row: FlagRow): ReviewQueueItem {
+  const raisedAt = new Date(row.raised_at);
+  const slot = shiftAt(raisedAt, { dayShiftStart: row.day_shift_start, nightShiftStart: row.night_shift_start, timeZone: row.time_zone });
+  const detail = JSON.parse(row.detail) as Record<string, unknown>;
+  const recorder = row.reading_by ? { id: row.reading_by, name: row.reading_by_name ?? '' } : null;
+  // Who the note is for: the nurse who charted the reading, or (for a check that was not taken) the nurse assigned.
+  const nurse = row.kind === 'overdue-check' ? (assignedNurse(sqlite, row.infant_id, slot.shiftDate, slot.shift) ?? recorder) : (recorder ?? assignedNurse(sqlite, row.infant_id, slot.shiftDate, slot.shift));
+  const mins = (at: number | null) => (at === null ? null : Math.max(0, Math.round((at - row.raised_at) / MINUTE)));
+  return {
+    flagId: row.id,
+    kind: row.kind,
+    unitId: row.unit_id,
+    unitName: row.unit_name,
+    infantId: row.infant_id,
+    infantName: row.infant_name,
+    bedLabel: row.bed_label,
+    raisedAt: raisedAt.toISOString(),
+    shift: slot.shift,
+    shiftDate: slot.shiftDate,
+    nurse,
+    summary: summaryOf(row.kind, detail),
+    firstActionAt: row.first_action_at === null ? null : new Date(row.first_action_at).toISOString(),
+    closedAt: row.closed_at === null ? null : new Date(row.closed_at).toISOString(),
+    minutesToFirstAction: mins(row.first_action_at),
+    minutesToResolution: mins(row.closed_at),
+    reviewCount: row.review_count,
+    lastReviewedAt: row.last_review_at === null ? null : new Date(row.last_review_at).toISOString(),
+  };
+}
+
+/** The queue items in the given units, every filter applied; the nurse filter list comes from the unfiltered set. */
+export function reviewQueue(ctx: AppContext, unitIds: string[], query: ReviewQueueQuery): ReviewQueueResponse {
+  const { sqlite } = ctx.database;
+  const units = unitIds.length
+    ? (sqlite.prepare(`SELECT id, name FROM units WHERE id IN (${unitIds.map(() => '?').join(', ')}) ORDER BY name`).all(...unitIds) as Array<{ id: string; name: string }>)
+    : [];
+  const scope = query.unitId ? unitIds.filter((u) => u === query.unitId) : unitIds;
+  const rows = loadFlagRows(sqlite, scope).filter((r) => {
+    if (query.kind && r.kind !== query.kind) return false;
+    if (query.from || query.to) {
+      const date = localDateOf(new Date(r.raised_at), r.time_zone);
+      if (query.from && date < query.from) return false;
+      if (query.to && date > query.to) return false;
+    }
+    if (query.status === 'reviewed' && r.review_count === 0) return false;
+    if (query.status === 'unreviewed' && r.review_count > 0) return false;
+    return true;
+  });
+  const all = rows.map((r) => toItem(sqlite, r));
+  const nurses = new Map<string, PersonRef>();
+  for (const item of all) if (item.nurse) nurses.set(item.nurse.id, item.nurse);
+  const items = all.filter((i) => (!query.shift || i.shift === query.shift) && (!query.nurseId || i.nurse?.id === query.nurseId));
+  return { items, nurses: [...nurses.values()].sort((a, b) => a.name.localeCompare(b.name)), units };
+}
+
+function loadReviews(sqlite: Database.Database, flagIds: string[]): ReviewNote[] {
+  if (flagIds.length === 0) return [];
+  const rows = sqlite
+    .prepare(
+      `SELECT v.id, v.flag_id, v.note, v.created_at, u.id AS reviewer_id, u.name AS reviewer_name
+         FROM reviews v JOIN users u ON u.id = v.reviewer_id WHERE v.flag_id IN (${flagIds.map(() => '?').join(', ')}) ORDER BY v.created_at, v.rowid`,
+    )
+    .all(...flagIds) as Array<{ id: string; flag_id: string; note: string; created_at: number; reviewer_id: string; reviewer_name: string }>;
+  return rows.map((r) => ({ id: r.id, flagId: r.flag_id, note: r.note, createdAt: new Date(r.created_at).toISOString(), reviewer: { id: r.reviewer_id, name: r.reviewer_name } }));
+}
+
+/** Finds a queue flag; 404 when it does not exist, 403 when it belongs to another unit. */
+function findFlag(ctx: AppContext, flagId: string, unitIds: string[]): FlagRow {
+  const { sqlite } = ctx.database;
+  const unit = sqlite.prepare(`SELECT unit_id FROM flags WHERE id = ? AND kind IN (${KIND_LIST})`).get(flagId) as { unit_id: string } | undefined;
+  if (!unit) throw notFound('That review item');
+  if (!unitIds.includes(unit.unit_id)) throw forbidden('This item belongs to a unit you are not part of.');
+  return loadFlagRows(sqlite, [unit.unit_id], flagId)[0]!;
+}
+
+/** The event in full: readings from 3 hours before the flag to an hour after it closed (or was raised). An audited chart read. */
+export function reviewItemDetail(ctx: AppContext, flagId: string, auth: { userId: string; unitIds: string[] }): ReviewItemDetail {
+  const { sqlite } = ctx.database;
+  const row = findFlag(ctx, flagId, auth.unitIds);
+  const item = toItem(sqlite, row);
+  const from = row.raised_at - 3 * 60 * MINUTE;
+  const to = Math.max(row.closed_at ?? row.raised_at, row.first_action_at ?? 0, row.raised_at) + 60 * MINUTE;
+  const readings = (
+    sqlite
+      .prepare(
+        `SELECT r.id, r.taken_at, r.recorded_by, u.name AS by_name, r.probe_centi, r.remote_centi, r.remote_site, r.control_mode, r.heater_output_pct,
+                r.heart_rate, r.note, EXISTS (SELECT 1 FROM readings c WHERE c.replaces_id = r.id) AS replaced
+           FROM readings r JOIN users u ON u.id = r.recorded_by
+          WHERE r.infant_id = ? AND r.taken_at BETWEEN ? AND ? ORDER BY r.taken_at, r.recorded_at`,
+      )
+      .all(row.infant_id, from, to) as Array<{
+      id: string; taken_at: number; recorded_by: string; by_name: string; probe_centi: number | null; remote_centi: number | null; remote_site: string | null;
+      control_mode: string | null; heater_output_pct: number | null; heart_rate: number | null; note: string | null; replaced: number;
+    }>
+  ).map((r) => ({
+    id: r.id,
+    takenAt: new Date(r.taken_at).toISOString(),
+    recordedBy: { id: r.recorded_by, name: r.by_name },
+    probeCenti: r.probe_centi,
+    remoteCenti: r.remote_centi,
+    remoteSite: r.remote_site,
+    controlMode: r.control_mode,
+    heaterOutputPct: r.heater_output_pct,
+    heartRate: r.heart_rate,
+    note: r.note,
+    raisedFlag: r.id === row.raised_by_reading_id,
+    replaced: r.replaced === 1,
+  }));
+  const actions = (
+    sqlite
+      .prepare('SELECT a.id, a.kind, a.note, a.at, u.id AS by_id, u.name AS by_name FROM actions a JOIN users u ON u.id = a.recorded_by WHERE a.flag_id = ? ORDER BY a.at, a.id')
+      .all(flagId) as Array<{ id: string; kind: string; note: string | null; at: number; by_id: string; by_name: string }>
+  ).map((a) => ({ id: a.id, kind: a.kind, note: a.note, at: new Date(a.at).toISOString(), by: { id: a.by_id, name: a.by_name } }));
+  ctx.database.sqlite
+    .transaction(() =>
+      appendAudit(sqlite, { at: ctx.clock.now(), actorId: auth.userId, action: 'chart-read', entityType: 'flag', entityId: flagId, unitId: row.unit_id, after: { view: 'review-item' } }),
+    )
+    .immediate();
+  return { item, detail: JSON.parse(row.detail) as Record<string, unknown>, readings, actions, reviews: loadReviews(sqlite, [flagId]) };
+}
+
+/** Append a teaching note (reviews are append-only: a second note is a new row). */
+export function addTeachingNote(ctx: AppContext, flagId: string, note: string, auth: { userId: string; unitIds: string[] }): ReviewNote {
+  const { sqlite } = ctx.database;
+  const row = findFlag(ctx, flagId, auth.unitIds);
+  const id = randomUUID();
+  const now = ctx.clock.now();
+  sqlite
+    .transaction(() => {
+      sqlite.prepare('INSERT INTO reviews (id, flag_id, unit_id, reviewer_id, note, created_at) VALUES (?, ?, ?, ?, ?, ?)').run(id, flagId, row.unit_id, auth.userId, note, now.getTime());
+      appendAudit(sqlite, { at: now, actorId: auth.userId, action: 'review-note', entityType: 'review', entityId: id, unitId: row.unit_id, after: { flagId, note } });
+    })
+    .immediate();
+  return loadReviews(sqlite, [flagId]).find((r) => r.id === id)!;
+}
+
+/** Teaching notes on flags where the signed-in nurse is the nurse concerned, newest first. */
+export function myReviewNotes(ctx: AppContext, auth: { userId: string; unitIds: string[] }): MyReviewNote[] {
+  const { sqlite } = ctx.database;
+  const flagIds = (
+    sqlite.prepare(`SELECT DISTINCT v.flag_id FROM reviews v WHERE v.unit_id IN (${auth.unitIds.map(() => '?').join(', ') || "''"})`).all(...auth.unitIds) as Array<{ flag_id: string }>
+  ).map((r) => r.flag_id);
+  const notes: MyReviewNote[] = [];
+  for (const flagId of flagIds) {
+    const unit = sqlite.prepare('SELECT unit_id FROM flags WHERE id = ?').get(flagId) as { unit_id: string };
+    const row = loadFlagRows(sqlite, [unit.unit_id], flagId)[0];
+    if (!row) continue;
+    const item = toItem(sqlite, row);
+    if (item.nurse?.id !== auth.userId) continue;
+    for (const n of loadReviews(sqlite, [flagId])) notes.push({ ...n, kind: item.kind, infantName: item.infantName, raisedAt: item.raisedAt });
+  }
+  return notes.sort((a, b) => (a.createdAt < b.createdAt ? 1 : a.createdAt > b.createdAt ? -1 : 0));
+}

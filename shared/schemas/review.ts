@@ -1,0 +1,62 @@
+import { z } from 'zod';
+
+/** The flag kinds the educator's review queue shows. */
+export const REVIEW_KINDS = ['gap', 'overdue-check', 'heat-stress', 'manual-mode'] as const;
+export type ReviewKind = (typeof REVIEW_KINDS)[number];
+
+export const REVIEW_KIND_LABELS: Record<ReviewKind, string> = {
+  gap: 'Gap flag',
+  'overdue-check': 'Overdue check',
+  'heat-stress': 'Heat-stress prompt',
+  'manual-mode': 'Manual-mode warning',
+};
+
+export const REVIEW_STATUSES = ['unreviewed', 'reviewed', 'all'] as const;
+export type ReviewStatus = (typeof REVIEW_STATUSES)[number];
+
+/** A local calendar date in the unit's time zone. */
+export const localDateSchema = z
+  .string()
+  .regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date as YYYY-MM-DD.')
+  .refine((v) => !Number.isNaN(Date.parse(`${v}T00:00:00Z`)) && new Date(`${v}T00:00:00Z`).toISOString().startsWith(v), 'That date does not exist.');
+
+const id = z.string().min(1).max(100);
+
+function rangeOk(v: { from?: string; to?: string }) {
+  return !v.from || !v.to || v.from <= v.to;
+}
+const RANGE_MESSAGE = { message: 'The end date must not be before the start date.', path: ['to'] };
+
+export const reviewQueueQuerySchema = z
+  .strictObject({
+    unitId: id.optional(),
+    from: localDateSchema.optional(),
+    to: localDateSchema.optional(),
+    shift: z.enum(['day', 'night'], { error: 'Choose day or night.' }).optional(),
+    kind: z.enum(REVIEW_KINDS, { error: 'Choose a kind of flag.' }).optional(),
+    nurseId: id.optional(),
+    status: z.enum(REVIEW_STATUSES, { error: 'Choose reviewed, unreviewed or all.' }).default('all'),
+  })
+  .refine(rangeOk, RANGE_MESSAGE);
+export type ReviewQueueQuery = z.infer<typeof reviewQueueQuerySchema>;
+
+export const TEACHING_NOTE_MAX = 2000;
+export const teachingNoteSchema = z.strictObject({
+  note: z
+    .string({ error: 'Write a teaching note.' })
+    .trim()
+    .min(3, 'Write a teaching note of a few words at least.')
+    .max(TEACHING_NOTE_MAX, `Keep the note under ${TEACHING_NOTE_MAX} characters.`),
+});
+export type TeachingNoteInput = z.infer<typeof teachingNoteSchema>;
+
+/** Reports and exports: one unit, an inclusive range of local dates (at most a year). */
+export const unitRangeQuerySchema = z
+  .strictObject({
+    unitId: id,
+    from: localDateSchema,
+    to: localDateSchema,
+  })
+  .refine(rangeOk, RANGE_MESSAGE)
+  .refine((v) => Date.parse(v.to) - Date.parse(v.from) <= 366 * 86_400_000, { message: 'Choose at most a year.', path: ['to'] });
+export type UnitRangeQuery = z.infer<typeof unitRangeQuerySchema>;

@@ -1,0 +1,59 @@
+import type { Role } from '../roles';
+
+export interface AdminUser {
+  id: string;
+  name: string;
+  email: string;
+  role: Role;
+  active: boolean;
+  unitIds: string[];
+  /** 'active': has a password; 'invited': an invitation is waiting; 'deactivated'. */
+  status: 'active' | 'invited' | 'deactivated';
+  inviteExpiresAt: string | null;
+}
+
+export interface AdminBed {
+  id: string;
+  label: string;
+  active: boolean;
+}
+
+export interface AdminUnit {
+  id: string;
+  name: string;
+  hospitalName: string;
+  timeZone: string;
+  checkIntervalMinutes: number;
+  dueSoonMinutes: number;
+  gapLimitCenti: number;
+  escalationDelayMinutes: number;
+  dayShiftStart: string;
+  nightShiftStart: string;
+  beds: AdminBed[];
+}
+
+export interface UploadRowPreview {
+  /** The line in the file (the header is line 1). */
+  line: number;
+  values: Record<string, string>;
+  errors: string[];
+  /** What importing would do with this row. */
+  action: 'create' | 'skip' | 'error';
+  /** Why a row is skipped (already present). */
+  note?: string;
+}
+
+export interface UploadPreview {
+  upload: { id: string; kind: 'roster' | 'readings'; filename: string; sha256: string; rowCount: number; status: 'previewed' | 'imported' | 'rejected' };
+  /** A file with the same content was imported before: importing again changes nothing. */
+  alreadyImported: boolean;
+  rows: UploadRowPreview[];
+  errorCount: number;
+  toCreate: number;
+}
+
+export interface ImportResult {
+  created: number;
+  skipped: number;
+  alreadyImported: boolean;
+}

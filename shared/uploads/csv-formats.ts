@@ -1,0 +1,147 @@
+/**
+ * The two CSV files Warmfold accepts, with their row checks: pure, so the server and the
+ * screens agree. Files are UTF-8, comma-separated, with a header row; column names are
+ * matched without regard to case or surrounding spaces. Line numbers count the header as 1.
+ */
+import { emailSchema } from '../schemas/auth';
+import { ROLES, type Role } from '../roles';
+import { isThermalInputError, toCentiCelsius, type TempUnit } from '../thermal';
+
+export const MAX_UPLOAD_BYTES = 1024 * 1024;
+export const MAX_UPLOAD_ROWS = 5000;
+
+/** Roster: one person per row. `unit` is the unit's name or id. */
+export const ROSTER_COLUMNS = ['name', 'email', 'role', 'unit'] as const;
+
+/**
+ * Readings, our own format. One reading per row:
+ *
+ * | column      | required | meaning |
+ * | ----------- | -------- | ------- |
+ * | infant      | yes      | the bed label (e.g. N01) or the infant's id, in the chosen unit |
+ * | time        | yes      | when taken, ISO 8601 with a zone: 2026-11-16T08:00:00Z or 2026-11-16T09:00:00+01:00 |
+ * | probe       | no       | skin probe temperature |
+ * | remote      | no       | remote-site temperature (needs `site`) |
+ * | site        | with remote | axilla, rectal or other |
+ * | unit        | yes      | C or F: the unit of probe and remote |
+ * | mode        | no       | skin-servo, air-servo or manual |
+ * | output      | no       | heater output, 0–100 (%) |
+ * | heart_rate  | no       | beats per minute, 30–300 |
+ *
+ * A row needs at least one of probe, remote or heart_rate.
+ */
+export const READINGS_COLUMNS = ['infant', 'time', 'probe', 'remote', 'site', 'unit', 'mode', 'output', 'heart_rate'] as const;
+export const READINGS_REQUIRED = ['infant', 'time', 'unit'] as const;
+
+export const READINGS_EXAMPLE = [
+  'infant,time,probe,remote,site,unit,mode,output,heart_rate',
+  'N01,2026-11-16T08:00:00Z,36.6,36.8,axilla,C,skin-servo,40,148',
+  'N02,2026-11-16T08:05:00Z,97.9,,,F,air-servo,,152',
+].join('\n');
+
+export type Row = Record<string, string>;
+
+/** Which required columns a header lacks. */
+export function missingColumns(header: readonly string[], required: readonly string[]): string[] {
+  const have = new Set(header.map((h) => h.trim().toLowerCase()));
+  return required.filter((c) => !have.has(c));
+}
+
+export interface RosterRow {
+  name: string;
+  email: string;
+  role: Role;
+  unit: string;
+}
+
+export function checkRosterRow(row: Row): { value?: RosterRow; errors: string[] } {
+  const errors: string[] = [];
+  const name = (row.name ?? '').trim();
+  if (name.length < 2) errors.push('name: enter the full name');
+  if (name.length > 120) errors.push('name: too long');
+  const email = emailSchema.safeParse(row.email ?? '');
+  if (!email.success) errors.push(`email: ${email.error.issues[0]?.message ?? 'not valid'}`);
+  const role = (row.role ?? '').trim().toLowerCase();
+  if (!(ROLES as readonly string[]).includes(role)) errors.push(`role: use one of ${ROLES.join(', ')}`);
+  const unit = (row.unit ?? '').trim();
+  if (!unit) errors.push('unit: enter the unit name or id');
+  if (errors.length) return { errors };
+  return { value: { name, email: email.data!, role: role as Role, unit }, errors };
+}
+
+export interface ParsedReadingRow {
+  infant: string;
+  takenAt: Date;
+  probeCenti: number | null;
+  remoteCenti: number | null;
+  remoteSite: 'axilla' | 'rectal' | 'other' | null;
+  unit: TempUnit;
+  controlMode: 'skin-servo' | 'air-servo' | 'manual' | null;
+  heaterOutputPct: number | null;
+  heartRate: number | null;
+}
+
+const ISO_WITH_ZONE = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2}(\.\d{1,3})?)?(Z|[+-]\d{2}:\d{2})$/;
+const DECIMAL = /^-?\d{1,3}(\.\d{1,2})?$/;
+const WHOLE = /^\d{1,3}$/;
+
+function temperature(value: string, unit: TempUnit | null, column: string, errors: string[]): number | null {
+  const v = value.trim();
+  if (!v) return null;
+  if (!DECIMAL.test(v)) {
+    errors.push(`${column}: "${v}" is not a number with at most two decimals`);
+    return null;
+  }
+  if (!unit) return null;
+  try {
+    return toCentiCelsius(Number(v), unit, column);
+  } catch (err) {
+    errors.push(`${column}: ${isThermalInputError(err) ? `${v} °${unit} is outside 20–45 °C (68–113 °F)` : 'not a temperature'}`);
+    return null;
+  }
+}
+
+function whole(value: string, column: string, min: number, max: number, errors: string[]): number | null {
+  const v = value.trim();
+  if (!v) return null;
+  if (!WHOLE.test(v) || Number(v) < min || Number(v) > max) {
+    errors.push(`${column}: use a whole number from ${min} to ${max}`);
+    return null;
+  }
+  return Number(v);
+}
+
+/** Check one readings row on its own; the infant and the time against admission are checked by the server. */
+export function checkReadingRow(row: Row): { value?: ParsedReadingRow; errors: string[] } {
+  const errors: string[] = [];
+  const infant = (row.infant ?? '').trim();
+  if (!infant) errors.push('infant: enter the bed label or infant id');
+  const time = (row.time ?? '').trim();
+  let takenAt: Date | null = null;
+  if (!ISO_WITH_ZONE.test(time) || Number.isNaN(Date.parse(time))) errors.push('time: use ISO 8601 with a zone, e.g. 2026-11-16T08:00:00Z');
+  else takenAt = new Date(time);
+  const unitText = (row.unit ?? '').trim().toUpperCase();
+  const unit: TempUnit | null = unitText === 'C' || unitText === 'F' ? unitText : null;
+  if (!unit) errors.push('unit: use C or F');
+  const probeCenti = temperature(row.probe ?? '', unit, 'probe', errors);
+  const remoteCenti = temperature(row.remote ?? '', unit, 'remote', errors);
+  const siteText = (row.site ?? '').trim().toLowerCase();
+  let remoteSite: ParsedReadingRow['remoteSite'] = null;
+  if (siteText) {
+    if (siteText === 'axilla' || siteText === 'rectal' || siteText === 'other') remoteSite = siteText;
+    else errors.push('site: use axilla, rectal or other');
+  }
+  if ((row.remote ?? '').trim() && !siteText) errors.push('site: say where the remote-site temperature was taken');
+  if (siteText && !(row.remote ?? '').trim()) errors.push('site: given without a remote-site temperature');
+  const modeText = (row.mode ?? '').trim().toLowerCase();
+  let controlMode: ParsedReadingRow['controlMode'] = null;
+  if (modeText) {
+    if (modeText === 'skin-servo' || modeText === 'air-servo' || modeText === 'manual') controlMode = modeText;
+    else errors.push('mode: use skin-servo, air-servo or manual');
+  }
+  const heaterOutputPct = whole(row.output ?? '', 'output', 0, 100, errors);
+  const heartRate = whole(row.heart_rate ?? '', 'heart_rate', 30, 300, errors);
+  if (!(row.probe ?? '').trim() && !(row.remote ?? '').trim() && !(row.heart_rate ?? '').trim()) errors.push('row: give at least a probe, remote-site or heart-rate value');
+  if (errors.length || !takenAt || !unit) return { errors };
+  return { value: { infant, takenAt, probeCenti, remoteCenti, remoteSite, unit, controlMode, heaterOutputPct, heartRate }, errors };
+}

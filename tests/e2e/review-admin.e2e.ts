@@ -1,0 +1,90 @@
+import assert from 'node:assert/strict';
+import fs from 'node:fs';
+import { after, before, describe, it } from 'node:test';
+import type { Browser } from 'playwright-core';
+import { ACCOUNTS, apiToken, BASE_URL, launch, newPage, shot, signIn, WIDE } from './support';
+
+let browser: Browser;
+before(async () => {
+  browser = await launch();
+  // The first load of the bundle on a busy two-core machine can outlast a page's 15 s default.
+  const warm = await newPage(browser, WIDE);
+  await warm.goto(`${BASE_URL}/sign-in`, { timeout: 90_000 });
+  await warm.getByLabel('E-mail').waitFor({ timeout: 90_000 });
+  await warm.context().close();
+});
+after(async () => {
+  await browser.close();
+});
+
+describe('review queue and administration', () => {
+  it('the educator filters to night shifts, opens a gap flag, writes a teaching note and exports CSV', async () => {
+    const page = await newPage(browser, WIDE);
+    await signIn(page, ACCOUNTS.educator);
+    await page.waitForURL((url) => url.pathname === '/review');
+    await page.getByRole('heading', { name: 'Review queue', level: 1 }).waitFor();
+    await page.getByRole('radio', { name: 'Night' }).click();
+    await page.getByRole('radio', { name: 'Gap flag' }).click();
+    const first = page.getByRole('link', { name: /^Gap flag, / }).first();
+    await first.waitFor();
+    const rows = page.getByRole('link', { name: /^Gap flag, / });
+    assert.ok((await rows.count()) > 0);
+    await page.getByText('Night shift').first().waitFor();
+    assert.equal(await page.getByText('Day shift').count(), 0, 'only night shifts are listed');
+    await shot(page, 'review-queue-night-gaps');
+
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Export CSV' }).click()]);
+    const file = await download.path();
+    const csv = fs.readFileSync(file!, 'utf8');
+    assert.match(csv.split('\r\n')[0]!, /^flag_id,kind,unit,infant/);
+    for (const line of csv.trim().split('\r\n').slice(1)) assert.match(line, /,gap,.*,night,/);
+
+    await first.click();
+    await page.waitForURL((url) => url.pathname.startsWith('/review/'));
+    await page.getByRole('heading', { name: 'Readings around the event' }).waitFor();
+    await page.getByRole('heading', { name: 'Actions taken' }).waitFor();
+    const note = `Well caught on a night shift; recheck sooner next time (${Date.now()}).`;
+    await page.getByLabel('Teaching note').fill(note);
+    await page.getByRole('button', { name: 'Mark reviewed with this note' }).click();
+    await page.getByRole('status').filter({ hasText: 'marked reviewed' }).waitFor();
+    await page.getByText(note).waitFor();
+    await shot(page, 'review-item-noted');
+    await page.context().close();
+  });
+
+  it('the admin invites a user; the caught e-mail\'s link sets a password; the new user signs in', async () => {
+    const email = `rowan.ashby.${Date.now()}@warmfold.test`;
+    const page = await newPage(browser, WIDE);
+    await signIn(page, ACCOUNTS.admin);
+    await page.waitForURL((url) => url.pathname === '/admin');
+    await page.getByLabel('Full name').fill('Rowan Ashby');
+    await page.getByLabel('Work e-mail').fill(email);
+    await page.getByRole('button', { name: 'Send invitation' }).click();
+    await page.getByRole('status').filter({ hasText: `Invitation sent to ${email}` }).waitFor();
+    await shot(page, 'admin-invited');
+    await page.context().close();
+
+    const token = await apiToken(ACCOUNTS.admin);
+    let link: string | undefined;
+    for (let i = 0; i < 40 && !link; i++) {
+      const res = await fetch(`${BASE_URL}/api/admin/mailbox`, { headers: { Authorization: `Bearer ${token}` } });
+      const { messages } = (await res.json()) as { messages: Array<{ to: string; text: string }> };
+      const mail = messages.find((m) => m.to.includes(email));
+      link = mail ? /(https?:\/\/\S+\/accept-invite\?token=\S+)/.exec(mail.text)?.[1] : undefined;
+      if (!link) await new Promise((r) => setTimeout(r, 250));
+    }
+    assert.ok(link, 'the invitation was caught by the local SMTP server');
+    const url = new URL(link);
+
+    const invitee = await newPage(browser, WIDE);
+    await invitee.goto(`${BASE_URL}${url.pathname}${url.search}`);
+    await invitee.getByRole('heading', { name: 'Welcome to Warmfold' }).waitFor();
+    await invitee.getByLabel('New password').fill('amber-harbour-willow-42');
+    await invitee.getByRole('button', { name: 'Set my password' }).click();
+    await invitee.getByRole('status').filter({ hasText: 'Your password is set' }).waitFor();
+    await shot(invitee, 'invite-accepted');
+    await signIn(invitee, email, 'amber-harbour-willow-42');
+    await invitee.waitForURL((u) => u.pathname === '/infants');
+    await invitee.context().close();
+  });
+});

@@ -1,0 +1,151 @@
+/**
+ * Exports. FHIR checks follow ../shared/REFERENCES.md: LOINC 8310-5 body temperature with 8328-7
+ * axillary / 8332-9 rectal, UCUM 'Cel' from http://unitsofmeasure.org, SNOMED CT body sites
+ * 91470000 / 34402009 (HL7 FHIR R4 bodytemp profile); heart rate LOINC 8867-4; the skin probe is
+ * not a clinical thermometer reading (IEC 60601-2-21 / 2-19 scope notes).
+ */
+import type { Bundle, Observation } from 'fhir/r4';
+import request from 'supertest';
+import Papa from 'papaparse';
+import { count, DEMO, makeEnv, type TestEnv } from './helpers';
+// eslint-disable-next-line @typescript-eslint/no-require-imports
+const fhirpath = require('fhirpath') as { evaluate: (resource: unknown, path: string) => unknown[] };
+
+let env: TestEnv;
+let educator: string;
+let nurse: string;
+beforeAll(async () => {
+  env = await makeEnv();
+  [educator, nurse] = await Promise.all([env.signIn(DEMO.educator), env.signIn(DEMO.nurse)]);
+});
+afterAll(() => env.close());
+
+const get = (path: string, token: string | null) => {
+  const r = request(env.app).get(path).buffer(true);
+  return token ? r.set('Authorization', `Bearer ${token}`) : r;
+};
+const parseCsv = (text: string) => Papa.parse<Record<string, string>>(text, { header: true, skipEmptyLines: true }).data;
+
+describe('readings and flags CSV', () => {
+  it('exports the unit\'s readings for a date range, audited', async () => {
+    const audits = count(env.database, 'audit_events');
+    const res = await get('/api/exports/readings.csv?unitId=unit-north&from=2026-11-13&to=2026-11-16', educator);
+    expect(res.status).toBe(200);
+    expect(res.headers['content-type']).toMatch(/text\/csv/);
+    expect(res.headers['content-disposition']).toMatch(/attachment; filename="readings-2026-11-13-2026-11-16.csv"/);
+    const rows = parseCsv(res.text);
+    expect(rows.length).toBe((env.database.sqlite.prepare("SELECT COUNT(*) AS n FROM readings WHERE unit_id = 'unit-north'").get() as { n: number }).n);
+    expect(rows[0]).toEqual(expect.objectContaining({ infant: expect.stringMatching(/^Baby /), remote_site: expect.any(String) }));
+    expect(rows.some((r) => r.remote_c === '36.2')).toBe(true);
+    expect(count(env.database, 'audit_events')).toBe(audits + 1);
+    const none = parseCsv((await get('/api/exports/readings.csv?unitId=unit-north&from=2020-01-01&to=2020-01-02', educator)).text);
+    expect(none).toEqual([]);
+  });
+
+  it('exports flags with the queue filters', async () => {
+    const res = await get('/api/exports/flags.csv?shift=night&kind=gap', educator);
+    expect(res.status).toBe(200);
+    const rows = parseCsv(res.text);
+    expect(rows.length).toBeGreaterThan(0);
+    for (const r of rows) expect([r.kind, r.shift]).toEqual(['gap', 'night']);
+  });
+
+  it('validates, and is the educator\'s', async () => {
+    const bad = await get('/api/exports/readings.csv?unitId=unit-north&from=2026-11-16&to=2026-11-01', educator);
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.fields.to).toBeDefined();
+    expect((await get('/api/exports/readings.csv?from=2026-11-01&to=2026-11-02', educator)).body.error.fields.unitId).toBeDefined();
+    expect((await get('/api/exports/readings.csv?unitId=nowhere&from=2026-11-01&to=2026-11-02', educator)).status).toBe(403);
+    expect((await get('/api/exports/readings.csv?unitId=unit-north&from=2026-11-01&to=2026-11-02', nurse)).status).toBe(403);
+    expect((await get('/api/exports/readings.csv?unitId=unit-north&from=2026-11-01&to=2026-11-02', null)).status).toBe(401);
+  });
+});
+
+describe('reports', () => {
+  it('answers the figures and tables for a unit and range; each table as CSV', async () => {
+    const res = await get('/api/reports?unitId=unit-north&from=2026-11-13&to=2026-11-16', educator);
+    expect(res.status).toBe(200);
+    const { report, tables } = res.body;
+    expect(report.onTime.overall.checks).toBeGreaterThan(10);
+    expect(report.onTime.overall.onTime).toBeLessThan(report.onTime.overall.checks);
+    expect(report.gapRate.gapFlags).toBeGreaterThan(0);
+    expect(report.responseTimes[0].toFirstAction.count).toBeGreaterThan(0);
+    expect(report.skinToSkin.sessions).toBe(1);
+    expect(tables.map((t: { name: string }) => t.name)).toEqual(['on-time-by-shift', 'on-time-by-day', 'gap-rate', 'response-times', 'skin-to-skin']);
+    const csv = await get('/api/reports/tables/on-time-by-shift.csv?unitId=unit-north&from=2026-11-13&to=2026-11-16', educator);
+    expect(csv.status).toBe(200);
+    expect(parseCsv(csv.text).map((r) => r.shift)).toEqual(['day', 'night', 'all']);
+    expect((await get('/api/reports/tables/nope.csv?unitId=unit-north&from=2026-11-13&to=2026-11-16', educator)).status).toBe(400);
+    expect((await get('/api/reports?unitId=unit-north&from=2026-11-13', educator)).body.error.fields.to).toBeDefined();
+    expect((await get('/api/reports?unitId=unit-north&from=2026-11-13&to=2026-11-16', nurse)).status).toBe(403);
+    expect((await get('/api/reports?unitId=unit-north&from=2026-11-13&to=2026-11-16', null)).status).toBe(401);
+  });
+});
+
+describe('FHIR R4 bundle per infant', () => {
+  let bundle: Bundle;
+  beforeAll(async () => {
+    const res = await get('/api/exports/infants/inf-ashgrove/fhir', educator);
+    expect(res.status).toBe(200);
+    expect(res.headers['content-type']).toMatch(/application\/fhir\+json/);
+    bundle = JSON.parse(res.text) as Bundle;
+  });
+
+  it('is a collection of one Patient and Observations about them', () => {
+    expect(bundle.resourceType).toBe('Bundle');
+    expect(fhirpath.evaluate(bundle, "entry.resource.where(resourceType = 'Patient').count()")).toEqual([1]);
+    expect(fhirpath.evaluate(bundle, "entry.resource.where(resourceType = 'Observation').subject.reference.distinct()")).toEqual(['Patient/inf-ashgrove']);
+  });
+
+  it('remote-site readings are body temperatures in Cel with the axillary code and body site', () => {
+    const temps = fhirpath.evaluate(bundle, "entry.resource.where(resourceType = 'Observation' and code.coding.where(system = 'http://loinc.org' and code = '8310-5').exists())") as Observation[];
+    expect(temps.length).toBeGreaterThan(5);
+    for (const o of temps) {
+      expect(fhirpath.evaluate(o, "code.coding.where(system = 'http://loinc.org').code")).toEqual(['8310-5', '8328-7']);
+      expect(fhirpath.evaluate(o, 'valueQuantity.system')).toEqual(['http://unitsofmeasure.org']);
+      expect(fhirpath.evaluate(o, 'valueQuantity.code')).toEqual(['Cel']);
+      expect(fhirpath.evaluate(o, "bodySite.coding.where(system = 'http://snomed.info/sct').code")).toEqual(['91470000']);
+      expect(fhirpath.evaluate(o, "category.coding.code")).toEqual(['vital-signs']);
+    }
+    // The open gap of the demo: remote site 36.20 °C.
+    expect(fhirpath.evaluate(bundle, "entry.resource.where(resourceType = 'Observation' and code.coding.code contains '8310-5').valueQuantity.value")).toContain(36.2);
+  });
+
+  it('probe readings are their own observation by method, never a body temperature', () => {
+    const probes = fhirpath.evaluate(bundle, "entry.resource.where(resourceType = 'Observation' and method.text.contains('Skin probe'))") as Observation[];
+    expect(probes.length).toBeGreaterThan(5);
+    for (const o of probes) {
+      expect(fhirpath.evaluate(o, "code.coding.where(system = 'http://loinc.org').exists()")).toEqual([false]);
+      expect(fhirpath.evaluate(o, 'valueQuantity.code')).toEqual(['Cel']);
+    }
+    expect(probes.map((p) => p.valueQuantity?.value)).toContain(36.9);
+  });
+
+  it('heart rate is LOINC 8867-4 in /min', () => {
+    const hr = fhirpath.evaluate(bundle, "entry.resource.where(resourceType = 'Observation' and code.coding.code = '8867-4')") as Observation[];
+    expect(hr.length).toBeGreaterThan(5);
+    expect(fhirpath.evaluate(hr[0], 'valueQuantity.code')).toEqual(['/min']);
+  });
+
+  it('a rectal reading carries 8332-9 and the rectum body site', async () => {
+    env.database.sqlite
+      .prepare("INSERT INTO readings (id, infant_id, unit_id, taken_at, recorded_at, recorded_by, probe_centi, remote_centi, remote_site, heat_signs, entered_unit) VALUES ('r-rectal', 'inf-ashgrove', 'unit-north', ?, ?, 'u-nurse', NULL, 3710, 'rectal', '[]', 'C')")
+      .run(Date.parse('2026-11-16T09:55:00Z'), Date.parse('2026-11-16T09:55:00Z'));
+    const b = JSON.parse((await get('/api/exports/infants/inf-ashgrove/fhir', educator)).text) as Bundle;
+    const o = fhirpath.evaluate(b, "entry.resource.where(id = 'r-rectal-remote')")[0];
+    expect(fhirpath.evaluate(o, "code.coding.code")).toEqual(['8310-5', '8332-9']);
+    expect(fhirpath.evaluate(o, 'bodySite.coding.code')).toEqual(['34402009']);
+  });
+
+  it('404 for an unknown infant, 403 for another unit or role, 401 signed out', async () => {
+    expect((await get('/api/exports/infants/nobody/fhir', educator)).status).toBe(404);
+    expect((await get('/api/exports/infants/inf-ashgrove/fhir', nurse)).status).toBe(403);
+    expect((await get('/api/exports/infants/inf-ashgrove/fhir', null)).status).toBe(401);
+    env.database.sqlite.prepare("DELETE FROM user_units WHERE user_id = 'u-educator' AND unit_id = 'unit-south'").run();
+    try {
+      expect((await get('/api/exports/infants/inf-hartsease/fhir', educator)).status).toBe(403);
+    } finally {
+      env.database.sqlite.prepare("INSERT INTO user_units (user_id, unit_id) VALUES ('u-educator', 'unit-south')").run();
+    }
+  });
+});
