@@ -15,6 +15,7 @@ import { Text } from '@/components/ui/text';
 import { CheckBadge } from './check-badge';
 import { clockTime, CONTROL_MODE_LABELS, FLAG_LABELS, gestation, HEAT_SOURCE_LABELS, SITE_LABELS, temp } from './format';
 import { usePendingReadings } from './pending-readings';
+import { TeachingNotesCard } from './teaching-notes-card';
 import { useNow } from './use-now';
 
 type Tab = 'mine' | 'unit';
@@ -49,6 +50,7 @@ export function MyInfantsScreen() {
           ))}
         </View>
       )}
+      <TeachingNotesCard timeZone={query.data?.[0]?.timeZone ?? 'Europe/London'} />
     </Screen>
   );
 }

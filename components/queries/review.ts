@@ -1,6 +1,6 @@
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { ReviewQueueQuery } from '@/shared/schemas/review';
-import type { ReviewItemDetail, ReviewNote, ReviewQueueResponse } from '@/shared/types/review';
+import type { MyReviewNote, ReviewItemDetail, ReviewNote, ReviewQueueResponse } from '@/shared/types/review';
 import { api } from '../api/client';
 
 export const REVIEW_RQKEY_ROOT = 'review';
@@ -38,5 +38,14 @@ export function useTeachingNoteMutation(flagId: string) {
   return useMutation({
     mutationFn: (note: string) => api<{ review: ReviewNote }>(`/review/items/${encodeURIComponent(flagId)}/notes`, { method: 'POST', body: { note } }),
     onSuccess: () => client.invalidateQueries({ queryKey: reviewKeys.all() }),
+  });
+}
+
+/** Teaching notes written about flags this nurse was concerned in. */
+export function useMyReviewNotesQuery() {
+  return useQuery({
+    queryKey: [REVIEW_RQKEY_ROOT, 'mine'] as const,
+    queryFn: ({ signal }) => api<{ notes: MyReviewNote[] }>('/reviews/mine', { signal }),
+    staleTime: 5 * 60_000,
   });
 }

@@ -13,7 +13,7 @@ export function ReadingsImportScreen() {
   const [unitId, setUnitId] = useState(user.unitIds[0] ?? '');
   return (
     <Screen title="Import readings" subtitle="From a CSV file, checked row by row before anything is charted">
-      {user.unitIds.length > 1 ? <Segmented label="Unit" value={unitId} onChange={setUnitId} options={user.unitIds.map((id) => ({ value: id, label: id }))} /> : null}
+      {user.unitIds.length > 1 ? <Segmented label="Unit" value={unitId} onChange={setUnitId} options={(user.units ?? user.unitIds.map((id) => ({ id, name: id }))).map((u) => ({ value: u.id, label: u.name }))} /> : null}
       <Card>
         <Text variant="title" role="heading" aria-level={2}>
           The format

@@ -46,11 +46,14 @@ export function checkUnitScope(ctx: AppContext, req: Request): void {
   const auth = req.auth!;
   const params = (req.params ?? {}) as Record<string, string>;
   const { sqlite } = ctx.database;
-  if (typeof params.unitId === 'string') {
-    if (!auth.unitIds.includes(params.unitId)) throw forbidden('You are not part of that unit.');
-    return;
-  }
+  const assertMember = (unitId: string) => {
+    if (auth.unitIds.includes(unitId)) return;
+    if (!sqlite.prepare('SELECT 1 FROM units WHERE id = ?').get(unitId)) throw notFound('That unit');
+    throw forbidden('You are not part of that unit.');
+  };
+  if (typeof params.unitId === 'string') return assertMember(params.unitId);
   const pattern = `${req.baseUrl}${(req.route as { path?: string } | undefined)?.path ?? ''}`;
+  if (typeof params.id === 'string' && /\/units\/:id(\/|$)/.test(pattern)) return assertMember(params.id);
   if (typeof params.flagId === 'string') return assertRowUnit(sqlite, auth.unitIds, 'flags', params.flagId, 'flag');
   if (typeof params.id !== 'string') return;
   if (/\/users\/:id(\/|$)/.test(pattern)) {

@@ -2,7 +2,7 @@ import bcrypt from 'bcryptjs';
 import { and, eq, gt } from 'drizzle-orm';
 import jwt from 'jsonwebtoken';
 import { randomUUID } from 'node:crypto';
-import { authSessions, signInAttempts, userUnits, users } from '../../db/schema';
+import { authSessions, signInAttempts, units as unitsTable, userUnits, users } from '../../db/schema';
 import type { SessionUser } from '../../shared/schemas/auth';
 import type { AppContext } from '../context';
 import { ApiError, unauthorized } from '../errors';
@@ -32,13 +32,15 @@ export function loadSessionUser(ctx: AppContext, userId: string): SessionUser | 
   const { db } = ctx.database;
   const user = db.select().from(users).where(eq(users.id, userId)).get();
   if (!user) return null;
-  const unitIds = db
-    .select({ unitId: userUnits.unitId })
+  const units = db
+    .select({ id: unitsTable.id, name: unitsTable.name })
     .from(userUnits)
+    .innerJoin(unitsTable, eq(unitsTable.id, userUnits.unitId))
     .where(eq(userUnits.userId, userId))
-    .all()
-    .map((r) => r.unitId);
-  return { id: user.id, email: user.email, name: user.name, role: user.role, unitIds, tempUnit: user.tempUnit, clock: user.clock, theme: user.theme };
+    .orderBy(unitsTable.name)
+    .all();
+  const unitIds = units.map((u) => u.id);
+  return { id: user.id, email: user.email, name: user.name, role: user.role, unitIds, units, tempUnit: user.tempUnit, clock: user.clock, theme: user.theme };
 }
 
 function failuresSince(ctx: AppContext, column: 'email' | 'address', value: string, since: number): { count: number; oldest: number | null } {

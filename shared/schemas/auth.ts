@@ -62,6 +62,8 @@ export interface SessionUser {
   name: string;
   role: 'nurse' | 'charge' | 'educator' | 'admin';
   unitIds: string[];
+  /** The same units with their names, for pickers. */
+  units: Array<{ id: string; name: string }>;
   tempUnit: 'C' | 'F';
   clock: '24h' | '12h';
   theme: 'system' | 'light' | 'dark';

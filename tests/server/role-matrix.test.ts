@@ -87,6 +87,7 @@ function fill(pattern: string, f: Fixture): { path: string; scoped: boolean } {
     if (before.endsWith('/escalations/')) return f.escalation;
     if (before.endsWith('/users/')) return f.user;
     if (before.endsWith('/beds/')) return f.bed;
+    if (before.endsWith('/units/')) return f.unitId;
     scoped = false;
     return 'unknown-id';
   });
