@@ -96,3 +96,26 @@ describe('CORS', () => {
     withCors.close();
   });
 });
+
+describe('account changes take effect on the very next request (ASVS 3.3.x)', () => {
+  it('a role change ends the person’s sessions', async () => {
+    const admin = await env.signIn(DEMO.admin);
+    const nurse = await env.signIn('kofi.mensah@warmfold.test');
+    expect((await me(nurse)).status).toBe(200);
+    const change = await request(env.app).patch('/api/admin/users/u-nurse-2').set('Authorization', `Bearer ${admin}`).send({ role: 'charge' });
+    expect(change.status).toBe(200);
+    expect((await me(nurse)).status).toBe(401);
+    const again = await env.signIn('kofi.mensah@warmfold.test');
+    expect((await me(again)).body.user.role).toBe('charge');
+  });
+
+  it('deactivation ends the person’s sessions and refuses sign-in', async () => {
+    const admin = await env.signIn(DEMO.admin);
+    const nurse = await env.signIn('ines.carvalho@warmfold.test');
+    const off = await request(env.app).post('/api/admin/users/u-nurse-4/deactivate').set('Authorization', `Bearer ${admin}`).send({});
+    expect(off.status).toBe(200);
+    expect((await me(nurse)).status).toBe(401);
+    const res = await request(env.app).post('/api/auth/sign-in').send({ email: 'ines.carvalho@warmfold.test', password: DEMO.password });
+    expect(res.status).toBe(401);
+  });
+});
