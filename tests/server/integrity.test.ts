@@ -8,6 +8,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { verifyAuditChain } from '../../server/audit';
 import { backupDatabase } from '../../server/backup';
+import request from 'supertest';
 import { makeEnv, type TestEnv } from './helpers';
 
 let env: TestEnv;
@@ -113,5 +114,19 @@ describe('durability settings', () => {
     expect(sqlite.pragma('journal_mode', { simple: true })).toBe('wal');
     expect(sqlite.pragma('synchronous', { simple: true })).toBe(2);
     expect(sqlite.pragma('foreign_keys', { simple: true })).toBe(1);
+  });
+});
+
+describe('reads of a chart are audited (HIPAA 164.312(b))', () => {
+  it('writes a chart-read event for a flowsheet, with who and which infant', async () => {
+    const token = await env.signIn('nia.okafor@warmfold.test');
+    const { sqlite } = env.database;
+    const before = (sqlite.prepare("SELECT COUNT(*) AS n FROM audit_events WHERE action = 'chart-read'").get() as { n: number }).n;
+    const res = await request(env.app).get('/api/infants/inf-ashgrove/flowsheet?hours=12').set('Authorization', `Bearer ${token}`);
+    expect(res.status).toBe(200);
+    const rows = sqlite.prepare("SELECT actor_id, entity_id FROM audit_events WHERE action = 'chart-read' ORDER BY id DESC").all() as Array<{ actor_id: string; entity_id: string }>;
+    expect(rows.length).toBe(before + 1);
+    expect(rows[0]).toEqual({ actor_id: 'u-nurse', entity_id: 'inf-ashgrove' });
+    expect(verifyAuditChain(sqlite).ok).toBe(true);
   });
 });
