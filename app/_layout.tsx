@@ -1,20 +1,17 @@
-import { Inter_400Regular } from '@expo-google-fonts/inter/400Regular';
-import { Inter_500Medium } from '@expo-google-fonts/inter/500Medium';
-import { Inter_600SemiBold } from '@expo-google-fonts/inter/600SemiBold';
-import { Inter_700Bold } from '@expo-google-fonts/inter/700Bold';
 import { QueryClientProvider } from '@tanstack/react-query';
-import { useFonts } from 'expo-font';
 import { Slot } from 'expo-router';
 import { useState } from 'react';
 import { View } from 'react-native';
 import { makeQueryClient } from '@/components/api/query-client';
 import { AuthProvider, useAuth } from '@/components/auth/auth-provider';
 import { ThemeProvider, useTheme } from '@/components/theme/theme-provider';
+import { useAppFonts } from '@/components/theme/use-app-fonts';
+import { WebGlobalStyle } from '@/components/theme/web-global-style';
 
 export default function RootLayout() {
   const [queryClient] = useState(makeQueryClient);
-  // The fonts ship inside the bundle; nothing is fetched from another host.
-  const [fontsLoaded] = useFonts({ Inter_400Regular, Inter_500Medium, Inter_600SemiBold, Inter_700Bold });
+  // The fonts ship with the app; nothing is fetched from another host. On the web they never hold the first paint.
+  const fontsLoaded = useAppFonts();
   return (
     <QueryClientProvider client={queryClient}>
       <AuthProvider>
@@ -35,5 +32,10 @@ function ThemedRoot({ ready }: { ready: boolean }) {
 
 function Background({ children }: { children: React.ReactNode }) {
   const theme = useTheme();
-  return <View style={{ flex: 1, backgroundColor: theme.colors.background }}>{children}</View>;
+  return (
+    <View style={{ flex: 1, backgroundColor: theme.colors.background }}>
+      <WebGlobalStyle theme={theme} />
+      {children}
+    </View>
+  );
 }

@@ -10,6 +10,7 @@ import type { AppContext } from './context';
 import { apiNotFound, errorHandler } from './errors';
 import type { Mailer } from './mail/mailer';
 import { requestLog } from './middleware/request-log';
+import { precompressed } from './precompressed';
 import { apiRouters } from './routes';
 
 export interface CreateAppOptions {
@@ -86,12 +87,15 @@ function serveWeb(app: Express, webDir: string): void {
     });
     return;
   }
+  // Hashed bundles never change; index.html must always be fresh.
+  const cacheControl = (file: string) => (/[\\/]_expo[\\/]|[\\/]assets[\\/]/.test(file) ? 'public, max-age=31536000, immutable' : null);
+  app.use(precompressed(webDir, cacheControl));
   app.use(
     express.static(webDir, {
       index: false,
       setHeaders(res, file) {
-        // Hashed bundles never change; index.html must always be fresh.
-        if (/[\\/]_expo[\\/]|[\\/]assets[\\/]/.test(file)) res.set('Cache-Control', 'public, max-age=31536000, immutable');
+        const cache = cacheControl(file);
+        if (cache) res.set('Cache-Control', cache);
       },
     }),
   );

@@ -1,13 +1,12 @@
 import type { RequestHandler } from 'express';
-import { writeTx } from '../../db/client';
 import { admitInfantSchema, assignNurseSchema, type AdmitInfant } from '../../shared/schemas/unit';
-import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { notFound } from '../errors';
 import { allow, assertUnit, secureRouter } from '../middleware/access';
 import { valid, validate } from '../middleware/validate';
 import { admitInfant, assignNurse, listAssignableNurses } from '../services/admissions';
-import { buildBoard } from '../services/board';
+import { auditRead } from '../read-audit';
+import { boardJson } from '../services/board-cache';
 
 type UnitParams = { unitId: string };
 
@@ -22,15 +21,13 @@ export function unitBoardRouter(ctx: AppContext) {
   const router = secureRouter();
   const { sqlite } = ctx.database;
 
-  router.get('/units/:unitId/board', allow(ctx, 'chart:read'), unitMember, (req, res) => {
+  router.get('/units/:unitId/board', allow(ctx, 'chart:read'), unitMember, async (req, res) => {
     const { unitId } = req.params as UnitParams;
     const now = ctx.clock.now();
-    const board = buildBoard(sqlite, unitId, now);
-    if (!board) throw notFound('That unit');
-    writeTx(sqlite, () =>
-      appendAudit(sqlite, { at: now, actorId: req.auth!.userId, action: 'board-read', entityType: 'unit', entityId: unitId, unitId }),
-    );
-    res.json(board);
+    const body = boardJson(sqlite, unitId, now);
+    if (body === null) throw notFound('That unit');
+    await auditRead(sqlite, { at: now, actorId: req.auth!.userId, action: 'board-read', entityType: 'unit', entityId: unitId, unitId });
+    res.type('json').send(body);
   });
 
   router.get('/units/:unitId/nurses', allow(ctx, 'unit:manage'), unitMember, (req, res) => {

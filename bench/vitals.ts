@@ -1,0 +1,183 @@
+/**
+ * Core Web Vitals in Debian's Chromium under Lighthouse's mobile settings, set through the
+ * DevTools protocol: a 412x823 phone at DPR 1.75, 150 ms round trips, 1.6 Mbps down, 750 kbps
+ * up and a 4x CPU slowdown. Each run is a fresh browser context; before each measured page the
+ * HTTP cache is cleared, so every page is a cold load as Lighthouse measures it. The sign-in
+ * token stays in localStorage, as it does for a nurse who signed in earlier in the shift.
+ */
+import fs from 'node:fs';
+import path from 'node:path';
+import { chromium, type Browser, type BrowserContext, type CDPSession, type Page } from 'playwright-core';
+
+export const MOBILE = {
+  width: 412,
+  height: 823,
+  deviceScaleFactor: 1.75,
+  latencyMs: 150,
+  downloadBytesPerSec: (1.6 * 1024 * 1024) / 8,
+  uploadBytesPerSec: (750 * 1024) / 8,
+  cpuSlowdown: 4,
+} as const;
+
+export interface PageSample {
+  lcp: number | null;
+  cls: number;
+  /** Same-origin scripts the page loaded, as paths: the route's initial JavaScript. */
+  scripts: string[];
+}
+
+export interface VitalsRun {
+  signIn: PageSample;
+  myInfants: PageSample;
+  flowsheet: PageSample;
+  /** The slowest interaction while opening the record form, typing and saving, in ms. */
+  inp: number | null;
+}
+
+const COLLECTOR = `
+  window.__vitals = { lcp: null, cls: 0, inp: null, maxEvent: 0 };
+  webVitals.onLCP((m) => { window.__vitals.lcp = m.value; }, { reportAllChanges: true });
+  webVitals.onCLS((m) => { window.__vitals.cls = m.value; }, { reportAllChanges: true });
+  webVitals.onINP((m) => { window.__vitals.inp = Math.max(window.__vitals.inp || 0, m.value); }, { reportAllChanges: true });
+  // web-vitals leaves out interactions under its reporting threshold; keep the raw maximum too,
+  // so a fast page reads as its real duration rather than as nothing.
+  try {
+    new PerformanceObserver((list) => {
+      for (const e of list.getEntries()) if (e.interactionId) window.__vitals.maxEvent = Math.max(window.__vitals.maxEvent, e.duration);
+    }).observe({ type: 'event', durationThreshold: 16, buffered: true });
+  } catch (_) {}
+`;
+
+async function throttle(cdp: CDPSession): Promise<void> {
+  await cdp.send('Network.enable');
+  await cdp.send('Network.emulateNetworkConditions', {
+    offline: false,
+    latency: MOBILE.latencyMs,
+    downloadThroughput: MOBILE.downloadBytesPerSec,
+    uploadThroughput: MOBILE.uploadBytesPerSec,
+  });
+  await cdp.send('Emulation.setCPUThrottlingRate', { rate: MOBILE.cpuSlowdown });
+  await cdp.send('Emulation.setDeviceMetricsOverride', { width: MOBILE.width, height: MOBILE.height, deviceScaleFactor: MOBILE.deviceScaleFactor, mobile: true });
+}
+
+interface Vitals {
+  lcp: number | null;
+  cls: number;
+  inp: number | null;
+  maxEvent: number;
+}
+
+const read = (page: Page) => page.evaluate(() => (window as unknown as { __vitals: Vitals }).__vitals);
+
+/** Load `url` cold, wait until the page shows `ready` and the network has settled, then read LCP and CLS. */
+async function coldLoad(page: Page, cdp: CDPSession, url: string, ready: (page: Page) => Promise<void>): Promise<PageSample> {
+  await cdp.send('Network.clearBrowserCache');
+  const scripts = new Set<string>();
+  const origin = new URL(url).origin;
+  const onResponse = (res: { url(): string }) => {
+    const u = new URL(res.url());
+    if (u.origin === origin && u.pathname.endsWith('.js')) scripts.add(u.pathname);
+  };
+  page.on('response', onResponse);
+  await page.goto(url, { waitUntil: 'load', timeout: 120_000 });
+  await ready(page);
+  await page.waitForLoadState('networkidle', { timeout: 120_000 }).catch(() => undefined);
+  await page.waitForTimeout(500);
+  page.off('response', onResponse);
+  const v = await read(page);
+  return { lcp: v.lcp, cls: v.cls, scripts: [...scripts] };
+}
+
+export interface VitalsOptions {
+  base: string;
+  runs: number;
+  email: string;
+  password: string;
+  infantId: string;
+  /** A name shown in the nurse's list, to know the list has rendered. */
+  infantName: string;
+  executablePath?: string;
+}
+
+async function oneRun(browser: Browser, opts: VitalsOptions, iife: string): Promise<VitalsRun> {
+  const context: BrowserContext = await browser.newContext({
+    viewport: { width: MOBILE.width, height: MOBILE.height },
+    deviceScaleFactor: MOBILE.deviceScaleFactor,
+    isMobile: true,
+    hasTouch: true,
+  });
+  try {
+    // One script: each init script runs in its own scope, so a second could not see `webVitals`.
+    await context.addInitScript({ content: `${iife}\n;${COLLECTOR}` });
+    const page = await context.newPage();
+    page.setDefaultTimeout(60_000);
+    const cdp = await context.newCDPSession(page);
+    await throttle(cdp);
+
+    const signIn = await coldLoad(page, cdp, `${opts.base}/sign-in`, async (p) => {
+      await p.getByRole('button', { name: 'Sign in' }).waitFor();
+    });
+    await page.getByLabel('E-mail').fill(opts.email);
+    await page.getByLabel('Password').fill(opts.password);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+
+    const myInfants = await coldLoad(page, cdp, `${opts.base}/infants`, async (p) => {
+      await p.getByText(opts.infantName, { exact: false }).first().waitFor();
+    });
+    const flowsheet = await coldLoad(page, cdp, `${opts.base}/infants/${opts.infantId}`, async (p) => {
+      await p.getByRole('button', { name: 'Record', exact: true }).waitFor();
+    });
+
+    // Record a reading: open the form, type, choose the site, save.
+    await page.getByRole('button', { name: 'Record', exact: true }).click();
+    const probe = page.getByLabel('Probe temperature (°C)');
+    await probe.waitFor();
+    await probe.pressSequentially('36.8', { delay: 50 });
+    const remote = page.getByLabel('Remote-site temperature (°C)');
+    await remote.click();
+    await remote.pressSequentially('36.9', { delay: 50 });
+    await page.getByRole('radio', { name: /Axilla/ }).click();
+    await page.getByRole('button', { name: 'Save reading' }).click();
+    // An unusual pre-filled value asks for a confirmation first; that is one more interaction.
+    const confirm = page.getByRole('button', { name: 'Confirm and save' });
+    if (await confirm.waitFor({ state: 'visible', timeout: 1500 }).then(() => true, () => false)) await confirm.click();
+    await page.waitForURL((url) => !url.pathname.endsWith('/record'));
+    await page.getByRole('button', { name: 'Record', exact: true }).waitFor();
+    await page.waitForTimeout(300);
+    const v = await read(page);
+    const inp = v.inp ?? (v.maxEvent > 0 ? v.maxEvent : null);
+    return { signIn, myInfants, flowsheet, inp };
+  } catch (err) {
+    // What the page showed when a step timed out, for whoever reads the failure.
+    const page = context.pages()[0];
+    if (page) await page.screenshot({ path: path.join('bench', 'results', 'vitals-failure.png') }).catch(() => undefined);
+    throw err;
+  } finally {
+    await context.close();
+  }
+}
+
+export async function benchVitals(opts: VitalsOptions, log: (line: string) => void): Promise<VitalsRun[]> {
+  const iife = fs.readFileSync(path.join('node_modules', 'web-vitals', 'dist', 'web-vitals.iife.js'), 'utf8');
+  const browser = await chromium.launch({
+    executablePath: opts.executablePath ?? process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+    headless: true,
+    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  });
+  const runs: VitalsRun[] = [];
+  try {
+    for (let i = 0; i < opts.runs; i++) {
+      const run = await oneRun(browser, opts, iife);
+      log(
+        `  vitals run ${i + 1}/${opts.runs}: LCP sign-in ${fmt(run.signIn.lcp)}, my infants ${fmt(run.myInfants.lcp)}, flowsheet ${fmt(run.flowsheet.lcp)}; INP ${fmt(run.inp)}`,
+      );
+      runs.push(run);
+    }
+  } finally {
+    await browser.close();
+  }
+  return runs;
+}
+
+const fmt = (ms: number | null) => (ms === null ? 'n/a' : `${Math.round(ms)} ms`);

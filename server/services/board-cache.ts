@@ -1,0 +1,69 @@
+import type Database from 'better-sqlite3';
+import type { BoardResponse } from '../../shared/types/board';
+import { buildBoard } from './board';
+
+/** Every table the board reads. A write to any of them makes every cached board stale. */
+const BOARD_TABLES = ['units', 'beds', 'users', 'user_units', 'infants', 'assignments', 'readings', 'flags', 'flag_resolutions', 'actions', 'escalations', 'skin_to_skin_sessions'];
+
+/**
+ * How long a board may be served again when nothing was written: the rules also move with the
+ * clock alone (a check turns due-soon, then overdue), so an unchanged unit is recomputed at
+ * least this often. One second is below what a person at the board can notice, and the board
+ * screen polls far less often; what it saves is a unit's worth of rules per request when many
+ * screens and tabs poll at once.
+ */
+export const BOARD_MAX_AGE_MS = 1000;
+
+interface Cached {
+  version: string;
+  builtAt: number;
+  /** The answer serialised once, without serverTime, which is added fresh on every request. */
+  tail: string;
+}
+
+const caches = new WeakMap<Database.Database, { version: () => string; boards: Map<string, Cached> }>();
+
+/**
+ * A write counter the database keeps itself: temporary triggers on this connection bump it on any
+ * insert, update or delete in the board's tables, and `PRAGMA data_version` changes when another
+ * process commits. Together they say exactly when a cached board may be stale, without every
+ * write path in the app having to remember to invalidate it.
+ */
+function versionOf(sqlite: Database.Database): () => string {
+  sqlite.exec('CREATE TEMP TABLE IF NOT EXISTS board_generation (n INTEGER NOT NULL)');
+  if (!sqlite.prepare('SELECT 1 FROM temp.board_generation').get()) sqlite.exec('INSERT INTO temp.board_generation (n) VALUES (0)');
+  for (const table of BOARD_TABLES) {
+    for (const op of ['INSERT', 'UPDATE', 'DELETE']) {
+      sqlite.exec(`CREATE TEMP TRIGGER IF NOT EXISTS board_bump_${table}_${op.toLowerCase()} AFTER ${op} ON main.${table} BEGIN UPDATE board_generation SET n = n + 1; END`);
+    }
+  }
+  const generation = sqlite.prepare('SELECT n FROM temp.board_generation').pluck();
+  return () => `${String(sqlite.pragma('data_version', { simple: true }))}:${String(generation.get())}`;
+}
+
+/**
+ * The board as a JSON string, rebuilt only when the unit's data changed or the last build is
+ * older than BOARD_MAX_AGE_MS. Null when the unit does not exist.
+ */
+export function boardJson(sqlite: Database.Database, unitId: string, now: Date): string | null {
+  let cache = caches.get(sqlite);
+  if (!cache) {
+    cache = { version: versionOf(sqlite), boards: new Map() };
+    caches.set(sqlite, cache);
+  }
+  const version = cache.version();
+  const hit = cache.boards.get(unitId);
+  const serverTime = `{"serverTime":${JSON.stringify(now.toISOString())}`;
+  if (hit && hit.version === version && now.getTime() - hit.builtAt >= 0 && now.getTime() - hit.builtAt < BOARD_MAX_AGE_MS) {
+    return `${serverTime},${hit.tail}`;
+  }
+  const board = buildBoard(sqlite, unitId, now);
+  if (!board) {
+    cache.boards.delete(unitId);
+    return null;
+  }
+  const { serverTime: _built, ...rest } = board satisfies BoardResponse;
+  const tail = JSON.stringify(rest).slice(1);
+  cache.boards.set(unitId, { version, builtAt: now.getTime(), tail });
+  return `${serverTime},${tail}`;
+}
