@@ -2,7 +2,7 @@ import type Database from 'better-sqlite3';
 import { randomUUID } from 'node:crypto';
 import { REVIEW_KINDS, type ReviewKind, type ReviewQueueQuery } from '../../shared/schemas/review';
 import { shiftAt } from '../../shared/shifts';
-import { formatTemperature } from '../../shared/thermal';
+import { formatTemperature, HEAT_STRESS_SIGN_LABELS } from '../../shared/thermal';
 import type { MyReviewNote, PersonRef, ReviewItemDetail, ReviewNote, ReviewQueueItem, ReviewQueueResponse } from '../../shared/types/review';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
@@ -73,6 +73,15 @@ function assignedNurse(sqlite: Database.Database, infantId: string, shiftDate: s
   return row ?? null;
 }
 
+/** A heat-stress reason in words a nurse reads, not the rule's code. */
+function heatReasonLabel(reason: unknown): string {
+  const r = (typeof reason === 'string' ? { kind: reason } : reason) as { kind?: string; sign?: string };
+  if (r.kind === 'sign' && r.sign) return (HEAT_STRESS_SIGN_LABELS as Record<string, string>)[r.sign]?.toLowerCase() ?? r.sign;
+  if (r.kind === 'remote-above-normal') return 'remote site above 37.5 °C';
+  if (r.kind === 'heart-rate-high') return 'heart rate over 160/min';
+  return r.kind ?? 'a sign';
+}
+
 function summaryOf(kind: ReviewKind, detail: Record<string, unknown>): string {
   const t = (v: unknown) => (typeof v === 'number' ? formatTemperature(v, 'C') : '—');
   switch (kind) {
@@ -81,7 +90,7 @@ function summaryOf(kind: ReviewKind, detail: Record<string, unknown>): string {
     case 'overdue-check':
       return typeof detail.minutesLate === 'number' ? `Remote-site check ${detail.minutesLate} min late` : 'Remote-site check overdue';
     case 'heat-stress':
-      return Array.isArray(detail.reasons) ? `Reasons: ${detail.reasons.map((r) => (typeof r === 'string' ? r : (r as { kind?: string }).kind ?? 'sign')).join(', ')}` : 'Heat-stress prompt';
+      return Array.isArray(detail.reasons) ? `Signs: ${detail.reasons.map(heatReasonLabel).join(', ')}` : 'Heat-stress prompt';
     case 'manual-mode':
       return 'Manual mode at high heater output';
   }
