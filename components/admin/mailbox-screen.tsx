@@ -14,7 +14,7 @@ export function MailboxScreen() {
     <Screen title="Mailbox" subtitle="Mail caught by the local SMTP catcher, newest first" refreshing={query.isRefetching} onRefresh={() => void query.refetch()}>
       {query.data.length === 0 ? <EmptyState title="No mail yet" message="Escalations and invitations appear here when they are sent." /> : null}
       {query.data.map((m) => (
-        <Card key={m.id} accessibilityLabel={`Mail: ${m.subject}`}>
+        <Card key={m.id} role="article" aria-label={`Mail: ${m.subject}`}>
           <Text variant="bodyStrong">{m.subject}</Text>
           <View style={styles.meta}>
             <Text variant="caption" tone="muted">

@@ -33,7 +33,7 @@ export interface BedManagePanelProps {
 /** The charge nurse's work on one bed: admit to it when empty; otherwise reassign, move, change or discharge. */
 export function BedManagePanel({ board, bed, tempUnit, onClose }: BedManagePanelProps) {
   return (
-    <Card style={styles.panel} accessibilityLabel={`Bed ${bed.label} actions`}>
+    <Card style={styles.panel} role="region" aria-label={`Bed ${bed.label} actions`}>
       <View style={styles.header}>
         <Text variant="title">
           Bed {bed.label}

@@ -1,3 +1,4 @@
+import { formatClock, type ClockSetting } from '@/components/ui/format-time';
 import type { IconName } from '@/components/ui/icon';
 import type { StatusTone } from '@/components/ui/status-badge';
 import type { FlagKind } from '@/shared/thermal';
@@ -36,10 +37,7 @@ export function ageOf(iso: string, nowMs: number): string {
   return `${Math.floor(minutes / 60)} h ${minutes % 60} min ago`;
 }
 
-export function clockTime(iso: string, timeZone: string): string {
-  try {
-    return new Intl.DateTimeFormat('en-GB', { timeZone, hour: '2-digit', minute: '2-digit', hour12: false }).format(new Date(iso));
-  } catch {
-    return new Date(iso).toISOString().slice(11, 16);
-  }
+/** A time of day in the unit's zone, by the user's 12/24-hour setting. */
+export function clockTime(iso: string, timeZone: string, clock: ClockSetting = '24h'): string {
+  return formatClock(iso, timeZone, clock);
 }

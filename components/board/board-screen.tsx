@@ -4,7 +4,7 @@ import { problemOf } from '@/components/api/client';
 import { useUser } from '@/components/auth/auth-provider';
 import { useAcknowledgeEscalationMutation, useBoardQuery } from '@/components/queries/board';
 import { WIDE_BREAKPOINT } from '@/components/theme/theme';
-import { ThemeProvider, useThemeChoice } from '@/components/theme/theme-provider';
+import { useNightScreen } from '@/components/theme/theme-provider';
 import { Caution } from '@/components/ui/caution';
 import { Screen } from '@/components/ui/screen';
 import { Segmented } from '@/components/ui/segmented';
@@ -39,15 +39,8 @@ export function BoardScreen() {
   const user = useUser();
   const unitId = user.unitIds[0] ?? null;
   const query = useBoardQuery(unitId);
-  const { choice } = useThemeChoice();
-  const night = query.data?.shift.shift === 'night';
-  if (night && choice === 'system') {
-    return (
-      <ThemeProvider key="night" initial="dark">
-        <BoardBody query={query} />
-      </ThemeProvider>
-    );
-  }
+  // The whole screen, shell included, goes dark on a night shift: no bright bar across a dim room.
+  useNightScreen(query.data?.shift.shift === 'night');
   return <BoardBody query={query} />;
 }
 
@@ -76,7 +69,7 @@ function BoardBody({ query }: { query: ReturnType<typeof useBoardQuery> }) {
     <Screen
       wide
       title="Unit board"
-      subtitle={`${board.unit.name} · ${board.shift.shift === 'day' ? 'Day' : 'Night'} shift · ${attention} ${attention === 1 ? 'bed needs' : 'beds need'} attention · updated ${clockTime(board.serverTime, board.unit.timeZone)}`}
+      subtitle={`${board.unit.name} · ${board.shift.shift === 'day' ? 'Day' : 'Night'} shift · ${attention} ${attention === 1 ? 'bed needs' : 'beds need'} attention · updated ${clockTime(board.serverTime, board.unit.timeZone, user.clock)}`}
       refreshing={query.isRefetching}
       onRefresh={() => void query.refetch()}
     >
@@ -104,6 +97,7 @@ function BoardBody({ query }: { query: ReturnType<typeof useBoardQuery> }) {
               nowMs={nowMs}
               tempUnit={user.tempUnit}
               timeZone={board.unit.timeZone}
+              clock={user.clock}
               dueSoonMinutes={board.unit.dueSoonMinutes}
               canManage={canManage}
               acknowledging={acknowledge.isPending ? (acknowledge.variables?.escalationId ?? null) : null}

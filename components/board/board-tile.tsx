@@ -1,5 +1,7 @@
 import { StyleSheet, View } from 'react-native';
 import { Button } from '@/components/ui/button';
+import { Icon } from '@/components/ui/icon';
+import type { ClockSetting } from '@/components/ui/format-time';
 import { StatusBadge } from '@/components/ui/status-badge';
 import { Text } from '@/components/ui/text';
 import { useTheme } from '@/components/theme/theme-provider';
@@ -13,6 +15,7 @@ export interface BoardTileProps {
   nowMs: number;
   tempUnit: TempUnit;
   timeZone: string;
+  clock: ClockSetting;
   dueSoonMinutes: number;
   canManage: boolean;
   acknowledging: string | null;
@@ -22,7 +25,7 @@ export interface BoardTileProps {
 }
 
 /** One bed, readable from across the room: the countdown and the values in display type. */
-export function BoardTile({ bed, nowMs, tempUnit, timeZone, dueSoonMinutes, canManage, acknowledging, onManage, onAcknowledge, width }: BoardTileProps) {
+export function BoardTile({ bed, nowMs, tempUnit, timeZone, clock, dueSoonMinutes, canManage, acknowledging, onManage, onAcknowledge, width }: BoardTileProps) {
   const theme = useTheme();
   const c = theme.colors;
   const infant = bed.infant;
@@ -31,8 +34,9 @@ export function BoardTile({ bed, nowMs, tempUnit, timeZone, dueSoonMinutes, canM
   if (!infant) {
     return (
       <View
+        role="listitem"
         style={[styles.tile, styles.empty, { width, borderColor: c.border, backgroundColor: c.background }]}
-        accessibilityLabel={`Bed ${bed.label}, empty`}
+        aria-label={`Bed ${bed.label}, empty`}
         testID={`bed-${bed.label}`}
       >
         <Text variant="heading">{bed.label}</Text>
@@ -49,8 +53,9 @@ export function BoardTile({ bed, nowMs, tempUnit, timeZone, dueSoonMinutes, canM
   const remote = infant.latest.remote;
   return (
     <View
+      role="listitem"
       style={[styles.tile, { width, borderColor: edge, borderWidth: bed.tier <= 1 ? 4 : 2, backgroundColor: c.surface }]}
-      accessibilityLabel={`Bed ${bed.label}, ${infant.displayName}`}
+      aria-label={`Bed ${bed.label}, ${infant.displayName}`}
       testID={`bed-${bed.label}`}
     >
       <View style={styles.head}>
@@ -68,7 +73,9 @@ export function BoardTile({ bed, nowMs, tempUnit, timeZone, dueSoonMinutes, canM
       </View>
 
       <View style={[styles.countdown, { backgroundColor: due.tone === 'danger' ? c.dangerSoft : due.tone === 'warning' ? c.warningSoft : c.surfaceSunken }]}>
-        <Text variant="display" style={{ color: due.tone === 'danger' ? c.danger : due.tone === 'warning' ? c.warning : c.text }} accessibilityLiveRegion="none">
+        {/* The word says the state; the icon and colour repeat it for a glance across the room. */}
+        <Icon name={due.icon} size={30} color={due.tone === 'danger' ? c.danger : due.tone === 'warning' ? c.warning : c.text} />
+        <Text variant="display" style={[styles.countdownText, { color: due.tone === 'danger' ? c.danger : due.tone === 'warning' ? c.warning : c.text }]} accessibilityLiveRegion="none">
           {due.text}
         </Text>
       </View>
@@ -103,7 +110,7 @@ export function BoardTile({ bed, nowMs, tempUnit, timeZone, dueSoonMinutes, canM
         {infant.openFlags.map((f) => (
           <StatusBadge key={f.key} tone={FLAG_WORDS[f.kind].tone} icon={FLAG_WORDS[f.kind].icon} label={FLAG_WORDS[f.kind].label} large />
         ))}
-        {infant.skinToSkin ? <StatusBadge tone="together" icon="hands" label={`Skin-to-skin since ${clockTime(infant.skinToSkin.startedAt, timeZone)}`} large /> : null}
+        {infant.skinToSkin ? <StatusBadge tone="together" icon="hands" label={`Skin-to-skin since ${clockTime(infant.skinToSkin.startedAt, timeZone, clock)}`} large /> : null}
       </View>
 
       {bed.escalations.map((e) => (
@@ -113,8 +120,8 @@ export function BoardTile({ bed, nowMs, tempUnit, timeZone, dueSoonMinutes, canM
             icon="bell"
             label={
               e.acknowledgedAt
-                ? `Escalation seen by ${e.acknowledgedBy?.name ?? 'charge nurse'} at ${clockTime(e.acknowledgedAt, timeZone)}`
-                : `Escalated at ${clockTime(e.escalatedAt, timeZone)}: ${FLAG_WORDS[e.flagKind].label.toLowerCase()}`
+                ? `Escalation seen by ${e.acknowledgedBy?.name ?? 'charge nurse'} at ${clockTime(e.acknowledgedAt, timeZone, clock)}`
+                : `Escalated at ${clockTime(e.escalatedAt, timeZone, clock)}: ${FLAG_WORDS[e.flagKind].label.toLowerCase()}`
             }
           />
           {!e.acknowledgedAt && canManage ? (
@@ -139,7 +146,8 @@ const styles = StyleSheet.create({
   head: { flexDirection: 'row', alignItems: 'center', gap: 12 },
   bed: { minWidth: 76 },
   who: { flexShrink: 1, gap: 2 },
-  countdown: { borderRadius: 10, paddingHorizontal: 12, paddingVertical: 6 },
+  countdown: { borderRadius: 10, paddingHorizontal: 12, paddingVertical: 6, flexDirection: 'row', alignItems: 'center', gap: 10 },
+  countdownText: { flexShrink: 1 },
   values: { flexDirection: 'row', gap: 16 },
   value: { flex: 1, gap: 0 },
   badges: { flexDirection: 'row', flexWrap: 'wrap', gap: 6 },

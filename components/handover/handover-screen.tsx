@@ -21,7 +21,7 @@ function HandoverBody({ query, title, emptyMessage }: { query: { data?: Handover
       <PrintStyle />
       {infants.length === 0 ? <EmptyState title="Nothing to hand over" message={emptyMessage} /> : null}
       {infants.map((h) => (
-        <HandoverView key={h.infant.id} handover={h} tempUnit={user.tempUnit} timeZone={DEFAULT_TIME_ZONE} />
+        <HandoverView key={h.infant.id} handover={h} tempUnit={user.tempUnit} timeZone={DEFAULT_TIME_ZONE} clock={user.clock} />
       ))}
       <Caution />
     </Screen>

@@ -1,5 +1,6 @@
 import { StyleSheet, View, useWindowDimensions } from 'react-native';
 import { Card } from '@/components/ui/card';
+import { formatDayTime, type ClockSetting } from '@/components/ui/format-time';
 import { StatusBadge } from '@/components/ui/status-badge';
 import { Text } from '@/components/ui/text';
 import { useTheme } from '@/components/theme/theme-provider';
@@ -10,32 +11,31 @@ import { FLAG_WORDS } from '../board/board-format';
 
 const TABLE_BREAKPOINT = 720;
 
-function when(iso: string, timeZone: string): string {
-  return new Intl.DateTimeFormat('en-GB', { timeZone, day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit', hour12: false }).format(new Date(iso));
-}
+/** Times in the unit's zone, by the user's clock setting. */
+const when = (iso: string, timeZone: string, clock: ClockSetting): string => formatDayTime(iso, timeZone, clock);
 
 const t = (centi: number | null, unit: TempUnit) => (centi === null ? '—' : formatTemperature(centi, unit));
 
 /** One infant's handover: who, settings now, what is outstanding, then the last 12 hours. */
-export function HandoverView({ handover, tempUnit, timeZone }: { handover: HandoverInfant; tempUnit: TempUnit; timeZone: string }) {
+export function HandoverView({ handover, tempUnit, timeZone, clock }: { handover: HandoverInfant; tempUnit: TempUnit; timeZone: string; clock: ClockSetting }) {
   const { infant, settings, nextCheck } = handover;
   const open = handover.flags.filter((f) => f.closedAt === null);
   return (
-    <Card style={styles.card} accessibilityLabel={`Handover for ${infant.displayName}`}>
+    <Card style={styles.card} role="article" aria-label={`Handover for ${infant.displayName}`}>
       <View style={styles.head}>
-        <Text variant="heading">
+        <Text variant="heading" role="heading" aria-level={2}>
           {infant.bedLabel ?? '—'} · {infant.displayName}
         </Text>
         <Text tone="muted">
           {infant.gestationWeeks}+{infant.gestationDays} weeks at birth · {infant.weightGrams} g · {HEAT_SOURCE_LABELS[infant.heatSource]} · nurse {handover.nurse?.name ?? 'unassigned'}
         </Text>
         <Text variant="caption" tone="muted">
-          {when(handover.from, timeZone)} to {when(handover.to, timeZone)} ({timeZone})
+          {when(handover.from, timeZone, clock)} to {when(handover.to, timeZone, clock)} ({timeZone})
         </Text>
       </View>
 
       <View data-print-block style={styles.section}>
-        <Text variant="title">Settings now</Text>
+        <Text variant="title" aria-level={3}>Settings now</Text>
         <Text>
           {settings.controlMode ? CONTROL_MODE_LABELS[settings.controlMode] : 'Mode not charted'} · set {t(settings.setCenti, tempUnit)}
           {settings.heaterOutputPct !== null ? ` · heater ${settings.heaterOutputPct} %` : ''} · probe {t(settings.probeCenti, tempUnit)} · remote site {t(settings.remoteCenti, tempUnit)}
@@ -43,7 +43,7 @@ export function HandoverView({ handover, tempUnit, timeZone }: { handover: Hando
       </View>
 
       <View style={styles.section}>
-        <Text variant="title">Outstanding</Text>
+        <Text variant="title" aria-level={3}>Outstanding</Text>
         <View style={styles.badges}>
           <StatusBadge
             tone={nextCheck.status === 'overdue' ? 'danger' : nextCheck.status === 'due-soon' ? 'warning' : 'ok'}
@@ -51,35 +51,35 @@ export function HandoverView({ handover, tempUnit, timeZone }: { handover: Hando
             label={
               nextCheck.dueAt
                 ? nextCheck.status === 'overdue'
-                  ? `Remote-site check overdue since ${when(nextCheck.dueAt, timeZone)}`
-                  : `Next remote-site check due ${when(nextCheck.dueAt, timeZone)}`
+                  ? `Remote-site check overdue since ${when(nextCheck.dueAt, timeZone, clock)}`
+                  : `Next remote-site check due ${when(nextCheck.dueAt, timeZone, clock)}`
                 : 'No remote-site check charted'
             }
           />
           {open.map((f) => (
-            <StatusBadge key={f.id} tone={FLAG_WORDS[f.kind].tone} icon={FLAG_WORDS[f.kind].icon} label={`${FLAG_WORDS[f.kind].label} since ${when(f.raisedAt, timeZone)}`} />
+            <StatusBadge key={f.id} tone={FLAG_WORDS[f.kind].tone} icon={FLAG_WORDS[f.kind].icon} label={`${FLAG_WORDS[f.kind].label} since ${when(f.raisedAt, timeZone, clock)}`} />
           ))}
         </View>
       </View>
 
       <View style={styles.section}>
-        <Text variant="title">Readings ({handover.readings.length})</Text>
-        {handover.readings.length === 0 ? <Text tone="muted">No readings in the last 12 hours.</Text> : <ReadingsTable readings={handover.readings} tempUnit={tempUnit} timeZone={timeZone} />}
+        <Text variant="title" aria-level={3}>Readings ({handover.readings.length})</Text>
+        {handover.readings.length === 0 ? <Text tone="muted">No readings in the last 12 hours.</Text> : <ReadingsTable readings={handover.readings} tempUnit={tempUnit} timeZone={timeZone} clock={clock} />}
       </View>
 
       <View style={styles.section}>
-        <Text variant="title">Flags and actions</Text>
+        <Text variant="title" aria-level={3}>Flags and actions</Text>
         {handover.flags.length === 0 ? <Text tone="muted">No flags in the last 12 hours.</Text> : null}
         {handover.flags.map((f) => (
           <View key={f.id} data-print-block style={styles.flag}>
             <Text variant="bodyStrong">
-              {FLAG_WORDS[f.kind].label}: raised {when(f.raisedAt, timeZone)}
-              {f.closedAt ? `, closed ${when(f.closedAt, timeZone)} (${f.how})` : ', still open'}
-              {f.escalatedAt ? ` · escalated ${when(f.escalatedAt, timeZone)}${f.acknowledgedAt ? ', acknowledged' : ''}` : ''}
+              {FLAG_WORDS[f.kind].label}: raised {when(f.raisedAt, timeZone, clock)}
+              {f.closedAt ? `, closed ${when(f.closedAt, timeZone, clock)} (${f.how})` : ', still open'}
+              {f.escalatedAt ? ` · escalated ${when(f.escalatedAt, timeZone, clock)}${f.acknowledgedAt ? ', acknowledged' : ''}` : ''}
             </Text>
             {f.actions.map((a, i) => (
               <Text key={i} variant="caption" tone="muted">
-                {when(a.at, timeZone)} · {a.kind.replace(/-/g, ' ')}
+                {when(a.at, timeZone, clock)} · {a.kind.replace(/-/g, ' ')}
                 {a.note ? `: ${a.note}` : ''} · {a.by}
               </Text>
             ))}
@@ -88,11 +88,11 @@ export function HandoverView({ handover, tempUnit, timeZone }: { handover: Hando
       </View>
 
       <View style={styles.section}>
-        <Text variant="title">Skin-to-skin sessions</Text>
+        <Text variant="title" aria-level={3}>Skin-to-skin sessions</Text>
         {handover.sessions.length === 0 ? <Text tone="muted">None in the last 12 hours.</Text> : null}
         {handover.sessions.map((s) => (
           <Text key={s.id}>
-            {when(s.startedAt, timeZone)} to {s.endedAt ? when(s.endedAt, timeZone) : 'now'} · reference {t(s.referenceCenti, tempUnit)}, deviation limit {(s.limitCenti / 100).toFixed(1)} °C
+            {when(s.startedAt, timeZone, clock)} to {s.endedAt ? when(s.endedAt, timeZone, clock) : 'now'} · reference {t(s.referenceCenti, tempUnit)}, deviation limit {(s.limitCenti / 100).toFixed(1)} °C
             {s.carer ? ` · with ${s.carer}` : ''}
           </Text>
         ))}
@@ -101,7 +101,7 @@ export function HandoverView({ handover, tempUnit, timeZone }: { handover: Hando
   );
 }
 
-function ReadingsTable({ readings, tempUnit, timeZone }: { readings: HandoverReading[]; tempUnit: TempUnit; timeZone: string }) {
+function ReadingsTable({ readings, tempUnit, timeZone, clock }: { readings: HandoverReading[]; tempUnit: TempUnit; timeZone: string; clock: ClockSetting }) {
   const { width } = useWindowDimensions();
   const { colors } = useTheme();
   const rows = [...readings].reverse();
@@ -110,7 +110,7 @@ function ReadingsTable({ readings, tempUnit, timeZone }: { readings: HandoverRea
       <View style={styles.lines}>
         {rows.map((r) => (
           <View key={r.id} style={[styles.line, { borderBottomColor: colors.border }]}>
-            <Text variant="bodyStrong">{when(r.takenAt, timeZone)}</Text>
+            <Text variant="bodyStrong">{when(r.takenAt, timeZone, clock)}</Text>
             <Text>
               probe {t(r.probeCenti, tempUnit)} · remote {t(r.remoteCenti, tempUnit)}
               {r.remoteSite ? ` (${r.remoteSite})` : ''} · set {t(r.setCenti, tempUnit)}
@@ -140,7 +140,7 @@ function ReadingsTable({ readings, tempUnit, timeZone }: { readings: HandoverRea
       {rows.map((r) => (
         <View key={r.id} role="row" style={[styles.tr, { borderBottomColor: colors.border }]} data-print-block>
           {[
-            when(r.takenAt, timeZone),
+            when(r.takenAt, timeZone, clock),
             t(r.probeCenti, tempUnit),
             `${t(r.remoteCenti, tempUnit)}${r.remoteSite ? ` ${r.remoteSite}` : ''}`,
             t(r.airCenti, tempUnit),

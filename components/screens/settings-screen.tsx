@@ -22,7 +22,7 @@ export function SettingsScreen() {
   const { setChoice } = useThemeChoice();
   return (
     <Screen title="Settings" subtitle={`${user.name} · ${ROLE_LABELS[user.role]}`}>
-      <Card>
+      <Card style={styles.gap}>
         <Text variant="title" role="heading" aria-level={2}>
           Display
         </Text>
@@ -57,10 +57,14 @@ export function SettingsScreen() {
             prefs.mutate({ theme });
           }}
         />
-        {prefs.isError ? <Text tone="danger">{problemOf(prefs.error).message}</Text> : null}
+        {prefs.isError ? (
+          <Text tone="danger" role="alert">
+            {problemOf(prefs.error).message}
+          </Text>
+        ) : null}
       </Card>
       <PasswordCard onChanged={() => void signOut()} />
-      <Button label="Sign out" variant="secondary" icon="out" onPress={() => void signOut()} />
+      <Button label="Sign out" variant="secondary" icon="out" onPress={() => void signOut()} style={styles.start} />
     </Screen>
   );
 }
@@ -91,9 +95,9 @@ function PasswordCard({ onChanged }: { onChanged: () => void }) {
       <Text tone="muted">At least 12 characters. Changing it signs you out everywhere.</Text>
       <TextField control={control} name="currentPassword" label="Current password" secureTextEntry autoComplete="current-password" serverError={serverFields.currentPassword} />
       <TextField control={control} name="newPassword" label="New password" secureTextEntry autoComplete="new-password" serverError={serverFields.newPassword} />
-      <Button label="Change password" onPress={() => void submit()} busy={change.isPending} />
+      <Button label="Change password" onPress={() => void submit()} busy={change.isPending} style={styles.start} />
     </Card>
   );
 }
 
-const styles = StyleSheet.create({ gap: { gap: 12 } });
+const styles = StyleSheet.create({ gap: { gap: 12 }, start: { alignSelf: 'flex-start' } });

@@ -25,7 +25,7 @@ export function AppShell({ children }: { children: ReactNode }) {
       <View style={[styles.wideRoot, { backgroundColor: c.background }]}>
         <View style={[styles.rail, { backgroundColor: c.surface, borderRightColor: c.border }]} role="navigation" aria-label="Main">
           <View style={styles.brand}>
-            <Text variant="title" tone="primary">
+            <Text variant="title" tone="primary" role="none">
               Warmfold
             </Text>
             <Text variant="caption" tone="muted">
@@ -36,7 +36,7 @@ export function AppShell({ children }: { children: ReactNode }) {
             <NavLink key={item.href} item={item} layout="rail" />
           ))}
           <View style={styles.spacer} />
-          <Pressable accessibilityRole="button" onPress={() => void signOut()} style={[styles.railItem]}>
+          <Pressable role="button" aria-label="Sign out" onPress={() => void signOut()} style={styles.railItem}>
             <Icon name="out" color={c.textMuted} />
             <Text tone="muted" variant="label">
               Sign out

@@ -1,5 +1,5 @@
 import { onlineManager } from '@tanstack/react-query';
-import { useSyncExternalStore } from 'react';
+import { useEffect, useState, useSyncExternalStore } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { useTheme } from '../theme/theme-provider';
 import { Icon } from '../ui/icon';
@@ -13,21 +13,41 @@ export function useOnline(): boolean {
   );
 }
 
-/** One calm line while the connection is lost; gone when it returns. */
+/** Hospital Wi-Fi drops for a second at a time; only a loss that lasts is worth a line. */
+const SETTLE_MS = 2_000;
+
+/**
+ * One calm line while the connection is lost, cleared when it returns. It sits in a polite
+ * live region that is always in the page, so a screen reader hears the change once, and a
+ * flicker of the network shows nothing at all. Neutral colours: nothing is wrong with the infant.
+ */
 export function ConnectionBanner() {
   const online = useOnline();
+  const [shown, setShown] = useState(false);
   const { colors } = useTheme();
-  if (online) return null;
+  useEffect(() => {
+    if (online) {
+      setShown(false);
+      return;
+    }
+    const timer = setTimeout(() => setShown(true), SETTLE_MS);
+    return () => clearTimeout(timer);
+  }, [online]);
   return (
-    <View style={[styles.banner, { backgroundColor: colors.warningSoft, borderColor: colors.warning }]} role="status" accessibilityLiveRegion="polite">
-      <Icon name="cloud-off" color={colors.warning} />
-      <Text variant="label" style={{ color: colors.warning }}>
-        Offline. Readings you save are kept on this device and sent when the connection returns.
-      </Text>
+    <View role="status" aria-live="polite">
+      {shown ? (
+        <View style={[styles.banner, { backgroundColor: colors.surfaceSunken, borderColor: colors.border }]}>
+          <Icon name="cloud-off" color={colors.textMuted} />
+          <Text variant="label" style={styles.text}>
+            No connection. Readings you save stay on this device and are sent when it returns.
+          </Text>
+        </View>
+      ) : null}
     </View>
   );
 }
 
 const styles = StyleSheet.create({
-  banner: { flexDirection: 'row', alignItems: 'center', gap: 8, padding: 10, borderBottomWidth: 1.5 },
+  banner: { flexDirection: 'row', alignItems: 'center', gap: 8, paddingHorizontal: 16, paddingVertical: 10, borderBottomWidth: 1 },
+  text: { flexShrink: 1 },
 });

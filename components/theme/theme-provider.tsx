@@ -1,4 +1,4 @@
-import { createContext, useContext, useMemo, useState, type ReactNode } from 'react';
+import { createContext, useContext, useEffect, useMemo, useState, type ReactNode } from 'react';
 import { useColorScheme } from 'react-native';
 import { darkTheme, lightTheme, type Theme } from './theme';
 
@@ -8,17 +8,23 @@ interface ThemeState {
   theme: Theme;
   choice: ThemeChoice;
   setChoice: (choice: ThemeChoice) => void;
+  setNightScreen: (night: boolean) => void;
 }
 
-const ThemeContext = createContext<ThemeState>({ theme: lightTheme, choice: 'system', setChoice: () => {} });
+const ThemeContext = createContext<ThemeState>({ theme: lightTheme, choice: 'system', setChoice: () => {}, setNightScreen: () => {} });
 
+/**
+ * The theme follows the device unless the user chose one in Settings. A screen may ask for the
+ * night theme while it is shown (the board on a night shift); a user's own choice always wins.
+ */
 export function ThemeProvider({ children, initial = 'system' }: { children: ReactNode; initial?: ThemeChoice }) {
   const system = useColorScheme();
   const [choice, setChoice] = useState<ThemeChoice>(initial);
+  const [nightScreen, setNightScreen] = useState(false);
   const value = useMemo(() => {
-    const dark = choice === 'dark' || (choice === 'system' && system === 'dark');
-    return { theme: dark ? darkTheme : lightTheme, choice, setChoice };
-  }, [choice, system]);
+    const dark = choice === 'dark' || (choice === 'system' && (system === 'dark' || nightScreen));
+    return { theme: dark ? darkTheme : lightTheme, choice, setChoice, setNightScreen };
+  }, [choice, system, nightScreen]);
   return <ThemeContext.Provider value={value}>{children}</ThemeContext.Provider>;
 }
 
@@ -29,4 +35,13 @@ export function useTheme(): Theme {
 export function useThemeChoice(): Pick<ThemeState, 'choice' | 'setChoice'> {
   const { choice, setChoice } = useContext(ThemeContext);
   return { choice, setChoice };
+}
+
+/** While the calling screen is shown, use the night theme when `night` (unless the user chose a theme). */
+export function useNightScreen(night: boolean): void {
+  const { setNightScreen } = useContext(ThemeContext);
+  useEffect(() => {
+    setNightScreen(night);
+    return () => setNightScreen(false);
+  }, [night, setNightScreen]);
 }

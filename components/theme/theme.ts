@@ -1,7 +1,8 @@
 /**
  * Warmfold's look: warm paper by day, a low-glare slate at night. Semantic names only; the
  * palette below them is private. Every status colour is paired with a word and an icon.
- * Text colours meet 4.5:1 against their surfaces in both themes.
+ * Text colours meet 4.5:1 against their surfaces in both themes; borders, status shapes and the
+ * focus ring meet 3:1 against every surface they sit on (tests/e2e/a11y.e2e.ts checks the screens).
  */
 const palette = {
   paper: '#F7F4EF',
@@ -9,7 +10,7 @@ const palette = {
   paperSunken: '#EDE8E0',
   ink: '#1C2326',
   inkSoft: '#4A5458',
-  line: '#8C9599',
+  line: '#757E82',
   teal900: '#0F3C44',
   teal700: '#1C5963',
   teal200: '#BFDCE0',

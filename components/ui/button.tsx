@@ -38,7 +38,7 @@ export function Button({ label, variant = 'primary', icon, busy, compact, disabl
       ]}
     >
       <View style={styles.row}>
-        {busy ? <ActivityIndicator color={fg} size="small" /> : icon ? <Icon name={icon} color={fg} size={20} /> : null}
+        {busy ? <ActivityIndicator color={fg} size="small" aria-label="Working" /> : icon ? <Icon name={icon} color={fg} size={20} /> : null}
         <Text variant="label" style={{ color: fg }}>
           {label}
         </Text>

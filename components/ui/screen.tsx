@@ -1,4 +1,4 @@
-import type { ReactNode } from 'react';
+import { createContext, useContext, type ReactNode } from 'react';
 import { RefreshControl, ScrollView, StyleSheet, View } from 'react-native';
 import { useTheme } from '../theme/theme-provider';
 import { Text } from './text';
@@ -14,11 +14,20 @@ export interface ScreenProps {
   wide?: boolean;
 }
 
+const InScreen = createContext(false);
+
+/** True under a Screen, whose title is already the page's level-1 heading. */
+export function useInScreen(): boolean {
+  return useContext(InScreen);
+}
+
 /** A scrolling page with a heading; pull to refresh where the screen supports it. */
 export function Screen({ title, subtitle, actions, children, refreshing, onRefresh, wide }: ScreenProps) {
   const theme = useTheme();
   return (
     <ScrollView
+      // The page scrolls with the arrow keys even when it holds no control (a mailbox, a report).
+      tabIndex={0}
       style={{ backgroundColor: theme.colors.background }}
       contentContainerStyle={[styles.content, !wide && styles.narrow]}
       refreshControl={onRefresh ? <RefreshControl refreshing={!!refreshing} onRefresh={onRefresh} tintColor={theme.colors.primary} /> : undefined}
@@ -32,7 +41,7 @@ export function Screen({ title, subtitle, actions, children, refreshing, onRefre
         </View>
         {actions ? <View style={styles.actions}>{actions}</View> : null}
       </View>
-      {children}
+      <InScreen.Provider value>{children}</InScreen.Provider>
     </ScrollView>
   );
 }

@@ -28,7 +28,7 @@ export function StatusBadge({ tone, icon, label, large }: { tone: StatusTone; ic
   const { colors } = useTheme();
   const fg = colors[STRONG[tone]];
   return (
-    <View style={[styles.badge, { backgroundColor: colors[SOFT[tone]], borderColor: fg }, large && styles.large]} accessibilityRole="text" accessibilityLabel={label}>
+    <View style={[styles.badge, { backgroundColor: colors[SOFT[tone]], borderColor: fg }, large && styles.large]}>
       <Icon name={icon} color={fg} size={large ? 22 : 16} />
       <Text variant={large ? 'label' : 'caption'} style={{ color: fg }}>
         {label}
