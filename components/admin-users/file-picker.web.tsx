@@ -5,7 +5,8 @@ export function FilePicker({ label, onPick }: { label: string; onPick: (file: Fi
       type="file"
       accept=".csv,text/csv"
       aria-label={label}
-      style={{ fontSize: 16, padding: 8 }}
+      // 48 px tall: a gloved finger needs at least 44 (WCAG 2.5.5).
+      style={{ fontSize: 16, padding: 8, minHeight: 48, boxSizing: 'border-box', cursor: 'pointer' }}
       onChange={(e) => {
         const file = e.currentTarget.files?.[0];
         if (file) onPick(file);

@@ -1,5 +1,7 @@
 import { StyleSheet, View } from 'react-native';
+import { useUser } from '@/components/auth/auth-provider';
 import { useMailboxQuery } from '@/components/queries/board';
+import { formatDayTime } from '@/components/ui/format-time';
 import { Card } from '@/components/ui/card';
 import { Screen } from '@/components/ui/screen';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/state-view';
@@ -8,6 +10,8 @@ import { Text } from '@/components/ui/text';
 /** What the local mail catcher received: escalations, invitations, resets. Nothing here left the machine. */
 export function MailboxScreen() {
   const query = useMailboxQuery();
+  const user = useUser();
+  const timeZone = user.units?.[0]?.timeZone ?? 'UTC';
   if (query.error && !query.data) return <ErrorState error={query.error} onRetry={() => void query.refetch()} />;
   if (!query.data) return <LoadingState label="Opening the mailbox…" />;
   return (
@@ -18,7 +22,7 @@ export function MailboxScreen() {
           <Text variant="bodyStrong">{m.subject}</Text>
           <View style={styles.meta}>
             <Text variant="caption" tone="muted">
-              To {m.to} · from {m.from} · {new Date(m.receivedAt).toLocaleString()}
+              To {m.to} · from {m.from} · {formatDayTime(m.receivedAt, timeZone, user.clock)}
             </Text>
           </View>
           <Text style={styles.body}>{m.text}</Text>

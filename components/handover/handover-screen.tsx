@@ -9,7 +9,6 @@ import { HandoverView } from './handover-view';
 import { PrintStyle } from './print-style';
 
 /** The unit zone is not in the handover answer; the demo units share one, and the device's is the fallback. */
-const DEFAULT_TIME_ZONE = 'Europe/London';
 
 function HandoverBody({ query, title, emptyMessage }: { query: { data?: HandoverResponse; error: unknown; refetch: () => unknown; isRefetching: boolean }; title: string; emptyMessage: string }) {
   const user = useUser();
@@ -21,7 +20,7 @@ function HandoverBody({ query, title, emptyMessage }: { query: { data?: Handover
       <PrintStyle />
       {infants.length === 0 ? <EmptyState title="Nothing to hand over" message={emptyMessage} /> : null}
       {infants.map((h) => (
-        <HandoverView key={h.infant.id} handover={h} tempUnit={user.tempUnit} timeZone={DEFAULT_TIME_ZONE} clock={user.clock} />
+        <HandoverView key={h.infant.id} handover={h} tempUnit={user.tempUnit} timeZone={h.timeZone} clock={user.clock} />
       ))}
       <Caution />
     </Screen>

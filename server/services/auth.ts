@@ -33,7 +33,7 @@ export function loadSessionUser(ctx: AppContext, userId: string): SessionUser | 
   const user = db.select().from(users).where(eq(users.id, userId)).get();
   if (!user) return null;
   const units = db
-    .select({ id: unitsTable.id, name: unitsTable.name })
+    .select({ id: unitsTable.id, name: unitsTable.name, timeZone: unitsTable.timeZone })
     .from(userUnits)
     .innerJoin(unitsTable, eq(unitsTable.id, userUnits.unitId))
     .where(eq(userUnits.userId, userId))

@@ -115,6 +115,7 @@ export function buildHandover(ctx: AppContext, infantId: string, now: Date): Han
     },
     from: new Date(from).toISOString(),
     to: now.toISOString(),
+    timeZone: unit.time_zone,
     settings: {
       controlMode: latest.controlMode,
       setCenti: latest.setCenti,

@@ -94,6 +94,8 @@ export interface HandoverInfant {
   };
   from: string;
   to: string;
+  /** The unit's zone: every time on the handover is shown in it. */
+  timeZone: string;
   settings: { controlMode: ControlMode | null; setCenti: number | null; heaterOutputPct: number | null; probeCenti: number | null; remoteCenti: number | null; remoteTakenAt: string | null };
   nextCheck: { status: CheckStatus; dueAt: string | null; minutesLate: number };
   readings: HandoverReading[];
