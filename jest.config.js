@@ -2,12 +2,11 @@
 const alias = { '^@/(.*)$': '<rootDir>/$1' };
 
 module.exports = {
+  // Generous: the suite also runs on a busy two-core CI machine; nothing here measures speed.
   testTimeout: 60_000,
   projects: [
     {
       displayName: 'server',
-      // Generous: the suite also runs on a busy two-core CI machine; nothing here measures speed.
-      testTimeout: 60_000,
       testEnvironment: 'node',
       testMatch: ['<rootDir>/tests/shared/**/*.test.ts', '<rootDir>/tests/server/**/*.test.ts'],
       transform: { '^.+\\.[jt]sx?$': 'babel-jest' },
@@ -15,7 +14,6 @@ module.exports = {
     },
     {
       displayName: 'client',
-      testTimeout: 60_000,
       // The native preset: @testing-library/react-native queries React Native's host
       // components (Text, TextInput), which the web preset replaces with DOM elements.
       preset: 'jest-expo',

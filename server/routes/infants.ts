@@ -11,8 +11,10 @@ import {
 } from '../../shared/schemas/bedside';
 import { checkPlausibility, toCentiCelsius } from '../../shared/thermal';
 import { shiftAt } from '../../shared/shifts';
-import type { CreateReadingResult, Flowsheet, InfantDetail } from '../../shared/types/bedside';
+import type { CreateReadingResult, InfantDetail } from '../../shared/types/bedside';
 import { appendAudit } from '../audit';
+import { auditRead } from '../read-audit';
+import { batchedWrite } from '../write-batch';
 import type { AppContext } from '../context';
 import { ApiError, badRequest, conflict } from '../errors';
 import { allow, assertUnit, secureRouter } from '../middleware/access';
@@ -20,21 +22,18 @@ import { valid, validate } from '../middleware/validate';
 import {
   checkTakenAt,
   convertAndCheck,
-  flowsheetFlags,
+  flowsheetJson,
   insertReading,
   loadInfantFor,
   loadReading,
   loadSession,
-  READING_SELECT,
-  readingChains,
   readingJson,
   requestHash,
   requireAdmitted,
   sessionAt,
   sessionJson,
-  type StoredReading,
 } from '../services/bedside';
-import { loadUnitRow, policyForUnit, syncFlags, type UnitRow } from '../services/flags';
+import { loadUnitRow, primeRuleReadings, syncFlags, type UnitRow } from '../services/flags';
 import { nextCheckJson, openFlagJson, summarizeInfants } from '../services/summaries';
 
 type IdParams = { id: string };
@@ -87,8 +86,10 @@ export function infantsRouter(ctx: AppContext) {
     const infant = loadInfantFor(sqlite, req, id);
     const now = ctx.clock.now();
     const unit = loadUnitRow(sqlite, infant.unit_id)! as UnitRow & { name: string };
+    primeRuleReadings(sqlite, id);
     writeTx(sqlite, () => {
-      if (infant.status === 'admitted') syncFlags(sqlite, id, now, null);
+      // Only time has passed: the rules need only run from now (syncFlags widens this as needed).
+      if (infant.status === 'admitted') syncFlags(sqlite, id, now, null, { from: now.getTime() });
       appendAudit(sqlite, { at: now, actorId: req.auth!.userId, action: 'chart-read', entityType: 'infant', entityId: id, unitId: infant.unit_id, after: { view: 'summary' } });
     });
     const [summary] = summarizeInfants(sqlite, [id], now);
@@ -110,52 +111,26 @@ export function infantsRouter(ctx: AppContext) {
     res.json(detail);
   });
 
-  router.get('/:id/flowsheet', allow(ctx, 'chart:read'), validate('query', flowsheetQuerySchema), (req, res) => {
+  /**
+   * The flowsheet, from a cache the database invalidates (flowsheetJson); the read is audited on
+   * every request, group-committed with the other reads in flight before the answer goes out.
+   */
+  router.get('/:id/flowsheet', allow(ctx, 'chart:read'), validate('query', flowsheetQuerySchema), async (req, res) => {
     const { id } = req.params as IdParams;
     const { hours } = valid<FlowsheetQuery>(req, 'query');
     const infant = loadInfantFor(sqlite, req, id);
     const now = ctx.clock.now();
-    const fromMs = now.getTime() - hours * 3_600_000;
-    const unit = loadUnitRow(sqlite, infant.unit_id)!;
-    const policy = policyForUnit(unit);
-    const sync = writeTx(sqlite, () => {
-      const result = syncFlags(sqlite, id, now, null);
-      appendAudit(sqlite, { at: now, actorId: req.auth!.userId, action: 'chart-read', entityType: 'infant', entityId: id, unitId: infant.unit_id, after: { view: 'flowsheet', hours } });
-      return result;
-    });
-    const rows = sqlite.prepare(`${READING_SELECT} WHERE r.infant_id = ? ORDER BY r.taken_at, r.recorded_at`).all(id) as StoredReading[];
-    const chains = readingChains(rows).filter((c) => Date.parse(c.takenAt) >= fromMs || c.history.some((h) => Date.parse(h.takenAt) >= fromMs));
-    const sessions = sqlite
-      .prepare(
-        `SELECT s.*, u.name AS started_by_name FROM skin_to_skin_sessions s JOIN users u ON u.id = s.started_by
-          WHERE s.infant_id = ? AND (s.ended_at IS NULL OR s.ended_at >= ?) ORDER BY s.started_at DESC`,
-      )
-      .all(id, fromMs) as Parameters<typeof sessionJson>[0][];
-    const [summary] = summarizeInfants(sqlite, [id], now);
-    const body: Flowsheet = {
-      infant: summary!,
-      hours,
-      from: new Date(fromMs).toISOString(),
-      to: now.toISOString(),
-      readings: chains.filter((c) => !c.enteredInError),
-      removed: chains.filter((c) => c.enteredInError),
-      flags: flowsheetFlags(sqlite, id, sync.evaluation, fromMs, now, policy),
-      sessions: sessions.map(sessionJson),
-      nextCheck: nextCheckJson(sync.evaluation.nextCheck),
-      policy: {
-        checkIntervalMinutes: policy.checkIntervalMinutes,
-        dueSoonMinutes: policy.dueSoonMinutes,
-        gapLimitCenti: policy.gapLimitCenti,
-        recheckMinutes: policy.recheckMinutes,
-        escalationDelayMinutes: policy.escalationDelayMinutes,
-        timeZone: policy.timeZone,
-      },
-    };
-    res.json(body);
+    const body = flowsheetJson(sqlite, id, infant.unit_id, hours, now);
+    await auditRead(sqlite, { at: now, actorId: req.auth!.userId, action: 'chart-read', entityType: 'infant', entityId: id, unitId: infant.unit_id, after: { view: 'flowsheet', hours } });
+    res.type('json').send(body);
   });
 
-  /** Record a reading. Idempotent by the client's id: a retry returns the stored reading. */
-  router.post('/:id/readings', allow(ctx, 'chart:write'), validate('body', createReadingSchema), (req, res) => {
+  /**
+   * Record a reading. Idempotent by the client's id: a retry returns the stored reading. The
+   * checks run here, per request; the insert, its audit event and the flag sync run in a
+   * group-committed batch (batchedWrite) and the answer goes out once the batch is durable.
+   */
+  router.post('/:id/readings', allow(ctx, 'chart:write'), validate('body', createReadingSchema), async (req, res) => {
     const { id: infantId } = req.params as IdParams;
     const input = valid<CreateReading>(req, 'body');
     const infant = loadInfantFor(sqlite, req, infantId);
@@ -177,9 +152,14 @@ export function infantsRouter(ctx: AppContext) {
     const takenAt = input.takenAt ? new Date(input.takenAt) : now;
     if (!already) checkTakenAt(takenAt, now, infant.admitted_at, input.lateReason);
 
-    const result = writeTx(sqlite, () => {
+    // Outside any transaction: the rules' copy of the chart is brought up to date from committed rows.
+    primeRuleReadings(sqlite, infantId);
+    const result = await batchedWrite(sqlite, () => {
       const again = replay();
-      if (again) return { created: false, sync: syncFlags(sqlite, infantId, now, auth.userId) };
+      // Nothing changed: the rules need only run from now (syncFlags widens this as needed).
+      if (again) return { created: false, sync: syncFlags(sqlite, infantId, now, auth.userId, { from: now.getTime() }) };
+      // Other requests may have run since the check above (a discharge among them).
+      requireAdmitted(loadInfantFor(sqlite, req, infantId));
       const row = {
         id: input.id,
         infantId,
@@ -205,7 +185,8 @@ export function infantsRouter(ctx: AppContext) {
       };
       insertReading(sqlite, row);
       appendAudit(sqlite, { at: now, actorId: auth.userId, action: 'reading-create', entityType: 'reading', entityId: row.id, unitId: infant.unit_id, after: { ...row, requestHash: undefined } });
-      return { created: true, sync: syncFlags(sqlite, infantId, now, auth.userId) };
+      // The chart changed from the reading's time on: the rules start at or before it.
+      return { created: true, sync: syncFlags(sqlite, infantId, now, auth.userId, { from: row.takenAt, excludeReadingId: row.id }) };
     });
     const stored = loadReading(sqlite, input.id)!;
     const stored_ = new Map(

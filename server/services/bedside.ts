@@ -10,11 +10,13 @@ import {
   type TempUnit,
 } from '../../shared/thermal';
 import { FUTURE_TOLERANCE_MINUTES, LATE_ENTRY_MINUTES } from '../../shared/schemas/bedside';
-import type { FlowsheetFlag, FlowsheetReading, ReadingVersion, SessionRecord } from '../../shared/types/bedside';
+import type { Flowsheet, FlowsheetFlag, FlowsheetReading, ReadingVersion, SessionRecord } from '../../shared/types/bedside';
+import { writeTx } from '../../db/client';
 import { ApiError, badRequest, notFound } from '../errors';
 import { assertUnit } from '../middleware/access';
-import type { syncFlags } from './flags';
-import { plainDetail } from './summaries';
+import { chartDataVersion } from './board-cache';
+import { loadUnitRow, policyForUnit, primeRuleReadings, syncFlags } from './flags';
+import { nextCheckJson, plainDetail, summarizeInfants } from './summaries';
 
 export interface InfantRow {
   id: string;
@@ -25,9 +27,17 @@ export interface InfantRow {
   birth_weight_grams: number;
 }
 
+const infantSelects = new WeakMap<Database.Database, Database.Statement>();
+
 /** The infant, or 404; then 403 unless the signed-in user belongs to its unit. */
 export function loadInfantFor(sqlite: Database.Database, req: Request, infantId: string): InfantRow {
-  const row = sqlite.prepare('SELECT id, unit_id, status, admitted_at, birth_at, birth_weight_grams FROM infants WHERE id = ?').get(infantId) as InfantRow | undefined;
+  let select = infantSelects.get(sqlite);
+  if (!select) {
+    // Compiled once: this runs on every chart request, and a prepare costs more than the lookup.
+    select = sqlite.prepare('SELECT id, unit_id, status, admitted_at, birth_at, birth_weight_grams FROM infants WHERE id = ?');
+    infantSelects.set(sqlite, select);
+  }
+  const row = select.get(infantId) as InfantRow | undefined;
   if (!row) throw notFound('That infant');
   assertUnit(req, row.unit_id);
   return row;
@@ -331,4 +341,107 @@ export function flowsheetFlags(
       };
     })
     .reverse();
+}
+
+/**
+ * The flowsheet's readings: those taken in the window, plus every version of every corrected
+ * reading (few), so that readingChains sees whole chains and a chain moved into or out of the
+ * window by a correction is kept exactly as when all the infant's readings were read.
+ */
+function flowsheetRows(sqlite: Database.Database, infantId: string, fromMs: number): StoredReading[] {
+  return sqlite
+    .prepare(
+      `${READING_SELECT} WHERE r.infant_id = @infantId AND (
+         r.taken_at >= @fromMs
+         OR r.id IN (SELECT c.id FROM readings c WHERE c.infant_id = @infantId AND c.replaces_id IS NOT NULL
+                     UNION SELECT c.replaces_id FROM readings c WHERE c.infant_id = @infantId AND c.replaces_id IS NOT NULL))
+       ORDER BY r.taken_at, r.recorded_at`,
+    )
+    .all({ infantId, fromMs }) as StoredReading[];
+}
+
+/**
+ * The flowsheet as built before caching: store what the rules say (syncFlags, from the window
+ * on), then the readings, flags and sessions of the window.
+ */
+export function buildFlowsheet(sqlite: Database.Database, infantId: string, unitId: string, hours: number, now: Date, onSynced?: () => void): Flowsheet {
+  const fromMs = now.getTime() - hours * 3_600_000;
+  const policy = policyForUnit(loadUnitRow(sqlite, unitId)!);
+  // The window starts just before the flowsheet's: every flag shown (open, or raised or closed
+  // in the window) is then evaluated exactly as over the whole stay.
+  primeRuleReadings(sqlite, infantId);
+  const sync = writeTx(sqlite, () => syncFlags(sqlite, infantId, now, null, { from: fromMs - 1 }));
+  onSynced?.();
+  const chains = readingChains(flowsheetRows(sqlite, infantId, fromMs)).filter(
+    (c) => Date.parse(c.takenAt) >= fromMs || c.history.some((h) => Date.parse(h.takenAt) >= fromMs),
+  );
+  const sessions = sqlite
+    .prepare(
+      `SELECT s.*, u.name AS started_by_name FROM skin_to_skin_sessions s JOIN users u ON u.id = s.started_by
+        WHERE s.infant_id = ? AND (s.ended_at IS NULL OR s.ended_at >= ?) ORDER BY s.started_at DESC`,
+    )
+    .all(infantId, fromMs) as Parameters<typeof sessionJson>[0][];
+  const [summary] = summarizeInfants(sqlite, [infantId], now);
+  return {
+    infant: summary!,
+    hours,
+    from: new Date(fromMs).toISOString(),
+    to: now.toISOString(),
+    readings: chains.filter((c) => !c.enteredInError),
+    removed: chains.filter((c) => c.enteredInError),
+    flags: flowsheetFlags(sqlite, infantId, sync.evaluation, fromMs, now, policy),
+    sessions: sessions.map(sessionJson),
+    nextCheck: nextCheckJson(sync.evaluation.nextCheck),
+    policy: {
+      checkIntervalMinutes: policy.checkIntervalMinutes,
+      dueSoonMinutes: policy.dueSoonMinutes,
+      gapLimitCenti: policy.gapLimitCenti,
+      recheckMinutes: policy.recheckMinutes,
+      escalationDelayMinutes: policy.escalationDelayMinutes,
+      timeZone: policy.timeZone,
+    },
+  };
+}
+
+/**
+ * How long a flowsheet may be served again when nothing was written, as for the board
+ * (BOARD_MAX_AGE_MS): the rules move with the clock alone, so an unchanged chart is rebuilt at
+ * least this often; a write anywhere in the chart's tables rebuilds it on the next request.
+ */
+export const FLOWSHEET_MAX_AGE_MS = 1000;
+
+interface CachedFlowsheet {
+  version: string;
+  builtAt: number;
+  json: string;
+}
+
+const flowsheetCaches = new WeakMap<Database.Database, Map<string, CachedFlowsheet>>();
+
+/**
+ * The flowsheet as JSON, rebuilt only when the chart's data changed (chartDataVersion) or the
+ * last build is older than FLOWSHEET_MAX_AGE_MS. Its `to` and `from` are those of the build, so
+ * a cached answer is one consistent picture of the chart at most a second old. Nothing in it
+ * depends on who asks (the unit check comes first), so one entry serves every nurse.
+ */
+export function flowsheetJson(sqlite: Database.Database, infantId: string, unitId: string, hours: number, now: Date): string {
+  let cache = flowsheetCaches.get(sqlite);
+  if (!cache) {
+    cache = new Map();
+    flowsheetCaches.set(sqlite, cache);
+  }
+  const key = `${infantId}:${hours}`;
+  const hit = cache.get(key);
+  const age = hit ? now.getTime() - hit.builtAt : -1;
+  if (hit && age >= 0 && age < FLOWSHEET_MAX_AGE_MS && hit.version === chartDataVersion(sqlite)) return hit.json;
+  // The version is taken after the build's own sync (which may store flags and so move it) and
+  // before its reads: a write landing during the reads makes the entry stale, never wrong.
+  let version = '';
+  const body = buildFlowsheet(sqlite, infantId, unitId, hours, now, () => (version = chartDataVersion(sqlite)));
+  const json = JSON.stringify(body);
+  // Entries no one asked for in a minute go (discharged infants, closed tabs), so the cache
+  // holds only the charts being watched.
+  for (const [k, v] of cache) if (now.getTime() - v.builtAt > 60_000 || v.builtAt > now.getTime()) cache.delete(k);
+  cache.set(key, { version, builtAt: now.getTime(), json });
+  return json;
 }

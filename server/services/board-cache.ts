@@ -21,7 +21,8 @@ interface Cached {
   tail: string;
 }
 
-const caches = new WeakMap<Database.Database, { version: () => string; boards: Map<string, Cached> }>();
+const caches = new WeakMap<Database.Database, Map<string, Cached>>();
+const versions = new WeakMap<Database.Database, () => string>();
 
 /**
  * A write counter the database keeps itself: temporary triggers on this connection bump it on any
@@ -38,7 +39,21 @@ function versionOf(sqlite: Database.Database): () => string {
     }
   }
   const generation = sqlite.prepare('SELECT n FROM temp.board_generation').pluck();
-  return () => `${String(sqlite.pragma('data_version', { simple: true }))}:${String(generation.get())}`;
+  const dataVersion = sqlite.prepare('PRAGMA data_version').pluck();
+  return () => `${String(dataVersion.get())}:${String(generation.get())}`;
+}
+
+/**
+ * A string that changes whenever anything a chart view shows may have changed (any write to the
+ * board's tables, on this connection or another): the key the board and flowsheet caches check.
+ */
+export function chartDataVersion(sqlite: Database.Database): string {
+  let version = versions.get(sqlite);
+  if (!version) {
+    version = versionOf(sqlite);
+    versions.set(sqlite, version);
+  }
+  return version();
 }
 
 /**
@@ -46,24 +61,24 @@ function versionOf(sqlite: Database.Database): () => string {
  * older than BOARD_MAX_AGE_MS. Null when the unit does not exist.
  */
 export function boardJson(sqlite: Database.Database, unitId: string, now: Date): string | null {
-  let cache = caches.get(sqlite);
-  if (!cache) {
-    cache = { version: versionOf(sqlite), boards: new Map() };
-    caches.set(sqlite, cache);
+  let boards = caches.get(sqlite);
+  if (!boards) {
+    boards = new Map();
+    caches.set(sqlite, boards);
   }
-  const version = cache.version();
-  const hit = cache.boards.get(unitId);
+  const version = chartDataVersion(sqlite);
+  const hit = boards.get(unitId);
   const serverTime = `{"serverTime":${JSON.stringify(now.toISOString())}`;
   if (hit && hit.version === version && now.getTime() - hit.builtAt >= 0 && now.getTime() - hit.builtAt < BOARD_MAX_AGE_MS) {
     return `${serverTime},${hit.tail}`;
   }
   const board = buildBoard(sqlite, unitId, now);
   if (!board) {
-    cache.boards.delete(unitId);
+    boards.delete(unitId);
     return null;
   }
   const { serverTime: _built, ...rest } = board satisfies BoardResponse;
   const tail = JSON.stringify(rest).slice(1);
-  cache.boards.set(unitId, { version, builtAt: now.getTime(), tail });
+  boards.set(unitId, { version, builtAt: now.getTime(), tail });
   return `${serverTime},${tail}`;
 }

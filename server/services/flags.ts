@@ -49,6 +49,9 @@ export function loadUnitRow(sqlite: Database.Database, unitId: string): UnitRow 
   return sqlite.prepare('SELECT * FROM units WHERE id = ?').get(unitId) as UnitRow | undefined;
 }
 
+/** Shared and frozen: the rules only read a reading's signs. */
+const NO_SIGNS: HeatStressSign[] = Object.freeze([]) as unknown as HeatStressSign[];
+
 /** Turn stored rows into the rules' input. Every version is passed; the rules pick the current ones. */
 export function toRuleReading(r: ReadingRow) {
   return {
@@ -63,7 +66,8 @@ export function toRuleReading(r: ReadingRow) {
     controlMode: r.control_mode,
     heaterOutputPct: r.heater_output_pct,
     heartRate: r.heart_rate,
-    heatSigns: JSON.parse(r.heat_signs) as HeatStressSign[],
+    // Almost every row has no heat signs; parsing '[]' thousands of times per board build shows in a profile.
+    heatSigns: r.heat_signs === '[]' ? NO_SIGNS : (JSON.parse(r.heat_signs) as HeatStressSign[]),
     replacesId: r.replaces_id,
     enteredInError: r.entered_in_error === 1,
   };
@@ -76,13 +80,78 @@ export interface InfantState {
   admittedAt?: Date;
 }
 
+/** The columns the rules read: never `SELECT *` (notes and reasons are dead weight here). */
+export const RULE_COLUMNS =
+  'id, taken_at, recorded_at, probe_centi, remote_centi, remote_site, air_centi, set_centi, control_mode, heater_output_pct, heart_rate, heat_signs, replaces_id, entered_in_error';
+
 export function loadInfantState(sqlite: Database.Database, infantId: string, since?: number): InfantState {
-  const infant = sqlite.prepare('SELECT admitted_at FROM infants WHERE id = ?').get(infantId) as { admitted_at: number } | undefined;
   const readings = (
     since === undefined
-      ? sqlite.prepare('SELECT * FROM readings WHERE infant_id = ? ORDER BY taken_at, recorded_at').all(infantId)
-      : sqlite.prepare('SELECT * FROM readings WHERE infant_id = ? AND taken_at >= ? ORDER BY taken_at, recorded_at').all(infantId, since)
+      ? sqlite.prepare(`SELECT ${RULE_COLUMNS} FROM readings WHERE infant_id = ? ORDER BY taken_at, recorded_at`).all(infantId)
+      : sqlite.prepare(`SELECT ${RULE_COLUMNS} FROM readings WHERE infant_id = ? AND taken_at >= ? ORDER BY taken_at, recorded_at`).all(infantId, since)
   ) as ReadingRow[];
+  return loadStateWith(sqlite, infantId, readings.map(toRuleReading));
+}
+
+type RuleReading = ReturnType<typeof toRuleReading>;
+
+interface CachedRuleReadings {
+  dataVersion: number;
+  /** Every row of the infant up to this rowid is in `readings`; later rows are read fresh. */
+  maxRowid: number;
+  readings: Array<RuleReading & { rowid: number }>;
+  usedAt: number;
+}
+
+const ruleReadingCaches = new WeakMap<Database.Database, Map<string, CachedRuleReadings>>();
+
+/**
+ * Keep the infant's readings, parsed for the rules, in memory: reading and converting a long
+ * stay's rows was most of a write's cost. Readings are never updated or deleted (a correction is
+ * a new row), so rows once committed stay valid; this runs only outside a transaction, so only
+ * committed rows are kept (never a row a rolled-back savepoint took back). A commit by another
+ * connection (PRAGMA data_version) drops the entry: it could have been anything. Call it before
+ * a write transaction that runs syncFlags; syncFlags reads the rows added since.
+ */
+export function primeRuleReadings(sqlite: Database.Database, infantId: string): void {
+  if (sqlite.inTransaction) return;
+  let cache = ruleReadingCaches.get(sqlite);
+  if (!cache) {
+    cache = new Map();
+    ruleReadingCaches.set(sqlite, cache);
+  }
+  const dataVersion = stmt(sqlite, 'PRAGMA data_version').pluck().get() as number;
+  const now = Date.now();
+  let entry = cache.get(infantId);
+  if (entry && entry.dataVersion !== dataVersion) entry = undefined;
+  const added = newRows(sqlite, infantId, entry?.maxRowid ?? -1);
+  const readings = entry ? entry.readings.concat(added) : added;
+  const maxRowid = readings.reduce((max, r) => Math.max(max, r.rowid), entry?.maxRowid ?? -1);
+  // Charts no one wrote to or read for ten minutes go (discharged infants).
+  for (const [id, e] of cache) if (now - e.usedAt > 600_000) cache.delete(id);
+  cache.set(infantId, { dataVersion, maxRowid, readings, usedAt: now });
+}
+
+function newRows(sqlite: Database.Database, infantId: string, afterRowid: number): Array<RuleReading & { rowid: number }> {
+  const rows = stmt(sqlite, `SELECT rowid AS rowid_, ${RULE_COLUMNS} FROM readings WHERE infant_id = ? AND rowid > ?`).all(infantId, afterRowid) as Array<
+    ReadingRow & { rowid_: number }
+  >;
+  return rows.map((r) => ({ ...toRuleReading(r), rowid: r.rowid_ }));
+}
+
+/** The rules' readings from `since` (all when undefined), from the primed cache when it is valid. */
+function ruleReadings(sqlite: Database.Database, infantId: string, since: number | undefined): RuleReading[] | null {
+  const entry = ruleReadingCaches.get(sqlite)?.get(infantId);
+  if (!entry || entry.dataVersion !== (stmt(sqlite, 'PRAGMA data_version').pluck().get() as number)) return null;
+  entry.usedAt = Date.now();
+  const all = entry.readings.concat(newRows(sqlite, infantId, entry.maxRowid));
+  const picked = since === undefined ? all : all.filter((r) => r.takenAt.getTime() >= since);
+  // The same order as the query's ORDER BY taken_at, recorded_at.
+  return picked.sort((a, b) => a.takenAt.getTime() - b.takenAt.getTime() || a.recordedAt.getTime() - b.recordedAt.getTime());
+}
+
+function loadStateWith(sqlite: Database.Database, infantId: string, readings: RuleReading[]): InfantState {
+  const infant = sqlite.prepare('SELECT admitted_at FROM infants WHERE id = ?').get(infantId) as { admitted_at: number } | undefined;
   const actions = sqlite
     .prepare('SELECT a.id, f.key AS flag_key, a.kind, a.at FROM actions a JOIN flags f ON f.id = a.flag_id WHERE a.infant_id = ? ORDER BY a.at')
     .all(infantId) as Array<{ id: string; flag_key: string; kind: string; at: number }>;
@@ -90,7 +159,7 @@ export function loadInfantState(sqlite: Database.Database, infantId: string, sin
     .prepare('SELECT id, started_at, ended_at, reference_centi, limit_centi FROM skin_to_skin_sessions WHERE infant_id = ? ORDER BY started_at')
     .all(infantId) as Array<{ id: string; started_at: number; ended_at: number | null; reference_centi: number; limit_centi: number }>;
   return {
-    readings: readings.map(toRuleReading),
+    readings,
     actions: actions.map((a) => ({ id: a.id, flagKey: a.flag_key, kind: a.kind, at: new Date(a.at) })),
     sessions: sessions.map((s) => ({
       id: s.id,
@@ -107,29 +176,132 @@ export interface SyncResult {
   raised: string[];
   closed: string[];
   evaluation: ReturnType<typeof evaluateInfant>;
+  /**
+   * Where the evaluation started: null when it covered the whole stay. A windowed evaluation's
+   * flags are exactly the whole stay's from this instant on; every flag raised earlier is stored
+   * and closed before it (see restartPoint), so callers showing flags from a later time lose
+   * nothing. Its `latest` values may miss a control mode or set temperature charted earlier.
+   */
+  windowFrom: number | null;
+}
+
+export interface SyncWindow {
+  /**
+   * The earliest chart time the caller needs evaluated exactly: the taken time of a reading just
+   * recorded, or the start of the window a flowsheet shows. The evaluation starts at or before it.
+   */
+  from: number;
+  /** A reading inserted in this transaction: never a restart point (its own sync is this one). */
+  excludeReadingId?: string;
+}
+
+/** Statements are compiled once per connection: syncFlags runs on every write and flowsheet. */
+const statementCache = new WeakMap<Database.Database, Map<string, Database.Statement>>();
+function stmt(sqlite: Database.Database, sql: string): Database.Statement {
+  let cache = statementCache.get(sqlite);
+  if (!cache) {
+    cache = new Map();
+    statementCache.set(sqlite, cache);
+  }
+  let s = cache.get(sql);
+  if (!s) {
+    s = sqlite.prepare(sql);
+    cache.set(sql, s);
+  }
+  return s;
+}
+
+/**
+ * Where the rules can start instead of admission, giving the same flags from there on as the
+ * whole stay: a remote-site check R such that
+ * - R is a current version, not entered in error, charted in a servo mode (so the manual-mode
+ *   rule holds no state from before R) and taken after admission, and not later than it was
+ *   recorded (so its own sync, which ran when it was recorded, saw every flag raised before it);
+ * - every stored flag raised before R closed before R, or was closed by R itself: then no rule
+ *   (gap, heat, cold, manual mode, skin-to-skin) carries an open flag into R, and after R the
+ *   check schedule runs from R in both evaluations;
+ * - no correction chain of the infant has a version before R (a correction can change history
+ *   in ways the stored flags never show, since they are not rewritten; such infants keep the
+ *   whole-stay evaluation back to their first correction);
+ * - no other reading shares R's time (R must be the first reading the window's rules see).
+ * Null when there is none: evaluate the whole stay, as before.
+ */
+function restartPoint(sqlite: Database.Database, infantId: string, admittedAt: number, window: SyncWindow): number | null {
+  const firstCorrection = stmt(
+    sqlite,
+    `SELECT MIN(MIN(y.taken_at, x.taken_at)) AS at FROM readings y JOIN readings x ON x.id = y.replaces_id
+      WHERE y.infant_id = ? AND y.replaces_id IS NOT NULL`,
+  ).get(infantId) as { at: number | null };
+  let before = Math.min(window.from, firstCorrection.at === null ? Number.POSITIVE_INFINITY : firstCorrection.at - 1);
+  const candidate = stmt(
+    sqlite,
+    `SELECT r.id, r.taken_at FROM readings r
+      WHERE r.infant_id = @infantId AND r.taken_at <= @before AND r.taken_at >= @admittedAt AND r.taken_at <= r.recorded_at
+        AND r.remote_centi IS NOT NULL AND r.control_mode IN ('skin-servo', 'air-servo') AND r.entered_in_error = 0
+        AND r.id IS NOT @exclude AND r.replaces_id IS NULL
+        AND NOT EXISTS (SELECT 1 FROM readings y WHERE y.replaces_id = r.id)
+      ORDER BY r.taken_at DESC LIMIT 1`,
+  );
+  const blocker = stmt(
+    sqlite,
+    `SELECT MIN(f.raised_at) AS at FROM flags f LEFT JOIN flag_resolutions x ON x.flag_id = f.id
+      WHERE f.infant_id = @infantId AND f.raised_at < @at
+        AND (x.flag_id IS NULL OR x.closed_at > @at OR (x.closed_at = @at AND x.closed_by_reading_id IS NOT @id))`,
+  );
+  const sameTime = stmt(sqlite, 'SELECT 1 FROM readings WHERE infant_id = ? AND taken_at = ? AND id <> ? LIMIT 1');
+  // A few steps back past flags that were still open; a chart with flags open for most of the
+  // stay is rare and is simply evaluated whole.
+  for (let step = 0; step < 4; step++) {
+    const r = candidate.get({ infantId, before, admittedAt, exclude: window.excludeReadingId ?? null }) as { id: string; taken_at: number } | undefined;
+    if (!r) return null;
+    const open = blocker.get({ infantId, at: r.taken_at, id: r.id }) as { at: number | null };
+    if (open.at === null) return sameTime.get(infantId, r.taken_at, r.id) ? null : r.taken_at;
+    // The reading that raised the oldest such flag may itself be the restart point.
+    before = open.at;
+  }
+  return null;
 }
 
 /**
  * Store what the rules say about one infant: a flag row when a flag is first raised, a
  * resolution row when it closes. Stored flags are never rewritten, so a later change of
  * policy does not rewrite history. Call inside a write transaction.
+ *
+ * Without `window` the whole stay is evaluated. With it, the rules start at a restart point at
+ * or before `window.from` when one exists (restartPoint): a write or a flowsheet then costs a
+ * few readings' work instead of the whole stay's, with the same flags from the window on.
  */
-export function syncFlags(sqlite: Database.Database, infantId: string, now: Date, actorId: string | null): SyncResult {
-  const infant = sqlite.prepare('SELECT unit_id, status FROM infants WHERE id = ?').get(infantId) as { unit_id: string; status: string } | undefined;
+export function syncFlags(sqlite: Database.Database, infantId: string, now: Date, actorId: string | null, window?: SyncWindow): SyncResult {
+  const infant = stmt(sqlite, 'SELECT unit_id, status, admitted_at FROM infants WHERE id = ?').get(infantId) as
+    | { unit_id: string; status: string; admitted_at: number }
+    | undefined;
   if (!infant) throw new Error(`No infant ${infantId}`);
-  const unit = loadUnitRow(sqlite, infant.unit_id)!;
-  const evaluation = evaluateInfant(loadInfantState(sqlite, infantId), now, policyForUnit(unit));
-  const stored = sqlite
-    .prepare('SELECT f.id, f.key, r.flag_id AS resolved FROM flags f LEFT JOIN flag_resolutions r ON r.flag_id = f.id WHERE f.infant_id = ?')
-    .all(infantId) as Array<{ id: string; key: string; resolved: string | null }>;
+  const unit = stmt(sqlite, 'SELECT * FROM units WHERE id = ?').get(infant.unit_id) as UnitRow;
+  const windowFrom = window ? restartPoint(sqlite, infantId, infant.admitted_at, { ...window, from: Math.min(window.from, now.getTime()) }) : null;
+  let state: InfantState;
+  const since = windowFrom ?? undefined;
+  const cached = ruleReadings(sqlite, infantId, since);
+  const loaded = cached ? loadStateWith(sqlite, infantId, cached) : loadInfantState(sqlite, infantId, since);
+  if (windowFrom === null) state = loaded;
+  else {
+    const full = loaded;
+    // The schedule runs from the restart point (the first reading), not from admission: the
+    // checks before it are history the stored flags already hold.
+    state = { ...full, admittedAt: undefined };
+  }
+  const evaluation = evaluateInfant(state, now, policyForUnit(unit));
+  const stored = stmt(sqlite, 'SELECT f.id, f.key, f.raised_at, r.flag_id AS resolved FROM flags f LEFT JOIN flag_resolutions r ON r.flag_id = f.id WHERE f.infant_id = ?').all(
+    infantId,
+  ) as Array<{ id: string; key: string; raised_at: number; resolved: string | null }>;
   const byKey = new Map(stored.map((s) => [s.key, s]));
   const seen = new Set<string>();
   const raised: string[] = [];
   const closed: string[] = [];
-  const insertFlag = sqlite.prepare(
+  const insertFlag = stmt(
+    sqlite,
     'INSERT INTO flags (id, infant_id, unit_id, key, kind, raised_at, raised_by_reading_id, detail, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)',
   );
-  const insertResolution = sqlite.prepare('INSERT INTO flag_resolutions (flag_id, closed_at, closed_by_reading_id, how, created_at) VALUES (?, ?, ?, ?, ?)');
+  const insertResolution = stmt(sqlite, 'INSERT INTO flag_resolutions (flag_id, closed_at, closed_by_reading_id, how, created_at) VALUES (?, ?, ?, ?, ?)');
 
   const close = (flagId: string, at: Date, readingId: string | null, how: string, key: string) => {
     insertResolution.run(flagId, at.getTime(), readingId, how, now.getTime());
@@ -146,15 +318,18 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
       insertFlag.run(id, infantId, infant.unit_id, flag.key, flag.kind, flag.raisedAt.getTime(), flag.raisedByReadingId, JSON.stringify(flag.detail ?? {}), now.getTime());
       appendAudit(sqlite, { at: now, actorId, action: 'flag-raised', entityType: 'flag', entityId: id, unitId: infant.unit_id, after: serializeFlag(flag) });
       raised.push(id);
-      row = { id, key: flag.key, resolved: null };
+      row = { id, key: flag.key, raised_at: flag.raisedAt.getTime(), resolved: null };
     }
     if (flag.status === 'closed' && !row.resolved) close(row.id, flag.closedAt ?? now, flag.closedByReadingId, closingHow(flag), flag.key);
   }
-  // A stored open flag the rules no longer see (its reading was entered in error, or the infant left).
+  // A stored open flag the rules no longer see (its reading was entered in error, or the infant
+  // left). A windowed evaluation only speaks for flags raised inside its window; restartPoint
+  // guarantees every open stored flag is, so this is a guard, not a behaviour.
   for (const row of stored) {
+    if (windowFrom !== null && row.raised_at < windowFrom) continue;
     if (!seen.has(row.key) && !row.resolved) close(row.id, now, null, infant.status === 'discharged' ? 'discharged' : 'reading-corrected', row.key);
   }
-  return { raised, closed, evaluation };
+  return { raised, closed, evaluation, windowFrom };
 }
 
 function closingHow(flag: EvaluatedFlag): string {

@@ -2,7 +2,7 @@ import type Database from 'better-sqlite3';
 import { evaluateInfant, flagEscalation, type EvaluatedFlag, type InfantEvaluation, type UnitPolicy } from '../../shared/thermal';
 import { shiftAt } from '../../shared/shifts';
 import type { InfantSummary, NextCheck, OpenFlagSummary } from '../../shared/types/bedside';
-import { policyForUnit, toRuleReading, type InfantState, type UnitRow } from './flags';
+import { policyForUnit, RULE_COLUMNS, toRuleReading, type InfantState, type UnitRow } from './flags';
 
 const DAY_MS = 86_400_000;
 /** How far back the summaries read the chart: enough for the board and the shift, fast for a unit. */
@@ -23,6 +23,11 @@ interface InfantRow {
 }
 
 type ReadingRow = Parameters<typeof toRuleReading>[0] & { infant_id: string };
+
+/** The rules' columns, qualified for a query that aliases readings as r. */
+const RULE_COLUMNS_R = RULE_COLUMNS.split(', ')
+  .map((c) => `r.${c}`)
+  .join(', ');
 
 /** JSON-safe copy of the rules' detail (Dates become ISO strings). */
 export function plainDetail(detail: unknown): Record<string, unknown> {
@@ -88,10 +93,12 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
   const units = sqlite.prepare('SELECT * FROM units WHERE id IN (SELECT value FROM json_each(?))').all(unitIds) as UnitRow[];
   const policies = new Map<string, UnitPolicy>(units.map((u) => [u.id, policyForUnit(u)]));
 
-  const readings = sqlite
-    .prepare(
-      `WITH RECURSIVE
-         ids(id) AS (SELECT value FROM json_each(@ids)),
+  // Correction chains are rare: the version-chain walk (a recursive query, two thirds of a board
+  // build when it ran for every unit) is needed only when one of these infants has one.
+  const corrected = sqlite
+    .prepare('SELECT 1 FROM readings INDEXED BY readings_replaces WHERE replaces_id IS NOT NULL AND infant_id IN (SELECT value FROM json_each(?)) LIMIT 1')
+    .get(ids);
+  const picked = `
          picked(id) AS (
            SELECT r.id FROM readings r WHERE r.infant_id IN (SELECT id FROM ids) AND r.taken_at >= @since
            UNION
@@ -101,7 +108,12 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
                     ORDER BY x.taken_at DESC, x.recorded_at DESC LIMIT 1)
              FROM ids
             WHERE NOT EXISTS (SELECT 1 FROM readings z WHERE z.infant_id = ids.id AND z.remote_centi IS NOT NULL AND z.taken_at >= @since)
-         ),
+         )`;
+  const readings = sqlite
+    .prepare(
+      corrected
+        ? `WITH RECURSIVE
+         ids(id) AS (SELECT value FROM json_each(@ids)),${picked},
          up(id) AS (
            SELECT id FROM picked WHERE id IS NOT NULL
            UNION SELECT r.replaces_id FROM readings r JOIN up ON r.id = up.id WHERE r.replaces_id IS NOT NULL
@@ -110,7 +122,10 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
            SELECT id FROM up
            UNION SELECT r.id FROM readings r JOIN down ON r.replaces_id = down.id
          )
-       SELECT r.* FROM readings r WHERE r.id IN (SELECT id FROM down) ORDER BY r.taken_at, r.recorded_at`,
+       SELECT r.infant_id, ${RULE_COLUMNS_R} FROM readings r WHERE r.id IN (SELECT id FROM down) ORDER BY r.taken_at, r.recorded_at`
+        : `WITH
+         ids(id) AS (SELECT value FROM json_each(@ids)),${picked}
+       SELECT r.infant_id, ${RULE_COLUMNS_R} FROM readings r WHERE r.id IN (SELECT id FROM picked) ORDER BY r.taken_at, r.recorded_at`,
     )
     .all({ ids, since }) as ReadingRow[];
 
