@@ -1,7 +1,8 @@
 import bcrypt from 'bcryptjs';
 import { and, eq, gt } from 'drizzle-orm';
 import jwt from 'jsonwebtoken';
-import { randomUUID } from 'node:crypto';
+import { createSecretKey, randomUUID, type KeyObject } from 'node:crypto';
+import type { Statement } from 'better-sqlite3';
 import { authSessions, signInAttempts, units as unitsTable, userUnits, users } from '../../db/schema';
 import type { SessionUser } from '../../shared/schemas/auth';
 import type { AppContext } from '../context';
@@ -104,10 +105,57 @@ interface TokenClaims {
 }
 
 /** Check a bearer token against its signature, its session row and the user's current state. */
+const secretKeys = new Map<string, KeyObject>();
+/** jsonwebtoken builds a key object from a string secret on every verify; build it once. */
+function secretKey(secret: string): KeyObject {
+  let key = secretKeys.get(secret);
+  if (!key) {
+    key = createSecretKey(Buffer.from(secret, 'utf8'));
+    secretKeys.set(secret, key);
+  }
+  return key;
+}
+
+interface SessionRow {
+  id: string;
+  user_id: string;
+  session_version: number;
+  last_seen_at: number;
+  expires_at: number;
+  revoked_at: number | null;
+  role: AuthContext['role'];
+  name: string;
+  email: string;
+  active: number;
+  user_version: number;
+  unit_ids: string | null;
+}
+
+const sessionStatements = new WeakMap<object, { load: Statement; touch: Statement }>();
+function statements(ctx: AppContext) {
+  let st = sessionStatements.get(ctx.database.sqlite);
+  if (!st) {
+    st = {
+      // One query for the session, its user and the user's units: this runs on every request.
+      load: ctx.database.sqlite.prepare(
+        `SELECT s.id, s.user_id, s.session_version, s.last_seen_at, s.expires_at, s.revoked_at,
+                u.role, u.name, u.email, u.active, u.session_version AS user_version,
+                (SELECT group_concat(unit_id, char(31)) FROM user_units WHERE user_id = u.id) AS unit_ids
+           FROM auth_sessions s JOIN users u ON u.id = s.user_id
+          WHERE s.id = ?`,
+      ),
+      touch: ctx.database.sqlite.prepare('UPDATE auth_sessions SET last_seen_at = ? WHERE id = ?'),
+    };
+    sessionStatements.set(ctx.database.sqlite, st);
+  }
+  return st;
+}
+
+/** Check a bearer token against its signature, its session row and the user's current state. */
 export function verifyToken(ctx: AppContext, token: string): AuthContext {
   let claims: TokenClaims;
   try {
-    claims = jwt.verify(token, ctx.config.jwtSecret, {
+    claims = jwt.verify(token, secretKey(ctx.config.jwtSecret), {
       algorithms: [ALGORITHM],
       clockTimestamp: Math.floor(ctx.clock.now().getTime() / 1000),
     }) as TokenClaims;
@@ -117,27 +165,19 @@ export function verifyToken(ctx: AppContext, token: string): AuthContext {
   if (typeof claims.jti !== 'string' || typeof claims.sub !== 'string' || typeof claims.exp !== 'number') {
     throw unauthorized('Your session has ended. Please sign in again.');
   }
-  const { db } = ctx.database;
   const now = ctx.clock.now().getTime();
-  const session = db.select().from(authSessions).where(eq(authSessions.id, claims.jti)).get();
-  if (!session || session.userId !== claims.sub || session.revokedAt) throw unauthorized('Your session has ended. Please sign in again.');
-  if (now > session.expiresAt.getTime()) throw unauthorized('Your session reached its 12-hour limit. Please sign in again.');
-  if (now - session.lastSeenAt.getTime() > IDLE_LIMIT_MS) throw unauthorized('You were signed out after 30 minutes without activity.');
-  const user = db.select().from(users).where(eq(users.id, claims.sub)).get();
-  if (!user || !user.active || user.sessionVersion !== session.sessionVersion || claims.sv !== user.sessionVersion) {
+  const st = statements(ctx);
+  const row = st.load.get(claims.jti) as SessionRow | undefined;
+  if (!row || row.user_id !== claims.sub || row.revoked_at !== null) throw unauthorized('Your session has ended. Please sign in again.');
+  if (now > row.expires_at) throw unauthorized('Your session reached its 12-hour limit. Please sign in again.');
+  if (now - row.last_seen_at > IDLE_LIMIT_MS) throw unauthorized('You were signed out after 30 minutes without activity.');
+  if (row.active !== 1 || row.user_version !== row.session_version || claims.sv !== row.user_version) {
     throw unauthorized('Your account changed. Please sign in again.');
   }
   // Keep the idle timer fresh without writing on every request.
-  if (now - session.lastSeenAt.getTime() > 15_000) {
-    db.update(authSessions).set({ lastSeenAt: new Date(now) }).where(eq(authSessions.id, session.id)).run();
-  }
-  const unitIds = db
-    .select({ unitId: userUnits.unitId })
-    .from(userUnits)
-    .where(eq(userUnits.userId, user.id))
-    .all()
-    .map((r) => r.unitId);
-  return { userId: user.id, sessionId: session.id, role: user.role, unitIds, name: user.name, email: user.email };
+  if (now - row.last_seen_at > 15_000) st.touch.run(now, row.id);
+  const unitIds = row.unit_ids ? row.unit_ids.split('\u001f') : [];
+  return { userId: row.user_id, sessionId: row.id, role: row.role, unitIds, name: row.name, email: row.email };
 }
 
 export function revokeSession(ctx: AppContext, sessionId: string): void {
