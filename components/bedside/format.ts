@@ -1,5 +1,6 @@
 import { TZDate } from '@date-fns/tz';
-import { format } from 'date-fns';
+// The per-function entry: the package index requires every date-fns function and Metro does not tree-shake.
+import { format } from 'date-fns/format';
 import { formatTemperature, formatTemperatureDifference, type TempUnit } from '@/shared/thermal';
 
 export interface DisplayPrefs {

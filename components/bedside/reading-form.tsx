@@ -1,5 +1,5 @@
 import { zodResolver } from '@hookform/resolvers/zod';
-import { useMemo, useRef, useState } from 'react';
+import { useMemo, useRef, useState, type ReactNode } from 'react';
 import { useForm, useFormState, useWatch, type Control } from 'react-hook-form';
 import { Pressable, StyleSheet, View, type TextInput } from 'react-native';
 import type { CreateReadingInput } from '@/shared/schemas/bedside';
@@ -59,7 +59,6 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
       lateReason: '',
     },
   });
-  const values = useWatch({ control }) as ReadingFormValues;
   const remoteRef = useRef<TextInput>(null);
   const [confirming, setConfirming] = useState<string[] | null>(null);
   // One id per reading: a retry after an error or a lost connection reuses it.
@@ -77,7 +76,6 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
       onSubmit(toCreateReading(v, { id, unit, now: now(), timeZone, confirmed: reasons.length > 0 }));
     });
 
-  const late = isLate(values, now(), timeZone);
   const serverConfirm = serverFields.confirmedImplausible === 'confirm';
 
   return (
@@ -107,19 +105,23 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
         onSubmitEditing={() => void submit(false)()}
         serverError={serverFields.remote}
       />
-      <Segmented
-        label="Remote site"
-        value={values.remoteSite}
-        options={[
-          { value: 'axilla', label: 'Axilla' },
-          { value: 'rectal', label: 'Rectal' },
-          { value: 'other', label: 'Other' },
-        ]}
-        onChange={(site) => setValue('remoteSite', site, { shouldValidate: false })}
-      />
+      <Watch control={control} name="remoteSite">
+        {(remoteSite) => (
+          <Segmented
+            label="Remote site"
+            value={remoteSite}
+            options={[
+              { value: 'axilla', label: 'Axilla' },
+              { value: 'rectal', label: 'Rectal' },
+              { value: 'other', label: 'Other' },
+            ]}
+            onChange={(site) => setValue('remoteSite', site, { shouldValidate: false })}
+          />
+        )}
+      </Watch>
       <FieldError control={control} name="remoteSite" fallback={serverFields.remoteSite} />
 
-      <Preview values={values} unit={unit} gapLimitCenti={gapLimitCenti} />
+      <WatchAll control={control}>{(values) => <Preview values={values} unit={unit} gapLimitCenti={gapLimitCenti} />}</WatchAll>
 
       {confirming || serverConfirm ? (
         <Card style={{ borderColor: theme.colors.warning, backgroundColor: theme.colors.warningSoft }} role="alert">
@@ -144,48 +146,74 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
       <Text variant="title" role="heading" aria-level={2}>
         More observations
       </Text>
-      <Segmented
-        label="Control mode"
-        value={values.controlMode}
-        options={[
-          { value: 'skin-servo', label: 'Skin servo' },
-          { value: 'air-servo', label: 'Air servo' },
-          { value: 'manual', label: 'Manual' },
-        ]}
-        onChange={(mode) => setValue('controlMode', mode)}
-      />
+      <Watch control={control} name="controlMode">
+        {(controlMode) => (
+          <Segmented
+            label="Control mode"
+            value={controlMode}
+            options={[
+              { value: 'skin-servo', label: 'Skin servo' },
+              { value: 'air-servo', label: 'Air servo' },
+              { value: 'manual', label: 'Manual' },
+            ]}
+            onChange={(mode) => setValue('controlMode', mode)}
+          />
+        )}
+      </Watch>
       <TextField control={control} name="set" label={`Set temperature (${u})`} suffix={u} inputMode="decimal" keyboardType="decimal-pad" serverError={serverFields.set} />
       <TextField control={control} name="air" label={`Air temperature (${u})`} suffix={u} inputMode="decimal" keyboardType="decimal-pad" serverError={serverFields.air} />
       <TextField control={control} name="heaterOutputPct" label="Heater output (%)" suffix="%" inputMode="numeric" keyboardType="number-pad" serverError={serverFields.heaterOutputPct} />
       <TextField control={control} name="heartRate" label="Heart rate (/min)" suffix="/min" inputMode="numeric" keyboardType="number-pad" serverError={serverFields.heartRate} />
       <View style={styles.wrap} role="group" aria-label="Heat-stress signs">
         <Text variant="label">Heat-stress signs</Text>
-        <View style={styles.chips}>
-          {HEAT_STRESS_SIGNS.map((s) => {
-            const on = values.heatSigns?.includes(s.sign) ?? false;
-            return (
-              <Pressable
-                key={s.sign}
-                role="checkbox"
-                aria-checked={on}
-                accessibilityLabel={s.label}
-                onPress={() => setValue('heatSigns', on ? values.heatSigns.filter((x) => x !== s.sign) : [...(values.heatSigns ?? []), s.sign])}
-                style={[styles.chip, { borderColor: on ? theme.colors.heat : theme.colors.border, backgroundColor: on ? theme.colors.heatSoft : theme.colors.surface }]}
-              >
-                <Text variant="label" style={{ color: on ? theme.colors.heat : theme.colors.text }}>
-                  {on ? '☑ ' : '☐ '}
-                  {s.label}
-                </Text>
-              </Pressable>
-            );
-          })}
-        </View>
+        <Watch control={control} name="heatSigns">
+          {(heatSigns) => (
+            <View style={styles.chips}>
+              {HEAT_STRESS_SIGNS.map((s) => {
+                const on = heatSigns?.includes(s.sign) ?? false;
+                return (
+                  <Pressable
+                    key={s.sign}
+                    role="checkbox"
+                    aria-checked={on}
+                    accessibilityLabel={s.label}
+                    onPress={() => setValue('heatSigns', on ? heatSigns.filter((x) => x !== s.sign) : [...(heatSigns ?? []), s.sign])}
+                    style={[styles.chip, { borderColor: on ? theme.colors.heat : theme.colors.border, backgroundColor: on ? theme.colors.heatSoft : theme.colors.surface }]}
+                  >
+                    <Text variant="label" style={{ color: on ? theme.colors.heat : theme.colors.text }}>
+                      {on ? '☑ ' : '☐ '}
+                      {s.label}
+                    </Text>
+                  </Pressable>
+                );
+              })}
+            </View>
+          )}
+        </Watch>
       </View>
       <TextField control={control} name="time" label="Time taken (leave empty for now)" placeholder="Now" hint={`HH:MM, ${timeZone} time`} inputMode="numeric" serverError={serverFields.takenAt} />
-      {late ? <TextField control={control} name="lateReason" label="Why is this charted late?" serverError={serverFields.lateReason} /> : null}
+      <WatchAll control={control}>
+        {(values) => (isLate(values, now(), timeZone) ? <TextField control={control} name="lateReason" label="Why is this charted late?" serverError={serverFields.lateReason} /> : null)}
+      </WatchAll>
       <TextField control={control} name="note" label="Note" multiline serverError={serverFields.note} />
     </View>
   );
+}
+
+/**
+ * Re-renders only its children when one field changes. Watching every value at the top of the
+ * form re-rendered all its fields on each keystroke: about 100 ms a key on a throttled phone,
+ * the slowest interaction in recording a reading (INP).
+ */
+function Watch<K extends keyof ReadingFormValues>({ control, name, children }: { control: Control<ReadingFormValues>; name: K; children: (value: ReadingFormValues[K]) => ReactNode }) {
+  const value = useWatch({ control, name }) as ReadingFormValues[K];
+  return <>{children(value)}</>;
+}
+
+/** The same for the parts that depend on several values (the rules preview, the late-entry reason). */
+function WatchAll({ control, children }: { control: Control<ReadingFormValues>; children: (values: ReadingFormValues) => ReactNode }) {
+  const values = useWatch({ control }) as ReadingFormValues;
+  return <>{children(values)}</>;
 }
 
 function FieldError({ control, name, fallback }: { control: Control<ReadingFormValues>; name: keyof ReadingFormValues; fallback?: string }) {

@@ -3,7 +3,8 @@ import { useUser } from '@/components/auth/auth-provider';
 import { useMyReviewNotesQuery } from '@/components/queries/review';
 import { Card } from '@/components/ui/card';
 import { Text } from '@/components/ui/text';
-import { format } from 'date-fns';
+// The per-function entry: the package index requires every date-fns function and Metro does not tree-shake.
+import { format } from 'date-fns/format';
 import { TZDate } from '@date-fns/tz';
 import { FLAG_LABELS } from './format';
 

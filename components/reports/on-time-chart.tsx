@@ -1,13 +1,16 @@
 import { useState } from 'react';
 import { View, type LayoutChangeEvent } from 'react-native';
-import { VictoryAxis, VictoryBar, VictoryChart } from 'victory-native';
 import type { OnTimeRow } from '@/shared/reports';
-import { useTheme } from '../theme/theme-provider';
+import { DeferredChart, LazyOnTimePlot } from '../bedside/lazy-chart';
 import { Text } from '../ui/text';
 
-/** On-time rate (%) as bars; the numbers are in the table below, so the chart is decorative to screen readers. */
+const PLOT_HEIGHT = 220;
+
+/**
+ * On-time rate (%) as bars; the numbers are in the table below, so the chart is decorative to
+ * screen readers. The drawing (victory) loads lazily, in the same chunk as the flowsheet's trend.
+ */
 export function OnTimeChart({ title, rows }: { title: string; rows: Array<OnTimeRow & { label: string }> }) {
-  const { colors } = useTheme();
   const [width, setWidth] = useState(340);
   const data = rows.map((r) => ({ x: r.label, y: r.rate === null ? 0 : Math.round(r.rate * 1000) / 10 }));
   return (
@@ -16,11 +19,9 @@ export function OnTimeChart({ title, rows }: { title: string; rows: Array<OnTime
       {data.length === 0 ? (
         <Text tone="muted">No remote-site checks in this range.</Text>
       ) : (
-        <VictoryChart width={width} height={220} domain={{ y: [0, 100] }} domainPadding={{ x: 30 }} padding={{ top: 16, bottom: 40, left: 48, right: 16 }}>
-          <VictoryAxis style={{ tickLabels: { fill: colors.textMuted, fontSize: 11 }, axis: { stroke: colors.border } }} />
-          <VictoryAxis dependentAxis tickFormat={(t: number) => `${t}%`} style={{ tickLabels: { fill: colors.textMuted, fontSize: 11 }, grid: { stroke: colors.border, strokeDasharray: '2,4' }, axis: { stroke: colors.border } }} />
-          <VictoryBar data={data} style={{ data: { fill: colors.primary } }} barWidth={Math.min(36, (width - 80) / Math.max(1, data.length) - 6)} labels={({ datum }: { datum: { y: number } }) => `${datum.y}%`} />
-        </VictoryChart>
+        <DeferredChart height={PLOT_HEIGHT} unavailable="The chart could not be loaded; the figures are in the table below.">
+          <LazyOnTimePlot data={data} width={width} height={PLOT_HEIGHT} />
+        </DeferredChart>
       )}
     </View>
   );
