@@ -67,8 +67,13 @@ export function InfantRow({ infant, wide = false }: { infant: InfantSummary; wid
     <View role="listitem" style={wide ? styles.itemWide : undefined}>
     <Pressable
       role="link"
+      // An <a href> on the web: Enter, middle click and screen readers treat it as the link it is.
+      {...({ href: `/infants/${infant.id}` } as object)}
       aria-label={`${infant.bedLabel ?? 'No bed'}, ${infant.displayName}: open flowsheet`}
-      onPress={() => router.push(`/infants/${infant.id}`)}
+      onPress={(e) => {
+        e.preventDefault?.();
+        router.push(`/infants/${infant.id}`);
+      }}
     >
       <Card style={[styles.row, { borderColor: infant.openFlags.length ? theme.colors.danger : theme.colors.border }]}>
         <View style={styles.head}>

@@ -11,7 +11,7 @@ function css(theme: Theme): string {
   const halo = theme.name === 'dark' ? '#000000' : '#FFFFFF';
   return `
 :root { color-scheme: ${theme.name}; --wf-focus: ${c.focus}; --wf-focus-halo: ${halo}; }
-html, body { background-color: ${c.background}; }
+html, body { background-color: ${c.background}; margin: 0; }
 :focus-visible {
   outline: 3px solid var(--wf-focus) !important;
   outline-offset: 2px !important;

@@ -1,5 +1,5 @@
 import { TZDate } from '@date-fns/tz';
-import { format } from 'date-fns';
+import { format } from 'date-fns/format';
 
 /** The user's clock setting. */
 export type ClockSetting = '24h' | '12h';
