@@ -19,7 +19,7 @@ export function queryString(params: Record<string, string | undefined | null>): 
 export function useReviewQueueQuery(filters: Partial<ReviewQueueQuery>) {
   return useQuery({
     queryKey: reviewKeys.queue(filters),
-    queryFn: ({ signal }) => api<ReviewQueueResponse>(`/review/queue${queryString(filters)}`, { signal }),
+    queryFn: ({ signal }) => api<ReviewQueueResponse>(`/review/queue${queryString(filters as Record<string, string | undefined>)}`, { signal }),
     staleTime: QUEUE_STALE_MS,
     placeholderData: keepPreviousData,
   });

@@ -77,7 +77,7 @@ export function ReviewQueueScreen() {
         <EmptyState title="Nothing to review" message="No items match these filters." />
       ) : (
         <View style={styles.list} aria-label="Review items">
-          <Text tone="muted">{data.items.length} items</Text>
+          <Text tone="muted">{data.total > data.items.length ? `Showing the newest ${data.items.length} of ${data.total} items; narrow the filters to see the rest` : `${data.items.length} items`}</Text>
           {data.items.map((item) => (
             <QueueRow key={item.flagId} item={item} />
           ))}

@@ -127,7 +127,7 @@ function toItem(sqlite: Database.Database, row: FlagRow): ReviewQueueItem {
 }
 
 /** The queue items in the given units, every filter applied; the nurse filter list comes from the unfiltered set. */
-export function reviewQueue(ctx: AppContext, unitIds: string[], query: ReviewQueueQuery): ReviewQueueResponse {
+export function reviewQueue(ctx: AppContext, unitIds: string[], query: Omit<ReviewQueueQuery, 'limit'> & { limit?: number }): ReviewQueueResponse {
   const { sqlite } = ctx.database;
   const units = unitIds.length
     ? (sqlite.prepare(`SELECT id, name FROM units WHERE id IN (${unitIds.map(() => '?').join(', ')}) ORDER BY name`).all(...unitIds) as Array<{ id: string; name: string }>)
@@ -147,8 +147,9 @@ export function reviewQueue(ctx: AppContext, unitIds: string[], query: ReviewQue
   const all = rows.map((r) => toItem(sqlite, r));
   const nurses = new Map<string, PersonRef>();
   for (const item of all) if (item.nurse) nurses.set(item.nurse.id, item.nurse);
-  const items = all.filter((i) => (!query.shift || i.shift === query.shift) && (!query.nurseId || i.nurse?.id === query.nurseId));
-  return { items, nurses: [...nurses.values()].sort((a, b) => a.name.localeCompare(b.name)), units };
+  const matching = all.filter((i) => (!query.shift || i.shift === query.shift) && (!query.nurseId || i.nurse?.id === query.nurseId));
+  const items = matching.slice(0, query.limit ?? 200);
+  return { items, total: matching.length, nurses: [...nurses.values()].sort((a, b) => a.name.localeCompare(b.name)), units };
 }
 
 function loadReviews(sqlite: Database.Database, flagIds: string[]): ReviewNote[] {

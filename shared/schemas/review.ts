@@ -27,6 +27,8 @@ function rangeOk(v: { from?: string; to?: string }) {
 }
 const RANGE_MESSAGE = { message: 'The end date must not be before the start date.', path: ['to'] };
 
+export const REVIEW_PAGE_MAX = 500;
+
 export const reviewQueueQuerySchema = z
   .strictObject({
     unitId: id.optional(),
@@ -36,6 +38,8 @@ export const reviewQueueQuerySchema = z
     kind: z.enum(REVIEW_KINDS, { error: 'Choose a kind of flag.' }).optional(),
     nurseId: id.optional(),
     status: z.enum(REVIEW_STATUSES, { error: 'Choose reviewed, unreviewed or all.' }).default('all'),
+    /** A page is capped, so one request can never pull the whole history. */
+    limit: z.coerce.number({ error: 'Limit must be a number.' }).int('Use a whole number.').min(1, 'At least 1.').max(REVIEW_PAGE_MAX, `At most ${REVIEW_PAGE_MAX}.`).default(200),
   })
   .refine(rangeOk, RANGE_MESSAGE);
 export type ReviewQueueQuery = z.infer<typeof reviewQueueQuerySchema>;

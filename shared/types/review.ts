@@ -40,6 +40,8 @@ export interface ReviewQueueItem {
 
 export interface ReviewQueueResponse {
   items: ReviewQueueItem[];
+  /** How many items match the filters; more than items.length when the page cap cut the list. */
+  total: number;
   /** Nurses who appear in the unfiltered queue, for the nurse filter. */
   nurses: PersonRef[];
   units: Array<{ id: string; name: string }>;

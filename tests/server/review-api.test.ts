@@ -135,3 +135,17 @@ describe('review item and teaching notes', () => {
     expect(res.status).not.toBe(201);
   });
 });
+
+describe('review queue page cap (OWASP API4:2023)', () => {
+  it('returns at most `limit` items with the full count, and refuses a limit over the cap', async () => {
+    const all = await get('/api/review/queue', educator);
+    expect(all.body.total).toBe(all.body.items.length);
+    const one = await get('/api/review/queue?limit=1', educator);
+    expect(one.status).toBe(200);
+    expect(one.body.items).toHaveLength(1);
+    expect(one.body.total).toBe(all.body.total);
+    const tooMany = await get('/api/review/queue?limit=501', educator);
+    expect(tooMany.status).toBe(400);
+    expect(tooMany.body.error.fields).toHaveProperty('limit');
+  });
+});
