@@ -32,13 +32,17 @@ export const units = sqliteTable('units', {
   createdAt: instant('created_at').notNull(),
 });
 
+/** A required reference to the unit a row belongs to: every clinical row carries one. */
+const unitRef = () =>
+  text('unit_id')
+    .notNull()
+    .references(() => units.id);
+
 export const beds = sqliteTable(
   'beds',
   {
     id: text('id').primaryKey(),
-    unitId: text('unit_id')
-      .notNull()
-      .references(() => units.id),
+    unitId: unitRef(),
     label: text('label').notNull(),
     sortOrder: integer('sort_order').notNull().default(0),
     active: flag('active').notNull().default(true),
@@ -69,9 +73,7 @@ export const userUnits = sqliteTable(
     userId: text('user_id')
       .notNull()
       .references(() => users.id),
-    unitId: text('unit_id')
-      .notNull()
-      .references(() => units.id),
+    unitId: unitRef(),
   },
   (t) => [primaryKey({ columns: [t.userId, t.unitId] })],
 );
@@ -122,9 +124,7 @@ export const infants = sqliteTable(
   'infants',
   {
     id: text('id').primaryKey(),
-    unitId: text('unit_id')
-      .notNull()
-      .references(() => units.id),
+    unitId: unitRef(),
     bedId: text('bed_id').references(() => beds.id),
     displayName: text('display_name').notNull(),
     birthAt: instant('birth_at').notNull(),
@@ -140,17 +140,18 @@ export const infants = sqliteTable(
   (t) => [index('infants_unit_status').on(t.unitId, t.status)],
 );
 
+const infantRef = () =>
+  text('infant_id')
+    .notNull()
+    .references(() => infants.id);
+
 /** A nurse's assignment to an infant for one shift; the latest row for (infant, shift) wins. */
 export const assignments = sqliteTable(
   'assignments',
   {
     id: text('id').primaryKey(),
-    unitId: text('unit_id')
-      .notNull()
-      .references(() => units.id),
-    infantId: text('infant_id')
-      .notNull()
-      .references(() => infants.id),
+    unitId: unitRef(),
+    infantId: infantRef(),
     nurseId: text('nurse_id')
       .notNull()
       .references(() => users.id),
@@ -169,12 +170,8 @@ export const skinToSkinSessions = sqliteTable(
   'skin_to_skin_sessions',
   {
     id: text('id').primaryKey(),
-    infantId: text('infant_id')
-      .notNull()
-      .references(() => infants.id),
-    unitId: text('unit_id')
-      .notNull()
-      .references(() => units.id),
+    infantId: infantRef(),
+    unitId: unitRef(),
     startedAt: instant('started_at').notNull(),
     startedBy: text('started_by')
       .notNull()
@@ -193,12 +190,8 @@ export const readings = sqliteTable(
   {
     /** Made by the client, so a retried request is stored once. */
     id: text('id').primaryKey(),
-    infantId: text('infant_id')
-      .notNull()
-      .references(() => infants.id),
-    unitId: text('unit_id')
-      .notNull()
-      .references(() => units.id),
+    infantId: infantRef(),
+    unitId: unitRef(),
     takenAt: instant('taken_at').notNull(),
     recordedAt: instant('recorded_at').notNull(),
     recordedBy: text('recorded_by')
@@ -238,12 +231,8 @@ export const flags = sqliteTable(
   'flags',
   {
     id: text('id').primaryKey(),
-    infantId: text('infant_id')
-      .notNull()
-      .references(() => infants.id),
-    unitId: text('unit_id')
-      .notNull()
-      .references(() => units.id),
+    infantId: infantRef(),
+    unitId: unitRef(),
     /** The rules' stable key (for example `gap:<reading id>`), unique per infant. */
     key: text('key').notNull(),
     kind: text('kind', {
@@ -256,6 +245,11 @@ export const flags = sqliteTable(
   },
   (t) => [uniqueIndex('flags_infant_key').on(t.infantId, t.key), index('flags_unit_raised').on(t.unitId, t.raisedAt)],
 );
+
+const flagRef = () =>
+  text('flag_id')
+    .notNull()
+    .references(() => flags.id);
 
 export const flagResolutions = sqliteTable('flag_resolutions', {
   flagId: text('flag_id')
@@ -272,15 +266,9 @@ export const actions = sqliteTable(
   'actions',
   {
     id: text('id').primaryKey(),
-    flagId: text('flag_id')
-      .notNull()
-      .references(() => flags.id),
-    infantId: text('infant_id')
-      .notNull()
-      .references(() => infants.id),
-    unitId: text('unit_id')
-      .notNull()
-      .references(() => units.id),
+    flagId: flagRef(),
+    infantId: infantRef(),
+    unitId: unitRef(),
     kind: text('kind').notNull(),
     note: text('note'),
     at: instant('at').notNull(),
@@ -298,9 +286,7 @@ export const escalations = sqliteTable('escalations', {
     .notNull()
     .unique()
     .references(() => flags.id),
-  unitId: text('unit_id')
-    .notNull()
-    .references(() => units.id),
+  unitId: unitRef(),
   escalatedAt: instant('escalated_at').notNull(),
   mailedAt: instant('mailed_at'),
   acknowledgedAt: instant('acknowledged_at'),
@@ -313,12 +299,8 @@ export const reviews = sqliteTable(
   'reviews',
   {
     id: text('id').primaryKey(),
-    flagId: text('flag_id')
-      .notNull()
-      .references(() => flags.id),
-    unitId: text('unit_id')
-      .notNull()
-      .references(() => units.id),
+    flagId: flagRef(),
+    unitId: unitRef(),
     reviewerId: text('reviewer_id')
       .notNull()
       .references(() => users.id),
