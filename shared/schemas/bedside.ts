@@ -17,24 +17,29 @@ const temperature = (label: string) =>
 const uuid = z.string().uuid({ error: 'Must be an id made by the app (a UUID).' });
 const isoInstant = z.iso.datetime({ offset: true, error: 'Must be a date and time (ISO 8601).' });
 
+/** What a reading holds, as typed: shared by a new reading and a correction's new version. */
+const readingValueFields = {
+  unit: tempUnitSchema,
+  takenAt: isoInstant.optional(),
+  probe: temperature('Probe temperature'),
+  remote: temperature('Remote-site temperature'),
+  remoteSite: remoteSiteSchema.nullable().optional(),
+  air: temperature('Air temperature'),
+  set: temperature('Set temperature'),
+  controlMode: controlModeSchema.nullable().optional(),
+  heaterOutputPct: z.number({ error: 'Heater output must be a number.' }).int('Use a whole percentage.').min(0, 'At least 0 %.').max(100, 'At most 100 %.').nullable().optional(),
+  heartRate: z.number({ error: 'Heart rate must be a number.' }).int('Use whole beats per minute.').min(30, 'Below 30/min is not a plausible heart rate.').max(300, 'Above 300/min is not a plausible heart rate.').nullable().optional(),
+  heatSigns: z.array(heatSignSchema).max(5).default([]),
+  note: z.string().trim().max(1000, 'Keep the note under 1,000 characters.').nullable().optional(),
+  /** The nurse confirmed a value outside the plausible range. */
+  confirmedImplausible: z.boolean().default(false),
+};
+
 export const createReadingSchema = z
   .strictObject({
     id: uuid,
-    unit: tempUnitSchema,
-    takenAt: isoInstant.optional(),
-    probe: temperature('Probe temperature'),
-    remote: temperature('Remote-site temperature'),
-    remoteSite: remoteSiteSchema.nullable().optional(),
-    air: temperature('Air temperature'),
-    set: temperature('Set temperature'),
-    controlMode: controlModeSchema.nullable().optional(),
-    heaterOutputPct: z.number({ error: 'Heater output must be a number.' }).int('Use a whole percentage.').min(0, 'At least 0 %.').max(100, 'At most 100 %.').nullable().optional(),
-    heartRate: z.number({ error: 'Heart rate must be a number.' }).int('Use whole beats per minute.').min(30, 'Below 30/min is not a plausible heart rate.').max(300, 'Above 300/min is not a plausible heart rate.').nullable().optional(),
-    heatSigns: z.array(heatSignSchema).max(5).default([]),
-    note: z.string().trim().max(1000, 'Keep the note under 1,000 characters.').nullable().optional(),
+    ...readingValueFields,
     lateReason: z.string().trim().max(300).nullable().optional(),
-    /** The nurse confirmed a value outside the plausible range. */
-    confirmedImplausible: z.boolean().default(false),
   })
   .superRefine((v, ctx) => {
     if (v.probe == null && v.remote == null && v.air == null && v.heartRate == null) {
@@ -55,21 +60,7 @@ export const correctReadingSchema = z.strictObject({
   reason: correctionReasonSchema,
   note: z.string().trim().min(1, 'Say briefly what was wrong.').max(500),
   values: z
-    .strictObject({
-      unit: tempUnitSchema,
-      takenAt: isoInstant.optional(),
-      probe: temperature('Probe temperature'),
-      remote: temperature('Remote-site temperature'),
-      remoteSite: remoteSiteSchema.nullable().optional(),
-      air: temperature('Air temperature'),
-      set: temperature('Set temperature'),
-      controlMode: controlModeSchema.nullable().optional(),
-      heaterOutputPct: z.number().int().min(0).max(100).nullable().optional(),
-      heartRate: z.number().int().min(30).max(300).nullable().optional(),
-      heatSigns: z.array(heatSignSchema).max(5).default([]),
-      note: z.string().trim().max(1000).nullable().optional(),
-      confirmedImplausible: z.boolean().default(false),
-    })
+    .strictObject(readingValueFields)
     .optional(),
 });
 export type CorrectReadingInput = z.input<typeof correctReadingSchema>;
