@@ -1,6 +1,4 @@
-import { TZDate } from '@date-fns/tz';
-// The per-function entry: the package index requires every date-fns function and Metro does not tree-shake.
-import { format } from 'date-fns/format';
+import { formatClock, formatInZone } from '@/components/ui/format-time';
 import { formatTemperature, formatTemperatureDifference, type TempUnit } from '@/shared/thermal';
 
 export interface DisplayPrefs {
@@ -21,13 +19,11 @@ export function tempDelta(centi: number, unit: TempUnit): string {
 }
 
 /** A time of day in the unit's zone, by the user's 12/24-hour setting. */
-export function clockTime(iso: string | Date, timeZone: string, clock: '24h' | '12h'): string {
-  const ms = typeof iso === 'string' ? Date.parse(iso) : iso.getTime();
-  return format(new TZDate(ms, timeZone), clock === '24h' ? 'HH:mm' : 'h:mm a');
-}
+export const clockTime = formatClock;
 
+/** "Wed 2 Dec, 14:05": the weekday helps across a night shift. */
 export function dayTime(iso: string, timeZone: string, clock: '24h' | '12h'): string {
-  return format(new TZDate(Date.parse(iso), timeZone), clock === '24h' ? 'EEE d MMM, HH:mm' : 'EEE d MMM, h:mm a');
+  return formatInZone(iso, timeZone, clock === '24h' ? 'EEE d MMM, HH:mm' : 'EEE d MMM, h:mm a');
 }
 
 /** "1 h 05 min", "12 min". */

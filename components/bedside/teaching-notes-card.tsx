@@ -3,16 +3,10 @@ import { useUser } from '@/components/auth/auth-provider';
 import { useMyReviewNotesQuery } from '@/components/queries/review';
 import { Card } from '@/components/ui/card';
 import { Text } from '@/components/ui/text';
-// The per-function entry: the package index requires every date-fns function and Metro does not tree-shake.
-import { format } from 'date-fns/format';
-import { TZDate } from '@date-fns/tz';
+import { formatDayTime } from '@/components/ui/format-time';
 import { FLAG_LABELS } from './format';
 
 const SHOWN = 3;
-
-function dayTime(iso: string, timeZone: string, clock: '24h' | '12h'): string {
-  return format(new TZDate(Date.parse(iso), timeZone), clock === '24h' ? 'd MMM HH:mm' : 'd MMM h:mm a');
-}
 
 /** The educator's teaching notes on flags this nurse handled: shown to her, newest first. */
 export function TeachingNotesCard({ timeZone }: { timeZone: string }) {
@@ -29,7 +23,7 @@ export function TeachingNotesCard({ timeZone }: { timeZone: string }) {
       {newest.map((n) => (
         <View key={n.id} style={styles.note}>
           <Text variant="label">
-            {n.infantName} · {FLAG_LABELS[n.kind as keyof typeof FLAG_LABELS] ?? n.kind} · {dayTime(n.raisedAt, timeZone, user.clock)}
+            {n.infantName} · {FLAG_LABELS[n.kind as keyof typeof FLAG_LABELS] ?? n.kind} · {formatDayTime(n.raisedAt, timeZone, user.clock)}
           </Text>
           <Text>{n.note}</Text>
           <Text variant="caption" tone="muted">

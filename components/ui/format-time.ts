@@ -12,7 +12,7 @@ function instant(at: string | Date | number): number {
  * Format in the unit's time zone, never the device's: a nurse on a phone set to another zone
  * must read the same times as the wall clock on the unit. A bad zone falls back to UTC, said so.
  */
-function inZone(at: string | Date | number, timeZone: string, pattern: string): string {
+export function formatInZone(at: string | Date | number, timeZone: string, pattern: string): string {
   const ms = instant(at);
   if (Number.isNaN(ms)) return '—';
   try {
@@ -24,10 +24,10 @@ function inZone(at: string | Date | number, timeZone: string, pattern: string): 
 
 /** "14:05" or "2:05 PM". */
 export function formatClock(at: string | Date | number, timeZone: string, clock: ClockSetting): string {
-  return inZone(at, timeZone, clock === '24h' ? 'HH:mm' : 'h:mm a');
+  return formatInZone(at, timeZone, clock === '24h' ? 'HH:mm' : 'h:mm a');
 }
 
 /** "2 Dec, 14:05" or "2 Dec, 2:05 PM". */
 export function formatDayTime(at: string | Date | number, timeZone: string, clock: ClockSetting): string {
-  return inZone(at, timeZone, clock === '24h' ? 'd MMM, HH:mm' : 'd MMM, h:mm a');
+  return formatInZone(at, timeZone, clock === '24h' ? 'd MMM, HH:mm' : 'd MMM, h:mm a');
 }
