@@ -220,7 +220,15 @@ export async function benchVitals(opts: VitalsOptions, log: (line: string) => vo
     await warmUp(browser, opts);
     log(`  warm-up pass (unmeasured): ${((performance.now() - warmStart) / 1000).toFixed(1)} s`);
     for (let i = 0; i < opts.runs; i++) {
-      const run = await oneRun(browser, opts, iife);
+      let run: VitalsRun;
+      try {
+        run = await oneRun(browser, opts, iife);
+      } catch (err) {
+        // A run that stalls (a page that never shows its content) is reported and tried once more
+        // in a fresh context; a second failure ends the bench with the error.
+        log(`  vitals run ${i + 1}/${opts.runs} failed, trying again once: ${err instanceof Error ? err.message.split('\n')[0] : String(err)}`);
+        run = await oneRun(browser, opts, iife);
+      }
       log(
         `  vitals run ${i + 1}/${opts.runs}: LCP sign-in ${fmt(run.signIn.lcp)}, my infants ${fmt(run.myInfants.lcp)}, flowsheet ${fmt(run.flowsheet.lcp)}; INP ${fmt(run.inp)}`,
       );
