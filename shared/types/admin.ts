@@ -1,3 +1,4 @@
+import type { UnitWithSettings } from './board';
 import type { Role } from '../roles';
 
 export interface AdminUser {
@@ -18,17 +19,7 @@ export interface AdminBed {
   active: boolean;
 }
 
-export interface AdminUnit {
-  id: string;
-  name: string;
-  hospitalName: string;
-  timeZone: string;
-  checkIntervalMinutes: number;
-  dueSoonMinutes: number;
-  gapLimitCenti: number;
-  escalationDelayMinutes: number;
-  dayShiftStart: string;
-  nightShiftStart: string;
+export interface AdminUnit extends UnitWithSettings {
   beds: AdminBed[];
 }
 

@@ -31,20 +31,23 @@ export interface BoardBed {
   escalations: BoardEscalation[];
 }
 
+/** A unit and the settings its board, admin and reports show. */
+export interface UnitWithSettings {
+  id: string;
+  name: string;
+  hospitalName: string;
+  timeZone: string;
+  checkIntervalMinutes: number;
+  dueSoonMinutes: number;
+  gapLimitCenti: number;
+  escalationDelayMinutes: number;
+  dayShiftStart: string;
+  nightShiftStart: string;
+}
+
 export interface BoardResponse {
   serverTime: string;
-  unit: {
-    id: string;
-    name: string;
-    hospitalName: string;
-    timeZone: string;
-    checkIntervalMinutes: number;
-    dueSoonMinutes: number;
-    gapLimitCenti: number;
-    escalationDelayMinutes: number;
-    dayShiftStart: string;
-    nightShiftStart: string;
-  };
+  unit: UnitWithSettings;
   shift: { shiftDate: string; shift: 'day' | 'night'; startsAt: string; endsAt: string };
   beds: BoardBed[];
   /** Everyone who can be assigned in this unit (for the nurse filter and reassigning). */
