@@ -129,13 +129,22 @@ export async function seedLargeUnit(file: string, size: SeedSize, now = new Date
     }
 
     const at = new Date(t0);
-    for (const id of infantIds) syncFlags(sqlite, id, at, null);
-    // The actions a nurse takes on a gap: checked the probe, then moved it.
-    const gaps = sqlite.prepare("SELECT id, infant_id, raised_at FROM flags WHERE unit_id = ? AND kind = 'gap'").all(UNIT_ID) as Array<{ id: string; infant_id: string; raised_at: number }>;
+    // The actions a nurse takes on a gap: checked the probe, then moved it. A gap flag closes at
+    // the first check within the limit after an action, and only then can the next gap raise a
+    // flag of its own; so the rules run, the new gaps are answered, and the rules run again, as
+    // the unit would have charted it over the fortnight.
+    const unanswered = sqlite.prepare(
+      "SELECT id, infant_id, raised_at FROM flags f WHERE unit_id = ? AND kind = 'gap' AND NOT EXISTS (SELECT 1 FROM actions a WHERE a.flag_id = f.id)",
+    );
     const action = sqlite.prepare('INSERT INTO actions (id, flag_id, infant_id, unit_id, kind, note, at, recorded_by, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)');
-    for (const g of gaps) {
-      action.run(randomUUID(), g.id, g.infant_id, UNIT_ID, 'checked-probe-contact', null, g.raised_at + 5 * 60_000, 'u-nurse', g.raised_at + 5 * 60_000);
-      action.run(randomUUID(), g.id, g.infant_id, UNIT_ID, 'moved-probe', 'Moved to the flank under a new cover.', g.raised_at + 10 * 60_000, 'u-nurse', g.raised_at + 10 * 60_000);
+    for (let round = 0; round < 100; round++) {
+      for (const id of infantIds) syncFlags(sqlite, id, at, null);
+      const gaps = unanswered.all(UNIT_ID) as Array<{ id: string; infant_id: string; raised_at: number }>;
+      if (gaps.length === 0) break;
+      for (const g of gaps) {
+        action.run(randomUUID(), g.id, g.infant_id, UNIT_ID, 'checked-probe-contact', null, g.raised_at + 5 * 60_000, 'u-nurse', g.raised_at + 5 * 60_000);
+        action.run(randomUUID(), g.id, g.infant_id, UNIT_ID, 'moved-probe', 'Moved to the flank under a new cover.', g.raised_at + 10 * 60_000, 'u-nurse', g.raised_at + 10 * 60_000);
+      }
     }
   });
 

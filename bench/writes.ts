@@ -32,7 +32,17 @@ export async function benchWrites(base: string, infantIds: string[], token: stri
           return {
             ...req,
             path: `/api/infants/${infantId}/readings`,
-            body: JSON.stringify({ id: randomUUID(), unit: 'C', probe: Math.round((remote - 0.1) * 10) / 10, remote, remoteSite: 'axilla', heartRate: 140 + (n % 20) }),
+            // What the app sends for a routine check: the form carries the last control mode and set temperature forward.
+            body: JSON.stringify({
+              id: randomUUID(),
+              unit: 'C',
+              probe: Math.round((remote - 0.1) * 10) / 10,
+              remote,
+              remoteSite: 'axilla',
+              controlMode: 'skin-servo',
+              set: 36.5,
+              heartRate: 140 + (n % 20),
+            }),
           };
         },
       },

@@ -30,6 +30,9 @@ export function createApp({ db, mailer, clock, config, log = (line) => process.s
   app.context = ctx;
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
+  // API answers are Cache-Control: no-store, so an ETag is never used; computing one hashes every
+  // body (a whole unit's board) on every request. Static files carry their own (serve-static).
+  app.set('etag', false);
 
   app.use(
     helmet({

@@ -1,3 +1,4 @@
+import { prepared } from '../db/client';
 import { createHash } from 'node:crypto';
 import type Database from 'better-sqlite3';
 
@@ -27,7 +28,7 @@ export function auditHash(prevHash: string, e: { at: number; actorId: string | n
  * so the change and its audit event are stored together or not at all.
  */
 export function appendAudit(sqlite: Database.Database, input: AuditInput): void {
-  const last = sqlite.prepare('SELECT hash FROM audit_events ORDER BY id DESC LIMIT 1').get() as { hash: string } | undefined;
+  const last = prepared(sqlite, 'SELECT hash FROM audit_events ORDER BY id DESC LIMIT 1').get() as { hash: string } | undefined;
   const prevHash = last?.hash ?? GENESIS_HASH;
   const row = {
     at: input.at.getTime(),
@@ -40,8 +41,8 @@ export function appendAudit(sqlite: Database.Database, input: AuditInput): void 
     after: json(input.after),
   };
   const hash = auditHash(prevHash, row);
-  sqlite
-    .prepare(
+  prepared(
+    sqlite,
       'INSERT INTO audit_events (at, actor_id, action, entity_type, entity_id, unit_id, before, after, prev_hash, hash) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)',
     )
     .run(row.at, row.actorId, row.action, row.entityType, row.entityId, row.unitId, row.before, row.after, prevHash, hash);

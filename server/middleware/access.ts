@@ -1,3 +1,4 @@
+import { prepared } from '../../db/client';
 import { Router, type NextFunction, type Request, type RequestHandler, type Response } from 'express';
 import { can, type Permission } from '../../shared/roles';
 import type { AppContext } from '../context';
@@ -48,7 +49,7 @@ export function checkUnitScope(ctx: AppContext, req: Request): void {
   const { sqlite } = ctx.database;
   const assertMember = (unitId: string) => {
     if (auth.unitIds.includes(unitId)) return;
-    if (!sqlite.prepare('SELECT 1 FROM units WHERE id = ?').get(unitId)) throw notFound('That unit');
+    if (!prepared(sqlite, 'SELECT 1 FROM units WHERE id = ?').get(unitId)) throw notFound('That unit');
     throw forbidden('You are not part of that unit.');
   };
   if (typeof params.unitId === 'string') return assertMember(params.unitId);
@@ -57,8 +58,8 @@ export function checkUnitScope(ctx: AppContext, req: Request): void {
   if (typeof params.flagId === 'string') return assertRowUnit(sqlite, auth.unitIds, 'flags', params.flagId, 'flag');
   if (typeof params.id !== 'string') return;
   if (/\/users\/:id(\/|$)/.test(pattern)) {
-    const units = (sqlite.prepare('SELECT unit_id FROM user_units WHERE user_id = ?').all(params.id) as Array<{ unit_id: string }>).map((r) => r.unit_id);
-    const exists = sqlite.prepare('SELECT 1 FROM users WHERE id = ?').get(params.id);
+    const units = (prepared(sqlite, 'SELECT unit_id FROM user_units WHERE user_id = ?').all(params.id) as Array<{ unit_id: string }>).map((r) => r.unit_id);
+    const exists = prepared(sqlite, 'SELECT 1 FROM users WHERE id = ?').get(params.id);
     if (!exists) throw notFound('That user');
     if (units.length > 0 && !units.some((u) => auth.unitIds.includes(u))) throw forbidden('That person works in a unit you do not manage.');
     return;
@@ -68,7 +69,7 @@ export function checkUnitScope(ctx: AppContext, req: Request): void {
 }
 
 function assertRowUnit(sqlite: AppContext['database']['sqlite'], unitIds: string[], table: string, id: string, what: string): void {
-  const row = sqlite.prepare(`SELECT unit_id FROM ${table} WHERE id = ?`).get(id) as { unit_id: string | null } | undefined;
+  const row = prepared(sqlite, `SELECT unit_id FROM ${table} WHERE id = ?`).get(id) as { unit_id: string | null } | undefined;
   if (!row) throw notFound(`That ${what}`);
   if (row.unit_id && !unitIds.includes(row.unit_id)) throw forbidden('This record belongs to a unit you are not part of.');
 }

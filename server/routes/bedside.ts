@@ -1,4 +1,4 @@
-import { writeTx } from '../../db/client';
+import { prepared, writeTx } from '../../db/client';
 import { correctReadingSchema, createActionSchema, endSessionSchema, type CorrectReading, type CreateAction, type EndSession } from '../../shared/schemas/bedside';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
@@ -27,7 +27,7 @@ export function bedsideRouter(ctx: AppContext) {
   const { sqlite } = ctx.database;
 
   const evaluationBody = (infantId: string, sync: ReturnType<typeof syncFlags>) => {
-    const ids = new Map((sqlite.prepare('SELECT id, key FROM flags WHERE infant_id = ?').all(infantId) as Array<{ id: string; key: string }>).map((f) => [f.key, f.id]));
+    const ids = new Map((prepared(sqlite, 'SELECT id, key FROM flags WHERE infant_id = ?').all(infantId) as Array<{ id: string; key: string }>).map((f) => [f.key, f.id]));
     return {
       openFlags: sync.evaluation.openFlags.map((f) => openFlagJson(f, ids.get(f.key) ?? null, false)),
       nextCheck: nextCheckJson(sync.evaluation.nextCheck),
@@ -56,7 +56,7 @@ export function bedsideRouter(ctx: AppContext) {
     const already = replay();
     let row: NewReadingRow | null = null;
     if (!already) {
-      const infant = sqlite.prepare('SELECT status, admitted_at FROM infants WHERE id = ?').get(original.infant_id) as { status: string; admitted_at: number };
+      const infant = prepared(sqlite, 'SELECT status, admitted_at FROM infants WHERE id = ?').get(original.infant_id) as { status: string; admitted_at: number };
       if (infant.status !== 'admitted') throw conflict('This infant has been discharged; the chart is closed.');
       if (input.reason === 'corrected-value' && !input.values) {
         throw badRequest('Enter the corrected values.', { values: 'Enter the corrected values.' });
@@ -116,7 +116,7 @@ export function bedsideRouter(ctx: AppContext) {
 
     const result = writeTx(sqlite, () => {
       if (replay()) return { created: false, sync: syncFlags(sqlite, original.infant_id, now, auth.userId) };
-      const newer = sqlite.prepare('SELECT id FROM readings WHERE replaces_id = ?').get(readingId) as { id: string } | undefined;
+      const newer = prepared(sqlite, 'SELECT id FROM readings WHERE replaces_id = ?').get(readingId) as { id: string } | undefined;
       if (newer) {
         throw new ApiError(409, 'conflict', 'This version has already been corrected. Correct the latest version instead.', { replacesId: newer.id });
       }
@@ -144,8 +144,7 @@ export function bedsideRouter(ctx: AppContext) {
   router.post('/flags/:id/actions', allow(ctx, 'chart:write'), validate('body', createActionSchema), (req, res) => {
     const { id: flagId } = req.params as IdParams;
     const input = valid<CreateAction>(req, 'body');
-    const flag = sqlite
-      .prepare('SELECT f.id, f.infant_id, f.unit_id, f.key, f.raised_at, r.flag_id AS resolved FROM flags f LEFT JOIN flag_resolutions r ON r.flag_id = f.id WHERE f.id = ?')
+    const flag = prepared(sqlite, 'SELECT f.id, f.infant_id, f.unit_id, f.key, f.raised_at, r.flag_id AS resolved FROM flags f LEFT JOIN flag_resolutions r ON r.flag_id = f.id WHERE f.id = ?')
       .get(flagId) as { id: string; infant_id: string; unit_id: string; key: string; raised_at: number; resolved: string | null } | undefined;
     if (!flag) throw notFound('That flag');
     assertUnit(req, flag.unit_id);
@@ -153,7 +152,7 @@ export function bedsideRouter(ctx: AppContext) {
     const now = ctx.clock.now();
     const at = input.at ? new Date(input.at) : now;
     const loadAction = () =>
-      sqlite.prepare('SELECT a.*, u.name FROM actions a JOIN users u ON u.id = a.recorded_by WHERE a.id = ?').get(input.id) as
+      prepared(sqlite, 'SELECT a.*, u.name FROM actions a JOIN users u ON u.id = a.recorded_by WHERE a.id = ?').get(input.id) as
         | { id: string; flag_id: string; kind: string; note: string | null; at: number; recorded_by: string; name: string }
         | undefined;
     const same = (a: NonNullable<ReturnType<typeof loadAction>>) => {
@@ -171,8 +170,7 @@ export function bedsideRouter(ctx: AppContext) {
     const result = writeTx(sqlite, () => {
       const again = loadAction();
       if (again) return { created: false, sync: syncFlags(sqlite, flag.infant_id, now, auth.userId) };
-      sqlite
-        .prepare('INSERT INTO actions (id, flag_id, infant_id, unit_id, kind, note, at, recorded_by, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)')
+      prepared(sqlite, 'INSERT INTO actions (id, flag_id, infant_id, unit_id, kind, note, at, recorded_by, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)')
         .run(input.id, flagId, flag.infant_id, flag.unit_id, input.kind, input.note || null, at.getTime(), auth.userId, now.getTime());
       appendAudit(sqlite, {
         at: now,
@@ -214,7 +212,7 @@ export function bedsideRouter(ctx: AppContext) {
     if (endedAt.getTime() > now.getTime() + 2 * 60_000) throw badRequest('The end time is in the future.', { endedAt: 'The time cannot be in the future.' });
     if (endedAt.getTime() < session.started_at) throw badRequest('The end time is before the start.', { endedAt: 'The end is before the start.' });
     writeTx(sqlite, () => {
-      const changed = sqlite.prepare('UPDATE skin_to_skin_sessions SET ended_at = ?, ended_by = ? WHERE id = ? AND ended_at IS NULL').run(endedAt.getTime(), auth.userId, id);
+      const changed = prepared(sqlite, 'UPDATE skin_to_skin_sessions SET ended_at = ?, ended_by = ? WHERE id = ? AND ended_at IS NULL').run(endedAt.getTime(), auth.userId, id);
       if (changed.changes === 0) return;
       appendAudit(sqlite, {
         at: now,

@@ -1,4 +1,4 @@
-import { writeTx } from '../../db/client';
+import { prepared, writeTx } from '../../db/client';
 import {
   createReadingSchema,
   flowsheetQuerySchema,
@@ -51,8 +51,8 @@ export function infantsRouter(ctx: AppContext) {
       const unit = loadUnitRow(sqlite, unitId);
       if (!unit) continue;
       const slot = shiftAt(now, { dayShiftStart: unit.day_shift_start, nightShiftStart: unit.night_shift_start, timeZone: unit.time_zone });
-      const rows = sqlite
-        .prepare(
+      const rows = prepared(
+    sqlite,
           `SELECT a.infant_id, a.nurse_id FROM assignments a JOIN infants i ON i.id = a.infant_id LEFT JOIN beds b ON b.id = i.bed_id
             WHERE a.unit_id = ? AND a.shift_date = ? AND a.shift = ? AND i.status = 'admitted'
             ORDER BY a.created_at, a.id`,
@@ -71,8 +71,8 @@ export function infantsRouter(ctx: AppContext) {
     const { unitId } = valid<InfantListQuery>(req, 'query');
     if (unitId) assertUnit(req, unitId);
     const unitIds = unitId ? [unitId] : req.auth!.unitIds;
-    const rows = sqlite
-      .prepare(
+    const rows = prepared(
+    sqlite,
         `SELECT i.id FROM infants i LEFT JOIN beds b ON b.id = i.bed_id
           WHERE i.unit_id IN (SELECT value FROM json_each(?)) AND i.status = 'admitted'
           ORDER BY i.unit_id, b.sort_order, b.label, i.display_name`,
@@ -94,7 +94,7 @@ export function infantsRouter(ctx: AppContext) {
     });
     const [summary] = summarizeInfants(sqlite, [id], now);
     const last = (column: string) =>
-      (sqlite.prepare(`SELECT ${column} AS v FROM readings r WHERE infant_id = ? AND ${column} IS NOT NULL AND entered_in_error = 0 AND NOT EXISTS (SELECT 1 FROM readings y WHERE y.replaces_id = r.id) ORDER BY taken_at DESC, recorded_at DESC LIMIT 1`).get(id) as { v: unknown } | undefined)?.v ?? null;
+      (prepared(sqlite, `SELECT ${column} AS v FROM readings r WHERE infant_id = ? AND ${column} IS NOT NULL AND entered_in_error = 0 AND NOT EXISTS (SELECT 1 FROM readings y WHERE y.replaces_id = r.id) ORDER BY taken_at DESC, recorded_at DESC LIMIT 1`).get(id) as { v: unknown } | undefined)?.v ?? null;
     const detail: InfantDetail = {
       infant: summary!,
       birthAt: new Date(infant.birth_at).toISOString(),
@@ -190,7 +190,7 @@ export function infantsRouter(ctx: AppContext) {
     });
     const stored = loadReading(sqlite, input.id)!;
     const stored_ = new Map(
-      (sqlite.prepare('SELECT id, key FROM flags WHERE infant_id = ?').all(infantId) as Array<{ id: string; key: string }>).map((f) => [f.key, f.id]),
+      (prepared(sqlite, 'SELECT id, key FROM flags WHERE infant_id = ?').all(infantId) as Array<{ id: string; key: string }>).map((f) => [f.key, f.id]),
     );
     const body: CreateReadingResult = {
       reading: readingJson(stored),
@@ -224,10 +224,9 @@ export function infantsRouter(ctx: AppContext) {
     if (startedAt.getTime() > now.getTime() + 2 * 60_000) throw badRequest('The start time is in the future.', { startedAt: 'The time cannot be in the future.' });
     if (now.getTime() - startedAt.getTime() > 12 * 3_600_000) throw badRequest('The start time is too far back.', { startedAt: 'Start a session within the last 12 hours.' });
     writeTx(sqlite, () => {
-      const running = sqlite.prepare('SELECT id FROM skin_to_skin_sessions WHERE infant_id = ? AND ended_at IS NULL').get(infantId) as { id: string } | undefined;
+      const running = prepared(sqlite, 'SELECT id FROM skin_to_skin_sessions WHERE infant_id = ? AND ended_at IS NULL').get(infantId) as { id: string } | undefined;
       if (running) throw new ApiError(409, 'conflict', 'A skin-to-skin session is already running. End it before starting another.', { id: running.id });
-      sqlite
-        .prepare('INSERT INTO skin_to_skin_sessions (id, infant_id, unit_id, started_at, started_by, reference_centi, limit_centi, carer) VALUES (?, ?, ?, ?, ?, ?, ?, ?)')
+      prepared(sqlite, 'INSERT INTO skin_to_skin_sessions (id, infant_id, unit_id, started_at, started_by, reference_centi, limit_centi, carer) VALUES (?, ?, ?, ?, ?, ?, ?, ?)')
         .run(input.id, infantId, infant.unit_id, startedAt.getTime(), auth.userId, referenceCenti, input.limitCenti, input.carer || null);
       appendAudit(sqlite, {
         at: now,
@@ -245,8 +244,8 @@ export function infantsRouter(ctx: AppContext) {
 
   function orderByBed(ids: string[]): string[] {
     if (ids.length === 0) return ids;
-    const rows = sqlite
-      .prepare(
+    const rows = prepared(
+    sqlite,
         `SELECT i.id FROM infants i LEFT JOIN beds b ON b.id = i.bed_id WHERE i.id IN (SELECT value FROM json_each(?))
           ORDER BY i.unit_id, b.sort_order, b.label, i.display_name`,
       )

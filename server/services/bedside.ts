@@ -11,7 +11,7 @@ import {
 } from '../../shared/thermal';
 import { FUTURE_TOLERANCE_MINUTES, LATE_ENTRY_MINUTES } from '../../shared/schemas/bedside';
 import type { Flowsheet, FlowsheetFlag, FlowsheetReading, ReadingVersion, SessionRecord } from '../../shared/types/bedside';
-import { writeTx } from '../../db/client';
+import { prepared, writeTx } from '../../db/client';
 import { ApiError, badRequest, notFound } from '../errors';
 import { assertUnit } from '../middleware/access';
 import { chartDataVersion } from './board-cache';
@@ -27,17 +27,9 @@ export interface InfantRow {
   birth_weight_grams: number;
 }
 
-const infantSelects = new WeakMap<Database.Database, Database.Statement>();
-
 /** The infant, or 404; then 403 unless the signed-in user belongs to its unit. */
 export function loadInfantFor(sqlite: Database.Database, req: Request, infantId: string): InfantRow {
-  let select = infantSelects.get(sqlite);
-  if (!select) {
-    // Compiled once: this runs on every chart request, and a prepare costs more than the lookup.
-    select = sqlite.prepare('SELECT id, unit_id, status, admitted_at, birth_at, birth_weight_grams FROM infants WHERE id = ?');
-    infantSelects.set(sqlite, select);
-  }
-  const row = select.get(infantId) as InfantRow | undefined;
+  const row = prepared(sqlite, 'SELECT id, unit_id, status, admitted_at, birth_at, birth_weight_grams FROM infants WHERE id = ?').get(infantId) as InfantRow | undefined;
   if (!row) throw notFound('That infant');
   assertUnit(req, row.unit_id);
   return row;
@@ -172,7 +164,7 @@ export interface StoredReading {
 export const READING_SELECT = 'SELECT r.*, u.name AS recorded_by_name FROM readings r JOIN users u ON u.id = r.recorded_by';
 
 export function loadReading(sqlite: Database.Database, id: string): StoredReading | undefined {
-  return sqlite.prepare(`${READING_SELECT} WHERE r.id = ?`).get(id) as StoredReading | undefined;
+  return prepared(sqlite, `${READING_SELECT} WHERE r.id = ?`).get(id) as StoredReading | undefined;
 }
 
 export function readingJson(r: StoredReading): ReadingVersion {
@@ -230,8 +222,8 @@ export interface NewReadingRow {
 }
 
 export function insertReading(sqlite: Database.Database, r: NewReadingRow): void {
-  sqlite
-    .prepare(
+  prepared(
+    sqlite,
       `INSERT INTO readings (id, infant_id, unit_id, taken_at, recorded_at, recorded_by, probe_centi, remote_centi, remote_site, air_centi, set_centi,
          control_mode, heater_output_pct, heart_rate, heat_signs, note, entered_unit, late_reason, session_id, replaces_id, correction_reason,
          correction_note, entered_in_error, request_hash)
@@ -244,8 +236,7 @@ export function insertReading(sqlite: Database.Database, r: NewReadingRow): void
 
 /** The skin-to-skin session running at `at`, if any. */
 export function sessionAt(sqlite: Database.Database, infantId: string, at: number): string | null {
-  const row = sqlite
-    .prepare('SELECT id FROM skin_to_skin_sessions WHERE infant_id = ? AND started_at <= ? AND (ended_at IS NULL OR ended_at >= ?) ORDER BY started_at DESC LIMIT 1')
+  const row = prepared(sqlite, 'SELECT id FROM skin_to_skin_sessions WHERE infant_id = ? AND started_at <= ? AND (ended_at IS NULL OR ended_at >= ?) ORDER BY started_at DESC LIMIT 1')
     .get(infantId, at, at) as { id: string } | undefined;
   return row?.id ?? null;
 }
@@ -262,8 +253,7 @@ interface SessionRow {
 }
 
 export function loadSession(sqlite: Database.Database, id: string): (SessionRow & { infant_id: string; unit_id: string }) | undefined {
-  return sqlite
-    .prepare('SELECT s.*, u.name AS started_by_name FROM skin_to_skin_sessions s JOIN users u ON u.id = s.started_by WHERE s.id = ?')
+  return prepared(sqlite, 'SELECT s.*, u.name AS started_by_name FROM skin_to_skin_sessions s JOIN users u ON u.id = s.started_by WHERE s.id = ?')
     .get(id) as (SessionRow & { infant_id: string; unit_id: string }) | undefined;
 }
 
@@ -312,12 +302,10 @@ export function flowsheetFlags(
   now: Date,
   policy: Parameters<typeof flagEscalation>[2],
 ): FlowsheetFlag[] {
-  const stored = sqlite
-    .prepare('SELECT f.id, f.key, e.id AS escalation_id FROM flags f LEFT JOIN escalations e ON e.flag_id = f.id WHERE f.infant_id = ?')
+  const stored = prepared(sqlite, 'SELECT f.id, f.key, e.id AS escalation_id FROM flags f LEFT JOIN escalations e ON e.flag_id = f.id WHERE f.infant_id = ?')
     .all(infantId) as Array<{ id: string; key: string; escalation_id: string | null }>;
   const byKey = new Map(stored.map((s) => [s.key, s]));
-  const actions = sqlite
-    .prepare('SELECT a.id, a.flag_id, a.kind, a.note, a.at, a.recorded_by, u.name FROM actions a JOIN users u ON u.id = a.recorded_by WHERE a.infant_id = ? ORDER BY a.at, a.created_at')
+  const actions = prepared(sqlite, 'SELECT a.id, a.flag_id, a.kind, a.note, a.at, a.recorded_by, u.name FROM actions a JOIN users u ON u.id = a.recorded_by WHERE a.infant_id = ? ORDER BY a.at, a.created_at')
     .all(infantId) as Array<{ id: string; flag_id: string; kind: string; note: string | null; at: number; recorded_by: string; name: string }>;
   return evaluation.flags
     .filter((f) => f.status === 'open' || f.raisedAt.getTime() >= fromMs || (f.closedAt !== null && f.closedAt.getTime() >= fromMs))
@@ -349,8 +337,8 @@ export function flowsheetFlags(
  * window by a correction is kept exactly as when all the infant's readings were read.
  */
 function flowsheetRows(sqlite: Database.Database, infantId: string, fromMs: number): StoredReading[] {
-  return sqlite
-    .prepare(
+  return prepared(
+    sqlite,
       `${READING_SELECT} WHERE r.infant_id = @infantId AND (
          r.taken_at >= @fromMs
          OR r.id IN (SELECT c.id FROM readings c WHERE c.infant_id = @infantId AND c.replaces_id IS NOT NULL
@@ -375,8 +363,8 @@ export function buildFlowsheet(sqlite: Database.Database, infantId: string, unit
   const chains = readingChains(flowsheetRows(sqlite, infantId, fromMs)).filter(
     (c) => Date.parse(c.takenAt) >= fromMs || c.history.some((h) => Date.parse(h.takenAt) >= fromMs),
   );
-  const sessions = sqlite
-    .prepare(
+  const sessions = prepared(
+    sqlite,
       `SELECT s.*, u.name AS started_by_name FROM skin_to_skin_sessions s JOIN users u ON u.id = s.started_by
         WHERE s.infant_id = ? AND (s.ended_at IS NULL OR s.ended_at >= ?) ORDER BY s.started_at DESC`,
     )

@@ -1,3 +1,4 @@
+import { prepared } from '../../db/client';
 import type Database from 'better-sqlite3';
 import type { BoardResponse } from '../../shared/types/board';
 import { buildBoard } from './board';
@@ -32,14 +33,14 @@ const versions = new WeakMap<Database.Database, () => string>();
  */
 function versionOf(sqlite: Database.Database): () => string {
   sqlite.exec('CREATE TEMP TABLE IF NOT EXISTS board_generation (n INTEGER NOT NULL)');
-  if (!sqlite.prepare('SELECT 1 FROM temp.board_generation').get()) sqlite.exec('INSERT INTO temp.board_generation (n) VALUES (0)');
+  if (!prepared(sqlite, 'SELECT 1 FROM temp.board_generation').get()) sqlite.exec('INSERT INTO temp.board_generation (n) VALUES (0)');
   for (const table of BOARD_TABLES) {
     for (const op of ['INSERT', 'UPDATE', 'DELETE']) {
       sqlite.exec(`CREATE TEMP TRIGGER IF NOT EXISTS board_bump_${table}_${op.toLowerCase()} AFTER ${op} ON main.${table} BEGIN UPDATE board_generation SET n = n + 1; END`);
     }
   }
-  const generation = sqlite.prepare('SELECT n FROM temp.board_generation').pluck();
-  const dataVersion = sqlite.prepare('PRAGMA data_version').pluck();
+  const generation = prepared(sqlite, 'SELECT n FROM temp.board_generation').pluck();
+  const dataVersion = prepared(sqlite, 'PRAGMA data_version').pluck();
   return () => `${String(dataVersion.get())}:${String(generation.get())}`;
 }
 

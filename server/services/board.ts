@@ -1,3 +1,4 @@
+import { prepared } from '../../db/client';
 import type Database from 'better-sqlite3';
 import { shiftAt } from '../../shared/shifts';
 import type { InfantSummary } from '../../shared/types/bedside';
@@ -46,17 +47,15 @@ export function compareBeds(a: BoardBed & { sortOrder: number }, b: BoardBed & {
  * summarizeInfants), their escalations and the unit's staff.
  */
 export function buildBoard(sqlite: Database.Database, unitId: string, now: Date): BoardResponse | null {
-  const unit = sqlite.prepare('SELECT * FROM units WHERE id = ?').get(unitId) as FullUnitRow | undefined;
+  const unit = prepared(sqlite, 'SELECT * FROM units WHERE id = ?').get(unitId) as FullUnitRow | undefined;
   if (!unit) return null;
-  const beds = sqlite
-    .prepare('SELECT id, label, sort_order FROM beds WHERE unit_id = ? AND active = 1 ORDER BY sort_order, label')
+  const beds = prepared(sqlite, 'SELECT id, label, sort_order FROM beds WHERE unit_id = ? AND active = 1 ORDER BY sort_order, label')
     .all(unitId) as Array<{ id: string; label: string; sort_order: number }>;
-  const admitted = sqlite
-    .prepare("SELECT id, bed_id FROM infants WHERE unit_id = ? AND status = 'admitted' AND bed_id IS NOT NULL")
+  const admitted = prepared(sqlite, "SELECT id, bed_id FROM infants WHERE unit_id = ? AND status = 'admitted' AND bed_id IS NOT NULL")
     .all(unitId) as Array<{ id: string; bed_id: string }>;
   const summaries = new Map(summarizeInfants(sqlite, admitted.map((i) => i.id), now).map((s) => [s.id, s]));
-  const escalations = sqlite
-    .prepare(
+  const escalations = prepared(
+    sqlite,
       `SELECT e.id, e.flag_id, f.kind, f.infant_id, e.escalated_at, e.mailed_at, e.acknowledged_at, e.acknowledged_by, u.name AS ack_name, e.acknowledge_note
          FROM escalations e
          JOIN flags f ON f.id = e.flag_id
@@ -77,8 +76,8 @@ export function buildBoard(sqlite: Database.Database, unitId: string, now: Date)
     ack_name: string | null;
     acknowledge_note: string | null;
   }>;
-  const nurses = sqlite
-    .prepare(
+  const nurses = prepared(
+    sqlite,
       `SELECT u.id, u.name, u.role FROM users u JOIN user_units m ON m.user_id = u.id
         WHERE m.unit_id = ? AND u.active = 1 AND u.role IN ('nurse', 'charge') ORDER BY u.name`,
     )

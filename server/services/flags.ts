@@ -1,3 +1,4 @@
+import { prepared } from '../../db/client';
 import type Database from 'better-sqlite3';
 import { randomUUID } from 'node:crypto';
 import { evaluateInfant, resolvePolicy, type EvaluatedFlag, type HeatStressSign, type UnitPolicy } from '../../shared/thermal';
@@ -46,7 +47,7 @@ export function policyForUnit(unit: UnitRow): UnitPolicy {
 }
 
 export function loadUnitRow(sqlite: Database.Database, unitId: string): UnitRow | undefined {
-  return sqlite.prepare('SELECT * FROM units WHERE id = ?').get(unitId) as UnitRow | undefined;
+  return prepared(sqlite, 'SELECT * FROM units WHERE id = ?').get(unitId) as UnitRow | undefined;
 }
 
 /** Shared and frozen: the rules only read a reading's signs. */
@@ -87,19 +88,22 @@ export const RULE_COLUMNS =
 export function loadInfantState(sqlite: Database.Database, infantId: string, since?: number): InfantState {
   const readings = (
     since === undefined
-      ? sqlite.prepare(`SELECT ${RULE_COLUMNS} FROM readings WHERE infant_id = ? ORDER BY taken_at, recorded_at`).all(infantId)
-      : sqlite.prepare(`SELECT ${RULE_COLUMNS} FROM readings WHERE infant_id = ? AND taken_at >= ? ORDER BY taken_at, recorded_at`).all(infantId, since)
+      ? prepared(sqlite, `SELECT ${RULE_COLUMNS} FROM readings WHERE infant_id = ? ORDER BY taken_at, recorded_at`).all(infantId)
+      : prepared(sqlite, `SELECT ${RULE_COLUMNS} FROM readings WHERE infant_id = ? AND taken_at >= ? ORDER BY taken_at, recorded_at`).all(infantId, since)
   ) as ReadingRow[];
   return loadStateWith(sqlite, infantId, readings.map(toRuleReading));
 }
 
 type RuleReading = ReturnType<typeof toRuleReading>;
 
+type CachedReading = RuleReading & { rowid: number; takenMs: number; recordedMs: number };
+
 interface CachedRuleReadings {
   dataVersion: number;
   /** Every row of the infant up to this rowid is in `readings`; later rows are read fresh. */
   maxRowid: number;
-  readings: Array<RuleReading & { rowid: number }>;
+  /** In the rules' order (taken, then recorded), so a window is a binary search away. */
+  readings: CachedReading[];
   usedAt: number;
 }
 
@@ -120,43 +124,60 @@ export function primeRuleReadings(sqlite: Database.Database, infantId: string): 
     cache = new Map();
     ruleReadingCaches.set(sqlite, cache);
   }
-  const dataVersion = stmt(sqlite, 'PRAGMA data_version').pluck().get() as number;
+  const dataVersion = prepared(sqlite, 'PRAGMA data_version').pluck().get() as number;
   const now = Date.now();
   let entry = cache.get(infantId);
   if (entry && entry.dataVersion !== dataVersion) entry = undefined;
   const added = newRows(sqlite, infantId, entry?.maxRowid ?? -1);
-  const readings = entry ? entry.readings.concat(added) : added;
-  const maxRowid = readings.reduce((max, r) => Math.max(max, r.rowid), entry?.maxRowid ?? -1);
+  const readings = mergeInOrder(entry?.readings ?? [], added);
+  const maxRowid = added.reduce((max, r) => Math.max(max, r.rowid), entry?.maxRowid ?? -1);
   // Charts no one wrote to or read for ten minutes go (discharged infants).
   for (const [id, e] of cache) if (now - e.usedAt > 600_000) cache.delete(id);
   cache.set(infantId, { dataVersion, maxRowid, readings, usedAt: now });
 }
 
-function newRows(sqlite: Database.Database, infantId: string, afterRowid: number): Array<RuleReading & { rowid: number }> {
-  const rows = stmt(sqlite, `SELECT rowid AS rowid_, ${RULE_COLUMNS} FROM readings WHERE infant_id = ? AND rowid > ?`).all(infantId, afterRowid) as Array<
+function newRows(sqlite: Database.Database, infantId: string, afterRowid: number): CachedReading[] {
+  const rows = prepared(sqlite, `SELECT rowid AS rowid_, ${RULE_COLUMNS} FROM readings WHERE infant_id = ? AND rowid > ?`).all(infantId, afterRowid) as Array<
     ReadingRow & { rowid_: number }
   >;
-  return rows.map((r) => ({ ...toRuleReading(r), rowid: r.rowid_ }));
+  return rows.map((r) => ({ ...toRuleReading(r), rowid: r.rowid_, takenMs: r.taken_at, recordedMs: r.recorded_at }));
+}
+
+/** The order of the query's ORDER BY taken_at, recorded_at. */
+const inRuleOrder = (a: CachedReading, b: CachedReading) => a.takenMs - b.takenMs || a.recordedMs - b.recordedMs;
+
+/** `sorted` with `added` merged in; new readings almost always go on the end. Neither is changed. */
+function mergeInOrder(sorted: CachedReading[], added: CachedReading[]): CachedReading[] {
+  if (added.length === 0) return sorted;
+  const fresh = added.slice().sort(inRuleOrder);
+  const last = sorted[sorted.length - 1];
+  if (last === undefined || inRuleOrder(last, fresh[0]!) <= 0) return sorted.concat(fresh);
+  return sorted.concat(fresh).sort(inRuleOrder);
 }
 
 /** The rules' readings from `since` (all when undefined), from the primed cache when it is valid. */
 function ruleReadings(sqlite: Database.Database, infantId: string, since: number | undefined): RuleReading[] | null {
   const entry = ruleReadingCaches.get(sqlite)?.get(infantId);
-  if (!entry || entry.dataVersion !== (stmt(sqlite, 'PRAGMA data_version').pluck().get() as number)) return null;
+  if (!entry || entry.dataVersion !== (prepared(sqlite, 'PRAGMA data_version').pluck().get() as number)) return null;
   entry.usedAt = Date.now();
-  const all = entry.readings.concat(newRows(sqlite, infantId, entry.maxRowid));
-  const picked = since === undefined ? all : all.filter((r) => r.takenAt.getTime() >= since);
-  // The same order as the query's ORDER BY taken_at, recorded_at.
-  return picked.sort((a, b) => a.takenAt.getTime() - b.takenAt.getTime() || a.recordedAt.getTime() - b.recordedAt.getTime());
+  const all = mergeInOrder(entry.readings, newRows(sqlite, infantId, entry.maxRowid));
+  if (since === undefined) return all === entry.readings ? all.slice() : all;
+  // The first reading taken at or after `since`.
+  let lo = 0;
+  let hi = all.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (all[mid]!.takenMs < since) lo = mid + 1;
+    else hi = mid;
+  }
+  return all.slice(lo);
 }
 
 function loadStateWith(sqlite: Database.Database, infantId: string, readings: RuleReading[]): InfantState {
-  const infant = sqlite.prepare('SELECT admitted_at FROM infants WHERE id = ?').get(infantId) as { admitted_at: number } | undefined;
-  const actions = sqlite
-    .prepare('SELECT a.id, f.key AS flag_key, a.kind, a.at FROM actions a JOIN flags f ON f.id = a.flag_id WHERE a.infant_id = ? ORDER BY a.at')
+  const infant = prepared(sqlite, 'SELECT admitted_at FROM infants WHERE id = ?').get(infantId) as { admitted_at: number } | undefined;
+  const actions = prepared(sqlite, 'SELECT a.id, f.key AS flag_key, a.kind, a.at FROM actions a JOIN flags f ON f.id = a.flag_id WHERE a.infant_id = ? ORDER BY a.at')
     .all(infantId) as Array<{ id: string; flag_key: string; kind: string; at: number }>;
-  const sessions = sqlite
-    .prepare('SELECT id, started_at, ended_at, reference_centi, limit_centi FROM skin_to_skin_sessions WHERE infant_id = ? ORDER BY started_at')
+  const sessions = prepared(sqlite, 'SELECT id, started_at, ended_at, reference_centi, limit_centi FROM skin_to_skin_sessions WHERE infant_id = ? ORDER BY started_at')
     .all(infantId) as Array<{ id: string; started_at: number; ended_at: number | null; reference_centi: number; limit_centi: number }>;
   return {
     readings,
@@ -195,22 +216,6 @@ export interface SyncWindow {
   excludeReadingId?: string;
 }
 
-/** Statements are compiled once per connection: syncFlags runs on every write and flowsheet. */
-const statementCache = new WeakMap<Database.Database, Map<string, Database.Statement>>();
-function stmt(sqlite: Database.Database, sql: string): Database.Statement {
-  let cache = statementCache.get(sqlite);
-  if (!cache) {
-    cache = new Map();
-    statementCache.set(sqlite, cache);
-  }
-  let s = cache.get(sql);
-  if (!s) {
-    s = sqlite.prepare(sql);
-    cache.set(sql, s);
-  }
-  return s;
-}
-
 /**
  * Where the rules can start instead of admission, giving the same flags from there on as the
  * whole stay: a remote-site check R such that
@@ -223,17 +228,18 @@ function stmt(sqlite: Database.Database, sql: string): Database.Statement {
  * - no correction chain of the infant has a version before R (a correction can change history
  *   in ways the stored flags never show, since they are not rewritten; such infants keep the
  *   whole-stay evaluation back to their first correction);
- * - no other reading shares R's time (R must be the first reading the window's rules see).
+ * - no other reading shares R's time (R must be the first reading the window's rules see); when
+ *   one does, the search goes on from the reading before.
  * Null when there is none: evaluate the whole stay, as before.
  */
 function restartPoint(sqlite: Database.Database, infantId: string, admittedAt: number, window: SyncWindow): number | null {
-  const firstCorrection = stmt(
+  const firstCorrection = prepared(
     sqlite,
     `SELECT MIN(MIN(y.taken_at, x.taken_at)) AS at FROM readings y JOIN readings x ON x.id = y.replaces_id
       WHERE y.infant_id = ? AND y.replaces_id IS NOT NULL`,
   ).get(infantId) as { at: number | null };
   let before = Math.min(window.from, firstCorrection.at === null ? Number.POSITIVE_INFINITY : firstCorrection.at - 1);
-  const candidate = stmt(
+  const candidate = prepared(
     sqlite,
     `SELECT r.id, r.taken_at FROM readings r
       WHERE r.infant_id = @infantId AND r.taken_at <= @before AND r.taken_at >= @admittedAt AND r.taken_at <= r.recorded_at
@@ -242,20 +248,25 @@ function restartPoint(sqlite: Database.Database, infantId: string, admittedAt: n
         AND NOT EXISTS (SELECT 1 FROM readings y WHERE y.replaces_id = r.id)
       ORDER BY r.taken_at DESC LIMIT 1`,
   );
-  const blocker = stmt(
+  const blocker = prepared(
     sqlite,
     `SELECT MIN(f.raised_at) AS at FROM flags f LEFT JOIN flag_resolutions x ON x.flag_id = f.id
       WHERE f.infant_id = @infantId AND f.raised_at < @at
         AND (x.flag_id IS NULL OR x.closed_at > @at OR (x.closed_at = @at AND x.closed_by_reading_id IS NOT @id))`,
   );
-  const sameTime = stmt(sqlite, 'SELECT 1 FROM readings WHERE infant_id = ? AND taken_at = ? AND id <> ? LIMIT 1');
+  const sameTime = prepared(sqlite, 'SELECT 1 FROM readings WHERE infant_id = ? AND taken_at = ? AND id <> ? LIMIT 1');
   // A few steps back past flags that were still open; a chart with flags open for most of the
   // stay is rare and is simply evaluated whole.
   for (let step = 0; step < 4; step++) {
     const r = candidate.get({ infantId, before, admittedAt, exclude: window.excludeReadingId ?? null }) as { id: string; taken_at: number } | undefined;
     if (!r) return null;
     const open = blocker.get({ infantId, at: r.taken_at, id: r.id }) as { at: number | null };
-    if (open.at === null) return sameTime.get(infantId, r.taken_at, r.id) ? null : r.taken_at;
+    if (open.at === null) {
+      if (!sameTime.get(infantId, r.taken_at, r.id)) return r.taken_at;
+      // Another reading shares R's time (two saves in the same millisecond): try the one before.
+      before = r.taken_at - 1;
+      continue;
+    }
     // The reading that raised the oldest such flag may itself be the restart point.
     before = open.at;
   }
@@ -272,11 +283,11 @@ function restartPoint(sqlite: Database.Database, infantId: string, admittedAt: n
  * few readings' work instead of the whole stay's, with the same flags from the window on.
  */
 export function syncFlags(sqlite: Database.Database, infantId: string, now: Date, actorId: string | null, window?: SyncWindow): SyncResult {
-  const infant = stmt(sqlite, 'SELECT unit_id, status, admitted_at FROM infants WHERE id = ?').get(infantId) as
+  const infant = prepared(sqlite, 'SELECT unit_id, status, admitted_at FROM infants WHERE id = ?').get(infantId) as
     | { unit_id: string; status: string; admitted_at: number }
     | undefined;
   if (!infant) throw new Error(`No infant ${infantId}`);
-  const unit = stmt(sqlite, 'SELECT * FROM units WHERE id = ?').get(infant.unit_id) as UnitRow;
+  const unit = prepared(sqlite, 'SELECT * FROM units WHERE id = ?').get(infant.unit_id) as UnitRow;
   const windowFrom = window ? restartPoint(sqlite, infantId, infant.admitted_at, { ...window, from: Math.min(window.from, now.getTime()) }) : null;
   let state: InfantState;
   const since = windowFrom ?? undefined;
@@ -290,18 +301,18 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
     state = { ...full, admittedAt: undefined };
   }
   const evaluation = evaluateInfant(state, now, policyForUnit(unit));
-  const stored = stmt(sqlite, 'SELECT f.id, f.key, f.raised_at, r.flag_id AS resolved FROM flags f LEFT JOIN flag_resolutions r ON r.flag_id = f.id WHERE f.infant_id = ?').all(
+  const stored = prepared(sqlite, 'SELECT f.id, f.key, f.raised_at, r.flag_id AS resolved FROM flags f LEFT JOIN flag_resolutions r ON r.flag_id = f.id WHERE f.infant_id = ?').all(
     infantId,
   ) as Array<{ id: string; key: string; raised_at: number; resolved: string | null }>;
   const byKey = new Map(stored.map((s) => [s.key, s]));
   const seen = new Set<string>();
   const raised: string[] = [];
   const closed: string[] = [];
-  const insertFlag = stmt(
+  const insertFlag = prepared(
     sqlite,
     'INSERT INTO flags (id, infant_id, unit_id, key, kind, raised_at, raised_by_reading_id, detail, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)',
   );
-  const insertResolution = stmt(sqlite, 'INSERT INTO flag_resolutions (flag_id, closed_at, closed_by_reading_id, how, created_at) VALUES (?, ?, ?, ?, ?)');
+  const insertResolution = prepared(sqlite, 'INSERT INTO flag_resolutions (flag_id, closed_at, closed_by_reading_id, how, created_at) VALUES (?, ?, ?, ?, ?)');
 
   const close = (flagId: string, at: Date, readingId: string | null, how: string, key: string) => {
     insertResolution.run(flagId, at.getTime(), readingId, how, now.getTime());

@@ -1,3 +1,4 @@
+import { prepared } from '../../db/client';
 import type Database from 'better-sqlite3';
 import { evaluateInfant, flagEscalation, type EvaluatedFlag, type InfantEvaluation, type UnitPolicy } from '../../shared/thermal';
 import { shiftAt } from '../../shared/shifts';
@@ -79,8 +80,8 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
   const ids = JSON.stringify([...new Set(infantIds)]);
   const since = now.getTime() - SUMMARY_WINDOW_HOURS * 3_600_000;
 
-  const infants = sqlite
-    .prepare(
+  const infants = prepared(
+    sqlite,
       `SELECT i.id, i.unit_id, i.bed_id, b.label AS bed_label, i.display_name, i.birth_at, i.gestation_weeks, i.gestation_days,
               i.weight_grams, i.heat_source, i.admitted_at
          FROM infants i LEFT JOIN beds b ON b.id = i.bed_id
@@ -90,13 +91,12 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
   if (infants.length === 0) return [];
 
   const unitIds = JSON.stringify([...new Set(infants.map((i) => i.unit_id))]);
-  const units = sqlite.prepare('SELECT * FROM units WHERE id IN (SELECT value FROM json_each(?))').all(unitIds) as UnitRow[];
+  const units = prepared(sqlite, 'SELECT * FROM units WHERE id IN (SELECT value FROM json_each(?))').all(unitIds) as UnitRow[];
   const policies = new Map<string, UnitPolicy>(units.map((u) => [u.id, policyForUnit(u)]));
 
   // Correction chains are rare: the version-chain walk (a recursive query, two thirds of a board
   // build when it ran for every unit) is needed only when one of these infants has one.
-  const corrected = sqlite
-    .prepare('SELECT 1 FROM readings INDEXED BY readings_replaces WHERE replaces_id IS NOT NULL AND infant_id IN (SELECT value FROM json_each(?)) LIMIT 1')
+  const corrected = prepared(sqlite, 'SELECT 1 FROM readings INDEXED BY readings_replaces WHERE replaces_id IS NOT NULL AND infant_id IN (SELECT value FROM json_each(?)) LIMIT 1')
     .get(ids);
   const picked = `
          picked(id) AS (
@@ -109,8 +109,8 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
              FROM ids
             WHERE NOT EXISTS (SELECT 1 FROM readings z WHERE z.infant_id = ids.id AND z.remote_centi IS NOT NULL AND z.taken_at >= @since)
          )`;
-  const readings = sqlite
-    .prepare(
+  const readings = prepared(
+    sqlite,
       corrected
         ? `WITH RECURSIVE
          ids(id) AS (SELECT value FROM json_each(@ids)),${picked},
@@ -129,22 +129,22 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
     )
     .all({ ids, since }) as ReadingRow[];
 
-  const actions = sqlite
-    .prepare(
+  const actions = prepared(
+    sqlite,
       `SELECT a.id, a.infant_id, f.key AS flag_key, a.kind, a.at FROM actions a JOIN flags f ON f.id = a.flag_id
         WHERE a.infant_id IN (SELECT value FROM json_each(?)) AND a.at >= ? ORDER BY a.at`,
     )
     .all(ids, since) as Array<{ id: string; infant_id: string; flag_key: string; kind: string; at: number }>;
 
-  const sessions = sqlite
-    .prepare(
+  const sessions = prepared(
+    sqlite,
       `SELECT id, infant_id, started_at, ended_at, reference_centi, limit_centi FROM skin_to_skin_sessions
         WHERE infant_id IN (SELECT value FROM json_each(?)) AND (ended_at IS NULL OR ended_at >= ?) ORDER BY started_at`,
     )
     .all(ids, since) as Array<{ id: string; infant_id: string; started_at: number; ended_at: number | null; reference_centi: number; limit_centi: number }>;
 
-  const storedFlags = sqlite
-    .prepare(
+  const storedFlags = prepared(
+    sqlite,
       `SELECT f.id, f.infant_id, f.key, e.id AS escalation_id FROM flags f
          LEFT JOIN flag_resolutions r ON r.flag_id = f.id
          LEFT JOIN escalations e ON e.flag_id = f.id
@@ -152,8 +152,8 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
     )
     .all(ids) as Array<{ id: string; infant_id: string; key: string; escalation_id: string | null }>;
 
-  const assignments = sqlite
-    .prepare(
+  const assignments = prepared(
+    sqlite,
       `SELECT a.infant_id, a.shift_date, a.shift, a.created_at, u.id AS nurse_id, u.name AS nurse_name
          FROM assignments a JOIN users u ON u.id = a.nurse_id
         WHERE a.infant_id IN (SELECT value FROM json_each(?)) AND a.shift_date >= ?
