@@ -1,3 +1,5 @@
+import { Platform, type TextStyle } from 'react-native';
+
 /**
  * Warmfold's look: warm paper by day, a low-glare slate at night. Semantic names only; the
  * palette below them is private. Every status colour is paired with a word and an icon.
@@ -141,22 +143,33 @@ export const spacing = { xxs: 2, xs: 4, sm: 8, md: 12, lg: 16, xl: 24, xxl: 32, 
 
 export const radii = { sm: 6, md: 10, lg: 16, pill: 999 } as const;
 
+/**
+ * On the web, Inter is one family with four weights (declared in use-app-fonts.web.ts), backed
+ * by the system's sans-serif at the same weight until Inter is at hand.
+ */
+export const WEB_FONT_FAMILY = 'Inter, system-ui, -apple-system, "Segoe UI", Roboto, "Helvetica Neue", Arial, sans-serif';
+
+type Face = { fontFamily: string; fontWeight?: TextStyle['fontWeight'] };
+const face = (weight: '400' | '500' | '600' | '700', nativeName: string): Face =>
+  Platform.OS === 'web' ? { fontFamily: WEB_FONT_FAMILY, fontWeight: weight } : { fontFamily: nativeName };
+
+/** Spread into a text style: `{ ...fonts.bold }`. */
 export const fonts = {
-  regular: 'Inter_400Regular',
-  medium: 'Inter_500Medium',
-  semibold: 'Inter_600SemiBold',
-  bold: 'Inter_700Bold',
-} as const;
+  regular: face('400', 'Inter_400Regular'),
+  medium: face('500', 'Inter_500Medium'),
+  semibold: face('600', 'Inter_600SemiBold'),
+  bold: face('700', 'Inter_700Bold'),
+};
 
 export const type = {
-  caption: { fontSize: 13, lineHeight: 18, fontFamily: fonts.medium },
-  body: { fontSize: 16, lineHeight: 24, fontFamily: fonts.regular },
-  bodyStrong: { fontSize: 16, lineHeight: 24, fontFamily: fonts.semibold },
-  label: { fontSize: 15, lineHeight: 20, fontFamily: fonts.semibold },
-  title: { fontSize: 20, lineHeight: 28, fontFamily: fonts.semibold },
-  heading: { fontSize: 26, lineHeight: 32, fontFamily: fonts.bold },
+  caption: { fontSize: 13, lineHeight: 18, ...fonts.medium },
+  body: { fontSize: 16, lineHeight: 24, ...fonts.regular },
+  bodyStrong: { fontSize: 16, lineHeight: 24, ...fonts.semibold },
+  label: { fontSize: 15, lineHeight: 20, ...fonts.semibold },
+  title: { fontSize: 20, lineHeight: 28, ...fonts.semibold },
+  heading: { fontSize: 26, lineHeight: 32, ...fonts.bold },
   /** Values read from across a room on the board. */
-  display: { fontSize: 34, lineHeight: 40, fontFamily: fonts.bold },
+  display: { fontSize: 34, lineHeight: 40, ...fonts.bold },
 } as const;
 
 /** Minimum touch target, in points (WCAG 2.5.5 asks 44). */
