@@ -20,6 +20,17 @@ interface AuthState {
 
 const AuthContext = createContext<AuthState | null>(null);
 
+/** What a 401 does; the provider sets it once mounted. */
+let whenUnauthorized: () => void = () => {};
+
+// Configured when this module loads, not in the provider's effect: React runs a screen's effects
+// (and so its first queries) before its parents', so a page opened with a stored session used to
+// send its first request without the token, get a 401 and sign the nurse out at random.
+configureApi({
+  token: () => storage.get(TOKEN_KEY),
+  onUnauthorized: () => whenUnauthorized(),
+});
+
 function readStoredUser(): SessionUser | null {
   const raw = storage.get(USER_KEY);
   if (!raw) return null;
@@ -44,13 +55,10 @@ export function AuthProvider({ children }: { children: ReactNode }) {
   }, [queryClient]);
 
   useEffect(() => {
-    configureApi({
-      token: () => storage.get(TOKEN_KEY),
-      onUnauthorized: () => {
-        if (storage.get(TOKEN_KEY)) setEndedMessage('Your session ended. Please sign in again.');
-        clear();
-      },
-    });
+    whenUnauthorized = () => {
+      if (storage.get(TOKEN_KEY)) setEndedMessage('Your session ended. Please sign in again.');
+      clear();
+    };
     if (!storage.get(TOKEN_KEY)) {
       setReady(true);
       return;

@@ -1,0 +1,80 @@
+import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { render, waitFor } from '@testing-library/react-native';
+import { useEffect, useState } from 'react';
+import { Text } from 'react-native';
+import { api } from '@/components/api/client';
+import { storage } from '@/components/api/storage';
+import { AuthProvider, useAuth } from '@/components/auth/auth-provider';
+
+const USER = { id: 'u-nurse', name: 'Nia Okafor', email: 'nia.okafor@warmfold.test', role: 'nurse', unitIds: ['unit-north'], theme: 'system', temperatureUnit: 'C' };
+
+/** A server that answers only requests carrying the stored session's token, as the real one does. */
+function serverExpecting(token: string) {
+  const seen: Array<{ url: string; authorization: string | null }> = [];
+  const fetchMock = jest.fn(async (url: string, init?: { headers?: Record<string, string> }) => {
+    const authorization = init?.headers?.Authorization ?? null;
+    seen.push({ url, authorization });
+    const ok = authorization === `Bearer ${token}`;
+    const json = !ok ? { error: { code: 'unauthorized', message: 'Your session has ended. Please sign in again.' } } : url.endsWith('/auth/me') ? { user: USER } : { infants: [] };
+    return { ok, status: ok ? 200 : 401, headers: { get: () => null }, json: async () => json } as unknown as Response;
+  });
+  return { seen, fetchMock };
+}
+
+/** A screen that asks for its data as soon as it mounts: its effect runs before the provider's. */
+function Screen() {
+  const { user, endedMessage } = useAuth();
+  const [loaded, setLoaded] = useState(false);
+  useEffect(() => {
+    api('/me/infants').then(
+      () => setLoaded(true),
+      () => undefined,
+    );
+  }, []);
+  return (
+    <Text>
+      {user ? `signed in as ${user.name}` : 'signed out'} {loaded ? 'loaded' : ''} {endedMessage ?? ''}
+    </Text>
+  );
+}
+
+describe('AuthProvider', () => {
+  afterEach(() => {
+    storage.remove('warmfold.token');
+    storage.remove('warmfold.user');
+  });
+
+  it("sends the stored session's token with a screen's first request, so opening a page never signs the nurse out", async () => {
+    storage.set('warmfold.token', 'stored-token');
+    storage.set('warmfold.user', JSON.stringify(USER));
+    const server = serverExpecting('stored-token');
+    globalThis.fetch = server.fetchMock as unknown as typeof fetch;
+    const screen = render(
+      <QueryClientProvider client={new QueryClient()}>
+        <AuthProvider>
+          <Screen />
+        </AuthProvider>
+      </QueryClientProvider>,
+    );
+    await screen.findByText(/loaded/);
+    await waitFor(() => expect(server.seen.some((r) => r.url.endsWith('/auth/me'))).toBe(true));
+    expect(server.seen.map((r) => r.authorization)).toEqual(server.seen.map(() => 'Bearer stored-token'));
+    expect(screen.getByText(/signed in as Nia Okafor/)).toBeTruthy();
+    expect(storage.get('warmfold.token')).toBe('stored-token');
+  });
+
+  it('signs out and says why when the server ends the session', async () => {
+    storage.set('warmfold.token', 'revoked-token');
+    storage.set('warmfold.user', JSON.stringify(USER));
+    globalThis.fetch = serverExpecting('another-token').fetchMock as unknown as typeof fetch;
+    const screen = render(
+      <QueryClientProvider client={new QueryClient()}>
+        <AuthProvider>
+          <Screen />
+        </AuthProvider>
+      </QueryClientProvider>,
+    );
+    await screen.findByText(/signed out.*Your session ended/);
+    expect(storage.get('warmfold.token')).toBeNull();
+  });
+});
