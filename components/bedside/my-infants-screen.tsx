@@ -8,7 +8,7 @@ import { useTheme } from '@/components/theme/theme-provider';
 import { WIDE_BREAKPOINT } from '@/components/theme/theme';
 import { Card } from '@/components/ui/card';
 import { Screen } from '@/components/ui/screen';
-import { Segmented } from '@/components/ui/segmented';
+import { ScopeChoice, type Scope } from '@/components/ui/scope-choice';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/state-view';
 import { StatusBadge } from '@/components/ui/status-badge';
 import { Text } from '@/components/ui/text';
@@ -18,25 +18,15 @@ import { usePendingReadings } from './pending-readings';
 import { TeachingNotesCard } from './teaching-notes-card';
 import { useNow } from './use-now';
 
-type Tab = 'mine' | 'unit';
-
 export function MyInfantsScreen() {
-  const [tab, setTab] = useState<Tab>('mine');
+  const [tab, setTab] = useState<Scope>('mine');
   const mine = useMyInfantsQuery();
   const unit = useUnitInfantsQuery();
   const query = tab === 'mine' ? mine : unit;
   const wide = useWindowDimensions().width >= WIDE_BREAKPOINT;
   return (
     <Screen title="My infants" subtitle="This shift" refreshing={query.isRefetching} onRefresh={() => void query.refetch()}>
-      <Segmented
-        label="Show"
-        value={tab}
-        options={[
-          { value: 'mine', label: 'My infants' },
-          { value: 'unit', label: 'Whole unit' },
-        ]}
-        onChange={setTab}
-      />
+      <ScopeChoice label="Show" value={tab} onChange={setTab} />
       {query.isError && !query.data ? (
         <ErrorState error={query.error} onRetry={() => void query.refetch()} />
       ) : query.isPending ? (

@@ -1,10 +1,12 @@
 import { useMemo, useState } from 'react';
+import { useRouter } from 'expo-router';
 import { StyleSheet, View, useWindowDimensions } from 'react-native';
 import { problemOf } from '@/components/api/client';
 import { useUser } from '@/components/auth/auth-provider';
 import { useAcknowledgeEscalationMutation, useBoardQuery } from '@/components/queries/board';
 import { WIDE_BREAKPOINT } from '@/components/theme/theme';
 import { useNightScreen } from '@/components/theme/theme-provider';
+import { Button } from '@/components/ui/button';
 import { Caution } from '@/components/ui/caution';
 import { Screen } from '@/components/ui/screen';
 import { Segmented } from '@/components/ui/segmented';
@@ -54,6 +56,7 @@ function BoardBody({ query }: { query: ReturnType<typeof useBoardQuery> }) {
   const acknowledge = useAcknowledgeEscalationMutation();
   const nowMs = useNow(query.data?.serverTime);
   const canManage = can(user.role, 'unit:manage');
+  const router = useRouter();
 
   if (user.unitIds.length === 0) return <EmptyState title="No unit" message="You are not a member of any unit yet." />;
   if (query.error && !query.data) return <ErrorState error={query.error} onRetry={() => void query.refetch()} />;
@@ -72,6 +75,7 @@ function BoardBody({ query }: { query: ReturnType<typeof useBoardQuery> }) {
       subtitle={`${board.unit.name} · ${board.shift.shift === 'day' ? 'Day' : 'Night'} shift · ${attention} ${attention === 1 ? 'bed needs' : 'beds need'} attention · updated ${clockTime(board.serverTime, board.unit.timeZone, user.clock)}`}
       refreshing={query.isRefetching}
       onRefresh={() => void query.refetch()}
+      actions={canManage ? <Button label="Import readings" variant="secondary" icon="list" compact onPress={() => router.push('/readings-import')} /> : undefined}
     >
       <View style={[styles.filters, wide && styles.filtersWide]}>
         <Segmented label="Show" value={status} onChange={setStatus} options={STATUS_OPTIONS} />

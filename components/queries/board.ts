@@ -14,6 +14,7 @@ export const boardKeys = {
   unit: (unitId: string) => [BOARD_RQKEY_ROOT, unitId] as const,
   handover: (infantId: string) => [HANDOVER_RQKEY_ROOT, 'infant', infantId] as const,
   myHandover: () => [HANDOVER_RQKEY_ROOT, 'mine'] as const,
+  unitHandover: (unitId: string) => [HANDOVER_RQKEY_ROOT, 'unit', unitId] as const,
   mailbox: () => [MAILBOX_RQKEY_ROOT] as const,
 };
 
@@ -101,6 +102,16 @@ export function useMyHandoverQuery() {
   return useQuery({
     queryKey: boardKeys.myHandover(),
     queryFn: ({ signal }) => api<HandoverResponse>('/nurses/me/handover', { signal }),
+    staleTime: STALE.live,
+  });
+}
+
+/** The whole unit's handover (charge nurse); idle until `unitId` is known. */
+export function useUnitHandoverQuery(unitId: string | null) {
+  return useQuery({
+    queryKey: boardKeys.unitHandover(unitId ?? ''),
+    queryFn: ({ signal }) => api<HandoverResponse>(`/units/${enc(unitId!)}/handover`, { signal }),
+    enabled: unitId !== null,
     staleTime: STALE.live,
   });
 }

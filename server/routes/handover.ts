@@ -5,9 +5,9 @@ import type { AppContext } from '../context';
 import { notFound } from '../errors';
 import { allow, assertUnit, secureRouter } from '../middleware/access';
 import { loadInfant } from '../services/admissions';
-import { buildHandover, handoverCsv, myInfantIds } from '../services/handover';
+import { buildHandover, handoverCsv, myInfantIds, unitInfantIds } from '../services/handover';
 
-/** The shift handover: one infant, all of mine, and one infant's readings as CSV. */
+/** The shift handover: one infant, all of mine, the whole unit, and one infant's readings as CSV. */
 export function handoverRouter(ctx: AppContext) {
   const router = secureRouter();
   const { sqlite } = ctx.database;
@@ -24,6 +24,21 @@ export function handoverRouter(ctx: AppContext) {
     infants.sort((a, b) => (a.infant.bedLabel ?? '').localeCompare(b.infant.bedLabel ?? ''));
     writeTx(sqlite, () => {
       for (const h of infants) audit(auth.userId, h.infant.id, loadInfant(ctx, h.infant.id).unit_id, 'handover-read');
+    });
+    const body: HandoverResponse = { generatedAt: now.toISOString(), infants };
+    res.json(body);
+  });
+
+  /** The charge nurse's handover to the next charge nurse: every admitted infant of the unit, by bed. */
+  router.get('/units/:unitId/handover', allow(ctx, 'unit:manage'), (req, res) => {
+    const auth = req.auth!;
+    const { unitId } = req.params as { unitId: string };
+    const now = ctx.clock.now();
+    const infants = unitInfantIds(ctx, unitId)
+      .map((id) => buildHandover(ctx, id, now))
+      .filter((h) => h !== null);
+    writeTx(sqlite, () => {
+      for (const h of infants) audit(auth.userId, h.infant.id, unitId, 'handover-read');
     });
     const body: HandoverResponse = { generatedAt: now.toISOString(), infants };
     res.json(body);

@@ -171,6 +171,19 @@ export function myInfantIds(ctx: AppContext, userId: string, unitIds: string[], 
   return ids;
 }
 
+/** Every admitted infant of the unit, in bed order (infants without a bed last). */
+export function unitInfantIds(ctx: AppContext, unitId: string): string[] {
+  return (
+    ctx.database.sqlite
+      .prepare(
+        `SELECT i.id FROM infants i LEFT JOIN beds b ON b.id = i.bed_id
+          WHERE i.unit_id = ? AND i.status = 'admitted'
+          ORDER BY b.label IS NULL, b.label, i.display_name`,
+      )
+      .all(unitId) as Array<{ id: string }>
+  ).map((r) => r.id);
+}
+
 const temp = (centi: number | null, unit: TempUnit) => (centi === null ? '' : fromCentiCelsius(centi, unit).toFixed(unit === 'C' ? 2 : 1));
 
 /** The handover's readings as CSV, one row per current reading, in the user's temperature unit. */

@@ -97,6 +97,8 @@ async function screenCases(): Promise<{ cases: ScreenCase[]; skipped: string[] }
   for (const role of ['charge', 'educator', 'admin'] as const) cases.push({ name: `settings-${role}`, path: '/settings', role });
   // The nurse also reads the board on a phone.
   cases.push({ name: 'board-nurse', path: '/board', role: 'nurse' });
+  // The charge nurse's handover offers the whole unit as well as her own infants.
+  cases.push({ name: 'handover-charge', path: '/handover', role: 'charge' });
   return { cases, skipped };
 }
 

@@ -88,4 +88,22 @@ describe('the charge nurse at the unit board (1440x900)', () => {
     assert.ok(pdf.length > 10_000, 'the PDF has content');
     await page.context().close();
   });
+
+  it("hands the whole unit over: the charge nurse chooses \"Whole unit\" and sees every admitted infant by bed", async () => {
+    const page = await newPage(browser, WIDE);
+    await signIn(page, ACCOUNTS.charge);
+    await page.waitForURL((url) => url.pathname === '/board');
+    const charge = await apiToken(ACCOUNTS.charge);
+    const { infants } = await api<{ infants: Array<{ infant: { displayName: string; bedLabel: string } }> }>('/units/unit-north/handover', charge);
+    assert.ok(infants.length > 2, 'the demo unit has several infants admitted');
+    await page.goto(`${BASE_URL}/handover`);
+    await page.getByRole('heading', { name: 'My handover', level: 1 }).waitFor();
+    await page.getByRole('radio', { name: 'Whole unit' }).click();
+    await page.getByRole('heading', { name: 'Unit handover', level: 1 }).waitFor();
+    for (const h of infants) await page.getByText(h.infant.displayName, { exact: false }).first().waitFor();
+    await page.emulateMedia({ media: 'print' });
+    assert.equal(await page.getByRole('radio', { name: 'Whole unit' }).isVisible(), false, 'the choice is hidden in print');
+    await shot(page, 'handover-unit-wide');
+    await page.context().close();
+  });
 });

@@ -76,10 +76,22 @@ describe('keyboard alone (Chromium)', () => {
     await page.getByRole('heading', { name: 'Unit board', level: 1 }).waitFor();
     await page.locator('[data-testid^="bed-"]').first().waitFor();
 
-    // A filter: Tab to "Needs attention" and choose it with the keyboard.
-    await tabTo(page, (f) => f.role === 'radio' && f.name === 'Needs attention', 'the "Needs attention" filter');
-    await page.keyboard.press('Space');
-    await page.getByRole('radio', { name: 'Needs attention' }).and(page.locator('[aria-checked="true"]')).waitFor();
+    // The filters are one radio group: Tab reaches it once, at the chosen filter, and the arrow
+    // keys move the choice (and the focus with it) to "Needs attention".
+    const first = await tabTo(page, (f) => f.role === 'radio', 'the board filters');
+    assert.equal(await page.getByRole('radio', { name: first.name }).getAttribute('aria-checked'), 'true', 'Tab lands on the chosen filter');
+    const needsAttention = page.getByRole('radio', { name: 'Needs attention' });
+    for (let i = 0; i < 8 && (await needsAttention.getAttribute('aria-checked')) !== 'true'; i++) await page.keyboard.press('ArrowRight');
+    await needsAttention.and(page.locator('[aria-checked="true"]')).waitFor();
+    assert.equal(await needsAttention.evaluate((el) => el === document.activeElement), true, 'the focus follows the choice');
+    // One Tab leaves the group: on to the next group ("Nurse"), at its chosen option.
+    await page.keyboard.press('Tab');
+    const next = await page.evaluate(() => ({
+      group: document.activeElement?.closest('[role="radiogroup"]')?.getAttribute('aria-label') ?? null,
+      checked: document.activeElement?.getAttribute('aria-checked') ?? null,
+    }));
+    assert.notEqual(next.group, 'Show', 'one Tab leaves the filter group');
+    if (next.group !== null) assert.equal(next.checked, 'true', 'Tab lands on the chosen option of the next group');
     const shown = await page.locator('[data-testid^="bed-"]').count();
     assert.ok(shown > 0, 'the beds that need attention are shown');
     await shot(page, 'keyboard-board-filter');

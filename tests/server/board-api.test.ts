@@ -292,6 +292,24 @@ describe('handover', () => {
     expect(res.body.infants.map((h: { infant: { bedLabel: string } }) => h.infant.bedLabel)).toEqual(['N03', 'N04']);
   });
 
+  it("gives the charge nurse the whole unit's handover, bed by bed, and refuses anyone else", async () => {
+    const res = await request(env.app).get('/api/units/unit-north/handover').set(auth('charge'));
+    expect(res.status).toBe(200);
+    const beds = res.body.infants.map((h: { infant: { bedLabel: string } }) => h.infant.bedLabel);
+    const admitted = env.database.sqlite
+      .prepare("SELECT b.label FROM infants i JOIN beds b ON b.id = i.bed_id WHERE i.unit_id = 'unit-north' AND i.status = 'admitted' ORDER BY b.label")
+      .all()
+      .map((r) => (r as { label: string }).label);
+    expect(admitted.length).toBeGreaterThan(2);
+    expect(beds).toEqual(admitted);
+    const before = count(env.database, 'audit_events');
+    await request(env.app).get('/api/units/unit-north/handover').set(auth('charge'));
+    expect(count(env.database, 'audit_events') - before).toBe(admitted.length);
+    expect((await request(env.app).get('/api/units/unit-north/handover').set(auth('nurse'))).status).toBe(403);
+    expect((await request(env.app).get('/api/units/unit-north/handover').set(auth('southCharge'))).status).toBe(403);
+    expect((await request(env.app).get('/api/units/unit-north/handover')).status).toBe(401);
+  });
+
   it('downloads the same readings as CSV', async () => {
     const json = await request(env.app).get('/api/infants/inf-brightwater/handover').set(auth('nurse'));
     const res = await request(env.app).get('/api/infants/inf-brightwater/handover.csv').set(auth('nurse'));
