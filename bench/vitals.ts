@@ -32,18 +32,33 @@ export interface VitalsRun {
   flowsheet: PageSample;
   /** The slowest interaction while opening the record form, typing and saving, in ms. */
   inp: number | null;
+  /** Which interaction that was and where its time went (web-vitals' attribution). */
+  inpWhat: string | null;
 }
 
 const COLLECTOR = `
-  window.__vitals = { lcp: null, cls: 0, inp: null, maxEvent: 0 };
+  window.__vitals = { lcp: null, cls: 0, inp: null, inpWhat: null, maxEvent: 0, slowestEvent: null };
   webVitals.onLCP((m) => { window.__vitals.lcp = m.value; }, { reportAllChanges: true });
   webVitals.onCLS((m) => { window.__vitals.cls = m.value; }, { reportAllChanges: true });
-  webVitals.onINP((m) => { window.__vitals.inp = Math.max(window.__vitals.inp || 0, m.value); }, { reportAllChanges: true });
+  // The attribution build says which interaction was slowest and where its time went.
+  webVitals.onINP((m) => {
+    if (window.__vitals.inp !== null && m.value < window.__vitals.inp) return;
+    window.__vitals.inp = m.value;
+    const a = m.attribution;
+    window.__vitals.inpWhat = a ? a.interactionType + ': input delay ' + Math.round(a.inputDelay) + ' + processing ' + Math.round(a.processingDuration) + ' + presentation ' + Math.round(a.presentationDelay) + ' ms' : null;
+  }, { reportAllChanges: true });
   // web-vitals leaves out interactions under its reporting threshold; keep the raw maximum too,
   // so a fast page reads as its real duration rather than as nothing.
   try {
     new PerformanceObserver((list) => {
-      for (const e of list.getEntries()) if (e.interactionId) window.__vitals.maxEvent = Math.max(window.__vitals.maxEvent, e.duration);
+      for (const e of list.getEntries()) {
+        if (!e.interactionId || e.duration < window.__vitals.maxEvent) continue;
+        window.__vitals.maxEvent = e.duration;
+        // Named now: the element may be gone (a screen replaced) by the time INP is reported.
+        const t = e.target;
+        const label = t && t.nodeType === 1 ? (t.getAttribute('aria-label') || (t.textContent || '').trim().slice(0, 40) || t.tagName.toLowerCase()) : null;
+        window.__vitals.slowestEvent = e.name + (label ? ' on "' + label + '"' : '');
+      }
     }).observe({ type: 'event', durationThreshold: 16, buffered: true });
   } catch (_) {}
 `;
@@ -64,7 +79,9 @@ interface Vitals {
   lcp: number | null;
   cls: number;
   inp: number | null;
+  inpWhat: string | null;
   maxEvent: number;
+  slowestEvent: string | null;
 }
 
 const read = (page: Page) => page.evaluate(() => (window as unknown as { __vitals: Vitals }).__vitals);
@@ -147,7 +164,8 @@ async function oneRun(browser: Browser, opts: VitalsOptions, iife: string): Prom
     await page.waitForTimeout(300);
     const v = await read(page);
     const inp = v.inp ?? (v.maxEvent > 0 ? v.maxEvent : null);
-    return { signIn, myInfants, flowsheet, inp };
+    const what = [v.slowestEvent, v.inpWhat].filter(Boolean).join('; ');
+    return { signIn, myInfants, flowsheet, inp, inpWhat: what || null };
   } catch (err) {
     // What the page showed when a step timed out, for whoever reads the failure.
     const page = context.pages()[0];
@@ -208,7 +226,7 @@ async function warmUp(browser: Browser, opts: VitalsOptions): Promise<void> {
 }
 
 export async function benchVitals(opts: VitalsOptions, log: (line: string) => void): Promise<VitalsRun[]> {
-  const iife = fs.readFileSync(path.join('node_modules', 'web-vitals', 'dist', 'web-vitals.iife.js'), 'utf8');
+  const iife = fs.readFileSync(path.join('node_modules', 'web-vitals', 'dist', 'web-vitals.attribution.iife.js'), 'utf8');
   const browser = await chromium.launch({
     executablePath: opts.executablePath ?? process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
     headless: true,
@@ -230,7 +248,7 @@ export async function benchVitals(opts: VitalsOptions, log: (line: string) => vo
         run = await oneRun(browser, opts, iife);
       }
       log(
-        `  vitals run ${i + 1}/${opts.runs}: LCP sign-in ${fmt(run.signIn.lcp)}, my infants ${fmt(run.myInfants.lcp)}, flowsheet ${fmt(run.flowsheet.lcp)}; INP ${fmt(run.inp)}`,
+        `  vitals run ${i + 1}/${opts.runs}: LCP sign-in ${fmt(run.signIn.lcp)}, my infants ${fmt(run.myInfants.lcp)}, flowsheet ${fmt(run.flowsheet.lcp)}; INP ${fmt(run.inp)}${run.inpWhat ? ` (${run.inpWhat})` : ''}`,
       );
       runs.push(run);
     }

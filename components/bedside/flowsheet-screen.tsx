@@ -21,6 +21,7 @@ import { startPendingFlush, usePendingReadings } from './pending-readings';
 import { SkinToSkinPanel } from './skin-to-skin';
 import { TrendChart } from './trend-chart';
 import { useNow } from './use-now';
+import { afterNextPaint } from '@/components/ui/after-next-paint';
 
 type Hours = 12 | 24 | 72;
 
@@ -39,7 +40,7 @@ export function FlowsheetScreen({ infantId }: { infantId: string }) {
       subtitle="Flowsheet"
       refreshing={query.isRefetching}
       onRefresh={() => void query.refetch()}
-      actions={canChart ? <Button label="Record" icon="plus" onPress={() => router.push(`/infants/${infantId}/record`)} /> : null}
+      actions={canChart ? <Button label="Record" icon="plus" onPress={() => afterNextPaint(() => router.push(`/infants/${infantId}/record`))} /> : null}
     >
       {query.isError && !sheet ? (
         <ErrorState error={query.error} onRetry={() => void query.refetch()} />

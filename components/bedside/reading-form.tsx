@@ -6,6 +6,7 @@ import type { CreateReadingInput } from '@/shared/schemas/bedside';
 import { assessGapCenti, BAND_LABELS, heatStressPrompt, HEAT_STRESS_CHECKLIST, HEAT_STRESS_SIGNS, temperatureBand, type TempUnit } from '@/shared/thermal';
 import { TOUCH_TARGET } from '@/components/theme/theme';
 import { useTheme } from '@/components/theme/theme-provider';
+import { afterNextPaint } from '@/components/ui/after-next-paint';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { Caution } from '@/components/ui/caution';
@@ -65,16 +66,21 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
   const [id] = useState(makeId);
   const u = `°${unit}`;
 
-  const submit = (confirmed: boolean) =>
-    handleSubmit((v) => {
-      const reasons = implausibleReasons(v, unit);
-      if (reasons.length > 0 && !confirmed) {
-        setConfirming(reasons);
-        return;
-      }
-      setConfirming(null);
-      onSubmit(toCreateReading(v, { id, unit, now: now(), timeZone, confirmed: reasons.length > 0 }));
-    });
+  // Checked and sent once the tap's feedback is on screen: validating and re-rendering the whole
+  // form as busy inside the tap held its next paint back (the slowest interaction of a check).
+  const submit = (confirmed: boolean) => () =>
+    afterNextPaint(
+      () =>
+        void handleSubmit((v) => {
+          const reasons = implausibleReasons(v, unit);
+          if (reasons.length > 0 && !confirmed) {
+            setConfirming(reasons);
+            return;
+          }
+          setConfirming(null);
+          onSubmit(toCreateReading(v, { id, unit, now: now(), timeZone, confirmed: reasons.length > 0 }));
+        })(),
+    );
 
   const serverConfirm = serverFields.confirmedImplausible === 'confirm';
 

@@ -1,0 +1,13 @@
+/**
+ * Run `fn` once the browser has painted what the current event changed (a pressed button): a
+ * screen change then renders in a task of its own instead of holding the tap's feedback back
+ * (the interaction's next paint, what INP measures). Navigation in Expo Router goes through
+ * useSyncExternalStore, which a React transition cannot defer, so the wait is done by hand.
+ */
+export function afterNextPaint(fn: () => void): void {
+  if (typeof requestAnimationFrame !== 'function') {
+    fn();
+    return;
+  }
+  requestAnimationFrame(() => setTimeout(fn, 0));
+}
