@@ -74,6 +74,31 @@ export function toRuleReading(r: ReadingRow) {
   };
 }
 
+/**
+ * toRuleReading for a row read with `.raw()`: `values[at...]` are the RULE_COLUMNS in their order.
+ * Building the object here is cheaper than better-sqlite3 building a keyed row for each of
+ * thousands of readings (most of a board build was that).
+ */
+export function ruleReadingFromValues(values: unknown[], at = 0) {
+  const v = (column: (typeof RULE_COLUMN_LIST)[number]) => values[at + AT[column]] as never;
+  return toRuleReading({
+    id: v('id'),
+    taken_at: v('taken_at'),
+    recorded_at: v('recorded_at'),
+    probe_centi: v('probe_centi'),
+    remote_centi: v('remote_centi'),
+    remote_site: v('remote_site'),
+    air_centi: v('air_centi'),
+    set_centi: v('set_centi'),
+    control_mode: v('control_mode'),
+    heater_output_pct: v('heater_output_pct'),
+    heart_rate: v('heart_rate'),
+    heat_signs: v('heat_signs'),
+    replaces_id: v('replaces_id'),
+    entered_in_error: v('entered_in_error'),
+  });
+}
+
 export interface InfantState {
   readings: ReturnType<typeof toRuleReading>[];
   actions: Array<{ id: string; flagKey: string; kind: string; at: Date }>;
@@ -82,8 +107,25 @@ export interface InfantState {
 }
 
 /** The columns the rules read: never `SELECT *` (notes and reasons are dead weight here). */
-export const RULE_COLUMNS =
-  'id, taken_at, recorded_at, probe_centi, remote_centi, remote_site, air_centi, set_centi, control_mode, heater_output_pct, heart_rate, heat_signs, replaces_id, entered_in_error';
+const RULE_COLUMN_LIST = [
+  'id',
+  'taken_at',
+  'recorded_at',
+  'probe_centi',
+  'remote_centi',
+  'remote_site',
+  'air_centi',
+  'set_centi',
+  'control_mode',
+  'heater_output_pct',
+  'heart_rate',
+  'heat_signs',
+  'replaces_id',
+  'entered_in_error',
+] as const satisfies ReadonlyArray<keyof ReadingRow>;
+export const RULE_COLUMNS = RULE_COLUMN_LIST.join(', ');
+/** Each rule column's place in RULE_COLUMNS, for rows read with `.raw()`. */
+const AT = Object.fromEntries(RULE_COLUMN_LIST.map((c, i) => [c, i])) as Record<(typeof RULE_COLUMN_LIST)[number], number>;
 
 export function loadInfantState(sqlite: Database.Database, infantId: string, since?: number): InfantState {
   const readings = (

@@ -3,7 +3,7 @@ import type Database from 'better-sqlite3';
 import { evaluateInfant, flagEscalation, type EvaluatedFlag, type InfantEvaluation, type UnitPolicy } from '../../shared/thermal';
 import { shiftAt } from '../../shared/shifts';
 import type { InfantSummary, NextCheck, OpenFlagSummary } from '../../shared/types/bedside';
-import { policyForUnit, RULE_COLUMNS, toRuleReading, type InfantState, type UnitRow } from './flags';
+import { policyForUnit, RULE_COLUMNS, ruleReadingFromValues, type InfantState, type UnitRow } from './flags';
 
 const DAY_MS = 86_400_000;
 /** How far back the summaries read the chart: enough for the board and the shift, fast for a unit. */
@@ -22,8 +22,6 @@ interface InfantRow {
   heat_source: InfantSummary['heatSource'];
   admitted_at: number;
 }
-
-type ReadingRow = Parameters<typeof toRuleReading>[0] & { infant_id: string };
 
 /** The rules' columns, qualified for a query that aliases readings as r. */
 const RULE_COLUMNS_R = RULE_COLUMNS.split(', ')
@@ -109,7 +107,7 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
              FROM ids
             WHERE NOT EXISTS (SELECT 1 FROM readings z WHERE z.infant_id = ids.id AND z.remote_centi IS NOT NULL AND z.taken_at >= @since)
          )`;
-  const readings = prepared(
+  const rawReadings = prepared(
     sqlite,
       corrected
         ? `WITH RECURSIVE
@@ -127,7 +125,10 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
          ids(id) AS (SELECT value FROM json_each(@ids)),${picked}
        SELECT r.infant_id, ${RULE_COLUMNS_R} FROM readings r WHERE r.id IN (SELECT id FROM picked) ORDER BY r.taken_at, r.recorded_at`,
     )
-    .all({ ids, since }) as ReadingRow[];
+    .raw()
+    .all({ ids, since }) as unknown[][];
+  // Positional rows (see ruleReadingFromValues): the infant's id, then the rules' columns.
+  const readings = rawReadings.map((values) => ({ infantId: values[0] as string, reading: ruleReadingFromValues(values, 1) }));
 
   const actions = prepared(
     sqlite,
@@ -168,7 +169,7 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
     nurse_name: string;
   }>;
 
-  const readingsBy = groupBy(readings, (r) => r.infant_id);
+  const readingsBy = groupBy(readings, (r) => r.infantId);
   const actionsBy = groupBy(actions, (a) => a.infant_id);
   const sessionsBy = groupBy(sessions, (s) => s.infant_id);
   const flagsBy = groupBy(storedFlags, (f) => f.infant_id);
@@ -181,7 +182,7 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
   for (const infant of infants) {
     const policy = policies.get(infant.unit_id)!;
     const state: InfantState = {
-      readings: (readingsBy.get(infant.id) ?? []).map(toRuleReading),
+      readings: (readingsBy.get(infant.id) ?? []).map((r) => r.reading),
       actions: (actionsBy.get(infant.id) ?? []).map((a) => ({ id: a.id, flagKey: a.flag_key, kind: a.kind, at: new Date(a.at) })),
       sessions: (sessionsBy.get(infant.id) ?? []).map((s) => ({
         id: s.id,
