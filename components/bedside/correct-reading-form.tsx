@@ -12,7 +12,7 @@ import { TextField } from '@/components/ui/text-field';
 import { correctionReasonSchema, type CorrectReadingInput } from '@/shared/schemas/bedside';
 import { fromCentiCelsius, type TempUnit } from '@/shared/thermal';
 import type { CorrectionReason, ReadingVersion } from '@/shared/types/bedside';
-import { clockTime, CORRECTION_REASON_LABELS, temp } from './format';
+import { clockTime, CORRECTION_REASON_LABELS, REMOTE_SITE_OPTIONS, temp } from './format';
 import { implausibleReasons, instantOfLocalTime, readingFormResolverSchema, readingFormSchema, toCreateReading, type ReadingFormValues } from './reading-form-schema';
 
 export function correctReadingFormSchema(unit: TempUnit, timeZone: string, now: () => Date) {
@@ -120,11 +120,7 @@ export function CorrectReadingForm({ reading, unit, timeZone, clock, now = () =>
           <Segmented
             label="Remote site"
             value={remoteSite}
-            options={[
-              { value: 'axilla', label: 'Axilla' },
-              { value: 'rectal', label: 'Rectal' },
-              { value: 'other', label: 'Other' },
-            ]}
+            options={REMOTE_SITE_OPTIONS}
             onChange={(site) => setValue('remoteSite', site)}
           />
           <TextField control={control} name="set" label={`Set temperature (${u})`} suffix={u} inputMode="decimal" keyboardType="decimal-pad" serverError={f('set')} />

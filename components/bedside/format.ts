@@ -1,4 +1,5 @@
 import { formatClock, formatInZone } from '@/components/ui/format-time';
+import { CONTROL_MODE_LABELS, CONTROL_MODES, HEAT_SOURCE_LABELS } from '@/shared/schemas/unit';
 import { formatTemperature, formatTemperatureDifference, type TempUnit } from '@/shared/thermal';
 
 export interface DisplayPrefs {
@@ -38,8 +39,16 @@ export function gestation(weeks: number, days: number): string {
   return `${weeks}+${days} wk`;
 }
 
-export const HEAT_SOURCE_LABELS = { 'radiant-warmer': 'Radiant warmer', incubator: 'Incubator', convertible: 'Convertible bed' } as const;
-export const CONTROL_MODE_LABELS = { 'skin-servo': 'Skin servo', 'air-servo': 'Air servo', manual: 'Manual' } as const;
+export { CONTROL_MODE_LABELS, HEAT_SOURCE_LABELS };
+
+/** The control-mode choice of the reading form. */
+export const CONTROL_MODE_OPTIONS = CONTROL_MODES.map((value) => ({ value, label: CONTROL_MODE_LABELS[value] }));
+/** The remote-site choice of the reading and correction forms. */
+export const REMOTE_SITE_OPTIONS: Array<{ value: 'axilla' | 'rectal' | 'other'; label: string }> = [
+  { value: 'axilla', label: 'Axilla' },
+  { value: 'rectal', label: 'Rectal' },
+  { value: 'other', label: 'Other' },
+];
 export const SITE_LABELS = { axilla: 'Axilla', rectal: 'Rectal', other: 'Other site' } as const;
 export const FLAG_LABELS = {
   gap: 'Gap flag',

@@ -14,7 +14,7 @@ import { Segmented } from '@/components/ui/segmented';
 import { StatusBadge } from '@/components/ui/status-badge';
 import { Text } from '@/components/ui/text';
 import { TextField } from '@/components/ui/text-field';
-import { tempDelta } from './format';
+import { CONTROL_MODE_OPTIONS, REMOTE_SITE_OPTIONS, tempDelta } from './format';
 import {
   centiOf,
   implausibleReasons,
@@ -116,11 +116,7 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
           <Segmented
             label="Remote site"
             value={remoteSite}
-            options={[
-              { value: 'axilla', label: 'Axilla' },
-              { value: 'rectal', label: 'Rectal' },
-              { value: 'other', label: 'Other' },
-            ]}
+            options={REMOTE_SITE_OPTIONS}
             onChange={(site) => setValue('remoteSite', site, { shouldValidate: false })}
           />
         )}
@@ -157,11 +153,7 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
           <Segmented
             label="Control mode"
             value={controlMode}
-            options={[
-              { value: 'skin-servo', label: 'Skin servo' },
-              { value: 'air-servo', label: 'Air servo' },
-              { value: 'manual', label: 'Manual' },
-            ]}
+            options={CONTROL_MODE_OPTIONS}
             onChange={(mode) => setValue('controlMode', mode)}
           />
         )}

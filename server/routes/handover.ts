@@ -15,33 +15,27 @@ export function handoverRouter(ctx: AppContext) {
   const audit = (actorId: string, infantId: string, unitId: string, action: string) =>
     appendAudit(sqlite, { at: ctx.clock.now(), actorId, action, entityType: 'infant', entityId: infantId, unitId });
 
+  /** Many infants' handovers, each read audited, in one answer. */
+  const answerMany = (actorId: string, infantIds: string[], now: Date): HandoverResponse => {
+    const infants = infantIds.map((id) => buildHandover(ctx, id, now)).filter((h) => h !== null);
+    writeTx(sqlite, () => {
+      for (const h of infants) audit(actorId, h.infant.id, loadInfant(ctx, h.infant.id).unit_id, 'handover-read');
+    });
+    return { generatedAt: now.toISOString(), infants };
+  };
+
   router.get('/nurses/me/handover', allow(ctx, 'chart:read'), (req, res) => {
     const auth = req.auth!;
     const now = ctx.clock.now();
-    const infants = myInfantIds(ctx, auth.userId, auth.unitIds, now)
-      .map((id) => buildHandover(ctx, id, now))
-      .filter((h) => h !== null);
-    infants.sort((a, b) => (a.infant.bedLabel ?? '').localeCompare(b.infant.bedLabel ?? ''));
-    writeTx(sqlite, () => {
-      for (const h of infants) audit(auth.userId, h.infant.id, loadInfant(ctx, h.infant.id).unit_id, 'handover-read');
-    });
-    const body: HandoverResponse = { generatedAt: now.toISOString(), infants };
+    const body = answerMany(auth.userId, myInfantIds(ctx, auth.userId, auth.unitIds, now), now);
+    body.infants.sort((a, b) => (a.infant.bedLabel ?? '').localeCompare(b.infant.bedLabel ?? ''));
     res.json(body);
   });
 
   /** The charge nurse's handover to the next charge nurse: every admitted infant of the unit, by bed. */
   router.get('/units/:unitId/handover', allow(ctx, 'unit:manage'), (req, res) => {
-    const auth = req.auth!;
     const { unitId } = req.params as { unitId: string };
-    const now = ctx.clock.now();
-    const infants = unitInfantIds(ctx, unitId)
-      .map((id) => buildHandover(ctx, id, now))
-      .filter((h) => h !== null);
-    writeTx(sqlite, () => {
-      for (const h of infants) audit(auth.userId, h.infant.id, unitId, 'handover-read');
-    });
-    const body: HandoverResponse = { generatedAt: now.toISOString(), infants };
-    res.json(body);
+    res.json(answerMany(req.auth!.userId, unitInfantIds(ctx, unitId), ctx.clock.now()));
   });
 
   router.get('/infants/:id/handover', allow(ctx, 'chart:read'), (req, res) => {

@@ -38,6 +38,15 @@ function Screen() {
   );
 }
 
+const renderScreen = () =>
+  render(
+    <QueryClientProvider client={new QueryClient()}>
+      <AuthProvider>
+        <Screen />
+      </AuthProvider>
+    </QueryClientProvider>,
+  );
+
 describe('AuthProvider', () => {
   afterEach(() => {
     storage.remove('warmfold.token');
@@ -49,13 +58,7 @@ describe('AuthProvider', () => {
     storage.set('warmfold.user', JSON.stringify(USER));
     const server = serverExpecting('stored-token');
     globalThis.fetch = server.fetchMock as unknown as typeof fetch;
-    const screen = render(
-      <QueryClientProvider client={new QueryClient()}>
-        <AuthProvider>
-          <Screen />
-        </AuthProvider>
-      </QueryClientProvider>,
-    );
+    const screen = renderScreen();
     await screen.findByText(/loaded/);
     await waitFor(() => expect(server.seen.some((r) => r.url.endsWith('/auth/me'))).toBe(true));
     expect(server.seen.map((r) => r.authorization)).toEqual(server.seen.map(() => 'Bearer stored-token'));
@@ -67,13 +70,7 @@ describe('AuthProvider', () => {
     storage.set('warmfold.token', 'revoked-token');
     storage.set('warmfold.user', JSON.stringify(USER));
     globalThis.fetch = serverExpecting('another-token').fetchMock as unknown as typeof fetch;
-    const screen = render(
-      <QueryClientProvider client={new QueryClient()}>
-        <AuthProvider>
-          <Screen />
-        </AuthProvider>
-      </QueryClientProvider>,
-    );
+    const screen = renderScreen();
     await screen.findByText(/signed out.*Your session ended/);
     expect(storage.get('warmfold.token')).toBeNull();
   });
