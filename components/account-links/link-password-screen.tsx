@@ -1,10 +1,12 @@
-import { zodResolver } from '@hookform/resolvers/zod';
 import { router } from 'expo-router';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
-import { linkPasswordSchema, PASSWORD_MIN_LENGTH, type LinkPasswordInput } from '@/shared/schemas/auth';
+import type { LinkPasswordInput } from '@/shared/schemas/auth';
+import { PASSWORD_MIN_LENGTH } from '@/shared/vocabulary';
 import { problemOf } from '../api/client';
+import { lazyZodResolver } from '../forms/lazy-resolver';
+import { FormRootError } from '../forms/form-root-error';
 import { useLinkPasswordMutation } from '../queries/admin';
 import { useTheme } from '../theme/theme-provider';
 import { Button } from '../ui/button';
@@ -13,6 +15,8 @@ import { Icon } from '../ui/icon';
 import { Text } from '../ui/text';
 import { TextField } from '../ui/text-field';
 
+const linkPasswordResolver = lazyZodResolver<LinkPasswordInput>((m) => m.linkPasswordSchema);
+
 /** Choose a password from an e-mailed link: accepting an invitation, or a reset. */
 export function LinkPasswordScreen({ kind, token }: { kind: 'invite' | 'reset'; token: string }) {
   const theme = useTheme();
@@ -20,7 +24,7 @@ export function LinkPasswordScreen({ kind, token }: { kind: 'invite' | 'reset'; 
   const [done, setDone] = useState(false);
   const [formError, setFormError] = useState<string | null>(null);
   const [fields, setFields] = useState<Record<string, string>>({});
-  const { control, handleSubmit, formState } = useForm<LinkPasswordInput>({ resolver: zodResolver(linkPasswordSchema), defaultValues: { token, password: '' } });
+  const { control, handleSubmit, formState } = useForm<LinkPasswordInput>({ resolver: linkPasswordResolver, defaultValues: { token, password: '' } });
   const onSubmit = handleSubmit(async (values) => {
     setFormError(null);
     setFields({});
@@ -65,6 +69,7 @@ export function LinkPasswordScreen({ kind, token }: { kind: 'invite' | 'reset'; 
                   {formError}
                 </Text>
               ) : null}
+              <FormRootError control={control} />
               <Button label={kind === 'invite' ? 'Set my password' : 'Save the new password'} onPress={() => void onSubmit()} busy={formState.isSubmitting} />
             </>
           )}

@@ -1,12 +1,13 @@
-import { zodResolver } from '@hookform/resolvers/zod';
 import { router } from 'expo-router';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { ROLE_LABELS, ROLES, type Role } from '@/shared/roles';
-import { createUserSchema, type CreateUserInput } from '@/shared/schemas/admin';
+import type { CreateUserInput } from '@/shared/schemas/admin';
 import type { AdminUnit, AdminUser } from '@/shared/types/admin';
 import { problemOf } from '../api/client';
+import { lazyZodResolver } from '../forms/lazy-resolver';
+import { FormRootError } from '../forms/form-root-error';
 import { useAdminUnitsQuery, useAdminUsersQuery, useCreateUserMutation, useDigestSendMutation, useUpdateUserMutation, useUserActionMutation } from '../queries/admin';
 import { Button } from '../ui/button';
 import { Card } from '../ui/card';
@@ -64,6 +65,8 @@ export function AdminHomeScreen() {
   );
 }
 
+const createUserResolver = lazyZodResolver<CreateUserInput>((m) => m.createUserSchema);
+
 function InviteForm({ units }: { units: AdminUnit[] }) {
   const create = useCreateUserMutation();
   const [role, setRole] = useState<Role>('nurse');
@@ -72,7 +75,7 @@ function InviteForm({ units }: { units: AdminUnit[] }) {
   const [serverFields, setServerFields] = useState<Record<string, string>>({});
   const [formError, setFormError] = useState<string | null>(null);
   const { control, handleSubmit, reset, formState } = useForm<CreateUserInput>({
-    resolver: zodResolver(createUserSchema),
+    resolver: createUserResolver,
     defaultValues: { name: '', email: '', role: 'nurse', unitIds: units[0] ? [units[0].id] : [] },
   });
   const onSubmit = handleSubmit(async (values) => {
@@ -95,6 +98,7 @@ function InviteForm({ units }: { units: AdminUnit[] }) {
       <TextField control={control} name="email" label="Work e-mail" autoCapitalize="none" keyboardType="email-address" serverError={serverFields.email} />
       <Segmented label="Role" value={role} onChange={setRole} options={ROLES.map((r) => ({ value: r, label: ROLE_LABELS[r] }))} />
       <Segmented label="Unit" value={unitId} onChange={setUnitId} options={units.map((u) => ({ value: u.id, label: u.name }))} />
+      <FormRootError control={control} />
       <Button label="Send invitation" icon="plus" onPress={() => void onSubmit()} busy={formState.isSubmitting} />
       {done ? <Text tone="ok" role="status">{done}</Text> : null}
       {formError ? <Text tone="danger" role="alert">{formError}</Text> : null}

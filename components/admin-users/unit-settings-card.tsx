@@ -1,28 +1,28 @@
-import { zodResolver } from '@hookform/resolvers/zod';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
-import { z } from 'zod';
 import type { AdminUnit } from '@/shared/types/admin';
 import { problemOf } from '../api/client';
+import { lazyZodResolver } from '../forms/lazy-resolver';
+import { FormRootError } from '../forms/form-root-error';
 import { useAddBedMutation, useUnitSettingsMutation } from '../queries/admin';
 import { Button } from '../ui/button';
 import { Card } from '../ui/card';
 import { Text } from '../ui/text';
 import { TextField } from '../ui/text-field';
 
-const wholeText = z.string().regex(/^\d{1,3}$/, 'Whole minutes.');
-const formSchema = z.object({
-  checkIntervalMinutes: wholeText,
-  dueSoonMinutes: wholeText,
-  gapLimit: z.string().regex(/^\d(\.\d{1,2})?$/, 'Degrees °C, e.g. 0.5.'),
-  escalationDelayMinutes: wholeText,
-  dayShiftStart: z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'HH:MM'),
-  nightShiftStart: z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'HH:MM'),
-  timeZone: z.string().min(1, 'Enter a time zone.'),
-  newBed: z.string(),
-});
-type FormValues = z.infer<typeof formSchema>;
+export interface UnitSettingsFormValues {
+  checkIntervalMinutes: string;
+  dueSoonMinutes: string;
+  gapLimit: string;
+  escalationDelayMinutes: string;
+  dayShiftStart: string;
+  nightShiftStart: string;
+  timeZone: string;
+  newBed: string;
+}
+type FormValues = UnitSettingsFormValues;
+const unitSettingsResolver = lazyZodResolver<FormValues>((m) => m.unitSettingsFormSchema);
 
 /** One unit's thermal-care settings and its beds. */
 export function UnitSettingsCard({ unit }: { unit: AdminUnit }) {
@@ -31,7 +31,7 @@ export function UnitSettingsCard({ unit }: { unit: AdminUnit }) {
   const [fields, setFields] = useState<Record<string, string>>({});
   const [status, setStatus] = useState<string | null>(null);
   const { control, handleSubmit, getValues, setValue, formState } = useForm<FormValues>({
-    resolver: zodResolver(formSchema),
+    resolver: unitSettingsResolver,
     defaultValues: {
       checkIntervalMinutes: String(unit.checkIntervalMinutes),
       dueSoonMinutes: String(unit.dueSoonMinutes),
@@ -91,6 +91,7 @@ export function UnitSettingsCard({ unit }: { unit: AdminUnit }) {
         <TextField control={control} name="nightShiftStart" label="Night shift starts" serverError={fields.nightShiftStart} />
         <TextField control={control} name="timeZone" label="Time zone" autoCapitalize="none" serverError={fields.timeZone} />
       </View>
+      <FormRootError control={control} />
       <Button label={`Save ${unit.name} settings`} onPress={() => void onSubmit()} busy={formState.isSubmitting} />
       <Text variant="label">Beds</Text>
       <Text tone="muted">{unit.beds.map((b) => (b.active ? b.label : `${b.label} (out of use)`)).join(', ')}</Text>

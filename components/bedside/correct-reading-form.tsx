@@ -1,32 +1,24 @@
-import { zodResolver } from '@hookform/resolvers/zod';
-import { useMemo, useState } from 'react';
+import { useEffect, useMemo, useState } from 'react';
 import { useForm, useWatch } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
-import { z } from 'zod';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { Segmented } from '@/components/ui/segmented';
 import { StatusBadge } from '@/components/ui/status-badge';
 import { Text } from '@/components/ui/text';
 import { TextField } from '@/components/ui/text-field';
-import { correctionReasonSchema, type CorrectReadingInput } from '@/shared/schemas/bedside';
+import { lazyZodResolver } from '@/components/forms/lazy-resolver';
+import { FormRootError } from '@/components/forms/form-root-error';
+import type { CorrectReadingInput } from '@/shared/schemas/bedside';
 import { fromCentiCelsius, type TempUnit } from '@/shared/thermal';
 import type { CorrectionReason, ReadingVersion } from '@/shared/types/bedside';
 import { clockTime, CORRECTION_REASON_LABELS, REMOTE_SITE_OPTIONS, temp } from './format';
-import { implausibleReasons, instantOfLocalTime, readingFormResolverSchema, readingFormSchema, toCreateReading, type ReadingFormValues } from './reading-form-schema';
+import { implausibleReasons, instantOfLocalTime, toCreateReading, type ReadingFormValues } from './reading-form-values';
 
-export function correctReadingFormSchema(unit: TempUnit, timeZone: string, now: () => Date) {
-  const values = readingFormResolverSchema(unit, timeZone, now);
-  return readingFormSchema
-    .extend({ reason: correctionReasonSchema, why: z.string().trim().min(1, 'Say briefly what was wrong.').max(500, 'Keep it under 500 characters.') })
-    .superRefine((v, ctx) => {
-      if (v.reason === 'entered-in-error') return;
-      // The new version must pass the same checks as a new reading; the late-entry reason is the note.
-      const parsed = values.safeParse({ ...v, lateReason: v.why || v.lateReason });
-      if (!parsed.success) for (const issue of parsed.error.issues) ctx.addIssue({ code: 'custom', path: issue.path as string[], message: issue.message });
-    });
+export interface CorrectReadingFormValues extends ReadingFormValues {
+  reason: CorrectionReason;
+  why: string;
 }
-export type CorrectReadingFormValues = z.infer<ReturnType<typeof correctReadingFormSchema>>;
 
 const str = (centi: number | null, unit: TempUnit) => (centi === null ? '' : fromCentiCelsius(centi, unit).toFixed(1));
 
@@ -46,10 +38,11 @@ export interface CorrectReadingFormProps {
 
 /** A correction never edits the reading: it saves a new version with the reason, who and when. */
 export function CorrectReadingForm({ reading, unit, timeZone, clock, now = () => new Date(), makeId = () => globalThis.crypto.randomUUID(), busy, serverFields = {}, serverMessage, onSubmit, onCancel }: CorrectReadingFormProps) {
-  const schema = useMemo(() => correctReadingFormSchema(unit, timeZone, now), [unit, timeZone, now]);
+  const resolver = useMemo(() => lazyZodResolver<CorrectReadingFormValues>((m) => m.correctReadingFormSchema(unit, timeZone, now)), [unit, timeZone, now]);
+  useEffect(() => resolver.preload(), [resolver]);
   const originalTime = clockTime(reading.takenAt, timeZone, '24h');
   const { control, handleSubmit, setValue } = useForm<CorrectReadingFormValues>({
-    resolver: zodResolver(schema),
+    resolver,
     defaultValues: {
       reason: 'corrected-value',
       why: '',
@@ -144,6 +137,7 @@ export function CorrectReadingForm({ reading, unit, timeZone, clock, now = () =>
         <Button label="Save correction" icon="check" busy={busy} onPress={() => void submit(false)()} />
         {onCancel ? <Button label="Cancel" variant="quiet" onPress={onCancel} /> : null}
       </View>
+      <FormRootError control={control} />
       {serverMessage ? (
         <Text tone="danger" role="alert">
           {serverMessage}

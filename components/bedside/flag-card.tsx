@@ -9,7 +9,7 @@ import { Card } from '@/components/ui/card';
 import { StatusBadge, type StatusTone } from '@/components/ui/status-badge';
 import type { IconName } from '@/components/ui/icon';
 import { Text } from '@/components/ui/text';
-import { ACTION_LABELS, type ActionKind } from '@/shared/schemas/bedside';
+import { ACTION_LABELS, type ActionKind } from '@/shared/vocabulary';
 import { BAND_LABELS, CLINICAL_PROMPT_CAVEAT, HEAT_STRESS_CHECKLIST, HEAT_STRESS_SIGN_LABELS, type FlagKind, type HeatStressReason } from '@/shared/thermal';
 import type { Flowsheet, FlowsheetFlag } from '@/shared/types/bedside';
 import { clockTime, duration, FLAG_LABELS, temp, tempDelta } from './format';

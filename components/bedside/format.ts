@@ -1,5 +1,5 @@
 import { formatClock, formatInZone } from '@/components/ui/format-time';
-import { CONTROL_MODE_LABELS, CONTROL_MODES, HEAT_SOURCE_LABELS } from '@/shared/schemas/unit';
+import { CONTROL_MODE_LABELS, CONTROL_MODES, HEAT_SOURCE_LABELS } from '@/shared/vocabulary';
 import { formatTemperature, formatTemperatureDifference, type TempUnit } from '@/shared/thermal';
 
 export interface DisplayPrefs {

@@ -1,9 +1,15 @@
-import { TZDate } from '@date-fns/tz';
 import { z } from 'zod';
-import { controlModeSchema, heatSignSchema, LATE_ENTRY_MINUTES, remoteSiteSchema, type CreateReadingInput } from '@/shared/schemas/bedside';
+import { controlModeSchema, correctionReasonSchema, heatSignSchema, remoteSiteSchema } from '@/shared/schemas/bedside';
 import { checkPlausibility, isThermalInputError, toCentiCelsius, type PlausibilityField, type TempUnit } from '@/shared/thermal';
+import { LATE_ENTRY_MINUTES } from '@/shared/vocabulary';
+import { instantOfLocalTime, isLate, parseNumber, TEMPS, type ReadingFormValues } from './reading-form-values';
 
-/** What the keypad gives: strings. Converted to the API's numbers on submit. */
+/**
+ * The reading and correction forms' checks: the same rules as the server's, with messages for
+ * the keypad's strings. Loaded lazily (components/forms/lazy-resolver.ts), so zod stays out of
+ * the first page.
+ */
+
 export const readingFormSchema = z.object({
   probe: z.string(),
   remote: z.string(),
@@ -15,55 +21,11 @@ export const readingFormSchema = z.object({
   heartRate: z.string(),
   heatSigns: z.array(heatSignSchema),
   note: z.string().max(1000, 'Keep the note under 1,000 characters.'),
-  /** Local time "HH:MM" in the unit's zone; empty means now. */
   time: z.string(),
   lateReason: z.string().max(300),
-});
-export type ReadingFormValues = z.infer<typeof readingFormSchema>;
+}) satisfies z.ZodType<ReadingFormValues>;
 
-const NUMBER = /^\d{1,3}([.,]\d{1,2})?$/;
-const TEMPS = [
-  ['probe', 'Probe temperature'],
-  ['remote', 'Remote-site temperature'],
-  ['air', 'Air temperature'],
-  ['set', 'Set temperature'],
-] as const;
-
-export function parseNumber(text: string): number | null | 'invalid' {
-  const t = text.trim();
-  if (t === '') return null;
-  if (!NUMBER.test(t)) return 'invalid';
-  return Number(t.replace(',', '.'));
-}
-
-/** The typed temperature in hundredths of °C, or null when blank or not usable. */
-export function centiOf(text: string, unit: TempUnit): number | null {
-  const n = parseNumber(text);
-  if (n === null || n === 'invalid') return null;
-  try {
-    return toCentiCelsius(n, unit);
-  } catch {
-    return null;
-  }
-}
-
-/** "HH:MM" today in the unit's zone (yesterday if that is still ahead of now). */
-export function instantOfLocalTime(hhmm: string, now: Date, timeZone: string): Date | null {
-  const m = /^([01]?\d|2[0-3])[:.]?([0-5]\d)$/.exec(hhmm.trim());
-  if (!m) return null;
-  const local = new TZDate(now.getTime(), timeZone);
-  let at = new TZDate(local.getFullYear(), local.getMonth(), local.getDate(), Number(m[1]), Number(m[2]), 0, timeZone).getTime();
-  if (at > now.getTime() + 2 * 60_000) at -= 86_400_000;
-  return new Date(at);
-}
-
-export function isLate(values: Pick<ReadingFormValues, 'time'>, now: Date, timeZone: string): boolean {
-  if (!values.time.trim()) return false;
-  const at = instantOfLocalTime(values.time, now, timeZone);
-  return at !== null && now.getTime() - at.getTime() > LATE_ENTRY_MINUTES * 60_000;
-}
-
-/** The client schema: the same rules as the server's, with messages for the keypad's strings. */
+/** The new-reading form's schema. */
 export function readingFormResolverSchema(unit: TempUnit, timeZone: string, now: () => Date) {
   return readingFormSchema.superRefine((v, ctx) => {
     for (const [field, label] of TEMPS) {
@@ -107,46 +69,15 @@ export function readingFormResolverSchema(unit: TempUnit, timeZone: string, now:
   });
 }
 
-/** Values outside the usual range, with the reason in the nurse's unit. */
-export function implausibleReasons(v: ReadingFormValues, unit: TempUnit): string[] {
-  const reasons: string[] = [];
-  for (const [field] of TEMPS) {
-    const centi = centiOf(v[field], unit);
-    if (centi === null) continue;
-    const check = checkPlausibility(field as PlausibilityField, centi, unit);
-    if (check.result === 'confirm') reasons.push(check.reason);
-  }
-  const hr = parseNumber(v.heartRate);
-  if (typeof hr === 'number') {
-    const check = checkPlausibility('heartRate', hr, unit);
-    if (check.result === 'confirm') reasons.push(check.reason);
-  }
-  return reasons;
-}
-
-/** The API body for the form's values. */
-export function toCreateReading(v: ReadingFormValues, opts: { id: string; unit: TempUnit; now: Date; timeZone: string; confirmed: boolean }): CreateReadingInput & { takenAt: string } {
-  const num = (s: string) => {
-    const n = parseNumber(s);
-    return typeof n === 'number' ? n : null;
-  };
-  const takenAt = v.time.trim() ? (instantOfLocalTime(v.time, opts.now, opts.timeZone) ?? opts.now) : opts.now;
-  const late = isLate(v, opts.now, opts.timeZone);
-  return {
-    id: opts.id,
-    unit: opts.unit,
-    takenAt: takenAt.toISOString(),
-    probe: num(v.probe),
-    remote: num(v.remote),
-    remoteSite: num(v.remote) === null ? null : v.remoteSite,
-    air: num(v.air),
-    set: num(v.set),
-    controlMode: v.controlMode,
-    heaterOutputPct: num(v.heaterOutputPct),
-    heartRate: num(v.heartRate),
-    heatSigns: v.heatSigns,
-    note: v.note.trim() || null,
-    lateReason: late ? v.lateReason.trim() : null,
-    confirmedImplausible: opts.confirmed,
-  };
+/** A correction: the reason and a note, and (unless it was entered in error) a new version passing the same checks. */
+export function correctReadingFormSchema(unit: TempUnit, timeZone: string, now: () => Date) {
+  const values = readingFormResolverSchema(unit, timeZone, now);
+  return readingFormSchema
+    .extend({ reason: correctionReasonSchema, why: z.string().trim().min(1, 'Say briefly what was wrong.').max(500, 'Keep it under 500 characters.') })
+    .superRefine((v, ctx) => {
+      if (v.reason === 'entered-in-error') return;
+      // The new version must pass the same checks as a new reading; the late-entry reason is the note.
+      const parsed = values.safeParse({ ...v, lateReason: v.why || v.lateReason });
+      if (!parsed.success) for (const issue of parsed.error.issues) ctx.addIssue({ code: 'custom', path: issue.path as string[], message: issue.message });
+    });
 }

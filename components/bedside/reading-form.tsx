@@ -1,5 +1,4 @@
-import { zodResolver } from '@hookform/resolvers/zod';
-import { useMemo, useRef, useState, type ReactNode } from 'react';
+import { useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
 import { useForm, useFormState, useWatch, type Control } from 'react-hook-form';
 import { Pressable, StyleSheet, View, type TextInput } from 'react-native';
 import type { CreateReadingInput } from '@/shared/schemas/bedside';
@@ -15,14 +14,9 @@ import { StatusBadge } from '@/components/ui/status-badge';
 import { Text } from '@/components/ui/text';
 import { TextField } from '@/components/ui/text-field';
 import { CONTROL_MODE_OPTIONS, REMOTE_SITE_OPTIONS, tempDelta } from './format';
-import {
-  centiOf,
-  implausibleReasons,
-  isLate,
-  readingFormResolverSchema,
-  toCreateReading,
-  type ReadingFormValues,
-} from './reading-form-schema';
+import { lazyZodResolver } from '@/components/forms/lazy-resolver';
+import { FormRootError } from '@/components/forms/form-root-error';
+import { centiOf, implausibleReasons, isLate, toCreateReading, type ReadingFormValues } from './reading-form-values';
 
 export interface ReadingFormProps {
   unit: TempUnit;
@@ -42,9 +36,10 @@ export interface ReadingFormProps {
 /** Probe, remote site and save first: a routine check is digits, Tab, digits, Enter. */
 export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () => new Date(), makeId = () => globalThis.crypto.randomUUID(), busy, serverFields = {}, serverMessage, onSubmit, onCancel }: ReadingFormProps) {
   const theme = useTheme();
-  const schema = useMemo(() => readingFormResolverSchema(unit, timeZone, now), [unit, timeZone, now]);
+  const resolver = useMemo(() => lazyZodResolver<ReadingFormValues>((m) => m.readingFormResolverSchema(unit, timeZone, now)), [unit, timeZone, now]);
+  useEffect(() => resolver.preload(), [resolver]);
   const { control, handleSubmit, setValue } = useForm<ReadingFormValues>({
-    resolver: zodResolver(schema),
+    resolver,
     defaultValues: {
       probe: '',
       remote: '',
@@ -139,6 +134,7 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
         <Button label="Save reading" icon="check" onPress={() => void submit(false)()} busy={busy} />
         {onCancel ? <Button label="Cancel" variant="quiet" onPress={onCancel} /> : null}
       </View>
+      <FormRootError control={control} />
       {serverMessage && !serverConfirm ? (
         <Text tone="danger" role="alert">
           {serverMessage}

@@ -1,9 +1,9 @@
-import { zodResolver } from '@hookform/resolvers/zod';
-import { useMemo, useState } from 'react';
+import { useEffect, useMemo, useState } from 'react';
 import { useForm, useWatch } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
-import { z } from 'zod';
 import { problemOf } from '@/components/api/client';
+import { lazyZodResolver } from '@/components/forms/lazy-resolver';
+import { FormRootError } from '@/components/forms/form-root-error';
 import { useUser } from '@/components/auth/auth-provider';
 import { useEndSkinToSkinMutation, useStartSkinToSkinMutation } from '@/components/queries/infants';
 import { Button } from '@/components/ui/button';
@@ -16,27 +16,13 @@ import { TextField } from '@/components/ui/text-field';
 import { checkPlausibility, fromCentiCelsius, SKIN_TO_SKIN_LIMITS_CENTI, type TempUnit } from '@/shared/thermal';
 import type { Flowsheet } from '@/shared/types/bedside';
 import { clockTime, duration, temp, tempDelta } from './format';
-import { centiOf, parseNumber } from './reading-form-schema';
+import { parseNumber } from './reading-form-values';
 
-export function startSessionFormSchema(unit: TempUnit) {
-  return z
-    .object({
-      reference: z.string(),
-      limit: z.enum(['50', '100']),
-      carer: z.string().max(80, 'Keep the name under 80 characters.'),
-    })
-    .superRefine((v, ctx) => {
-      const n = parseNumber(v.reference);
-      const centi = centiOf(v.reference, unit);
-      if (n === null) ctx.addIssue({ code: 'custom', path: ['reference'], message: 'Enter the reference temperature.' });
-      else if (n === 'invalid' || centi === null) ctx.addIssue({ code: 'custom', path: ['reference'], message: `Reference temperature must be a number, like ${unit === 'C' ? '36.8' : '98.2'}.` });
-      else {
-        const check = checkPlausibility('remote', centi, unit);
-        if (check.result === 'refuse') ctx.addIssue({ code: 'custom', path: ['reference'], message: check.reason });
-      }
-    });
+interface StartSessionFormValues {
+  reference: string;
+  limit: '50' | '100';
+  carer: string;
 }
-type StartSessionFormValues = z.infer<ReturnType<typeof startSessionFormSchema>>;
 
 /** The running session, or a way to start one. */
 export function SkinToSkinPanel({ sheet, canChart, now }: { sheet: Flowsheet; canChart: boolean; now: Date }) {
@@ -79,9 +65,10 @@ function StartSessionForm({ sheet, onDone }: { sheet: Flowsheet; onDone: () => v
   const mutation = useStartSkinToSkinMutation(sheet.infant.id);
   const [id] = useState(() => globalThis.crypto.randomUUID());
   const latestRemote = sheet.infant.latest.remote?.centi ?? null;
-  const schema = useMemo(() => startSessionFormSchema(unit), [unit]);
+  const resolver = useMemo(() => lazyZodResolver<StartSessionFormValues>((m) => m.startSessionFormSchema(unit)), [unit]);
+  useEffect(() => resolver.preload(), [resolver]);
   const { control, handleSubmit, setValue } = useForm<StartSessionFormValues>({
-    resolver: zodResolver(schema),
+    resolver,
     defaultValues: { reference: latestRemote === null ? '' : fromCentiCelsius(latestRemote, unit).toFixed(1), limit: '50', carer: '' },
   });
   const limit = useWatch({ control, name: 'limit' });
@@ -115,6 +102,7 @@ function StartSessionForm({ sheet, onDone }: { sheet: Flowsheet; onDone: () => v
       />
       <TextField control={control} name="carer" label="Carer (optional)" placeholder="For example: mother" serverError={problem && 'fields' in problem ? problem.fields?.carer : undefined} />
       <View style={styles.row}>
+        <FormRootError control={control} />
         <Button label="Start session" icon="hands" busy={mutation.isPending} onPress={() => void submit()} />
         <Button label="Cancel" variant="quiet" onPress={onDone} />
       </View>

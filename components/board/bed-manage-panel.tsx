@@ -1,27 +1,22 @@
-import { zodResolver } from '@hookform/resolvers/zod';
 import { Link } from 'expo-router';
 import { useState } from 'react';
 import { Controller, useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { problemOf } from '@/components/api/client';
+import { lazyZodResolver, loadSchemas } from '@/components/forms/lazy-resolver';
+import { FormRootError } from '@/components/forms/form-root-error';
 import { useAdmitInfantMutation, useAssignNurseMutation, useDischargeInfantMutation, useMoveInfantMutation, useUpdateInfantMutation } from '@/components/queries/board';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { Segmented } from '@/components/ui/segmented';
 import { Text } from '@/components/ui/text';
 import { TextField } from '@/components/ui/text-field';
-import {
-  admitFormSchema,
-  admitFormToInput,
-  assignNurseSchema,
-  CONTROL_MODE_LABELS,
-  CONTROL_MODES,
-  HEAT_SOURCE_LABELS,
-  HEAT_SOURCES,
-  type AdmitForm,
-  type AssignNurseInput,
-} from '@/shared/schemas/unit';
+import type { AdmitForm, AssignNurseInput } from '@/shared/schemas/unit';
+import { CONTROL_MODE_LABELS, CONTROL_MODES, HEAT_SOURCE_LABELS, HEAT_SOURCES } from '@/shared/vocabulary';
 import type { BoardBed, BoardResponse } from '@/shared/types/board';
+
+const admitResolver = lazyZodResolver<AdmitForm>((m) => m.admitFormSchema);
+const assignResolver = lazyZodResolver<AssignNurseInput>((m) => m.assignNurseSchema);
 
 export interface BedManagePanelProps {
   board: BoardResponse;
@@ -51,7 +46,7 @@ function AdmitForm({ unitId, bed, tempUnit, onDone }: { unitId: string; bed: Boa
   const today = new Date();
   const pad = (n: number) => String(n).padStart(2, '0');
   const { control, handleSubmit } = useForm<AdmitForm>({
-    resolver: zodResolver(admitFormSchema),
+    resolver: admitResolver,
     defaultValues: {
       displayName: '',
       birthDate: `${today.getFullYear()}-${pad(today.getMonth() + 1)}-${pad(today.getDate())}`,
@@ -66,7 +61,11 @@ function AdmitForm({ unitId, bed, tempUnit, onDone }: { unitId: string; bed: Boa
   });
   const problem = admit.error ? problemOf(admit.error) : null;
   const fields = problem && 'fields' in problem ? (problem.fields ?? {}) : {};
-  const submit = handleSubmit((form) => admit.mutate(admitFormToInput(form, bed.bedId, tempUnit), { onSuccess: onDone }));
+  // The schemas are loaded by now (the resolver just ran), so this resolves at once.
+  const submit = handleSubmit(async (form) => {
+    const { admitFormToInput } = await loadSchemas();
+    admit.mutate(admitFormToInput(form, bed.bedId, tempUnit), { onSuccess: onDone });
+  });
   return (
     <View style={styles.form}>
       <TextField control={control} name="displayName" label="Display name" hint="As the unit shows it, for example Baby Larchmont." serverError={fields.displayName} />
@@ -105,6 +104,7 @@ function AdmitForm({ unitId, bed, tempUnit, onDone }: { unitId: string; bed: Boa
           {problem.message}
         </Text>
       ) : null}
+      <FormRootError control={control} />
       <Button label={`Admit to ${bed.label}`} icon="plus" busy={admit.isPending} onPress={() => void submit()} />
     </View>
   );
@@ -120,7 +120,7 @@ function OccupiedBed({ board, bed, onDone }: { board: BoardResponse; bed: BoardB
   const [heatSource, setHeatSource] = useState(infant.heatSource);
   const [confirming, setConfirming] = useState(false);
   const { control, handleSubmit } = useForm<AssignNurseInput>({
-    resolver: zodResolver(assignNurseSchema),
+    resolver: assignResolver,
     defaultValues: { infantId: infant.id, nurseId: infant.assignedNurse?.id ?? '', shift: 'current' },
   });
   const emptyBeds = board.beds.filter((b) => b.infant === null);
@@ -154,6 +154,7 @@ function OccupiedBed({ board, bed, onDone }: { board: BoardResponse; bed: BoardB
             />
           )}
         />
+        <FormRootError control={control} />
         <Button label="Assign" icon="users" busy={assign.isPending} onPress={() => void handleSubmit((input) => assign.mutate(input, { onSuccess: onDone }))()} />
       </View>
 

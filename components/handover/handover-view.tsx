@@ -4,7 +4,7 @@ import { formatDayTime, type ClockSetting } from '@/components/ui/format-time';
 import { StatusBadge } from '@/components/ui/status-badge';
 import { Text } from '@/components/ui/text';
 import { useTheme } from '@/components/theme/theme-provider';
-import { CONTROL_MODE_LABELS, HEAT_SOURCE_LABELS } from '@/shared/schemas/unit';
+import { CONTROL_MODE_LABELS, HEAT_SOURCE_LABELS } from '@/shared/vocabulary';
 import { formatTemperature, type TempUnit } from '@/shared/thermal';
 import type { HandoverInfant, HandoverReading } from '@/shared/types/board';
 import { FLAG_WORDS } from '../board/board-format';

@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { READINGS_EXAMPLE } from '@/shared/uploads/csv-formats';
+import { READINGS_EXAMPLE } from '@/shared/uploads/example';
 import { UploadPanel } from '../admin-users/upload-panel';
 import { useUser } from '../auth/auth-provider';
 import { Card } from '../ui/card';

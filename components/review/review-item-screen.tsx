@@ -1,11 +1,13 @@
-import { zodResolver } from '@hookform/resolvers/zod';
 import { router } from 'expo-router';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
-import { REVIEW_KIND_LABELS, teachingNoteSchema, type TeachingNoteInput } from '@/shared/schemas/review';
+import type { TeachingNoteInput } from '@/shared/schemas/review';
+import { REVIEW_KIND_LABELS } from '@/shared/vocabulary';
 import type { ReviewItemDetail } from '@/shared/types/review';
 import { problemOf } from '../api/client';
+import { lazyZodResolver } from '../forms/lazy-resolver';
+import { FormRootError } from '../forms/form-root-error';
 import { useReviewItemQuery, useTeachingNoteMutation } from '../queries/review';
 import { useTheme } from '../theme/theme-provider';
 import { Button } from '../ui/button';
@@ -15,6 +17,8 @@ import { ErrorState, LoadingState } from '../ui/state-view';
 import { Text } from '../ui/text';
 import { TextField } from '../ui/text-field';
 import { minutesText, shortDateTime, temp } from './format';
+
+const teachingNoteResolver = lazyZodResolver<TeachingNoteInput>((m) => m.teachingNoteSchema);
 
 export function ReviewItemScreen({ flagId }: { flagId: string }) {
   const query = useReviewItemQuery(flagId);
@@ -116,7 +120,7 @@ function TeachingNoteForm({ flagId, nurseName }: { flagId: string; nurseName: st
   const mutation = useTeachingNoteMutation(flagId);
   const [saved, setSaved] = useState(false);
   const [serverError, setServerError] = useState<string | undefined>();
-  const { control, handleSubmit, reset, formState } = useForm<TeachingNoteInput>({ resolver: zodResolver(teachingNoteSchema), defaultValues: { note: '' } });
+  const { control, handleSubmit, reset, formState } = useForm<TeachingNoteInput>({ resolver: teachingNoteResolver, defaultValues: { note: '' } });
   const onSubmit = handleSubmit(async ({ note }) => {
     setServerError(undefined);
     setSaved(false);
@@ -141,6 +145,7 @@ function TeachingNoteForm({ flagId, nurseName }: { flagId: string; nurseName: st
         serverError={serverError}
         style={styles.multiline}
       />
+      <FormRootError control={control} />
       <Button label="Mark reviewed with this note" icon="check" onPress={() => void onSubmit()} busy={formState.isSubmitting} />
       {saved ? (
         <Text tone="ok" role="status">

@@ -1,11 +1,12 @@
-import { zodResolver } from '@hookform/resolvers/zod';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet } from 'react-native';
 import { ROLE_LABELS } from '@/shared/roles';
-import { changePasswordSchema, type ChangePasswordInput } from '@/shared/schemas/auth';
+import type { ChangePasswordInput } from '@/shared/schemas/auth';
 import { problemOf } from '../api/client';
 import { useAuth, useUser } from '../auth/auth-provider';
+import { lazyZodResolver } from '../forms/lazy-resolver';
+import { FormRootError } from '../forms/form-root-error';
 import { useChangePasswordMutation, usePreferencesMutation } from '../queries/account';
 import { useThemeChoice } from '../theme/theme-provider';
 import { Button } from '../ui/button';
@@ -69,11 +70,13 @@ export function SettingsScreen() {
   );
 }
 
+const changePasswordResolver = lazyZodResolver<ChangePasswordInput>((m) => m.changePasswordSchema);
+
 function PasswordCard({ onChanged }: { onChanged: () => void }) {
   const change = useChangePasswordMutation();
   const [serverFields, setServerFields] = useState<Record<string, string>>({});
   const { control, handleSubmit, reset } = useForm<ChangePasswordInput>({
-    resolver: zodResolver(changePasswordSchema),
+    resolver: changePasswordResolver,
     defaultValues: { currentPassword: '', newPassword: '' },
   });
   const submit = handleSubmit(async (values) => {
@@ -95,6 +98,7 @@ function PasswordCard({ onChanged }: { onChanged: () => void }) {
       <Text tone="muted">At least 12 characters. Changing it signs you out everywhere.</Text>
       <TextField control={control} name="currentPassword" label="Current password" secureTextEntry autoComplete="current-password" serverError={serverFields.currentPassword} />
       <TextField control={control} name="newPassword" label="New password" secureTextEntry autoComplete="new-password" serverError={serverFields.newPassword} />
+      <FormRootError control={control} />
       <Button label="Change password" onPress={() => void submit()} busy={change.isPending} style={styles.start} />
     </Card>
   );

@@ -1,10 +1,11 @@
-import { zodResolver } from '@hookform/resolvers/zod';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { KeyboardAvoidingView, StyleSheet, View } from 'react-native';
-import { signInSchema, type SignInInput } from '@/shared/schemas/auth';
+import type { SignInInput } from '@/shared/schemas/auth';
 import { problemOf } from '../api/client';
 import { useAuth } from '../auth/auth-provider';
+import { lazyZodResolver } from '../forms/lazy-resolver';
+import { FormRootError } from '../forms/form-root-error';
 import { useTheme } from '../theme/theme-provider';
 import { Button } from '../ui/button';
 import { Card } from '../ui/card';
@@ -12,12 +13,14 @@ import { Icon } from '../ui/icon';
 import { Text } from '../ui/text';
 import { TextField } from '../ui/text-field';
 
+const signInResolver = lazyZodResolver<SignInInput>((m) => m.signInSchema);
+
 export function SignInScreen() {
   const theme = useTheme();
   const { signIn, endedMessage } = useAuth();
   const [formError, setFormError] = useState<string | null>(null);
   const { control, handleSubmit, formState } = useForm<SignInInput>({
-    resolver: zodResolver(signInSchema),
+    resolver: signInResolver,
     defaultValues: { email: '', password: '' },
   });
 
@@ -58,6 +61,8 @@ export function SignInScreen() {
             control={control}
             name="email"
             label="E-mail"
+            // The checks load while she types, not before the form draws.
+            onFocus={signInResolver.preload}
             autoComplete="email"
             keyboardType="email-address"
             autoCapitalize="none"
@@ -68,11 +73,13 @@ export function SignInScreen() {
             control={control}
             name="password"
             label="Password"
+            onFocus={signInResolver.preload}
             secureTextEntry
             autoComplete="current-password"
             textContentType="password"
             onSubmitEditing={() => void onSubmit()}
           />
+          <FormRootError control={control} />
           {formError ? (
             <View style={[styles.error, { backgroundColor: theme.colors.dangerSoft, borderColor: theme.colors.danger }]} role="alert">
               <Icon name="alert" color={theme.colors.danger} />

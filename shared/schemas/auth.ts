@@ -1,8 +1,7 @@
 import { z } from 'zod';
+import { PASSWORD_MAX_BYTES, PASSWORD_MIN_LENGTH } from '../vocabulary';
 
-/** bcrypt only reads the first 72 bytes: longer passwords are refused, never truncated. */
-export const PASSWORD_MIN_LENGTH = 12;
-export const PASSWORD_MAX_BYTES = 72;
+export { PASSWORD_MAX_BYTES, PASSWORD_MIN_LENGTH } from '../vocabulary';
 
 function utf8Length(value: string): number {
   let bytes = 0;

@@ -1,11 +1,14 @@
 import { z } from 'zod';
+import { ACTION_KINDS, CONTROL_MODES, HEAT_SIGNS, HEAT_SOURCES, REMOTE_SITES } from '../vocabulary';
+
+export { ACTION_KINDS, ACTION_LABELS, FUTURE_TOLERANCE_MINUTES, LATE_ENTRY_MINUTES, type ActionKind } from '../vocabulary';
 
 /** Values arrive as the nurse typed them, in her unit; the server converts to hundredths of °C. */
 export const tempUnitSchema = z.enum(['C', 'F'], { error: 'Choose °C or °F.' });
-export const remoteSiteSchema = z.enum(['axilla', 'rectal', 'other'], { error: 'Choose axilla, rectal or other.' });
-export const controlModeSchema = z.enum(['skin-servo', 'air-servo', 'manual'], { error: 'Choose skin servo, air servo or manual.' });
-export const heatSignSchema = z.enum(['red-skin', 'warm-to-touch', 'sweating', 'irritability', 'fast-breathing']);
-export const heatSourceSchema = z.enum(['radiant-warmer', 'incubator', 'convertible'], { error: 'Choose a heat source.' });
+export const remoteSiteSchema = z.enum(REMOTE_SITES, { error: 'Choose axilla, rectal or other.' });
+export const controlModeSchema = z.enum(CONTROL_MODES, { error: 'Choose skin servo, air servo or manual.' });
+export const heatSignSchema = z.enum(HEAT_SIGNS);
+export const heatSourceSchema = z.enum(HEAT_SOURCES, { error: 'Choose a heat source.' });
 
 const temperature = (label: string) =>
   z
@@ -65,35 +68,6 @@ export const correctReadingSchema = z.strictObject({
 });
 export type CorrectReadingInput = z.input<typeof correctReadingSchema>;
 
-export const ACTION_KINDS = [
-  'checked-probe-contact',
-  'checked-cover',
-  'moved-probe',
-  'adjusted-set-temperature',
-  'changed-control-mode',
-  'removed-coverings',
-  'reduced-heater-output',
-  'informed-charge-nurse',
-  'informed-medical-team',
-  'recorded-check',
-  'other',
-] as const;
-export type ActionKind = (typeof ACTION_KINDS)[number];
-
-export const ACTION_LABELS: Record<ActionKind, string> = {
-  'checked-probe-contact': 'Checked probe contact',
-  'checked-cover': 'Checked the heat-reflecting cover',
-  'moved-probe': 'Moved the probe to another site',
-  'adjusted-set-temperature': 'Adjusted the set temperature',
-  'changed-control-mode': 'Changed the control mode',
-  'removed-coverings': 'Removed extra coverings',
-  'reduced-heater-output': 'Reduced heater output',
-  'informed-charge-nurse': 'Told the charge nurse',
-  'informed-medical-team': 'Told the medical team',
-  'recorded-check': 'Recorded the check',
-  other: 'Something else (see note)',
-};
-
 export const createActionSchema = z.strictObject({
   id: uuid,
   kind: z.enum(ACTION_KINDS, { error: 'Choose what was done.' }),
@@ -127,8 +101,3 @@ export type CorrectReading = z.output<typeof correctReadingSchema>;
 export type CreateAction = z.output<typeof createActionSchema>;
 export type StartSession = z.output<typeof startSessionSchema>;
 export type EndSession = z.output<typeof endSessionSchema>;
-
-/** Minutes a reading's time may lag the clock before it counts as a late entry needing a reason. */
-export const LATE_ENTRY_MINUTES = 10;
-/** Minutes a time may run ahead of the server's clock (phone clocks drift). */
-export const FUTURE_TOLERANCE_MINUTES = 2;

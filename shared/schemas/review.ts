@@ -1,18 +1,7 @@
 import { z } from 'zod';
+import { REVIEW_KINDS, REVIEW_PAGE_MAX, REVIEW_STATUSES, TEACHING_NOTE_MAX } from '../vocabulary';
 
-/** The flag kinds the educator's review queue shows. */
-export const REVIEW_KINDS = ['gap', 'overdue-check', 'heat-stress', 'manual-mode'] as const;
-export type ReviewKind = (typeof REVIEW_KINDS)[number];
-
-export const REVIEW_KIND_LABELS: Record<ReviewKind, string> = {
-  gap: 'Gap flag',
-  'overdue-check': 'Overdue check',
-  'heat-stress': 'Heat-stress prompt',
-  'manual-mode': 'Manual-mode warning',
-};
-
-export const REVIEW_STATUSES = ['unreviewed', 'reviewed', 'all'] as const;
-export type ReviewStatus = (typeof REVIEW_STATUSES)[number];
+export { REVIEW_KIND_LABELS, REVIEW_KINDS, REVIEW_PAGE_MAX, REVIEW_STATUSES, TEACHING_NOTE_MAX, type ReviewKind, type ReviewStatus } from '../vocabulary';
 
 /** A local calendar date in the unit's time zone. */
 export const localDateSchema = z
@@ -27,7 +16,6 @@ function rangeOk(v: { from?: string; to?: string }) {
 }
 const RANGE_MESSAGE = { message: 'The end date must not be before the start date.', path: ['to'] };
 
-export const REVIEW_PAGE_MAX = 500;
 
 export const reviewQueueQuerySchema = z
   .strictObject({
@@ -44,7 +32,6 @@ export const reviewQueueQuerySchema = z
   .refine(rangeOk, RANGE_MESSAGE);
 export type ReviewQueueQuery = z.infer<typeof reviewQueueQuerySchema>;
 
-export const TEACHING_NOTE_MAX = 2000;
 export const teachingNoteSchema = z.strictObject({
   note: z
     .string({ error: 'Write a teaching note.' })

@@ -1,24 +1,12 @@
 import { z } from 'zod';
+import { CONTROL_MODES, HEAT_SOURCES } from '../vocabulary';
 
 /**
  * The charge nurse's unit work: admissions, moves, discharges, assignments and escalation
  * acknowledgements. The same schemas check the forms on the client and the bodies on the server.
  */
 
-export const HEAT_SOURCES = ['radiant-warmer', 'incubator', 'convertible'] as const;
-export const CONTROL_MODES = ['skin-servo', 'air-servo', 'manual'] as const;
-
-export const HEAT_SOURCE_LABELS: Record<(typeof HEAT_SOURCES)[number], string> = {
-  'radiant-warmer': 'Radiant warmer',
-  incubator: 'Incubator',
-  convertible: 'Convertible bed',
-};
-
-export const CONTROL_MODE_LABELS: Record<(typeof CONTROL_MODES)[number], string> = {
-  'skin-servo': 'Skin servo',
-  'air-servo': 'Air servo',
-  manual: 'Manual',
-};
+export { CONTROL_MODE_LABELS, CONTROL_MODES, HEAT_SOURCE_LABELS, HEAT_SOURCES } from '../vocabulary';
 
 const heatSource = z.enum(HEAT_SOURCES, { error: 'Choose a heat source.' });
 const controlMode = z.enum(CONTROL_MODES, { error: 'Choose skin servo, air servo or manual.' });

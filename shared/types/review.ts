@@ -1,5 +1,5 @@
 /** What the review, reports and export endpoints answer. Instants are ISO strings. */
-import type { ReviewKind } from '../schemas/review';
+import type { ReviewKind } from '../vocabulary';
 
 export interface PersonRef {
   id: string;

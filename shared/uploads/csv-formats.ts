@@ -33,11 +33,7 @@ export const ROSTER_COLUMNS = ['name', 'email', 'role', 'unit'] as const;
 export const READINGS_COLUMNS = ['infant', 'time', 'probe', 'remote', 'site', 'unit', 'mode', 'output', 'heart_rate'] as const;
 export const READINGS_REQUIRED = ['infant', 'time', 'unit'] as const;
 
-export const READINGS_EXAMPLE = [
-  'infant,time,probe,remote,site,unit,mode,output,heart_rate',
-  'N01,2026-11-16T08:00:00Z,36.6,36.8,axilla,C,skin-servo,40,148',
-  'N02,2026-11-16T08:05:00Z,97.9,,,F,air-servo,,152',
-].join('\n');
+export { READINGS_EXAMPLE } from './example';
 
 export type Row = Record<string, string>;
 

@@ -1,8 +1,11 @@
 /**
- * The web build's Metro resolver: zod's table of languages is swapped for its English messages
- * on the web only, and nothing else is touched.
+ * The web build's Metro resolver: zod's table of languages is swapped for its English messages,
+ * and the screens' `expo-router` imports go to components/web/expo-router-slim.ts, on the web
+ * only; nothing else is touched.
  */
+import fs from 'node:fs';
 import path from 'node:path';
+import ts from 'typescript';
 
 // eslint-disable-next-line @typescript-eslint/no-require-imports
 const config = require('../../metro.config.js') as {
@@ -25,5 +28,37 @@ describe('metro.config.js', () => {
   it('leaves zod whole on other platforms and every other module alone', () => {
     expect(config.resolver.resolveRequest(contextAnswering(zodLocales), '../locales/index.js', 'ios').filePath).toBe(zodLocales);
     expect(config.resolver.resolveRequest(contextAnswering(zodCore), '../core/index.js', 'web').filePath).toBe(zodCore);
+  });
+
+  it('sends the screens’ expo-router imports to the slim module on the web only', () => {
+    const slim = path.join(root, 'components', 'web', 'expo-router-slim.ts');
+    const routerIndex = path.join(root, 'node_modules', 'expo-router', 'build', 'index.js');
+    const fromApp = { ...contextAnswering(routerIndex), originModulePath: path.join(root, 'components', 'ui', 'button.tsx') };
+    const fromPackage = { ...contextAnswering(routerIndex), originModulePath: path.join(root, 'node_modules', 'expo-router', 'build', 'ExpoRoot.js') };
+    expect(config.resolver.resolveRequest(fromApp, 'expo-router', 'web').filePath).toBe(slim);
+    expect(config.resolver.resolveRequest(fromApp, 'expo-router', 'ios').filePath).toBe(routerIndex);
+    expect(config.resolver.resolveRequest(fromPackage, 'expo-router', 'web').filePath).toBe(routerIndex);
+  });
+
+  it('the slim module exports every name the screens import from expo-router', () => {
+    const slimExports = new Set(
+      [...fs.readFileSync(path.join(root, 'components', 'web', 'expo-router-slim.ts'), 'utf8').matchAll(/export \{([^}]+)\}/g)].flatMap((m) => m[1]!.split(',').map((n) => n.trim())),
+    );
+    const used = new Set<string>();
+    const walk = (dir: string): string[] => fs.readdirSync(dir, { withFileTypes: true }).flatMap((d) => (d.isDirectory() ? walk(path.join(dir, d.name)) : /\.tsx?$/.test(d.name) ? [path.join(dir, d.name)] : []));
+    for (const file of [...walk(path.join(root, 'app')), ...walk(path.join(root, 'components'))]) {
+      const source = ts.createSourceFile(file, fs.readFileSync(file, 'utf8'), ts.ScriptTarget.Latest);
+      for (const node of source.statements) {
+        if (!ts.isImportDeclaration(node) || (node.moduleSpecifier as ts.StringLiteral).text !== 'expo-router') continue;
+        const clause = node.importClause;
+        if (!clause || clause.isTypeOnly) continue;
+        expect(clause.name).toBeUndefined(); // no default import from expo-router
+        const named = clause.namedBindings;
+        expect(named && ts.isNamedImports(named)).toBe(true); // no `import * as` either
+        if (named && ts.isNamedImports(named)) for (const e of named.elements) if (!e.isTypeOnly) used.add((e.propertyName ?? e.name).text);
+      }
+    }
+    expect(used.size).toBeGreaterThan(3);
+    expect([...used].filter((n) => !slimExports.has(n))).toEqual([]);
   });
 });
