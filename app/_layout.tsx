@@ -1,5 +1,6 @@
 import { QueryClientProvider } from '@tanstack/react-query';
 import { Slot } from 'expo-router';
+import Head from 'expo-router/head';
 import { useState } from 'react';
 import { View } from 'react-native';
 import { makeQueryClient } from '@/components/api/query-client';
@@ -14,6 +15,9 @@ export default function RootLayout() {
   const fontsLoaded = useAppFonts();
   return (
     <QueryClientProvider client={queryClient}>
+      <Head>
+        <title>Warmfold</title>
+      </Head>
       <AuthProvider>
         <ThemedRoot ready={fontsLoaded} />
       </AuthProvider>

@@ -1,8 +1,6 @@
 import cors from 'cors';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
-import fs from 'node:fs';
-import path from 'node:path';
 import type { Database_ } from '../db/client';
 import type { Clock } from './clock';
 import type { AppConfig } from './config';
@@ -10,8 +8,8 @@ import type { AppContext } from './context';
 import { apiNotFound, errorHandler } from './errors';
 import type { Mailer } from './mail/mailer';
 import { requestLog } from './middleware/request-log';
-import { precompressed } from './precompressed';
 import { apiRouters } from './routes';
+import { inlineScriptHashes, serveWeb } from './web';
 
 export interface CreateAppOptions {
   db: Database_;
@@ -42,7 +40,8 @@ export function createApp({ db, mailer, clock, config, log = (line) => process.s
           'default-src': ["'self'"],
           // react-native-web writes its styles into a <style> element at run time.
           'style-src': ["'self'", "'unsafe-inline'"],
-          'script-src': ["'self'"],
+          // The static export's pages carry one inline script (expo-router's hydrate flag); allow it by hash.
+          'script-src': ["'self'", ...inlineScriptHashes(config.webDir)],
           'img-src': ["'self'", 'data:', 'blob:'],
           'font-src': ["'self'", 'data:'],
           'connect-src': ["'self'"],
@@ -79,31 +78,4 @@ export function createApp({ db, mailer, clock, config, log = (line) => process.s
   serveWeb(app, config.webDir);
   app.use(errorHandler(log));
   return app;
-}
-
-/** The exported web build, with index.html for every client route. */
-function serveWeb(app: Express, webDir: string): void {
-  const index = path.join(webDir, 'index.html');
-  if (!fs.existsSync(index)) {
-    app.get('/', (_req, res) => {
-      res.type('text').send('Warmfold API is running. The web app has not been built: run `npm run build:web`.');
-    });
-    return;
-  }
-  // Hashed bundles never change; index.html must always be fresh.
-  const cacheControl = (file: string) => (/[\\/]_expo[\\/]|[\\/]assets[\\/]/.test(file) ? 'public, max-age=31536000, immutable' : null);
-  app.use(precompressed(webDir, cacheControl));
-  app.use(
-    express.static(webDir, {
-      index: false,
-      setHeaders(res, file) {
-        const cache = cacheControl(file);
-        if (cache) res.set('Cache-Control', cache);
-      },
-    }),
-  );
-  app.get('/{*splat}', (_req, res) => {
-    res.set('Cache-Control', 'no-cache');
-    res.sendFile(index);
-  });
 }

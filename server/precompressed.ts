@@ -9,6 +9,7 @@ const gzip = promisify(zlib.gzip);
 
 /** Text and font types that shrink; images in dist are already compressed. */
 const COMPRESSIBLE: Record<string, string> = {
+  '.html': 'text/html; charset=utf-8',
   '.js': 'application/javascript; charset=utf-8',
   '.css': 'text/css; charset=utf-8',
   '.json': 'application/json; charset=utf-8',
@@ -67,7 +68,7 @@ export function precompressed(webDir: string, cacheControl: (file: string) => st
     return entry;
   };
 
-  // Warm the cache at start-up with what every first visit needs: the scripts and fonts.
+  // Warm the cache at start-up with what every first visit needs: the pages, scripts and fonts.
   const warm = (dir: string) => {
     for (const d of fs.existsSync(dir) ? fs.readdirSync(dir, { withFileTypes: true }) : []) {
       const full = path.join(dir, d.name);
@@ -75,8 +76,7 @@ export function precompressed(webDir: string, cacheControl: (file: string) => st
       else entryFor(full);
     }
   };
-  warm(path.join(root, '_expo'));
-  warm(path.join(root, 'assets'));
+  warm(root);
 
   return (req, res, next) => {
     if (req.method !== 'GET' && req.method !== 'HEAD') return next();

@@ -3,9 +3,8 @@ import { createContext, useCallback, useContext, useEffect, useMemo, useState, t
 import type { SessionUser, SignInInput } from '@/shared/schemas/auth';
 import { api, configureApi } from '../api/client';
 import { storage } from '../api/storage';
+import { TOKEN_KEY, USER_KEY } from './session-keys';
 
-const TOKEN_KEY = 'warmfold.token';
-const USER_KEY = 'warmfold.user';
 
 interface AuthState {
   user: SessionUser | null;
@@ -43,7 +42,9 @@ function readStoredUser(): SessionUser | null {
 
 export function AuthProvider({ children }: { children: ReactNode }) {
   const queryClient = useQueryClient();
-  const [user, setUser] = useState<SessionUser | null>(() => (storage.get(TOKEN_KEY) ? readStoredUser() : null));
+  // Nobody is signed in during the static render, so the first client render must agree (the
+  // stored user is read in the effect below), or hydration fails and React redraws the page.
+  const [user, setUser] = useState<SessionUser | null>(null);
   const [ready, setReady] = useState(false);
   const [endedMessage, setEndedMessage] = useState<string | null>(null);
 
@@ -63,6 +64,7 @@ export function AuthProvider({ children }: { children: ReactNode }) {
       setReady(true);
       return;
     }
+    setUser(readStoredUser());
     // Confirm the stored session with the server; a 401 signs out through onUnauthorized.
     api<{ user: SessionUser }>('/auth/me')
       .then(({ user: fresh }) => {

@@ -1,5 +1,5 @@
-import { createContext, useContext, useEffect, useMemo, useState, type ReactNode } from 'react';
-import { useColorScheme } from 'react-native';
+import { createContext, useContext, useEffect, useMemo, useState, useSyncExternalStore, type ReactNode } from 'react';
+import { Appearance } from 'react-native';
 import { darkTheme, lightTheme, type Theme } from './theme';
 
 export type ThemeChoice = 'system' | 'light' | 'dark';
@@ -18,7 +18,10 @@ const ThemeContext = createContext<ThemeState>({ theme: lightTheme, choice: 'sys
  * night theme while it is shown (the board on a night shift); a user's own choice always wins.
  */
 export function ThemeProvider({ children, initial = 'system' }: { children: ReactNode; initial?: ThemeChoice }) {
-  const system = useColorScheme();
+  // Not useColorScheme(): react-native-web's reads the media query in its first render, which
+  // differs from the statically rendered (light) HTML on a dark device. React does not patch
+  // mismatched attributes when hydrating, so the page would keep the light colours.
+  const system = useSyncExternalStore(subscribeScheme, () => Appearance.getColorScheme(), () => 'light' as const);
   const [choice, setChoice] = useState<ThemeChoice>(initial);
   const [nightScreen, setNightScreen] = useState(false);
   const value = useMemo(() => {
@@ -26,6 +29,11 @@ export function ThemeProvider({ children, initial = 'system' }: { children: Reac
     return { theme: dark ? darkTheme : lightTheme, choice, setChoice, setNightScreen };
   }, [choice, system, nightScreen]);
   return <ThemeContext.Provider value={value}>{children}</ThemeContext.Provider>;
+}
+
+function subscribeScheme(onChange: () => void): () => void {
+  const sub = Appearance.addChangeListener(onChange);
+  return () => sub.remove();
 }
 
 export function useTheme(): Theme {

@@ -11,7 +11,9 @@ function css(theme: Theme): string {
   const halo = theme.name === 'dark' ? '#000000' : '#FFFFFF';
   return `
 :root { color-scheme: ${theme.name}; --wf-focus: ${c.focus}; --wf-focus-halo: ${halo}; }
-html, body { background-color: ${c.background}; margin: 0; }
+html, body { background-color: ${c.background} !important; margin: 0; }
+/* The pre-rendered page (app/+html.tsx) may be hidden until now, or coloured by a stored choice. */
+#root { visibility: visible !important; }
 :focus-visible {
   outline: 3px solid var(--wf-focus) !important;
   outline-offset: 2px !important;
