@@ -1,5 +1,7 @@
 import type { PropsWithChildren } from 'react';
-import { USER_KEY } from '@/components/auth/session-keys';
+import { API_BASE } from '@/components/api/client';
+import { earlyRequestScript } from '@/components/api/early-requests';
+import { TOKEN_KEY, USER_KEY } from '@/components/auth/session-keys';
 import { darkTheme, lightTheme } from '@/components/theme/theme';
 
 /**
@@ -34,6 +36,8 @@ export default function Root({ children }: PropsWithChildren) {
         <meta name="viewport" content="width=device-width, initial-scale=1, shrink-to-fit=no" />
         <meta name="theme-color" content="#1F4E5A" />
         <script dangerouslySetInnerHTML={{ __html: THEME_CHOICE }} />
+        {/* A bedside page starts its first reads now, while its scripts arrive (components/api/early-requests.ts). */}
+        <script dangerouslySetInnerHTML={{ __html: earlyRequestScript(TOKEN_KEY, `${API_BASE}/api`) }} />
         <style id="expo-reset" dangerouslySetInnerHTML={{ __html: RESET }} />
       </head>
       <body>

@@ -1,4 +1,5 @@
 import type { ApiErrorBody } from '@/shared/api';
+import { takeEarlyRead } from './early-requests';
 
 /** Every way a request can fail, as the screens need to tell them apart. */
 export type ApiProblem =
@@ -64,7 +65,8 @@ export async function api<T>(path: string, options: RequestOptions = {}): Promis
   }
   let response: Response;
   try {
-    response = await fetch(`${API_BASE}/api${path}`, { method: options.method ?? 'GET', headers, body: payload, signal: options.signal });
+    const early = (options.method ?? 'GET') === 'GET' ? takeEarlyRead(path, token) : null;
+    response = (early ? await early.catch(() => null) : null) ?? (await fetch(`${API_BASE}/api${path}`, { method: options.method ?? 'GET', headers, body: payload, signal: options.signal }));
   } catch (err) {
     if ((err as Error).name === 'AbortError') throw err;
     throw new ApiFailure({ kind: 'cannot-connect', message: 'Cannot reach Warmfold. Check the connection; nothing was lost.' });

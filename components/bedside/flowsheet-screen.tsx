@@ -21,12 +21,13 @@ import { startPendingFlush, usePendingReadings } from './pending-readings';
 import { SkinToSkinPanel } from './skin-to-skin';
 import { TrendChart } from './trend-chart';
 import { useNow } from './use-now';
+import { FLOWSHEET_FIRST_HOURS, type FlowsheetHours } from '@/components/api/paths';
 import { afterNextPaint } from '@/components/ui/after-next-paint';
 
-type Hours = 12 | 24 | 72;
+type Hours = FlowsheetHours;
 
 export function FlowsheetScreen({ infantId }: { infantId: string }) {
-  const [hours, setHours] = useState<Hours>(12);
+  const [hours, setHours] = useState<Hours>(FLOWSHEET_FIRST_HOURS);
   const query = useFlowsheetQuery(infantId, hours);
   const router = useRouter();
   const user = useUser();

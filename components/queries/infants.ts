@@ -2,6 +2,7 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { CorrectReadingInput, CreateActionInput, StartSessionInput } from '@/shared/schemas/bedside';
 import type { CreateReadingResult, Flowsheet, FlagAction, InfantDetail, InfantSummary, ReadingVersion, SessionRecord } from '@/shared/types/bedside';
 import { api, ApiFailure } from '@/components/api/client';
+import { flowsheetPath, MY_INFANTS_PATH, unitInfantsPath } from '@/components/api/paths';
 import { STALE } from '@/components/api/query-client';
 import { pendingReadings, sendReading, type PendingReading } from '@/components/bedside/pending-readings';
 
@@ -22,7 +23,7 @@ const enc = encodeURIComponent;
 export function useMyInfantsQuery() {
   return useQuery({
     queryKey: infantKeys.mine(),
-    queryFn: ({ signal }) => api<{ infants: InfantSummary[] }>('/infants/mine', { signal }).then((r) => r.infants),
+    queryFn: ({ signal }) => api<{ infants: InfantSummary[] }>(MY_INFANTS_PATH, { signal }).then((r) => r.infants),
     staleTime: STALE.live,
     refetchInterval: REFRESH_MS,
   });
@@ -31,7 +32,7 @@ export function useMyInfantsQuery() {
 export function useUnitInfantsQuery(unitId: string | null = null) {
   return useQuery({
     queryKey: infantKeys.unit(unitId),
-    queryFn: ({ signal }) => api<{ infants: InfantSummary[] }>(`/infants${unitId ? `?unitId=${enc(unitId)}` : ''}`, { signal }).then((r) => r.infants),
+    queryFn: ({ signal }) => api<{ infants: InfantSummary[] }>(unitInfantsPath(unitId), { signal }).then((r) => r.infants),
     staleTime: STALE.live,
     refetchInterval: REFRESH_MS,
   });
@@ -48,7 +49,7 @@ export function useInfantQuery(id: string) {
 export function useFlowsheetQuery(id: string, hours: 12 | 24 | 72) {
   return useQuery({
     queryKey: infantKeys.flowsheet(id, hours),
-    queryFn: ({ signal }) => api<Flowsheet>(`/infants/${enc(id)}/flowsheet?hours=${hours}`, { signal }),
+    queryFn: ({ signal }) => api<Flowsheet>(flowsheetPath(id, hours), { signal }),
     staleTime: STALE.live,
     refetchInterval: REFRESH_MS,
   });
