@@ -10,14 +10,14 @@
  * fetched as usual, so a mismatch costs a duplicate read and nothing more.
  * tests/components/early-requests.test.tsx runs the script against the screens' own paths.
  */
-import { FLOWSHEET_FIRST_HOURS, flowsheetPath, MY_INFANTS_PATH, UNIT_INFANTS_PATH } from './paths';
+import { FLOWSHEET_FIRST_HOURS, flowsheetPath, MY_INFANTS_PATH } from './paths';
 
 /** Stands for the page's id in a read's path; encodeURIComponent leaves it as it is. */
 const PAGE_ID = 'PAGE_ID';
 
 /** A page path pattern (matched against location.pathname) and the API paths it reads first; `$1` is the pattern's first group. */
 export const EARLY_ROUTES: ReadonlyArray<{ page: RegExp; reads: string[] }> = [
-  { page: /^\/infants\/?$/, reads: [MY_INFANTS_PATH, UNIT_INFANTS_PATH] },
+  { page: /^\/infants\/?$/, reads: [MY_INFANTS_PATH] },
   { page: /^\/infants\/([^/]+)\/?$/, reads: [flowsheetPath(PAGE_ID, FLOWSHEET_FIRST_HOURS).replace(PAGE_ID, '$1')] },
 ];
 

@@ -88,25 +88,19 @@ function FlowsheetBody({ sheet, hours, setHours, canChart }: { sheet: Flowsheet;
       </View>
       <ClosedFlags sheet={sheet} />
       <SkinToSkinPanel sheet={sheet} canChart={canChart} now={now} />
-      <Card>
-        <Text variant="title" role="heading" aria-level={2}>
-          Trend
-        </Text>
-        <Segmented
-          label="Window"
-          value={String(hours) as '12' | '24' | '72'}
-          options={[
-            { value: '12', label: '12 h' },
-            { value: '24', label: '24 h' },
-            { value: '72', label: '72 h' },
-          ]}
-          onChange={(h) => setHours(Number(h) as Hours)}
-        />
-        <TrendChart sheet={sheet} unit={user.tempUnit} clock={user.clock} />
-      </Card>
       <Text variant="title" role="heading" aria-level={2}>
         Readings
       </Text>
+      <Segmented
+        label="Window"
+        value={String(hours) as '12' | '24' | '72'}
+        options={[
+          { value: '12', label: '12 h' },
+          { value: '24', label: '24 h' },
+          { value: '72', label: '72 h' },
+        ]}
+        onChange={(h) => setHours(Number(h) as Hours)}
+      />
       {sheet.readings.length === 0 ? (
         <Text tone="muted">No readings in this window.</Text>
       ) : wide ? (
@@ -114,6 +108,14 @@ function FlowsheetBody({ sheet, hours, setHours, canChart }: { sheet: Flowsheet;
       ) : (
         sheet.readings.map((r) => <ReadingCard key={r.rootId} reading={r} sheet={sheet} canChart={canChart} />)
       )}
+      {/* After the readings, as the design orders them: the values first, the picture of them second.
+          On a phone the chart is then off the first screen and its code loads only when scrolled near. */}
+      <Card>
+        <Text variant="title" role="heading" aria-level={2}>
+          Trend
+        </Text>
+        <TrendChart sheet={sheet} unit={user.tempUnit} clock={user.clock} />
+      </Card>
       {corrected.length ? (
         <Card role="region" aria-label="Corrected entries">
           <Text variant="title" role="heading" aria-level={2}>

@@ -21,7 +21,7 @@ import { useNow } from './use-now';
 export function MyInfantsScreen() {
   const [tab, setTab] = useState<Scope>('mine');
   const mine = useMyInfantsQuery();
-  const unit = useUnitInfantsQuery();
+  const unit = useUnitInfantsQuery(null, { enabled: tab === 'unit' });
   const query = tab === 'mine' ? mine : unit;
   const wide = useWindowDimensions().width >= WIDE_BREAKPOINT;
   return (

@@ -29,8 +29,10 @@ export function useMyInfantsQuery() {
   });
 }
 
-export function useUnitInfantsQuery(unitId: string | null = null) {
+/** The whole unit's infants; `enabled: false` until the list is shown (a phone on ward Wi-Fi should not fetch and refresh it unseen). */
+export function useUnitInfantsQuery(unitId: string | null = null, { enabled = true }: { enabled?: boolean } = {}) {
   return useQuery({
+    enabled,
     queryKey: infantKeys.unit(unitId),
     queryFn: ({ signal }) => api<{ infants: InfantSummary[] }>(unitInfantsPath(unitId), { signal }).then((r) => r.infants),
     staleTime: STALE.live,

@@ -6,7 +6,7 @@
 import vm from 'node:vm';
 import { api, configureApi } from '@/components/api/client';
 import { EARLY_MAX_AGE_MS, earlyRequestScript, takeEarlyRead } from '@/components/api/early-requests';
-import { FLOWSHEET_FIRST_HOURS, flowsheetPath, MY_INFANTS_PATH, unitInfantsPath } from '@/components/api/paths';
+import { FLOWSHEET_FIRST_HOURS, flowsheetPath, MY_INFANTS_PATH } from '@/components/api/paths';
 import { TOKEN_KEY } from '@/components/auth/session-keys';
 
 /** Runs the script in a fresh context, as a page at `pathname` with `token` stored; returns what it fetched. */
@@ -33,9 +33,9 @@ afterEach(() => {
 });
 
 describe('the early reads', () => {
-  it('My infants asks for the nurse’s list and the unit list, as the screen’s queries do', () => {
+  it('My infants asks for the nurse’s own list, as the screen’s first query does', () => {
     const { fetched } = runScript('/infants', 'tok-1');
-    expect(fetched.map((f) => f.url)).toEqual([`/api${MY_INFANTS_PATH}`, `/api${unitInfantsPath(null)}`]);
+    expect(fetched.map((f) => f.url)).toEqual([`/api${MY_INFANTS_PATH}`]);
     expect(fetched[0]!.headers).toEqual({ Accept: 'application/json', Authorization: 'Bearer tok-1' });
   });
 
@@ -51,7 +51,8 @@ describe('the early reads', () => {
   });
 
   it('api() takes an early answer once, for the same token, while fresh, then fetches as usual', async () => {
-    const { early } = runScript('/infants', 'tok-1');
+    const { early } = runScript('/infants/inf-ashgrove', 'tok-1');
+    const sheet = flowsheetPath('inf-ashgrove', FLOWSHEET_FIRST_HOURS);
     (globalThis as Record<string, unknown>).__warmfoldEarly = early;
     const real: string[] = [];
     const realFetch = globalThis.fetch;
@@ -61,16 +62,20 @@ describe('the early reads', () => {
     }) as typeof fetch;
     try {
       configureApi({ token: () => 'tok-1', onUnauthorized: () => {} });
-      await expect(api<{ url: string }>(MY_INFANTS_PATH)).resolves.toEqual({ url: `/api${MY_INFANTS_PATH}` });
-      await expect(api<{ url: string }>(MY_INFANTS_PATH)).resolves.toEqual({ url: 'network' });
-      expect(real).toEqual([`/api${MY_INFANTS_PATH}`]);
-
-      // Another user's token, or an answer left too long, is never used.
-      expect(takeEarlyRead(unitInfantsPath(null), 'tok-2')).toBeNull();
-      expect(takeEarlyRead(unitInfantsPath(null), 'tok-1', Date.now() + EARLY_MAX_AGE_MS + 1)).toBeNull();
-      expect(takeEarlyRead(unitInfantsPath(null), 'tok-1')).not.toBeNull();
+      await expect(api<{ url: string }>(sheet)).resolves.toEqual({ url: `/api${sheet}` });
+      await expect(api<{ url: string }>(sheet)).resolves.toEqual({ url: 'network' });
+      expect(real).toEqual([`/api${sheet}`]);
     } finally {
       globalThis.fetch = realFetch;
     }
+  });
+
+  it('never hands an early answer to another user’s token, or after it has waited too long', () => {
+    const { early } = runScript('/infants', 'tok-1');
+    (globalThis as Record<string, unknown>).__warmfoldEarly = early;
+    expect(takeEarlyRead(MY_INFANTS_PATH, 'tok-2')).toBeNull();
+    expect(takeEarlyRead(MY_INFANTS_PATH, 'tok-1', Date.now() + EARLY_MAX_AGE_MS + 1)).toBeNull();
+    expect(takeEarlyRead(MY_INFANTS_PATH, 'tok-1')).not.toBeNull();
+    expect(takeEarlyRead(MY_INFANTS_PATH, 'tok-1')).toBeNull();
   });
 });

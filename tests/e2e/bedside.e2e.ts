@@ -86,6 +86,26 @@ describe('bedside charting on a phone', () => {
     await gapStory(page, 'F', 'Baby Glimmerton B', 'N08');
   });
 
+  it('opening My infants reads the nurse’s list once, started by the page itself; the whole unit only when asked for', async () => {
+    const page = await newPage(browser, PHONE);
+    await signIn(page, ACCOUNTS.nurse);
+    await page.waitForURL((url) => url.pathname === '/infants');
+    const reads: string[] = [];
+    page.on('request', (r) => {
+      const u = new URL(r.url());
+      if (u.pathname.startsWith('/api/infants')) reads.push(u.pathname + u.search);
+    });
+    await page.reload();
+    await page.getByRole('heading', { name: 'My infants', level: 1 }).waitFor();
+    await page.getByRole('list').first().waitFor();
+    await page.waitForLoadState('networkidle');
+    // One read: the page's own early request, taken by the screen's query rather than repeated.
+    assert.deepEqual(reads, ['/api/infants/mine']);
+    await page.getByRole('radio', { name: 'Whole unit' }).click();
+    await page.getByRole('link', { name: /^N08, Baby Glimmerton B/ }).waitFor();
+    assert.deepEqual(reads, ['/api/infants/mine', '/api/infants']);
+  });
+
   it('a routine check from the opened infant takes 3 key presses besides the digits', async () => {
     await setTempUnit(ACCOUNTS.nurse, 'C');
     const page = await newPage(browser, PHONE);
