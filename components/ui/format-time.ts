@@ -15,11 +15,70 @@ function instant(at: string | Date | number): number {
 export function formatInZone(at: string | Date | number, timeZone: string, pattern: string): string {
   const ms = instant(at);
   if (Number.isNaN(ms)) return '—';
+  const quick = QUICK_PATTERNS[pattern];
+  if (quick) {
+    const parts = wallClock(ms, timeZone);
+    if (parts) return quick(parts);
+  }
   try {
     return format(new TZDate(ms, timeZone), pattern);
   } catch {
     return `${format(new TZDate(ms, 'UTC'), pattern)} UTC`;
   }
+}
+
+/**
+ * The screens format many times per render (a flowsheet card shows several), and a TZDate asks
+ * Intl for the zone's offset on every field it reads. The patterns Warmfold uses are built here
+ * from one Intl call per instant instead; the result is the same text date-fns gives
+ * (tests/shared/format-time.test.ts checks them against it across zones and DST changes).
+ */
+interface WallClock {
+  year: number;
+  /** 1 to 12. */
+  month: number;
+  day: number;
+  /** 0 to 23. */
+  hour: number;
+  minute: number;
+}
+
+const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
+const WEEKDAYS = ['Sun', 'Mon', 'Tue', 'Wed', 'Thu', 'Fri', 'Sat'];
+const pad = (n: number) => String(n).padStart(2, '0');
+const h24 = (w: WallClock) => `${pad(w.hour)}:${pad(w.minute)}`;
+const h12 = (w: WallClock) => `${w.hour % 12 === 0 ? 12 : w.hour % 12}:${pad(w.minute)} ${w.hour < 12 ? 'AM' : 'PM'}`;
+const dayMonth = (w: WallClock) => `${w.day} ${MONTHS[w.month - 1]}`;
+const weekday = (w: WallClock) => WEEKDAYS[new Date(Date.UTC(w.year, w.month - 1, w.day)).getUTCDay()];
+
+const QUICK_PATTERNS: Record<string, (w: WallClock) => string> = {
+  'HH:mm': h24,
+  'h:mm a': h12,
+  'd MMM, HH:mm': (w) => `${dayMonth(w)}, ${h24(w)}`,
+  'd MMM, h:mm a': (w) => `${dayMonth(w)}, ${h12(w)}`,
+  'EEE d MMM, HH:mm': (w) => `${weekday(w)} ${dayMonth(w)}, ${h24(w)}`,
+  'EEE d MMM, h:mm a': (w) => `${weekday(w)} ${dayMonth(w)}, ${h12(w)}`,
+};
+
+const wallFormats = new Map<string, Intl.DateTimeFormat | null>();
+
+/** The wall-clock fields at `ms` in `timeZone`, or null if this runtime cannot say (then TZDate answers). */
+function wallClock(ms: number, timeZone: string): WallClock | null {
+  let f = wallFormats.get(timeZone);
+  if (f === undefined) {
+    try {
+      f = new Intl.DateTimeFormat('en-US', { timeZone, hourCycle: 'h23', year: 'numeric', month: 'numeric', day: 'numeric', hour: 'numeric', minute: 'numeric' });
+    } catch {
+      f = null;
+    }
+    wallFormats.set(timeZone, f);
+  }
+  if (!f) return null;
+  const w: Partial<Record<Intl.DateTimeFormatPartTypes, number>> = {};
+  for (const p of f.formatToParts(ms)) if (p.type !== 'literal') w[p.type] = Number(p.value);
+  const { year, month, day, hour, minute } = w;
+  if ([year, month, day, hour, minute].some((v) => v === undefined || Number.isNaN(v))) return null;
+  return { year: year!, month: month!, day: day!, hour: hour! % 24, minute: minute! };
 }
 
 /** "14:05" or "2:05 PM". */
