@@ -13,7 +13,7 @@ import { ACTION_LABELS, type ActionKind } from '@/shared/vocabulary';
 import { BAND_LABELS, CLINICAL_PROMPT_CAVEAT, HEAT_STRESS_CHECKLIST, HEAT_STRESS_SIGN_LABELS, type FlagKind, type HeatStressReason } from '@/shared/thermal';
 import type { Flowsheet, FlowsheetFlag } from '@/shared/types/bedside';
 import { clockTime, duration, FLAG_LABELS, temp, tempDelta } from './format';
-import { afterNextPaint } from '@/components/ui/after-next-paint';
+import { openRecordForm } from './open-record-form';
 
 /** What a nurse can record against each kind of flag, in the order she would usually try them. */
 export const FLAG_ACTIONS: Record<FlagKind, ActionKind[]> = {
@@ -51,7 +51,7 @@ export function FlagCard({ flag, sheet, canChart, now }: { flag: FlowsheetFlag; 
   const done = new Set(flag.actions.map((a) => a.kind));
   const recheckMs = flag.recheckDueAt ? Date.parse(flag.recheckDueAt) - now.getTime() : null;
   const { tone, icon } = flagTone(flag.kind);
-  const openRecord = () => afterNextPaint(() => router.push(`/infants/${sheet.infant.id}/record`));
+  const openRecord = () => openRecordForm(router, sheet.infant.id);
   return (
     <Card style={[styles.card, { borderColor: colors[tone === 'together' ? 'together' : tone === 'heat' ? 'heat' : tone === 'warning' ? 'warning' : 'danger'] }]} role="region" aria-label={FLAG_LABELS[flag.kind]}>
       <StatusBadge tone={tone} icon={icon} label={`${FLAG_LABELS[flag.kind]} open${flag.escalated ? ', escalated' : ''}`} large />

@@ -22,7 +22,7 @@ import { SkinToSkinPanel } from './skin-to-skin';
 import { TrendChart } from './trend-chart';
 import { useNow } from './use-now';
 import { FLOWSHEET_FIRST_HOURS, type FlowsheetHours } from '@/components/api/paths';
-import { afterNextPaint } from '@/components/ui/after-next-paint';
+import { openRecordForm } from './open-record-form';
 
 type Hours = FlowsheetHours;
 
@@ -41,7 +41,7 @@ export function FlowsheetScreen({ infantId }: { infantId: string }) {
       subtitle="Flowsheet"
       refreshing={query.isRefetching}
       onRefresh={() => void query.refetch()}
-      actions={canChart ? <Button label="Record" icon="plus" onPress={() => afterNextPaint(() => router.push(`/infants/${infantId}/record`))} /> : null}
+      actions={canChart ? <Button label="Record" icon="plus" onPress={() => openRecordForm(router, infantId)} /> : null}
     >
       {query.isError && !sheet ? (
         <ErrorState error={query.error} onRetry={() => void query.refetch()} />

@@ -13,7 +13,12 @@ export type Schemas = typeof import('./schemas');
 
 let schemasModule: Promise<Schemas> | null = null;
 
-/** Fetch the validation code (one chunk: zod, the resolver and every form's schema). A failed fetch is retried next call. */
+/**
+ * Fetch the validation code (one chunk: zod, the resolver and every form's schema). A failed
+ * fetch is retried next call. Call it (and ignore the promise) on a tap that opens a form, so
+ * the chunk is fetched and run while the next screen draws rather than under the nurse's first
+ * key presses.
+ */
 export function loadSchemas(): Promise<Schemas> {
   schemasModule ??= import('./schemas').catch((err: unknown) => {
     schemasModule = null;
