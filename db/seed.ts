@@ -3,6 +3,7 @@
  * Every name here is made up. Times are laid out relative to `now`, so the demo always shows
  * an open gap flag, an overdue check, a heat-stress case and a running skin-to-skin session.
  */
+import { TZDate } from '@date-fns/tz';
 import bcrypt from 'bcryptjs';
 import { randomUUID } from 'node:crypto';
 import { writeTx, type Database_ } from './client';
@@ -103,6 +104,9 @@ export async function seedDemo(database: Database_, { now, bcryptCost }: SeedOpt
   const t0 = Math.floor(now.getTime() / 60_000) * 60_000;
   const min = (m: number) => t0 - m * 60_000;
   const rand = prng(20261202);
+  // Every infant's history also holds one caught gap around 03:00 in the last night shift, so
+  // the educator's review of night shifts has something to open whatever hour the demo is laid down.
+  const nightGapAt = lastLocalHour(t0 - 3 * 60 * 60_000, 'Europe/London', 3);
 
   writeTx(sqlite, () => {
     const unit = sqlite.prepare('INSERT INTO units (id, name, hospital_name, time_zone, created_at) VALUES (?, ?, ?, ?, ?)');
@@ -153,13 +157,19 @@ export async function seedDemo(database: Database_, { now, bcryptCost }: SeedOpt
         inf.scenario === 'overdue' ? 170 : inf.scenario === 'due-soon' ? 110 : inf.scenario === 'gap-open' ? 35 : inf.scenario === 'heat-stress' ? 20 : 50;
       let m = Math.floor((admitted - t0) / -60_000) - 5;
       let checkNo = 0;
+      let nightGapDone = false;
       while (m > lastCheck) {
         checkNo += 1;
         // Most checks land on time; now and then one slips past two hours.
         const late = checkNo % 9 === 4;
         const remote = base + Math.round((rand() - 0.5) * 40);
-        const historicGap = checkNo % 11 === 6;
-        const probe = historicGap ? remote + 70 : remote - 10 - Math.round(rand() * 20);
+        // The usual probe value draws from the generator exactly as it always has, so adding the
+        // night-shift gap leaves every other value of the demo as it was.
+        const usual = checkNo % 11 === 6 ? null : remote - 10 - Math.round(rand() * 20);
+        const nightGap = !nightGapDone && Math.abs(min(m) - nightGapAt) <= 60 * 60_000;
+        if (nightGap) nightGapDone = true;
+        const historicGap = usual === null || nightGap;
+        const probe = historicGap ? remote + 70 : usual;
         const id = randomUUID();
         reading.run({
           id, infant: inf.id, unit: inf.unit, taken: min(m), recorded: min(m) + 60_000, by: inf.nurse,
@@ -260,4 +270,11 @@ function seedScenario(
       row(50, { probe: base - 15, remote: base, site: 'axilla' });
       break;
   }
+}
+
+/** The latest `hour`:00 in `timeZone` at or before `notAfter` (ms). */
+function lastLocalHour(notAfter: number, timeZone: string, hour: number): number {
+  const local = new TZDate(notAfter, timeZone);
+  const at = new TZDate(local.getFullYear(), local.getMonth(), local.getDate(), hour, 0, 0, timeZone).getTime();
+  return at <= notAfter ? at : new TZDate(local.getFullYear(), local.getMonth(), local.getDate() - 1, hour, 0, 0, timeZone).getTime();
 }

@@ -33,7 +33,7 @@ function run(label, cmd, args) {
   }
 }
 
-const webSources = newest(['app', 'components', 'shared', 'assets', 'public']);
+const webSources = newest(['app', 'components', 'shared', 'assets']);
 const webConfig = Math.max(mtime(path.join(root, 'app.json')), mtime(path.join(root, 'metro.config.js')), mtime(path.join(root, 'babel.config.js')));
 if (mtime(path.join(root, 'dist', 'index.html')) < Math.max(webSources, webConfig)) {
   run('Building the web app (about two minutes the first time)', 'npx', ['expo', 'export', '--platform', 'web', '--output-dir', 'dist']);

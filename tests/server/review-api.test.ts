@@ -149,3 +149,21 @@ describe('review queue page cap (OWASP API4:2023)', () => {
     expect(tooMany.body.error.fields).toHaveProperty('limit');
   });
 });
+
+describe('the demo for the educator', () => {
+  // The demo is laid down relative to the hour it is seeded; an educator trying the review queue
+  // at any hour must find caught gaps on night shifts as well as day shifts to filter and open.
+  it.each(['2026-12-02T00:20:00Z', '2026-12-02T08:03:00Z', '2026-12-02T13:40:00Z', '2026-12-02T19:10:00Z'])('has gap flags on both shifts when seeded at %s', async (iso) => {
+    const demo = await makeEnv({ now: new Date(iso) });
+    try {
+      const token = await demo.signIn(DEMO.educator);
+      for (const shift of ['night', 'day']) {
+        const res = await request(demo.app).get(`/api/review/queue?shift=${shift}&kind=gap`).set('Authorization', `Bearer ${token}`);
+        expect(res.status).toBe(200);
+        expect(res.body.total).toBeGreaterThan(0);
+      }
+    } finally {
+      demo.close();
+    }
+  });
+});
