@@ -3,6 +3,8 @@
  * react-native-svg; icon.web.tsx draws the same shapes as plain SVG elements, so the web's first
  * page does not carry react-native-svg (it arrives later, with the charts).
  */
+import { createElement, type ElementType, type ReactNode } from 'react';
+
 export type IconName =
   | 'alert'
   | 'clock'
@@ -59,7 +61,21 @@ export const ICON_SHAPES: Record<IconName, IconShape[]> = {
   print: [path('M7 8 V3 H17 V8 M7 17 H4 V9 H20 V17 H17'), rect(7, 14, 10, 7)],
 };
 
-/** The stroke every shape shares; a solid dot is filled with the same colour. */
-export function strokeProps(color: string) {
-  return { stroke: color, strokeWidth: 2, fill: 'none', strokeLinecap: 'round' as const, strokeLinejoin: 'round' as const };
+/** The elements one renderer draws with: react-native-svg's components, or the DOM's tag names. */
+export interface ShapeElements {
+  path: ElementType;
+  circle: ElementType;
+  rect: ElementType;
+}
+
+/** The icon's shapes as `elements`, in the stroke every shape shares; a solid dot is filled with the same colour. */
+export function drawShapes(name: IconName, color: string, elements: ShapeElements): ReactNode[] {
+  const p = { stroke: color, strokeWidth: 2, fill: 'none', strokeLinecap: 'round' as const, strokeLinejoin: 'round' as const };
+  return ICON_SHAPES[name].map((s, key) =>
+    s.kind === 'path'
+      ? createElement(elements.path, { key, d: s.d, ...p })
+      : s.kind === 'circle'
+        ? createElement(elements.circle, { key, cx: s.cx, cy: s.cy, r: s.r, ...p, fill: s.solid ? color : 'none' })
+        : createElement(elements.rect, { key, x: s.x, y: s.y, width: s.width, height: s.height, rx: s.rx, ...p }),
+  );
 }
