@@ -15,6 +15,8 @@ const path = require('node:path');
 const { getDefaultConfig } = require('expo/metro-config');
 
 const config = getDefaultConfig(__dirname);
+// The web app's Inter subsets (scripts/web-fonts.mjs) are WOFF2 files.
+config.resolver.assetExts = [...config.resolver.assetExts, 'woff2'];
 const ZOD_LOCALES = /[\\/]node_modules[\\/]zod[\\/]v4[\\/]locales[\\/]index\.c?js$/;
 const EN_ONLY = path.join(__dirname, 'components', 'web', 'zod-locales-en.ts');
 

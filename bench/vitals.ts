@@ -22,6 +22,8 @@ export const MOBILE = {
 export interface PageSample {
   lcp: number | null;
   cls: number;
+  /** Which element was the LCP and where its time went (web-vitals' attribution). */
+  lcpWhat: string | null;
   /** Same-origin scripts the page loaded, as paths: the route's initial JavaScript. */
   scripts: string[];
 }
@@ -37,8 +39,12 @@ export interface VitalsRun {
 }
 
 const COLLECTOR = `
-  window.__vitals = { lcp: null, cls: 0, inp: null, inpWhat: null, maxEvent: 0, slowestEvent: null };
-  webVitals.onLCP((m) => { window.__vitals.lcp = m.value; }, { reportAllChanges: true });
+  window.__vitals = { lcp: null, lcpWhat: null, cls: 0, inp: null, inpWhat: null, maxEvent: 0, slowestEvent: null };
+  webVitals.onLCP((m) => {
+    window.__vitals.lcp = m.value;
+    const a = m.attribution;
+    window.__vitals.lcpWhat = a ? (a.target || 'unknown element') + ': first byte ' + Math.round(a.timeToFirstByte) + ' + render delay ' + Math.round(a.elementRenderDelay) + ' ms' : null;
+  }, { reportAllChanges: true });
   webVitals.onCLS((m) => { window.__vitals.cls = m.value; }, { reportAllChanges: true });
   // The attribution build says which interaction was slowest and where its time went.
   webVitals.onINP((m) => {
@@ -77,6 +83,7 @@ async function throttle(cdp: CDPSession): Promise<void> {
 
 interface Vitals {
   lcp: number | null;
+  lcpWhat: string | null;
   cls: number;
   inp: number | null;
   inpWhat: string | null;
@@ -102,7 +109,7 @@ async function coldLoad(page: Page, cdp: CDPSession, url: string, ready: (page: 
   await page.waitForTimeout(500);
   page.off('response', onResponse);
   const v = await read(page);
-  return { lcp: v.lcp, cls: v.cls, scripts: [...scripts] };
+  return { lcp: v.lcp, lcpWhat: v.lcpWhat, cls: v.cls, scripts: [...scripts] };
 }
 
 export interface VitalsOptions {
@@ -250,6 +257,9 @@ export async function benchVitals(opts: VitalsOptions, log: (line: string) => vo
       log(
         `  vitals run ${i + 1}/${opts.runs}: LCP sign-in ${fmt(run.signIn.lcp)}, my infants ${fmt(run.myInfants.lcp)}, flowsheet ${fmt(run.flowsheet.lcp)}; INP ${fmt(run.inp)}${run.inpWhat ? ` (${run.inpWhat})` : ''}`,
       );
+      for (const [label, sample] of [['sign-in', run.signIn], ['my infants', run.myInfants], ['flowsheet', run.flowsheet]] as const) {
+        if (sample.lcpWhat) log(`    LCP ${label}: ${sample.lcpWhat}`);
+      }
       runs.push(run);
     }
   } finally {

@@ -1,5 +1,5 @@
 import type { ApiErrorBody } from '@/shared/api';
-import { takeEarlyRead } from './early-requests';
+import { takeEarlyAnswer, takeEarlyRead, type EarlyAnswer } from './early-requests';
 
 /** Every way a request can fail, as the screens need to tell them apart. */
 export type ApiProblem =
@@ -50,6 +50,11 @@ export interface RequestOptions {
   signal?: AbortSignal;
   /** Sign-in's own 401 means "wrong password", not "signed out". */
   skipUnauthorizedHandler?: boolean;
+}
+
+/** The page's early answer for a GET of `path` for the signed-in token, if it has arrived already (early-requests.ts). */
+export function earlyAnswer(path: string): EarlyAnswer | null {
+  return takeEarlyAnswer(path, tokenSource());
 }
 
 /** One request: resolves with the JSON data, or rejects with an ApiFailure carrying a typed problem. */

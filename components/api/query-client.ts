@@ -1,5 +1,6 @@
 import { QueryClient } from '@tanstack/react-query';
-import { ApiFailure } from './client';
+import { ApiFailure, earlyAnswer } from './client';
+import type { EarlyAnswer } from './early-requests';
 
 /** Named stale times, so screens agree on how fresh data must be. */
 export const STALE = {
@@ -21,4 +22,21 @@ export function makeQueryClient(): QueryClient {
       mutations: { retry: false },
     },
   });
+}
+
+/**
+ * Options that start a query from the page's early answer for `path` (early-requests.ts) when it
+ * has already arrived, so the screen draws its data in its first pass. The answer is dated when
+ * it arrived, so the query's stale time counts from then. Without one the query fetches as usual.
+ */
+export function fromEarlyAnswer<TBody, TData>(path: string, select: (body: TBody) => TData) {
+  let taken: EarlyAnswer | null | undefined;
+  const take = () => (taken === undefined ? (taken = earlyAnswer(path)) : taken);
+  return {
+    initialData: (): TData | undefined => {
+      const answer = take();
+      return answer ? select(answer.body as TBody) : undefined;
+    },
+    initialDataUpdatedAt: (): number | undefined => take()?.at,
+  };
 }

@@ -64,12 +64,17 @@ export function AuthProvider({ children }: { children: ReactNode }) {
       setReady(true);
       return;
     }
-    setUser(readStoredUser());
-    // Confirm the stored session with the server; a 401 signs out through onUnauthorized.
+    // A stored user opens the app at once; the server's answer only corrects it.
+    const stored = readStoredUser();
+    setUser(stored);
+    if (stored) setReady(true);
+    // Confirm the stored session with the server; a 401 signs out through onUnauthorized. An
+    // unchanged user keeps the same object, so the screens are not drawn again for nothing.
     api<{ user: SessionUser }>('/auth/me')
       .then(({ user: fresh }) => {
-        storage.set(USER_KEY, JSON.stringify(fresh));
-        setUser(fresh);
+        const json = JSON.stringify(fresh);
+        storage.set(USER_KEY, json);
+        setUser((current) => (current && JSON.stringify(current) === json ? current : fresh));
       })
       .catch(() => {})
       .finally(() => setReady(true));

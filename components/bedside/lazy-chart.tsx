@@ -1,5 +1,6 @@
 import { Component, lazy, Suspense, useEffect, useRef, useState, type ReactNode, type RefObject } from 'react';
 import { View } from 'react-native';
+import { afterNextPaint } from '@/components/ui/after-next-paint';
 import { Text } from '@/components/ui/text';
 
 type Plots = typeof import('./chart-plots');
@@ -56,17 +57,25 @@ function useNearScreen(ref: RefObject<View | null>): boolean {
       setNear(true);
       return;
     }
-    const io = new IntersectionObserver(
-      (entries) => {
-        if (entries.some((e) => e.isIntersecting)) {
-          setNear(true);
-          io.disconnect();
-        }
-      },
-      { root: scrollParent(node), rootMargin: `${AHEAD_PX}px 0px` },
-    );
-    io.observe(node);
-    return () => io.disconnect();
+    let io: IntersectionObserver | undefined;
+    // Set up after the first paint: finding the scrolling ancestor reads computed styles, which
+    // before that paint makes the browser work out the whole page's styles an extra time.
+    const cancel = afterNextPaint(() => {
+      io = new IntersectionObserver(
+        (entries) => {
+          if (entries.some((e) => e.isIntersecting)) {
+            setNear(true);
+            io?.disconnect();
+          }
+        },
+        { root: scrollParent(node), rootMargin: `${AHEAD_PX}px 0px` },
+      );
+      io.observe(node);
+    });
+    return () => {
+      cancel();
+      io?.disconnect();
+    };
   }, [ref]);
   return near;
 }

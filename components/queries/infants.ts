@@ -3,7 +3,7 @@ import type { CorrectReadingInput, CreateActionInput, StartSessionInput } from '
 import type { CreateReadingResult, Flowsheet, FlagAction, InfantDetail, InfantSummary, ReadingVersion, SessionRecord } from '@/shared/types/bedside';
 import { api, ApiFailure } from '@/components/api/client';
 import { flowsheetPath, MY_INFANTS_PATH, unitInfantsPath } from '@/components/api/paths';
-import { STALE } from '@/components/api/query-client';
+import { fromEarlyAnswer, STALE } from '@/components/api/query-client';
 import { pendingReadings, sendReading, type PendingReading } from '@/components/bedside/pending-readings';
 
 export const RQKEY_ROOT = 'infants';
@@ -20,10 +20,13 @@ export const infantKeys = {
 
 const enc = encodeURIComponent;
 
+const infantsOf = (body: { infants: InfantSummary[] }) => body.infants;
+
 export function useMyInfantsQuery() {
   return useQuery({
     queryKey: infantKeys.mine(),
-    queryFn: ({ signal }) => api<{ infants: InfantSummary[] }>(MY_INFANTS_PATH, { signal }).then((r) => r.infants),
+    queryFn: ({ signal }) => api<{ infants: InfantSummary[] }>(MY_INFANTS_PATH, { signal }).then(infantsOf),
+    ...fromEarlyAnswer(MY_INFANTS_PATH, infantsOf),
     staleTime: STALE.live,
     refetchInterval: REFRESH_MS,
   });
@@ -34,7 +37,7 @@ export function useUnitInfantsQuery(unitId: string | null = null, { enabled = tr
   return useQuery({
     enabled,
     queryKey: infantKeys.unit(unitId),
-    queryFn: ({ signal }) => api<{ infants: InfantSummary[] }>(unitInfantsPath(unitId), { signal }).then((r) => r.infants),
+    queryFn: ({ signal }) => api<{ infants: InfantSummary[] }>(unitInfantsPath(unitId), { signal }).then(infantsOf),
     staleTime: STALE.live,
     refetchInterval: REFRESH_MS,
   });
@@ -52,6 +55,7 @@ export function useFlowsheetQuery(id: string, hours: 12 | 24 | 72) {
   return useQuery({
     queryKey: infantKeys.flowsheet(id, hours),
     queryFn: ({ signal }) => api<Flowsheet>(flowsheetPath(id, hours), { signal }),
+    ...fromEarlyAnswer(flowsheetPath(id, hours), (sheet: Flowsheet) => sheet),
     staleTime: STALE.live,
     refetchInterval: REFRESH_MS,
   });

@@ -4,10 +4,18 @@
  * (the interaction's next paint, what INP measures). Navigation in Expo Router goes through
  * useSyncExternalStore, which a React transition cannot defer, so the wait is done by hand.
  */
-export function afterNextPaint(fn: () => void): void {
+export function afterNextPaint(fn: () => void): () => void {
   if (typeof requestAnimationFrame !== 'function') {
     fn();
-    return;
+    return () => {};
   }
-  requestAnimationFrame(() => setTimeout(fn, 0));
+  let timer: ReturnType<typeof setTimeout> | undefined;
+  const frame = requestAnimationFrame(() => {
+    timer = setTimeout(fn, 0);
+  });
+  /** Cancels `fn` if it has not run yet. */
+  return () => {
+    cancelAnimationFrame(frame);
+    if (timer !== undefined) clearTimeout(timer);
+  };
 }

@@ -74,4 +74,42 @@ describe('AuthProvider', () => {
     await screen.findByText(/signed out.*Your session ended/);
     expect(storage.get('warmfold.token')).toBeNull();
   });
+
+  it('opens at once with a stored user, and an unchanged answer from the server draws nothing again', async () => {
+    storage.set('warmfold.token', 'stored-token');
+    storage.set('warmfold.user', JSON.stringify(USER));
+    let answer: (value: Response) => void = () => {};
+    globalThis.fetch = jest.fn(() => new Promise<Response>((resolve) => (answer = resolve))) as unknown as typeof fetch;
+    const seen: Array<{ user: unknown; ready: boolean }> = [];
+    function Probe() {
+      const { user, ready } = useAuth();
+      seen.push({ user, ready });
+      return <Text>{user && ready ? 'open' : 'waiting'}</Text>;
+    }
+    const screen = render(
+      <QueryClientProvider client={new QueryClient()}>
+        <AuthProvider>
+          <Probe />
+        </AuthProvider>
+      </QueryClientProvider>,
+    );
+    await screen.findByText('open'); // before the server has answered
+    const rendersBefore = seen.length;
+    const opened = seen[seen.length - 1]!.user;
+    answer({ ok: true, status: 200, headers: { get: () => null }, json: async () => ({ user: { ...USER } }) } as unknown as Response);
+    await waitFor(() => expect(storage.get('warmfold.user')).toBe(JSON.stringify(USER)));
+    await new Promise((resolve) => setTimeout(resolve, 0));
+    expect(seen.length).toBe(rendersBefore);
+    expect(seen[seen.length - 1]!.user).toBe(opened);
+  });
+
+  it('takes a changed user from the server', async () => {
+    storage.set('warmfold.token', 'stored-token');
+    storage.set('warmfold.user', JSON.stringify(USER));
+    const renamed = { ...USER, name: 'Nia Okafor-Reyes' };
+    globalThis.fetch = jest.fn(async () => ({ ok: true, status: 200, headers: { get: () => null }, json: async () => ({ user: renamed }) })) as unknown as typeof fetch;
+    const screen = renderScreen();
+    await screen.findByText(/signed in as Nia Okafor-Reyes/);
+    expect(JSON.parse(storage.get('warmfold.user')!)).toEqual(renamed);
+  });
 });
