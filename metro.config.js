@@ -1,4 +1,4 @@
-// Expo's Metro defaults, with four changes for the web build only:
+// Expo's Metro defaults, with five changes for the web build only (and .woff2 files as assets):
 // - zod's table of ~50 languages is replaced by its English messages (components/web/zod-locales-en.ts).
 //   Warmfold's messages are its own, in English; the other languages were a fifth of the first
 //   page's JavaScript.
@@ -10,7 +10,8 @@
 //   (components/web/router-stubs/).
 // - the app's and Expo's `react-native` imports get components/web/react-native-slim.js, which
 //   leaves out what no first page uses (Animated, virtualised lists, Touchables).
-// tests/shared/web-build.test.ts checks all four.
+// - requires are inlined (below).
+// tests/shared/web-build.test.ts checks all five.
 const path = require('node:path');
 const { getDefaultConfig } = require('expo/metro-config');
 
@@ -56,6 +57,16 @@ config.resolver.resolveRequest = (context, moduleName, platform) => {
     if (stub) return { type: 'sourceFile', filePath: stub.stub };
   }
   return resolved;
+};
+
+// Inline requires (React Native's own default for release builds): a module runs when one of its
+// exports is first used, not when the file importing it loads, so a page's start-up does not
+// run the code of screens and features it has not opened.
+const upstreamTransformOptions = config.transformer.getTransformOptions;
+config.transformer.getTransformOptions = async (entryPoints, options, getDependencies) => {
+  const base = upstreamTransformOptions ? await upstreamTransformOptions(entryPoints, options, getDependencies) : {};
+  if (options.platform !== 'web') return base;
+  return { ...base, transform: { ...base.transform, inlineRequires: true } };
 };
 
 module.exports = config;

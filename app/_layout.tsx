@@ -19,17 +19,18 @@ export default function RootLayout() {
         <title>Warmfold</title>
       </Head>
       <AuthProvider>
-        <ThemedRoot ready={fontsLoaded} />
+        {/* The routes are made here, so a change of user redraws the theme, not the navigator. */}
+        <ThemedRoot>{fontsLoaded ? <Slot /> : null}</ThemedRoot>
       </AuthProvider>
     </QueryClientProvider>
   );
 }
 
-function ThemedRoot({ ready }: { ready: boolean }) {
+function ThemedRoot({ children }: { children: React.ReactNode }) {
   const { user } = useAuth();
   return (
     <ThemeProvider key={user?.theme ?? 'system'} initial={user?.theme ?? 'system'}>
-      <Background>{ready ? <Slot /> : null}</Background>
+      <Background>{children}</Background>
     </ThemeProvider>
   );
 }

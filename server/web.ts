@@ -35,6 +35,19 @@ export interface HtmlRoute {
   file: string;
   pattern: RegExp;
   dynamic: number;
+  /** A `Link` header preloading the page's scripts, or null if it has none. */
+  preload: string | null;
+}
+
+/**
+ * The page's scripts as a `Link: <…>; rel=preload; as=script` header value. Expo writes the
+ * script tags at the end of the body, so without it a phone asks for them only once it has
+ * parsed the page's styles and inline scripts (a quarter of a second at 4x CPU); with it, as
+ * soon as the response's headers arrive.
+ */
+export function scriptPreloads(html: string): string | null {
+  const srcs = [...html.matchAll(/<script\b[^>]*\bsrc="([^"]+)"[^>]*>/g)].map((m) => m[1]!).filter((src) => src.startsWith('/'));
+  return srcs.length ? srcs.map((src) => `<${src}>; rel=preload; as=script`).join(', ') : null;
 }
 
 /**
@@ -60,7 +73,8 @@ export function htmlRoutes(webDir: string): HtmlRoute[] {
             return seg.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
           })
           .join('/');
-        out.push({ file: path.join(webDir, r), pattern: new RegExp(`^/${src}/?$`), dynamic });
+        const file = path.join(webDir, r);
+        out.push({ file, pattern: new RegExp(`^/${src}/?$`), dynamic, preload: scriptPreloads(fs.readFileSync(file, 'utf8')) });
       }
     }
   };
@@ -82,10 +96,11 @@ export function serveWeb(app: Express, webDir: string): void {
   const routes = htmlRoutes(webDir);
   const notFound = path.join(webDir, '+not-found.html');
   // Rewrite a page's path to its HTML file, so the precompressed and static handlers below serve it.
-  app.use((req, _res, next) => {
+  app.use((req, res, next) => {
     if ((req.method !== 'GET' && req.method !== 'HEAD') || path.extname(req.path)) return next();
     const route = routes.find((r) => r.pattern.test(req.path));
     if (!route) return next();
+    if (route.preload) res.set('Link', route.preload);
     req.url = '/' + path.relative(webDir, route.file).split(path.sep).map(encodeURIComponent).join('/');
     next();
   });

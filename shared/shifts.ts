@@ -1,5 +1,5 @@
 import { TZDate } from '@date-fns/tz';
-import { shiftAt as shiftWindowAt, type Shift } from './thermal';
+import { shiftAt as shiftWindowAt, type Shift } from './thermal/policy';
 
 export type ShiftName = Shift;
 

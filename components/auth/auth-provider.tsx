@@ -3,6 +3,7 @@ import { createContext, useCallback, useContext, useEffect, useMemo, useState, t
 import type { SessionUser, SignInInput } from '@/shared/schemas/auth';
 import { api, configureApi } from '../api/client';
 import { storage } from '../api/storage';
+import { afterNextPaint } from '../ui/after-next-paint';
 import { TOKEN_KEY, USER_KEY } from './session-keys';
 
 
@@ -68,16 +69,19 @@ export function AuthProvider({ children }: { children: ReactNode }) {
     const stored = readStoredUser();
     setUser(stored);
     if (stored) setReady(true);
-    // Confirm the stored session with the server; a 401 signs out through onUnauthorized. An
-    // unchanged user keeps the same object, so the screens are not drawn again for nothing.
-    api<{ user: SessionUser }>('/auth/me')
-      .then(({ user: fresh }) => {
-        const json = JSON.stringify(fresh);
-        storage.set(USER_KEY, json);
-        setUser((current) => (current && JSON.stringify(current) === json ? current : fresh));
-      })
-      .catch(() => {})
-      .finally(() => setReady(true));
+    // Confirm the stored session with the server once the first screen is painted (the check is
+    // not what the nurse is waiting for); a 401 signs out through onUnauthorized. An unchanged
+    // user keeps the same object, so the screens are not drawn again for nothing.
+    return afterNextPaint(() => {
+      api<{ user: SessionUser }>('/auth/me')
+        .then(({ user: fresh }) => {
+          const json = JSON.stringify(fresh);
+          storage.set(USER_KEY, json);
+          setUser((current) => (current && JSON.stringify(current) === json ? current : fresh));
+        })
+        .catch(() => {})
+        .finally(() => setReady(true));
+    });
   }, [clear]);
 
   const signIn = useCallback(async (input: SignInInput) => {

@@ -10,7 +10,7 @@ import { TextField } from '@/components/ui/text-field';
 import { lazyZodResolver } from '@/components/forms/lazy-resolver';
 import { FormRootError } from '@/components/forms/form-root-error';
 import type { CorrectReadingInput } from '@/shared/schemas/bedside';
-import { fromCentiCelsius, type TempUnit } from '@/shared/thermal';
+import { fromCentiCelsius, type TempUnit } from '@/shared/thermal/units';
 import type { CorrectionReason, ReadingVersion } from '@/shared/types/bedside';
 import { clockTime, CORRECTION_REASON_LABELS, REMOTE_SITE_OPTIONS, temp } from './format';
 import { implausibleReasons, instantOfLocalTime, toCreateReading, type ReadingFormValues } from './reading-form-values';

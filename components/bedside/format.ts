@@ -1,6 +1,6 @@
 import { formatClock, formatInZone } from '@/components/ui/format-time';
 import { CONTROL_MODE_LABELS, CONTROL_MODES, HEAT_SOURCE_LABELS } from '@/shared/vocabulary';
-import { formatTemperature, formatTemperatureDifference, type TempUnit } from '@/shared/thermal';
+import { formatTemperature, formatTemperatureDifference, type TempUnit } from '@/shared/thermal/units';
 
 export interface DisplayPrefs {
   tempUnit: TempUnit;

@@ -1,6 +1,8 @@
 import { z } from 'zod';
 import { controlModeSchema, correctionReasonSchema, heatSignSchema, remoteSiteSchema } from '@/shared/schemas/bedside';
-import { checkPlausibility, isThermalInputError, toCentiCelsius, type PlausibilityField, type TempUnit } from '@/shared/thermal';
+import { isThermalInputError } from '@/shared/thermal/errors';
+import { checkPlausibility, type PlausibilityField } from '@/shared/thermal/limits';
+import { toCentiCelsius, type TempUnit } from '@/shared/thermal/units';
 import { LATE_ENTRY_MINUTES } from '@/shared/vocabulary';
 import { instantOfLocalTime, isLate, parseNumber, TEMPS, type ReadingFormValues } from './reading-form-values';
 

@@ -1,6 +1,7 @@
 import { TZDate } from '@date-fns/tz';
 import type { CreateReadingInput } from '@/shared/schemas/bedside';
-import { checkPlausibility, toCentiCelsius, type PlausibilityField, type TempUnit } from '@/shared/thermal';
+import { checkPlausibility, type PlausibilityField } from '@/shared/thermal/limits';
+import { toCentiCelsius, type TempUnit } from '@/shared/thermal/units';
 import { LATE_ENTRY_MINUTES, type ControlMode, type HeatSign, type RemoteSite } from '@/shared/vocabulary';
 
 /**

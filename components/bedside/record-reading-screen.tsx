@@ -1,6 +1,6 @@
 import { useRouter } from 'expo-router';
 import { useEffect, useState } from 'react';
-import { fromCentiCelsius } from '@/shared/thermal';
+import { fromCentiCelsius } from '@/shared/thermal/units';
 import { problemOf } from '@/components/api/client';
 import { useUser } from '@/components/auth/auth-provider';
 import { useCreateReadingMutation, useFlowsheetQuery, useInfantQuery } from '@/components/queries/infants';

@@ -1,5 +1,6 @@
 import { z } from 'zod';
-import { checkPlausibility, type TempUnit } from '@/shared/thermal';
+import { checkPlausibility } from '@/shared/thermal/limits';
+import type { TempUnit } from '@/shared/thermal/units';
 import { centiOf, parseNumber } from './reading-form-values';
 
 /** The start-skin-to-skin form's checks, loaded when the form first validates (components/forms/lazy-resolver.ts). */

@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import { View, type LayoutChangeEvent } from 'react-native';
-import { NORMAL_MAX_CENTI, NORMAL_MIN_CENTI, type TempUnit } from '@/shared/thermal';
+import { NORMAL_MAX_CENTI, NORMAL_MIN_CENTI } from '@/shared/thermal/bands';
+import type { TempUnit } from '@/shared/thermal/units';
 import type { Flowsheet } from '@/shared/types/bedside';
 import { Text } from '@/components/ui/text';
 import { clockTime, FLAG_LABELS, temp } from './format';

@@ -1,4 +1,5 @@
-import { NORMAL_MAX_CENTI, NORMAL_MIN_CENTI, fromCentiCelsius, type TempUnit } from '@/shared/thermal';
+import { NORMAL_MAX_CENTI, NORMAL_MIN_CENTI } from '@/shared/thermal/bands';
+import { fromCentiCelsius, type TempUnit } from '@/shared/thermal/units';
 import type { Flowsheet } from '@/shared/types/bedside';
 import { useTheme } from '@/components/theme/theme-provider';
 import { clockTime } from './format';

@@ -1,7 +1,7 @@
 import { formatClock, type ClockSetting } from '@/components/ui/format-time';
 import type { IconName } from '@/components/ui/icon';
 import type { StatusTone } from '@/components/ui/status-badge';
-import type { FlagKind } from '@/shared/thermal';
+import type { FlagKind } from '@/shared/thermal/evaluate';
 
 export const FLAG_WORDS: Record<FlagKind, { label: string; icon: IconName; tone: StatusTone }> = {
   gap: { label: 'Gap flag', icon: 'alert', tone: 'danger' },

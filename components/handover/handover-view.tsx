@@ -5,7 +5,7 @@ import { StatusBadge } from '@/components/ui/status-badge';
 import { Text } from '@/components/ui/text';
 import { useTheme } from '@/components/theme/theme-provider';
 import { CONTROL_MODE_LABELS, HEAT_SOURCE_LABELS } from '@/shared/vocabulary';
-import { formatTemperature, type TempUnit } from '@/shared/thermal';
+import { formatTemperature, type TempUnit } from '@/shared/thermal/units';
 import type { HandoverInfant, HandoverReading } from '@/shared/types/board';
 import { FLAG_WORDS } from '../board/board-format';
 

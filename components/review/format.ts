@@ -1,4 +1,4 @@
-import { formatTemperature } from '@/shared/thermal';
+import { formatTemperature } from '@/shared/thermal/units';
 
 /** "16 Nov 08:40" in the browser's zone, 24-hour. */
 export function shortDateTime(iso: string): string {

@@ -5,7 +5,8 @@
  */
 import { emailSchema } from '../schemas/auth';
 import { ROLES, type Role } from '../roles';
-import { isThermalInputError, toCentiCelsius, type TempUnit } from '../thermal';
+import { isThermalInputError } from '../thermal/errors';
+import { toCentiCelsius, type TempUnit } from '../thermal/units';
 
 export const MAX_UPLOAD_BYTES = 1024 * 1024;
 export const MAX_UPLOAD_ROWS = 5000;

@@ -26,7 +26,7 @@ beforeAll(async () => {
     'sign-in.html': page('sign-in'),
     'board.html': page('board'),
     'infants/index.html': page('my infants'),
-    'infants/[id].html': page('flowsheet'),
+    'infants/[id].html': page('flowsheet').replace('</body>', '<script src="/_expo/static/js/web/flowsheet-def.js" defer></script></body>'),
     'infants/[id]/record.html': page('record'),
     'infants/[id]/correct/[readingId].html': page('correct'),
     '(app)/board.html': page('group copy'),
@@ -89,6 +89,15 @@ describe('the web pages', () => {
     const api = await request(env.app).get('/api/nowhere');
     expect(api.status).toBe(404);
     expect(api.headers['content-type']).toMatch(/json/);
+  });
+
+  it('names each page’s own scripts in a preload header, so the phone asks for them before parsing the page', async () => {
+    const sheet = await request(env.app).get('/infants/inf-ashgrove');
+    expect(sheet.headers.link).toBe('</_expo/static/js/web/entry-abc.js>; rel=preload; as=script, </_expo/static/js/web/flowsheet-def.js>; rel=preload; as=script');
+    const list = await request(env.app).get('/infants');
+    expect(list.headers.link).toBe('</_expo/static/js/web/entry-abc.js>; rel=preload; as=script');
+    const js = await request(env.app).get('/_expo/static/js/web/entry-abc.js');
+    expect(js.headers.link).toBeUndefined();
   });
 
   it('sends the pages compressed when the browser accepts it', async () => {

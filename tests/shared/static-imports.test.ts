@@ -41,15 +41,17 @@ function routeFiles(dir: string): string[] {
   return fs.readdirSync(dir, { withFileTypes: true }).flatMap((d) => (d.isDirectory() ? routeFiles(path.join(dir, d.name)) : /\.tsx?$/.test(d.name) ? [path.join(dir, d.name)] : []));
 }
 
-/** Every package reached from the routes without an `import()`, with one chain that reaches it. */
-function packagesReached(): Map<string, string[]> {
+/** Every package and app file reached from the routes without an `import()`, with one chain that reaches it. */
+function reachedFromRoutes(): { packages: Map<string, string[]>; files: Map<string, string[]> } {
   const packages = new Map<string, string[]>();
+  const files = new Map<string, string[]>();
   const seen = new Set<string>();
   const queue: Array<{ file: string; chain: string[] }> = routeFiles(path.join(root, 'app')).map((file) => ({ file, chain: [path.relative(root, file)] }));
   while (queue.length) {
     const { file, chain } = queue.shift()!;
     if (seen.has(file)) continue;
     seen.add(file);
+    files.set(path.relative(root, file), chain);
     for (const spec of staticImports(file)) {
       if (spec.startsWith('.') || spec.startsWith('@/')) {
         const next = resolveLocal(spec, file);
@@ -62,11 +64,11 @@ function packagesReached(): Map<string, string[]> {
       }
     }
   }
-  return packages;
+  return { packages, files };
 }
 
 describe('the screens’ static imports', () => {
-  const reached = packagesReached();
+  const { packages: reached, files } = reachedFromRoutes();
 
   it('walks the real graph (react-hook-form and react-query are reached)', () => {
     expect(reached.has('react-hook-form')).toBe(true);
@@ -76,6 +78,14 @@ describe('the screens’ static imports', () => {
   it('never reach zod or its form resolver: forms load their checks lazily', () => {
     for (const banned of ['zod', '@hookform/resolvers/zod']) {
       const chain = reached.get(banned);
+      expect(chain ? `${banned} via ${chain.join(' → ')}` : null).toBeNull();
+    }
+  });
+
+  it('never reach the rules engine: it runs on the server, and the screens import the thermal modules they use', () => {
+    expect(files.has(path.join('shared', 'thermal', 'units.ts'))).toBe(true);
+    for (const banned of ['evaluate.ts', 'manual-mode.ts', 'index.ts'].map((f) => path.join('shared', 'thermal', f))) {
+      const chain = files.get(banned);
       expect(chain ? `${banned} via ${chain.join(' → ')}` : null).toBeNull();
     }
   });

@@ -25,6 +25,19 @@ describe('metro.config.js', () => {
     expect(resolved).toEqual({ type: 'sourceFile', filePath: path.join(root, 'components', 'web', 'zod-locales-en.ts') });
   });
 
+  it('inlines requires in the web build only, keeping Expo’s other transform options', async () => {
+    // eslint-disable-next-line @typescript-eslint/no-require-imports
+    const { transformer } = require('../../metro.config.js') as {
+      transformer: { getTransformOptions: (entries: string[], options: { platform: string | null }, deps: () => Promise<string[]>) => Promise<{ transform?: Record<string, unknown> }> };
+    };
+    const noDeps = async () => [];
+    const web = await transformer.getTransformOptions(['index.js'], { platform: 'web' }, noDeps);
+    const ios = await transformer.getTransformOptions(['index.js'], { platform: 'ios' }, noDeps);
+    expect(web.transform).toEqual({ ...ios.transform, inlineRequires: true });
+    expect(ios.transform?.inlineRequires).toBe(false);
+    expect(ios.transform?.experimentalImportSupport).toBe(true);
+  });
+
   it('leaves zod whole on other platforms and every other module alone', () => {
     expect(config.resolver.resolveRequest(contextAnswering(zodLocales), '../locales/index.js', 'ios').filePath).toBe(zodLocales);
     expect(config.resolver.resolveRequest(contextAnswering(zodCore), '../core/index.js', 'web').filePath).toBe(zodCore);
