@@ -1,6 +1,7 @@
 import { StyleSheet, View } from 'react-native';
 import { useUser } from '@/components/auth/auth-provider';
 import { useMyReviewNotesQuery } from '@/components/queries/review';
+import { useAfterFirstPaint } from '@/components/ui/after-next-paint';
 import { Card } from '@/components/ui/card';
 import { Text } from '@/components/ui/text';
 import { formatDayTime } from '@/components/ui/format-time';
@@ -11,7 +12,8 @@ const SHOWN = 3;
 /** The educator's teaching notes on flags this nurse handled: shown to her, newest first. */
 export function TeachingNotesCard({ timeZone }: { timeZone: string }) {
   const user = useUser();
-  const query = useMyReviewNotesQuery();
+  // Asked for once My infants is on screen: the notes sit below the list and can wait a frame.
+  const query = useMyReviewNotesQuery({ enabled: useAfterFirstPaint() });
   const notes = query.data?.notes ?? [];
   if (notes.length === 0) return null;
   const newest = [...notes].sort((a, b) => b.createdAt.localeCompare(a.createdAt)).slice(0, SHOWN);

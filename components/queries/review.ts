@@ -42,8 +42,9 @@ export function useTeachingNoteMutation(flagId: string) {
 }
 
 /** Teaching notes written about flags this nurse was concerned in. */
-export function useMyReviewNotesQuery() {
+export function useMyReviewNotesQuery({ enabled = true }: { enabled?: boolean } = {}) {
   return useQuery({
+    enabled,
     queryKey: [REVIEW_RQKEY_ROOT, 'mine'] as const,
     queryFn: ({ signal }) => api<{ notes: MyReviewNote[] }>('/reviews/mine', { signal }),
     staleTime: 5 * 60_000,

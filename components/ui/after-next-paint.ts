@@ -1,3 +1,5 @@
+import { useEffect, useState } from 'react';
+
 /**
  * Run `fn` once the browser has painted what the current event changed (a pressed button): a
  * screen change then renders in a task of its own instead of holding the tap's feedback back
@@ -18,4 +20,11 @@ export function afterNextPaint(fn: () => void): () => void {
     cancelAnimationFrame(frame);
     if (timer !== undefined) clearTimeout(timer);
   };
+}
+
+/** False in a component's first render, true once the browser has painted it: for reads the first screen does not need. */
+export function useAfterFirstPaint(): boolean {
+  const [painted, setPainted] = useState(false);
+  useEffect(() => afterNextPaint(() => setPainted(true)), []);
+  return painted;
 }
