@@ -18,7 +18,7 @@ import { summariseProfile, type HotSpot } from './profile';
 import { budgets, printReport, summariseVitals, type RouteJs, type VitalsSummary } from './report';
 import { benchRules, type RulesFigures } from './rules';
 import { BENCH_PASSWORD, CHARGE_EMAIL, NURSE_EMAIL, seedLargeUnit, type SeededUnit } from './seed-large';
-import { signIn, startServer } from './server';
+import { signIn, startServer, untilBuildCompressed } from './server';
 import { benchVitals, MOBILE } from './vitals';
 import { benchWrites, type WriteFigures } from './writes';
 
@@ -94,6 +94,9 @@ async function main(): Promise<number> {
         const nurseToken = await signIn(server.base, NURSE_EMAIL, BENCH_PASSWORD);
         const flowsheetInfant = seed.nurseInfantIds[0]!;
         if (!skip.has('api')) {
+          const waited = performance.now();
+          await untilBuildCompressed(server.base, webDir);
+          log(`Server finished compressing the web build (${((performance.now() - waited) / 1000).toFixed(1)} s after start-up)`);
           log(`Reads: ${SETTINGS.warmup} s warm-up, then ${SETTINGS.seconds} s at ${SETTINGS.connections} connections each`);
           api = await benchReads(
             server.base,

@@ -8,6 +8,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { chromium, type Browser, type BrowserContext, type CDPSession, type Page } from 'playwright-core';
+import { untilCompressed } from './server';
 
 export const MOBILE = {
   width: 412,
@@ -180,18 +181,6 @@ async function oneRun(browser: Browser, opts: VitalsOptions, iife: string): Prom
     throw err;
   } finally {
     await context.close();
-  }
-}
-
-/** Wait until the server answers `url` brotli-compressed: it compresses each file once, at boot. */
-async function untilCompressed(url: string, deadline: number): Promise<void> {
-  for (;;) {
-    const res = await fetch(url, { method: 'HEAD', headers: { 'accept-encoding': 'br, gzip' } });
-    const encoding = res.headers.get('content-encoding');
-    // Anything the server does not precompress (small files, images) is as ready as it gets.
-    if (!res.ok || encoding === 'br' || encoding === null) return;
-    if (Date.now() > deadline) throw new Error(`${url} still not brotli-compressed after the warm-up`);
-    await new Promise((r) => setTimeout(r, 250));
   }
 }
 

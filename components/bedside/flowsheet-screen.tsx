@@ -7,6 +7,7 @@ import { useUser } from '@/components/auth/auth-provider';
 import { useFlowsheetQuery } from '@/components/queries/infants';
 import { useTheme } from '@/components/theme/theme-provider';
 import { WIDE_BREAKPOINT } from '@/components/theme/theme';
+import { useAfterFirstPaint } from '@/components/ui/after-next-paint';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { Screen } from '@/components/ui/screen';
@@ -54,9 +55,13 @@ export function FlowsheetScreen({ infantId }: { infantId: string }) {
   );
 }
 
+/** Reading cards drawn with the page on a phone; the rest, below the first screen, follow once it is painted. */
+const FIRST_CARDS = 4;
+
 function FlowsheetBody({ sheet, hours, setHours, canChart }: { sheet: Flowsheet; hours: Hours; setHours: (h: Hours) => void; canChart: boolean }) {
   const user = useUser();
   const now = useNow();
+  const painted = useAfterFirstPaint();
   const { width } = useWindowDimensions();
   const wide = width >= WIDE_BREAKPOINT;
   const pending = usePendingReadings(sheet.infant.id);
@@ -106,7 +111,7 @@ function FlowsheetBody({ sheet, hours, setHours, canChart }: { sheet: Flowsheet;
       ) : wide ? (
         <ReadingGrid sheet={sheet} canChart={canChart} />
       ) : (
-        sheet.readings.map((r) => <ReadingCard key={r.rootId} reading={r} sheet={sheet} canChart={canChart} />)
+        (painted ? sheet.readings : sheet.readings.slice(0, FIRST_CARDS)).map((r) => <ReadingCard key={r.rootId} reading={r} sheet={sheet} canChart={canChart} />)
       )}
       {/* After the readings, as the design orders them: the values first, the picture of them second.
           On a phone the chart is then off the first screen and its code loads only when scrolled near. */}
