@@ -104,7 +104,6 @@ interface TokenClaims {
   exp: number;
 }
 
-/** Check a bearer token against its signature, its session row and the user's current state. */
 const secretKeys = new Map<string, KeyObject>();
 /** jsonwebtoken builds a key object from a string secret on every verify; build it once. */
 function secretKey(secret: string): KeyObject {
@@ -151,14 +150,36 @@ function statements(ctx: AppContext) {
   return st;
 }
 
+/**
+ * Tokens whose signature this app has already checked, with their claims: a phone sends the same
+ * token with every request, and the HMAC was a tenth of a board read's CPU. Only the signature
+ * check is remembered: expiry is checked on every use, and the session row (revocation, idle
+ * and absolute limits, account changes) is read on every request as before.
+ */
+const verifiedTokens = new WeakMap<AppContext, Map<string, TokenClaims>>();
+const VERIFIED_TOKENS_MAX = 5_000;
+
+function verifiedClaims(ctx: AppContext, token: string): TokenClaims {
+  let cache = verifiedTokens.get(ctx);
+  if (!cache) verifiedTokens.set(ctx, (cache = new Map()));
+  const nowSeconds = Math.floor(ctx.clock.now().getTime() / 1000);
+  const known = cache.get(token);
+  // jsonwebtoken's rule: a token is expired from its `exp` second on.
+  if (known && nowSeconds < known.exp) return known;
+  cache.delete(token);
+  const claims = jwt.verify(token, secretKey(ctx.config.jwtSecret), { algorithms: [ALGORITHM], clockTimestamp: nowSeconds }) as TokenClaims;
+  if (typeof claims.exp === 'number') {
+    if (cache.size >= VERIFIED_TOKENS_MAX) cache.delete(cache.keys().next().value!);
+    cache.set(token, claims);
+  }
+  return claims;
+}
+
 /** Check a bearer token against its signature, its session row and the user's current state. */
 export function verifyToken(ctx: AppContext, token: string): AuthContext {
   let claims: TokenClaims;
   try {
-    claims = jwt.verify(token, secretKey(ctx.config.jwtSecret), {
-      algorithms: [ALGORITHM],
-      clockTimestamp: Math.floor(ctx.clock.now().getTime() / 1000),
-    }) as TokenClaims;
+    claims = verifiedClaims(ctx, token);
   } catch {
     throw unauthorized('Your session has ended. Please sign in again.');
   }

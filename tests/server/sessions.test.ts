@@ -48,6 +48,19 @@ describe('tokens', () => {
     expect((await me(token)).status).toBe(401);
     env.clock.advanceMinutes(-29 * 25);
   });
+
+  it('a token whose signature was checked before is still refused from its expiry second on (RFC 7519 §4.1.4)', async () => {
+    const token = await env.signIn(DEMO.educator);
+    expect((await me(token)).status).toBe(200); // checked and remembered
+    const { exp, iat } = jwt.decode(token) as jwt.JwtPayload;
+    env.clock.advanceMinutes((exp! - iat!) / 60);
+    const late = await me(token);
+    expect(late.status).toBe(401);
+    // The token's own expiry answers, as for a token never seen, before the session row is read.
+    expect(late.body.error.message).toBe('Your session has ended. Please sign in again.');
+    env.clock.advanceMinutes(-(exp! - iat!) / 60);
+    expect((await me(token)).status).toBe(200);
+  });
 });
 
 describe('throttling', () => {
