@@ -56,6 +56,12 @@ export async function measure(base: string, path: string, headers: Record<string
   return result;
 }
 
+/**
+ * Every request asks for compression as the browsers on the ward do (Chromium's header), the
+ * baseline's included; the board and flowsheet answer with their cached compressed bytes.
+ */
+const AS_A_BROWSER = { 'accept-encoding': 'gzip, deflate, br, zstd' };
+
 export async function benchReads(
   base: string,
   targets: { boardPath: string; flowsheetPath: string; chargeToken: string; nurseToken: string },
@@ -66,9 +72,9 @@ export async function benchReads(
     const res = await fetch(`${base}${path}`, { headers: { authorization: `Bearer ${token}` } });
     if (!res.ok) throw new Error(`GET ${path} answered ${res.status}: ${(await res.text()).slice(0, 300)}`);
   }
-  const ping = figures('baseline /api/ping', '/api/ping', await measure(base, '/api/ping', {}, opts));
-  const board = figures('unit board', targets.boardPath, await measure(base, targets.boardPath, { authorization: `Bearer ${targets.chargeToken}` }, opts));
-  const flowsheet = figures('72-h flowsheet', targets.flowsheetPath, await measure(base, targets.flowsheetPath, { authorization: `Bearer ${targets.nurseToken}` }, opts));
+  const ping = figures('baseline /api/ping', '/api/ping', await measure(base, '/api/ping', AS_A_BROWSER, opts));
+  const board = figures('unit board', targets.boardPath, await measure(base, targets.boardPath, { ...AS_A_BROWSER, authorization: `Bearer ${targets.chargeToken}` }, opts));
+  const flowsheet = figures('72-h flowsheet', targets.flowsheetPath, await measure(base, targets.flowsheetPath, { ...AS_A_BROWSER, authorization: `Bearer ${targets.nurseToken}` }, opts));
   for (const f of [board, flowsheet]) f.ratioToBaseline = ping.reqPerSec > 0 ? f.reqPerSec / ping.reqPerSec : null;
   return [ping, board, flowsheet];
 }

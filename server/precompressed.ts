@@ -3,6 +3,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { promisify } from 'node:util';
 import zlib from 'node:zlib';
+import { acceptedEncodings } from './compressed-body';
 
 const brotli = promisify(zlib.brotliCompress);
 const gzip = promisify(zlib.gzip);
@@ -88,9 +89,7 @@ export function precompressed(webDir: string, cacheControl: (file: string) => st
     }
     const file = path.join(root, rel);
     if (!file.startsWith(root + path.sep)) return next();
-    const accepts = req.get('accept-encoding') ?? '';
-    const wantsBr = /\bbr\b/.test(accepts);
-    const wantsGz = /\bgzip\b/.test(accepts);
+    const { br: wantsBr, gzip: wantsGz } = acceptedEncodings(req);
     if (!wantsBr && !wantsGz) return next();
     const entry = entryFor(file);
     if (!entry) return next();

@@ -22,7 +22,7 @@ import { valid, validate } from '../middleware/validate';
 import {
   checkTakenAt,
   convertAndCheck,
-  flowsheetJson,
+  flowsheetBody,
   insertReading,
   loadInfantFor,
   loadReading,
@@ -112,7 +112,7 @@ export function infantsRouter(ctx: AppContext) {
   });
 
   /**
-   * The flowsheet, from a cache the database invalidates (flowsheetJson); the read is audited on
+   * The flowsheet, from a cache the database invalidates (flowsheetBody); the read is audited on
    * every request, group-committed with the other reads in flight before the answer goes out.
    */
   router.get('/:id/flowsheet', allow(ctx, 'chart:read'), validate('query', flowsheetQuerySchema), async (req, res) => {
@@ -120,9 +120,9 @@ export function infantsRouter(ctx: AppContext) {
     const { hours } = valid<FlowsheetQuery>(req, 'query');
     const infant = loadInfantFor(sqlite, req, id);
     const now = ctx.clock.now();
-    const body = flowsheetJson(sqlite, id, infant.unit_id, hours, now);
+    const body = flowsheetBody(sqlite, id, infant.unit_id, hours, now);
     await auditRead(sqlite, { at: now, actorId: req.auth!.userId, action: 'chart-read', entityType: 'infant', entityId: id, unitId: infant.unit_id, after: { view: 'flowsheet', hours } });
-    res.type('json').send(body);
+    body.send(req, res);
   });
 
   /**

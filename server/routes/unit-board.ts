@@ -6,7 +6,7 @@ import { allow, assertUnit, secureRouter } from '../middleware/access';
 import { valid, validate } from '../middleware/validate';
 import { admitInfant, assignNurse, listAssignableNurses } from '../services/admissions';
 import { auditRead } from '../read-audit';
-import { boardJson } from '../services/board-cache';
+import { boardBody } from '../services/board-cache';
 
 type UnitParams = { unitId: string };
 
@@ -24,10 +24,10 @@ export function unitBoardRouter(ctx: AppContext) {
   router.get('/units/:unitId/board', allow(ctx, 'chart:read'), unitMember, async (req, res) => {
     const { unitId } = req.params as UnitParams;
     const now = ctx.clock.now();
-    const body = boardJson(sqlite, unitId, now);
+    const body = boardBody(sqlite, unitId, now);
     if (body === null) throw notFound('That unit');
     await auditRead(sqlite, { at: now, actorId: req.auth!.userId, action: 'board-read', entityType: 'unit', entityId: unitId, unitId });
-    res.type('json').send(body);
+    body.send(req, res);
   });
 
   router.get('/units/:unitId/nurses', allow(ctx, 'unit:manage'), unitMember, (req, res) => {

@@ -14,6 +14,7 @@ import type { Flowsheet, FlowsheetFlag, FlowsheetReading, ReadingVersion, Sessio
 import { prepared, writeTx } from '../../db/client';
 import { ApiError, badRequest, notFound } from '../errors';
 import { assertUnit } from '../middleware/access';
+import { CompressedJson } from '../compressed-body';
 import { chartDataVersion } from './board-cache';
 import { loadUnitRow, policyForUnit, primeRuleReadings, syncFlags } from './flags';
 import { nextCheckJson, plainDetail, summarizeInfants } from './summaries';
@@ -401,18 +402,18 @@ export const FLOWSHEET_MAX_AGE_MS = 1000;
 interface CachedFlowsheet {
   version: string;
   builtAt: number;
-  json: string;
+  body: CompressedJson;
 }
 
 const flowsheetCaches = new WeakMap<Database.Database, Map<string, CachedFlowsheet>>();
 
 /**
- * The flowsheet as JSON, rebuilt only when the chart's data changed (chartDataVersion) or the
+ * The flowsheet as JSON bytes, rebuilt only when the chart's data changed (chartDataVersion) or the
  * last build is older than FLOWSHEET_MAX_AGE_MS. Its `to` and `from` are those of the build, so
  * a cached answer is one consistent picture of the chart at most a second old. Nothing in it
  * depends on who asks (the unit check comes first), so one entry serves every nurse.
  */
-export function flowsheetJson(sqlite: Database.Database, infantId: string, unitId: string, hours: number, now: Date): string {
+export function flowsheetBody(sqlite: Database.Database, infantId: string, unitId: string, hours: number, now: Date): CompressedJson {
   let cache = flowsheetCaches.get(sqlite);
   if (!cache) {
     cache = new Map();
@@ -421,15 +422,15 @@ export function flowsheetJson(sqlite: Database.Database, infantId: string, unitI
   const key = `${infantId}:${hours}`;
   const hit = cache.get(key);
   const age = hit ? now.getTime() - hit.builtAt : -1;
-  if (hit && age >= 0 && age < FLOWSHEET_MAX_AGE_MS && hit.version === chartDataVersion(sqlite)) return hit.json;
+  if (hit && age >= 0 && age < FLOWSHEET_MAX_AGE_MS && hit.version === chartDataVersion(sqlite)) return hit.body;
   // The version is taken after the build's own sync (which may store flags and so move it) and
   // before its reads: a write landing during the reads makes the entry stale, never wrong.
   let version = '';
   const body = buildFlowsheet(sqlite, infantId, unitId, hours, now, () => (version = chartDataVersion(sqlite)));
-  const json = JSON.stringify(body);
+  const answer = new CompressedJson(JSON.stringify(body));
   // Entries no one asked for in a minute go (discharged infants, closed tabs), so the cache
   // holds only the charts being watched.
   for (const [k, v] of cache) if (now.getTime() - v.builtAt > 60_000 || v.builtAt > now.getTime()) cache.delete(k);
-  cache.set(key, { version, builtAt: now.getTime(), json });
-  return json;
+  cache.set(key, { version, builtAt: now.getTime(), body: answer });
+  return answer;
 }

@@ -1,6 +1,7 @@
 import { prepared } from '../../db/client';
 import type Database from 'better-sqlite3';
 import type { BoardResponse } from '../../shared/types/board';
+import { CompressedJson } from '../compressed-body';
 import { buildBoard } from './board';
 
 /** Every table the board reads. A write to any of them makes every cached board stale. */
@@ -18,8 +19,7 @@ export const BOARD_MAX_AGE_MS = 1000;
 interface Cached {
   version: string;
   builtAt: number;
-  /** The answer serialised once, without serverTime, which is added fresh on every request. */
-  tail: string;
+  body: CompressedJson;
 }
 
 const caches = new WeakMap<Database.Database, Map<string, Cached>>();
@@ -58,10 +58,12 @@ export function chartDataVersion(sqlite: Database.Database): string {
 }
 
 /**
- * The board as a JSON string, rebuilt only when the unit's data changed or the last build is
- * older than BOARD_MAX_AGE_MS. Null when the unit does not exist.
+ * The board as JSON bytes, rebuilt only when the unit's data changed or the last build is older
+ * than BOARD_MAX_AGE_MS. Its `serverTime` is the instant it was built, the instant its statuses
+ * were computed for, so a cached answer is one consistent picture at most a second old; the
+ * board screen corrects its clock by it. Null when the unit does not exist.
  */
-export function boardJson(sqlite: Database.Database, unitId: string, now: Date): string | null {
+export function boardBody(sqlite: Database.Database, unitId: string, now: Date): CompressedJson | null {
   let boards = caches.get(sqlite);
   if (!boards) {
     boards = new Map();
@@ -69,17 +71,14 @@ export function boardJson(sqlite: Database.Database, unitId: string, now: Date):
   }
   const version = chartDataVersion(sqlite);
   const hit = boards.get(unitId);
-  const serverTime = `{"serverTime":${JSON.stringify(now.toISOString())}`;
-  if (hit && hit.version === version && now.getTime() - hit.builtAt >= 0 && now.getTime() - hit.builtAt < BOARD_MAX_AGE_MS) {
-    return `${serverTime},${hit.tail}`;
-  }
+  const age = hit ? now.getTime() - hit.builtAt : -1;
+  if (hit && hit.version === version && age >= 0 && age < BOARD_MAX_AGE_MS) return hit.body;
   const board = buildBoard(sqlite, unitId, now);
   if (!board) {
     boards.delete(unitId);
     return null;
   }
-  const { serverTime: _built, ...rest } = board satisfies BoardResponse;
-  const tail = JSON.stringify(rest).slice(1);
-  boards.set(unitId, { version, builtAt: now.getTime(), tail });
-  return `${serverTime},${tail}`;
+  const body = new CompressedJson(JSON.stringify(board satisfies BoardResponse));
+  boards.set(unitId, { version, builtAt: now.getTime(), body });
+  return body;
 }

@@ -46,6 +46,7 @@ export interface UnitWithSettings {
 }
 
 export interface BoardResponse {
+  /** When the server computed this board (the statuses are as of then): at most a second before it was sent. */
   serverTime: string;
   unit: UnitWithSettings;
   shift: { shiftDate: string; shift: 'day' | 'night'; startsAt: string; endsAt: string };
