@@ -40,11 +40,13 @@ export interface VitalsRun {
 }
 
 const COLLECTOR = `
-  window.__vitals = { lcp: null, lcpWhat: null, cls: 0, inp: null, inpWhat: null, maxEvent: 0, slowestEvent: null };
+  window.__vitals = { lcp: null, lcpWhat: null, lcpText: null, cls: 0, inp: null, inpWhat: null, maxEvent: 0, slowestEvent: null };
   webVitals.onLCP((m) => {
     window.__vitals.lcp = m.value;
     const a = m.attribution;
     window.__vitals.lcpWhat = a ? (a.target || 'unknown element') + ': first byte ' + Math.round(a.timeToFirstByte) + ' + render delay ' + Math.round(a.elementRenderDelay) + ' ms' : null;
+    const el = a && a.lcpEntry && a.lcpEntry.element;
+    window.__vitals.lcpText = el ? (el.textContent || '').trim().slice(0, 60) : null;
   }, { reportAllChanges: true });
   webVitals.onCLS((m) => { window.__vitals.cls = m.value; }, { reportAllChanges: true });
   // The attribution build says which interaction was slowest and where its time went.
@@ -85,12 +87,16 @@ async function throttle(cdp: CDPSession): Promise<void> {
 interface Vitals {
   lcp: number | null;
   lcpWhat: string | null;
+  lcpText: string | null;
   cls: number;
   inp: number | null;
   inpWhat: string | null;
   maxEvent: number;
   slowestEvent: string | null;
 }
+
+/** What app/(app)/_layout.tsx shows while a signed-in page waits for its user. */
+const OPENING_PLACEHOLDER = 'Opening Warmfold';
 
 const read = (page: Page) => page.evaluate(() => (window as unknown as { __vitals: Vitals }).__vitals);
 
@@ -110,6 +116,10 @@ async function coldLoad(page: Page, cdp: CDPSession, url: string, ready: (page: 
   await page.waitForTimeout(500);
   page.off('response', onResponse);
   const v = await read(page);
+  // The page's own content was waited for above; an LCP still on the signed-in pages' "Opening
+  // Warmfold…" placeholder means Chromium recorded no entry for that content, and the figure
+  // would flatter the page. Such a run is an error (tried again once), never a sample.
+  if (v.lcpText !== null && v.lcpText.startsWith(OPENING_PLACEHOLDER)) throw new Error(`${url}: the LCP entry is the opening placeholder, not the page's content`);
   return { lcp: v.lcp, lcpWhat: v.lcpWhat, cls: v.cls, scripts: [...scripts] };
 }
 
@@ -146,6 +156,11 @@ async function oneRun(browser: Browser, opts: VitalsOptions, iife: string): Prom
     await page.getByLabel('Password').fill(opts.password);
     await page.getByRole('button', { name: 'Sign in' }).click();
     await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+    // Signing in lands on My infants; let that page finish (its list shown, the network quiet)
+    // before the next cold load. Navigating while it is still rendering timed the old page's
+    // work as the new page's (about 0.3 s at 4x) and sometimes lost the new page's LCP entry.
+    await page.getByText(opts.infantName, { exact: false }).first().waitFor();
+    await page.waitForLoadState('networkidle').catch(() => undefined);
 
     const myInfants = await coldLoad(page, cdp, `${opts.base}/infants`, async (p) => {
       await p.getByText(opts.infantName, { exact: false }).first().waitFor();

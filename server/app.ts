@@ -1,5 +1,6 @@
+import compression from 'compression';
 import cors from 'cors';
-import express, { type Express } from 'express';
+import express, { type Express, type Request, type Response } from 'express';
 import helmet from 'helmet';
 import type { Database_ } from '../db/client';
 import type { Clock } from './clock';
@@ -20,6 +21,11 @@ export interface CreateAppOptions {
 }
 
 export const JSON_BODY_LIMIT = '100kb';
+
+/** Whether the `compression` middleware may compress an API answer (paths are relative to /api). */
+export function compressibleAnswer(req: Request, res: Response): boolean {
+  return !req.path.startsWith('/auth/') && compression.filter(req, res);
+}
 
 /** Builds the whole product as an Express app. Tests call this; server/index.ts listens. */
 export function createApp({ db, mailer, clock, config, log = (line) => process.stdout.write(`${line}\n`) }: CreateAppOptions): Express & { context: AppContext } {
@@ -70,6 +76,12 @@ export function createApp({ db, mailer, clock, config, log = (line) => process.s
     res.set('Cache-Control', 'no-store');
     next();
   });
+  // Answers over 1 KB go out compressed (brotli at quality 4, or gzip): the unit's lists and
+  // handovers on a ward's Wi-Fi. The board and flowsheet bring their own compressed bytes
+  // (CompressedJson), which the middleware leaves alone. Answers under /auth (sign-in, invitation
+  // and reset links) are never compressed: they carry tokens next to text a user typed, the shape
+  // BREACH attacks need.
+  api.use(compression({ filter: compressibleAnswer }));
   api.use(express.json({ limit: JSON_BODY_LIMIT, strict: true, type: ['application/json', 'application/*+json'] }));
   for (const [mount, router] of apiRouters(ctx)) api.use(mount, router);
   api.use(apiNotFound);

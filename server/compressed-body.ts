@@ -19,8 +19,9 @@ const MIN_BYTES = 1024;
  * A JSON answer that is served many times unchanged (the board, a flowsheet), kept as bytes and
  * compressed at most once per encoding, on first demand. A board is about 50 KB of JSON and 5 KB
  * gzipped: on a ward's Wi-Fi the difference is what a nurse waits for, and on the server the
- * fewer bytes written per poll are most of a cached read's cost. Compressing per request (the
- * `compression` middleware) would cost more than the read itself, so it happens here, once.
+ * fewer bytes written per poll are most of a cached read's cost. Compressing per request (as the
+ * `compression` middleware does for the API's other answers, and leaves these alone) would cost
+ * more than the read itself, so it happens here, once per build.
  * Brotli runs at a middle quality: a cache entry lives about a second, not a build.
  */
 export class CompressedJson {

@@ -1,5 +1,3 @@
-import { TZDate } from '@date-fns/tz';
-import { format } from 'date-fns/format';
 
 /** The user's clock setting. */
 export type ClockSetting = '24h' | '12h';
@@ -10,29 +8,25 @@ function instant(at: string | Date | number): number {
 
 /**
  * Format in the unit's time zone, never the device's: a nurse on a phone set to another zone
- * must read the same times as the wall clock on the unit. A bad zone falls back to UTC, said so.
+ * must read the same times as the wall clock on the unit. A zone this runtime does not know falls
+ * back to UTC, said so.
+ *
+ * The patterns are Warmfold's own few, built from one Intl call per instant: the screens format
+ * many times per render (a flowsheet card shows several), and date-fns' general `format` on a
+ * TZDate asks Intl for the zone's offset on every field it reads, and would bring its formatters
+ * and English locale to every page. tests/shared/format-time.test.ts checks that the text is the
+ * one date-fns gives, across zones and DST changes.
  */
-export function formatInZone(at: string | Date | number, timeZone: string, pattern: string): string {
+export function formatInZone(at: string | Date | number, timeZone: string, pattern: TimePattern): string {
   const ms = instant(at);
   if (Number.isNaN(ms)) return '—';
-  const quick = QUICK_PATTERNS[pattern];
-  if (quick) {
-    const parts = wallClock(ms, timeZone);
-    if (parts) return quick(parts);
-  }
-  try {
-    return format(new TZDate(ms, timeZone), pattern);
-  } catch {
-    return `${format(new TZDate(ms, 'UTC'), pattern)} UTC`;
-  }
+  const build = PATTERNS[pattern];
+  const local = wallClock(ms, timeZone);
+  if (local) return build(local);
+  const d = new Date(ms);
+  return `${build({ year: d.getUTCFullYear(), month: d.getUTCMonth() + 1, day: d.getUTCDate(), hour: d.getUTCHours(), minute: d.getUTCMinutes() })} UTC`;
 }
 
-/**
- * The screens format many times per render (a flowsheet card shows several), and a TZDate asks
- * Intl for the zone's offset on every field it reads. The patterns Warmfold uses are built here
- * from one Intl call per instant instead; the result is the same text date-fns gives
- * (tests/shared/format-time.test.ts checks them against it across zones and DST changes).
- */
 interface WallClock {
   year: number;
   /** 1 to 12. */
@@ -51,18 +45,22 @@ const h12 = (w: WallClock) => `${w.hour % 12 === 0 ? 12 : w.hour % 12}:${pad(w.m
 const dayMonth = (w: WallClock) => `${w.day} ${MONTHS[w.month - 1]}`;
 const weekday = (w: WallClock) => WEEKDAYS[new Date(Date.UTC(w.year, w.month - 1, w.day)).getUTCDay()];
 
-const QUICK_PATTERNS: Record<string, (w: WallClock) => string> = {
+/** Each pattern in date-fns' notation, with what builds it. */
+const PATTERNS = {
   'HH:mm': h24,
   'h:mm a': h12,
-  'd MMM, HH:mm': (w) => `${dayMonth(w)}, ${h24(w)}`,
-  'd MMM, h:mm a': (w) => `${dayMonth(w)}, ${h12(w)}`,
-  'EEE d MMM, HH:mm': (w) => `${weekday(w)} ${dayMonth(w)}, ${h24(w)}`,
-  'EEE d MMM, h:mm a': (w) => `${weekday(w)} ${dayMonth(w)}, ${h12(w)}`,
-};
+  'd MMM, HH:mm': (w: WallClock) => `${dayMonth(w)}, ${h24(w)}`,
+  'd MMM, h:mm a': (w: WallClock) => `${dayMonth(w)}, ${h12(w)}`,
+  'EEE d MMM, HH:mm': (w: WallClock) => `${weekday(w)} ${dayMonth(w)}, ${h24(w)}`,
+  'EEE d MMM, h:mm a': (w: WallClock) => `${weekday(w)} ${dayMonth(w)}, ${h12(w)}`,
+} satisfies Record<string, (w: WallClock) => string>;
+
+export type TimePattern = keyof typeof PATTERNS;
+export const TIME_PATTERNS = Object.keys(PATTERNS) as TimePattern[];
 
 const wallFormats = new Map<string, Intl.DateTimeFormat | null>();
 
-/** The wall-clock fields at `ms` in `timeZone`, or null if this runtime cannot say (then TZDate answers). */
+/** The wall-clock fields at `ms` in `timeZone`, or null if this runtime does not know the zone. */
 function wallClock(ms: number, timeZone: string): WallClock | null {
   let f = wallFormats.get(timeZone);
   if (f === undefined) {

@@ -2,11 +2,14 @@ import request from 'supertest';
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import zlib from 'node:zlib';
+import type { Request, Response } from 'express';
+import { compressibleAnswer } from '../../server/app';
 import type { BoardResponse } from '../../shared/types/board';
 import { DEMO, makeEnv, type TestEnv } from './helpers';
 
 // The board and the flowsheet are served from caches as bytes compressed once per build
-// (server/compressed-body.ts). Decoding is checked with Node's own zlib, not the app's code.
+// (server/compressed-body.ts); the API's other answers over 1 KB are compressed per request by
+// the `compression` middleware, except under /auth. Decoding is checked with Node's own zlib.
 
 let env: TestEnv;
 let charge: string;
@@ -81,5 +84,29 @@ describe('the cached board', () => {
     env.clock.set(new Date(start.getTime() + 1000));
     const rebuilt = (await request(env.app).get(BOARD).set('Authorization', `Bearer ${charge}`)).body as BoardResponse;
     expect(rebuilt.serverTime).toBe(new Date(start.getTime() + 1000).toISOString());
+  });
+});
+
+describe('the other API answers', () => {
+  it('go out compressed when over 1 KB (the nurse’s infants), and decode to the plain answer', async () => {
+    const plain = await raw('/api/infants/mine', nurse, 'identity');
+    const br = await raw('/api/infants/mine', nurse, 'gzip, deflate, br');
+    expect(plain.bytes.length).toBeGreaterThan(1024);
+    expect(plain.encoding).toBeUndefined();
+    expect(br.encoding).toBe('br');
+    expect(zlib.brotliDecompressSync(br.bytes).toString('utf8')).toBe(plain.bytes.toString('utf8'));
+  });
+
+  it('stay plain under 1 KB', async () => {
+    const small = await raw('/api/ping', nurse, 'gzip, br');
+    expect(JSON.parse(small.bytes.toString('utf8'))).toEqual({ pong: true });
+    expect(small.encoding).toBeUndefined();
+  });
+
+  it('are never compressed under /auth, where tokens sit beside what a user typed', () => {
+    const json = { getHeader: (name: string) => (name.toLowerCase() === 'content-type' ? 'application/json; charset=utf-8' : undefined) } as unknown as Response;
+    const at = (path: string) => ({ path, headers: {} }) as unknown as Request;
+    expect(compressibleAnswer(at('/infants/mine'), json)).toBe(true);
+    for (const path of ['/auth/sign-in', '/auth/me', '/auth/invitations/abc', '/auth/reset/abc']) expect(compressibleAnswer(at(path), json)).toBe(false);
   });
 });

@@ -6,9 +6,8 @@
  */
 import { TZDate } from '@date-fns/tz';
 import { format } from 'date-fns/format';
-import { formatClock, formatDayTime, formatInZone } from '@/components/ui/format-time';
+import { formatClock, formatDayTime, formatInZone, TIME_PATTERNS } from '@/components/ui/format-time';
 
-const PATTERNS = ['HH:mm', 'h:mm a', 'd MMM, HH:mm', 'd MMM, h:mm a', 'EEE d MMM, HH:mm', 'EEE d MMM, h:mm a'];
 // A 30-minute DST shift (Lord Howe), a 45-minute offset (Chatham), no DST (Kolkata), both hemispheres.
 const ZONES = ['Europe/London', 'America/New_York', 'Australia/Lord_Howe', 'Pacific/Chatham', 'Asia/Kolkata', 'UTC'];
 
@@ -32,7 +31,7 @@ describe('formatInZone', () => {
   it.each(ZONES)('matches date-fns on TZDate in %s for every pattern', (zone) => {
     const mismatches: string[] = [];
     for (const ms of instants()) {
-      for (const pattern of PATTERNS) {
+      for (const pattern of TIME_PATTERNS) {
         const expected = format(new TZDate(ms, zone), pattern);
         const actual = formatInZone(ms, zone, pattern);
         if (actual !== expected && mismatches.length < 5) mismatches.push(`${new Date(ms).toISOString()} ${pattern}: ${actual} ≠ ${expected}`);
@@ -49,9 +48,9 @@ describe('formatInZone', () => {
     expect(formatDayTime('2026-12-31T23:30:00Z', 'Asia/Kolkata', '24h')).toBe('1 Jan, 05:00');
   });
 
-  it('falls back to the general path for other patterns and says UTC for an unknown zone', () => {
-    expect(formatInZone('2026-12-02T14:05:00Z', 'Europe/London', 'yyyy-MM-dd')).toBe('2026-12-02');
+  it('says UTC for a zone the runtime does not know, and a dash for no time', () => {
     expect(formatInZone('2026-12-02T14:05:00Z', 'Not/AZone', 'HH:mm')).toBe('14:05 UTC');
+    expect(formatInZone('2026-07-02T23:05:00Z', 'Not/AZone', 'EEE d MMM, h:mm a')).toBe('Thu 2 Jul, 11:05 PM UTC');
     expect(formatInZone('not a time', 'Europe/London', 'HH:mm')).toBe('—');
   });
 });

@@ -82,6 +82,12 @@ describe('the screens’ static imports', () => {
     }
   });
 
+  it('never reach date-fns: times are built by components/ui/format-time.ts, zones by @date-fns/tz', () => {
+    expect(reached.has('@date-fns/tz')).toBe(true);
+    const chain = reached.get('date-fns');
+    expect(chain ? `date-fns via ${chain.join(' → ')}` : null).toBeNull();
+  });
+
   it('never reach the rules engine: it runs on the server, and the screens import the thermal modules they use', () => {
     expect(files.has(path.join('shared', 'thermal', 'units.ts'))).toBe(true);
     for (const banned of ['evaluate.ts', 'manual-mode.ts', 'index.ts'].map((f) => path.join('shared', 'thermal', f))) {
