@@ -123,7 +123,7 @@ async function coldLoad(page: Page, cdp: CDPSession, url: string, ready: (page: 
   // Warmfold…" placeholder means Chromium recorded no entry for that content, and the figure
   // would flatter the page. Such a run is an error (tried again once), never a sample.
   if (v.lcpText !== null && v.lcpText.startsWith(OPENING_PLACEHOLDER)) throw new Error(`${url}: the LCP entry is the opening placeholder, not the page's content`);
-  return { lcp: v.lcp, lcpWhat: v.lcpWhat, cls: v.cls, scripts: [...scripts] };
+  return { lcp: v.lcp, lcpWhat: v.lcpText ? `${v.lcpWhat} ("${v.lcpText}")` : v.lcpWhat, cls: v.cls, scripts: [...scripts] };
 }
 
 export interface VitalsOptions {
