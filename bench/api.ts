@@ -1,6 +1,8 @@
 /**
  * Read throughput: the board, one infant's 72-hour flowsheet and the bare /api/ping route, in the
- * same server process and the same run, so the ratio to the baseline cancels out the machine.
+ * same server process and the same run, so the ratio to the baseline cancels out the machine. The
+ * measured time is cut into rounds that take the three routes in turn, so a slow spell of this
+ * shared machine lands on all three rather than on whichever route was measured then.
  */
 import autocannon, { type Result } from 'autocannon';
 
@@ -19,8 +21,11 @@ export interface LoadFigures {
 
 export interface LoadOptions {
   connections: number;
+  /** Measured seconds per route, over all rounds. */
   seconds: number;
   warmupSeconds: number;
+  /** How many turns the measured time is cut into (1: each route measured in one go). */
+  rounds: number;
 }
 
 /**
@@ -32,27 +37,35 @@ async function drained(url: string, headers: Record<string, string>): Promise<vo
   await fetch(url, { headers }).then((r) => r.arrayBuffer());
 }
 
-function figures(name: string, path: string, r: Result): LoadFigures {
+const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor((xs.length - 1) / 2)]!;
+
+/**
+ * One route's figures over its rounds: req/s is all its answers over all its measured time; p50
+ * is the median of the rounds' p50s and the tails are the worst round's (autocannon reports
+ * percentiles, not the histograms that would merge exactly).
+ */
+function figures(name: string, path: string, rounds: Result[]): LoadFigures {
+  const requests = rounds.reduce((n, r) => n + r.requests.total, 0);
+  const seconds = rounds.reduce((n, r) => n + r.duration, 0);
   return {
     name,
     path,
-    reqPerSec: r.requests.average,
-    p50: r.latency.p50,
-    p975: r.latency.p97_5,
-    p99: r.latency.p99,
-    requests: r.requests.total,
-    errors: r.errors + r.timeouts,
-    non2xx: r.non2xx,
+    reqPerSec: seconds > 0 ? requests / seconds : 0,
+    p50: median(rounds.map((r) => r.latency.p50)),
+    p975: Math.max(...rounds.map((r) => r.latency.p97_5)),
+    p99: Math.max(...rounds.map((r) => r.latency.p99)),
+    requests,
+    errors: rounds.reduce((n, r) => n + r.errors + r.timeouts, 0),
+    non2xx: rounds.reduce((n, r) => n + r.non2xx, 0),
     ratioToBaseline: null,
   };
 }
 
-export async function measure(base: string, path: string, headers: Record<string, string>, opts: LoadOptions, extra: Partial<Parameters<typeof autocannon>[0]> = {}): Promise<Result> {
-  const common = { url: `${base}${path}`, connections: opts.connections, headers, timeout: 30, ...extra };
-  if (opts.warmupSeconds > 0) await autocannon({ ...common, duration: opts.warmupSeconds });
-  await drained(common.url, headers);
-  const result = await autocannon({ ...common, duration: opts.seconds });
-  await drained(common.url, headers);
+/** One window of load on one route, answered in full before the next window starts. */
+async function loadWindow(base: string, path: string, headers: Record<string, string>, connections: number, seconds: number): Promise<Result> {
+  const url = `${base}${path}`;
+  const result = await autocannon({ url, connections, headers, timeout: 30, duration: seconds });
+  await drained(url, headers);
   return result;
 }
 
@@ -72,9 +85,17 @@ export async function benchReads(
     const res = await fetch(`${base}${path}`, { headers: { authorization: `Bearer ${token}` } });
     if (!res.ok) throw new Error(`GET ${path} answered ${res.status}: ${(await res.text()).slice(0, 300)}`);
   }
-  const ping = figures('baseline /api/ping', '/api/ping', await measure(base, '/api/ping', AS_A_BROWSER, opts));
-  const board = figures('unit board', targets.boardPath, await measure(base, targets.boardPath, { ...AS_A_BROWSER, authorization: `Bearer ${targets.chargeToken}` }, opts));
-  const flowsheet = figures('72-h flowsheet', targets.flowsheetPath, await measure(base, targets.flowsheetPath, { ...AS_A_BROWSER, authorization: `Bearer ${targets.nurseToken}` }, opts));
+  const routes = [
+    { name: 'baseline /api/ping', path: '/api/ping', headers: AS_A_BROWSER },
+    { name: 'unit board', path: targets.boardPath, headers: { ...AS_A_BROWSER, authorization: `Bearer ${targets.chargeToken}` } },
+    { name: '72-h flowsheet', path: targets.flowsheetPath, headers: { ...AS_A_BROWSER, authorization: `Bearer ${targets.nurseToken}` } },
+  ];
+  if (opts.warmupSeconds > 0) for (const r of routes) await loadWindow(base, r.path, r.headers, opts.connections, opts.warmupSeconds);
+  const windows = routes.map(() => [] as Result[]);
+  for (let round = 0; round < opts.rounds; round++) {
+    for (const [i, r] of routes.entries()) windows[i]!.push(await loadWindow(base, r.path, r.headers, opts.connections, opts.seconds / opts.rounds));
+  }
+  const [ping, board, flowsheet] = routes.map((r, i) => figures(r.name, r.path, windows[i]!)) as [LoadFigures, LoadFigures, LoadFigures];
   for (const f of [board, flowsheet]) f.ratioToBaseline = ping.reqPerSec > 0 ? f.reqPerSec / ping.reqPerSec : null;
   return [ping, board, flowsheet];
 }
