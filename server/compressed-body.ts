@@ -18,14 +18,14 @@ const MIN_BYTES = 1024;
 /**
  * A JSON answer that is served many times unchanged (the board, a flowsheet), kept as bytes and
  * compressed at most once per encoding, on first demand. A board is about 50 KB of JSON and 5 KB
- * gzipped: on a ward's Wi-Fi the difference is what a nurse waits for, and on the server the
+ * compressed: on a ward's Wi-Fi the difference is what a nurse waits for, and on the server the
  * fewer bytes written per poll are most of a cached read's cost. Compressing per request (as the
  * `compression` middleware does for the API's other answers, and leaves these alone) would cost
- * more than the read itself, so it happens here, once per build.
- * Brotli runs at a middle quality: a cache entry lives about a second, not a build.
+ * more than the read itself, so it happens here, once per build. Brotli runs at a middle quality:
+ * a cache entry lives about a second, not a whole server run.
  */
 export class CompressedJson {
-  readonly raw: Buffer;
+  private readonly raw: Buffer;
   private readonly encoded: Partial<Record<Encoding, Buffer>> = {};
 
   constructor(json: string) {
@@ -33,8 +33,8 @@ export class CompressedJson {
   }
 
   /** The bytes for an encoding, compressed the first time they are asked for. */
-  bytes(encoding: Encoding | null): Buffer {
-    if (encoding === null || this.raw.length < MIN_BYTES) return this.raw;
+  private bytes(encoding: Encoding | null): Buffer {
+    if (encoding === null) return this.raw;
     let body = this.encoded[encoding];
     if (!body) {
       body =

@@ -35,9 +35,9 @@ interface Entry {
  * Serves the web build's files brotli- or gzip-compressed, compressed once and kept in memory.
  * The build is immutable while the server runs (hashed names), so paying brotli's top quality
  * once beats compressing on every request, which is what the `compression` middleware (used for
- * the API's small answers) would do here. Compression
- * runs on libuv's thread pool and starts at boot, so the event loop never waits for it; a
- * request that arrives first gets gzip (quick) while brotli finishes.
+ * the API's answers) would do here. Compression runs on libuv's thread pool and starts at boot,
+ * so the event loop never waits for it; a request that arrives first gets gzip (quick) while
+ * brotli finishes.
  */
 export function precompressed(webDir: string, cacheControl: (file: string) => string | null): RequestHandler {
   const root = path.resolve(webDir);

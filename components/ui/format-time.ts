@@ -1,4 +1,3 @@
-
 /** The user's clock setting. */
 export type ClockSetting = '24h' | '12h';
 
