@@ -80,7 +80,6 @@ export async function untilCompressed(url: string, deadline: number): Promise<vo
   }
 }
 
-
 /**
  * Wait until the server has compressed its whole web build (it does at start-up, brotli at
  * quality 11 on libuv's thread pool, tens of seconds on 2 loaded cores): measured reads that
