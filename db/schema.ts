@@ -103,8 +103,16 @@ export const signInAttempts = sqliteTable(
     address: text('address').notNull(),
     at: instant('at').notNull(),
     succeeded: flag('succeeded').notNull(),
+    /** What was tried: a sign-in, the current-password check of a password change, or a reset request. */
+    kind: text('kind', { enum: ['sign-in', 'password-check', 'reset-request'] }).notNull().default('sign-in'),
+    /** The device cookie's id when the browser had signed in to this account before (its own budget). */
+    device: text('device'),
   },
-  (t) => [index('sign_in_attempts_email_at').on(t.email, t.at), index('sign_in_attempts_address_at').on(t.address, t.at)],
+  (t) => [
+    index('sign_in_attempts_email_at').on(t.email, t.at),
+    index('sign_in_attempts_address_at').on(t.address, t.at),
+    index('sign_in_attempts_device_at').on(t.device, t.at),
+  ],
 );
 
 /** Single-use links sent by e-mail: invitations and password resets. Only a hash of the token is kept. */
@@ -340,6 +348,8 @@ export const caughtMail = sqliteTable('caught_mail', {
   subject: text('subject').notNull(),
   text: text('text_body').notNull(),
   html: text('html_body'),
+  /** The user whose action sent it (an invitation's admin); null for the system's own mail. */
+  sentBy: text('sent_by'),
 });
 
 /** Every change and every chart read; each row carries the hash of the one before it. */
