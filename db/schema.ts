@@ -144,6 +144,10 @@ export const infants = sqliteTable(
     status: text('status', { enum: ['admitted', 'discharged'] }).notNull().default('admitted'),
     admittedAt: instant('admitted_at').notNull(),
     dischargedAt: instant('discharged_at'),
+    /** The hospital's number for the infant (medical record number); null only on rows older than the field. */
+    hospitalNumber: text('hospital_number'),
+    /** Administrative sex as recorded on admission; null only on rows older than the field. */
+    sex: text('sex', { enum: ['female', 'male', 'indeterminate', 'unknown'] }),
   },
   (t) => [index('infants_unit_status').on(t.unitId, t.status)],
 );
@@ -152,6 +156,24 @@ const infantRef = () =>
   text('infant_id')
     .notNull()
     .references(() => infants.id);
+
+/**
+ * Where an infant lay, append-only: one row on admission, one per move, one on discharge (bed
+ * null). The bed at an instant is the bed of the latest row at or before it.
+ */
+export const bedStays = sqliteTable(
+  'bed_stays',
+  {
+    id: text('id').primaryKey(),
+    infantId: infantRef(),
+    unitId: unitRef(),
+    bedId: text('bed_id').references(() => beds.id),
+    event: text('event', { enum: ['admitted', 'moved', 'discharged'] }).notNull(),
+    at: instant('at').notNull(),
+    recordedBy: text('recorded_by').references(() => users.id),
+  },
+  (t) => [index('bed_stays_infant_at').on(t.infantId, t.at)],
+);
 
 /** A nurse's assignment to an infant for one shift; the latest row for (infant, shift) wins. */
 export const assignments = sqliteTable(
@@ -224,6 +246,10 @@ export const readings = sqliteTable(
     correctionReason: text('correction_reason', { enum: ['corrected-value', 'entered-in-error', 'late-entry'] }),
     correctionNote: text('correction_note'),
     enteredInError: flag('entered_in_error').notNull().default(false),
+    /** Set on rows imported from a file: the upload they came from. */
+    uploadId: text('upload_id').references(() => uploads.id),
+    /** On imported rows, the nurse named in the file's `taken_by` column; null when the file named nobody. */
+    takenBy: text('taken_by').references(() => users.id),
     /** SHA-256 of the request body that created the row, so a retried id with other content is refused. */
     requestHash: text('request_hash'),
   },

@@ -7,6 +7,7 @@ import { TZDate } from '@date-fns/tz';
 import bcrypt from 'bcryptjs';
 import { randomUUID } from 'node:crypto';
 import { writeTx, type Database_ } from './client';
+import { bedStays } from './schema';
 import { shiftAt } from '../shared/shifts';
 import { appendAudit } from '../server/audit';
 import { syncFlags } from '../server/services/flags';
@@ -127,8 +128,8 @@ export async function seedDemo(database: Database_, { now, bcryptCost }: SeedOpt
     }
 
     const infant = sqlite.prepare(
-      `INSERT INTO infants (id, unit_id, bed_id, display_name, birth_at, gestation_weeks, gestation_days, birth_weight_grams, weight_grams, heat_source, status, admitted_at)
-       VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, 'admitted', ?)`,
+      `INSERT INTO infants (id, unit_id, bed_id, display_name, birth_at, gestation_weeks, gestation_days, birth_weight_grams, weight_grams, heat_source, status, admitted_at, hospital_number, sex)
+       VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, 'admitted', ?, ?, ?)`,
     );
     const reading = sqlite.prepare(
       `INSERT INTO readings (id, infant_id, unit_id, taken_at, recorded_at, recorded_by, probe_centi, remote_centi, remote_site, air_centi, set_centi,
@@ -145,7 +146,10 @@ export async function seedDemo(database: Database_, { now, bcryptCost }: SeedOpt
     for (const inf of INFANTS) {
       const ageMin = inf.ageDays * 24 * 60;
       const admitted = min(Math.min(ageMin - 30, 72 * 60 + 30));
-      infant.run(inf.id, inf.unit, `bed-${inf.bed}`, inf.name, min(ageMin), inf.gaWeeks, inf.gaDays, inf.birthWeight, inf.weight, inf.heatSource, admitted);
+      // Invented hospital numbers, one per demo infant.
+      const hospitalNumber = `LV${String(204100 + INFANTS.indexOf(inf) * 7).padStart(7, '0')}`;
+      infant.run(inf.id, inf.unit, `bed-${inf.bed}`, inf.name, min(ageMin), inf.gaWeeks, inf.gaDays, inf.birthWeight, inf.weight, inf.heatSource, admitted, hospitalNumber, INFANTS.indexOf(inf) % 2 ? 'male' : 'female');
+      database.db.insert(bedStays).values({ id: `stay-${inf.id}-admitted`, infantId: inf.id, unitId: inf.unit, bedId: `bed-${inf.bed}`, event: 'admitted', at: new Date(admitted), recordedBy: null }).run();
       const charge = inf.unit === 'unit-north' ? 'u-charge' : 'u-charge-2';
       assign.run(randomUUID(), inf.unit, inf.id, inf.nurse, previous.shiftDate, previous.shift, charge, previous.startsAt.getTime() - 30 * 60_000);
       assign.run(randomUUID(), inf.unit, inf.id, inf.nurse, current.shiftDate, current.shift, charge, current.startsAt.getTime() - 30 * 60_000);
