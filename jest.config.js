@@ -8,7 +8,7 @@ module.exports = {
     {
       displayName: 'server',
       testEnvironment: 'node',
-      testMatch: ['<rootDir>/tests/shared/**/*.test.ts', '<rootDir>/tests/server/**/*.test.ts'],
+      testMatch: ['<rootDir>/tests/shared/**/*.test.ts', '<rootDir>/tests/server/**/*.test.ts', '<rootDir>/tests/reference/**/*.test.ts'],
       transform: { '^.+\\.[jt]sx?$': 'babel-jest' },
       moduleNameMapper: alias,
     },
