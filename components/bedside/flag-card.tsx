@@ -22,7 +22,8 @@ import { openRecordForm } from './open-record-form';
 export const FLAG_ACTIONS: Record<FlagKind, ActionKind[]> = {
   gap: ['checked-probe-contact', 'checked-cover', 'moved-probe', 'adjusted-set-temperature', 'changed-control-mode'],
   'heat-stress': ['adjusted-set-temperature', 'reduced-heater-output', 'checked-probe-contact', 'removed-coverings', 'informed-charge-nurse', 'informed-medical-team'],
-  'cold-stress': ['checked-probe-contact', 'checked-cover', 'adjusted-set-temperature', 'informed-charge-nurse'],
+  'cold-stress': ['checked-probe-contact', 'checked-cover', 'adjusted-set-temperature', 'informed-charge-nurse', 'informed-medical-team'],
+  fever: ['checked-probe-contact', 'removed-coverings', 'informed-medical-team', 'informed-charge-nurse'],
   'manual-mode': ['changed-control-mode', 'reduced-heater-output', 'informed-charge-nurse'],
   'skin-to-skin-deviation': ['checked-probe-contact', 'informed-charge-nurse'],
   'overdue-check': [],

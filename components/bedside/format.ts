@@ -57,5 +57,6 @@ export const FLAG_LABELS = {
   'cold-stress': 'Cold stress',
   'manual-mode': 'Manual mode',
   'skin-to-skin-deviation': 'Skin-to-skin deviation',
+  fever: 'Fever',
 } as const;
 export const CORRECTION_REASON_LABELS = { 'corrected-value': 'Corrected value', 'entered-in-error': 'Entered in error', 'late-entry': 'Late entry' } as const;

@@ -10,6 +10,7 @@ export const FLAG_WORDS: Record<FlagKind, { label: string; icon: IconName; tone:
   'cold-stress': { label: 'Cold stress', icon: 'snow', tone: 'warning' },
   'manual-mode': { label: 'Manual mode', icon: 'hand', tone: 'warning' },
   'skin-to-skin-deviation': { label: 'Outside deviation limit', icon: 'hands', tone: 'together' },
+  fever: { label: 'Fever', icon: 'flame', tone: 'danger' },
 };
 
 /** "2:05" or "1:02:05" for a number of whole seconds. */

@@ -11,7 +11,7 @@
  */
 
 import { requireFinite, requireInteger, requireTime, ThermalInputError } from './errors';
-import { temperatureBand, isColdBand, worseColdBand, type ColdBand, type TemperatureBand } from './bands';
+import { FEVER_MIN_CENTI, temperatureBand, isColdBand, worseColdBand, type ColdBand, type TemperatureBand } from './bands';
 import { assessGapCenti, type GapDirection } from './gap';
 import { heatStressPrompt, type HeatStressReason, type HeatStressSign } from './heat-stress';
 import {
@@ -24,6 +24,7 @@ import {
 import { resolvePolicy, type UnitPolicy } from './policy';
 import { checkStatus, MINUTE_MS, type CheckStatusResult } from './schedule';
 import { validateSession } from './skin-to-skin';
+import { severityOf, type Severity } from './severity';
 
 export type RemoteSite = 'axilla' | 'rectal' | 'other';
 
@@ -83,7 +84,8 @@ export type FlagKind =
   | 'heat-stress'
   | 'cold-stress'
   | 'manual-mode'
-  | 'skin-to-skin-deviation';
+  | 'skin-to-skin-deviation'
+  | 'fever';
 
 export type FlagStatus = 'open' | 'closed';
 
@@ -118,6 +120,12 @@ export interface ColdStressFlagDetail {
   readonly lowestCenti: number;
 }
 
+/** A remote site of 38.0 °C and over (Bedside Clinical Guidelines Partnership): may mean infection. */
+export interface FeverFlagDetail {
+  /** The highest remote-site temperature charted while the flag was open. */
+  readonly highestCenti: number;
+}
+
 export interface ManualModeFlagDetail {
   /** Every reason seen while the flag was open. */
   readonly reasons: ManualModeReason[];
@@ -133,6 +141,11 @@ export interface SkinToSkinFlagDetail {
   readonly limitCenti: number;
   /** The largest deviation (by size, signed) while the flag was open. */
   readonly worstDeviationCenti: number;
+  /**
+   * Which temperature raised it: the remote site when one was charted, else the probe. A flag
+   * raised on the remote site is closed only by a remote-site reading.
+   */
+  readonly site: 'remote' | 'probe';
 }
 
 export interface FlagDetailByKind {
@@ -142,6 +155,7 @@ export interface FlagDetailByKind {
   'cold-stress': ColdStressFlagDetail;
   'manual-mode': ManualModeFlagDetail;
   'skin-to-skin-deviation': SkinToSkinFlagDetail;
+  fever: FeverFlagDetail;
 }
 
 interface FlagBase<K extends FlagKind> {
@@ -167,6 +181,13 @@ interface FlagBase<K extends FlagKind> {
   readonly closedByReadingId: string | null;
   /** For an open flag with an action: the last action + recheckMinutes; otherwise null. */
   readonly recheckDueAt: Date | null;
+  /**
+   * For an open flag with an action: the first action + recheckSettleMinutes, the instant from
+   * which a reading counts as its recheck; otherwise null.
+   */
+  readonly recheckCountsFrom: Date | null;
+  /** From SEVERITY_TABLE, by kind and (cold stress) worst band. */
+  readonly severity: Severity;
 }
 
 export type EvaluatedFlag = { [K in FlagKind]: FlagBase<K> }[FlagKind];
@@ -196,7 +217,30 @@ export interface InfantEvaluation {
    * 'never' only with neither.
    */
   readonly nextCheck: CheckStatusResult;
+  /**
+   * While the latest charted control mode is manual: the 15-minute check clock (ECRI), which any
+   * charted temperature (probe or remote site) satisfies. Null outside manual mode.
+   */
+  readonly manualCheck: ManualCheckClock | null;
   readonly latest: LatestValues;
+}
+
+export interface ManualCheckClock {
+  /** First reading of the current run of manual mode. */
+  readonly since: Date;
+  /** The later of `since` and the last temperature charted, plus manualCheckMinutes. */
+  readonly dueAt: Date;
+  /** The latest charted heater output, if any. */
+  readonly outputPct: number | null;
+  readonly limitMinutes: number;
+  readonly status: CheckStatusResult['status'];
+  readonly minutesLate: number;
+}
+
+/** A version of a unit's settings and the instant from which it is in force. */
+export interface PolicyVersion {
+  readonly effectiveFrom: Date;
+  readonly policy: Partial<UnitPolicy>;
 }
 
 /** Plain code-unit order: deterministic everywhere, unlike localeCompare. */
@@ -345,6 +389,7 @@ const KIND_ORDER: Readonly<Record<FlagKind, number>> = {
   'heat-stress': 3,
   'manual-mode': 4,
   'skin-to-skin-deviation': 5,
+  fever: 6,
 };
 
 class FlagBook {
@@ -427,14 +472,37 @@ interface ActiveSession {
   open: Draft<'skin-to-skin-deviation'> | null;
 }
 
+/**
+ * The check interval in force at an instant: that of the latest version effective at or before
+ * it, else the base policy's. A check's due time is set by the version in force at the check
+ * before it (or at admission), so a change of settings never moves a check already due.
+ */
+function intervalAtFn(base: UnitPolicy, versions: readonly PolicyVersion[]): (ms: number) => number {
+  if (versions.length === 0) return () => base.checkIntervalMinutes;
+  const sorted = versions
+    .map((v) => ({ ms: requireTime(v.effectiveFrom, 'versions.effectiveFrom'), minutes: resolvePolicy(v.policy).checkIntervalMinutes }))
+    .sort((a, b) => a.ms - b.ms);
+  return (ms) => {
+    let minutes = base.checkIntervalMinutes;
+    for (const v of sorted) {
+      if (v.ms <= ms) minutes = v.minutes;
+      else break;
+    }
+    return minutes;
+  };
+}
+
 export function evaluateInfant(
   state: InfantState,
   now: Date,
   policyInput: Partial<UnitPolicy> = {},
+  versions: readonly PolicyVersion[] = [],
 ): InfantEvaluation {
   const nowMs = requireTime(now, 'now');
   const policy = resolvePolicy(policyInput);
-  const intervalMs = policy.checkIntervalMinutes * MINUTE_MS;
+  const intervalMinutesAt = intervalAtFn(policy, versions);
+  const intervalOf = (start: { ms: number }): number => intervalMinutesAt(start.ms) * MINUTE_MS;
+  const settleMs = policy.recheckSettleMinutes * MINUTE_MS;
   const readings = currentVersions(state.readings ?? [], nowMs);
   const actions = actionTimes(state.actions ?? [], nowMs);
   const hasActionBy = (key: string, ms: number): boolean => {
@@ -455,12 +523,12 @@ export function evaluateInfant(
 
   /** An overdue flag for the check due one interval after `start`, late as of `lateAtMs`. */
   const openOverdue = (start: ScheduleStart, lateAtMs: number): Draft<'overdue-check'> => {
-    const dueMs = start.ms + intervalMs;
+    const dueMs = start.ms + intervalOf(start);
     const key = `overdue:${start.reading === null ? 'admission' : start.reading.rootId}`;
     return book.open('overdue-check', key, dueMs, start.reading?.reading.id ?? null, {
       dueAt: new Date(dueMs),
       lastCheckAt: start.reading === null ? null : new Date(start.ms),
-      intervalMinutes: policy.checkIntervalMinutes,
+      intervalMinutes: intervalMinutesAt(start.ms),
       minutesLate: Math.floor((lateAtMs - dueMs) / MINUTE_MS),
     });
   };
@@ -468,6 +536,7 @@ export function evaluateInfant(
   let openGap: Draft<'gap'> | null = null;
   let openHeat: Draft<'heat-stress'> | null = null;
   let openCold: Draft<'cold-stress'> | null = null;
+  let openFever: Draft<'fever'> | null = null;
   // Held in an object because it is opened from a closure (time passing between readings).
   const manualFlag: { open: Draft<'manual-mode'> | null } = { open: null };
 
@@ -543,7 +612,8 @@ export function evaluateInfant(
         } else if (gap.gapCenti > openGap.detail.worstGapCenti) {
           openGap.detail = { ...openGap.detail, worstGapCenti: gap.gapCenti };
         }
-      } else if (openGap !== null && hasActionBy(openGap.key, ms)) {
+      } else if (openGap !== null && hasActionBy(openGap.key, ms - settleMs)) {
+        // A recheck counts only once the reading has settled after the first action.
         close(openGap, ms, reading.id);
         openGap = null;
       }
@@ -551,7 +621,7 @@ export function evaluateInfant(
 
     // Overdue check: a remote-site check after its due time closes a (historic) overdue flag.
     if (remote !== null) {
-      if (scheduleFrom !== null && ms > scheduleFrom.ms + intervalMs) {
+      if (scheduleFrom !== null && ms > scheduleFrom.ms + intervalOf(scheduleFrom)) {
         close(openOverdue(scheduleFrom, ms), ms, reading.id);
       }
       if (scheduleFrom === null || ms >= scheduleFrom.ms) scheduleFrom = { ms, reading: entry };
@@ -562,7 +632,10 @@ export function evaluateInfant(
     // next observation (a remote-site temperature or a heart rate) that raises nothing; a
     // reading with only a probe or air value says nothing about heat stress.
     const heartRate = reading.heartRate ?? null;
-    const heat = heatStressPrompt({ remoteCenti: remote, heartRate, signs: reading.heatSigns ?? [] });
+    // A fever supersedes hyperthermia: a remote site of 38.0 °C and over raises the fever flag,
+    // not a heat-stress reason (signs and heart rate still count).
+    const feverish = remote !== null && remote >= FEVER_MIN_CENTI;
+    const heat = heatStressPrompt({ remoteCenti: feverish ? null : remote, heartRate, signs: reading.heatSigns ?? [] });
     if (heat.raised) {
       if (openHeat === null) {
         openHeat = book.open('heat-stress', `heat-stress:${rootId}`, ms, reading.id, {
@@ -595,6 +668,16 @@ export function evaluateInfant(
         close(openCold, ms, reading.id);
         openCold = null;
       }
+      if (feverish) {
+        if (openFever === null) {
+          openFever = book.open('fever', `fever:${rootId}`, ms, reading.id, { highestCenti: remote });
+        } else if (remote > openFever.detail.highestCenti) {
+          openFever.detail = { highestCenti: remote };
+        }
+      } else if (openFever !== null) {
+        close(openFever, ms, reading.id);
+        openFever = null;
+      }
     }
 
     // Manual mode: the reading may end the warning (left manual, output dropped, a check).
@@ -610,6 +693,8 @@ export function evaluateInfant(
       if (active.endMs !== null && ms >= active.endMs) continue;
       const temperature = remote ?? probe;
       if (temperature === null) continue;
+      // A probe-only reading says nothing about a deviation seen on the remote site.
+      if (remote === null && active.open !== null && active.open.detail.site === 'remote') continue;
       const deviation = temperature - active.session.referenceCenti;
       if (Math.abs(deviation) > active.session.limitCenti) {
         if (active.open === null) {
@@ -620,6 +705,7 @@ export function evaluateInfant(
             referenceCenti: active.session.referenceCenti,
             limitCenti: active.session.limitCenti,
             worstDeviationCenti: deviation,
+            site: remote !== null ? 'remote' : 'probe',
           });
         } else if (Math.abs(deviation) > Math.abs(active.open.detail.worstDeviationCenti)) {
           active.open.detail = { ...active.open.detail, worstDeviationCenti: deviation };
@@ -637,7 +723,7 @@ export function evaluateInfant(
   openManualBefore(nowMs);
 
   const from = scheduleFrom as ScheduleStart | null;
-  if (from !== null && nowMs > from.ms + intervalMs) openOverdue(from, nowMs);
+  if (from !== null && nowMs > from.ms + intervalOf(from)) openOverdue(from, nowMs);
 
   const flags = book.drafts
     .map((draft) => finishFlag(draft, actions, policy))
@@ -657,10 +743,29 @@ export function evaluateInfant(
       from === null
         ? checkStatus(null, now)
         : checkStatus(new Date(from.ms), now, {
-            intervalMinutes: policy.checkIntervalMinutes,
+            intervalMinutes: intervalMinutesAt(from.ms),
             dueSoonMinutes: policy.dueSoonMinutes,
           }),
+    manualCheck: manualClock(manual, now, policy),
     latest: latestValues(readings),
+  };
+}
+
+function manualClock(manual: ManualModeTracker<ReadingInput>, now: Date, policy: UnitPolicy): ManualCheckClock | null {
+  const since = manual.manualSince;
+  const from = manual.checkClockFrom;
+  if (since === null || from === null) return null;
+  const status = checkStatus(new Date(from.ms), now, {
+    intervalMinutes: policy.manualCheckMinutes,
+    dueSoonMinutes: Math.min(policy.dueSoonMinutes, Math.max(0, policy.manualCheckMinutes - 1)),
+  });
+  return {
+    since: new Date(since.ms),
+    dueAt: new Date(from.ms + policy.manualCheckMinutes * MINUTE_MS),
+    outputPct: manual.outputPct,
+    limitMinutes: policy.manualCheckMinutes,
+    status: status.status,
+    minutesLate: status.minutesLate,
   };
 }
 
@@ -678,6 +783,9 @@ function finishFlag(draft: Draft, actions: Map<string, ActionTimes>, policy: Uni
     closedByReadingId: draft.closedByReadingId,
     recheckDueAt:
       open && times !== undefined ? new Date(times.last + policy.recheckMinutes * MINUTE_MS) : null,
+    recheckCountsFrom:
+      open && times !== undefined ? new Date(times.first + policy.recheckSettleMinutes * MINUTE_MS) : null,
+    severity: severityOf(draft.kind, draft.detail),
   } as EvaluatedFlag;
 }
 

@@ -15,3 +15,4 @@ export * from './manual-mode';
 export * from './skin-to-skin';
 export * from './policy';
 export * from './evaluate';
+export * from './severity';

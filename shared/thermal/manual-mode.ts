@@ -7,9 +7,11 @@
  * warning has two reasons:
  * - 'high-output-too-long': in manual at a heater output at or above the threshold (80 %, from
  *   memory) continuously for MORE than the time limit (15 minutes, from memory);
- * - 'no-check-in-manual': in manual and no remote-site temperature for MORE than 15 minutes
- *   (ECRI). The clock runs from the later of the last remote-site check and the reading where
- *   manual mode began, so the first check is due 15 minutes after manual mode is charted.
+ * - 'no-check-in-manual': in manual and no temperature of the infant (probe or remote site) for
+ *   MORE than 15 minutes (ECRI: check the infant at least every 15 minutes). The clock runs from
+ *   the later of the last charted temperature and the reading where manual mode began, so the
+ *   first check is due 15 minutes after manual mode is charted. The two-hourly remote-site
+ *   check keeps its own clock.
  *
  * Readings are taken in time order. A reading with no control mode or no heater output charted
  * leaves the last charted value in force (a quick remote-site check need not re-chart the mode).
@@ -105,6 +107,7 @@ export class ManualModeTracker<R extends ManualModeReading = ManualModeReading> 
   private manualStart: Stamped<R> | null = null;
   private highStart: Stamped<R> | null = null;
   private lastCheck: Stamped<R> | null = null;
+  private output: number | null = null;
 
   constructor(private readonly policy: ResolvedManualPolicy) {}
 
@@ -125,9 +128,18 @@ export class ManualModeTracker<R extends ManualModeReading = ManualModeReading> 
       this.highStart = null;
     }
     this.mode = mode;
-    if (reading.remoteCenti !== null && reading.remoteCenti !== undefined) {
+    if (reading.heaterOutputPct !== null && reading.heaterOutputPct !== undefined) this.output = reading.heaterOutputPct;
+    // Any charted temperature of the infant (probe or remote site) is a check in manual mode.
+    const probe = reading.probeCenti;
+    const remote = reading.remoteCenti;
+    if ((remote !== null && remote !== undefined) || (probe !== null && probe !== undefined)) {
       this.lastCheck = { reading, ms };
     }
+  }
+
+  /** The latest charted heater output, if any. */
+  get outputPct(): number | null {
+    return this.output;
   }
 
   get manualSince(): Stamped<R> | null {

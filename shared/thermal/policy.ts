@@ -8,6 +8,7 @@
 
 import { TZDate } from '@date-fns/tz';
 import { requireTime, ThermalInputError } from './errors';
+import { SEVERITY_CLASSES, type SeverityClass } from './severity';
 
 export interface UnitPolicy {
   /** Minutes from one remote-site check to the next. */
@@ -26,6 +27,17 @@ export interface UnitPolicy {
   readonly escalationDelayMinutes: number;
   /** Minutes after an action by which a recheck is due. */
   readonly recheckMinutes: number;
+  /**
+   * Minutes after the first action on a flag before a reading counts as its recheck (the reading
+   * must have settled after a change to the set temperature or the probe).
+   */
+  readonly recheckSettleMinutes: number;
+  /**
+   * Per-class escalation delays in minutes (null: never escalates). A class left out takes the
+   * default of SEVERITY_TABLE (0 for the most severe, escalationDelayMinutes for the urgent ones,
+   * never for mild cold stress).
+   */
+  readonly escalationDelays: Readonly<Partial<Record<SeverityClass, number | null>>>;
   /** Local start of the day shift, "HH:MM". */
   readonly dayShiftStart: string;
   /** Local start of the night shift, "HH:MM". */
@@ -52,6 +64,10 @@ export const DEFAULT_POLICY: Readonly<UnitPolicy> = Object.freeze({
   escalationDelayMinutes: 30,
   // Common practice: recheck 15–30 minutes after an action; the later end by default.
   recheckMinutes: 30,
+  // Common practice: a reading settles about 15–30 minutes after a change; the earlier end.
+  recheckSettleMinutes: 15,
+  // The defaults of SEVERITY_TABLE.
+  escalationDelays: Object.freeze({}),
   // Common practice: two 12-hour shifts.
   dayShiftStart: '07:00',
   nightShiftStart: '19:00',
@@ -119,6 +135,18 @@ export function resolvePolicy(partial: Partial<UnitPolicy> = {}): UnitPolicy {
   checkMinutes(policy, 'manualCheckMinutes', false);
   checkMinutes(policy, 'escalationDelayMinutes', false);
   checkMinutes(policy, 'recheckMinutes', false);
+  checkMinutes(policy, 'recheckSettleMinutes', true);
+  if (policy.recheckSettleMinutes > policy.recheckMinutes) {
+    throw invalid('recheckSettleMinutes', 'recheckSettleMinutes must not be longer than recheckMinutes');
+  }
+  const delays = policy.escalationDelays;
+  if (typeof delays !== 'object' || delays === null) throw invalid('escalationDelays', 'escalationDelays must be an object');
+  for (const [cls, minutes] of Object.entries(delays)) {
+    if (!(SEVERITY_CLASSES as string[]).includes(cls)) throw invalid('escalationDelays', `Unknown flag class: ${cls}`);
+    if (minutes !== null && (typeof minutes !== 'number' || !Number.isFinite(minutes) || minutes < 0)) {
+      throw invalid('escalationDelays', `escalationDelays.${cls} must be a non-negative number of minutes or null`);
+    }
+  }
   if (!Number.isSafeInteger(policy.gapLimitCenti) || policy.gapLimitCenti < 0) {
     throw invalid('gapLimitCenti', 'gapLimitCenti must be a non-negative whole number of hundredths of °C');
   }

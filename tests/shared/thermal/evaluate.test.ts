@@ -80,6 +80,8 @@ describe('gap flag: raised over 0.5 °C, closed by a recheck after an action (co
         closedAt: null,
         closedByReadingId: null,
         recheckDueAt: null,
+        recheckCountsFrom: null,
+        severity: 'urgent', // gap and overdue check: urgent (common practice)
       },
     ]);
     expect(flags).toEqual(openFlags);
@@ -109,9 +111,19 @@ describe('gap flag: raised over 0.5 °C, closed by a recheck after an action (co
   });
 
   it('a recheck before the action does not count; the next one after it does', () => {
-    const readings = [raising, check('r2', 10, 3680, 3660), check('r3', 30, 3670, 3660)];
-    const { flags } = evaluate({ readings, actions: [action('a1', 'gap:r1', 20)] }, 40);
+    const readings = [raising, check('r2', 10, 3680, 3660), check('r3', 40, 3670, 3660)];
+    const { flags } = evaluate({ readings, actions: [action('a1', 'gap:r1', 20)] }, 45);
     expect(ofKind(flags, 'gap')).toEqual([expect.objectContaining({ status: 'closed', closedByReadingId: 'r3' })]);
+  });
+
+  it('a recheck before the settle time after the action does not count (common practice: recheck 15–30 min after a change)', () => {
+    const readings = [raising, check('r2', 21, 3680, 3660), check('r3', 34, 3680, 3660), check('r4', 35, 3670, 3660)];
+    const early = evaluate({ readings: readings.slice(0, 3), actions: [action('a1', 'gap:r1', 20)] }, 34);
+    expect(ofKind(early.flags, 'gap')).toEqual([
+      expect.objectContaining({ status: 'open', recheckCountsFrom: at(35), recheckDueAt: at(50) }),
+    ]);
+    const settled = evaluate({ readings, actions: [action('a1', 'gap:r1', 20)] }, 40);
+    expect(ofKind(settled.flags, 'gap')).toEqual([expect.objectContaining({ status: 'closed', closedByReadingId: 'r4' })]);
   });
 
   it('a recheck still over the limit keeps it open, one flag only, with the worst gap', () => {
@@ -211,6 +223,8 @@ describe('overdue check: due 2 hours after the last remote-site check (common pr
         closedAt: null,
         closedByReadingId: null,
         recheckDueAt: null,
+        recheckCountsFrom: null,
+        severity: 'urgent', // gap and overdue check: urgent (common practice)
       },
     ]);
   });
@@ -396,7 +410,7 @@ describe('skin-to-skin deviation (common practice)', () => {
         status: 'closed',
         closedAt: at(20),
         closedByReadingId: 'r2',
-        detail: { sessionId: 's1', deviationCenti: -60, referenceCenti: 3650, limitCenti: 50, worstDeviationCenti: -60 },
+        detail: { sessionId: 's1', deviationCenti: -60, referenceCenti: 3650, limitCenti: 50, worstDeviationCenti: -60, site: 'remote' },
       }),
       expect.objectContaining({ key: 's2s:s1:r3', raisedAt: at(30), status: 'closed', closedAt: at(60), closedByReadingId: null }),
     ]);

@@ -51,9 +51,10 @@ describe('manual-mode warning', () => {
     expect(manualModeWarning(checked, at(29, 1)).reasons).toEqual(['no-check-in-manual']);
   });
 
-  it('a probe value alone is not a check (ECRI; IEC 60601-2-21: the probe is not a thermometer)', () => {
+  it('any charted temperature of the infant, probe included, is a check in manual (ECRI: check the infant at least every 15 minutes)', () => {
     const readings: ManualModeReading[] = [manual(0, 40, 3700), { ...manual(10, 40), probeCenti: 3650 }];
-    expect(manualModeWarning(readings, at(16)).reasons).toEqual(['no-check-in-manual']);
+    expect(manualModeWarning(readings, at(16)).reasons).toEqual([]);
+    expect(manualModeWarning(readings, at(25, 1)).reasons).toEqual(['no-check-in-manual']);
   });
 
   it('the check clock starts when manual mode is charted, not at an earlier servo check (ECRI)', () => {

@@ -11,6 +11,8 @@ describe('unit policy defaults (sources per line: published, common practice or 
       manualCheckMinutes: 15, // ECRI hazard report
       escalationDelayMinutes: 30, // from memory
       recheckMinutes: 30, // common practice: recheck in 15–30 minutes
+      recheckSettleMinutes: 15, // common practice: a reading settles 15–30 minutes after a change
+      escalationDelays: {}, // the severity table's defaults
       dayShiftStart: '07:00', // common practice
       nightShiftStart: '19:00', // common practice
       timeZone: 'Europe/London', // a default
