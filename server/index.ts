@@ -3,9 +3,11 @@ import { openDatabase } from '../db/client';
 import { seedDemo, isEmpty } from '../db/seed';
 import { createApp } from './app';
 import { systemClock } from './clock';
-import { loadConfig } from './config';
+import { ConfigError, loadConfig } from './config';
 import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
 import { smtpMailer } from './mail/mailer';
+import { drainMailQueue } from './mail/queue';
+import { productionDatabaseProblems, startBanner } from './modes';
 import { escalationJob, startScheduler } from './scheduler';
 import { weeklyDigestJob } from './services/digest';
 import { runEscalations } from './services/escalations';
@@ -14,6 +16,13 @@ async function main(): Promise<void> {
   const config = loadConfig();
   const log = (line: string) => process.stdout.write(`${line}\n`);
   const database = openDatabase(config.databasePath);
+  if (config.mode === 'production') {
+    const problems = productionDatabaseProblems(database, config);
+    if (problems.length) {
+      database.close();
+      throw new ConfigError('production', problems);
+    }
+  }
 
   if (config.seedDemo && isEmpty(database)) {
     log('First start: adding the demo unit, infants and accounts.');
@@ -26,7 +35,8 @@ async function main(): Promise<void> {
     fake = await startFakeSmtp(database, config.smtp.port);
     smtpPort = fake.port;
   }
-  const mailer = smtpMailer({ ...config.smtp, port: smtpPort });
+  // Mail to the catcher names the user whose action sent it, so each person's mailbox shows their own.
+  const mailer = smtpMailer({ ...config.smtp, port: smtpPort, markSender: fake !== null });
   const app = createApp({ db: database, mailer, clock: systemClock, config, log });
   // Escalate what is already overdue at start-up, then keep checking on the scheduler.
   await runEscalations(app.context, systemClock.now()).catch((err: unknown) => log(`escalations at start-up failed: ${String(err)}`));
@@ -34,15 +44,7 @@ async function main(): Promise<void> {
 
   const server = app.listen(config.port, config.host, () => {
     const { port } = server.address() as AddressInfo;
-    log(`Warmfold is running at http://localhost:${port}`);
-    if (fake) log(`Local mail catcher (fake SMTP) on 127.0.0.1:${fake.port}; read it as an admin under Admin → Mailbox.`);
-    if (config.seedDemo) {
-      log('Demo accounts (password for all: "warm-hands-at-night"):');
-      log('  nurse     nia.okafor@warmfold.test');
-      log('  charge    marta.lindqvist@warmfold.test');
-      log('  educator  priya.raman@warmfold.test');
-      log('  admin     tomas.vidal@warmfold.test');
-    }
+    for (const line of startBanner(config, `http://localhost:${port}`, fake ? fake.port : null)) log(line);
   });
 
   let closing = false;
@@ -53,6 +55,7 @@ async function main(): Promise<void> {
     scheduler.stop();
     server.close(() => {
       void (async () => {
+        await drainMailQueue(app.context, 5_000);
         mailer.close();
         if (fake) await fake.close();
         database.close();
@@ -68,5 +71,6 @@ async function main(): Promise<void> {
 
 main().catch((err: unknown) => {
   process.stderr.write(`Warmfold could not start: ${err instanceof Error ? err.message : String(err)}\n`);
-  process.exit(1);
+  // 78 (EX_CONFIG): a configuration to fix, not a crash to retry.
+  process.exit(err instanceof ConfigError ? 78 : 1);
 });

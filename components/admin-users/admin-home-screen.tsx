@@ -19,6 +19,7 @@ import { Text } from '../ui/text';
 import { TextField } from '../ui/text-field';
 import { UnitSettingsCard } from './unit-settings-card';
 import { UploadPanel } from './upload-panel';
+import { DemoMailboxLink } from '@/components/mailbox/demo-mailbox-link';
 
 /** Users and invitations, units and settings, the roster import, the digest and the mailbox. */
 export function AdminHomeScreen() {
@@ -56,11 +57,7 @@ export function AdminHomeScreen() {
         {digest.data ? <Text role="status">Sent {digest.data.sent} e-mails.</Text> : null}
         {digest.error ? <Text tone="danger" role="alert">{problemOf(digest.error).message}</Text> : null}
       </Card>
-      <Card>
-        <Text variant="bodyStrong">Mailbox</Text>
-        <Text tone="muted">Every e-mail Warmfold sent through the local mail catcher: escalations, invitations, password resets, digests.</Text>
-        <Button label="Open the mailbox" icon="bell" variant="secondary" onPress={() => router.push('/admin/mailbox')} />
-      </Card>
+      <DemoMailboxLink />
     </Screen>
   );
 }

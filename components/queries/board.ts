@@ -1,12 +1,11 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { AdmitInfantInput, AssignNurseInput, UpdateInfantInput } from '@/shared/schemas/unit';
-import type { BoardResponse, CaughtMail, HandoverResponse } from '@/shared/types/board';
+import type { BoardResponse, HandoverResponse } from '@/shared/types/board';
 import { api } from '../api/client';
 import { STALE } from '../api/query-client';
 
 export const BOARD_RQKEY_ROOT = 'board';
 export const HANDOVER_RQKEY_ROOT = 'handover';
-export const MAILBOX_RQKEY_ROOT = 'mailbox';
 /** The board refetches on its own this often; countdowns tick locally in between. */
 export const BOARD_REFRESH_MS = 20_000;
 
@@ -15,7 +14,6 @@ export const boardKeys = {
   handover: (infantId: string) => [HANDOVER_RQKEY_ROOT, 'infant', infantId] as const,
   myHandover: () => [HANDOVER_RQKEY_ROOT, 'mine'] as const,
   unitHandover: (unitId: string) => [HANDOVER_RQKEY_ROOT, 'unit', unitId] as const,
-  mailbox: () => [MAILBOX_RQKEY_ROOT] as const,
 };
 
 const enc = encodeURIComponent;
@@ -113,14 +111,5 @@ export function useUnitHandoverQuery(unitId: string | null) {
     queryFn: ({ signal }) => api<HandoverResponse>(`/units/${enc(unitId!)}/handover`, { signal }),
     enabled: unitId !== null,
     staleTime: STALE.live,
-  });
-}
-
-export function useMailboxQuery() {
-  return useQuery({
-    queryKey: boardKeys.mailbox(),
-    queryFn: ({ signal }) => api<{ messages: CaughtMail[] }>('/admin/mailbox', { signal }).then((r) => r.messages),
-    staleTime: STALE.live,
-    refetchInterval: 15_000,
   });
 }

@@ -6,6 +6,7 @@ import type { ChangePasswordInput } from '@/shared/schemas/auth';
 import { problemOf } from '../api/client';
 import { useAuth, useUser } from '../auth/auth-provider';
 import { lazyZodResolver } from '../forms/lazy-resolver';
+import { DemoMailboxLink } from '../mailbox/demo-mailbox-link';
 import { FormRootError } from '../forms/form-root-error';
 import { useChangePasswordMutation, usePreferencesMutation } from '../queries/account';
 import { useThemeChoice } from '../theme/theme-provider';
@@ -65,6 +66,7 @@ export function SettingsScreen() {
         ) : null}
       </Card>
       <PasswordCard onChanged={() => void signOut()} />
+      <DemoMailboxLink />
       <Button label="Sign out" variant="secondary" icon="out" onPress={() => void signOut()} style={styles.start} />
     </Screen>
   );

@@ -2,6 +2,8 @@ import { simpleParser } from 'mailparser';
 import type { AddressInfo } from 'node:net';
 import { SMTPServer } from 'smtp-server';
 import type { Database_ } from '../../db/client';
+import { caughtMail } from '../../db/schema';
+import { SENT_BY_HEADER } from './mailer';
 
 export interface FakeSmtp {
   port: number;
@@ -10,12 +12,10 @@ export interface FakeSmtp {
 
 /**
  * A real SMTP server on loopback that keeps every message it receives in the caught_mail
- * table, where the admin's mailbox page reads it. Nothing leaves the machine.
+ * table, where each person's mailbox page reads the mail addressed to them (the demo only).
+ * Nothing leaves the machine.
  */
 export async function startFakeSmtp(database: Database_, port: number, host = '127.0.0.1'): Promise<FakeSmtp> {
-  const insert = database.sqlite.prepare(
-    'INSERT INTO caught_mail (received_at, from_address, to_addresses, subject, text_body, html_body) VALUES (?, ?, ?, ?, ?, ?)',
-  );
   const server = new SMTPServer({
     authOptional: true,
     disabledCommands: ['STARTTLS'],
@@ -26,7 +26,19 @@ export async function startFakeSmtp(database: Database_, port: number, host = '1
         .then((mail) => {
           const to = session.envelope.rcptTo.map((r) => r.address).join(', ');
           const from = session.envelope.mailFrom ? session.envelope.mailFrom.address : '';
-          insert.run(Date.now(), from, to, mail.subject ?? '', mail.text ?? '', typeof mail.html === 'string' ? mail.html : null);
+          const sentBy = mail.headers.get(SENT_BY_HEADER.toLowerCase());
+          database.db
+            .insert(caughtMail)
+            .values({
+              receivedAt: new Date(),
+              from,
+              to,
+              subject: mail.subject ?? '',
+              text: mail.text ?? '',
+              html: typeof mail.html === 'string' ? mail.html : null,
+              sentBy: typeof sentBy === 'string' ? sentBy : null,
+            })
+            .run();
           callback();
         })
         .catch((err: Error) => callback(err));

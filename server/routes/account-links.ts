@@ -2,7 +2,9 @@ import { linkPasswordSchema, requestResetSchema, type LinkPasswordInput } from '
 import type { AppContext } from '../context';
 import { allow, secureRouter } from '../middleware/access';
 import { valid, validate } from '../middleware/validate';
-import { issueLink, mailLinkSafely, useLink, type IssuedLink } from '../services/email-links';
+import { enqueueMailJob } from '../mail/queue';
+import { sendResetLink, useLink } from '../services/email-links';
+import { recordAttempt, resetRequestBudget } from '../services/sign-in-throttle';
 
 /** Public: accepting an invitation, and resetting a password, by e-mailed link. Mounted under /auth. */
 export function accountLinksRouter(ctx: AppContext) {
@@ -20,20 +22,18 @@ export function accountLinksRouter(ctx: AppContext) {
     res.status(204).end();
   });
 
-  /** Always 202, whether or not the address has an account, so it cannot be used to find accounts. */
-  router.post('/password-reset/request', allow(ctx, 'public'), validate('body', requestResetSchema), async (req, res) => {
+  /**
+   * Always 202, whether or not the address has an account, and in the same time: before the answer
+   * only the throttle is checked and the request counted (the same work for every address); the
+   * account is looked up, and its link made and mailed, from the mail queue after the answer.
+   */
+  router.post('/password-reset/request', allow(ctx, 'public'), validate('body', requestResetSchema), (req, res) => {
     const { email } = valid<{ email: string }>(req, 'body');
-    const { sqlite } = ctx.database;
-    const user = sqlite.prepare('SELECT id FROM users WHERE email = ? AND active = 1 AND password_hash IS NOT NULL').get(email) as { id: string } | undefined;
-    if (user) {
-      // At most one reset e-mail per account every five minutes.
-      const recent = sqlite.prepare("SELECT COUNT(*) AS n FROM email_tokens WHERE user_id = ? AND kind = 'reset' AND created_at > ?").get(user.id, ctx.clock.now().getTime() - 5 * 60_000) as { n: number };
-      if (recent.n === 0) {
-        const link: IssuedLink = sqlite.transaction(() => issueLink(ctx, sqlite, user.id, 'reset', null)).immediate();
-        await mailLinkSafely(ctx, link);
-      }
-    }
+    const address = req.ip ?? 'unknown';
+    resetRequestBudget(ctx, email, address);
+    recordAttempt(ctx, 'reset-request', email, address, true);
     res.status(202).json({ message: 'If that address has an account, a reset link is on its way.' });
+    enqueueMailJob(ctx, () => sendResetLink(ctx, email));
   });
 
   return router;

@@ -1,4 +1,3 @@
-import bcrypt from 'bcryptjs';
 import { eq } from 'drizzle-orm';
 import { users } from '../../db/schema';
 import { writeTx } from '../../db/client';
@@ -8,15 +7,26 @@ import type { AppContext } from '../context';
 import { badRequest, unauthorized } from '../errors';
 import { allow, secureRouter } from '../middleware/access';
 import { valid, validate } from '../middleware/validate';
-import { hashPassword, loadSessionUser, revokeAllSessions, revokeSession, signIn } from '../services/auth';
+import { hashPassword, loadSessionUser, revokeAllSessions, revokeSession, signIn, verifyPassword } from '../services/auth';
 import { assertPasswordAllowed } from '../services/passwords';
+import { DEVICE_COOKIE_MAX_AGE_MS, DEVICE_COOKIE_PATH, passwordCheckBudget, recordAttempt } from '../services/sign-in-throttle';
 
 export function authRouter(ctx: AppContext) {
   const router = secureRouter();
 
   router.post('/sign-in', allow(ctx, 'public'), validate('body', signInSchema), async (req, res) => {
     const { email, password } = valid<SignInInput>(req, 'body');
-    const result = await signIn(ctx, email, password, req.ip ?? 'unknown');
+    const address = req.ip ?? 'unknown';
+    const result = await signIn(ctx, email, password, address, req.headers.cookie);
+    // The device cookie: this browser keeps its own failure budget for this account from now on.
+    // HttpOnly and sent only to the sign-in route; Secure whenever the app is served over HTTPS.
+    res.cookie(result.deviceCookie.name, result.deviceCookie.value, {
+      httpOnly: true,
+      sameSite: 'strict',
+      secure: req.secure || ctx.config.publicUrl.startsWith('https:'),
+      path: DEVICE_COOKIE_PATH,
+      maxAge: DEVICE_COOKIE_MAX_AGE_MS,
+    });
     writeTx(ctx.database.sqlite, () =>
       appendAudit(ctx.database.sqlite, { at: ctx.clock.now(), actorId: result.user.id, action: 'sign-in', entityType: 'user', entityId: result.user.id, unitId: null }),
     );
@@ -53,9 +63,12 @@ export function authRouter(ctx: AppContext) {
     const { currentPassword, newPassword } = valid<ChangePasswordInput>(req, 'body');
     const auth = req.auth!;
     const user = ctx.database.db.select().from(users).where(eq(users.id, auth.userId)).get();
-    if (!user?.passwordHash || !(await bcrypt.compare(currentPassword, user.passwordHash))) {
-      throw badRequest('Your current password is not right.', { currentPassword: 'This is not your current password.' });
-    }
+    if (!user) throw unauthorized();
+    // A stolen session must not become a way to guess the password behind it.
+    passwordCheckBudget(ctx, user.email);
+    const right = user.passwordHash !== null && (await verifyPassword(currentPassword, user.passwordHash));
+    recordAttempt(ctx, 'password-check', user.email, req.ip ?? 'unknown', right);
+    if (!right) throw badRequest('Your current password is not right.', { currentPassword: 'This is not your current password.' });
     assertPasswordAllowed(newPassword, 'newPassword', [user.email, user.name]);
     const hash = await hashPassword(newPassword, ctx.config.bcryptCost);
     writeTx(ctx.database.sqlite, () => {

@@ -9,6 +9,7 @@ import { escalationsRouter } from './escalations';
 import { handoverRouter } from './handover';
 import { healthRouter } from './health';
 import { infantsRouter } from './infants';
+import { mailboxRouter } from './mailbox';
 import { reportsRouter } from './reports';
 import { reviewRouter } from './review';
 import { unitBoardRouter } from './unit-board';
@@ -30,5 +31,7 @@ export function apiRouters(ctx: AppContext): Array<[string, Router]> {
     ['/', reportsRouter(ctx)],
     ['/', adminRouter(ctx)],
     ['/', uploadsRouter(ctx)],
+    // The demo's mailbox only: production has no mail catcher, and /api/mailbox answers 404 there.
+    ...(ctx.config.mode === 'demo' ? ([['/', mailboxRouter(ctx)]] as Array<[string, Router]>) : []),
   ];
 }

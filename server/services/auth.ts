@@ -1,32 +1,28 @@
-import bcrypt from 'bcryptjs';
 import { and, eq, gt } from 'drizzle-orm';
 import jwt from 'jsonwebtoken';
 import { createSecretKey, randomUUID, type KeyObject } from 'node:crypto';
 import type { Statement } from 'better-sqlite3';
-import { authSessions, signInAttempts, units as unitsTable, userUnits, users } from '../../db/schema';
+import { authSessions, units as unitsTable, userUnits, users } from '../../db/schema';
 import type { SessionUser } from '../../shared/schemas/auth';
 import type { AppContext } from '../context';
 import { ApiError, unauthorized } from '../errors';
 import type { AuthContext } from '../types';
+import { hashPassword, verifyPassword } from './password-hash';
+import { deviceFromCookies, issueDeviceCookie, recordAttempt, signInBudget } from './sign-in-throttle';
+
+export { hashPassword, verifyPassword } from './password-hash';
 
 /** ASVS 3.3: idle and absolute session limits. */
 export const IDLE_LIMIT_MS = 30 * 60_000;
 export const ABSOLUTE_LIMIT_MS = 12 * 60 * 60_000;
-/** ASVS 2.2.1: at most five failures per account in fifteen minutes. */
-export const ACCOUNT_FAILURE_LIMIT = 5;
-export const ADDRESS_FAILURE_LIMIT = 30;
-export const THROTTLE_WINDOW_MS = 15 * 60_000;
 const ALGORITHM = 'HS256' as const;
 
-let dummyHash: string | null = null;
+const dummyHashes = new Map<number, Promise<string>>();
 /** Compared against when the account does not exist, so both answers take about as long. */
-async function timingDummy(cost: number): Promise<string> {
-  if (!dummyHash) dummyHash = await bcrypt.hash('warmfold-not-a-real-password', cost);
-  return dummyHash;
-}
-
-export async function hashPassword(password: string, cost: number): Promise<string> {
-  return bcrypt.hash(password, cost);
+function timingDummy(cost: number): Promise<string> {
+  let hash = dummyHashes.get(cost);
+  if (!hash) dummyHashes.set(cost, (hash = hashPassword('warmfold-not-a-real-password', cost)));
+  return hash;
 }
 
 export function loadSessionUser(ctx: AppContext, userId: string): SessionUser | null {
@@ -44,41 +40,27 @@ export function loadSessionUser(ctx: AppContext, userId: string): SessionUser | 
   return { id: user.id, email: user.email, name: user.name, role: user.role, unitIds, units, tempUnit: user.tempUnit, clock: user.clock, theme: user.theme };
 }
 
-function failuresSince(ctx: AppContext, column: 'email' | 'address', value: string, since: number): { count: number; oldest: number | null } {
-  const row = ctx.database.sqlite
-    .prepare(`SELECT COUNT(*) AS n, MIN(at) AS oldest FROM sign_in_attempts WHERE ${column} = ? AND succeeded = 0 AND at > ?`)
-    .get(value, since) as { n: number; oldest: number | null };
-  return { count: row.n, oldest: row.oldest };
+export interface SignInResult {
+  token: string;
+  user: SessionUser;
+  expiresAt: number;
+  /** A fresh device cookie for this browser and account (OWASP device cookies). */
+  deviceCookie: { name: string; value: string };
 }
 
-function throttle(ctx: AppContext, email: string, address: string): void {
-  const now = ctx.clock.now().getTime();
-  const since = now - THROTTLE_WINDOW_MS;
-  const byAccount = failuresSince(ctx, 'email', email, since);
-  const byAddress = failuresSince(ctx, 'address', address, since);
-  const blocked =
-    byAccount.count >= ACCOUNT_FAILURE_LIMIT ? byAccount : byAddress.count >= ADDRESS_FAILURE_LIMIT ? byAddress : null;
-  if (blocked) {
-    const retryAfter = Math.max(1, Math.ceil(((blocked.oldest ?? now) + THROTTLE_WINDOW_MS - now) / 1000));
-    throw new ApiError(
-      429,
-      'too-many-requests',
-      `Too many sign-in attempts. Try again in ${Math.ceil(retryAfter / 60)} minutes, or ask your administrator to reset your password.`,
-      undefined,
-      { 'Retry-After': String(retryAfter) },
-    );
-  }
-}
-
-export async function signIn(ctx: AppContext, email: string, password: string, address: string): Promise<{ token: string; user: SessionUser; expiresAt: number }> {
-  throttle(ctx, email, address);
+/**
+ * Sign in with e-mail and password. `cookieHeader` is the request's Cookie header: a valid device
+ * cookie for this account gives the browser its own failure budget (sign-in-throttle.ts).
+ */
+export async function signIn(ctx: AppContext, email: string, password: string, address: string, cookieHeader?: string): Promise<SignInResult> {
+  const { device } = signInBudget(ctx, email, address, deviceFromCookies(ctx, cookieHeader, email));
   const { db } = ctx.database;
   const user = db.select().from(users).where(eq(users.email, email)).get();
   const hash = user?.passwordHash ?? (await timingDummy(ctx.config.bcryptCost));
-  const matches = await bcrypt.compare(password, hash);
+  const matches = await verifyPassword(password, hash);
   const ok = Boolean(user && user.active && user.passwordHash && matches);
   const now = ctx.clock.now();
-  db.insert(signInAttempts).values({ email, address, at: now, succeeded: ok }).run();
+  recordAttempt(ctx, 'sign-in', email, address, ok, device);
   if (!ok || !user) {
     throw new ApiError(401, 'unauthorized', 'That e-mail and password do not match an active account.', { password: 'Check the e-mail and password.' });
   }
@@ -94,7 +76,7 @@ export async function signIn(ctx: AppContext, email: string, password: string, a
     jwtid: sessionId,
     expiresIn: Math.floor(ABSOLUTE_LIMIT_MS / 1000),
   });
-  return { token, user: loadSessionUser(ctx, user.id)!, expiresAt };
+  return { token, user: loadSessionUser(ctx, user.id)!, expiresAt, deviceCookie: issueDeviceCookie(ctx, email) };
 }
 
 interface TokenClaims {

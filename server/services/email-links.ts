@@ -1,4 +1,7 @@
 import type Database from 'better-sqlite3';
+import { and, count, eq, gt, isNotNull } from 'drizzle-orm';
+import { writeTx } from '../../db/client';
+import { emailTokens, users } from '../../db/schema';
 import { createHash, randomBytes, randomUUID } from 'node:crypto';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
@@ -10,6 +13,8 @@ export type LinkKind = 'invite' | 'reset';
 
 /** An invitation lasts 72 hours; a reset link one hour. */
 export const LINK_LIFETIME_MS: Record<LinkKind, number> = { invite: 72 * 60 * 60_000, reset: 60 * 60_000 };
+/** At most one reset e-mail per account in this time. */
+export const RESET_MAIL_INTERVAL_MS = 5 * 60_000;
 const LINK_PATH: Record<LinkKind, string> = { invite: '/accept-invite', reset: '/reset-password' };
 
 export function hashToken(token: string): string {
@@ -22,6 +27,8 @@ export interface IssuedLink {
   to: string;
   name: string;
   kind: LinkKind;
+  /** Who made the link (an admin's invitation or reset); null when the person asked for it. */
+  sentBy: string | null;
 }
 
 /**
@@ -38,7 +45,7 @@ export function issueLink(ctx: AppContext, sqlite: Database.Database, userId: st
     .prepare('INSERT INTO email_tokens (id, user_id, kind, token_hash, created_at, expires_at, used_at) VALUES (?, ?, ?, ?, ?, ?, NULL)')
     .run(randomUUID(), userId, kind, hashToken(token), now.getTime(), expiresAt.getTime());
   appendAudit(sqlite, { at: now, actorId, action: kind === 'invite' ? 'invitation-sent' : 'password-reset-sent', entityType: 'user', entityId: userId, unitId: null, after: { expiresAt: expiresAt.toISOString() } });
-  return { url: `${ctx.config.publicUrl}${LINK_PATH[kind]}?token=${encodeURIComponent(token)}`, expiresAt, to: user.email, name: user.name, kind };
+  return { url: `${ctx.config.publicUrl}${LINK_PATH[kind]}?token=${encodeURIComponent(token)}`, expiresAt, to: user.email, name: user.name, kind, sentBy: actorId };
 }
 
 function formatExpiry(at: Date): string {
@@ -60,7 +67,7 @@ export async function mailLink(ctx: AppContext, link: IssuedLink): Promise<void>
     `The link works once and expires at ${formatExpiry(link.expiresAt)}${invite ? ' (72 hours)' : ' (1 hour)'}.`,
     invite ? '' : 'If you did not ask for this, ignore this e-mail: your password stays as it is.',
   ].join('\n');
-  await ctx.mailer.send({ to: [link.to], subject, text });
+  await ctx.mailer.send({ to: [link.to], subject, text, sentBy: link.sentBy });
 }
 
 /** Send after the transaction; a failure is logged, never shown as a failed write (the link can be sent again). */
@@ -72,6 +79,28 @@ export async function mailLinkSafely(ctx: AppContext, link: IssuedLink): Promise
     ctx.log(`mail to ${link.to} failed: ${String(err)}`);
     return false;
   }
+}
+
+/**
+ * The queued half of a reset request: mail a reset link if the address has an active account
+ * with a password, at most one every five minutes (older unused links stop working).
+ */
+export async function sendResetLink(ctx: AppContext, email: string): Promise<void> {
+  const { db, sqlite } = ctx.database;
+  const user = db
+    .select({ id: users.id })
+    .from(users)
+    .where(and(eq(users.email, email), eq(users.active, true), isNotNull(users.passwordHash)))
+    .get();
+  if (!user) return;
+  const recent = db
+    .select({ n: count() })
+    .from(emailTokens)
+    .where(and(eq(emailTokens.userId, user.id), eq(emailTokens.kind, 'reset'), gt(emailTokens.createdAt, new Date(ctx.clock.now().getTime() - RESET_MAIL_INTERVAL_MS))))
+    .get();
+  if ((recent?.n ?? 0) > 0) return;
+  const link = writeTx(sqlite, () => issueLink(ctx, sqlite, user.id, 'reset', null));
+  await mailLinkSafely(ctx, link);
 }
 
 /**

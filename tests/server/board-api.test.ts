@@ -248,16 +248,19 @@ describe('POST /api/escalations/:id/acknowledge', () => {
   });
 });
 
-describe('GET /api/admin/mailbox', () => {
-  it('lists caught mail newest first, for the admin only', async () => {
+describe('GET /api/mailbox (the demo)', () => {
+  it("lists the caller's own caught mail newest first, and nobody else's", async () => {
     const insert = env.database.sqlite.prepare('INSERT INTO caught_mail (received_at, from_address, to_addresses, subject, text_body) VALUES (?, ?, ?, ?, ?)');
-    insert.run(1000, 'a@x.test', 'b@x.test', 'older', 'one');
-    insert.run(2000, 'a@x.test', 'b@x.test', 'newer', 'two');
-    const res = await request(env.app).get('/api/admin/mailbox').set(auth('admin'));
+    insert.run(1000, 'a@x.test', DEMO.charge, 'older', 'one');
+    insert.run(2000, 'a@x.test', DEMO.charge, 'newer', 'two');
+    insert.run(3000, 'a@x.test', 'b@x.test', 'not hers', 'three');
+    const res = await request(env.app).get('/api/mailbox').set(auth('charge'));
     expect(res.status).toBe(200);
     expect(res.body.messages.map((m: { subject: string }) => m.subject)).toEqual(['newer', 'older']);
-    expect((await request(env.app).get('/api/admin/mailbox').set(auth('charge'))).status).toBe(403);
-    expect((await request(env.app).get('/api/admin/mailbox')).status).toBe(401);
+    const admin = await request(env.app).get('/api/mailbox').set(auth('admin'));
+    expect(admin.body.messages.map((m: { subject: string }) => m.subject)).not.toContain('newer');
+    expect((await request(env.app).get('/api/admin/mailbox').set(auth('admin'))).status).toBe(404);
+    expect((await request(env.app).get('/api/mailbox')).status).toBe(401);
   });
 });
 

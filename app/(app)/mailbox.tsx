@@ -1,4 +1,4 @@
-import { MailboxScreen } from '@/components/admin/mailbox-screen';
+import { MailboxScreen } from '@/components/mailbox/mailbox-screen';
 
 export default function MailboxRoute() {
   return <MailboxScreen />;
