@@ -27,24 +27,6 @@ export function compressibleAnswer(req: Request, res: Response): boolean {
   return !req.path.startsWith('/auth/') && compression.filter(req, res);
 }
 
-/** The routes that take a multipart upload (paths relative to /api); every other body must be JSON. */
-export const MULTIPART_PATHS: readonly RegExp[] = [/^\/admin\/roster\/preview\/?$/, /^\/readings-import\/preview\/?$/];
-
-/**
- * A body that is not JSON answers 415 before any route sees it: express.json() leaves such a body
- * unread, and a route would otherwise take the request as an empty JSON object (a discharge whose
- * note was sent as text/plain went through without it). Multipart is accepted only where a route
- * reads it. A request without a body (no Content-Length or a zero one) passes.
- */
-export const jsonBodiesOnly: RequestHandler = (req, _res, next) => {
-  const hasBody = req.headers['transfer-encoding'] !== undefined || Number(req.headers['content-length'] ?? 0) > 0;
-  if (!hasBody) return next();
-  if (req.is(['application/json', 'application/*+json'])) return next();
-  if (req.is('multipart/form-data') && MULTIPART_PATHS.some((re) => re.test(req.path))) return next();
-  const type = req.headers['content-type'] ?? 'no Content-Type';
-  next(new ApiError(415, 'unsupported-media-type', `This route takes a JSON body (Content-Type: application/json), not ${type.split(';')[0]}.`, { _: 'Send the body as JSON.' }));
-};
-
 /** Builds the whole product as an Express app. Tests call this; server/index.ts listens. */
 export function createApp({ db, mailer, clock, config, log = (line) => process.stdout.write(`${line}\n`) }: CreateAppOptions): Express & { context: AppContext } {
   const ctx: AppContext = { database: db, mailer, clock, config, log };
