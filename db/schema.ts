@@ -29,8 +29,30 @@ export const units = sqliteTable('units', {
   highOutputPct: integer('high_output_pct').notNull().default(80),
   dayShiftStart: text('day_shift_start').notNull().default('07:00'),
   nightShiftStart: text('night_shift_start').notNull().default('19:00'),
+  /** Where an escalation goes when no charge nurse is assigned on the shift (set by the administrator). */
+  escalationFallbackEmail: text('escalation_fallback_email'),
   createdAt: instant('created_at').notNull(),
 });
+
+/**
+ * A unit's settings as versions: each version is in force from `effectiveFrom` until the next.
+ * Judgements (a check's due time, a report's figures) use the version in force at the time, so a
+ * change never rewrites history. `settings` is the whole UnitPolicy as JSON.
+ */
+export const unitPolicyVersions = sqliteTable(
+  'unit_policy_versions',
+  {
+    id: text('id').primaryKey(),
+    unitId: text('unit_id')
+      .notNull()
+      .references(() => units.id),
+    effectiveFrom: instant('effective_from').notNull(),
+    settings: text('settings').notNull(),
+    createdBy: text('created_by'),
+    createdAt: instant('created_at').notNull(),
+  },
+  (t) => [index('unit_policy_versions_unit').on(t.unitId, t.effectiveFrom)],
+);
 
 /** A required reference to the unit a row belongs to: every clinical row carries one. */
 const unitRef = () =>
@@ -275,6 +297,10 @@ export const flags = sqliteTable(
     raisedAt: instant('raised_at').notNull(),
     raisedByReadingId: text('raised_by_reading_id'),
     detail: text('detail').notNull().default('{}'),
+    /** Severity when raised (shared/thermal/severity.ts); later changes are flag_events. */
+    severity: text('severity', { enum: ['critical', 'urgent', 'caution'] }),
+    /** The unit_policy_versions row in force when it was raised (null: the unit's base settings). */
+    policyVersionId: text('policy_version_id'),
     createdAt: instant('created_at').notNull(),
   },
   (t) => [uniqueIndex('flags_infant_key').on(t.infantId, t.key), index('flags_unit_raised').on(t.unitId, t.raisedAt)],
@@ -291,9 +317,67 @@ export const flagResolutions = sqliteTable('flag_resolutions', {
     .references(() => flags.id),
   closedAt: instant('closed_at').notNull(),
   closedByReadingId: text('closed_by_reading_id'),
-  /** How it closed: 'recheck', 'check-recorded', 'session-ended', 'reading-corrected', 'discharged'. */
+  /**
+   * How it closed: 'recheck', 'check-recorded', 'session-ended', 'reading-corrected', 'discharged',
+   * or 'withdrawn' (a late entry or correction showed it should not have been raised; the reason
+   * and reading are in flag_events). A withdrawn flag is never counted as a late check.
+   */
   how: text('how').notNull(),
   createdAt: instant('created_at').notNull(),
+});
+
+/**
+ * The lifecycle of each flag, one row per event, never edited: raised (by which reading, at which
+ * severity, under which policy version), severity-changed, action, recheck, escalated,
+ * acknowledged, closed (by which reading), withdrawn (reason and reading), reopened.
+ */
+export const flagEvents = sqliteTable(
+  'flag_events',
+  {
+    id: text('id').primaryKey(),
+    flagId: flagRef(),
+    infantId: infantRef(),
+    unitId: unitRef(),
+    event: text('event', {
+      enum: ['raised', 'severity-changed', 'action', 'recheck', 'escalated', 'acknowledged', 'closed', 'withdrawn', 'reopened'],
+    }).notNull(),
+    /** The clinical instant: the reading's taken time, the action's time, when the mail went out. */
+    at: instant('at').notNull(),
+    readingId: text('reading_id'),
+    severity: text('severity', { enum: ['critical', 'urgent', 'caution'] }),
+    policyVersionId: text('policy_version_id'),
+    detail: text('detail').notNull().default('{}'),
+    actorId: text('actor_id'),
+    createdAt: instant('created_at').notNull(),
+  },
+  (t) => [index('flag_events_flag').on(t.flagId, t.createdAt), index('flag_events_infant').on(t.infantId, t.at)],
+);
+
+/**
+ * What the last evaluation of an infant found, for the views to read (one row per infant,
+ * replaced by every sync; derived, not clinical record): the check clocks' next-due instants
+ * and the open flags' current severity, detail and recheck clock.
+ */
+export const infantClocks = sqliteTable('infant_clocks', {
+  infantId: text('infant_id')
+    .primaryKey()
+    .references(() => infants.id),
+  unitId: unitRef(),
+  computedAt: instant('computed_at').notNull(),
+  policyVersionId: text('policy_version_id'),
+  dueSoonMinutes: integer('due_soon_minutes').notNull(),
+  /** The remote-site check: the last one (or admission) plus the interval in force then. */
+  remoteDueAt: instant('remote_due_at'),
+  lastRemoteAt: instant('last_remote_at'),
+  /** While in manual mode: since when, the next 15-minute check, the output, the limit. */
+  manualSince: instant('manual_since'),
+  manualDueAt: instant('manual_due_at'),
+  manualOutputPct: integer('manual_output_pct'),
+  manualLimitMinutes: integer('manual_limit_minutes'),
+  /** JSON: [{ flagId, key, severity, detail, recheckDueAt, recheckCountsFrom }] of the open flags. */
+  openFlags: text('open_flags').notNull().default('[]'),
+  /** JSON: the latest charted values (probe, remote site, control mode, set temperature). */
+  latest: text('latest').notNull().default('{}'),
 });
 
 export const actions = sqliteTable(
@@ -326,6 +410,11 @@ export const escalations = sqliteTable('escalations', {
   acknowledgedAt: instant('acknowledged_at'),
   acknowledgedBy: text('acknowledged_by').references(() => users.id),
   acknowledgeNote: text('acknowledge_note'),
+  /** JSON [{ userId, name, email }]: who it went to (set when it is sent). */
+  recipient: text('recipient'),
+  /** How it went: 'email'. */
+  channel: text('channel'),
+  severity: text('severity', { enum: ['critical', 'urgent', 'caution'] }),
 });
 
 /** An educator's teaching note on a flag; shown to the nurse concerned. */

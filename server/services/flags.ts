@@ -1,8 +1,19 @@
 import { prepared } from '../../db/client';
 import type Database from 'better-sqlite3';
 import { randomUUID } from 'node:crypto';
-import { evaluateInfant, resolvePolicy, type EvaluatedFlag, type HeatStressSign, type UnitPolicy } from '../../shared/thermal';
+import { evaluateInfant, resolvePolicy, severityOf, type EvaluatedFlag, type HeatStressSign, type Severity, type UnitPolicy } from '../../shared/thermal';
 import { appendAudit } from '../audit';
+import {
+  appendFlagEvent,
+  dbOf,
+  loadPolicyVersions,
+  onTimeCheckFor,
+  readClocks,
+  versionAt,
+  writeClocks,
+  type StoredOpenFlag,
+  type StoredPolicyVersion,
+} from './flag-lifecycle';
 
 interface ReadingRow {
   id: string;
@@ -44,6 +55,16 @@ export function policyForUnit(unit: UnitRow): UnitPolicy {
     nightShiftStart: unit.night_shift_start,
     timeZone: unit.time_zone,
   });
+}
+
+/**
+ * The unit's policy in force at `ms`: the settings version in force then, else the unit's row.
+ * Settings a unit row has no column for (per-kind escalation delays, settle time) live only in
+ * versions.
+ */
+export function policyAt(unit: UnitRow, versions: readonly StoredPolicyVersion[], ms: number): { policy: UnitPolicy; versionId: string | null } {
+  const v = versionAt(versions, ms);
+  return v ? { policy: resolvePolicy(v.policy), versionId: v.id } : { policy: policyForUnit(unit), versionId: null };
 }
 
 export function loadUnitRow(sqlite: Database.Database, unitId: string): UnitRow | undefined {
@@ -342,23 +363,34 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
     // checks before it are history the stored flags already hold.
     state = { ...full, admittedAt: undefined };
   }
-  const evaluation = evaluateInfant(state, now, policyForUnit(unit));
-  const stored = prepared(sqlite, 'SELECT f.id, f.key, f.raised_at, r.flag_id AS resolved FROM flags f LEFT JOIN flag_resolutions r ON r.flag_id = f.id WHERE f.infant_id = ?').all(
-    infantId,
-  ) as Array<{ id: string; key: string; raised_at: number; resolved: string | null }>;
+  const db = dbOf(sqlite);
+  const versions = loadPolicyVersions(db, infant.unit_id);
+  const { policy, versionId } = policyAt(unit, versions, now.getTime());
+  const evaluation = evaluateInfant(state, now, policy, versions);
+  const stored = prepared(
+    sqlite,
+    'SELECT f.id, f.key, f.kind, f.raised_at, f.raised_by_reading_id, f.detail, f.severity, r.flag_id AS resolved FROM flags f LEFT JOIN flag_resolutions r ON r.flag_id = f.id WHERE f.infant_id = ?',
+  ).all(infantId) as Array<{ id: string; key: string; kind: string; raised_at: number; raised_by_reading_id: string | null; detail: string; severity: Severity | null; resolved: string | null }>;
+  const previous = readClocks(db, infantId);
+  const lastSeverity = new Map((previous ? (JSON.parse(previous.openFlags) as StoredOpenFlag[]) : []).map((f) => [f.flagId, f.severity]));
+  const openNow: StoredOpenFlag[] = [];
+  const event = (flagId: string, e: Omit<Parameters<typeof appendFlagEvent>[1], 'flagId' | 'infantId' | 'unitId' | 'now'>) =>
+    appendFlagEvent(db, { flagId, infantId, unitId: infant.unit_id, now, actorId, ...e });
   const byKey = new Map(stored.map((s) => [s.key, s]));
   const seen = new Set<string>();
   const raised: string[] = [];
   const closed: string[] = [];
   const insertFlag = prepared(
     sqlite,
-    'INSERT INTO flags (id, infant_id, unit_id, key, kind, raised_at, raised_by_reading_id, detail, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)',
+    'INSERT INTO flags (id, infant_id, unit_id, key, kind, raised_at, raised_by_reading_id, detail, severity, policy_version_id, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)',
   );
   const insertResolution = prepared(sqlite, 'INSERT INTO flag_resolutions (flag_id, closed_at, closed_by_reading_id, how, created_at) VALUES (?, ?, ?, ?, ?)');
 
-  const close = (flagId: string, at: Date, readingId: string | null, how: string, key: string) => {
+  const close = (flagId: string, at: Date, readingId: string | null, how: string, key: string, reason?: string) => {
     insertResolution.run(flagId, at.getTime(), readingId, how, now.getTime());
-    appendAudit(sqlite, { at: now, actorId, action: 'flag-closed', entityType: 'flag', entityId: flagId, unitId: infant.unit_id, after: { key, closedAt: at.toISOString(), closedByReadingId: readingId, how } });
+    appendAudit(sqlite, { at: now, actorId, action: 'flag-closed', entityType: 'flag', entityId: flagId, unitId: infant.unit_id, after: { key, closedAt: at.toISOString(), closedByReadingId: readingId, how, reason } });
+    if (how === 'withdrawn') event(flagId, { event: 'withdrawn', at, readingId, detail: { reason, readingId } });
+    else event(flagId, { event: 'closed', at, readingId, detail: { how } });
     closed.push(flagId);
   };
 
@@ -368,21 +400,62 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
     if (!row) {
       // A flag that opened and closed entirely in the past (a late entry) is still recorded.
       const id = randomUUID();
-      insertFlag.run(id, infantId, infant.unit_id, flag.key, flag.kind, flag.raisedAt.getTime(), flag.raisedByReadingId, JSON.stringify(flag.detail ?? {}), now.getTime());
+      const raisedUnder = policyAt(unit, versions, flag.raisedAt.getTime()).versionId;
+      const severity = flag.severity;
+      const detail = JSON.stringify(flag.detail ?? {});
+      insertFlag.run(id, infantId, infant.unit_id, flag.key, flag.kind, flag.raisedAt.getTime(), flag.raisedByReadingId, detail, severity, raisedUnder, now.getTime());
       appendAudit(sqlite, { at: now, actorId, action: 'flag-raised', entityType: 'flag', entityId: id, unitId: infant.unit_id, after: serializeFlag(flag) });
+      event(id, { event: 'raised', at: flag.raisedAt, readingId: flag.raisedByReadingId, severity, policyVersionId: raisedUnder, detail: flag.detail });
       raised.push(id);
-      row = { id, key: flag.key, raised_at: flag.raisedAt.getTime(), resolved: null };
+      row = { id, key: flag.key, kind: flag.kind, raised_at: flag.raisedAt.getTime(), raised_by_reading_id: flag.raisedByReadingId, detail, severity, resolved: null };
+      lastSeverity.set(id, severity);
     }
-    if (flag.status === 'closed' && !row.resolved) close(row.id, flag.closedAt ?? now, flag.closedByReadingId, closingHow(flag), flag.key);
+    if (flag.status === 'closed' && !row.resolved) {
+      if (flag.severity !== (lastSeverity.get(row.id) ?? flag.severity)) {
+        event(row.id, { event: 'severity-changed', at: flag.closedAt ?? now, severity: flag.severity, detail: flag.detail });
+      }
+      close(row.id, flag.closedAt ?? now, flag.closedByReadingId, closingHow(flag), flag.key);
+    } else if (flag.status === 'open' && !row.resolved) {
+      const before = lastSeverity.get(row.id) ?? row.severity ?? severityOfRow(row);
+      if (before !== flag.severity) event(row.id, { event: 'severity-changed', at: now, severity: flag.severity, detail: flag.detail });
+      openNow.push({
+        flagId: row.id,
+        key: flag.key,
+        severity: flag.severity,
+        detail: flag.detail,
+        recheckDueAt: flag.recheckDueAt?.toISOString() ?? null,
+        recheckCountsFrom: flag.recheckCountsFrom?.toISOString() ?? null,
+      });
+    }
   }
   // A stored open flag the rules no longer see (its reading was entered in error, or the infant
   // left). A windowed evaluation only speaks for flags raised inside its window; restartPoint
   // guarantees every open stored flag is, so this is a guard, not a behaviour.
   for (const row of stored) {
-    if (windowFrom !== null && row.raised_at < windowFrom) continue;
-    if (!seen.has(row.key) && !row.resolved) close(row.id, now, null, infant.status === 'discharged' ? 'discharged' : 'reading-corrected', row.key);
+    if (row.resolved || seen.has(row.key)) continue;
+    if (windowFrom !== null && row.raised_at < windowFrom) {
+      // Raised before the window: still open as far as the rules can tell; keep showing it.
+      const kept = previous ? (JSON.parse(previous.openFlags) as StoredOpenFlag[]).find((f) => f.flagId === row.id) : undefined;
+      if (kept) openNow.push(kept);
+      continue;
+    }
+    if (infant.status === 'discharged') close(row.id, now, null, 'discharged', row.key);
+    else if (row.kind === 'overdue-check') {
+      // A check charted late whose taken time was on time: the flag should never have been raised.
+      const due = row.raised_at;
+      const from = row.raised_by_reading_id
+        ? (prepared(sqlite, 'SELECT taken_at FROM readings WHERE id = ?').get(row.raised_by_reading_id) as { taken_at: number } | undefined)?.taken_at ?? infant.admitted_at
+        : infant.admitted_at;
+      const shownBy = onTimeCheckFor(db, infantId, from, due);
+      close(row.id, now, shownBy, 'withdrawn', row.key, shownBy ? 'late-entry-on-time' : 'reading-corrected');
+    } else close(row.id, now, null, 'withdrawn', row.key, 'reading-corrected');
   }
+  writeClocks(db, { infantId, unitId: infant.unit_id, now, policy, policyVersionId: versionId, evaluation, openFlags: openNow, previous, windowed: windowFrom !== null });
   return { raised, closed, evaluation, windowFrom };
+}
+
+function severityOfRow(row: { kind: string; detail: string }): Severity {
+  return severityOf(row.kind, JSON.parse(row.detail));
 }
 
 function closingHow(flag: EvaluatedFlag): string {
