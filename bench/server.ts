@@ -23,6 +23,8 @@ export async function startServer(dataDir: string, opts: { webDir?: string; prof
       // The scheduler would add escalation work in the middle of a measurement.
       ESCALATION_INTERVAL_SECONDS: '3600',
       NODE_ENV: 'production',
+      // The bench's unit and accounts are invented (@warmfold.test), which production refuses.
+      WARMFOLD_MODE: 'demo',
       ...(opts.webDir ? { WEB_DIR: opts.webDir } : {}),
     },
     stdio: ['ignore', 'pipe', 'pipe'],

@@ -5,6 +5,8 @@ import { resetDatabase, seedDemo, DEMO_ACCOUNTS, DEMO_PASSWORD } from './seed';
 
 async function main() {
   const config = loadConfig();
+  // Emptying a real unit's chart to lay the demo down is never what a production operator meant.
+  if (config.mode === 'production') throw new Error('npm run db:seed empties the database and lays down the demo: it does not run in production mode (WARMFOLD_MODE / NODE_ENV).');
   const database = openDatabase(config.databasePath);
   resetDatabase(database);
   await seedDemo(database, { now: new Date(), bcryptCost: config.bcryptCost });

@@ -97,7 +97,7 @@ export class ConfigError extends Error {
   ) {
     super(
       mode === 'production'
-        ? `Warmfold will not start in production mode until these are set:\n${problems.map((p) => `  ${p}`).join('\n')}\n(For the demo, unset NODE_ENV or set WARMFOLD_MODE=demo.)`
+        ? `Warmfold will not start in production mode. Set or change:\n${problems.map((p) => `  ${p}`).join('\n')}\n(For the demo, unset NODE_ENV or set WARMFOLD_MODE=demo.)`
         : `Invalid configuration:\n${problems.map((p) => `  ${p}`).join('\n')}`,
     );
     this.name = 'ConfigError';

@@ -22,10 +22,10 @@ export function demoAccountsIn(database: Database_): string[] {
 export function productionDatabaseProblems(database: Database_, config: AppConfig): string[] {
   const demo = demoAccountsIn(database);
   if (demo.length === 0) return [];
-  const shown = demo.slice(0, 3).join(', ') + (demo.length > 3 ? ` and ${demo.length - 3} more` : '');
+  const shown = demo.slice(0, 10).join(', ') + (demo.length > 10 ? ` and ${demo.length - 10} more` : '');
   return [
-    `The database ${config.databasePath} holds ${demo.length} demo account(s) (${shown}), whose password is published. ` +
-      'Point DATA_DIR (or DATABASE_PATH) at a new folder for production, or deactivate and rename those accounts in a demo start first.',
+    `DATA_DIR (or DATABASE_PATH): the database ${config.databasePath} holds ${demo.length} demo account(s), whose password is published: ${shown}. ` +
+      'Point DATA_DIR at a new, empty folder for production; a demo database is never turned into a production one.',
   ];
 }
 
