@@ -1,9 +1,13 @@
 /**
  * CSV writing for exports and report tables (RFC 4180: comma-separated, CRLF line ends, fields
- * quoted when they hold a comma, quote or line break). A text cell that starts with = + - @ or
+ * quoted when they hold a comma, semicolon, quote or line break: a spreadsheet set to a
+ * semicolon-separated locale splits on the semicolon). Downloads begin with CSV_BOM. A text cell that starts with = + - @ or
  * a tab is prefixed with an apostrophe so a spreadsheet never runs it as a formula; numbers are
  * written as they are.
  */
+/** The UTF-8 byte-order mark: put before a downloaded CSV, it tells a spreadsheet the file is UTF-8. */
+export const CSV_BOM = '\uFEFF';
+
 export type CsvCell = string | number | boolean | null | undefined;
 
 const FORMULA_START = /^[=+\-@\t\r]/;
@@ -14,7 +18,7 @@ export function csvCell(value: CsvCell): string {
   if (typeof value === 'boolean') return value ? 'true' : 'false';
   let text = value;
   if (FORMULA_START.test(text)) text = `'${text}`;
-  return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
+  return /[",;\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
 }
 
 export function toCsv(header: readonly string[], rows: ReadonlyArray<readonly CsvCell[]>): string {

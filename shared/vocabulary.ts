@@ -14,6 +14,11 @@ export type RemoteSite = (typeof REMOTE_SITES)[number];
 export const HEAT_SIGNS = ['red-skin', 'warm-to-touch', 'sweating', 'irritability', 'fast-breathing'] as const;
 export type HeatSign = (typeof HEAT_SIGNS)[number];
 
+/** Administrative sex recorded on admission (FHIR AdministrativeGender: indeterminate is sent as 'other'). */
+export const INFANT_SEXES = ['female', 'male', 'indeterminate', 'unknown'] as const;
+export type InfantSex = (typeof INFANT_SEXES)[number];
+export const INFANT_SEX_LABELS: Record<InfantSex, string> = { female: 'Female', male: 'Male', indeterminate: 'Indeterminate', unknown: 'Not known' };
+
 export const HEAT_SOURCE_LABELS: Record<HeatSource, string> = {
   'radiant-warmer': 'Radiant warmer',
   incubator: 'Incubator',

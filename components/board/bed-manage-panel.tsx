@@ -12,7 +12,7 @@ import { Segmented } from '@/components/ui/segmented';
 import { Text } from '@/components/ui/text';
 import { TextField } from '@/components/ui/text-field';
 import type { AdmitForm, AssignNurseInput } from '@/shared/schemas/unit';
-import { CONTROL_MODE_LABELS, CONTROL_MODES, HEAT_SOURCE_LABELS, HEAT_SOURCES } from '@/shared/vocabulary';
+import { CONTROL_MODE_LABELS, CONTROL_MODES, HEAT_SOURCE_LABELS, HEAT_SOURCES, INFANT_SEX_LABELS, INFANT_SEXES } from '@/shared/vocabulary';
 import type { BoardBed, BoardResponse } from '@/shared/types/board';
 
 const admitResolver = lazyZodResolver<AdmitForm>((m) => m.admitFormSchema);
@@ -57,6 +57,8 @@ function AdmitForm({ unitId, bed, tempUnit, onDone }: { unitId: string; bed: Boa
       heatSource: 'incubator',
       controlMode: 'skin-servo',
       setTemperature: '',
+      hospitalNumber: '',
+      sex: 'unknown',
     },
   });
   const problem = admit.error ? problemOf(admit.error) : null;
@@ -69,6 +71,12 @@ function AdmitForm({ unitId, bed, tempUnit, onDone }: { unitId: string; bed: Boa
   return (
     <View style={styles.form}>
       <TextField control={control} name="displayName" label="Display name" hint="As the unit shows it, for example Baby Larchmont." serverError={fields.displayName} />
+      <TextField control={control} name="hospitalNumber" label="Hospital number" hint="As on the wristband." serverError={fields.hospitalNumber} />
+      <Controller
+        control={control}
+        name="sex"
+        render={({ field }) => <Segmented label="Sex" value={field.value} onChange={field.onChange} options={INFANT_SEXES.map((v) => ({ value: v, label: INFANT_SEX_LABELS[v] }))} />}
+      />
       <View style={styles.row}>
         <View style={styles.cell}>
           <TextField control={control} name="birthDate" label="Date of birth" hint="YYYY-MM-DD" serverError={fields.birthAt} />

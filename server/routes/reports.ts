@@ -1,23 +1,32 @@
 import { z } from 'zod';
-import { toCsv } from '../../shared/csv';
+import { CSV_BOM, toCsv } from '../../shared/csv';
 import { REPORT_TABLE_NAMES, reportTables } from '../../shared/reports';
-import { reviewQueueQuerySchema, unitRangeQuerySchema, type ReviewQueueQuery, type UnitRangeQuery } from '../../shared/schemas/review';
+import { exportRangeQuerySchema, reviewQueueQuerySchema, unitRangeQuerySchema, type ExportRangeQuery, type ReviewQueueQuery, type UnitRangeQuery } from '../../shared/schemas/review';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { notFound } from '../errors';
 import { allow, assertUnit, secureRouter } from '../middleware/access';
 import { valid, validate } from '../middleware/validate';
-import { flagsCsv, infantFhirBundle, readingsCsv } from '../services/exports';
+import { flagsCsv, infantFhirBundle, readingsCsv, unitFhirBundle } from '../services/exports';
 import { unitReport } from '../services/reports';
-import { reviewQueue } from '../services/review';
+import { loadReviews, reviewQueue } from '../services/review';
 
 const tableParams = z.object({ table: z.enum(REPORT_TABLE_NAMES as [string, ...string[]], { error: 'No such report table.' }) });
 
+/** A CSV download: UTF-8 with a byte-order mark, so a spreadsheet reads "Inês" and "°C" as written. */
 function sendCsv(res: import('express').Response, name: string, body: string): void {
   res.set('Content-Type', 'text/csv; charset=utf-8');
   res.set('Content-Disposition', `attachment; filename="${name}"`);
-  res.send(body);
+  res.send(CSV_BOM + body);
 }
+
+function sendFhir(res: import('express').Response, name: string, bundle: unknown): void {
+  res.set('Content-Type', 'application/fhir+json; charset=utf-8');
+  res.set('Content-Disposition', `attachment; filename="${name}"`);
+  res.send(JSON.stringify(bundle));
+}
+
+const suffixOf = (q: { infantId?: string; from?: string; to?: string }) => `${q.infantId ? `${q.infantId}-` : ''}${q.from ?? 'all'}-${q.to ?? 'all'}`;
 
 /** Reports and exports: the educator's. */
 export function reportsRouter(ctx: AppContext) {
@@ -39,28 +48,34 @@ export function reportsRouter(ctx: AppContext) {
     sendCsv(res, `${table}-${query.from}-${query.to}.csv`, toCsv(found.header, found.rows));
   });
 
-  router.get('/exports/readings.csv', allow(ctx, 'review:work'), validate('query', unitRangeQuerySchema), (req, res) => {
-    const query = valid<UnitRangeQuery>(req, 'query');
+  router.get('/exports/readings.csv', allow(ctx, 'review:work'), validate('query', exportRangeQuerySchema), (req, res) => {
+    const query = valid<ExportRangeQuery>(req, 'query');
     assertUnit(req, query.unitId);
-    sendCsv(res, `readings-${query.from}-${query.to}.csv`, readingsCsv(ctx, query, req.auth!.userId));
+    sendCsv(res, `readings-${suffixOf(query)}.csv`, readingsCsv(ctx, query, req.auth!.userId));
+  });
+
+  router.get('/exports/fhir', allow(ctx, 'review:work'), validate('query', exportRangeQuerySchema), (req, res) => {
+    const query = valid<ExportRangeQuery>(req, 'query');
+    assertUnit(req, query.unitId);
+    sendFhir(res, `fhir-${suffixOf(query)}.json`, unitFhirBundle(ctx, query, req.auth!.userId));
   });
 
   /** Flags of the review queue's kinds, with the queue's filters (a date range among them). */
   router.get('/exports/flags.csv', allow(ctx, 'review:work'), validate('query', reviewQueueQuerySchema), (req, res) => {
     const query = valid<ReviewQueueQuery>(req, 'query');
     if (query.unitId) assertUnit(req, query.unitId);
-    const { items } = reviewQueue(ctx, req.auth!.unitIds, query);
+    // Every matching flag, never one page of them.
+    const { items } = reviewQueue(ctx, req.auth!.unitIds, { ...query, cursor: undefined, limit: 'all' });
     const { sqlite } = ctx.database;
     sqlite
       .transaction(() => appendAudit(sqlite, { at: ctx.clock.now(), actorId: req.auth!.userId, action: 'export-flags-csv', entityType: 'flag', entityId: null, unitId: query.unitId ?? null, after: { ...query, rows: items.length } }))
       .immediate();
-    sendCsv(res, `flags-${query.from ?? 'all'}-${query.to ?? 'all'}.csv`, flagsCsv(items));
+    sendCsv(res, `flags-${suffixOf(query)}.csv`, flagsCsv(items, loadReviews(sqlite, items.map((i) => i.flagId))));
   });
 
   router.get('/exports/infants/:infantId/fhir', allow(ctx, 'review:work'), (req, res) => {
-    const bundle = infantFhirBundle(ctx, (req.params as { infantId: string }).infantId, req.auth!);
-    res.set('Content-Type', 'application/fhir+json; charset=utf-8');
-    res.send(JSON.stringify(bundle));
+    const { infantId } = req.params as { infantId: string };
+    sendFhir(res, `fhir-${infantId}.json`, infantFhirBundle(ctx, infantId, req.auth!));
   });
 
   return router;

@@ -6,6 +6,7 @@ import { toCentiCelsius } from '../../shared/thermal';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { badRequest, conflict, notFound } from '../errors';
+import { recordBedStay } from './bed-stays';
 import { loadUnitRow, syncFlags } from './flags';
 
 export interface InfantRow {
@@ -46,10 +47,13 @@ export function admitInfant(ctx: AppContext, unitId: string, input: AdmitInfant,
     const id = randomUUID();
     sqlite
       .prepare(
-        `INSERT INTO infants (id, unit_id, bed_id, display_name, birth_at, gestation_weeks, gestation_days, birth_weight_grams, weight_grams, heat_source, status, admitted_at)
-         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, 'admitted', ?)`,
+        `INSERT INTO infants (id, unit_id, bed_id, display_name, birth_at, gestation_weeks, gestation_days, birth_weight_grams, weight_grams, heat_source, status, admitted_at,
+           hospital_number, sex)
+         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, 'admitted', ?, ?, ?)`,
       )
-      .run(id, unitId, bed.id, input.displayName, Date.parse(input.birthAt), input.gestationWeeks, input.gestationDays, input.birthWeightGrams, input.birthWeightGrams, input.heatSource, now.getTime());
+      .run(id, unitId, bed.id, input.displayName, Date.parse(input.birthAt), input.gestationWeeks, input.gestationDays, input.birthWeightGrams, input.birthWeightGrams, input.heatSource, now.getTime(),
+        input.hospitalNumber ?? null, input.sex ?? null);
+    recordBedStay(ctx.database.db, { id: randomUUID(), infantId: id, unitId, bedId: bed.id, event: 'admitted', at: now, recordedBy: actorId });
     // The initial settings are charted as the first reading, so the flowsheet and rules see them.
     const readingId = randomUUID();
     sqlite
@@ -79,6 +83,7 @@ export function moveInfant(ctx: AppContext, infant: InfantRow, bedId: string, ac
   return writeTx(sqlite, () => {
     const bed = requireEmptyBed(ctx, infant.unit_id, bedId);
     sqlite.prepare('UPDATE infants SET bed_id = ? WHERE id = ?').run(bed.id, infant.id);
+    recordBedStay(ctx.database.db, { id: randomUUID(), infantId: infant.id, unitId: infant.unit_id, bedId: bed.id, event: 'moved', at: now, recordedBy: actorId });
     appendAudit(sqlite, { at: now, actorId, action: 'infant-moved', entityType: 'infant', entityId: infant.id, unitId: infant.unit_id, before: { bedId: infant.bed_id }, after: { bedId: bed.id } });
     return { bedId: bed.id, bedLabel: bed.label };
   });
@@ -113,6 +118,7 @@ export function dischargeInfant(ctx: AppContext, infant: InfantRow, note: string
     // Store what the rules say up to the discharge first, so the record is complete.
     syncFlags(sqlite, infant.id, now, actorId);
     sqlite.prepare("UPDATE infants SET status = 'discharged', discharged_at = ?, bed_id = NULL WHERE id = ?").run(now.getTime(), infant.id);
+    recordBedStay(ctx.database.db, { id: randomUUID(), infantId: infant.id, unitId: infant.unit_id, bedId: null, event: 'discharged', at: now, recordedBy: actorId });
     const open = sqlite
       .prepare('SELECT f.id, f.key FROM flags f LEFT JOIN flag_resolutions r ON r.flag_id = f.id WHERE f.infant_id = ? AND r.flag_id IS NULL')
       .all(infant.id) as Array<{ id: string; key: string }>;

@@ -6,7 +6,8 @@ import { formatTemperature, HEAT_STRESS_SIGN_LABELS } from '../../shared/thermal
 import type { MyReviewNote, PersonRef, ReviewItemDetail, ReviewNote, ReviewQueueItem, ReviewQueueResponse } from '../../shared/types/review';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
-import { forbidden, notFound } from '../errors';
+import { badRequest, forbidden, notFound } from '../errors';
+import { bedAtLookup } from './bed-stays';
 
 interface FlagRow {
   id: string;
@@ -24,10 +25,13 @@ interface FlagRow {
   detail: string;
   reading_by: string | null;
   reading_by_name: string | null;
+  reading_upload_id: string | null;
+  hospital_number: string | null;
   first_action_at: number | null;
   closed_at: number | null;
   review_count: number;
   last_review_at: number | null;
+  reading_recorder: string | null;
 }
 
 const MINUTE = 60_000;
@@ -45,7 +49,8 @@ function loadFlagRows(sqlite: Database.Database, unitIds: string[], flagId?: str
     .prepare(
       `SELECT f.id, f.kind, f.unit_id, u.name AS unit_name, u.time_zone, u.day_shift_start, u.night_shift_start,
               f.infant_id, i.display_name AS infant_name, b.label AS bed_label, f.raised_at, f.raised_by_reading_id, f.detail,
-              r.recorded_by AS reading_by, ru.name AS reading_by_name,
+              CASE WHEN r.upload_id IS NULL THEN r.recorded_by ELSE r.taken_by END AS reading_by, ru.name AS reading_by_name, r.upload_id AS reading_upload_id,
+              r.recorded_by AS reading_recorder, i.hospital_number,
               (SELECT MIN(a.at) FROM actions a WHERE a.flag_id = f.id) AS first_action_at,
               fr.closed_at,
               (SELECT COUNT(*) FROM reviews v WHERE v.flag_id = f.id) AS review_count,
@@ -55,7 +60,7 @@ function loadFlagRows(sqlite: Database.Database, unitIds: string[], flagId?: str
          JOIN infants i ON i.id = f.infant_id
          LEFT JOIN beds b ON b.id = i.bed_id
          LEFT JOIN readings r ON r.id = f.raised_by_reading_id
-         LEFT JOIN users ru ON ru.id = r.recorded_by
+         LEFT JOIN users ru ON ru.id = CASE WHEN r.upload_id IS NULL THEN r.recorded_by ELSE r.taken_by END
          LEFT JOIN flag_resolutions fr ON fr.flag_id = f.id
         WHERE f.kind IN (${KIND_LIST}) AND f.unit_id IN (${marks}) ${flagId ? 'AND f.id = ?' : ''}
         ORDER BY f.raised_at DESC, f.id`,
@@ -96,13 +101,24 @@ function summaryOf(kind: ReviewKind, detail: Record<string, unknown>): string {
   }
 }
 
+function personName(sqlite: Database.Database, id: string): PersonRef {
+  return { id, name: (sqlite.prepare('SELECT name FROM users WHERE id = ?').get(id) as { name: string } | undefined)?.name ?? '' };
+}
+
 function toItem(sqlite: Database.Database, row: FlagRow): ReviewQueueItem {
   const raisedAt = new Date(row.raised_at);
   const slot = shiftAt(raisedAt, { dayShiftStart: row.day_shift_start, nightShiftStart: row.night_shift_start, timeZone: row.time_zone });
   const detail = JSON.parse(row.detail) as Record<string, unknown>;
+  // An imported reading credits the nurse the file named; a file that named nobody credits no nurse, and the uploader is shown as who imported it.
   const recorder = row.reading_by ? { id: row.reading_by, name: row.reading_by_name ?? '' } : null;
+  const importedBy = row.reading_upload_id !== null && row.reading_by === null && row.reading_recorder ? personName(sqlite, row.reading_recorder) : null;
   // Who the note is for: the nurse who charted the reading, or (for a check that was not taken) the nurse assigned.
-  const nurse = row.kind === 'overdue-check' ? (assignedNurse(sqlite, row.infant_id, slot.shiftDate, slot.shift) ?? recorder) : (recorder ?? assignedNurse(sqlite, row.infant_id, slot.shiftDate, slot.shift));
+  const nurse =
+    row.kind === 'overdue-check'
+      ? (assignedNurse(sqlite, row.infant_id, slot.shiftDate, slot.shift) ?? recorder)
+      : importedBy
+        ? null
+        : (recorder ?? assignedNurse(sqlite, row.infant_id, slot.shiftDate, slot.shift));
   const mins = (at: number | null) => (at === null ? null : Math.max(0, Math.round((at - row.raised_at) / MINUTE)));
   return {
     flagId: row.id,
@@ -116,6 +132,7 @@ function toItem(sqlite: Database.Database, row: FlagRow): ReviewQueueItem {
     shift: slot.shift,
     shiftDate: slot.shiftDate,
     nurse,
+    importedBy,
     summary: summaryOf(row.kind, detail),
     firstActionAt: row.first_action_at === null ? null : new Date(row.first_action_at).toISOString(),
     closedAt: row.closed_at === null ? null : new Date(row.closed_at).toISOString(),
@@ -126,15 +143,36 @@ function toItem(sqlite: Database.Database, row: FlagRow): ReviewQueueItem {
   };
 }
 
-/** The queue items in the given units, every filter applied; the nurse filter list comes from the unfiltered set. */
-export function reviewQueue(ctx: AppContext, unitIds: string[], query: Omit<ReviewQueueQuery, 'limit'> & { limit?: number }): ReviewQueueResponse {
+const encodeCursor = (row: { raised_at: number; id: string }) => Buffer.from(`${row.raised_at}.${row.id}`, 'utf8').toString('base64url');
+
+function decodeCursor(cursor: string): { at: number; id: string } {
+  const text = Buffer.from(cursor, 'base64url').toString('utf8');
+  const dot = text.indexOf('.');
+  const at = Number(text.slice(0, dot));
+  if (dot < 1 || !Number.isSafeInteger(at)) throw badRequest('That page marker is not valid.', { cursor: 'Start again from the first page.' });
+  return { at, id: text.slice(dot + 1) };
+}
+
+/**
+ * The queue items in the given units, every filter applied, newest first, one page at a time:
+ * `nextCursor` continues where the page ended (null on the last page); `limit: 'all'` is for
+ * exports, which are never cut. The bed is the bed at the time the flag was raised. The nurse
+ * filter list comes from the unfiltered set.
+ */
+export function reviewQueue(ctx: AppContext, unitIds: string[], query: Omit<ReviewQueueQuery, 'limit'> & { limit?: number | 'all' }): ReviewQueueResponse {
   const { sqlite } = ctx.database;
   const units = unitIds.length
     ? (sqlite.prepare(`SELECT id, name FROM units WHERE id IN (${unitIds.map(() => '?').join(', ')}) ORDER BY name`).all(...unitIds) as Array<{ id: string; name: string }>)
     : [];
   const scope = query.unitId ? unitIds.filter((u) => u === query.unitId) : unitIds;
-  const rows = loadFlagRows(sqlite, scope).filter((r) => {
+  const loaded = loadFlagRows(sqlite, scope);
+  const bedAt = bedAtLookup(ctx.database.db, loaded.map((r) => r.infant_id));
+  for (const r of loaded) r.bed_label = bedAt(r.infant_id, r.raised_at) ?? r.bed_label;
+  const needle = query.q?.trim().toLowerCase();
+  const rows = loaded.filter((r) => {
     if (query.kind && r.kind !== query.kind) return false;
+    if (query.infantId && r.infant_id !== query.infantId) return false;
+    if (needle && ![r.infant_name, r.bed_label ?? '', r.hospital_number ?? ''].some((v) => v.toLowerCase().includes(needle))) return false;
     if (query.from || query.to) {
       const date = localDateOf(new Date(r.raised_at), r.time_zone);
       if (query.from && date < query.from) return false;
@@ -144,15 +182,25 @@ export function reviewQueue(ctx: AppContext, unitIds: string[], query: Omit<Revi
     if (query.status === 'unreviewed' && r.review_count > 0) return false;
     return true;
   });
-  const all = rows.map((r) => toItem(sqlite, r));
+  const all = rows.map((r) => ({ row: r, item: toItem(sqlite, r) }));
   const nurses = new Map<string, PersonRef>();
-  for (const item of all) if (item.nurse) nurses.set(item.nurse.id, item.nurse);
-  const matching = all.filter((i) => (!query.shift || i.shift === query.shift) && (!query.nurseId || i.nurse?.id === query.nurseId));
-  const items = matching.slice(0, query.limit ?? 200);
-  return { items, total: matching.length, nurses: [...nurses.values()].sort((a, b) => a.name.localeCompare(b.name)), units };
+  for (const { item } of all) if (item.nurse) nurses.set(item.nurse.id, item.nurse);
+  const matching = all.filter(({ item: i }) => (!query.shift || i.shift === query.shift) && (!query.nurseId || i.nurse?.id === query.nurseId));
+  const after = query.cursor ? decodeCursor(query.cursor) : null;
+  const rest = after ? matching.filter(({ row }) => row.raised_at < after.at || (row.raised_at === after.at && row.id > after.id)) : matching;
+  const limit = query.limit === 'all' ? rest.length : (query.limit ?? 200);
+  const page = rest.slice(0, limit);
+  const last = page[page.length - 1];
+  return {
+    items: page.map((p) => p.item),
+    total: matching.length,
+    nextCursor: rest.length > page.length && last ? encodeCursor(last.row) : null,
+    nurses: [...nurses.values()].sort((a, b) => a.name.localeCompare(b.name)),
+    units,
+  };
 }
 
-function loadReviews(sqlite: Database.Database, flagIds: string[]): ReviewNote[] {
+export function loadReviews(sqlite: Database.Database, flagIds: string[]): ReviewNote[] {
   if (flagIds.length === 0) return [];
   const rows = sqlite
     .prepare(

@@ -27,6 +27,12 @@ export const reviewQueueQuerySchema = z
     nurseId: id.optional(),
     status: z.enum(REVIEW_STATUSES, { error: 'Choose reviewed, unreviewed or all.' }).default('all'),
     /** A page is capped, so one request can never pull the whole history. */
+    /** One infant only. */
+    infantId: id.optional(),
+    /** Search: part of the infant's name, the bed label or the hospital number. */
+    q: z.string({ error: 'Search for an infant or a bed.' }).trim().max(60, 'Search with at most 60 characters.').optional(),
+    /** Where the previous page ended (its `nextCursor`). */
+    cursor: z.string().max(200).regex(/^[A-Za-z0-9_-]+$/, 'That page marker is not valid.').optional(),
     limit: z.coerce.number({ error: 'Limit must be a number.' }).int('Use a whole number.').min(1, 'At least 1.').max(REVIEW_PAGE_MAX, `At most ${REVIEW_PAGE_MAX}.`).default(200),
   })
   .refine(rangeOk, RANGE_MESSAGE);
@@ -50,4 +56,16 @@ export const unitRangeQuerySchema = z
   })
   .refine(rangeOk, RANGE_MESSAGE)
   .refine((v) => Date.parse(v.to) - Date.parse(v.from) <= 366 * 86_400_000, { message: 'Choose at most a year.', path: ['to'] });
+
+/** Exports: a unit and a range of local dates, optionally one infant of the unit. */
+export const exportRangeQuerySchema = z
+  .strictObject({
+    unitId: id,
+    from: localDateSchema,
+    to: localDateSchema,
+    infantId: id.optional(),
+  })
+  .refine(rangeOk, RANGE_MESSAGE)
+  .refine((v) => Date.parse(v.to) - Date.parse(v.from) <= 366 * 86_400_000, { message: 'Choose at most a year.', path: ['to'] });
+export type ExportRangeQuery = z.infer<typeof exportRangeQuerySchema>;
 export type UnitRangeQuery = z.infer<typeof unitRangeQuerySchema>;

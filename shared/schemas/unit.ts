@@ -1,18 +1,27 @@
 import { z } from 'zod';
-import { CONTROL_MODES, HEAT_SOURCES } from '../vocabulary';
+import { CONTROL_MODES, HEAT_SOURCES, INFANT_SEXES } from '../vocabulary';
 
 /**
  * The charge nurse's unit work: admissions, moves, discharges, assignments and escalation
  * acknowledgements. The same schemas check the forms on the client and the bodies on the server.
  */
 
-export { CONTROL_MODE_LABELS, CONTROL_MODES, HEAT_SOURCE_LABELS, HEAT_SOURCES } from '../vocabulary';
+export { CONTROL_MODE_LABELS, CONTROL_MODES, HEAT_SOURCE_LABELS, HEAT_SOURCES, INFANT_SEX_LABELS, INFANT_SEXES } from '../vocabulary';
 
 const heatSource = z.enum(HEAT_SOURCES, { error: 'Choose a heat source.' });
 const controlMode = z.enum(CONTROL_MODES, { error: 'Choose skin servo, air servo or manual.' });
 const id = (what: string) => z.string({ error: `Choose ${what}.` }).trim().min(1, `Choose ${what}.`).max(100);
 
 /** Form inputs arrive as text; the API accepts numbers. Both pass through here. */
+/** The hospital's number for the infant: letters, digits, '-' and '/', as printed on the wristband. */
+const hospitalNumber = z
+  .string({ error: 'Enter the hospital number.' })
+  .trim()
+  .min(3, 'Enter the hospital number (at least 3 characters).')
+  .max(30, 'A hospital number has at most 30 characters.')
+  .regex(/^[A-Za-z0-9][A-Za-z0-9\-/]*$/, 'Use letters, digits, - and / only.');
+const sex = z.enum(INFANT_SEXES, { error: 'Choose female, male, indeterminate or not known.' });
+
 const wholeNumber = (label: string, min: number, max: number, unit = '') =>
   z.coerce
     .number({ error: `${label} must be a number.` })
@@ -37,6 +46,8 @@ export const admitInfantSchema = z
       .refine(Number.isFinite, 'Set temperature must be a number.'),
     tempUnit: z.enum(['C', 'F'], { error: 'Choose °C or °F.' }).default('C'),
   })
+    hospitalNumber: hospitalNumber.optional(),
+    sex: sex.optional(),
   .superRefine((v, ctx) => {
     const celsius = v.tempUnit === 'F' ? ((v.setTemperature - 32) * 5) / 9 : v.setTemperature;
     if (!(celsius >= 25 && celsius <= 39.5)) {
@@ -58,6 +69,8 @@ export const admitFormSchema = z.object({
   controlMode,
   setTemperature: z.string().regex(/^\d{2,3}([.,]\d{1,2})?$/, 'Enter a temperature such as 36.5.'),
 });
+  hospitalNumber,
+  sex,
 export type AdmitForm = z.infer<typeof admitFormSchema>;
 
 export function admitFormToInput(form: AdmitForm, bedId: string, tempUnit: 'C' | 'F'): AdmitInfantInput {
@@ -74,6 +87,8 @@ export function admitFormToInput(form: AdmitForm, bedId: string, tempUnit: 'C' |
     setTemperature: Number(form.setTemperature.replace(',', '.')),
     tempUnit,
   };
+    hospitalNumber: form.hospitalNumber,
+    sex: form.sex,
 }
 
 export const moveInfantSchema = z.strictObject({ bedId: id('a bed') });

@@ -28,6 +28,8 @@ export interface ReviewQueueItem {
   shiftDate: string;
   /** The nurse concerned: who charted the raising reading, or for an overdue check the assigned nurse. */
   nurse: PersonRef | null;
+  /** When the raising reading came from a file that named no nurse: who imported it (never the nurse concerned). */
+  importedBy: PersonRef | null;
   /** Short words on what happened, e.g. "Probe 36.90 °C, remote site 36.20 °C". */
   summary: string;
   firstActionAt: string | null;
@@ -40,8 +42,10 @@ export interface ReviewQueueItem {
 
 export interface ReviewQueueResponse {
   items: ReviewQueueItem[];
-  /** How many items match the filters; more than items.length when the page cap cut the list. */
+  /** How many items match the filters, on every page together. */
   total: number;
+  /** Pass as `cursor` for the next page; null on the last page. */
+  nextCursor: string | null;
   /** Nurses who appear in the unfiltered queue, for the nurse filter. */
   nurses: PersonRef[];
   units: Array<{ id: string; name: string }>;

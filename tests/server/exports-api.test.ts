@@ -94,7 +94,9 @@ describe('FHIR R4 bundle per infant', () => {
   it('is a collection of one Patient and Observations about them', () => {
     expect(bundle.resourceType).toBe('Bundle');
     expect(fhirpath.evaluate(bundle, "entry.resource.where(resourceType = 'Patient').count()")).toEqual([1]);
-    expect(fhirpath.evaluate(bundle, "entry.resource.where(resourceType = 'Observation').subject.reference.distinct()")).toEqual(['Patient/inf-ashgrove']);
+    const patientUrl = fhirpath.evaluate(bundle, "entry.where(resource.resourceType = 'Patient').fullUrl");
+    expect(patientUrl).toEqual([expect.stringMatching(/^urn:uuid:/)]);
+    expect(fhirpath.evaluate(bundle, "entry.resource.where(resourceType = 'Observation').subject.reference.distinct()")).toEqual(patientUrl);
   });
 
   it('remote-site readings are body temperatures in Cel with the axillary code and body site', () => {
