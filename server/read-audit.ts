@@ -43,3 +43,40 @@ export function auditRead(sqlite: Database.Database, input: AuditInput): Promise
     });
   });
 }
+
+/** What a list answer returned: each infant with its unit. */
+export interface ListedInfant {
+  infantId: string;
+  unitId: string;
+}
+
+/**
+ * Record that a list answer (My infants, the unit's infants, the board, the review queue…) showed
+ * these infants: one 'list-read' event per unit, naming the infants of that unit in the order
+ * shown, plus the view and the filter asked for. An answer that showed no infant writes nothing.
+ * Group-committed with the other reads in flight (auditRead); await it before answering.
+ */
+export async function auditListRead(
+  sqlite: Database.Database,
+  read: { at: Date; actorId: string; view: string; infants: readonly ListedInfant[]; filter?: Record<string, unknown> },
+): Promise<void> {
+  const byUnit = new Map<string, string[]>();
+  for (const { infantId, unitId } of read.infants) {
+    const ids = byUnit.get(unitId) ?? [];
+    if (!ids.includes(infantId)) ids.push(infantId);
+    byUnit.set(unitId, ids);
+  }
+  await Promise.all(
+    [...byUnit].map(([unitId, infantIds]) =>
+      auditRead(sqlite, {
+        at: read.at,
+        actorId: read.actorId,
+        action: 'list-read',
+        entityType: 'infant-list',
+        entityId: null,
+        unitId,
+        after: { view: read.view, infantIds, ...(read.filter ? { filter: read.filter } : {}) },
+      }),
+    ),
+  );
+}

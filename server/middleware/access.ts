@@ -3,6 +3,7 @@ import { Router, type NextFunction, type Request, type RequestHandler, type Resp
 import { can, type Permission } from '../../shared/roles';
 import type { AppContext } from '../context';
 import { forbidden, notFound, unauthorized } from '../errors';
+import { assertManageable } from '../services/admin-users';
 import { verifyToken } from '../services/auth';
 
 export type Access = 'public' | 'signed-in' | Permission;
@@ -57,13 +58,8 @@ export function checkUnitScope(ctx: AppContext, req: Request): void {
   if (typeof params.id === 'string' && /\/units\/:id(\/|$)/.test(pattern)) return assertMember(params.id);
   if (typeof params.flagId === 'string') return assertRowUnit(sqlite, auth.unitIds, 'flags', params.flagId, 'flag');
   if (typeof params.id !== 'string') return;
-  if (/\/users\/:id(\/|$)/.test(pattern)) {
-    const units = (prepared(sqlite, 'SELECT unit_id FROM user_units WHERE user_id = ?').all(params.id) as Array<{ unit_id: string }>).map((r) => r.unit_id);
-    const exists = prepared(sqlite, 'SELECT 1 FROM users WHERE id = ?').get(params.id);
-    if (!exists) throw notFound('That user');
-    if (units.length > 0 && !units.some((u) => auth.unitIds.includes(u))) throw forbidden('That person works in a unit you do not manage.');
-    return;
-  }
+  // A person is changed only by an administrator of every unit they work in (see assertManageable).
+  if (/\/users\/:id(\/|$)/.test(pattern)) return assertManageable(ctx.database, params.id, auth.unitIds);
   const entry = ENTITY_BY_PATH.find(([re]) => re.test(pattern));
   if (entry) assertRowUnit(sqlite, auth.unitIds, entry[1], params.id, entry[2]);
 }

@@ -13,7 +13,7 @@ import { checkPlausibility, toCentiCelsius } from '../../shared/thermal';
 import { shiftAt } from '../../shared/shifts';
 import type { CreateReadingResult, InfantDetail } from '../../shared/types/bedside';
 import { appendAudit } from '../audit';
-import { auditRead } from '../read-audit';
+import { auditListRead, auditRead } from '../read-audit';
 import { batchedWrite } from '../write-batch';
 import type { AppContext } from '../context';
 import { ApiError, badRequest, conflict } from '../errors';
@@ -43,7 +43,7 @@ export function infantsRouter(ctx: AppContext) {
   const { sqlite } = ctx.database;
 
   /** The signed-in nurse's infants for the current shift (the latest assignment row wins). */
-  router.get('/mine', allow(ctx, 'chart:read'), (req, res) => {
+  router.get('/mine', allow(ctx, 'chart:read'), async (req, res) => {
     const auth = req.auth!;
     const now = ctx.clock.now();
     const ids: string[] = [];
@@ -63,11 +63,13 @@ export function infantsRouter(ctx: AppContext) {
       for (const [infantId, nurseId] of latest) if (nurseId === auth.userId) ids.push(infantId);
     }
     const ordered = orderByBed(ids);
-    res.json({ infants: summarizeInfants(sqlite, ordered, now) });
+    const infants = summarizeInfants(sqlite, ordered, now);
+    await auditListRead(sqlite, { at: now, actorId: auth.userId, view: 'my-infants', infants: infants.map((i) => ({ infantId: i.id, unitId: i.unitId })) });
+    res.json({ infants });
   });
 
   /** Every admitted infant of one of my units, or of all of them. */
-  router.get('/', allow(ctx, 'chart:read'), validate('query', infantListQuerySchema), (req, res) => {
+  router.get('/', allow(ctx, 'chart:read'), validate('query', infantListQuerySchema), async (req, res) => {
     const { unitId } = valid<InfantListQuery>(req, 'query');
     if (unitId) assertUnit(req, unitId);
     const unitIds = unitId ? [unitId] : req.auth!.unitIds;
@@ -78,7 +80,10 @@ export function infantsRouter(ctx: AppContext) {
           ORDER BY i.unit_id, b.sort_order, b.label, i.display_name`,
       )
       .all(JSON.stringify(unitIds)) as Array<{ id: string }>;
-    res.json({ infants: summarizeInfants(sqlite, rows.map((r) => r.id), ctx.clock.now()) });
+    const now = ctx.clock.now();
+    const infants = summarizeInfants(sqlite, rows.map((r) => r.id), now);
+    await auditListRead(sqlite, { at: now, actorId: req.auth!.userId, view: 'unit-infants', infants: infants.map((i) => ({ infantId: i.id, unitId: i.unitId })), filter: unitId ? { unitId } : undefined });
+    res.json({ infants });
   });
 
   router.get('/:id', allow(ctx, 'chart:read'), (req, res) => {

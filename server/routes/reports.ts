@@ -68,7 +68,7 @@ export function reportsRouter(ctx: AppContext) {
     const { items } = reviewQueue(ctx, req.auth!.unitIds, { ...query, cursor: undefined, limit: 'all' });
     const { sqlite } = ctx.database;
     sqlite
-      .transaction(() => appendAudit(sqlite, { at: ctx.clock.now(), actorId: req.auth!.userId, action: 'export-flags-csv', entityType: 'flag', entityId: null, unitId: query.unitId ?? null, after: { ...query, rows: items.length } }))
+      .transaction(() => appendAudit(sqlite, { at: ctx.clock.now(), actorId: req.auth!.userId, action: 'export-flags-csv', entityType: 'flag', entityId: null, unitId: query.unitId ?? null, after: { ...query, rows: items.length, infantIds: [...new Set(items.map((i) => i.infantId))] } }))
       .immediate();
     sendCsv(res, `flags-${suffixOf(query)}.csv`, flagsCsv(items, loadReviews(sqlite, items.map((i) => i.flagId))));
   });

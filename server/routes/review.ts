@@ -1,6 +1,9 @@
 import { reviewQueueQuerySchema, teachingNoteSchema, type ReviewQueueQuery, type TeachingNoteInput } from '../../shared/schemas/review';
+import { inArray } from 'drizzle-orm';
+import { flags } from '../../db/schema';
 import type { AppContext } from '../context';
-import { allow, secureRouter } from '../middleware/access';
+import { allow, assertUnit, secureRouter } from '../middleware/access';
+import { auditListRead } from '../read-audit';
 import { valid, validate } from '../middleware/validate';
 import { addTeachingNote, myReviewNotes, reviewItemDetail, reviewQueue } from '../services/review';
 
@@ -8,9 +11,14 @@ import { addTeachingNote, myReviewNotes, reviewItemDetail, reviewQueue } from '.
 export function reviewRouter(ctx: AppContext) {
   const router = secureRouter();
 
-  router.get('/review/queue', allow(ctx, 'review:work'), validate('query', reviewQueueQuerySchema), (req, res) => {
+  router.get('/review/queue', allow(ctx, 'review:work'), validate('query', reviewQueueQuerySchema), async (req, res) => {
     const query = valid<ReviewQueueQuery>(req, 'query');
-    res.json(reviewQueue(ctx, req.auth!.unitIds, query));
+    // A unit outside the user's own is refused, never answered with an empty queue.
+    if (query.unitId) assertUnit(req, query.unitId);
+    const queue = reviewQueue(ctx, req.auth!.unitIds, query);
+    const { sqlite } = ctx.database;
+    await auditListRead(sqlite, { at: ctx.clock.now(), actorId: req.auth!.userId, view: 'review-queue', infants: queue.items.map((i) => ({ infantId: i.infantId, unitId: i.unitId })), filter: query });
+    res.json(queue);
   });
 
   router.get('/review/items/:flagId', allow(ctx, 'review:work'), (req, res) => {
@@ -22,8 +30,12 @@ export function reviewRouter(ctx: AppContext) {
     res.status(201).json({ review: addTeachingNote(ctx, (req.params as { flagId: string }).flagId, note, req.auth!) });
   });
 
-  router.get('/reviews/mine', allow(ctx, 'signed-in'), (req, res) => {
-    res.json({ notes: myReviewNotes(ctx, req.auth!) });
+  router.get('/reviews/mine', allow(ctx, 'signed-in'), async (req, res) => {
+    const notes = myReviewNotes(ctx, req.auth!);
+    const flagIds = [...new Set(notes.map((n) => n.flagId))];
+    const shown = flagIds.length ? ctx.database.db.select({ infantId: flags.infantId, unitId: flags.unitId }).from(flags).where(inArray(flags.id, flagIds)).all() : [];
+    await auditListRead(ctx.database.sqlite, { at: ctx.clock.now(), actorId: req.auth!.userId, view: 'my-review-notes', infants: shown });
+    res.json({ notes });
   });
 
   return router;

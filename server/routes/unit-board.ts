@@ -6,7 +6,7 @@ import { allow, assertUnit, secureRouter } from '../middleware/access';
 import { valid, validate } from '../middleware/validate';
 import { admitInfant, assignNurse, listAssignableNurses } from '../services/admissions';
 import { auditRead } from '../read-audit';
-import { boardBody } from '../services/board-cache';
+import { boardBody, boardInfantIds } from '../services/board-cache';
 
 type UnitParams = { unitId: string };
 
@@ -26,7 +26,7 @@ export function unitBoardRouter(ctx: AppContext) {
     const now = ctx.clock.now();
     const body = boardBody(sqlite, unitId, now);
     if (body === null) throw notFound('That unit');
-    await auditRead(sqlite, { at: now, actorId: req.auth!.userId, action: 'board-read', entityType: 'unit', entityId: unitId, unitId });
+    await auditRead(sqlite, { at: now, actorId: req.auth!.userId, action: 'board-read', entityType: 'unit', entityId: unitId, unitId, after: { infantIds: boardInfantIds(body) } });
     body.send(req, res);
   });
 

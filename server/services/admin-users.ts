@@ -6,6 +6,9 @@ import type { AdminUnit, AdminUser } from '../../shared/types/admin';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { badRequest, conflict, forbidden, notFound } from '../errors';
+import { eq } from 'drizzle-orm';
+import type { Database_ } from '../../db/client';
+import { units, userUnits, users } from '../../db/schema';
 import { revokeAllSessions } from './auth';
 import { issueLink, type IssuedLink } from './email-links';
 
@@ -22,17 +25,19 @@ function unitsOf(sqlite: Database.Database, userId: string): string[] {
   return (sqlite.prepare('SELECT unit_id FROM user_units WHERE user_id = ? ORDER BY unit_id').all(userId) as Array<{ unit_id: string }>).map((r) => r.unit_id);
 }
 
-export function toAdminUser(sqlite: Database.Database, row: UserRow, now: number): AdminUser {
+export function toAdminUser(sqlite: Database.Database, row: UserRow, now: number, adminUnits: readonly string[]): AdminUser {
   const invite = sqlite
     .prepare("SELECT expires_at FROM email_tokens WHERE user_id = ? AND kind = 'invite' AND used_at IS NULL AND expires_at > ? ORDER BY created_at DESC LIMIT 1")
     .get(row.id, now) as { expires_at: number } | undefined;
+  const unitIds = unitsOf(sqlite, row.id);
   return {
     id: row.id,
     name: row.name,
     email: row.email,
     role: row.role,
     active: row.active === 1,
-    unitIds: unitsOf(sqlite, row.id),
+    unitIds,
+    manageable: unitIds.every((u) => adminUnits.includes(u)),
     status: row.active !== 1 ? 'deactivated' : row.password_hash ? 'active' : 'invited',
     inviteExpiresAt: invite ? new Date(invite.expires_at).toISOString() : null,
   };
@@ -44,7 +49,7 @@ export function listUsers(ctx: AppContext, adminUnits: string[]): AdminUser[] {
   const rows = sqlite.prepare('SELECT id, name, email, role, active, password_hash FROM users ORDER BY name').all() as UserRow[];
   const now = ctx.clock.now().getTime();
   return rows
-    .map((r) => toAdminUser(sqlite, r, now))
+    .map((r) => toAdminUser(sqlite, r, now, adminUnits))
     .filter((u) => u.unitIds.length === 0 || u.unitIds.some((id) => adminUnits.includes(id)));
 }
 
@@ -59,12 +64,46 @@ function assertUnitsExist(sqlite: Database.Database, unitIds: string[]): void {
   }
 }
 
+/**
+ * An administrator acts only inside their units: a person who also works in a unit the admin does
+ * not administer can be seen (they share a unit) but not changed, since a new role, unit or status,
+ * or a reset link, would act in that other unit too. Someone in no unit yet can be placed. Throws
+ * 404 for an unknown person and 403 naming the reason otherwise.
+ */
+export function assertManageable(database: Database_, userId: string, adminUnits: readonly string[]): void {
+  const person = database.db.select({ name: users.name }).from(users).where(eq(users.id, userId)).get();
+  if (!person) throw notFound('That user');
+  const memberships = database.db
+    .select({ id: units.id, name: units.name })
+    .from(userUnits)
+    .innerJoin(units, eq(units.id, userUnits.unitId))
+    .where(eq(userUnits.userId, userId))
+    .orderBy(units.name)
+    .all();
+  const outside = memberships.filter((u) => !adminUnits.includes(u.id));
+  if (outside.length === 0) return;
+  if (outside.length === memberships.length) throw forbidden('That person works in a unit you do not administer.');
+  throw forbidden(
+    `${person.name} also works in ${outside.map((u) => u.name).join(' and ')}, which you do not administer. ` +
+      'Only an administrator of every unit a person works in can change their role, units or status or send them a link.',
+  );
+}
+
+/**
+ * Whether an e-mail address has an account, and whether the administrator may be told: yes when
+ * the account works in one of their units or in none yet; an account only in other units is not
+ * revealed (the roster preview shows it as it shows a new address).
+ */
+export function accountFor(database: Database_, email: string, adminUnits: readonly string[]): { exists: boolean; visible: boolean } {
+  const account = database.db.select({ id: users.id }).from(users).where(eq(users.email, email)).get();
+  if (!account) return { exists: false, visible: false };
+  const memberships = database.db.select({ unitId: userUnits.unitId }).from(userUnits).where(eq(userUnits.userId, account.id)).all();
+  return { exists: true, visible: memberships.length === 0 || memberships.some((m) => adminUnits.includes(m.unitId)) };
+}
+
 function loadUser(ctx: AppContext, userId: string, adminUnits: string[]): UserRow {
-  const row = ctx.database.sqlite.prepare('SELECT id, name, email, role, active, password_hash FROM users WHERE id = ?').get(userId) as UserRow | undefined;
-  if (!row) throw notFound('That user');
-  const units = unitsOf(ctx.database.sqlite, userId);
-  if (units.length && !units.some((u) => adminUnits.includes(u))) throw forbidden('This person belongs to a unit you are not part of.');
-  return row;
+  assertManageable(ctx.database, userId, adminUnits);
+  return ctx.database.sqlite.prepare('SELECT id, name, email, role, active, password_hash FROM users WHERE id = ?').get(userId) as UserRow;
 }
 
 /**
@@ -92,7 +131,7 @@ export function createUser(ctx: AppContext, input: CreateUserInput, admin: { use
     .transaction(() => {
       if (sqlite.prepare('SELECT 1 FROM users WHERE email = ?').get(input.email)) throw conflict('Someone already has that e-mail.', { email: 'An account with this e-mail exists.' });
       const { user, link } = createUserRows(ctx, sqlite, input, admin.userId);
-      return { user: toAdminUser(sqlite, user, ctx.clock.now().getTime()), link };
+      return { user: toAdminUser(sqlite, user, ctx.clock.now().getTime(), admin.unitIds), link };
     })
     .immediate();
 }
@@ -127,11 +166,12 @@ export function updateUser(ctx: AppContext, userId: string, input: UpdateUserInp
       }
       appendAudit(sqlite, {
         at: now, actorId: admin.userId, action: 'user-updated', entityType: 'user', entityId: userId, unitId: null,
-        before: { name: before.name, role: before.role, unitIds: beforeUnits }, after: input,
+        before: { name: before.name, role: before.role, unitIds: beforeUnits },
+        after: { name: input.name ?? before.name, role: input.role ?? before.role, unitIds: unitsOf(sqlite, userId) },
       });
     })
     .immediate();
-  return toAdminUser(sqlite, sqlite.prepare('SELECT id, name, email, role, active, password_hash FROM users WHERE id = ?').get(userId) as UserRow, now.getTime());
+  return toAdminUser(sqlite, sqlite.prepare('SELECT id, name, email, role, active, password_hash FROM users WHERE id = ?').get(userId) as UserRow, now.getTime(), admin.unitIds);
 }
 
 /** Accounts are never deleted: deactivation ends every session and blocks sign-in. */
@@ -148,7 +188,7 @@ export function setUserActive(ctx: AppContext, userId: string, active: boolean, 
       appendAudit(sqlite, { at: now, actorId: admin.userId, action: active ? 'user-reactivated' : 'user-deactivated', entityType: 'user', entityId: userId, unitId: null, before: { active: before.active === 1 }, after: { active } });
     })
     .immediate();
-  return toAdminUser(sqlite, { ...before, active: active ? 1 : 0 }, now.getTime());
+  return toAdminUser(sqlite, { ...before, active: active ? 1 : 0 }, now.getTime(), admin.unitIds);
 }
 
 /** A new invitation (no password yet) or a reset link (has one). */

@@ -23,6 +23,13 @@ interface Cached {
 }
 
 const caches = new WeakMap<Database.Database, Map<string, Cached>>();
+/** The infants each built board shows, for the read's audit event. */
+const boardInfants = new WeakMap<CompressedJson, readonly string[]>();
+
+/** The ids of the infants a board from boardBody shows, in bed order. */
+export function boardInfantIds(body: CompressedJson): readonly string[] {
+  return boardInfants.get(body) ?? [];
+}
 const versions = new WeakMap<Database.Database, () => string>();
 
 /**
@@ -79,6 +86,7 @@ export function boardBody(sqlite: Database.Database, unitId: string, now: Date):
     return null;
   }
   const body = new CompressedJson(JSON.stringify(board satisfies BoardResponse));
+  boardInfants.set(body, board.beds.flatMap((b) => (b.infant ? [b.infant.id] : [])));
   boards.set(unitId, { version, builtAt: now.getTime(), body });
   return body;
 }

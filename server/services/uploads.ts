@@ -10,9 +10,12 @@ import type { ImportResult, UploadPreview, UploadRowPreview } from '../../shared
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { badRequest, forbidden, notFound } from '../errors';
-import { createUserRows } from './admin-users';
+import type { Database_ } from '../../db/client';
+import { accountFor, createUserRows } from './admin-users';
 import { mailLinkSafely, type IssuedLink } from './email-links';
 import { syncFlags } from './flags';
+import { unsafeTextReason } from '../../shared/schemas/safe-text';
+import { multipartErrorsAs400 } from '../middleware/validate';
 
 const CSV_TYPES = new Set(['text/csv', 'application/csv', 'text/plain', 'application/vnd.ms-excel', 'text/comma-separated-values']);
 
@@ -22,7 +25,7 @@ export function uploadsDir(ctx: AppContext): string {
 
 /** One CSV file in the field `file`, kept on disk under the data folder; size and type limited. */
 export function csvUpload(ctx: AppContext) {
-  return multer({
+  return multipartErrorsAs400(multer({
     storage: multer.diskStorage({
       destination: (_req, _file, cb) => {
         const dir = uploadsDir(ctx);
@@ -32,13 +35,18 @@ export function csvUpload(ctx: AppContext) {
     }),
     limits: { fileSize: MAX_UPLOAD_BYTES, files: 1, fields: 5, parts: 8 },
     fileFilter: (_req, file, cb) => {
+      const unsafeName = unsafeTextReason(file.originalname);
+      if (unsafeName) {
+        cb(badRequest('The file name cannot be stored.', { file: `File name: ${unsafeName}` }));
+        return;
+      }
       if (!/\.csv$/i.test(file.originalname) || !CSV_TYPES.has(file.mimetype)) {
         cb(badRequest('Only CSV files can be uploaded.', { file: 'Choose a .csv file (comma-separated text).' }));
         return;
       }
       cb(null, true);
     },
-  }).single('file');
+  }).single('file'));
 }
 
 function removeFile(file: string): void {
@@ -152,7 +160,8 @@ function previewOf(upload: UploadRow, rows: UploadRowPreview[]): UploadPreview {
 // Roster
 // --------------------------------------------------------------------------------------------
 
-function checkRoster(sqlite: Database.Database, parsed: ParsedFile, adminUnits: string[]): Array<UploadRowPreview & { value?: RosterRow & { unitId: string } }> {
+function checkRoster(database: Database_, parsed: ParsedFile, adminUnits: string[]): Array<UploadRowPreview & { value?: RosterRow & { unitId: string } }> {
+  const { sqlite } = database;
   const units = sqlite.prepare('SELECT id, name FROM units').all() as Array<{ id: string; name: string }>;
   const seen = new Set<string>();
   return parsed.rows.map(({ line, values }) => {
@@ -170,7 +179,10 @@ function checkRoster(sqlite: Database.Database, parsed: ParsedFile, adminUnits: 
     }
     const shownValues = Object.fromEntries(ROSTER_COLUMNS.map((c) => [c, values[c] ?? '']));
     if (errors.length || !value || !unitId) return { line, values: shownValues, errors, action: 'error' as const };
-    if (sqlite.prepare('SELECT 1 FROM users WHERE email = ?').get(value.email)) return { line, values: shownValues, errors: [], action: 'skip' as const, note: 'Already has an account' };
+    // An address with an account only in other units looks like a new one here (accountFor); the import skips it.
+    const account = accountFor(database, value.email, adminUnits);
+    if (account.visible) return { line, values: shownValues, errors: [], action: 'skip' as const, note: 'Already has an account' };
+    if (account.exists) return { line, values: shownValues, errors: [], action: 'create' as const };
     return { line, values: shownValues, errors: [], action: 'create' as const, value: { ...value, unitId } };
   });
 }
@@ -182,7 +194,7 @@ export function previewRoster(ctx: AppContext, req: Request): UploadPreview {
   const { upload, text } = registerUpload(ctx, req, 'roster', null);
   const parsed = parseCsv(text);
   checkHeader(parsed, ROSTER_COLUMNS, upload.stored_name === path.basename(file.path) ? file.path : undefined);
-  const rows = checkRoster(ctx.database.sqlite, parsed, req.auth!.unitIds);
+  const rows = checkRoster(ctx.database, parsed, req.auth!.unitIds);
   saveUploadRow(ctx, upload, rows.length, file.size);
   return previewOf(upload, strip(rows));
 }
@@ -208,7 +220,7 @@ export async function importRoster(ctx: AppContext, uploadId: string, auth: { us
       // Checked again inside the write lock, so two admins importing the same file create nobody twice.
       const fresh = sqlite.prepare('SELECT status FROM uploads WHERE id = ?').get(upload.id) as { status: string };
       if (fresh.status === 'imported') return { created: 0, skipped: upload.row_count, alreadyImported: true };
-      const rows = checkRoster(sqlite, parsed, auth.unitIds);
+      const rows = checkRoster(ctx.database, parsed, auth.unitIds);
       const bad = rows.filter((r) => r.action === 'error');
       if (bad.length) throw badRequest('Some rows have errors; nothing was imported.', { file: `${bad.length} row${bad.length > 1 ? 's have' : ' has'} errors (first: line ${bad[0]!.line}). Fix the file and upload it again.` });
       let created = 0;

@@ -1,8 +1,9 @@
 import { z } from 'zod';
+import { safeText } from './safe-text';
 import { ROLES } from '../roles';
 import { emailSchema } from './auth';
 
-const name = z.string({ error: 'Enter a name.' }).trim().min(2, 'Enter the full name.').max(120, 'That name is too long.');
+const name = safeText({ error: 'Enter a name.' }).min(2, 'Enter the full name.').max(120, 'That name is too long.');
 const unitIds = z.array(z.string().min(1).max(100)).max(20);
 
 export const createUserSchema = z.strictObject({
@@ -26,7 +27,7 @@ const timeOfDay = z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Use a time as H
 
 export const unitSettingsSchema = z
   .strictObject({
-    name: z.string().trim().min(2).max(120).optional(),
+    name: safeText().min(2, 'Use at least 2 characters.').max(120, 'That name is too long.').optional(),
     checkIntervalMinutes: z.number({ error: 'Enter minutes.' }).int('Whole minutes.').min(15, 'At least 15 minutes.').max(480, 'At most 8 hours.').optional(),
     dueSoonMinutes: z.number({ error: 'Enter minutes.' }).int('Whole minutes.').min(0).max(120, 'At most 120 minutes.').optional(),
     gapLimitCenti: z.number({ error: 'Enter a limit.' }).int('Whole hundredths of a degree.').min(10, 'At least 0.10 °C.').max(200, 'At most 2.00 °C.').optional(),
@@ -51,7 +52,7 @@ export const unitSettingsSchema = z
 export type UnitSettingsInput = z.infer<typeof unitSettingsSchema>;
 
 export const createBedSchema = z.strictObject({
-  label: z.string({ error: 'Enter a bed label.' }).trim().min(1, 'Enter a bed label.').max(20, 'At most 20 characters.').regex(/^[\w -]+$/, 'Letters, digits, spaces and dashes only.'),
+  label: safeText({ error: 'Enter a bed label.' }).min(1, 'Enter a bed label.').max(20, 'At most 20 characters.').regex(/^[\w -]+$/, 'Letters, digits, spaces and dashes only.'),
 });
 export type CreateBedInput = z.infer<typeof createBedSchema>;
 

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { safeNote, safeText } from './safe-text';
 import { ACTION_KINDS, CONTROL_MODES, HEAT_SIGNS, HEAT_SOURCES, REMOTE_SITES } from '../vocabulary';
 
 export { ACTION_KINDS, ACTION_LABELS, FUTURE_TOLERANCE_MINUTES, LATE_ENTRY_MINUTES, type ActionKind } from '../vocabulary';
@@ -33,7 +34,7 @@ const readingValueFields = {
   heaterOutputPct: z.number({ error: 'Heater output must be a number.' }).int('Use a whole percentage.').min(0, 'At least 0 %.').max(100, 'At most 100 %.').nullable().optional(),
   heartRate: z.number({ error: 'Heart rate must be a number.' }).int('Use whole beats per minute.').min(30, 'Below 30/min is not a plausible heart rate.').max(300, 'Above 300/min is not a plausible heart rate.').nullable().optional(),
   heatSigns: z.array(heatSignSchema).max(5).default([]),
-  note: z.string().trim().max(1000, 'Keep the note under 1,000 characters.').nullable().optional(),
+  note: safeNote().max(1000, 'Keep the note under 1,000 characters.').nullable().optional(),
   /** The nurse confirmed a value outside the plausible range. */
   confirmedImplausible: z.boolean().default(false),
 };
@@ -42,7 +43,7 @@ export const createReadingSchema = z
   .strictObject({
     id: uuid,
     ...readingValueFields,
-    lateReason: z.string().trim().max(300).nullable().optional(),
+    lateReason: safeNote().max(300, 'Keep the reason under 300 characters.').nullable().optional(),
   })
   .superRefine((v, ctx) => {
     if (v.probe == null && v.remote == null && v.air == null && v.heartRate == null) {
@@ -61,7 +62,7 @@ export const correctionReasonSchema = z.enum(['corrected-value', 'entered-in-err
 export const correctReadingSchema = z.strictObject({
   id: uuid,
   reason: correctionReasonSchema,
-  note: z.string().trim().min(1, 'Say briefly what was wrong.').max(500),
+  note: safeNote().min(1, 'Say briefly what was wrong.').max(500, 'Keep the note under 500 characters.'),
   values: z
     .strictObject(readingValueFields)
     .optional(),
@@ -71,7 +72,7 @@ export type CorrectReadingInput = z.input<typeof correctReadingSchema>;
 export const createActionSchema = z.strictObject({
   id: uuid,
   kind: z.enum(ACTION_KINDS, { error: 'Choose what was done.' }),
-  note: z.string().trim().max(500).nullable().optional(),
+  note: safeNote().max(500, 'Keep the note under 500 characters.').nullable().optional(),
   at: isoInstant.optional(),
 });
 export type CreateActionInput = z.input<typeof createActionSchema>;
@@ -81,7 +82,7 @@ export const startSessionSchema = z.strictObject({
   unit: tempUnitSchema,
   reference: z.number({ error: 'Enter the reference temperature.' }).refine(Number.isFinite, 'Enter the reference temperature.'),
   limitCenti: z.union([z.literal(50), z.literal(100)], { error: 'Choose 0.5 °C or 1.0 °C.' }),
-  carer: z.string().trim().max(80).nullable().optional(),
+  carer: safeText().max(80, 'Keep the name under 80 characters.').nullable().optional(),
   startedAt: isoInstant.optional(),
 });
 export type StartSessionInput = z.input<typeof startSessionSchema>;

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { safeNote } from './safe-text';
 import { REVIEW_KINDS, REVIEW_PAGE_MAX, REVIEW_STATUSES, TEACHING_NOTE_MAX } from '../vocabulary';
 
 export { REVIEW_KIND_LABELS, REVIEW_KINDS, REVIEW_PAGE_MAX, REVIEW_STATUSES, TEACHING_NOTE_MAX, type ReviewKind, type ReviewStatus } from '../vocabulary';
@@ -39,9 +40,7 @@ export const reviewQueueQuerySchema = z
 export type ReviewQueueQuery = z.infer<typeof reviewQueueQuerySchema>;
 
 export const teachingNoteSchema = z.strictObject({
-  note: z
-    .string({ error: 'Write a teaching note.' })
-    .trim()
+  note: safeNote('Write a teaching note.')
     .min(3, 'Write a teaching note of a few words at least.')
     .max(TEACHING_NOTE_MAX, `Keep the note under ${TEACHING_NOTE_MAX} characters.`),
 });

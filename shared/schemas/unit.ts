@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { safeNote, safeText } from './safe-text';
 import { CONTROL_MODES, HEAT_SOURCES, INFANT_SEXES } from '../vocabulary';
 
 /**
@@ -33,7 +34,7 @@ const wholeNumber = (label: string, min: number, max: number, unit = '') =>
 export const admitInfantSchema = z
   .strictObject({
     bedId: id('a bed'),
-    displayName: z.string({ error: 'Enter a display name.' }).trim().min(1, 'Enter a display name.').max(60, 'Keep the display name under 60 characters.'),
+    displayName: safeText({ error: 'Enter a display name.' }).min(1, 'Enter a display name.').max(60, 'Keep the display name under 60 characters.'),
     birthAt: z.iso.datetime({ offset: true, error: 'Enter the date and time of birth.' }),
     gestationWeeks: wholeNumber('Weeks', 22, 44),
     gestationDays: wholeNumber('Days', 0, 6),
@@ -59,7 +60,7 @@ export type AdmitInfant = z.output<typeof admitInfantSchema>;
 
 /** The admit form: birth date and time typed separately, read in the device's local time. */
 export const admitFormSchema = z.object({
-  displayName: z.string().trim().min(1, 'Enter a display name.').max(60, 'Keep the display name under 60 characters.'),
+  displayName: safeText().min(1, 'Enter a display name.').max(60, 'Keep the display name under 60 characters.'),
   birthDate: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use YYYY-MM-DD.'),
   birthTime: z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Use HH:MM (24-hour).'),
   gestationWeeks: z.string().regex(/^\d{2}$/, 'Weeks: 22 to 44.').refine((v) => Number(v) >= 22 && Number(v) <= 44, 'Weeks: 22 to 44.'),
@@ -103,7 +104,7 @@ export const updateInfantSchema = z
 export type UpdateInfantInput = z.input<typeof updateInfantSchema>;
 
 export const dischargeInfantSchema = z.strictObject({
-  note: z.string().trim().max(300, 'Keep the note under 300 characters.').optional(),
+  note: safeNote().max(300, 'Keep the note under 300 characters.').optional(),
 });
 export type DischargeInfantInput = z.infer<typeof dischargeInfantSchema>;
 
@@ -115,6 +116,6 @@ export const assignNurseSchema = z.strictObject({
 export type AssignNurseInput = z.input<typeof assignNurseSchema>;
 
 export const acknowledgeEscalationSchema = z.strictObject({
-  note: z.string().trim().max(300, 'Keep the note under 300 characters.').optional(),
+  note: safeNote().max(300, 'Keep the note under 300 characters.').optional(),
 });
 export type AcknowledgeEscalationInput = z.infer<typeof acknowledgeEscalationSchema>;

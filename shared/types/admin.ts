@@ -11,6 +11,8 @@ export interface AdminUser {
   /** 'active': has a password; 'invited': an invitation is waiting; 'deactivated'. */
   status: 'active' | 'invited' | 'deactivated';
   inviteExpiresAt: string | null;
+  /** False when the person also works in a unit the signed-in administrator does not administer. */
+  manageable: boolean;
 }
 
 export interface AdminBed {

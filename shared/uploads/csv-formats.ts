@@ -4,6 +4,7 @@
  * matched without regard to case or surrounding spaces. Line numbers count the header as 1.
  */
 import { emailSchema } from '../schemas/auth';
+import { unsafeTextReason } from '../schemas/safe-text';
 import { ROLES, type Role } from '../roles';
 import { isThermalInputError } from '../thermal/errors';
 import { toCentiCelsius, type TempUnit } from '../thermal/units';
@@ -56,6 +57,8 @@ export function checkRosterRow(row: Row): { value?: RosterRow; errors: string[] 
   const name = (row.name ?? '').trim();
   if (name.length < 2) errors.push('name: enter the full name');
   if (name.length > 120) errors.push('name: too long');
+  const unsafeName = unsafeTextReason(name);
+  if (unsafeName) errors.push(`name: ${unsafeName}`);
   const email = emailSchema.safeParse(row.email ?? '');
   if (!email.success) errors.push(`email: ${email.error.issues[0]?.message ?? 'not valid'}`);
   const role = (row.role ?? '').trim().toLowerCase();
