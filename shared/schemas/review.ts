@@ -27,13 +27,13 @@ export const reviewQueueQuerySchema = z
     kind: z.enum(REVIEW_KINDS, { error: 'Choose a kind of flag.' }).optional(),
     nurseId: id.optional(),
     status: z.enum(REVIEW_STATUSES, { error: 'Choose reviewed, unreviewed or all.' }).default('all'),
-    /** A page is capped, so one request can never pull the whole history. */
     /** One infant only. */
     infantId: id.optional(),
     /** Search: part of the infant's name, the bed label or the hospital number. */
     q: z.string({ error: 'Search for an infant or a bed.' }).trim().max(60, 'Search with at most 60 characters.').optional(),
     /** Where the previous page ended (its `nextCursor`). */
     cursor: z.string().max(200).regex(/^[A-Za-z0-9_-]+$/, 'That page marker is not valid.').optional(),
+    /** A page is capped, so one request can never pull the whole history. */
     limit: z.coerce.number({ error: 'Limit must be a number.' }).int('Use a whole number.').min(1, 'At least 1.').max(REVIEW_PAGE_MAX, `At most ${REVIEW_PAGE_MAX}.`).default(200),
   })
   .refine(rangeOk, RANGE_MESSAGE);
@@ -55,6 +55,7 @@ export const unitRangeQuerySchema = z
   })
   .refine(rangeOk, RANGE_MESSAGE)
   .refine((v) => Date.parse(v.to) - Date.parse(v.from) <= 366 * 86_400_000, { message: 'Choose at most a year.', path: ['to'] });
+export type UnitRangeQuery = z.infer<typeof unitRangeQuerySchema>;
 
 /** Exports: a unit and a range of local dates, optionally one infant of the unit. */
 export const exportRangeQuerySchema = z
@@ -67,4 +68,3 @@ export const exportRangeQuerySchema = z
   .refine(rangeOk, RANGE_MESSAGE)
   .refine((v) => Date.parse(v.to) - Date.parse(v.from) <= 366 * 86_400_000, { message: 'Choose at most a year.', path: ['to'] });
 export type ExportRangeQuery = z.infer<typeof exportRangeQuerySchema>;
-export type UnitRangeQuery = z.infer<typeof unitRangeQuerySchema>;

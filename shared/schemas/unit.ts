@@ -13,7 +13,6 @@ const heatSource = z.enum(HEAT_SOURCES, { error: 'Choose a heat source.' });
 const controlMode = z.enum(CONTROL_MODES, { error: 'Choose skin servo, air servo or manual.' });
 const id = (what: string) => z.string({ error: `Choose ${what}.` }).trim().min(1, `Choose ${what}.`).max(100);
 
-/** Form inputs arrive as text; the API accepts numbers. Both pass through here. */
 /** The hospital's number for the infant: letters, digits, '-' and '/', as printed on the wristband. */
 const hospitalNumber = z
   .string({ error: 'Enter the hospital number.' })
@@ -23,6 +22,7 @@ const hospitalNumber = z
   .regex(/^[A-Za-z0-9][A-Za-z0-9\-/]*$/, 'Use letters, digits, - and / only.');
 const sex = z.enum(INFANT_SEXES, { error: 'Choose female, male, indeterminate or not known.' });
 
+/** Form inputs arrive as text; the API accepts numbers. Both pass through here. */
 const wholeNumber = (label: string, min: number, max: number, unit = '') =>
   z.coerce
     .number({ error: `${label} must be a number.` })
@@ -46,9 +46,9 @@ export const admitInfantSchema = z
       .number({ error: 'Set temperature must be a number.' })
       .refine(Number.isFinite, 'Set temperature must be a number.'),
     tempUnit: z.enum(['C', 'F'], { error: 'Choose °C or °F.' }).default('C'),
-  })
     hospitalNumber: hospitalNumber.optional(),
     sex: sex.optional(),
+  })
   .superRefine((v, ctx) => {
     const celsius = v.tempUnit === 'F' ? ((v.setTemperature - 32) * 5) / 9 : v.setTemperature;
     if (!(celsius >= 25 && celsius <= 39.5)) {
@@ -69,9 +69,9 @@ export const admitFormSchema = z.object({
   heatSource,
   controlMode,
   setTemperature: z.string().regex(/^\d{2,3}([.,]\d{1,2})?$/, 'Enter a temperature such as 36.5.'),
-});
   hospitalNumber,
   sex,
+});
 export type AdmitForm = z.infer<typeof admitFormSchema>;
 
 export function admitFormToInput(form: AdmitForm, bedId: string, tempUnit: 'C' | 'F'): AdmitInfantInput {
@@ -87,9 +87,9 @@ export function admitFormToInput(form: AdmitForm, bedId: string, tempUnit: 'C' |
     controlMode: form.controlMode,
     setTemperature: Number(form.setTemperature.replace(',', '.')),
     tempUnit,
-  };
     hospitalNumber: form.hospitalNumber,
     sex: form.sex,
+  };
 }
 
 export const moveInfantSchema = z.strictObject({ bedId: id('a bed') });
