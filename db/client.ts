@@ -4,6 +4,7 @@ import { migrate } from 'drizzle-orm/better-sqlite3/migrator';
 import fs from 'node:fs';
 import path from 'node:path';
 import * as schema from './schema';
+import { installLedger } from '../server/ledger';
 
 export type Db = BetterSQLite3Database<typeof schema>;
 
@@ -24,7 +25,7 @@ export function migrationsFolder(): string {
 
 /** Open (creating if needed) and migrate a Warmfold database with the pragmas the record needs. */
 export function openDatabase(file: string): Database_ {
-  if (file !== ':memory:') fs.mkdirSync(path.dirname(file), { recursive: true });
+  if (file !== ':memory:') secureDataFiles(file);
   const sqlite = new Database(file);
   sqlite.pragma('journal_mode = WAL');
   // FULL: a reading acknowledged with 201 survives a power cut, not just a process crash.
@@ -37,7 +38,22 @@ export function openDatabase(file: string): Database_ {
   if (sync !== 2) throw new Error(`SQLite refused synchronous=FULL (got ${String(sync)})`);
   const db = drizzle(sqlite, { schema });
   migrate(db, { migrationsFolder: migrationsFolder() });
+  // Bind every write to the chained tables into the audit chain (server/ledger.ts).
+  installLedger(sqlite);
+  if (file !== ':memory:') secureDataFiles(file);
   return { sqlite, db, close: () => sqlite.close() };
+}
+
+/** Owner-only access to health data: the database's folder 0700, the file and its WAL and SHM 0600. */
+export function secureDataFiles(file: string): void {
+  const dir = path.dirname(file);
+  fs.mkdirSync(dir, { recursive: true, mode: 0o700 });
+  fs.chmodSync(dir, 0o700);
+  // SQLite gives the WAL and SHM files the database file's permissions, so create it 0600 first.
+  if (!fs.existsSync(file)) fs.closeSync(fs.openSync(file, 'a', 0o600));
+  for (const f of [file, `${file}-wal`, `${file}-shm`]) {
+    if (fs.existsSync(f)) fs.chmodSync(f, 0o600);
+  }
 }
 
 /**

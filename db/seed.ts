@@ -10,6 +10,7 @@ import { writeTx, type Database_ } from './client';
 import { bedStays } from './schema';
 import { shiftAt } from '../shared/shifts';
 import { appendAudit } from '../server/audit';
+import { withoutLedger } from '../server/ledger';
 import { syncFlags } from '../server/services/flags';
 
 export const DEMO_PASSWORD = 'warm-hands-at-night';
@@ -83,11 +84,14 @@ export function resetDatabase(database: Database_): void {
   const triggers = sqlite.prepare("SELECT name, sql FROM sqlite_master WHERE type = 'trigger'").all() as Array<{ name: string; sql: string }>;
   const tables = (sqlite.prepare("SELECT name FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%' AND name NOT LIKE '__drizzle%'").all() as Array<{ name: string }>).map((t) => t.name);
   sqlite.pragma('foreign_keys = OFF');
-  writeTx(sqlite, () => {
-    for (const t of triggers) sqlite.prepare(`DROP TRIGGER ${t.name}`).run();
-    for (const t of tables) sqlite.prepare(`DELETE FROM ${t}`).run();
-    for (const t of triggers) sqlite.prepare(t.sql).run();
-  });
+  // The row ledger's triggers are off for the reset, which empties the audit trail too; it starts again after.
+  withoutLedger(sqlite, () =>
+    writeTx(sqlite, () => {
+      for (const t of triggers) sqlite.prepare(`DROP TRIGGER ${t.name}`).run();
+      for (const t of tables) sqlite.prepare(`DELETE FROM ${t}`).run();
+      for (const t of triggers) sqlite.prepare(t.sql).run();
+    }),
+  );
   sqlite.pragma('foreign_keys = ON');
   void APPEND_ONLY;
 }

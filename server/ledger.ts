@@ -1,0 +1,194 @@
+/**
+ * The row ledger: every insert, update and delete in a chained table (server/ledger-tables.ts)
+ * appends an audit event that carries a SHA-256 of the row's canonical content, in the same
+ * statement and so the same transaction (or savepoint) as the write itself.
+ *
+ * It works through TEMP triggers on the app's connection, the way the board cache watches its
+ * tables: no write path has to remember it, a rolled-back savepoint rolls its events back too, and
+ * the group-committed readings keep their events in commit order. The hashing runs in two
+ * deterministic SQL functions registered on the connection. Another connection (a script, the
+ * sqlite3 shell, someone holding the file) writes without events, which is exactly what
+ * `npm run audit:verify` reports.
+ *
+ * Row events: action `row-insert`, `row-update`, `row-delete` or `row-baseline`; entity type the
+ * table; entity id the key; `after` is `{"v":version,"row":hash}` (`{"v":…,"was":hash}` for a
+ * delete). Their actor is empty: the app's own event for the same change names the person.
+ */
+import { createHash } from 'node:crypto';
+import type Database from 'better-sqlite3';
+import { appendAudit, auditHash, GENESIS_HASH } from './audit';
+import { CHAINED, type ChainedTable } from './ledger-tables';
+
+export type RowAction = 'row-insert' | 'row-update' | 'row-delete' | 'row-baseline';
+export const ROW_ACTIONS: readonly RowAction[] = ['row-insert', 'row-update', 'row-delete', 'row-baseline'];
+
+/** The event that records which tables the ledger covers from when, and how many rows it found there. */
+export const LEDGER_MARKER = { action: 'ledger-installed', entityType: 'ledger', entityId: 'tables' } as const;
+
+/** The hash of one row's canonical content: its table, the canonical version, and SQLite's json_array of the version's columns. */
+export function rowHash(table: string, version: number, canonical: string): string {
+  return createHash('sha256').update(`${table}\n${version}\n${canonical}`).digest('hex');
+}
+
+const q = (name: string) => `"${name.replace(/"/g, '""')}"`;
+
+/** SQL for the row's key as stored in the event's entity_id, over `prefix` (`NEW.`, `OLD.` or nothing). */
+export function keySql(table: ChainedTable, prefix = ''): string {
+  return table.key.map((k) => `CAST(${prefix}${q(k)} AS TEXT)`).join(` || ':' || `);
+}
+
+/** SQL for the canonical content of version `version` (1-based). */
+export function canonicalSql(table: ChainedTable, version: number, prefix = ''): string {
+  const columns = table.versions[version - 1];
+  if (!columns) throw new Error(`no canonical version ${version}`);
+  return `json_array(${columns.map((c) => `${prefix}${q(c)}`).join(', ')})`;
+}
+
+function columnsOf(sqlite: Database.Database, table: string): Set<string> {
+  return new Set((sqlite.prepare(`PRAGMA main.table_info(${q(table)})`).all() as Array<{ name: string }>).map((c) => c.name));
+}
+
+/**
+ * The newest canonical version whose columns all exist in this database (0 when the table is
+ * missing): a database whose later migration has not run yet keeps hashing with the older list.
+ */
+export function currentVersion(sqlite: Database.Database, name: string, table: ChainedTable): number {
+  const have = columnsOf(sqlite, name);
+  if (have.size === 0) return 0;
+  for (let v = table.versions.length; v >= 1; v--) {
+    if (table.versions[v - 1]!.every((c) => have.has(c))) return v;
+  }
+  return 0;
+}
+
+const NOW_MS = "CAST(ROUND((julianday('now') - 2440587.5) * 86400000) AS INTEGER)";
+
+function triggerSql(name: string, table: ChainedTable, version: number, op: 'INSERT' | 'UPDATE' | 'DELETE'): string {
+  const row = op === 'DELETE' ? 'OLD.' : 'NEW.';
+  const action: RowAction = op === 'INSERT' ? 'row-insert' : op === 'UPDATE' ? 'row-update' : 'row-delete';
+  const unit = table.unit ? `${row}${q(table.unit)}` : 'NULL';
+  return `CREATE TEMP TRIGGER IF NOT EXISTS ${triggerName(name, op)} AFTER ${op} ON main.${q(name)} BEGIN
+  INSERT INTO main.audit_events (at, actor_id, action, entity_type, entity_id, unit_id, before, after, prev_hash, hash)
+  SELECT e.at, NULL, '${action}', '${name}', e.eid, e.unit, NULL, e.after, e.prev,
+    warmfold_audit_hash(e.prev, e.at, NULL, '${action}', '${name}', e.eid, e.unit, NULL, e.after)
+  FROM (SELECT ${NOW_MS} AS at, ${keySql(table, row)} AS eid, ${unit} AS unit,
+      warmfold_row_event('${name}', ${version}, ${canonicalSql(table, version, row)}, ${op === 'DELETE' ? 1 : 0}) AS after,
+      COALESCE((SELECT hash FROM main.audit_events ORDER BY id DESC LIMIT 1), '${GENESIS_HASH}') AS prev) AS e;
+END`;
+}
+
+const triggerName = (table: string, op: string) => `ledger_${table}_${op.toLowerCase()}`;
+
+/** The `after` text of a row event. */
+export function rowEventAfter(table: string, version: number, canonical: string, deleted: boolean): string {
+  const hash = rowHash(table, version, canonical);
+  return JSON.stringify(deleted ? { v: version, was: hash } : { v: version, row: hash });
+}
+
+function registerFunctions(sqlite: Database.Database): void {
+  sqlite.function('warmfold_row_event', { deterministic: true }, (table, version, canonical, deleted) =>
+    rowEventAfter(String(table), Number(version), String(canonical), Number(deleted) === 1),
+  );
+  sqlite.function('warmfold_audit_hash', { deterministic: true }, (prev, at, actorId, action, entityType, entityId, unitId, before, after) =>
+    auditHash(String(prev), {
+      at: Number(at),
+      actorId: actorId as string | null,
+      action: String(action),
+      entityType: String(entityType),
+      entityId: entityId as string | null,
+      unitId: unitId as string | null,
+      before: before as string | null,
+      after: after as string | null,
+    }),
+  );
+}
+
+const installed = new WeakMap<Database.Database, string[]>();
+
+/**
+ * Start the ledger on a writable connection: register the functions, create the temporary
+ * triggers, and, for every chained table the ledger has not covered before on this database
+ * (a database from before the ledger, or a table registered since), write one `row-baseline`
+ * event per row already there and a `ledger-installed` event that says so. A baseline vouches
+ * for a row's content from that moment on, not before.
+ */
+export function installLedger(sqlite: Database.Database, now = new Date()): void {
+  if (!installed.has(sqlite)) registerFunctions(sqlite);
+  const names: string[] = [];
+  const versions = new Map<string, number>();
+  for (const [name, table] of Object.entries(CHAINED)) {
+    const version = currentVersion(sqlite, name, table);
+    if (version === 0) continue;
+    versions.set(name, version);
+    names.push(name);
+    for (const op of ['INSERT', 'UPDATE', 'DELETE'] as const) sqlite.exec(triggerSql(name, table, version, op));
+  }
+  installed.set(sqlite, names);
+  sqlite.transaction(() => baseline(sqlite, versions, now)).immediate();
+}
+
+/** Tables some `ledger-installed` event already covers. */
+export function coveredTables(sqlite: Database.Database): Set<string> {
+  const covered = new Set<string>();
+  const markers = sqlite
+    .prepare('SELECT after FROM audit_events WHERE entity_type = ? AND entity_id = ? AND action = ?')
+    .all(LEDGER_MARKER.entityType, LEDGER_MARKER.entityId, LEDGER_MARKER.action) as Array<{ after: string | null }>;
+  for (const m of markers) {
+    const tables = (JSON.parse(m.after ?? '{}') as { tables?: Record<string, number> }).tables ?? {};
+    for (const t of Object.keys(tables)) covered.add(t);
+  }
+  return covered;
+}
+
+function baseline(sqlite: Database.Database, versions: Map<string, number>, now: Date): void {
+  const covered = coveredTables(sqlite);
+  const counts: Record<string, number> = {};
+  const insert = sqlite.prepare(
+    'INSERT INTO audit_events (at, actor_id, action, entity_type, entity_id, unit_id, before, after, prev_hash, hash) VALUES (?, NULL, ?, ?, ?, ?, NULL, ?, ?, ?)',
+  );
+  let prev = (sqlite.prepare('SELECT hash FROM audit_events ORDER BY id DESC LIMIT 1').get() as { hash: string } | undefined)?.hash ?? GENESIS_HASH;
+  const at = now.getTime();
+  for (const [name, version] of versions) {
+    if (covered.has(name)) continue;
+    const table = CHAINED[name]!;
+    const unit = table.unit ? q(table.unit) : 'NULL';
+    const rows = sqlite
+      .prepare(`SELECT ${keySql(table)} AS eid, ${unit} AS unit, ${canonicalSql(table, version)} AS canonical FROM main.${q(name)} ORDER BY rowid`)
+      .all() as Array<{ eid: string; unit: string | null; canonical: string }>;
+    for (const r of rows) {
+      const after = rowEventAfter(name, version, r.canonical, false);
+      const e = { at, actorId: null, action: 'row-baseline', entityType: name, entityId: r.eid, unitId: r.unit, before: null, after };
+      const hash = auditHash(prev, e);
+      insert.run(at, e.action, name, r.eid, r.unit, after, prev, hash);
+      prev = hash;
+    }
+    counts[name] = rows.length;
+  }
+  if (Object.keys(counts).length === 0) return;
+  appendAudit(sqlite, {
+    at: now,
+    actorId: null,
+    action: LEDGER_MARKER.action,
+    entityType: LEDGER_MARKER.entityType,
+    entityId: LEDGER_MARKER.entityId,
+    unitId: null,
+    after: {
+      tables: counts,
+      note: 'row-baseline events vouch for these rows from this moment on; their content before it cannot be checked',
+    },
+  });
+}
+
+/**
+ * Run `fn` with the ledger's triggers off, then start the ledger again (writing a fresh
+ * `ledger-installed` event if `fn` emptied the audit trail). Only the demo's reset uses this.
+ */
+export function withoutLedger<T>(sqlite: Database.Database, fn: () => T): T {
+  const names = installed.get(sqlite) ?? [];
+  for (const name of names) for (const op of ['INSERT', 'UPDATE', 'DELETE']) sqlite.exec(`DROP TRIGGER IF EXISTS temp.${triggerName(name, op)}`);
+  try {
+    return fn();
+  } finally {
+    installLedger(sqlite);
+  }
+}
