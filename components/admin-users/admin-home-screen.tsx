@@ -1,22 +1,25 @@
 import { router } from 'expo-router';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
-import { StyleSheet, View } from 'react-native';
+import { Pressable, StyleSheet, View } from 'react-native';
 import { ROLE_LABELS, ROLES, type Role } from '@/shared/roles';
-import type { CreateUserInput } from '@/shared/schemas/admin';
+import type { CreateUserInput, UpdateUserInput } from '@/shared/schemas/admin';
 import type { AdminUnit, AdminUser } from '@/shared/types/admin';
 import { problemOf } from '../api/client';
 import { lazyZodResolver } from '../forms/lazy-resolver';
 import { FormRootError } from '../forms/form-root-error';
 import { useAdminUnitsQuery, useAdminUsersQuery, useCreateUserMutation, useDigestSendMutation, useUpdateUserMutation, useUserActionMutation } from '../queries/admin';
+import { useTheme } from '../theme/theme-provider';
 import { Button } from '../ui/button';
 import { Card } from '../ui/card';
+import { Icon } from '../ui/icon';
 import { Screen } from '../ui/screen';
 import { Segmented } from '../ui/segmented';
 import { ErrorState, LoadingState } from '../ui/state-view';
 import { StatusBadge } from '../ui/status-badge';
 import { Text } from '../ui/text';
 import { TextField } from '../ui/text-field';
+import { ConfirmDialog, type PendingChange } from './confirm-dialog';
 import { UnitSettingsCard } from './unit-settings-card';
 import { UploadPanel } from './upload-panel';
 import { DemoMailboxLink } from '@/components/mailbox/demo-mailbox-link';
@@ -26,6 +29,7 @@ export function AdminHomeScreen() {
   const users = useAdminUsersQuery();
   const units = useAdminUnitsQuery();
   const digest = useDigestSendMutation();
+  const [pending, setPending] = useState<PendingChange | null>(null);
   return (
     <Screen title="Administration" subtitle="Users, units and beds" wide>
       <Card>
@@ -38,7 +42,8 @@ export function AdminHomeScreen() {
         <Text variant="title" role="heading" aria-level={2}>
           People
         </Text>
-        {users.error ? <ErrorState error={users.error} onRetry={() => void users.refetch()} /> : !users.data ? <LoadingState /> : users.data.map((u) => <UserRow key={u.id} user={u} units={units.data ?? []} />)}
+        {users.error ? <ErrorState error={users.error} onRetry={() => void users.refetch()} /> : !users.data ? <LoadingState /> : users.data.map((u) => <UserRow key={u.id} user={u} units={units.data ?? []} onConfirm={setPending} />)}
+        <ConfirmDialog change={pending} onClose={() => setPending(null)} />
       </Card>
       <Card>
         <Text variant="title" role="heading" aria-level={2}>
@@ -103,13 +108,20 @@ function InviteForm({ units }: { units: AdminUnit[] }) {
   );
 }
 
-function UserRow({ user, units }: { user: AdminUser; units: AdminUnit[] }) {
+function UserRow({ user, units, onConfirm }: { user: AdminUser; units: AdminUnit[]; onConfirm: (change: PendingChange) => void }) {
   const action = useUserActionMutation();
-  const update = useUpdateUserMutation();
   const [editing, setEditing] = useState(false);
-  const unitNames = user.unitIds.map((id) => units.find((u) => u.id === id)?.name ?? id).join(', ');
+  const unitName = (id: string) => units.find((u) => u.id === id)?.name ?? id;
+  const unitNames = user.unitIds.map(unitName).join(', ');
   const tone = user.status === 'active' ? 'ok' : user.status === 'invited' ? 'warning' : 'neutral';
-  const error = action.error ?? update.error;
+  const deactivate = () =>
+    onConfirm({
+      title: `Deactivate ${user.name}?`,
+      lines: [`${user.name} (${user.email}) is signed out at once and cannot sign in until an administrator reactivates the account.`, 'Everything they charted stays in the record.'],
+      confirmLabel: `Deactivate ${user.name}`,
+      danger: true,
+      run: () => action.mutateAsync({ id: user.id, action: 'deactivate' }),
+    });
   return (
     <View style={styles.userRow} accessibilityLabel={`${user.name}, ${ROLE_LABELS[user.role]}`}>
       <View style={styles.userHead}>
@@ -119,25 +131,91 @@ function UserRow({ user, units }: { user: AdminUser; units: AdminUnit[] }) {
       <Text tone="muted" variant="caption">
         {user.email} · {ROLE_LABELS[user.role]} · {unitNames || 'no unit'}
       </Text>
-      <View style={styles.actions}>
-        <Button compact variant="quiet" label={editing ? 'Close' : 'Change role'} onPress={() => setEditing(!editing)} />
-        {user.status === 'invited' ? <Button compact variant="quiet" label="Send invitation again" onPress={() => action.mutate({ id: user.id, action: 'invitation' })} /> : null}
-        {user.status === 'active' ? <Button compact variant="quiet" label="Send password reset" onPress={() => action.mutate({ id: user.id, action: 'password-reset' })} /> : null}
-        {user.active ? (
-          <Button compact variant="quiet" label="Deactivate" onPress={() => action.mutate({ id: user.id, action: 'deactivate' })} />
-        ) : (
-          <Button compact variant="quiet" label="Reactivate" onPress={() => action.mutate({ id: user.id, action: 'reactivate' })} />
-        )}
-      </View>
-      {editing ? (
-        <View style={styles.form}>
-          <Segmented label="Role" value={user.role} onChange={(role) => update.mutate({ id: user.id, input: { role } })} options={ROLES.map((r) => ({ value: r, label: ROLE_LABELS[r] }))} />
-          <Segmented label="Unit" value={user.unitIds.length === 1 ? user.unitIds[0]! : null} onChange={(unitId) => update.mutate({ id: user.id, input: { unitIds: [unitId] } })} options={units.map((u) => ({ value: u.id, label: u.name }))} />
+      {!user.manageable ? (
+        <Text tone="muted" variant="caption">
+          Also works in a unit you do not administer: only an administrator of every unit they work in can change this person.
+        </Text>
+      ) : (
+        <View style={styles.actions}>
+          <Button compact variant="quiet" label={editing ? 'Close' : 'Change role or units'} onPress={() => setEditing(!editing)} />
+          {user.status === 'invited' ? <Button compact variant="quiet" label="Send invitation again" onPress={() => action.mutate({ id: user.id, action: 'invitation' })} /> : null}
+          {user.status === 'active' ? <Button compact variant="quiet" label="Send password reset" onPress={() => action.mutate({ id: user.id, action: 'password-reset' })} /> : null}
+          {user.active ? (
+            <Button compact variant="quiet" label="Deactivate…" onPress={deactivate} />
+          ) : (
+            <Button compact variant="quiet" label="Reactivate" onPress={() => action.mutate({ id: user.id, action: 'reactivate' })} />
+          )}
         </View>
-      ) : null}
-      {action.isSuccess && action.variables?.id === user.id ? <Text tone="ok" role="status" variant="caption">Done.</Text> : null}
-      {error ? <Text tone="danger" role="alert" variant="caption">{problemOf(error).message}</Text> : null}
+      )}
+      {editing && user.manageable ? <AccessEditor user={user} units={units} unitName={unitName} onConfirm={onConfirm} onDone={() => setEditing(false)} /> : null}
+      {action.isSuccess && action.variables?.id === user.id && action.variables.action !== 'deactivate' ? <Text tone="ok" role="status" variant="caption">Done.</Text> : null}
+      {action.error && action.variables?.action !== 'deactivate' ? <Text tone="danger" role="alert" variant="caption">{problemOf(action.error).message}</Text> : null}
     </View>
+  );
+}
+
+/** The lines a confirmation shows for a change of role or units. */
+export function describeAccessChange(name: string, before: { role: Role; unitIds: string[] }, after: { role: Role; unitIds: string[] }, unitName: (id: string) => string): string[] {
+  const lines: string[] = [];
+  if (before.role !== after.role) lines.push(`Role: ${ROLE_LABELS[before.role]} → ${ROLE_LABELS[after.role]}.`);
+  const removed = before.unitIds.filter((u) => !after.unitIds.includes(u));
+  const added = after.unitIds.filter((u) => !before.unitIds.includes(u));
+  if (removed.length) lines.push(`Removed from ${removed.map(unitName).join(' and ')}: ${name} no longer sees its infants.`);
+  if (added.length) lines.push(`Added to ${added.map(unitName).join(' and ')}.`);
+  if (lines.length) lines.push(`${name} is signed out and signs in again with the new access.`);
+  return lines;
+}
+
+/** Role and units as a draft; saving asks for confirmation first. */
+function AccessEditor({ user, units, unitName, onConfirm, onDone }: { user: AdminUser; units: AdminUnit[]; unitName: (id: string) => string; onConfirm: (change: PendingChange) => void; onDone: () => void }) {
+  const update = useUpdateUserMutation();
+  const [role, setRole] = useState<Role>(user.role);
+  const [unitIds, setUnitIds] = useState<string[]>(user.unitIds);
+  const [hint, setHint] = useState<string | null>(null);
+  const toggle = (id: string) => setUnitIds((ids) => (ids.includes(id) ? ids.filter((u) => u !== id) : [...ids, id]));
+  const review = () => {
+    if (unitIds.length === 0) return setHint('Choose at least one unit.');
+    const lines = describeAccessChange(user.name, user, { role, unitIds }, unitName);
+    if (lines.length === 0) return setHint('Nothing has changed yet.');
+    setHint(null);
+    const input: UpdateUserInput = {};
+    if (role !== user.role) input.role = role;
+    if (lines.some((l) => l.startsWith('Removed') || l.startsWith('Added'))) input.unitIds = unitIds;
+    onConfirm({
+      title: `Change ${user.name}'s access?`,
+      lines,
+      confirmLabel: 'Make the change',
+      danger: role !== user.role || user.unitIds.some((u) => !unitIds.includes(u)),
+      run: async () => {
+        await update.mutateAsync({ id: user.id, input });
+        onDone();
+      },
+    });
+  };
+  return (
+    <View style={styles.form}>
+      <Segmented label="Role" value={role} onChange={setRole} options={ROLES.map((r) => ({ value: r, label: ROLE_LABELS[r] }))} />
+      <View role="group" aria-label="Units" style={styles.form}>
+        <Text variant="label">Units</Text>
+        {units.map((u) => (
+          <Checkbox key={u.id} label={u.name} checked={unitIds.includes(u.id)} onToggle={() => toggle(u.id)} />
+        ))}
+      </View>
+      <Button compact label="Review the change…" onPress={review} />
+      {hint ? <Text tone="warning" role="status" variant="caption">{hint}</Text> : null}
+    </View>
+  );
+}
+
+function Checkbox({ label, checked, onToggle }: { label: string; checked: boolean; onToggle: () => void }) {
+  const theme = useTheme();
+  return (
+    <Pressable role="checkbox" aria-checked={checked} aria-label={label} onPress={onToggle} style={styles.checkRow}>
+      <View style={[styles.checkBox, { borderColor: theme.colors.border, backgroundColor: checked ? theme.colors.primary : 'transparent' }]}>
+        {checked ? <Icon name="check" size={16} color={theme.colors.onPrimary} /> : null}
+      </View>
+      <Text>{label}</Text>
+    </Pressable>
   );
 }
 
@@ -146,4 +224,6 @@ const styles = StyleSheet.create({
   userRow: { gap: 4, paddingVertical: 8 },
   userHead: { flexDirection: 'row', gap: 8, alignItems: 'center', flexWrap: 'wrap' },
   actions: { flexDirection: 'row', gap: 4, flexWrap: 'wrap' },
+  checkRow: { flexDirection: 'row', alignItems: 'center', gap: 8, minHeight: 44 },
+  checkBox: { width: 24, height: 24, borderRadius: 4, borderWidth: 2, alignItems: 'center', justifyContent: 'center' },
 });
