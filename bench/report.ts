@@ -1,5 +1,6 @@
 /** Budgets, percentiles and the printed table. */
 import type { LoadFigures } from './api';
+import type { AuthFigures } from './auth';
 import type { BundleFigures, Sizes } from './bundle';
 import type { RulesFigures } from './rules';
 import type { VitalsRun } from './vitals';
@@ -55,6 +56,7 @@ export function budgets(input: {
   writes?: WriteFigures;
   routes?: RouteJs[];
   vitals?: VitalsSummary;
+  auth?: AuthFigures;
 }): Budget[] {
   const out: Budget[] = [];
   for (const f of input.api?.slice(1) ?? []) {
@@ -76,6 +78,12 @@ export function budgets(input: {
     const w = input.writes;
     out.push({ name: 'durable writes', value: w.commitsPerSec, limit: '≥ 200 /s', pass: w.commitsPerSec >= 200 && w.non2xx === 0 && w.errors === 0, shown: `${num(w.commitsPerSec)} /s` });
   }
+  if (input.auth) {
+    const a = input.auth;
+    const gap = Math.abs(a.reset.knownMedian - a.reset.unknownMedian);
+    out.push({ name: 'reset request, known vs unknown (median gap)', value: gap, limit: '≤ 5 ms', pass: gap <= 5 && a.reset.non202 === 0, shown: `${gap.toFixed(1)} ms` });
+    out.push({ name: '/api/ping p99 during 10 sign-ins', value: a.ping.duringP99, limit: '≤ 20 ms', pass: a.ping.duringP99 <= 20 && a.ping.signInFailures === 0, shown: `${a.ping.duringP99.toFixed(1)} ms` });
+  }
   return out;
 }
 
@@ -92,10 +100,18 @@ export function printReport(
     bundle?: BundleFigures;
     routes?: RouteJs[];
     vitals?: VitalsSummary;
+    auth?: AuthFigures;
     budgets: Budget[];
   },
   log: (line: string) => void,
 ): void {
+  if (r.auth) {
+    const { reset, ping } = r.auth;
+    const f = (v: number) => `${v.toFixed(1)} ms`;
+    log('\nAccounts (reset requests alternating known and unknown addresses; /api/ping one at a time)');
+    log(table([['reset request', 'median', 'p95', 'non-202'], ['known address', f(reset.knownMedian), f(reset.knownP95), String(reset.non202)], ['unknown address', f(reset.unknownMedian), f(reset.unknownP95), '']]));
+    log(table([['/api/ping', 'p50', 'p99', 'sign-ins'], ['idle', f(ping.idleP50), f(ping.idleP99), '0'], ['10 parallel sign-ins', f(ping.duringP50), f(ping.duringP99), `${ping.signIns} (${ping.signInFailures} failed)`]]));
+  }
   if (r.api) {
     log('\nAPI (autocannon)');
     log(

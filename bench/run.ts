@@ -4,7 +4,7 @@
  * Chromium; print a table with the budgets and write bench/results/latest.json.
  *
  *   --smoke     small data, ~2 s load windows, one browser run; budgets are printed, never fatal
- *   --skip=a,b  leave out parts: api, writes, rules, bundle, vitals
+ *   --skip=a,b  leave out parts: api, writes, rules, bundle, vitals, auth
  *   --profile   record a CPU profile of the server during the API runs and summarise it
  *   --rebuild   rebuild dist/ and build/server even if they exist
  */
@@ -13,6 +13,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { benchReads, type LoadFigures } from './api';
+import { benchAuth, type AuthFigures } from './auth';
 import { analyseBundle, scriptsSize, type BundleFigures } from './bundle';
 import { summariseProfile, type HotSpot } from './profile';
 import { budgets, printReport, summariseVitals, type RouteJs, type VitalsSummary } from './report';
@@ -29,8 +30,8 @@ const skip = new Set((argv.find((a) => a.startsWith('--skip='))?.slice(7) ?? '')
 const log = (line: string) => process.stdout.write(`${line}\n`);
 
 const SETTINGS = smoke
-  ? { infants: 12, days: 2, nurseInfants: 4, connections: 50, seconds: 2, warmup: 1, readRounds: 1, writeSeconds: 2, vitalsRuns: 1, rulesRounds: 3 }
-  : { infants: 60, days: 14, nurseInfants: 6, connections: 50, seconds: 20, warmup: 5, readRounds: 4, writeSeconds: 20, vitalsRuns: 5, rulesRounds: 10 };
+  ? { infants: 12, days: 2, nurseInfants: 4, connections: 50, seconds: 2, warmup: 1, readRounds: 1, writeSeconds: 2, vitalsRuns: 1, rulesRounds: 3, authSeconds: 2, resetRounds: 10 }
+  : { infants: 60, days: 14, nurseInfants: 6, connections: 50, seconds: 20, warmup: 5, readRounds: 4, writeSeconds: 20, vitalsRuns: 5, rulesRounds: 10, authSeconds: 10, resetRounds: 30 };
 // Ten nurses saving at once is a busy unit; more connections only queue behind the one writer.
 const WRITE_CONNECTIONS = 10;
 
@@ -42,7 +43,9 @@ function ensureBuilt(): void {
     const r = spawnSync('npx', args, { stdio: 'inherit', env });
     if (r.status !== 0) throw new Error(`${label} build failed`);
   };
-  if (rebuild || !fs.existsSync(path.join('dist', 'index.html'))) run('the web app', ['expo', 'export', '--platform', 'web', '--output-dir', 'dist']);
+  // Only the bundle and Web Vitals parts read the web build (--skip=bundle,vitals leaves it alone).
+  const needWeb = !skip.has('bundle') || !skip.has('vitals');
+  if (needWeb && (rebuild || !fs.existsSync(path.join('dist', 'index.html')))) run('the web app', ['expo', 'export', '--platform', 'web', '--output-dir', 'dist']);
   if (rebuild || !fs.existsSync(path.join('build', 'server', 'index.js'))) run('the server', ['tsc', '-p', 'tsconfig.server.json']);
 }
 
@@ -60,7 +63,7 @@ async function main(): Promise<number> {
   // A private copy of the web build: another checkout step (or a colleague's e2e run) may be
   // re-exporting dist/ while the browser is loading it.
   const webDir = path.join(work, 'web');
-  fs.cpSync('dist', webDir, { recursive: true });
+  if (fs.existsSync(path.join('dist', 'index.html'))) fs.cpSync('dist', webDir, { recursive: true });
   log(`Warmfold bench (${smoke ? 'smoke' : 'full'}): ${os.cpus().length} cores, Node ${process.version}`);
 
   let seed: SeededUnit | undefined;
@@ -70,6 +73,7 @@ async function main(): Promise<number> {
   let bundle: BundleFigures | undefined;
   let routes: RouteJs[] | undefined;
   let vitals: VitalsSummary | undefined;
+  let auth: AuthFigures | undefined;
   let hotSpots: HotSpot[] | undefined;
   const notes: string[] = [];
 
@@ -85,7 +89,7 @@ async function main(): Promise<number> {
 
     if (!skip.has('bundle')) bundle = analyseBundle(webDir);
 
-    const needServer = !skip.has('api') || !skip.has('writes') || !skip.has('vitals');
+    const needServer = !skip.has('api') || !skip.has('writes') || !skip.has('vitals') || !skip.has('auth');
     if (needServer) {
       const server = await startServer(dataDir, { webDir, profileDir: profile ? profileDir : undefined });
       log(`Server (build/server/index.js) at ${server.base}, pid ${server.pid}`);
@@ -125,6 +129,11 @@ async function main(): Promise<number> {
             ).map(([route, scripts]) => ({ route, scripts: [...scripts], sizes: scriptsSize(webDir, [...scripts]) }));
           }
         }
+        if (!skip.has('auth')) {
+          log(`Accounts: ${SETTINGS.resetRounds} reset requests each for known and unknown addresses, then /api/ping during 10 parallel sign-ins for ${SETTINGS.authSeconds} s`);
+          const knownEmails = [NURSE_EMAIL, CHARGE_EMAIL, ...Array.from({ length: 9 }, (_, i) => `bench.nurse${i + 1}@warmfold.test`)];
+          auth = await benchAuth(server.base, { email: NURSE_EMAIL, password: BENCH_PASSWORD, knownEmails, seconds: SETTINGS.authSeconds, resetRounds: SETTINGS.resetRounds });
+        }
         // Writes last: they add readings, which would change what the reads and pages measure.
         if (!skip.has('writes')) {
           log(`Writes: ${SETTINGS.writeSeconds} s at ${WRITE_CONNECTIONS} connections`);
@@ -143,8 +152,8 @@ async function main(): Promise<number> {
     fs.rmSync(work, { recursive: true, force: true });
   }
 
-  const list = budgets({ api, writes, routes, vitals });
-  printReport({ api, writes, rules, bundle, routes, vitals, budgets: list }, log);
+  const list = budgets({ api, writes, routes, vitals, auth });
+  printReport({ api, writes, rules, bundle, routes, vitals, auth, budgets: list }, log);
   if (hotSpots?.length) {
     log('\nServer CPU profile (self time, top functions)');
     for (const h of hotSpots) log(`  ${h.selfPct.toFixed(1).padStart(5)} %  ${h.fn}  ${h.where}`);
@@ -164,6 +173,7 @@ async function main(): Promise<number> {
     bundle,
     routes,
     vitals,
+    auth,
     hotSpots,
     budgets: list,
     notes,

@@ -25,6 +25,8 @@ export async function startServer(dataDir: string, opts: { webDir?: string; prof
       NODE_ENV: 'production',
       // The bench's unit and accounts are invented (@warmfold.test), which production refuses.
       WARMFOLD_MODE: 'demo',
+      // bench/auth.ts sends each reset request from its own X-Forwarded-For address.
+      TRUST_PROXY: 'loopback',
       ...(opts.webDir ? { WEB_DIR: opts.webDir } : {}),
     },
     stdio: ['ignore', 'pipe', 'pipe'],

@@ -17,6 +17,7 @@ export function authRouter(ctx: AppContext) {
   router.post('/sign-in', allow(ctx, 'public'), validate('body', signInSchema), async (req, res) => {
     const { email, password } = valid<SignInInput>(req, 'body');
     const address = req.ip ?? 'unknown';
+    // signIn also writes the sign-in's audit event, in the same transaction as the session.
     const result = await signIn(ctx, email, password, address, req.headers.cookie);
     // The device cookie: this browser keeps its own failure budget for this account from now on.
     // HttpOnly and sent only to the sign-in route; Secure whenever the app is served over HTTPS.
@@ -27,9 +28,6 @@ export function authRouter(ctx: AppContext) {
       path: DEVICE_COOKIE_PATH,
       maxAge: DEVICE_COOKIE_MAX_AGE_MS,
     });
-    writeTx(ctx.database.sqlite, () =>
-      appendAudit(ctx.database.sqlite, { at: ctx.clock.now(), actorId: result.user.id, action: 'sign-in', entityType: 'user', entityId: result.user.id, unitId: null }),
-    );
     res.json({ token: result.token, expiresAt: new Date(result.expiresAt).toISOString(), user: result.user });
   });
 
