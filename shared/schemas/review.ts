@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { safeNote } from './safe-text';
+import { safeNote, safeText } from './safe-text';
 import { REVIEW_KINDS, REVIEW_PAGE_MAX, REVIEW_STATUSES, TEACHING_NOTE_MAX } from '../vocabulary';
 
 export { REVIEW_KIND_LABELS, REVIEW_KINDS, REVIEW_PAGE_MAX, REVIEW_STATUSES, TEACHING_NOTE_MAX, type ReviewKind, type ReviewStatus } from '../vocabulary';
@@ -30,7 +30,7 @@ export const reviewQueueQuerySchema = z
     /** One infant only. */
     infantId: id.optional(),
     /** Search: part of the infant's name, the bed label or the hospital number. */
-    q: z.string({ error: 'Search for an infant or a bed.' }).trim().max(60, 'Search with at most 60 characters.').optional(),
+    q: safeText({ error: 'Search for an infant or a bed.' }).max(60, 'Search with at most 60 characters.').optional(),
     /** Where the previous page ended (its `nextCursor`). */
     cursor: z.string().max(200).regex(/^[A-Za-z0-9_-]+$/, 'That page marker is not valid.').optional(),
     /** A page is capped, so one request can never pull the whole history. */

@@ -98,6 +98,12 @@ describe('free-text fields refuse what cannot be stored faithfully, naming the f
     expect(snapshot()).toEqual(before);
   });
 
+  it('a search typed into the review queue (kept in the audit event of the read) follows the same rule', async () => {
+    const res = await request(env.app).get(`/api/review/queue?q=${encodeURIComponent(BIDI_OVERRIDE)}`).set('Authorization', `Bearer ${educator}`);
+    expect(res.status).toBe(400);
+    expect(res.body.error.fields.q).toEqual(expect.any(String));
+  });
+
   it('a multi-line note keeps its line breaks and tab; a one-line name refuses a line break', async () => {
     const id = randomUUID();
     const note = 'Probe re-sited.\nSkin dry,\tcover on.';
