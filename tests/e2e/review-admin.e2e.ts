@@ -1,5 +1,7 @@
+import Database from 'better-sqlite3';
 import assert from 'node:assert/strict';
 import fs from 'node:fs';
+import path from 'node:path';
 import { after, before, describe, it } from 'node:test';
 import type { Browser } from 'playwright-core';
 import { ACCOUNTS, apiToken, BASE_URL, launch, newPage, shot, signIn, WIDE } from './support';
@@ -64,16 +66,23 @@ describe('review queue and administration', () => {
     await shot(page, 'admin-invited');
     await page.context().close();
 
+    // The admin's mailbox shows the invitation he sent, never its link (only the invitee may set her password).
     const token = await apiToken(ACCOUNTS.admin);
-    let link: string | undefined;
-    for (let i = 0; i < 40 && !link; i++) {
-      const res = await fetch(`${BASE_URL}/api/admin/mailbox`, { headers: { Authorization: `Bearer ${token}` } });
+    let sent: { to: string; text: string } | undefined;
+    for (let i = 0; i < 40 && !sent; i++) {
+      const res = await fetch(`${BASE_URL}/api/mailbox`, { headers: { Authorization: `Bearer ${token}` } });
       const { messages } = (await res.json()) as { messages: Array<{ to: string; text: string }> };
-      const mail = messages.find((m) => m.to.includes(email));
-      link = mail ? /(https?:\/\/\S+\/accept-invite\?token=\S+)/.exec(mail.text)?.[1] : undefined;
-      if (!link) await new Promise((r) => setTimeout(r, 250));
+      sent = messages.find((m) => m.to.includes(email));
+      if (!sent) await new Promise((r) => setTimeout(r, 250));
     }
-    assert.ok(link, 'the invitation was caught by the local SMTP server');
+    assert.ok(sent, 'the invitation was caught by the local SMTP server');
+    assert.doesNotMatch(sent.text, /token=/);
+    // The invitee opens the link from her own inbox: the message as the catcher stored it.
+    const db = new Database(path.join(process.env.E2E_DATA_DIR!, 'warmfold.db'), { readonly: true });
+    const caught = db.prepare('SELECT text_body FROM caught_mail WHERE to_addresses = ? ORDER BY id DESC').get(email) as { text_body: string } | undefined;
+    db.close();
+    const link = caught ? /(https?:\/\/\S+\/accept-invite\?token=\S+)/.exec(caught.text_body)?.[1] : undefined;
+    assert.ok(link, 'the invitee has her link');
     const url = new URL(link);
 
     const invitee = await newPage(browser, WIDE);
