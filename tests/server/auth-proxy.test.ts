@@ -5,6 +5,7 @@
  * log the real source; Express's "behind proxies" guide).
  */
 import request from 'supertest';
+import { createApp } from '../../server/app';
 import { ConfigError, loadConfig } from '../../server/config';
 import { makeEnv, type TestEnv } from './helpers';
 
@@ -44,6 +45,20 @@ it('a proxy that is not named is not believed, even when another proxy is', asyn
   const env = await envWith(['10.20.30.40']);
   await tryWith(env, '203.0.113.7');
   expect(lastAddress(env)).toMatch(/127\.0\.0\.1$/);
+});
+
+it('the request log names the address the throttle used, never one the client chose', async () => {
+  const env = await envWith(false);
+  for (const trustProxy of [false, ['loopback']] as const) {
+    const lines: string[] = [];
+    const app = createApp({ db: env.database, mailer: env.mailer, clock: env.clock, config: { ...env.config, trustProxy: trustProxy === false ? false : [...trustProxy], logRequests: true }, log: (l) => lines.push(l) });
+    await request(app).get('/api/ping').set('X-Forwarded-For', '203.0.113.7');
+    const line = lines.find((l) => l.includes('/api/ping'))!;
+    if (trustProxy === false) {
+      expect(line).not.toContain('203.0.113.7');
+      expect(line).toMatch(/127\.0\.0\.1 GET \/api\/ping 200/);
+    } else expect(line).toContain(' 203.0.113.7 GET /api/ping 200');
+  }
 });
 
 it('TRUST_PROXY takes addresses, ranges and names, and refuses "true" or a hop count', () => {
