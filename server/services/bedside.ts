@@ -4,7 +4,6 @@ import type { Request } from 'express';
 import {
   checkPlausibility,
   isThermalInputError,
-  flagEscalation,
   toCentiCelsius,
   type PlausibilityField,
   type TempUnit,
@@ -17,7 +16,7 @@ import { assertUnit } from '../middleware/access';
 import { CompressedJson } from '../compressed-body';
 import { chartDataVersion } from './board-cache';
 import { loadUnitRow, policyForUnit, primeRuleReadings, syncFlags } from './flags';
-import { nextCheckJson, plainDetail, summarizeInfants } from './summaries';
+import { storedFlowsheetFlags, summarizeInfants } from './summaries';
 
 export interface InfantRow {
   id: string;
@@ -295,43 +294,6 @@ export function readingChains(rows: StoredReading[]): FlowsheetReading[] {
   return chains.sort((a, b) => b.takenAt.localeCompare(a.takenAt) || b.recordedAt.localeCompare(a.recordedAt));
 }
 
-export function flowsheetFlags(
-  sqlite: Database.Database,
-  infantId: string,
-  evaluation: ReturnType<typeof syncFlags>['evaluation'],
-  fromMs: number,
-  now: Date,
-  policy: Parameters<typeof flagEscalation>[2],
-): FlowsheetFlag[] {
-  const stored = prepared(sqlite, 'SELECT f.id, f.key, e.id AS escalation_id FROM flags f LEFT JOIN escalations e ON e.flag_id = f.id WHERE f.infant_id = ?')
-    .all(infantId) as Array<{ id: string; key: string; escalation_id: string | null }>;
-  const byKey = new Map(stored.map((s) => [s.key, s]));
-  const actions = prepared(sqlite, 'SELECT a.id, a.flag_id, a.kind, a.note, a.at, a.recorded_by, u.name FROM actions a JOIN users u ON u.id = a.recorded_by WHERE a.infant_id = ? ORDER BY a.at, a.created_at')
-    .all(infantId) as Array<{ id: string; flag_id: string; kind: string; note: string | null; at: number; recorded_by: string; name: string }>;
-  return evaluation.flags
-    .filter((f) => f.status === 'open' || f.raisedAt.getTime() >= fromMs || (f.closedAt !== null && f.closedAt.getTime() >= fromMs))
-    .map((f) => {
-      const row = byKey.get(f.key);
-      return {
-        id: row?.id ?? null,
-        key: f.key,
-        kind: f.kind,
-        status: f.status,
-        raisedAt: f.raisedAt.toISOString(),
-        raisedByReadingId: f.raisedByReadingId,
-        closedAt: f.closedAt ? f.closedAt.toISOString() : null,
-        closedByReadingId: f.closedByReadingId,
-        recheckDueAt: f.recheckDueAt ? f.recheckDueAt.toISOString() : null,
-        escalated: f.status === 'open' && (row?.escalation_id != null || flagEscalation(f, now, policy).escalated),
-        detail: plainDetail(f.detail),
-        actions: actions
-          .filter((a) => row && a.flag_id === row.id)
-          .map((a) => ({ id: a.id, flagId: a.flag_id, kind: a.kind, note: a.note, at: new Date(a.at).toISOString(), recordedBy: { id: a.recorded_by, name: a.name } })),
-      };
-    })
-    .reverse();
-}
-
 /**
  * The flowsheet's readings: those taken in the window, plus every version of every corrected
  * reading (few), so that readingChains sees whole chains and a chain moved into or out of the
@@ -359,7 +321,7 @@ export function buildFlowsheet(sqlite: Database.Database, infantId: string, unit
   // The window starts just before the flowsheet's: every flag shown (open, or raised or closed
   // in the window) is then evaluated exactly as over the whole stay.
   primeRuleReadings(sqlite, infantId);
-  const sync = writeTx(sqlite, () => syncFlags(sqlite, infantId, now, null, { from: fromMs - 1 }));
+  writeTx(sqlite, () => syncFlags(sqlite, infantId, now, null, { from: fromMs - 1 }));
   onSynced?.();
   const chains = readingChains(flowsheetRows(sqlite, infantId, fromMs)).filter(
     (c) => Date.parse(c.takenAt) >= fromMs || c.history.some((h) => Date.parse(h.takenAt) >= fromMs),
@@ -378,9 +340,10 @@ export function buildFlowsheet(sqlite: Database.Database, infantId: string, unit
     to: now.toISOString(),
     readings: chains.filter((c) => !c.enteredInError),
     removed: chains.filter((c) => c.enteredInError),
-    flags: flowsheetFlags(sqlite, infantId, sync.evaluation, fromMs, now, policy),
+    flags: storedFlowsheetFlags(sqlite, infantId, fromMs, now),
     sessions: sessions.map(sessionJson),
-    nextCheck: nextCheckJson(sync.evaluation.nextCheck),
+    nextCheck: summary!.nextCheck,
+    checks: summary!.checks,
     policy: {
       checkIntervalMinutes: policy.checkIntervalMinutes,
       dueSoonMinutes: policy.dueSoonMinutes,

@@ -3,7 +3,7 @@ import type Database from 'better-sqlite3';
 import { shiftAt } from '../../shared/shifts';
 import type { InfantSummary } from '../../shared/types/bedside';
 import type { BoardBed, BoardEscalation, BoardResponse, UrgencyTier } from '../../shared/types/board';
-import type { FlagKind } from '../../shared/thermal';
+import { needsAttention, type FlagKind, type Severity } from '../../shared/thermal';
 import type { UnitRow } from './flags';
 import { summarizeInfants } from './summaries';
 
@@ -12,29 +12,32 @@ interface FullUnitRow extends UnitRow {
   hospital_name: string;
 }
 
-/** Flags that put a bed at the top of the board: the ones that also escalate. */
-export const ATTENTION_KINDS: readonly FlagKind[] = ['gap', 'overdue-check'];
-
 /**
- * Where a bed stands: tier 0 an overdue check or an unresolved gap flag, tier 1 a check due
- * soon or any other open flag, tier 2 the rest. `since` orders a tier: longest waiting first.
+ * Where a bed stands, from the stored severities and clocks (shared/thermal/severity.ts): tier 0
+ * needs attention (a critical or urgent open flag, or any check clock overdue: remote site,
+ * manual mode, a recheck), tier 1 a check due soon or a caution flag, tier 2 the rest. Within
+ * tier 0 a critical flag comes first (`rank`); `since` then orders a tier: longest waiting first.
  */
-export function urgencyOf(infant: InfantSummary): { tier: UrgencyTier; since: string | null } {
-  const attention: string[] = infant.openFlags.filter((f) => ATTENTION_KINDS.includes(f.kind)).map((f) => f.raisedAt);
-  if (infant.nextCheck.status === 'overdue' && infant.nextCheck.dueAt) attention.push(infant.nextCheck.dueAt);
-  if (attention.length) return { tier: 0, since: earliest(attention) };
+export function urgencyOf(infant: InfantSummary): { tier: UrgencyTier; since: string | null; rank: number } {
+  const checks = infant.checks;
+  const clocks = checks ? [checks.remote, ...(checks.manual ? [checks.manual] : []), ...checks.rechecks] : [infant.nextCheck];
+  const attention: string[] = infant.openFlags.filter((f) => needsAttention(f.severity ?? 'urgent')).map((f) => f.raisedAt);
+  for (const c of clocks) if (c.status === 'overdue' && c.dueAt) attention.push(c.dueAt);
+  const rank = infant.openFlags.some((f) => f.severity === 'critical') ? 0 : 1;
+  if (attention.length) return { tier: 0, since: earliest(attention), rank };
   const soon: string[] = infant.openFlags.map((f) => f.raisedAt);
-  if (infant.nextCheck.status === 'due-soon' && infant.nextCheck.dueAt) soon.push(infant.nextCheck.dueAt);
-  if (soon.length) return { tier: 1, since: earliest(soon) };
-  return { tier: 2, since: infant.nextCheck.dueAt };
+  for (const c of clocks) if (c.status === 'due-soon' && c.dueAt) soon.push(c.dueAt);
+  if (soon.length) return { tier: 1, since: earliest(soon), rank };
+  return { tier: 2, since: checks?.next.dueAt ?? infant.nextCheck.dueAt, rank };
 }
 
 function earliest(isos: string[]): string {
   return isos.reduce((a, b) => (Date.parse(b) < Date.parse(a) ? b : a));
 }
 
-export function compareBeds(a: BoardBed & { sortOrder: number }, b: BoardBed & { sortOrder: number }): number {
+export function compareBeds(a: BoardBed & { sortOrder: number; rank?: number }, b: BoardBed & { sortOrder: number; rank?: number }): number {
   if (a.tier !== b.tier) return a.tier - b.tier;
+  if ((a.rank ?? 1) !== (b.rank ?? 1)) return (a.rank ?? 1) - (b.rank ?? 1);
   const as = a.since ? Date.parse(a.since) : Number.POSITIVE_INFINITY;
   const bs = b.since ? Date.parse(b.since) : Number.POSITIVE_INFINITY;
   if (as !== bs) return as - bs;
@@ -56,7 +59,8 @@ export function buildBoard(sqlite: Database.Database, unitId: string, now: Date)
   const summaries = new Map(summarizeInfants(sqlite, admitted.map((i) => i.id), now).map((s) => [s.id, s]));
   const escalations = prepared(
     sqlite,
-      `SELECT e.id, e.flag_id, f.kind, f.infant_id, e.escalated_at, e.mailed_at, e.acknowledged_at, e.acknowledged_by, u.name AS ack_name, e.acknowledge_note
+      `SELECT e.id, e.flag_id, f.kind, f.infant_id, e.escalated_at, e.mailed_at, e.acknowledged_at, e.acknowledged_by, u.name AS ack_name, e.acknowledge_note,
+              e.recipient, e.severity
          FROM escalations e
          JOIN flags f ON f.id = e.flag_id
          LEFT JOIN flag_resolutions r ON r.flag_id = e.flag_id
@@ -75,6 +79,8 @@ export function buildBoard(sqlite: Database.Database, unitId: string, now: Date)
     acknowledged_by: string | null;
     ack_name: string | null;
     acknowledge_note: string | null;
+    recipient: string | null;
+    severity: Severity | null;
   }>;
   const nurses = prepared(
     sqlite,
@@ -95,6 +101,9 @@ export function buildBoard(sqlite: Database.Database, unitId: string, now: Date)
       acknowledgedAt: e.acknowledged_at === null ? null : new Date(e.acknowledged_at).toISOString(),
       acknowledgedBy: e.acknowledged_by ? { id: e.acknowledged_by, name: e.ack_name ?? '' } : null,
       note: e.acknowledge_note,
+      sentAt: e.mailed_at === null ? null : new Date(e.mailed_at).toISOString(),
+      to: e.recipient ? (JSON.parse(e.recipient) as BoardEscalation['to']) : [],
+      severity: e.severity ?? 'urgent',
     });
     escalationsByInfant.set(e.infant_id, list);
   }
@@ -103,11 +112,12 @@ export function buildBoard(sqlite: Database.Database, unitId: string, now: Date)
   const rows = beds.map((bed) => {
     const infantId = infantByBed.get(bed.id);
     const infant = infantId ? (summaries.get(infantId) ?? null) : null;
-    const { tier, since } = infant ? urgencyOf(infant) : { tier: 3 as const, since: null };
+    const { tier, since, rank } = infant ? urgencyOf(infant) : { tier: 3 as const, since: null, rank: 1 };
     return {
       bedId: bed.id,
       label: bed.label,
       sortOrder: bed.sort_order,
+      rank,
       tier,
       since,
       infant,
@@ -132,7 +142,7 @@ export function buildBoard(sqlite: Database.Database, unitId: string, now: Date)
       nightShiftStart: unit.night_shift_start,
     },
     shift: { shiftDate: slot.shiftDate, shift: slot.shift, startsAt: slot.startsAt.toISOString(), endsAt: slot.endsAt.toISOString() },
-    beds: rows.map(({ sortOrder: _sortOrder, ...bed }) => bed),
+    beds: rows.map(({ sortOrder: _sortOrder, rank: _rank, ...bed }) => bed),
     nurses,
   };
 }

@@ -1,9 +1,23 @@
 import { randomUUID } from 'node:crypto';
-import { writeTx } from '../../db/client';
+import { and, asc, desc, eq, inArray, isNull } from 'drizzle-orm';
+import { writeTx, type Db } from '../../db/client';
+import { assignments, beds, escalations, flagEvents, flagResolutions, flags, infants, units, userUnits, users } from '../../db/schema';
+import { shiftAt } from '../../shared/shifts';
+import {
+  escalationDelayOf,
+  severityClassOf,
+  severityOf,
+  SEVERITY_WORDS,
+  type FlagKind,
+  type Severity,
+  type SeverityClass,
+  type UnitPolicy,
+} from '../../shared/thermal';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { conflict, notFound } from '../errors';
-import { syncFlags } from './flags';
+import { appendFlagEvent, dbOf, loadPolicyVersions, readClocks, type StoredOpenFlag } from './flag-lifecycle';
+import { loadUnitRow, policyAt, primeRuleReadings, syncFlags } from './flags';
 
 export interface EscalationRun {
   /** Escalations created by this run. */
@@ -12,18 +26,14 @@ export interface EscalationRun {
   mailed: string[];
 }
 
-interface Candidate {
-  flag_id: string;
-  unit_id: string;
-  kind: 'gap' | 'overdue-check';
-  raised_at: number;
-  infant_id: string;
-}
-
 interface Pending {
   id: string;
+  flag_id: string;
+  infant_id: string;
   unit_id: string;
-  kind: 'gap' | 'overdue-check';
+  kind: FlagKind;
+  severity: Severity;
+  detail: unknown;
   raised_at: number;
   escalated_at: number;
   display_name: string;
@@ -31,23 +41,53 @@ interface Pending {
   time_zone: string;
 }
 
-const WHAT: Record<Pending['kind'], { subject: string; line: string }> = {
+const WHAT: Record<SeverityClass, { subject: string; line: string }> = {
   gap: { subject: 'probe and remote site still apart', line: 'a gap flag (probe and remote-site temperatures more than the unit limit apart) is still unresolved' },
   'overdue-check': { subject: 'remote-site check overdue', line: 'the remote-site temperature check is overdue and has not been recorded' },
+  'severe-hypothermia': { subject: 'severe hypothermia', line: 'a remote-site temperature below 32.0 °C (severe hypothermia) was charted; tell the medical team per unit policy' },
+  'moderate-hypothermia': { subject: 'moderate hypothermia', line: 'a remote-site temperature of 32.0–35.9 °C (moderate hypothermia) is still unresolved; tell the medical team per unit policy' },
+  'cold-stress': { subject: 'cold stress', line: 'a remote-site temperature of 36.0–36.4 °C (cold stress) is still unresolved' },
+  fever: { subject: 'fever', line: 'a remote-site temperature of 38.0 °C or over (fever) was charted; in a newborn this may mean infection: tell the medical team per unit policy' },
+  'heat-stress': { subject: 'heat stress', line: 'a heat-stress prompt (signs, a remote site above the normal band or a fast heart rate) is still unresolved' },
+  'manual-mode': { subject: 'manual mode beyond its limit', line: 'the heater is in manual mode beyond its limit (high output too long, or no check within 15 minutes)' },
+  'skin-to-skin-deviation': { subject: 'skin-to-skin temperature outside the limit', line: 'a temperature during skin-to-skin care is outside the session limit and still unresolved' },
 };
 
-/** Bring every admitted infant's stored flags up to date, so time-based flags (overdue checks) exist as rows. */
+/**
+ * Bring every admitted infant's stored flags up to date, so time-based flags (overdue checks,
+ * manual mode) exist as rows. Each infant is synced from its restart point (the evaluation a
+ * write would run), one short transaction per infant, so the sweep never holds the write lock for
+ * a whole unit's stays.
+ */
 export function syncAdmittedInfants(ctx: AppContext, now: Date): void {
   const { sqlite } = ctx.database;
-  writeTx(sqlite, () => {
-    const ids = sqlite.prepare("SELECT id FROM infants WHERE status = 'admitted'").all() as Array<{ id: string }>;
-    for (const { id } of ids) syncFlags(sqlite, id, now, null);
-  });
+  const ids = dbOf(sqlite).select({ id: infants.id }).from(infants).where(eq(infants.status, 'admitted')).all();
+  for (const { id } of ids) {
+    primeRuleReadings(sqlite, id);
+    writeTx(sqlite, () => syncFlags(sqlite, id, now, null, { from: now.getTime() }));
+  }
+}
+
+/** The instant an open flag reached its current severity: its raising or its last severity change. */
+function severitySince(db: Db, flagId: string, fallback: Date): Date {
+  const row = db
+    .select({ at: flagEvents.at, createdAt: flagEvents.createdAt })
+    .from(flagEvents)
+    .where(and(eq(flagEvents.flagId, flagId), inArray(flagEvents.event, ['raised', 'severity-changed'])))
+    .orderBy(desc(flagEvents.createdAt))
+    .limit(1)
+    .get();
+  if (!row) return fallback;
+  // A severity change is stamped when the sync saw it; a raising at the reading's taken time.
+  return row.at;
 }
 
 /**
- * Escalate every gap or overdue-check flag that has stayed open longer than its unit's
- * escalation delay, then e-mail the unit's charge nurses about each escalation not yet mailed.
+ * Escalate every open flag that has stayed open past its class's delay (shared/thermal/severity.ts:
+ * at once for the most severe, after the unit's delay for the urgent ones, never for mild cold
+ * stress unless the unit says so), then e-mail each escalation not yet sent to its recipient: the
+ * charge nurse(s) assigned on the unit's current shift, else the unit's fallback address, else
+ * every charge nurse of the unit. The escalation records whom it reached, when and how.
  *
  * Never twice: the escalation row is unique per flag (INSERT OR IGNORE), and a mail is claimed
  * by setting mailed_at in a write transaction before it is sent, so a second run, in this process
@@ -55,99 +95,183 @@ export function syncAdmittedInfants(ctx: AppContext, now: Date): void {
  */
 export async function runEscalations(ctx: AppContext, now: Date): Promise<EscalationRun> {
   const { sqlite } = ctx.database;
+  const db = dbOf(sqlite);
   syncAdmittedInfants(ctx, now);
 
   const created = writeTx(sqlite, () => {
-    const candidates = sqlite
-      .prepare(
-        `SELECT f.id AS flag_id, f.unit_id, f.kind, f.raised_at, f.infant_id
-           FROM flags f
-           JOIN infants i ON i.id = f.infant_id
-           JOIN units u ON u.id = f.unit_id
-           LEFT JOIN flag_resolutions r ON r.flag_id = f.id
-           LEFT JOIN escalations e ON e.flag_id = f.id
-          WHERE f.kind IN ('gap', 'overdue-check')
-            AND r.flag_id IS NULL AND e.id IS NULL AND i.status = 'admitted'
-            AND f.raised_at + u.escalation_delay_minutes * 60000 < ?`,
-      )
-      .all(now.getTime()) as Candidate[];
-    const insert = sqlite.prepare('INSERT OR IGNORE INTO escalations (id, flag_id, unit_id, escalated_at) VALUES (?, ?, ?, ?)');
+    const candidates = db
+      .select({ flagId: flags.id, unitId: flags.unitId, kind: flags.kind, raisedAt: flags.raisedAt, infantId: flags.infantId, detail: flags.detail })
+      .from(flags)
+      .innerJoin(infants, eq(infants.id, flags.infantId))
+      .leftJoin(flagResolutions, eq(flagResolutions.flagId, flags.id))
+      .leftJoin(escalations, eq(escalations.flagId, flags.id))
+      .where(and(isNull(flagResolutions.flagId), isNull(escalations.id), eq(infants.status, 'admitted')))
+      .all();
+    const policies = new Map<string, UnitPolicy>();
+    const clocks = new Map<string, Map<string, StoredOpenFlag>>();
     const ids: string[] = [];
     for (const c of candidates) {
+      let policy = policies.get(c.unitId);
+      if (!policy) {
+        const unit = loadUnitRow(sqlite, c.unitId)!;
+        policy = policyAt(unit, loadPolicyVersions(db, c.unitId), now.getTime()).policy;
+        policies.set(c.unitId, policy);
+      }
+      let open = clocks.get(c.infantId);
+      if (!open) {
+        const row = readClocks(db, c.infantId);
+        open = new Map((row ? (JSON.parse(row.openFlags) as StoredOpenFlag[]) : []).map((f) => [f.flagId, f]));
+        clocks.set(c.infantId, open);
+      }
+      const detail = open.get(c.flagId)?.detail ?? JSON.parse(c.detail);
+      const cls = severityClassOf(c.kind, detail);
+      const delay = escalationDelayOf(cls, policy);
+      if (delay === null) continue;
+      const waited = now.getTime() - severitySince(db, c.flagId, c.raisedAt).getTime();
+      // "More than" the delay; a delay of zero escalates at once.
+      if (delay === 0 ? waited < 0 : waited <= delay * 60_000) continue;
       const id = randomUUID();
-      if (insert.run(id, c.flag_id, c.unit_id, now.getTime()).changes !== 1) continue;
+      const severity = severityOf(c.kind, detail);
+      const inserted = db
+        .insert(escalations)
+        .values({ id, flagId: c.flagId, unitId: c.unitId, escalatedAt: now, severity })
+        .onConflictDoNothing()
+        .run();
+      if (inserted.changes !== 1) continue;
       appendAudit(sqlite, {
         at: now,
         actorId: null,
         action: 'escalation-raised',
         entityType: 'escalation',
         entityId: id,
-        unitId: c.unit_id,
-        after: { flagId: c.flag_id, kind: c.kind, infantId: c.infant_id, raisedAt: new Date(c.raised_at).toISOString() },
+        unitId: c.unitId,
+        after: { flagId: c.flagId, kind: c.kind, severity, infantId: c.infantId, raisedAt: c.raisedAt.toISOString() },
       });
       ids.push(id);
     }
     return ids;
   });
 
-  const pending = sqlite
-    .prepare(
-      `SELECT e.id, e.unit_id, f.kind, f.raised_at, e.escalated_at, i.display_name, b.label AS bed_label, u.time_zone
-         FROM escalations e
-         JOIN flags f ON f.id = e.flag_id
-         JOIN infants i ON i.id = f.infant_id
-         JOIN units u ON u.id = e.unit_id
-         LEFT JOIN beds b ON b.id = i.bed_id
-         LEFT JOIN flag_resolutions r ON r.flag_id = f.id
-        WHERE e.mailed_at IS NULL AND r.flag_id IS NULL
-        ORDER BY e.escalated_at`,
-    )
-    .all() as Pending[];
+  const pending = db
+    .select({
+      id: escalations.id,
+      flag_id: flags.id,
+      infant_id: flags.infantId,
+      unit_id: escalations.unitId,
+      kind: flags.kind,
+      severity: escalations.severity,
+      detail: flags.detail,
+      raised_at: flags.raisedAt,
+      escalated_at: escalations.escalatedAt,
+      display_name: infants.displayName,
+      bed_label: beds.label,
+      time_zone: units.timeZone,
+    })
+    .from(escalations)
+    .innerJoin(flags, eq(flags.id, escalations.flagId))
+    .innerJoin(infants, eq(infants.id, flags.infantId))
+    .innerJoin(units, eq(units.id, escalations.unitId))
+    .leftJoin(beds, eq(beds.id, infants.bedId))
+    .leftJoin(flagResolutions, eq(flagResolutions.flagId, flags.id))
+    .where(and(isNull(escalations.mailedAt), isNull(flagResolutions.flagId)))
+    .orderBy(asc(escalations.escalatedAt))
+    .all()
+    .map((p): Pending => {
+      const seen = readClocks(db, p.infant_id);
+      const live = seen ? (JSON.parse(seen.openFlags) as StoredOpenFlag[]).find((f) => f.flagId === p.flag_id) : undefined;
+      return {
+        ...p,
+        severity: p.severity ?? 'urgent',
+        detail: live?.detail ?? JSON.parse(p.detail),
+        raised_at: p.raised_at.getTime(),
+        escalated_at: p.escalated_at.getTime(),
+      };
+    });
 
   const mailed: string[] = [];
   for (const p of pending) {
-    const to = chargeNurseEmails(ctx, p.unit_id);
+    const to = escalationRecipients(ctx, p.unit_id, now);
     if (to.length === 0) continue;
-    const claimed = writeTx(sqlite, () => sqlite.prepare('UPDATE escalations SET mailed_at = ? WHERE id = ? AND mailed_at IS NULL').run(now.getTime(), p.id).changes === 1);
+    const claimed = writeTx(
+      sqlite,
+      () =>
+        db
+          .update(escalations)
+          .set({ mailedAt: now, recipient: JSON.stringify(to), channel: 'email' })
+          .where(and(eq(escalations.id, p.id), isNull(escalations.mailedAt)))
+          .run().changes === 1,
+    );
     if (!claimed) continue;
     try {
-      await ctx.mailer.send({ to, ...escalationMail(p, now, ctx.config.publicUrl) });
-      writeTx(sqlite, () =>
-        appendAudit(sqlite, { at: now, actorId: null, action: 'escalation-mailed', entityType: 'escalation', entityId: p.id, unitId: p.unit_id, after: { to } }),
-      );
+      await ctx.mailer.send({ to: to.map((r) => r.email), ...escalationMail(p, now, ctx.config.publicUrl) });
+      writeTx(sqlite, () => {
+        appendAudit(sqlite, { at: now, actorId: null, action: 'escalation-mailed', entityType: 'escalation', entityId: p.id, unitId: p.unit_id, after: { to: to.map((r) => r.email) } });
+        appendFlagEvent(db, { flagId: p.flag_id, infantId: p.infant_id, unitId: p.unit_id, event: 'escalated', at: now, severity: p.severity, detail: { escalationId: p.id, to, how: 'email' }, now });
+      });
       mailed.push(p.id);
     } catch (err) {
-      writeTx(sqlite, () => sqlite.prepare('UPDATE escalations SET mailed_at = NULL WHERE id = ?').run(p.id));
+      writeTx(sqlite, () => db.update(escalations).set({ mailedAt: null, recipient: null, channel: null }).where(eq(escalations.id, p.id)).run());
       ctx.log(`escalation ${p.id}: the e-mail could not be sent (${err instanceof Error ? err.message : String(err)}); it will be tried again.`);
     }
   }
   return { created, mailed };
 }
 
-function chargeNurseEmails(ctx: AppContext, unitId: string): string[] {
-  const rows = ctx.database.sqlite
-    .prepare(
-      `SELECT u.email FROM users u JOIN user_units m ON m.user_id = u.id
-        WHERE m.unit_id = ? AND u.role = 'charge' AND u.active = 1 ORDER BY u.email`,
+export interface Recipient {
+  userId: string | null;
+  name: string | null;
+  email: string;
+}
+
+/**
+ * Who an escalation goes to: the unit's charge nurse(s) assigned on the current shift; else the
+ * fallback address the administrator set for the unit; else every active charge nurse of the unit.
+ */
+export function escalationRecipients(ctx: AppContext, unitId: string, now: Date): Recipient[] {
+  const db = dbOf(ctx.database.sqlite);
+  const unit = db.select().from(units).where(eq(units.id, unitId)).get();
+  if (!unit) return [];
+  const slot = shiftAt(now, { dayShiftStart: unit.dayShiftStart, nightShiftStart: unit.nightShiftStart, timeZone: unit.timeZone });
+  const onShift = db
+    .selectDistinct({ userId: users.id, name: users.name, email: users.email })
+    .from(assignments)
+    .innerJoin(users, eq(users.id, assignments.nurseId))
+    .where(
+      and(
+        eq(assignments.unitId, unitId),
+        eq(assignments.shiftDate, slot.shiftDate),
+        eq(assignments.shift, slot.shift),
+        eq(users.role, 'charge'),
+        eq(users.active, true),
+      ),
     )
-    .all(unitId) as Array<{ email: string }>;
-  return rows.map((r) => r.email);
+    .orderBy(asc(users.email))
+    .all();
+  if (onShift.length > 0) return onShift;
+  if (unit.escalationFallbackEmail) return [{ userId: null, name: null, email: unit.escalationFallbackEmail }];
+  return db
+    .select({ userId: users.id, name: users.name, email: users.email })
+    .from(users)
+    .innerJoin(userUnits, eq(userUnits.userId, users.id))
+    .where(and(eq(userUnits.unitId, unitId), eq(users.role, 'charge'), eq(users.active, true)))
+    .orderBy(asc(users.email))
+    .all();
 }
 
 function localTime(ms: number, timeZone: string): string {
   return new Intl.DateTimeFormat('en-GB', { timeZone, hour: '2-digit', minute: '2-digit', day: 'numeric', month: 'short', hour12: false }).format(new Date(ms));
 }
 
-/** Only what the charge nurse needs to act: bed, display name, what, since when. */
+/** Only what the charge nurse needs to act: bed, display name, what, how serious, since when. */
 export function escalationMail(p: Pending, now: Date, publicUrl: string): { subject: string; text: string } {
   const bed = p.bed_label ?? 'no bed';
   const minutes = Math.max(0, Math.floor((now.getTime() - p.raised_at) / 60_000));
-  const what = WHAT[p.kind];
+  const what = WHAT[severityClassOf(p.kind, p.detail)];
   return {
     subject: `Warmfold escalation: bed ${bed}, ${what.subject}`,
     text: [
       `Bed ${bed}, ${p.display_name}: ${what.line}.`,
-      `Open since ${localTime(p.raised_at, p.time_zone)} (${p.time_zone}), ${minutes} minutes ago.`,
+      `Severity: ${SEVERITY_WORDS[p.severity]}. Open since ${localTime(p.raised_at, p.time_zone)} (${p.time_zone}), ${minutes} minutes ago.`,
       '',
       `Please look at the board and acknowledge the escalation there: ${publicUrl}/board`,
       '',
@@ -173,24 +297,29 @@ export function acknowledgeEscalation(
 ): Acknowledged {
   const { sqlite } = ctx.database;
   const now = ctx.clock.now();
+  const db = dbOf(sqlite);
   return writeTx(sqlite, () => {
-    const row = sqlite.prepare('SELECT id, unit_id, acknowledged_at FROM escalations WHERE id = ?').get(escalationId) as
-      | { id: string; unit_id: string; acknowledged_at: number | null }
-      | undefined;
+    const row = db
+      .select({ id: escalations.id, unitId: escalations.unitId, acknowledgedAt: escalations.acknowledgedAt, flagId: escalations.flagId, infantId: flags.infantId })
+      .from(escalations)
+      .innerJoin(flags, eq(flags.id, escalations.flagId))
+      .where(eq(escalations.id, escalationId))
+      .get();
     if (!row) throw notFound('That escalation');
-    assertUnit(row.unit_id);
-    if (row.acknowledged_at !== null) throw conflict('This escalation has already been acknowledged.');
-    sqlite.prepare('UPDATE escalations SET acknowledged_at = ?, acknowledged_by = ?, acknowledge_note = ? WHERE id = ?').run(now.getTime(), actor.userId, note, row.id);
+    assertUnit(row.unitId);
+    if (row.acknowledgedAt !== null) throw conflict('This escalation has already been acknowledged.');
+    db.update(escalations).set({ acknowledgedAt: now, acknowledgedBy: actor.userId, acknowledgeNote: note }).where(eq(escalations.id, row.id)).run();
     appendAudit(sqlite, {
       at: now,
       actorId: actor.userId,
       action: 'escalation-acknowledged',
       entityType: 'escalation',
       entityId: row.id,
-      unitId: row.unit_id,
+      unitId: row.unitId,
       before: { acknowledgedAt: null },
       after: { acknowledgedAt: now.toISOString(), note },
     });
+    appendFlagEvent(db, { flagId: row.flagId, infantId: row.infantId, unitId: row.unitId, event: 'acknowledged', at: now, actorId: actor.userId, detail: { escalationId: row.id, note }, now });
     return { id: row.id, acknowledgedAt: now.toISOString(), acknowledgedBy: actor.userId, note };
   });
 }

@@ -1,13 +1,14 @@
-import { prepared } from '../../db/client';
+import { prepared, writeTx } from '../../db/client';
 import type Database from 'better-sqlite3';
-import { evaluateInfant, flagEscalation, type EvaluatedFlag, type InfantEvaluation, type UnitPolicy } from '../../shared/thermal';
+import { and, asc, eq, gte, inArray, isNotNull, isNull, or } from 'drizzle-orm';
+import { actions, escalations, flagEvents, flagResolutions, flags, infantClocks, users } from '../../db/schema';
+import { dueStatus, needsAttention, worseSeverity, type EvaluatedFlag, type FlagKind, type InfantEvaluation, type Severity } from '../../shared/thermal';
 import { shiftAt } from '../../shared/shifts';
-import type { InfantSummary, NextCheck, OpenFlagSummary } from '../../shared/types/bedside';
-import { policyForUnit, RULE_COLUMNS, ruleReadingFromValues, type InfantState, type UnitRow } from './flags';
+import type { CheckClocks, ClockStatus, EscalationSent, FlowsheetFlag, InfantSummary, NextCheck, OpenFlagSummary, RecheckClock } from '../../shared/types/bedside';
+import { dbOf, type ClockRow, type StoredLatest, type StoredOpenFlag } from './flag-lifecycle';
+import { syncFlags, type UnitRow } from './flags';
 
 const DAY_MS = 86_400_000;
-/** How far back the summaries read the chart: enough for the board and the shift, fast for a unit. */
-export const SUMMARY_WINDOW_HOURS = 72;
 
 interface InfantRow {
   id: string;
@@ -23,11 +24,6 @@ interface InfantRow {
   admitted_at: number;
 }
 
-/** The rules' columns, qualified for a query that aliases readings as r. */
-const RULE_COLUMNS_R = RULE_COLUMNS.split(', ')
-  .map((c) => `r.${c}`)
-  .join(', ');
-
 /** JSON-safe copy of the rules' detail (Dates become ISO strings). */
 export function plainDetail(detail: unknown): Record<string, unknown> {
   return JSON.parse(JSON.stringify(detail ?? {})) as Record<string, unknown>;
@@ -37,16 +33,159 @@ export function nextCheckJson(next: InfantEvaluation['nextCheck']): NextCheck {
   return { status: next.status, dueAt: next.dueAt ? next.dueAt.toISOString() : null, minutesLate: next.minutesLate };
 }
 
+/** A flag as the rules just evaluated it (a write's answer); nothing about escalation yet. */
 export function openFlagJson(flag: EvaluatedFlag, storedId: string | null, escalated: boolean): OpenFlagSummary {
   return {
     id: storedId,
     key: flag.key,
     kind: flag.kind,
     raisedAt: flag.raisedAt.toISOString(),
+    raisedByReadingId: flag.raisedByReadingId,
     detail: plainDetail(flag.detail),
     recheckDueAt: flag.recheckDueAt ? flag.recheckDueAt.toISOString() : null,
+    severity: flag.severity,
+    escalation: null,
     escalated,
   };
+}
+
+const iso = (d: Date | null | undefined): string | null => (d ? d.toISOString() : null);
+
+function clockJson(dueAt: Date | null, now: Date, dueSoonMinutes: number): ClockStatus {
+  const s = dueStatus(dueAt, now, dueSoonMinutes);
+  return { status: s.status, dueAt: iso(s.dueAt), minutesLate: s.minutesLate };
+}
+
+const STATUS_RANK: Record<ClockStatus['status'], number> = { overdue: 0, 'due-soon': 1, ok: 2, never: 3 };
+
+/** Every check clock from the stored next-due instants, as of `now`. */
+export function checkClocks(clock: ClockRow | undefined, open: OpenFlagSummary[], now: Date): CheckClocks {
+  const dueSoon = clock?.dueSoonMinutes ?? 15;
+  const remote = clockJson(clock?.remoteDueAt ?? null, now, dueSoon);
+  const manual =
+    clock?.manualSince && clock.manualDueAt
+      ? {
+          ...clockJson(clock.manualDueAt, now, Math.min(dueSoon, Math.max(0, (clock.manualLimitMinutes ?? 15) - 1))),
+          since: clock.manualSince.toISOString(),
+          outputPct: clock.manualOutputPct,
+          limitMinutes: clock.manualLimitMinutes ?? 15,
+        }
+      : null;
+  const rechecks = open.map((f) => f.recheck).filter((r): r is RecheckClock => r !== null && r !== undefined);
+  const candidates: Array<CheckClocks['next']> = [{ clock: 'remote', ...remote }];
+  if (manual) candidates.push({ clock: 'manual', status: manual.status, dueAt: manual.dueAt, minutesLate: manual.minutesLate });
+  for (const r of rechecks) candidates.push({ clock: 'recheck', status: r.status, dueAt: r.dueAt, minutesLate: r.minutesLate });
+  const next = candidates.reduce((a, b) => {
+    if (b.dueAt === null) return a;
+    if (a.dueAt === null) return b;
+    return Date.parse(b.dueAt) < Date.parse(a.dueAt) ? b : a;
+  });
+  return { remote, manual, rechecks, next: STATUS_RANK[next.status] <= STATUS_RANK[remote.status] ? next : { clock: 'remote', ...remote } };
+}
+
+interface StoredFlagRow {
+  id: string;
+  infantId: string;
+  key: string;
+  kind: FlagKind;
+  raisedAt: Date;
+  raisedByReadingId: string | null;
+  detail: string;
+  severity: Severity | null;
+}
+
+/** Escalations that actually went out, by flag id. */
+export function sentEscalations(sqlite: Database.Database, flagIds: string[]): Map<string, EscalationSent> {
+  const out = new Map<string, EscalationSent>();
+  if (flagIds.length === 0) return out;
+  const rows = dbOf(sqlite)
+    .select({
+      id: escalations.id,
+      flagId: escalations.flagId,
+      mailedAt: escalations.mailedAt,
+      recipient: escalations.recipient,
+      acknowledgedAt: escalations.acknowledgedAt,
+      acknowledgedBy: escalations.acknowledgedBy,
+      ackName: users.name,
+    })
+    .from(escalations)
+    .leftJoin(users, eq(users.id, escalations.acknowledgedBy))
+    .where(and(inArray(escalations.flagId, flagIds), isNotNull(escalations.mailedAt)))
+    .all();
+  for (const r of rows) {
+    out.set(r.flagId, {
+      id: r.id,
+      sentAt: r.mailedAt!.toISOString(),
+      to: r.recipient ? (JSON.parse(r.recipient) as EscalationSent['to']) : [],
+      how: 'email',
+      acknowledgedAt: iso(r.acknowledgedAt),
+      acknowledgedBy: r.acknowledgedBy ? { id: r.acknowledgedBy, name: r.ackName ?? '' } : null,
+    });
+  }
+  return out;
+}
+
+/** The stored open flags of these infants (raised, neither closed nor withdrawn). */
+function storedOpenFlags(sqlite: Database.Database, infantIds: string[]): StoredFlagRow[] {
+  return dbOf(sqlite)
+    .select({
+      id: flags.id,
+      infantId: flags.infantId,
+      key: flags.key,
+      kind: flags.kind,
+      raisedAt: flags.raisedAt,
+      raisedByReadingId: flags.raisedByReadingId,
+      detail: flags.detail,
+      severity: flags.severity,
+    })
+    .from(flags)
+    .leftJoin(flagResolutions, eq(flagResolutions.flagId, flags.id))
+    .where(and(inArray(flags.infantId, infantIds), isNull(flagResolutions.flagId)))
+    .orderBy(asc(flags.raisedAt), asc(flags.key))
+    .all();
+}
+
+/**
+ * The open flags of one infant as stored: the flag row, what the last evaluation found about it
+ * (current severity and detail, the recheck clock) and its escalation if one went out.
+ */
+export function openFlagsFromStore(
+  rows: StoredFlagRow[],
+  clock: ClockRow | undefined,
+  sent: Map<string, EscalationSent>,
+  now: Date,
+): OpenFlagSummary[] {
+  const current = new Map((clock ? (JSON.parse(clock.openFlags) as StoredOpenFlag[]) : []).map((f) => [f.flagId, f]));
+  const dueSoon = clock?.dueSoonMinutes ?? 15;
+  return rows.map((row) => {
+    const seen = current.get(row.id);
+    const severity = seen?.severity ?? row.severity ?? 'urgent';
+    const escalation = sent.get(row.id) ?? null;
+    const recheckDueAt = seen?.recheckDueAt ?? null;
+    const recheck: RecheckClock | null = recheckDueAt
+      ? { flagId: row.id, kind: row.kind, countsFrom: seen?.recheckCountsFrom ?? null, ...clockJson(new Date(recheckDueAt), now, dueSoon) }
+      : null;
+    return {
+      id: row.id,
+      key: row.key,
+      kind: row.kind,
+      raisedAt: row.raisedAt.toISOString(),
+      raisedByReadingId: row.raisedByReadingId,
+      detail: plainDetail(seen ? seen.detail : JSON.parse(row.detail)),
+      recheckDueAt,
+      severity,
+      recheck,
+      escalation,
+      escalated: escalation !== null,
+    };
+  });
+}
+
+/** The most severe open flag, and whether the bed needs attention (an urgent flag or an overdue clock). */
+export function attentionOf(open: OpenFlagSummary[], checks: CheckClocks): { severity: Severity | null; needsAttention: boolean } {
+  const severity = open.reduce<Severity | null>((worst, f) => worseSeverity(worst, f.severity ?? null), null);
+  const overdue = checks.remote.status === 'overdue' || checks.manual?.status === 'overdue' || checks.rechecks.some((r) => r.status === 'overdue');
+  return { severity, needsAttention: needsAttention(severity) || overdue };
 }
 
 /** Postmenstrual age and days since birth at `now`. */
@@ -68,15 +207,18 @@ function groupBy<T>(rows: T[], key: (row: T) => string): Map<string, T[]> {
 }
 
 /**
- * Summaries of many infants at once: one query per table for all the ids, then the rules per
- * infant in memory. Readings are those of the last 72 h, plus the last remote-site check when
- * none falls in the window (the schedule runs from it), plus every version of each chain.
+ * Summaries of many infants at once, from what is stored: the open flags (flags without a
+ * resolution), what the last evaluation found (infant_clocks: severity, detail, the check
+ * clocks' next-due instants) and the escalations that went out. Nothing here runs the rules;
+ * "due soon" and "overdue" come from the stored instants and `now`. An infant no evaluation has
+ * stored clocks for yet (a database from before them) is synced once first.
  * Returned in the order of `infantIds`; unknown ids are skipped.
  */
 export function summarizeInfants(sqlite: Database.Database, infantIds: string[], now: Date): InfantSummary[] {
   if (infantIds.length === 0) return [];
-  const ids = JSON.stringify([...new Set(infantIds)]);
-  const since = now.getTime() - SUMMARY_WINDOW_HOURS * 3_600_000;
+  const unique = [...new Set(infantIds)];
+  const ids = JSON.stringify(unique);
+  const db = dbOf(sqlite);
 
   const infants = prepared(
     sqlite,
@@ -88,70 +230,30 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
     .all(ids) as InfantRow[];
   if (infants.length === 0) return [];
 
+  const loadClocks = () => db.select().from(infantClocks).where(inArray(infantClocks.infantId, unique)).all();
+  let clockRows = loadClocks();
+  const missing = infants.filter((i) => !clockRows.some((c) => c.infantId === i.id));
+  if (missing.length > 0 && !sqlite.inTransaction) {
+    writeTx(sqlite, () => {
+      for (const i of missing) syncFlags(sqlite, i.id, now, null);
+    });
+    clockRows = loadClocks();
+  }
+  const clocks = new Map(clockRows.map((c) => [c.infantId, c]));
+
   const unitIds = JSON.stringify([...new Set(infants.map((i) => i.unit_id))]);
   const units = prepared(sqlite, 'SELECT * FROM units WHERE id IN (SELECT value FROM json_each(?))').all(unitIds) as UnitRow[];
-  const policies = new Map<string, UnitPolicy>(units.map((u) => [u.id, policyForUnit(u)]));
+  const unitById = new Map(units.map((u) => [u.id, u]));
 
-  // Correction chains are rare: the version-chain walk (a recursive query, two thirds of a board
-  // build when it ran for every unit) is needed only when one of these infants has one.
-  const corrected = prepared(sqlite, 'SELECT 1 FROM readings INDEXED BY readings_replaces WHERE replaces_id IS NOT NULL AND infant_id IN (SELECT value FROM json_each(?)) LIMIT 1')
-    .get(ids);
-  const picked = `
-         picked(id) AS (
-           SELECT r.id FROM readings r WHERE r.infant_id IN (SELECT id FROM ids) AND r.taken_at >= @since
-           UNION
-           SELECT (SELECT x.id FROM readings x
-                    WHERE x.infant_id = ids.id AND x.remote_centi IS NOT NULL AND x.entered_in_error = 0 AND x.taken_at < @since
-                      AND NOT EXISTS (SELECT 1 FROM readings y WHERE y.replaces_id = x.id)
-                    ORDER BY x.taken_at DESC, x.recorded_at DESC LIMIT 1)
-             FROM ids
-            WHERE NOT EXISTS (SELECT 1 FROM readings z WHERE z.infant_id = ids.id AND z.remote_centi IS NOT NULL AND z.taken_at >= @since)
-         )`;
-  const rawReadings = prepared(
-    sqlite,
-      corrected
-        ? `WITH RECURSIVE
-         ids(id) AS (SELECT value FROM json_each(@ids)),${picked},
-         up(id) AS (
-           SELECT id FROM picked WHERE id IS NOT NULL
-           UNION SELECT r.replaces_id FROM readings r JOIN up ON r.id = up.id WHERE r.replaces_id IS NOT NULL
-         ),
-         down(id) AS (
-           SELECT id FROM up
-           UNION SELECT r.id FROM readings r JOIN down ON r.replaces_id = down.id
-         )
-       SELECT r.infant_id, ${RULE_COLUMNS_R} FROM readings r WHERE r.id IN (SELECT id FROM down) ORDER BY r.taken_at, r.recorded_at`
-        : `WITH
-         ids(id) AS (SELECT value FROM json_each(@ids)),${picked}
-       SELECT r.infant_id, ${RULE_COLUMNS_R} FROM readings r WHERE r.id IN (SELECT id FROM picked) ORDER BY r.taken_at, r.recorded_at`,
-    )
-    .raw()
-    .all({ ids, since }) as unknown[][];
-  // Positional rows (see ruleReadingFromValues): the infant's id, then the rules' columns.
-  const readings = rawReadings.map((values) => ({ infantId: values[0] as string, reading: ruleReadingFromValues(values, 1) }));
-
-  const actions = prepared(
-    sqlite,
-      `SELECT a.id, a.infant_id, f.key AS flag_key, a.kind, a.at FROM actions a JOIN flags f ON f.id = a.flag_id
-        WHERE a.infant_id IN (SELECT value FROM json_each(?)) AND a.at >= ? ORDER BY a.at`,
-    )
-    .all(ids, since) as Array<{ id: string; infant_id: string; flag_key: string; kind: string; at: number }>;
+  const openRows = storedOpenFlags(sqlite, unique);
+  const sent = sentEscalations(sqlite, openRows.map((r) => r.id));
 
   const sessions = prepared(
     sqlite,
       `SELECT id, infant_id, started_at, ended_at, reference_centi, limit_centi FROM skin_to_skin_sessions
-        WHERE infant_id IN (SELECT value FROM json_each(?)) AND (ended_at IS NULL OR ended_at >= ?) ORDER BY started_at`,
+        WHERE infant_id IN (SELECT value FROM json_each(?)) AND ended_at IS NULL ORDER BY started_at`,
     )
-    .all(ids, since) as Array<{ id: string; infant_id: string; started_at: number; ended_at: number | null; reference_centi: number; limit_centi: number }>;
-
-  const storedFlags = prepared(
-    sqlite,
-      `SELECT f.id, f.infant_id, f.key, e.id AS escalation_id FROM flags f
-         LEFT JOIN flag_resolutions r ON r.flag_id = f.id
-         LEFT JOIN escalations e ON e.flag_id = f.id
-        WHERE f.infant_id IN (SELECT value FROM json_each(?)) AND r.flag_id IS NULL`,
-    )
-    .all(ids) as Array<{ id: string; infant_id: string; key: string; escalation_id: string | null }>;
+    .all(ids) as Array<{ id: string; infant_id: string; started_at: number; ended_at: number | null; reference_centi: number; limit_centi: number }>;
 
   const assignments = prepared(
     sqlite,
@@ -169,10 +271,8 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
     nurse_name: string;
   }>;
 
-  const readingsBy = groupBy(readings, (r) => r.infantId);
-  const actionsBy = groupBy(actions, (a) => a.infant_id);
+  const flagsBy = groupBy(openRows, (f) => f.infantId);
   const sessionsBy = groupBy(sessions, (s) => s.infant_id);
-  const flagsBy = groupBy(storedFlags, (f) => f.infant_id);
   const assignmentsBy = groupBy(assignments, (a) => a.infant_id);
   const slots = new Map(
     units.map((u) => [u.id, shiftAt(now, { dayShiftStart: u.day_shift_start, nightShiftStart: u.night_shift_start, timeZone: u.time_zone })]),
@@ -180,29 +280,18 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
 
   const byId = new Map<string, InfantSummary>();
   for (const infant of infants) {
-    const policy = policies.get(infant.unit_id)!;
-    const state: InfantState = {
-      readings: (readingsBy.get(infant.id) ?? []).map((r) => r.reading),
-      actions: (actionsBy.get(infant.id) ?? []).map((a) => ({ id: a.id, flagKey: a.flag_key, kind: a.kind, at: new Date(a.at) })),
-      sessions: (sessionsBy.get(infant.id) ?? []).map((s) => ({
-        id: s.id,
-        startedAt: new Date(s.started_at),
-        endedAt: s.ended_at === null ? null : new Date(s.ended_at),
-        referenceCenti: s.reference_centi,
-        limitCenti: s.limit_centi,
-      })),
-      admittedAt: new Date(infant.admitted_at),
-    };
-    const evaluation = evaluateInfant(state, now, policy);
-    const stored = new Map((flagsBy.get(infant.id) ?? []).map((f) => [f.key, f]));
-    const running = (sessionsBy.get(infant.id) ?? []).filter((s) => s.ended_at === null && s.started_at <= now.getTime()).pop();
+    const unit = unitById.get(infant.unit_id)!;
+    const clock = clocks.get(infant.id);
+    const latest: StoredLatest | null = clock ? (JSON.parse(clock.latest) as StoredLatest) : null;
+    const openFlags = openFlagsFromStore(flagsBy.get(infant.id) ?? [], clock, sent, now);
+    const checks = checkClocks(clock, openFlags, now);
+    const running = (sessionsBy.get(infant.id) ?? []).filter((s) => s.started_at <= now.getTime()).pop();
     const slot = slots.get(infant.unit_id)!;
     const assigned = (assignmentsBy.get(infant.id) ?? []).filter((a) => a.shift_date === slot.shiftDate && a.shift === slot.shift).pop();
-    const { latest } = evaluation;
     byId.set(infant.id, {
       id: infant.id,
       unitId: infant.unit_id,
-      timeZone: policy.timeZone,
+      timeZone: unit.time_zone,
       bedId: infant.bed_id,
       bedLabel: infant.bed_label,
       displayName: infant.display_name,
@@ -211,26 +300,98 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
       ...ages(infant.birth_at, infant.gestation_weeks, infant.gestation_days, now),
       weightGrams: infant.weight_grams,
       heatSource: infant.heat_source,
-      controlMode: latest.controlMode,
-      setCenti: latest.setCenti,
+      controlMode: latest?.controlMode ?? null,
+      setCenti: latest?.setCenti ?? null,
       latest: {
-        probe: latest.probeCenti !== null && latest.probeTakenAt ? { centi: latest.probeCenti, takenAt: latest.probeTakenAt.toISOString() } : null,
-        remote:
-          latest.remoteCenti !== null && latest.remoteTakenAt
-            ? { centi: latest.remoteCenti, site: latest.remoteSite, takenAt: latest.remoteTakenAt.toISOString() }
-            : null,
+        probe: latest?.probeCenti != null && latest.probeTakenAt ? { centi: latest.probeCenti, takenAt: latest.probeTakenAt } : null,
+        remote: latest?.remoteCenti != null && latest.remoteTakenAt ? { centi: latest.remoteCenti, site: latest.remoteSite, takenAt: latest.remoteTakenAt } : null,
       },
-      nextCheck: nextCheckJson(evaluation.nextCheck),
-      openFlags: evaluation.openFlags.map((flag) => {
-        const row = stored.get(flag.key);
-        const escalated = row?.escalation_id != null || flagEscalation(flag, now, policy).escalated;
-        return openFlagJson(flag, row?.id ?? null, escalated);
-      }),
+      nextCheck: checks.remote,
+      checks,
+      attention: attentionOf(openFlags, checks),
+      openFlags,
       skinToSkin: running
         ? { id: running.id, startedAt: new Date(running.started_at).toISOString(), referenceCenti: running.reference_centi, limitCenti: running.limit_centi }
         : null,
       assignedNurse: assigned ? { id: assigned.nurse_id, name: assigned.nurse_name } : null,
     });
   }
-  return [...new Set(infantIds)].map((id) => byId.get(id)).filter((s): s is InfantSummary => s !== undefined);
+  return unique.map((id) => byId.get(id)).filter((s): s is InfantSummary => s !== undefined);
+}
+
+/**
+ * The flowsheet's flags, as stored: every flag open now, or raised or resolved since `fromMs`,
+ * newest first, with its actions, its current severity, its recheck clock, the escalation that
+ * went out (if any) and, for a withdrawn flag, why and by which reading.
+ */
+export function storedFlowsheetFlags(sqlite: Database.Database, infantId: string, fromMs: number, now: Date): FlowsheetFlag[] {
+  const db = dbOf(sqlite);
+  const rows = db
+    .select({
+      id: flags.id,
+      infantId: flags.infantId,
+      key: flags.key,
+      kind: flags.kind,
+      raisedAt: flags.raisedAt,
+      raisedByReadingId: flags.raisedByReadingId,
+      detail: flags.detail,
+      severity: flags.severity,
+      closedAt: flagResolutions.closedAt,
+      closedByReadingId: flagResolutions.closedByReadingId,
+      how: flagResolutions.how,
+    })
+    .from(flags)
+    .leftJoin(flagResolutions, eq(flagResolutions.flagId, flags.id))
+    .where(and(eq(flags.infantId, infantId), or(isNull(flagResolutions.flagId), gte(flags.raisedAt, new Date(fromMs)), gte(flagResolutions.closedAt, new Date(fromMs)))))
+    .orderBy(asc(flags.raisedAt), asc(flags.key))
+    .all();
+  const clock = db.select().from(infantClocks).where(eq(infantClocks.infantId, infantId)).get();
+  const open = rows.filter((r) => r.closedAt === null);
+  const sent = sentEscalations(sqlite, rows.map((r) => r.id));
+  const openJson = new Map(openFlagsFromStore(open, clock, sent, now).map((f) => [f.id, f]));
+  const ids = rows.map((r) => r.id);
+  const acts = ids.length
+    ? db
+        .select({ id: actions.id, flagId: actions.flagId, kind: actions.kind, note: actions.note, at: actions.at, recordedBy: actions.recordedBy, name: users.name })
+        .from(actions)
+        .innerJoin(users, eq(users.id, actions.recordedBy))
+        .where(inArray(actions.flagId, ids))
+        .orderBy(asc(actions.at), asc(actions.createdAt))
+        .all()
+    : [];
+  const withdrawals = ids.length
+    ? db
+        .select({ flagId: flagEvents.flagId, at: flagEvents.at, detail: flagEvents.detail })
+        .from(flagEvents)
+        .where(and(inArray(flagEvents.flagId, ids), eq(flagEvents.event, 'withdrawn')))
+        .all()
+    : [];
+  const withdrawnBy = new Map(withdrawals.map((w) => [w.flagId, w]));
+  return rows
+    .map((r): FlowsheetFlag => {
+      const live = openJson.get(r.id);
+      const w = withdrawnBy.get(r.id);
+      const why = w ? (JSON.parse(w.detail) as { reason?: string; readingId?: string | null }) : null;
+      return {
+        id: r.id,
+        key: r.key,
+        kind: r.kind,
+        status: r.closedAt === null ? 'open' : r.how === 'withdrawn' ? 'withdrawn' : 'closed',
+        raisedAt: r.raisedAt.toISOString(),
+        raisedByReadingId: r.raisedByReadingId,
+        closedAt: iso(r.closedAt),
+        closedByReadingId: r.closedByReadingId,
+        recheckDueAt: live?.recheckDueAt ?? null,
+        recheck: live?.recheck ?? null,
+        severity: live?.severity ?? r.severity ?? 'urgent',
+        escalation: sent.get(r.id) ?? null,
+        escalated: sent.has(r.id),
+        detail: live ? live.detail : plainDetail(JSON.parse(r.detail)),
+        withdrawn: w ? { reason: why?.reason ?? 'reading-corrected', readingId: why?.readingId ?? null, at: w.at.toISOString() } : null,
+        actions: acts
+          .filter((a) => a.flagId === r.id)
+          .map((a) => ({ id: a.id, flagId: a.flagId, kind: a.kind, note: a.note, at: a.at.toISOString(), recordedBy: { id: a.recordedBy, name: a.name } })),
+      };
+    })
+    .reverse();
 }

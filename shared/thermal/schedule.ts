@@ -48,6 +48,18 @@ export function requireMinutes(value: unknown, field: string, allowZero: boolean
 }
 
 /**
+ * Where a stored next-due instant stands at `now` (the same boundaries as checkStatus): views
+ * derive "due soon" and "overdue" from the stored instant and the clock, never from the rules.
+ */
+export function dueStatus(dueAt: Date | null, now: Date, dueSoonMinutes: number): CheckStatusResult {
+  if (dueAt === null) return { status: 'never', dueAt: null, minutesLate: 0 };
+  const dueMs = dueAt.getTime();
+  const nowMs = now.getTime();
+  if (nowMs > dueMs) return { status: 'overdue', dueAt, minutesLate: Math.floor((nowMs - dueMs) / MINUTE_MS) };
+  return { status: nowMs >= dueMs - dueSoonMinutes * MINUTE_MS ? 'due-soon' : 'ok', dueAt, minutesLate: 0 };
+}
+
+/**
  * Where the next remote-site check stands at `now`:
  * - 'never'    no check recorded;
  * - 'ok'       now < dueAt − dueSoon;

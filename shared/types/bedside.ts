@@ -2,7 +2,7 @@
  * What the bedside API answers with. Temperatures are integer hundredths of °C; instants are
  * ISO 8601 strings. The client formats both by the user's settings.
  */
-import type { FlagKind } from '../thermal';
+import type { FlagKind, Severity } from '../thermal';
 
 export type HeatSource = 'radiant-warmer' | 'incubator' | 'convertible';
 export type ControlModeName = 'skin-servo' | 'air-servo' | 'manual';
@@ -15,15 +15,63 @@ export interface NextCheck {
   minutesLate: number;
 }
 
+/** An escalation that went out: whom it reached, when and how; and its acknowledgement. */
+export interface EscalationSent {
+  id: string;
+  sentAt: string;
+  to: Array<{ userId: string | null; name: string | null; email: string }>;
+  how: 'email';
+  acknowledgedAt: string | null;
+  acknowledgedBy: { id: string; name: string } | null;
+}
+
+/** A check clock at the time of the answer, from its stored next-due instant. */
+export interface ClockStatus {
+  status: NextCheckStatus;
+  dueAt: string | null;
+  minutesLate: number;
+}
+
+export interface RecheckClock extends ClockStatus {
+  flagId: string;
+  kind: FlagKind;
+  /** From when a reading counts as the recheck (the first action plus the unit's settle time). */
+  countsFrom: string | null;
+}
+
+export interface ManualClock extends ClockStatus {
+  /** Manual mode charted since. */
+  since: string;
+  /** The latest charted heater output (%), if any. */
+  outputPct: number | null;
+  /** Minutes allowed between checks in manual mode (15, ECRI). */
+  limitMinutes: number;
+}
+
+/** Every check clock of an infant: the remote-site check, manual mode's, each recheck; and the soonest. */
+export interface CheckClocks {
+  remote: ClockStatus;
+  manual: ManualClock | null;
+  rechecks: RecheckClock[];
+  next: ClockStatus & { clock: 'remote' | 'manual' | 'recheck' };
+}
+
 export interface OpenFlagSummary {
   /** The stored flag's id once the flag has been stored; null for a flag only the rules see yet. */
   id: string | null;
   key: string;
   kind: FlagKind;
   raisedAt: string;
+  raisedByReadingId?: string | null;
   /** The rules' detail for the kind, with instants as ISO strings. */
   detail: Record<string, unknown>;
   recheckDueAt: string | null;
+  /** shared/thermal/severity.ts: decides order, colour, word and escalation. */
+  severity?: Severity;
+  recheck?: RecheckClock | null;
+  /** Null unless an escalation actually went out. */
+  escalation?: EscalationSent | null;
+  /** True only when an escalation went out (`escalation` is then set). */
   escalated?: boolean;
 }
 
@@ -56,7 +104,11 @@ export interface InfantSummary {
     probe: { centi: number; takenAt: string } | null;
     remote: { centi: number; site: RemoteSiteName | null; takenAt: string } | null;
   };
+  /** The remote-site check clock (kept for older screens; `checks.remote` is the same). */
   nextCheck: NextCheck;
+  checks?: CheckClocks;
+  /** The most severe open flag's severity, and whether the bed needs attention now. */
+  attention?: { severity: Severity | null; needsAttention: boolean };
   openFlags: OpenFlagSummary[];
   skinToSkin: SkinToSkinSummary | null;
   assignedNurse: { id: string; name: string } | null;
@@ -103,7 +155,7 @@ export interface FlowsheetFlag {
   id: string | null;
   key: string;
   kind: FlagKind;
-  status: 'open' | 'closed';
+  status: 'open' | 'closed' | 'withdrawn';
   raisedAt: string;
   raisedByReadingId: string | null;
   closedAt: string | null;
@@ -112,6 +164,11 @@ export interface FlowsheetFlag {
   escalated: boolean;
   detail: Record<string, unknown>;
   actions: FlagAction[];
+  severity?: Severity;
+  escalation?: EscalationSent | null;
+  recheck?: RecheckClock | null;
+  /** Set when a late entry or correction showed the flag should not have been raised. */
+  withdrawn?: { reason: string; readingId: string | null; at: string } | null;
 }
 
 export interface FlagAction {
@@ -154,6 +211,7 @@ export interface Flowsheet {
   flags: FlowsheetFlag[];
   sessions: SessionRecord[];
   nextCheck: NextCheck;
+  checks?: CheckClocks;
   policy: FlowsheetPolicy;
 }
 

@@ -1,11 +1,11 @@
 /** What the board, handover and mailbox endpoints answer. Instants are ISO strings. */
-import type { CheckStatus, FlagKind } from '../thermal';
-import type { ControlModeName, HeatSource, InfantSummary } from './bedside';
+import type { CheckStatus, FlagKind, Severity } from '../thermal';
+import type { CheckClocks, ControlModeName, EscalationSent, HeatSource, InfantSummary } from './bedside';
 
 export type { HeatSource } from './bedside';
 export type ControlMode = ControlModeName;
 
-/** 0 needs attention now (overdue check, unresolved gap flag), 1 due soon, 2 the rest, 3 empty bed. */
+/** 0 needs attention now (a critical or urgent flag, an overdue clock), 1 due soon or a caution, 2 the rest, 3 empty bed. */
 export type UrgencyTier = 0 | 1 | 2 | 3;
 export const URGENCY_LABELS: Record<UrgencyTier, string> = { 0: 'Needs attention', 1: 'Check due soon', 2: 'Settled', 3: 'Empty bed' };
 
@@ -18,6 +18,11 @@ export interface BoardEscalation {
   acknowledgedAt: string | null;
   acknowledgedBy: { id: string; name: string } | null;
   note: string | null;
+  /** When it went out (null: not sent yet, so no one has been told). */
+  sentAt: string | null;
+  /** Whom it reached. */
+  to: EscalationSent['to'];
+  severity: Severity;
 }
 
 export interface BoardBed {
@@ -82,6 +87,11 @@ export interface HandoverFlag {
   actions: Array<{ kind: string; note: string | null; at: string; by: string }>;
   escalatedAt: string | null;
   acknowledgedAt: string | null;
+  severity?: Severity;
+  /** Null unless an escalation actually went out. */
+  escalation?: EscalationSent | null;
+  /** Set when a late entry or correction withdrew it. */
+  withdrawn?: { reason: string; readingId: string | null } | null;
 }
 
 export interface HandoverInfant {
@@ -102,6 +112,7 @@ export interface HandoverInfant {
   timeZone: string;
   settings: { controlMode: ControlMode | null; setCenti: number | null; heaterOutputPct: number | null; probeCenti: number | null; remoteCenti: number | null; remoteTakenAt: string | null };
   nextCheck: { status: CheckStatus; dueAt: string | null; minutesLate: number };
+  checks?: CheckClocks;
   readings: HandoverReading[];
   flags: HandoverFlag[];
   sessions: Array<{ id: string; startedAt: string; endedAt: string | null; referenceCenti: number; limitCenti: number; carer: string | null }>;

@@ -50,27 +50,30 @@ describe('the board as time passes (fixed clock)', () => {
     let b = await board();
     expect(bed(b, 'N06').tier).toBe(0);
     expect(bed(b, 'N06').infant!.nextCheck.status).toBe('overdue');
-    // Longest waiting first: N02 (overdue since -50), N01 (gap since -35), N03 (gap since -20), N06 (due at +10).
-    expect(b.beds.slice(0, 4).map((x) => x.label)).toEqual(['N02', 'N01', 'N03', 'N06']);
+    // Longest waiting first: N02 (overdue since -50), N01 (gap since -35), N03 (gap since -20),
+    // N05 (manual mode beyond its 15-minute limit since -15: urgent, ECRI), N06 (due at +10).
+    expect(b.beds.slice(0, 5).map((x) => x.label)).toEqual(['N02', 'N01', 'N03', 'N05', 'N06']);
 
-    // N03's gap is now 31 minutes old: it escalates; N06's overdue check (1 minute) does not.
+    // N03's gap and heat-stress prompt are now 31 minutes old: both escalate (urgent, after the
+    // unit's 30 minutes, from memory); N05's manual mode (26 minutes) and N06's overdue check
+    // (1 minute) do not yet.
+    const subjects = () => north().map((m) => m.subject);
     await runEscalations(env.app.context, env.clock.now());
-    expect(north()).toHaveLength(3);
-    expect(north()[2]!.subject).toContain('bed N03');
+    expect(subjects().slice(2)).toEqual(['Warmfold escalation: bed N03, probe and remote site still apart', 'Warmfold escalation: bed N03, heat stress']);
     expect(bed(await board(), 'N06').escalations).toHaveLength(0);
 
     // Exactly at the delay it waits; past it, it escalates, once.
     env.clock.advanceMinutes(29);
     await runEscalations(env.app.context, env.clock.now());
-    expect(north()).toHaveLength(3);
+    expect(subjects().slice(4)).toEqual(['Warmfold escalation: bed N05, manual mode beyond its limit']);
     env.clock.advanceMinutes(1);
     await runEscalations(env.app.context, env.clock.now());
     await runEscalations(env.app.context, env.clock.now());
-    expect(north()).toHaveLength(4);
-    expect(north()[3]!.subject).toBe('Warmfold escalation: bed N06, remote-site check overdue');
+    expect(subjects().slice(5)).toEqual(['Warmfold escalation: bed N06, remote-site check overdue']);
     b = await board();
     expect(bed(b, 'N06').escalations).toHaveLength(1);
-    expect(env.database.sqlite.prepare("SELECT COUNT(*) AS n FROM escalations WHERE unit_id = 'unit-north'").get()).toEqual({ n: 4 });
+    expect(bed(b, 'N06').escalations[0]!.to.map((r) => r.email)).toEqual([DEMO.charge]);
+    expect(env.database.sqlite.prepare("SELECT COUNT(*) AS n FROM escalations WHERE unit_id = 'unit-north'").get()).toEqual({ n: 6 });
   });
 
   it('lets a settled bed slide into "due soon" and then overdue', async () => {
