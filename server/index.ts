@@ -7,7 +7,10 @@ import { ConfigError, loadConfig } from './config';
 import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
 import { smtpMailer } from './mail/mailer';
 import { drainMailQueue } from './mail/queue';
+import { timingDummy } from './services/auth';
+import { closePasswordPool } from './services/password-hash';
 import { productionDatabaseProblems, startBanner } from './modes';
+import { startCheckpointing } from './checkpoints';
 import { escalationJob, startScheduler } from './scheduler';
 import { weeklyDigestJob } from './services/digest';
 import { runEscalations } from './services/escalations';
@@ -29,6 +32,9 @@ async function main(): Promise<void> {
     await seedDemo(database, { now: new Date(), bcryptCost: config.bcryptCost });
   }
 
+  // Sign the audit chain's head now, every minute it moves, and at shutdown (server/checkpoints.ts).
+  const checkpoints = startCheckpointing(database.sqlite, config.dataDir, log, config.mode === 'production');
+
   let fake: FakeSmtp | null = null;
   let smtpPort = config.smtp.port;
   if (config.smtp.fake) {
@@ -38,9 +44,10 @@ async function main(): Promise<void> {
   // Mail to the catcher names the user whose action sent it, so each person's mailbox shows their own.
   const mailer = smtpMailer({ ...config.smtp, port: smtpPort, markSender: fake !== null });
   const app = createApp({ db: database, mailer, clock: systemClock, config, log });
+  await timingDummy(config.bcryptCost);
   // Escalate what is already overdue at start-up, then keep checking on the scheduler.
   await runEscalations(app.context, systemClock.now()).catch((err: unknown) => log(`escalations at start-up failed: ${String(err)}`));
-  const scheduler = startScheduler(app.context, [escalationJob(process.env.ESCALATION_INTERVAL_SECONDS), weeklyDigestJob()]);
+  const scheduler = startScheduler(app.context, [escalationJob(process.env.ESCALATION_INTERVAL_SECONDS), weeklyDigestJob(), checkpoints.job]);
 
   const server = app.listen(config.port, config.host, () => {
     const { port } = server.address() as AddressInfo;
@@ -56,8 +63,10 @@ async function main(): Promise<void> {
     server.close(() => {
       void (async () => {
         await drainMailQueue(app.context, 5_000);
+        await closePasswordPool();
         mailer.close();
         if (fake) await fake.close();
+        checkpoints.atShutdown();
         database.close();
         process.exit(0);
       })();

@@ -67,13 +67,15 @@ function triggerSql(name: string, table: ChainedTable, version: number, op: 'INS
   const row = op === 'DELETE' ? 'OLD.' : 'NEW.';
   const action: RowAction = op === 'INSERT' ? 'row-insert' : op === 'UPDATE' ? 'row-update' : 'row-delete';
   const unit = table.unit ? `${row}${q(table.unit)}` : 'NULL';
+  // One call into JavaScript per row: warmfold_row_event answers "<event hash> <after>". The
+  // LIMIT 1s keep SQLite from flattening the subqueries, which would evaluate them more than once.
   return `CREATE TEMP TRIGGER IF NOT EXISTS ${triggerName(name, op)} AFTER ${op} ON main.${q(name)} BEGIN
   INSERT INTO main.audit_events (at, actor_id, action, entity_type, entity_id, unit_id, before, after, prev_hash, hash)
-  SELECT e.at, NULL, '${action}', '${name}', e.eid, e.unit, NULL, e.after, e.prev,
-    warmfold_audit_hash(e.prev, e.at, NULL, '${action}', '${name}', e.eid, e.unit, NULL, e.after)
-  FROM (SELECT ${NOW_MS} AS at, ${keySql(table, row)} AS eid, ${unit} AS unit,
-      warmfold_row_event('${name}', ${version}, ${canonicalSql(table, version, row)}, ${op === 'DELETE' ? 1 : 0}) AS after,
-      COALESCE((SELECT hash FROM main.audit_events ORDER BY id DESC LIMIT 1), '${GENESIS_HASH}') AS prev) AS e;
+  SELECT e.at, NULL, '${action}', '${name}', e.eid, e.unit, NULL, substr(e.x, 66), e.prev, substr(e.x, 1, 64)
+  FROM (SELECT i.at, i.eid, i.unit, i.prev,
+      warmfold_row_event(i.prev, i.at, '${action}', '${name}', i.eid, i.unit, ${version}, i.canonical) AS x
+    FROM (SELECT ${NOW_MS} AS at, ${keySql(table, row)} AS eid, ${unit} AS unit, ${canonicalSql(table, version, row)} AS canonical,
+        COALESCE((SELECT hash FROM main.audit_events ORDER BY id DESC LIMIT 1), '${GENESIS_HASH}') AS prev LIMIT 1) AS i LIMIT 1) AS e;
 END`;
 }
 
@@ -86,21 +88,11 @@ export function rowEventAfter(table: string, version: number, canonical: string,
 }
 
 function registerFunctions(sqlite: Database.Database): void {
-  sqlite.function('warmfold_row_event', { deterministic: true }, (table, version, canonical, deleted) =>
-    rowEventAfter(String(table), Number(version), String(canonical), Number(deleted) === 1),
-  );
-  sqlite.function('warmfold_audit_hash', { deterministic: true }, (prev, at, actorId, action, entityType, entityId, unitId, before, after) =>
-    auditHash(String(prev), {
-      at: Number(at),
-      actorId: actorId as string | null,
-      action: String(action),
-      entityType: String(entityType),
-      entityId: entityId as string | null,
-      unitId: unitId as string | null,
-      before: before as string | null,
-      after: after as string | null,
-    }),
-  );
+  sqlite.function('warmfold_row_event', { deterministic: true }, (prev, at, action, table, entityId, unitId, version, canonical) => {
+    const after = rowEventAfter(String(table), Number(version), String(canonical), action === 'row-delete');
+    const e = { at: Number(at), actorId: null, action: String(action), entityType: String(table), entityId: entityId as string | null, unitId: unitId as string | null, before: null, after };
+    return `${auditHash(String(prev), e)} ${after}`;
+  });
 }
 
 const installed = new WeakMap<Database.Database, string[]>();

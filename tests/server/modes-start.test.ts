@@ -70,7 +70,7 @@ afterAll(() => {
   for (const d of dirs) fs.rmSync(d, { recursive: true, force: true });
 });
 
-const PRODUCTION_ENV = { WARMFOLD_MODE: 'production', JWT_SECRET: SECRET, SMTP_HOST: 'relay.example-hospital.test', PUBLIC_URL: 'https://warmfold.example-hospital.test' };
+const PRODUCTION_ENV = { WARMFOLD_MODE: 'production', JWT_SECRET: SECRET, SMTP_HOST: 'relay.example-hospital.test', PUBLIC_URL: 'https://warmfold.example-hospital.test', AUDIT_KEY: `${SECRET}-audit` };
 
 describe('a production start refuses what belongs to the demo', () => {
   it('with nothing set, exits with 78 and names JWT_SECRET, SMTP_HOST and PUBLIC_URL, writing nothing to the data folder', async () => {

@@ -18,7 +18,7 @@ import { migrationsFolder, openDatabase } from '../../db/client';
 import * as schema from '../../db/schema';
 import { seedDemo } from '../../db/seed';
 import { auditHash, GENESIS_HASH } from '../../server/audit';
-import { checkpointSettings, writeCheckpoint, type CheckpointSettings } from '../../server/checkpoints';
+import { checkpointSettings, startCheckpointing, writeCheckpoint, type CheckpointSettings } from '../../server/checkpoints';
 import { batchedWrite } from '../../server/write-batch';
 import { canonicalSql, rowHash } from '../../server/ledger';
 import { CHAINED } from '../../server/ledger-tables';
@@ -312,3 +312,19 @@ function runVerifyCli(file: string): { code: number; output: string } {
     return { code: e.status, output: e.stdout };
   }
 }
+
+describe('the checkpoint key', () => {
+  it('is generated for the demo beside the data folder, never inside it, owner-only; production must name one', () => {
+    const dataDir = path.join(env.dir, 'keyed-data');
+    const lines: string[] = [];
+    const started = startCheckpointing(env.database.sqlite, dataDir, (l) => lines.push(l), false, {});
+    const keyFile = started.settings.key!.source;
+    expect(path.dirname(keyFile)).toBe(env.dir);
+    expect(keyFile.startsWith(`${dataDir}${path.sep}`)).toBe(false);
+    expect(fs.statSync(keyFile).mode & 0o777).toBe(0o600);
+    expect(lines.join('\n')).toMatch(/generated a signing key .* Fine for the demo; in production set AUDIT_KEY/);
+    // The start-up checkpoint is signed with that key.
+    expect(verifyRecord(env.database.sqlite, { checkpoints: started.settings }).checkpoints.status).toBe('checked');
+    expect(() => startCheckpointing(env.database.sqlite, dataDir, () => {}, true, {})).toThrow(/AUDIT_KEY .* or AUDIT_KEY_FILE/);
+  });
+});
