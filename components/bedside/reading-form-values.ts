@@ -1,6 +1,6 @@
 import { TZDate } from '@date-fns/tz';
 import type { CreateReadingInput } from '@/shared/schemas/bedside';
-import { checkPlausibility, type PlausibilityField } from '@/shared/thermal/limits';
+import { unusualReason } from '@/shared/plausibility';
 import { toCentiCelsius, type TempUnit } from '@/shared/thermal/units';
 import { LATE_ENTRY_MINUTES, type ControlMode, type HeatSign, type RemoteSite } from '@/shared/vocabulary';
 
@@ -74,13 +74,14 @@ export function implausibleReasons(v: ReadingFormValues, unit: TempUnit): string
   for (const [field] of TEMPS) {
     const centi = centiOf(v[field], unit);
     if (centi === null) continue;
-    const check = checkPlausibility(field as PlausibilityField, centi, unit);
-    if (check.result === 'confirm') reasons.push(check.reason);
+    // One table of usual ranges (shared/plausibility.ts); the set point by the control mode.
+    const reason = unusualReason(field, centi, { unit, controlMode: v.controlMode });
+    if (reason) reasons.push(reason);
   }
   const hr = parseNumber(v.heartRate);
   if (typeof hr === 'number') {
-    const check = checkPlausibility('heartRate', hr, unit);
-    if (check.result === 'confirm') reasons.push(check.reason);
+    const reason = unusualReason('heartRate', hr, { unit });
+    if (reason) reasons.push(reason);
   }
   return reasons;
 }

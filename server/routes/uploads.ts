@@ -1,8 +1,10 @@
 import { readingsImportQuerySchema } from '../../shared/schemas/admin';
+import { readingsImportBodySchema, type ReadingsImportBody } from '../../shared/schemas/readings-import';
 import type { AppContext } from '../context';
 import { allow, secureRouter } from '../middleware/access';
 import { valid, validate } from '../middleware/validate';
-import { csvUpload, importReadings, importRoster, previewReadings, previewRoster } from '../services/uploads';
+import { CSV_BOM } from '../../shared/csv';
+import { csvUpload, importReadings, importRoster, previewReadings, previewRoster, readingsErrorsCsv } from '../services/uploads';
 
 /** Roster (admin) and readings (charge nurse) CSV uploads: preview first, then import. */
 export function uploadsRouter(ctx: AppContext) {
@@ -22,8 +24,16 @@ export function uploadsRouter(ctx: AppContext) {
     res.status(201).json(previewReadings(ctx, req, valid<{ unitId: string }>(req, 'query').unitId));
   });
 
-  router.post('/readings-import/:uploadId/import', allow(ctx, 'readings:import'), (req, res) => {
-    res.json(importReadings(ctx, uploadId(req), req.auth!));
+  router.get('/readings-import/:uploadId/errors.csv', allow(ctx, 'readings:import'), (req, res) => {
+    const { filename, csv } = readingsErrorsCsv(ctx, uploadId(req), req.auth!);
+    res.set('Content-Type', 'text/csv; charset=utf-8');
+    res.set('Content-Disposition', `attachment; filename="${filename.replace(/[^\w.-]/g, '_')}"`);
+    res.send(CSV_BOM + csv);
+  });
+
+  router.post('/readings-import/:uploadId/import', allow(ctx, 'readings:import'), validate('body', readingsImportBodySchema), (req, res) => {
+    const { confirmedLines } = valid<ReadingsImportBody>(req, 'body');
+    res.json(importReadings(ctx, uploadId(req), req.auth!, confirmedLines));
   });
 
   return router;

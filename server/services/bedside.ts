@@ -9,6 +9,8 @@ import {
   type TempUnit,
 } from '../../shared/thermal';
 import { FUTURE_TOLERANCE_MINUTES, LATE_ENTRY_MINUTES } from '../../shared/schemas/bedside';
+import { unusualReason } from '../../shared/plausibility';
+import type { ControlMode } from '../../shared/vocabulary';
 import type { Flowsheet, FlowsheetFlag, FlowsheetReading, ReadingVersion, SessionRecord } from '../../shared/types/bedside';
 import { prepared, writeTx } from '../../db/client';
 import { ApiError, badRequest, notFound } from '../errors';
@@ -63,6 +65,8 @@ export interface TypedTemperatures {
   air?: number | null;
   set?: number | null;
   heartRate?: number | null;
+  /** Chooses the set point's usual range (skin or air). */
+  controlMode?: ControlMode | null;
 }
 
 export interface Converted {
@@ -101,13 +105,15 @@ export function convertAndCheck(input: TypedTemperatures, confirmed: boolean, pr
     }
     const check = checkPlausibility(field as PlausibilityField, centi, input.unit);
     if (check.result === 'refuse') throw badRequest(check.reason, { [`${prefix}${field}`]: check.reason });
-    if (check.result === 'confirm') needConfirm[`${prefix}${field}`] = check.reason;
+    const unusual = unusualReason(field, centi, { unit: input.unit, controlMode: input.controlMode });
+    if (unusual) needConfirm[`${prefix}${field}`] = unusual;
     out[`${field}Centi`] = centi;
   }
   if (input.heartRate !== null && input.heartRate !== undefined) {
     const check = checkPlausibility('heartRate', input.heartRate, input.unit);
     if (check.result === 'refuse') throw badRequest(check.reason, { [`${prefix}heartRate`]: check.reason });
-    if (check.result === 'confirm') needConfirm[`${prefix}heartRate`] = check.reason;
+    const unusual = unusualReason('heartRate', input.heartRate, { unit: input.unit });
+    if (unusual) needConfirm[`${prefix}heartRate`] = unusual;
   }
   if (!confirmed && Object.keys(needConfirm).length > 0) {
     throw new ApiError(422, 'invalid', 'Some values are outside the usual range. Check them, then confirm to save.', {

@@ -1,19 +1,22 @@
 import type Database from 'better-sqlite3';
-import type { Request } from 'express';
+import type { Request, RequestHandler } from 'express';
 import multer from 'multer';
 import { createHash, randomUUID } from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
-import Papa from 'papaparse';
-import { checkReadingRow, checkRosterRow, MAX_UPLOAD_BYTES, MAX_UPLOAD_ROWS, missingColumns, READINGS_REQUIRED, ROSTER_COLUMNS, type ParsedReadingRow, type Row, type RosterRow } from '../../shared/uploads/csv-formats';
+import { decodeCsvBytes, parseCsvLines } from '../../shared/uploads/csv-text';
+import { toCsv } from '../../shared/csv';
+import { checkReadingRow, checkRosterRow, MAX_UPLOAD_BYTES, MAX_UPLOAD_ROWS, missingColumns, READINGS_COLUMNS, READINGS_REQUIRED, ROSTER_COLUMNS, type ParsedReadingRow, type Row, type RosterRow } from '../../shared/uploads/csv-formats';
 import type { ImportResult, UploadPreview, UploadRowPreview } from '../../shared/types/admin';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
-import { badRequest, forbidden, notFound } from '../errors';
+import { ApiError, badRequest, forbidden, notFound } from '../errors';
 import type { Database_ } from '../../db/client';
 import { accountFor, createUserRows } from './admin-users';
 import { mailLinkSafely, type IssuedLink } from './email-links';
 import { syncFlags } from './flags';
+import { and, eq, inArray } from 'drizzle-orm';
+import { beds, infants, readings, userUnits, units, users } from '../../db/schema';
 import { unsafeTextReason } from '../../shared/schemas/safe-text';
 import { multipartErrorsAs400 } from '../middleware/validate';
 
@@ -23,9 +26,24 @@ export function uploadsDir(ctx: AppContext): string {
   return path.join(ctx.config.dataDir, 'uploads');
 }
 
+/** The size limit in words, for the error that refuses a larger file. */
+export const UPLOAD_LIMIT_TEXT = `${MAX_UPLOAD_BYTES / (1024 * 1024)} MB (${MAX_UPLOAD_BYTES.toLocaleString('en-GB')} bytes)`;
+
+/** A file over the size limit is refused with the limit stated, not a bare "too large". */
+function statingSizeLimit(handler: RequestHandler): RequestHandler {
+  return (req, res, next) =>
+    handler(req, res, (err?: unknown) => {
+      if (err instanceof multer.MulterError && err.code === 'LIMIT_FILE_SIZE') {
+        next(new ApiError(413, 'payload-too-large', `The file is larger than the limit of ${UPLOAD_LIMIT_TEXT}.`, { file: `At most ${UPLOAD_LIMIT_TEXT} per file: split it into smaller files.` }));
+        return;
+      }
+      next(err);
+    });
+}
+
 /** One CSV file in the field `file`, kept on disk under the data folder; size and type limited. */
 export function csvUpload(ctx: AppContext) {
-  return multipartErrorsAs400(multer({
+  return statingSizeLimit(multipartErrorsAs400(multer({
     storage: multer.diskStorage({
       destination: (_req, _file, cb) => {
         const dir = uploadsDir(ctx);
@@ -46,7 +64,7 @@ export function csvUpload(ctx: AppContext) {
       }
       cb(null, true);
     },
-  }).single('file'));
+  }).single('file')));
 }
 
 function removeFile(file: string): void {
@@ -56,23 +74,26 @@ function removeFile(file: string): void {
 interface ParsedFile {
   rows: Array<{ line: number; values: Row }>;
   header: string[];
+  /** A row that could not be read (an unclosed quote, a wrong number of cells), by line. */
   parseErrors: Map<number, string>;
 }
 
-/** papaparse with a header row; data line numbers count the header as line 1. */
+/** One row per line, comma or semicolon (shared/uploads/csv-text.ts); line numbers count the header as 1. */
 export function parseCsv(text: string): ParsedFile {
-  const result = Papa.parse<Row>(text.replace(/^\uFEFF/, ''), {
-    header: true,
-    skipEmptyLines: 'greedy',
-    transformHeader: (h) => h.trim().toLowerCase(),
-    transform: (v) => v.trim(),
-  });
+  const parsed = parseCsvLines(text);
   const parseErrors = new Map<number, string>();
-  for (const e of result.errors) {
-    if (typeof e.row === 'number') parseErrors.set(e.row, e.code === 'TooFewFields' || e.code === 'TooManyFields' ? `row: ${e.message.toLowerCase()}` : `row: ${e.message}`);
+  for (const r of parsed.rows) if (r.error) parseErrors.set(r.line, r.error);
+  return { rows: parsed.rows.map(({ line, values }) => ({ line, values })), header: parsed.header, parseErrors };
+}
+
+/** The file's text, or a 400 saying why it is not UTF-8 text (the file is removed). */
+function readText(file: string, remove: boolean): string {
+  const decoded = decodeCsvBytes(fs.readFileSync(file));
+  if ('error' in decoded) {
+    if (remove) removeFile(file);
+    throw badRequest('The file cannot be read as text.', { file: decoded.error });
   }
-  // Lines: without multi-line quoted cells the data row index i sits on line i + 2.
-  return { rows: result.data.map((values, i) => ({ line: i + 2, values })), header: result.meta.fields ?? [], parseErrors };
+  return decoded.text;
 }
 
 function requireFile(req: Request): Express.Multer.File {
@@ -105,7 +126,7 @@ function registerUpload(ctx: AppContext, req: Request, kind: 'roster' | 'reading
   const file = requireFile(req);
   const { sqlite } = ctx.database;
   const hash = sha256(file.path);
-  const text = fs.readFileSync(file.path, 'utf8');
+  const text = readText(file.path, true);
   const earlier = sqlite
     .prepare("SELECT * FROM uploads WHERE kind = ? AND sha256 = ? AND COALESCE(unit_id, '') = ? ORDER BY CASE status WHEN 'imported' THEN 0 ELSE 1 END, created_at LIMIT 1")
     .get(kind, hash, unitId ?? '') as UploadRow | undefined;
@@ -165,7 +186,7 @@ function checkRoster(database: Database_, parsed: ParsedFile, adminUnits: string
   const units = sqlite.prepare('SELECT id, name FROM units').all() as Array<{ id: string; name: string }>;
   const seen = new Set<string>();
   return parsed.rows.map(({ line, values }) => {
-    const parseError = parsed.parseErrors.get(line - 2);
+    const parseError = parsed.parseErrors.get(line);
     const { value, errors } = checkRosterRow(values);
     if (parseError) errors.unshift(parseError);
     let unitId: string | undefined;
@@ -204,7 +225,7 @@ function loadUpload(ctx: AppContext, uploadId: string, kind: 'roster' | 'reading
   if (!upload) throw notFound('That upload');
   const file = path.join(uploadsDir(ctx), upload.stored_name);
   if (!fs.existsSync(file)) throw notFound('That uploaded file');
-  return { upload, text: fs.readFileSync(file, 'utf8') };
+  return { upload, text: readText(file, false) };
 }
 
 /** Create and invite every new person in one transaction; e-mail the invitations after it commits. */
@@ -245,41 +266,68 @@ export async function importRoster(ctx: AppContext, uploadId: string, auth: { us
 
 /** A stable id from the row's content, so the same reading from any file is charted once. */
 export function importedReadingId(infantId: string, r: ParsedReadingRow): string {
-  const key = [infantId, r.takenAt.toISOString(), r.probeCenti, r.remoteCenti, r.remoteSite, r.controlMode, r.heaterOutputPct, r.heartRate].join('|');
-  return `imp-${createHash('sha256').update(key).digest('hex').slice(0, 32)}`;
+  const parts: unknown[] = [infantId, r.takenAt.toISOString(), r.probeCenti, r.remoteCenti, r.remoteSite, r.controlMode, r.heaterOutputPct, r.heartRate];
+  // Air and set joined the format later: rows without them keep the ids they always had.
+  if (r.airCenti !== null || r.setCenti !== null) parts.push(r.airCenti, r.setCenti);
+  return `imp-${createHash('sha256').update(parts.join('|')).digest('hex').slice(0, 32)}`;
 }
 
-type CheckedReading = UploadRowPreview & { value?: ParsedReadingRow & { infantId: string; id: string } };
+type CheckedReading = UploadRowPreview & { value?: ParsedReadingRow & { infantId: string; id: string; takenById: string | null } };
 
 function checkReadings(ctx: AppContext, parsed: ParsedFile, unitId: string): CheckedReading[] {
-  const { sqlite } = ctx.database;
-  const infants = sqlite
-    .prepare("SELECT i.id, i.admitted_at, b.label FROM infants i LEFT JOIN beds b ON b.id = i.bed_id WHERE i.unit_id = ? AND i.status = 'admitted'")
-    .all(unitId) as Array<{ id: string; admitted_at: number; label: string | null }>;
+  const { db, sqlite } = ctx.database;
+  const unit = db.select({ timeZone: units.timeZone }).from(units).where(eq(units.id, unitId)).get();
+  if (!unit) throw notFound('That unit');
+  const admitted = db
+    .select({ id: infants.id, admittedAt: infants.admittedAt, label: beds.label })
+    .from(infants)
+    .leftJoin(beds, eq(beds.id, infants.bedId))
+    .where(and(eq(infants.unitId, unitId), eq(infants.status, 'admitted')))
+    .all();
+  // Who may be named in `taken_by`: active nurses and charge nurses of this unit.
+  const staff = new Map(
+    db
+      .select({ id: users.id, email: users.email })
+      .from(users)
+      .innerJoin(userUnits, eq(userUnits.userId, users.id))
+      .where(and(eq(userUnits.unitId, unitId), eq(users.active, true), inArray(users.role, ['nurse', 'charge'])))
+      .all()
+      .map((u) => [u.email.toLowerCase(), u.id]),
+  );
   const now = ctx.clock.now().getTime();
   const seen = new Set<string>();
   return parsed.rows.map(({ line, values }) => {
-    const { value, errors } = checkReadingRow(values);
-    const parseError = parsed.parseErrors.get(line - 2);
+    const { value, errors } = checkReadingRow(values, unit.timeZone);
+    const parseError = parsed.parseErrors.get(line);
     if (parseError) errors.unshift(parseError);
     let infantId: string | undefined;
+    let takenById: string | null = null;
     if (value) {
-      const infant = infants.find((i) => i.id === value.infant || (i.label !== null && i.label.toLowerCase() === value.infant.toLowerCase()));
+      const infant = admitted.find((i) => i.id === value.infant || (i.label !== null && i.label.toLowerCase() === value.infant.toLowerCase()));
       if (!infant) errors.push(`infant: no admitted infant "${value.infant}" in this unit`);
       else {
         infantId = infant.id;
-        if (value.takenAt.getTime() < infant.admitted_at) errors.push('time: before the infant was admitted');
+        if (value.takenAt.getTime() < infant.admittedAt.getTime()) errors.push('time: before the infant was admitted');
       }
       // A few minutes of clock difference between devices is allowed.
       if (value.takenAt.getTime() > now + 5 * 60_000) errors.push('time: in the future');
+      if (value.takenBy) {
+        takenById = staff.get(value.takenBy) ?? null;
+        if (!takenById) errors.push(`taken_by: no nurse of this unit has the e-mail ${value.takenBy}`);
+      }
     }
     if (errors.length || !value || !infantId) return { line, values, errors, action: 'error' as const };
     const id = importedReadingId(infantId, value);
     if (seen.has(id)) return { line, values, errors: [], action: 'skip' as const, note: 'Same reading earlier in this file' };
     seen.add(id);
     if (sqlite.prepare('SELECT 1 FROM readings WHERE id = ?').get(id)) return { line, values, errors: [], action: 'skip' as const, note: 'Already charted' };
-    return { line, values, errors: [], action: 'create' as const, value: { ...value, infantId, id } };
+    return { line, values, errors: [], action: 'create' as const, ...(value.unusual.length ? { unusual: value.unusual } : {}), value: { ...value, infantId, id, takenById } };
   });
+}
+
+function readingsPreview(upload: UploadRow, rows: CheckedReading[]): UploadPreview {
+  const preview = previewOf(upload, strip(rows));
+  return { ...preview, toConfirm: preview.rows.filter((r) => r.action === 'create' && r.unusual?.length).map((r) => r.line) };
 }
 
 export function previewReadings(ctx: AppContext, req: Request, unitId: string): UploadPreview {
@@ -297,18 +345,24 @@ export function previewReadings(ctx: AppContext, req: Request, unitId: string): 
   checkHeader(parsed, READINGS_REQUIRED, upload.stored_name === path.basename(file.path) ? file.path : undefined);
   const rows = checkReadings(ctx, parsed, unitId);
   saveUploadRow(ctx, upload, rows.length, file.size);
-  return previewOf(upload, strip(rows));
+  return readingsPreview(upload, rows);
 }
 
-/** All rows or none, in one transaction; then the rules run once per infant touched. */
-export function importReadings(ctx: AppContext, uploadId: string, auth: { userId: string; unitIds: string[] }): ImportResult {
-  const { sqlite } = ctx.database;
+/**
+ * All rows or none, in one transaction; then the rules run once per infant touched. A row with
+ * an unusual value imports only when its line is among `confirmedLines`. The reading is
+ * recorded by the charge nurse who imports it and credited to the nurse the file names in
+ * `taken_by`; a row that names nobody is credited to no nurse.
+ */
+export function importReadings(ctx: AppContext, uploadId: string, auth: { userId: string; unitIds: string[] }, confirmedLines: readonly number[] = []): ImportResult {
+  const { db, sqlite } = ctx.database;
   const { upload, text } = loadUpload(ctx, uploadId, 'readings');
   if (!upload.unit_id || !auth.unitIds.includes(upload.unit_id)) throw forbidden('This upload is for a unit you are not part of.');
   if (upload.status === 'imported') return { created: 0, skipped: upload.row_count, alreadyImported: true };
   const parsed = parseCsv(text);
   checkHeader(parsed, READINGS_REQUIRED);
   const unitId = upload.unit_id;
+  const confirmed = new Set(confirmedLines);
   return sqlite
     .transaction(() => {
       const fresh = sqlite.prepare('SELECT status FROM uploads WHERE id = ?').get(upload.id) as { status: string };
@@ -316,24 +370,49 @@ export function importReadings(ctx: AppContext, uploadId: string, auth: { userId
       const rows = checkReadings(ctx, parsed, unitId);
       const bad = rows.filter((r) => r.action === 'error');
       if (bad.length) throw badRequest('Some rows have errors; nothing was imported.', { file: `${bad.length} row${bad.length > 1 ? 's have' : ' has'} errors (first: line ${bad[0]!.line}: ${bad[0]!.errors[0]}).` });
+      const unconfirmed = rows.filter((r) => r.action === 'create' && r.unusual?.length && !confirmed.has(r.line));
+      if (unconfirmed.length) {
+        throw badRequest('Confirm each unusual value first; nothing was imported.', {
+          confirmedLines: unconfirmed.map((r) => `line ${r.line}: ${r.unusual!.join('; ')}`).join(' · '),
+        });
+      }
       const now = ctx.clock.now();
-      const insert = sqlite.prepare(
-        `INSERT INTO readings (id, infant_id, unit_id, taken_at, recorded_at, recorded_by, probe_centi, remote_centi, remote_site, control_mode, heater_output_pct, heart_rate, heat_signs, note, entered_unit, late_reason)
-         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, '[]', NULL, ?, ?)`,
-      );
-      const infants = new Set<string>();
+      const infantsTouched = new Set<string>();
       const ids: string[] = [];
       for (const r of rows) {
         if (r.action !== 'create' || !r.value) continue;
         const v = r.value;
-        insert.run(v.id, v.infantId, unitId, v.takenAt.getTime(), now.getTime(), auth.userId, v.probeCenti, v.remoteCenti, v.remoteSite, v.controlMode, v.heaterOutputPct, v.heartRate, v.unit, `Imported from ${upload.filename}`);
-        infants.add(v.infantId);
+        db.insert(readings)
+          .values({
+            id: v.id, infantId: v.infantId, unitId, takenAt: v.takenAt, recordedAt: now, recordedBy: auth.userId, takenBy: v.takenById, uploadId: upload.id,
+            probeCenti: v.probeCenti, remoteCenti: v.remoteCenti, remoteSite: v.remoteSite, airCenti: v.airCenti, setCenti: v.setCenti, controlMode: v.controlMode,
+            heaterOutputPct: v.heaterOutputPct, heartRate: v.heartRate, heatSigns: '[]', note: null, enteredUnit: v.unit, lateReason: `Imported from ${upload.filename}`,
+          })
+          .run();
+        infantsTouched.add(v.infantId);
         ids.push(v.id);
       }
-      appendAudit(sqlite, { at: now, actorId: auth.userId, action: 'readings-imported', entityType: 'upload', entityId: upload.id, unitId, after: { created: ids.length, readingIds: ids, sha256: upload.sha256 } });
-      for (const infantId of infants) syncFlags(sqlite, infantId, now, auth.userId);
+      const confirmedUsed = rows.filter((r) => r.action === 'create' && r.unusual?.length).map((r) => r.line);
+      appendAudit(sqlite, { at: now, actorId: auth.userId, action: 'readings-imported', entityType: 'upload', entityId: upload.id, unitId, after: { created: ids.length, readingIds: ids, sha256: upload.sha256, confirmedLines: confirmedUsed } });
+      for (const infantId of infantsTouched) syncFlags(sqlite, infantId, now, auth.userId);
       sqlite.prepare("UPDATE uploads SET status = 'imported', imported_at = ?, row_count = ? WHERE id = ?").run(now.getTime(), rows.length, upload.id);
       return { created: ids.length, skipped: rows.length - ids.length, alreadyImported: false };
     })
     .immediate();
+}
+
+/** Every refused row of a previewed readings file as CSV: line, field, reason and the row as it was. */
+export function readingsErrorsCsv(ctx: AppContext, uploadId: string, auth: { unitIds: string[] }): { filename: string; csv: string } {
+  const { upload, text } = loadUpload(ctx, uploadId, 'readings');
+  if (!upload.unit_id || !auth.unitIds.includes(upload.unit_id)) throw forbidden('This upload is for a unit you are not part of.');
+  const parsed = parseCsv(text);
+  const rows = checkReadings(ctx, parsed, upload.unit_id);
+  const out: Array<[number, string, string, string]> = [];
+  for (const r of rows) {
+    for (const e of r.errors) {
+      const colon = e.indexOf(': ');
+      out.push([r.line, colon > 0 ? e.slice(0, colon) : 'row', colon > 0 ? e.slice(colon + 2) : e, READINGS_COLUMNS.map((c) => r.values[c] ?? '').join(',')]);
+    }
+  }
+  return { filename: `${upload.filename.replace(/\.csv$/i, '')}-errors.csv`, csv: toCsv(['line', 'field', 'reason', 'row'], out) };
 }

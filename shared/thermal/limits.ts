@@ -7,6 +7,7 @@
  * Temperatures are in hundredths of a degree Celsius (the stored form).
  */
 
+import { USUAL_RANGES } from '../plausibility';
 import { formatTenths, tenthsOf } from './exact';
 
 export interface Range {
@@ -25,20 +26,17 @@ export const HARD_LIMITS = {
 
 /**
  * Values inside these ranges are saved without a question; outside them (but inside the hard
- * limits) the form asks the nurse to confirm. All from memory: wide enough that a sick infant's
- * real values pass with a confirmation rather than a refusal.
+ * limits) the form asks the nurse to confirm. The numbers and their sources live in
+ * shared/plausibility.ts, the one table the bedside form, the server and the import share.
  */
+const usual = (r: Range): Range => ({ min: r.min, max: r.max });
 export const PLAUSIBLE = {
-  /** Skin probe, 34.0–39.5 °C. */
-  probe: { min: 3400, max: 3950 },
-  /** Remote site (axillary or rectal), 34.0–39.5 °C. */
-  remote: { min: 3400, max: 3950 },
-  /** Air temperature in the incubator or under the warmer, 25.0–40.0 °C. */
-  air: { min: 2500, max: 4000 },
-  /** Set temperature, 34.0–38.0 °C. */
-  set: { min: 3400, max: 3800 },
-  /** Heart rate, 80–220 per minute. */
-  heartRate: { min: 80, max: 220 },
+  probe: usual(USUAL_RANGES.skin),
+  remote: usual(USUAL_RANGES.remote),
+  air: usual(USUAL_RANGES.air),
+  /** The skin servo set point; an air set point is judged by `usualRangeOf('set', mode)`. */
+  set: usual(USUAL_RANGES.skinSet),
+  heartRate: usual(USUAL_RANGES.heartRate),
   /** Heater output: every value inside the hard limits is plausible. */
   heaterOutputPct: { min: 0, max: 100 },
 } as const satisfies Record<string, Range>;

@@ -34,6 +34,8 @@ export interface UploadRowPreview {
   action: 'create' | 'skip' | 'error';
   /** Why a row is skipped (already present). */
   note?: string;
+  /** Readings: values outside their usual range; the row imports only when its line is confirmed. */
+  unusual?: string[];
 }
 
 export interface UploadPreview {
@@ -43,6 +45,8 @@ export interface UploadPreview {
   rows: UploadRowPreview[];
   errorCount: number;
   toCreate: number;
+  /** Readings: lines to create whose values need the charge nurse's confirmation, one by one. */
+  toConfirm?: number[];
 }
 
 export interface ImportResult {

@@ -1,6 +1,7 @@
 /**
  * The two CSV files Warmfold accepts, with their row checks: pure, so the server and the
- * screens agree. Files are UTF-8, comma-separated, with a header row; column names are
+ * screens agree. Files are UTF-8 (with or without a byte-order mark), comma- or
+ * semicolon-separated (see csv-text.ts), one row per line, with a header row; column names are
  * matched without regard to case or surrounding spaces. Line numbers count the header as 1.
  */
 import { emailSchema } from '../schemas/auth';
@@ -8,6 +9,8 @@ import { unsafeTextReason } from '../schemas/safe-text';
 import { ROLES, type Role } from '../roles';
 import { isThermalInputError } from '../thermal/errors';
 import { toCentiCelsius, type TempUnit } from '../thermal/units';
+import { unusualValues } from '../plausibility';
+import { parseRowTime } from './csv-text';
 
 export const MAX_UPLOAD_BYTES = 1024 * 1024;
 export const MAX_UPLOAD_ROWS = 5000;
@@ -21,7 +24,7 @@ export const ROSTER_COLUMNS = ['name', 'email', 'role', 'unit'] as const;
  * | column      | required | meaning |
  * | ----------- | -------- | ------- |
  * | infant      | yes      | the bed label (e.g. N01) or the infant's id, in the chosen unit |
- * | time        | yes      | when taken, ISO 8601 with a zone: 2026-11-16T08:00:00Z or 2026-11-16T09:00:00+01:00 |
+ * | time        | yes      | when taken: 2026-11-16T08:00 is the unit's local time; with an offset (2026-11-16T08:00:00Z, …+01:00) that instant |
  * | probe       | no       | skin probe temperature |
  * | remote      | no       | remote-site temperature (needs `site`) |
  * | site        | with remote | axilla, rectal or other |
@@ -29,10 +32,15 @@ export const ROSTER_COLUMNS = ['name', 'email', 'role', 'unit'] as const;
  * | mode        | no       | skin-servo, air-servo or manual |
  * | output      | no       | heater output, 0–100 (%) |
  * | heart_rate  | no       | beats per minute, 30–300 |
+ * | air         | no       | air temperature |
+ * | set         | no       | set temperature (a skin set point in skin servo, an air set point otherwise) |
+ * | taken_by    | no       | e-mail of the nurse who took the reading, staff of the unit |
  *
- * A row needs at least one of probe, remote or heart_rate.
+ * A row needs at least one of probe, remote or heart_rate. Temperatures may use a decimal comma
+ * in a semicolon-separated file. A value outside its usual range (shared/plausibility.ts) is
+ * imported only when the charge nurse confirms that row.
  */
-export const READINGS_COLUMNS = ['infant', 'time', 'probe', 'remote', 'site', 'unit', 'mode', 'output', 'heart_rate'] as const;
+export const READINGS_COLUMNS = ['infant', 'time', 'probe', 'remote', 'site', 'unit', 'mode', 'output', 'heart_rate', 'air', 'set', 'taken_by'] as const;
 export const READINGS_REQUIRED = ['infant', 'time', 'unit'] as const;
 
 export { READINGS_EXAMPLE } from './example';
@@ -79,14 +87,20 @@ export interface ParsedReadingRow {
   controlMode: 'skin-servo' | 'air-servo' | 'manual' | null;
   heaterOutputPct: number | null;
   heartRate: number | null;
+  airCenti: number | null;
+  setCenti: number | null;
+  /** The `taken_by` e-mail, lower-cased; null when the file names nobody. */
+  takenBy: string | null;
+  /** Values outside their usual range: the row is imported only once confirmed. */
+  unusual: string[];
 }
 
-const ISO_WITH_ZONE = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2}(\.\d{1,3})?)?(Z|[+-]\d{2}:\d{2})$/;
 const DECIMAL = /^-?\d{1,3}(\.\d{1,2})?$/;
 const WHOLE = /^\d{1,3}$/;
 
 function temperature(value: string, unit: TempUnit | null, column: string, errors: string[]): number | null {
-  const v = value.trim();
+  // A decimal comma (36,6) is what a semicolon-separated file from a spreadsheet holds.
+  const v = value.trim().replace(/^(-?\d{1,3}),(\d{1,2})$/, '$1.$2');
   if (!v) return null;
   if (!DECIMAL.test(v)) {
     errors.push(`${column}: "${v}" is not a number with at most two decimals`);
@@ -111,20 +125,29 @@ function whole(value: string, column: string, min: number, max: number, errors: 
   return Number(v);
 }
 
-/** Check one readings row on its own; the infant and the time against admission are checked by the server. */
-export function checkReadingRow(row: Row): { value?: ParsedReadingRow; errors: string[] } {
+/**
+ * Check one readings row on its own; a time without an offset is read in `timeZone` (the
+ * unit's). The infant, the nurse and the time against admission are checked by the server.
+ */
+export function checkReadingRow(row: Row, timeZone: string): { value?: ParsedReadingRow; errors: string[] } {
   const errors: string[] = [];
   const infant = (row.infant ?? '').trim();
   if (!infant) errors.push('infant: enter the bed label or infant id');
   const time = (row.time ?? '').trim();
   let takenAt: Date | null = null;
-  if (!ISO_WITH_ZONE.test(time) || Number.isNaN(Date.parse(time))) errors.push('time: use ISO 8601 with a zone, e.g. 2026-11-16T08:00:00Z');
-  else takenAt = new Date(time);
+  const parsedTime = parseRowTime(time, timeZone);
+  if ('error' in parsedTime) errors.push(`time: ${parsedTime.error}`);
+  else takenAt = parsedTime.at;
   const unitText = (row.unit ?? '').trim().toUpperCase();
   const unit: TempUnit | null = unitText === 'C' || unitText === 'F' ? unitText : null;
   if (!unit) errors.push('unit: use C or F');
   const probeCenti = temperature(row.probe ?? '', unit, 'probe', errors);
   const remoteCenti = temperature(row.remote ?? '', unit, 'remote', errors);
+  const airCenti = temperature(row.air ?? '', unit, 'air', errors);
+  const setCenti = temperature(row.set ?? '', unit, 'set', errors);
+  const takenByText = (row.taken_by ?? '').trim().toLowerCase();
+  const takenBy = takenByText ? emailSchema.safeParse(takenByText) : null;
+  if (takenBy && !takenBy.success) errors.push('taken_by: give the e-mail of the nurse who took the reading');
   const siteText = (row.site ?? '').trim().toLowerCase();
   let remoteSite: ParsedReadingRow['remoteSite'] = null;
   if (siteText) {
@@ -143,5 +166,9 @@ export function checkReadingRow(row: Row): { value?: ParsedReadingRow; errors: s
   const heartRate = whole(row.heart_rate ?? '', 'heart_rate', 30, 300, errors);
   if (!(row.probe ?? '').trim() && !(row.remote ?? '').trim() && !(row.heart_rate ?? '').trim()) errors.push('row: give at least a probe, remote-site or heart-rate value');
   if (errors.length || !takenAt || !unit) return { errors };
-  return { value: { infant, takenAt, probeCenti, remoteCenti, remoteSite, unit, controlMode, heaterOutputPct, heartRate }, errors };
+  const unusual = unusualValues({ probeCenti, remoteCenti, airCenti, setCenti, heartRate, controlMode }, unit).map((u) => u.reason);
+  return {
+    value: { infant, takenAt, probeCenti, remoteCenti, remoteSite, unit, controlMode, heaterOutputPct, heartRate, airCenti, setCenti, takenBy: takenBy?.data ?? null, unusual },
+    errors,
+  };
 }
