@@ -18,7 +18,7 @@ import { migrationsFolder, openDatabase } from '../../db/client';
 import * as schema from '../../db/schema';
 import { seedDemo } from '../../db/seed';
 import { auditHash, GENESIS_HASH } from '../../server/audit';
-import { checkpointSettings, startCheckpointing, writeCheckpoint, type CheckpointSettings } from '../../server/checkpoints';
+import { checkpointJob, checkpointSettings, startCheckpointing, writeCheckpoint, type CheckpointSettings } from '../../server/checkpoints';
 import { batchedWrite } from '../../server/write-batch';
 import { canonicalSql, rowHash } from '../../server/ledger';
 import { CHAINED } from '../../server/ledger-tables';
@@ -326,5 +326,23 @@ describe('the checkpoint key', () => {
     // The start-up checkpoint is signed with that key.
     expect(verifyRecord(env.database.sqlite, { checkpoints: started.settings }).checkpoints.status).toBe('checked');
     expect(() => startCheckpointing(env.database.sqlite, dataDir, () => {}, true, {})).toThrow(/AUDIT_KEY .* or AUDIT_KEY_FILE/);
+  });
+});
+
+describe('the scheduled checkpoint', () => {
+  it('signs a moved head once, and e-mails the line when AUDIT_CHECKPOINT_MAILTO names someone', async () => {
+    const job = checkpointJob(settings, ['records.office@larkspur-vale.test']);
+    expect(job.pattern).toBe('0 * * * * *'); // every minute (croner's six-field pattern)
+    env.database.sqlite.prepare("INSERT INTO beds (id, unit_id, label, sort_order, active) VALUES (?, 'unit-south', 'S99', 99, 1)").run(`bed-${randomUUID()}`);
+    const lines = fs.readFileSync(settings.file, 'utf8').trim().split('\n').length;
+    const sent = env.mailer.sent.length;
+    await job.run(env.app.context);
+    const written = fs.readFileSync(settings.file, 'utf8').trim().split('\n');
+    expect(written).toHaveLength(lines + 1);
+    expect(env.mailer.sent.slice(sent)).toEqual([expect.objectContaining({ to: ['records.office@larkspur-vale.test'], text: `${written.at(-1)}\n` })]);
+    // Nothing new since: no line, no mail.
+    await job.run(env.app.context);
+    expect(fs.readFileSync(settings.file, 'utf8').trim().split('\n')).toHaveLength(lines + 1);
+    expect(env.mailer.sent.length).toBe(sent + 1);
   });
 });
