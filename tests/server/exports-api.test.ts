@@ -151,3 +151,61 @@ describe('FHIR R4 bundle per infant', () => {
     }
   });
 });
+
+describe('exports a spreadsheet reads as written', () => {
+  const raw = (path: string) => get(path, educator).buffer(true).parse((res, cb) => {
+    const chunks: Buffer[] = [];
+    res.on('data', (c: Buffer) => chunks.push(c));
+    res.on('end', () => cb(null, Buffer.concat(chunks)));
+  });
+
+  it('starts with the UTF-8 byte-order mark (EF BB BF, Unicode §23.8) and quotes every cell with a comma, semicolon, quote or line break (RFC 4180 §2)', async () => {
+    const charge = await env.signIn(DEMO.charge);
+    const note = 'Skin "pink"; warm, Inês\nrechecked';
+    const res = await request(env.app)
+      .post('/api/infants/inf-glimmerton/readings')
+      .set('Authorization', `Bearer ${charge}`)
+      .send({ id: '0b0f7f4e-8c1d-4a7e-9d51-3f2a4c6e8b10', unit: 'C', probe: 36.6, note, heatSigns: [] });
+    expect(res.status).toBe(201);
+    const body = (await raw('/api/exports/readings.csv?unitId=unit-north&from=2026-11-16&to=2026-11-16&infantId=inf-glimmerton')).body as Buffer;
+    expect([...body.subarray(0, 3)]).toEqual([0xef, 0xbb, 0xbf]);
+    const text = body.toString('utf8');
+    expect(text).toContain('"Skin ""pink""; warm, Inês\nrechecked"');
+    const rows = parseCsv(text.slice(1));
+    expect(rows.find((r) => r.reading_id === '0b0f7f4e-8c1d-4a7e-9d51-3f2a4c6e8b10')?.note).toBe(note);
+    for (const r of rows) expect(r.infant_id).toBe('inf-glimmerton');
+  });
+
+  it('gives each row the bed at its time, from the bed stays', async () => {
+    const charge = await env.signIn(DEMO.charge);
+    const before = Date.parse('2026-11-16T10:00:00Z');
+    env.clock.set(new Date(before + 60_000));
+    try {
+      expect((await request(env.app).post('/api/infants/inf-glimmerton-b/move').set('Authorization', `Bearer ${charge}`).send({ bedId: 'bed-N12' })).status).toBe(200);
+      env.clock.set(new Date(before + 5 * 60_000));
+      expect((await request(env.app).post('/api/infants/inf-glimmerton-b/readings').set('Authorization', `Bearer ${charge}`).send({ id: '5d1c2b3a-4e5f-4a6b-8c7d-9e0f1a2b3c4d', unit: 'C', probe: 36.7, heatSigns: [] })).status).toBe(201);
+      const rows = parseCsv((await get('/api/exports/readings.csv?unitId=unit-north&from=2026-11-13&to=2026-11-16&infantId=inf-glimmerton-b', educator)).text.slice(1));
+      const beds = new Set(rows.filter((r) => Date.parse(r.taken_at!) < before).map((r) => r.bed));
+      expect(beds).toEqual(new Set(['N08']));
+      expect(rows.find((r) => r.reading_id === '5d1c2b3a-4e5f-4a6b-8c7d-9e0f1a2b3c4d')?.bed).toBe('N12');
+      const stays = env.database.sqlite.prepare("SELECT event FROM bed_stays WHERE infant_id = 'inf-glimmerton-b' ORDER BY at").all();
+      expect(stays).toEqual([{ event: 'admitted' }, { event: 'moved' }]);
+      expect(() => env.database.sqlite.prepare("UPDATE bed_stays SET bed_id = NULL WHERE infant_id = 'inf-glimmerton-b'").run()).toThrow(/append-only/);
+    } finally {
+      env.clock.set(new Date(before));
+    }
+  });
+
+  it('exports every matching flag whatever the page size, with the teaching notes written out', async () => {
+    const stored = (env.database.sqlite.prepare("SELECT COUNT(*) AS n FROM flags WHERE kind IN ('gap', 'overdue-check', 'heat-stress', 'manual-mode')").get() as { n: number }).n;
+    const queue = await get('/api/review/queue?status=all&limit=1', educator);
+    const flagId = queue.body.items[0].flagId as string;
+    expect((await request(env.app).post(`/api/review/items/${flagId}/notes`).set('Authorization', `Bearer ${educator}`).send({ note: 'Good catch; recheck within 30 minutes, as the unit policy says.' })).status).toBe(201);
+    const res = await get('/api/exports/flags.csv?limit=1&status=all', educator);
+    const rows = parseCsv(res.text.slice(1));
+    expect(rows.length).toBe(stored);
+    const row = rows.find((r) => r.flag_id === flagId)!;
+    expect(row.teaching_note_count).toBe('1');
+    expect(row.teaching_notes).toMatch(/Priya Raman: Good catch; recheck within 30 minutes, as the unit policy says\.$/);
+  });
+});

@@ -167,3 +167,46 @@ describe('the demo for the educator', () => {
     }
   });
 });
+
+describe('review queue paging and search', () => {
+  /** The queue's flags counted straight from the tables (the review kinds, both units). */
+  const storedFlags = () =>
+    (env.database.sqlite.prepare("SELECT COUNT(*) AS n FROM flags WHERE kind IN ('gap', 'overdue-check', 'heat-stress', 'manual-mode')").get() as { n: number }).n;
+
+  it('walks every item page by page with nextCursor: none twice, none left out, newest first', async () => {
+    const seen: string[] = [];
+    const raised: string[] = [];
+    let cursor: string | null = null;
+    let pages = 0;
+    do {
+      const res = await get(`/api/review/queue?status=all&limit=7${cursor ? `&cursor=${cursor}` : ''}`, educator);
+      expect(res.status).toBe(200);
+      expect(res.body.items.length).toBeLessThanOrEqual(7);
+      expect(res.body.total).toBe(storedFlags());
+      for (const i of res.body.items) {
+        seen.push(i.flagId);
+        raised.push(i.raisedAt);
+      }
+      cursor = res.body.nextCursor;
+      pages += 1;
+    } while (cursor && pages < 100);
+    expect(pages).toBe(Math.ceil(storedFlags() / 7));
+    expect(new Set(seen).size).toBe(seen.length);
+    expect(seen.length).toBe(storedFlags());
+    expect([...raised].sort().reverse()).toEqual(raised);
+    expect((await get('/api/review/queue?cursor=not*valid', educator)).status).toBe(400);
+  });
+
+  it('searches by infant name, bed label or hospital number', async () => {
+    const byName = await get('/api/review/queue?status=all&q=ashgrove', educator);
+    expect(byName.body.items.length).toBeGreaterThan(0);
+    for (const i of byName.body.items) expect(i.infantName).toBe('Baby Ashgrove');
+    const byBed = await get('/api/review/queue?status=all&q=N03', educator);
+    expect(byBed.body.items.length).toBeGreaterThan(0);
+    for (const i of byBed.body.items) expect(i.bedLabel).toBe('N03');
+    const number = (env.database.sqlite.prepare("SELECT hospital_number FROM infants WHERE id = 'inf-ashgrove'").get() as { hospital_number: string }).hospital_number;
+    const byNumber = await get(`/api/review/queue?status=all&q=${number}`, educator);
+    expect(byNumber.body.items.map((i: { infantId: string }) => i.infantId)).toEqual(byName.body.items.map((i: { infantId: string }) => i.infantId));
+    expect((await get('/api/review/queue?status=all&q=nobody-here', educator)).body.items).toEqual([]);
+  });
+});
