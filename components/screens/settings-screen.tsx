@@ -89,7 +89,8 @@ function PasswordCard({ onChanged }: { onChanged: () => void }) {
       onChanged();
     } catch (err) {
       const p = problemOf(err);
-      setServerFields(p.kind === 'invalid' ? p.fields : { newPassword: p.message });
+      // Too many wrong current passwords: say so where she typed it.
+      setServerFields(p.kind === 'invalid' ? p.fields : p.kind === 'too-many-requests' ? { currentPassword: p.message } : { newPassword: p.message });
     }
   });
   return (
