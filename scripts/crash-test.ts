@@ -11,7 +11,8 @@ import fs from 'node:fs';
 import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
-import { verifyAuditChain } from '../server/audit';
+import { checkpointSettings, defaultKeyFile } from '../server/checkpoints';
+import { verifyRecord } from '../server/record-verify';
 
 const CYCLES = Number(process.env.CRASH_CYCLES ?? 20);
 const WRITERS = 20;
@@ -123,9 +124,12 @@ async function main() {
     if ((audited.get(id) as { n: number }).n !== 1) unaudited += 1;
   }
   const orphans = (db.prepare("SELECT COUNT(*) AS n FROM readings r WHERE NOT EXISTS (SELECT 1 FROM audit_events a WHERE a.entity_type = 'reading' AND a.entity_id = r.id)").get() as { n: number }).n;
-  const chain = verifyAuditChain(db);
+  // The whole record: every link, every chained row against its event, and the signed checkpoints
+  // the server wrote at each start (and at the last, clean shutdown).
+  const chain = verifyRecord(db, { checkpoints: checkpointSettings(dataDir) });
   db.close();
   fs.rmSync(dataDir, { recursive: true, force: true });
+  fs.rmSync(defaultKeyFile(dataDir), { force: true });
 
   process.stdout.write(
     [
@@ -133,7 +137,7 @@ async function main() {
       `requests sent: ${attempts} (refused: ${refused})`,
       `readings acknowledged: ${acknowledged.size}, found exactly once: ${acknowledged.size - missing - duplicated}, missing: ${missing}, duplicated: ${duplicated}`,
       `readings without their audit event: ${unaudited + orphans}`,
-      `audit chain: ${chain.ok ? `intact (${chain.checked} events)` : `broken at ${chain.firstBrokenId}`}`,
+      `audit chain and chained rows: ${chain.ok ? `intact (${chain.events} events, ${chain.rowsChecked} rows, ${chain.checkpoints.lines} signed checkpoints)` : `BROKEN: ${chain.findings[0]!.message}`}`,
       `integrity_check: ${String(integrity)}`,
     ].join('\n') + '\n',
   );

@@ -22,7 +22,9 @@ const queues = new WeakMap<Database.Database, { pending: Job[]; scheduled: boole
  * and only its caller gets the error; the others still commit. Nothing settles before the COMMIT
  * returns, so an answer never claims a write a crash could lose; if the COMMIT fails, every
  * caller in the batch gets the error. The audit chain stays in commit order, because the
- * batch's appendAudit calls run one after another inside the one transaction.
+ * batch's appendAudit calls run one after another inside the one transaction. The row ledger's
+ * events (server/ledger.ts) are written by triggers inside each job's savepoint, so a job that
+ * throws takes its row events with it and needs no hook here.
  *
  * `fn` must be synchronous and must not await: it runs later, in the batch, not at the call.
  */
