@@ -16,6 +16,7 @@ import {
   sessionJson,
   type NewReadingRow,
 } from '../services/bedside';
+import { appendFlagEvent, dbOf } from '../services/flag-lifecycle';
 import { syncFlags } from '../services/flags';
 import { nextCheckJson, openFlagJson } from '../services/summaries';
 
@@ -181,6 +182,7 @@ export function bedsideRouter(ctx: AppContext) {
         unitId: flag.unit_id,
         after: { flagId, flagKey: flag.key, kind: input.kind, note: input.note ?? null, at: at.toISOString() },
       });
+      appendFlagEvent(dbOf(sqlite), { flagId, infantId: flag.infant_id, unitId: flag.unit_id, event: 'action', at, actorId: auth.userId, detail: { actionId: input.id, kind: input.kind }, now });
       return { created: true, sync: syncFlags(sqlite, flag.infant_id, now, auth.userId) };
     });
     const a = same(loadAction()!);
@@ -189,8 +191,14 @@ export function bedsideRouter(ctx: AppContext) {
       action: { id: a.id, flagId: a.flag_id, kind: a.kind, note: a.note, at: new Date(a.at).toISOString(), recordedBy: { id: a.recorded_by, name: a.name } },
       created: result.created,
       flag: evaluated
-        ? { id: flagId, key: flag.key, status: evaluated.status, recheckDueAt: evaluated.recheckDueAt ? evaluated.recheckDueAt.toISOString() : null }
-        : { id: flagId, key: flag.key, status: 'closed', recheckDueAt: null },
+        ? {
+            id: flagId,
+            key: flag.key,
+            status: evaluated.status,
+            recheckDueAt: evaluated.recheckDueAt ? evaluated.recheckDueAt.toISOString() : null,
+            recheckCountsFrom: evaluated.recheckCountsFrom ? evaluated.recheckCountsFrom.toISOString() : null,
+          }
+        : { id: flagId, key: flag.key, status: 'closed', recheckDueAt: null, recheckCountsFrom: null },
       ...evaluationBody(flag.infant_id, result.sync),
     });
   });

@@ -1,9 +1,11 @@
 import Papa from 'papaparse';
 import { shiftAt } from '../../shared/shifts';
-import { currentReadings, evaluateInfant, fromCentiCelsius, type TempUnit } from '../../shared/thermal';
+import { currentReadings, fromCentiCelsius, type TempUnit } from '../../shared/thermal';
 import type { HandoverInfant, HandoverReading } from '../../shared/types/board';
 import type { AppContext } from '../context';
-import { loadInfantState, loadUnitRow, policyForUnit } from './flags';
+import { dbOf, readClocks, type StoredLatest } from './flag-lifecycle';
+import { loadInfantState, loadUnitRow } from './flags';
+import { storedFlowsheetFlags, summarizeInfants } from './summaries';
 
 export const HANDOVER_HOURS = 12;
 
@@ -35,7 +37,10 @@ export function buildHandover(ctx: AppContext, infantId: string, now: Date): Han
   const unit = loadUnitRow(sqlite, infant.unit_id)!;
   const from = now.getTime() - HANDOVER_HOURS * 3_600_000;
   const state = loadInfantState(sqlite, infantId);
-  const evaluation = evaluateInfant(state, now, policyForUnit(unit));
+  // What the last evaluation stored: the views never evaluate the rules again.
+  const [summary] = summarizeInfants(sqlite, [infantId], now);
+  const clock = readClocks(dbOf(sqlite), infantId);
+  const latest: Partial<StoredLatest> = clock ? (JSON.parse(clock.latest) as StoredLatest) : {};
 
   const extras = new Map(
     (
@@ -66,27 +71,7 @@ export function buildHandover(ctx: AppContext, infantId: string, now: Date): Han
       };
     });
 
-  const flagRows = sqlite
-    .prepare(
-      `SELECT f.id, f.kind, f.raised_at, r.closed_at, r.how, e.escalated_at, e.acknowledged_at
-         FROM flags f
-         LEFT JOIN flag_resolutions r ON r.flag_id = f.id
-         LEFT JOIN escalations e ON e.flag_id = f.id
-        WHERE f.infant_id = ? AND (f.raised_at >= ? OR r.flag_id IS NULL OR r.closed_at >= ?)
-        ORDER BY f.raised_at`,
-    )
-    .all(infantId, from, from) as Array<{
-    id: string;
-    kind: HandoverInfant['flags'][number]['kind'];
-    raised_at: number;
-    closed_at: number | null;
-    how: string | null;
-    escalated_at: number | null;
-    acknowledged_at: number | null;
-  }>;
-  const actionRows = sqlite
-    .prepare('SELECT a.flag_id, a.kind, a.note, a.at, u.name AS by_name FROM actions a JOIN users u ON u.id = a.recorded_by WHERE a.infant_id = ? ORDER BY a.at')
-    .all(infantId) as Array<{ flag_id: string; kind: string; note: string | null; at: number; by_name: string }>;
+  const flagRows = storedFlowsheetFlags(sqlite, infantId, from, now).reverse();
 
   const sessions = sqlite
     .prepare('SELECT id, started_at, ended_at, reference_centi, limit_centi, carer FROM skin_to_skin_sessions WHERE infant_id = ? AND (ended_at IS NULL OR ended_at >= ?) ORDER BY started_at')
@@ -100,7 +85,6 @@ export function buildHandover(ctx: AppContext, infantId: string, now: Date): Han
     )
     .get(infantId, slot.shiftDate, slot.shift) as { id: string; name: string } | undefined;
 
-  const { latest, nextCheck } = evaluation;
   return {
     infant: {
       id: infant.id,
@@ -117,24 +101,29 @@ export function buildHandover(ctx: AppContext, infantId: string, now: Date): Han
     to: now.toISOString(),
     timeZone: unit.time_zone,
     settings: {
-      controlMode: latest.controlMode,
-      setCenti: latest.setCenti,
-      heaterOutputPct: latest.heaterOutputPct,
-      probeCenti: latest.probeCenti,
-      remoteCenti: latest.remoteCenti,
-      remoteTakenAt: latest.remoteTakenAt ? latest.remoteTakenAt.toISOString() : null,
+      controlMode: latest.controlMode ?? null,
+      setCenti: latest.setCenti ?? null,
+      heaterOutputPct: latest.heaterOutputPct ?? null,
+      probeCenti: latest.probeCenti ?? null,
+      remoteCenti: latest.remoteCenti ?? null,
+      remoteTakenAt: latest.remoteTakenAt ?? null,
     },
-    nextCheck: { status: nextCheck.status, dueAt: nextCheck.dueAt ? nextCheck.dueAt.toISOString() : null, minutesLate: nextCheck.minutesLate },
+    nextCheck: summary!.nextCheck,
+    checks: summary!.checks,
     readings,
     flags: flagRows.map((f) => ({
-      id: f.id,
+      id: f.id!,
       kind: f.kind,
-      raisedAt: new Date(f.raised_at).toISOString(),
-      closedAt: iso(f.closed_at),
-      how: f.how,
-      actions: actionRows.filter((a) => a.flag_id === f.id).map((a) => ({ kind: a.kind, note: a.note, at: new Date(a.at).toISOString(), by: a.by_name })),
-      escalatedAt: iso(f.escalated_at),
-      acknowledgedAt: iso(f.acknowledged_at),
+      raisedAt: f.raisedAt,
+      closedAt: f.closedAt,
+      how: f.how ?? null,
+      actions: f.actions.map((a) => ({ kind: a.kind, note: a.note, at: a.at, by: a.recordedBy.name })),
+      // Only an escalation that went out counts as escalated.
+      escalatedAt: f.escalation?.sentAt ?? null,
+      acknowledgedAt: f.escalation?.acknowledgedAt ?? null,
+      severity: f.severity,
+      escalation: f.escalation ?? null,
+      withdrawn: f.withdrawn ? { reason: f.withdrawn.reason, readingId: f.withdrawn.readingId } : null,
     })),
     sessions: sessions.map((s) => ({
       id: s.id,

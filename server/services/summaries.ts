@@ -387,6 +387,7 @@ export function storedFlowsheetFlags(sqlite: Database.Database, infantId: string
         escalation: sent.get(r.id) ?? null,
         escalated: sent.has(r.id),
         detail: live ? live.detail : plainDetail(JSON.parse(r.detail)),
+        how: r.how ?? null,
         withdrawn: w ? { reason: why?.reason ?? 'reading-corrected', readingId: why?.readingId ?? null, at: w.at.toISOString() } : null,
         actions: acts
           .filter((a) => a.flagId === r.id)

@@ -169,6 +169,8 @@ export interface FlowsheetFlag {
   recheck?: RecheckClock | null;
   /** Set when a late entry or correction showed the flag should not have been raised. */
   withdrawn?: { reason: string; readingId: string | null; at: string } | null;
+  /** How it was resolved ('recheck', 'check-recorded', 'session-ended', 'discharged', 'withdrawn'); null while open. */
+  how?: string | null;
 }
 
 export interface FlagAction {
