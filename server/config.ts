@@ -105,7 +105,10 @@ export class ConfigError extends Error {
 }
 
 /** What production refuses in the environment: the demo's mail catcher, its seed, a generated secret, links to localhost. */
-function productionProblems(env: NodeJS.ProcessEnv, e: z.infer<typeof envSchema>): string[] {
+/** The environment as loadConfig reads it (process.env, or a test's own variables). */
+export type Environment = Readonly<Record<string, string | undefined>>;
+
+function productionProblems(env: Environment, e: z.infer<typeof envSchema>): string[] {
   const problems: string[] = [];
   if (!e.JWT_SECRET) problems.push('JWT_SECRET: a secret of at least 32 characters kept outside the data folder (for example the output of `openssl rand -base64 48`); production never uses a generated one');
   if (e.SMTP_FAKE === true) problems.push('SMTP_FAKE: the local mail catcher is the demo\'s; set SMTP_FAKE=false (or leave it unset) and point SMTP_HOST at your mail relay');
@@ -115,12 +118,12 @@ function productionProblems(env: NodeJS.ProcessEnv, e: z.infer<typeof envSchema>
   return problems;
 }
 
-export function modeOf(env: NodeJS.ProcessEnv): Mode {
+export function modeOf(env: Environment): Mode {
   if (env.WARMFOLD_MODE === 'production' || env.WARMFOLD_MODE === 'demo') return env.WARMFOLD_MODE;
   return env.NODE_ENV === 'production' ? 'production' : 'demo';
 }
 
-export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
+export function loadConfig(env: Environment = process.env): AppConfig {
   const mode = modeOf(env);
   const parsed = envSchema.safeParse(env);
   if (!parsed.success) {

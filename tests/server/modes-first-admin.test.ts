@@ -18,7 +18,8 @@ const ROOT = path.resolve(__dirname, '..', '..');
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'warmfold-first-admin-'));
 afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
 
-const env = {
+const env: NodeJS.ProcessEnv = {
+  NODE_ENV: 'test',
   PATH: process.env.PATH ?? '',
   WARMFOLD_MODE: 'production',
   JWT_SECRET: 'a-production-secret-that-is-long-enough-0123456789',

@@ -26,13 +26,14 @@ interface Run {
   child: ChildProcess;
 }
 
-/** Start server/index.ts; resolve when it prints its address or exits. Only what we pass is in its environment. */
+/** The child's whole environment: only what a test passes, over a few neutral defaults. */
+function childEnv(dataDir: string, extra: Record<string, string>): NodeJS.ProcessEnv {
+  return { NODE_ENV: 'test', PATH: process.env.PATH ?? '', HOME: process.env.HOME ?? '', PORT: '0', HOST: '127.0.0.1', SMTP_PORT: '0', DATA_DIR: dataDir, LOG_REQUESTS: 'false', ESCALATION_INTERVAL_SECONDS: '3600', ...extra };
+}
+
+/** Start server/index.ts; resolve when it prints its address or exits. */
 function start(env: Record<string, string>, dataDir: string): Promise<Run> {
-  const child = spawn(TSX, [path.join('server', 'index.ts')], {
-    cwd: ROOT,
-    env: { PATH: process.env.PATH ?? '', HOME: process.env.HOME ?? '', PORT: '0', HOST: '127.0.0.1', SMTP_PORT: '0', DATA_DIR: dataDir, LOG_REQUESTS: 'false', ESCALATION_INTERVAL_SECONDS: '3600', ...env },
-    stdio: ['ignore', 'pipe', 'pipe'],
-  });
+  const child = spawn(TSX, [path.join('server', 'index.ts')], { cwd: ROOT, env: childEnv(dataDir, env), stdio: ['ignore', 'pipe', 'pipe'] });
   const run: Run = { code: null, stdout: '', stderr: '', base: null, child };
   return new Promise((resolve) => {
     child.stdout!.on('data', (chunk: Buffer) => {
