@@ -21,6 +21,7 @@ export type FindingKind =
   | 'checkpoint-invalid'
   | 'checkpoint-line-removed'
   | 'checkpoint-mismatch'
+  | 'checkpoints-missing'
   | 'chain-replaced';
 
 export interface Finding {
@@ -167,6 +168,15 @@ export function verifyRecord(sqlite: Database.Database, options: { checkpoints?:
     lines: lines.length,
     last: null,
   };
+  // The server signs the head whenever it starts, so with a key in place an empty or missing file
+  // means the file was taken away (together, perhaps, with a recomputed chain).
+  if (checkpoints.status === 'no-file' && options.checkpoints?.key && count > 0) {
+    findings.push({
+      kind: 'checkpoints-missing',
+      eventId: null,
+      message: `there is an audit key (${options.checkpoints.key.source}) but no signed checkpoint in ${options.checkpoints.file}: the checkpoint file was removed or emptied, or Warmfold has never run with this key`,
+    });
+  }
   if (checkpoints.status === 'checked') {
     const key = options.checkpoints!.key!.key;
     let previousMac: string | null = null;

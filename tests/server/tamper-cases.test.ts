@@ -346,3 +346,19 @@ describe('the scheduled checkpoint', () => {
     expect(env.mailer.sent.length).toBe(sent + 1);
   });
 });
+
+describe('taking the checkpoint file away', () => {
+  it('is reported when a key exists: a recomputed chain cannot hide by deleting the signatures', async () => {
+    const { file } = await tamper('rechain-no-checkpoints', (db) => {
+      editAppReading(db);
+      db.prepare('DROP TRIGGER audit_events_no_update').run();
+      rechain(db);
+    });
+    const gone = { ...settings, file: path.join(env.dir, 'deleted-checkpoints.log') };
+    const db = new Database(file, { readonly: true });
+    const report = verifyRecord(db, { checkpoints: gone });
+    db.close();
+    expect(report.ok).toBe(false);
+    expect(report.findings.map((f) => f.kind)).toContain('checkpoints-missing');
+  });
+});
