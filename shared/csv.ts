@@ -6,7 +6,7 @@
  * written as they are.
  */
 /** The UTF-8 byte-order mark: put before a downloaded CSV, it tells a spreadsheet the file is UTF-8. */
-export const CSV_BOM = '\uFEFF';
+export const CSV_BOM = String.fromCharCode(0xfeff);
 
 export type CsvCell = string | number | boolean | null | undefined;
 

@@ -91,6 +91,27 @@ export async function api<T>(path: string, options: RequestOptions = {}): Promis
   return json as T;
 }
 
+/** A GET whose answer is a file (a CSV, a FHIR Bundle): its text and the file name the server gave it. */
+export async function apiFile(path: string): Promise<{ text: string; filename: string | null }> {
+  const headers: Record<string, string> = {};
+  const token = tokenSource();
+  if (token) headers.Authorization = `Bearer ${token}`;
+  let response: Response;
+  try {
+    response = await fetch(`${API_BASE}/api${path}`, { headers });
+  } catch {
+    throw new ApiFailure({ kind: 'cannot-connect', message: 'Cannot reach Warmfold. Check the connection; nothing was lost.' });
+  }
+  if (!response.ok) {
+    const json = (await response.json().catch(() => null)) as Partial<ApiErrorBody> | null;
+    const problem = problemFromStatus(response.status, json, response.headers.get('Retry-After'));
+    if (problem.kind === 'unauthorized') onUnauthorized();
+    throw new ApiFailure(problem);
+  }
+  const filename = /filename="([^"]+)"/.exec(response.headers.get('Content-Disposition') ?? '')?.[1] ?? null;
+  return { text: await response.text(), filename };
+}
+
 export function problemOf(error: unknown): ApiProblem {
   if (error instanceof ApiFailure) return error.problem;
   return { kind: 'server-error', message: error instanceof Error ? error.message : 'Something went wrong.' };

@@ -4,6 +4,7 @@ import { useEffect, useState } from 'react';
 import { Pressable, StyleSheet, useWindowDimensions, View } from 'react-native';
 import type { Flowsheet, FlowsheetReading, ReadingVersion } from '@/shared/types/bedside';
 import { useUser } from '@/components/auth/auth-provider';
+import { InfantExports } from '@/components/reports/infant-exports';
 import { useFlowsheetQuery } from '@/components/queries/infants';
 import { useTheme } from '@/components/theme/theme-provider';
 import { WIDE_BREAKPOINT } from '@/components/theme/theme';
@@ -51,6 +52,7 @@ export function FlowsheetScreen({ infantId }: { infantId: string }) {
       ) : (
         <FlowsheetBody sheet={sheet} hours={hours} setHours={setHours} canChart={canChart} />
       )}
+      {sheet && user.role === 'educator' ? <InfantExports infantId={infantId} unitId={sheet.infant.unitId} /> : null}
     </Screen>
   );
 }

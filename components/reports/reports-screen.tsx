@@ -11,6 +11,7 @@ import { Screen } from '../ui/screen';
 import { Segmented } from '../ui/segmented';
 import { ErrorState, LoadingState } from '../ui/state-view';
 import { Text } from '../ui/text';
+import { ExportButtons } from './export-buttons';
 import { OnTimeChart } from './on-time-chart';
 import { ReportTableCard } from './report-table';
 
@@ -32,6 +33,11 @@ export function ReportsScreen() {
         {units.length > 1 ? <Segmented label="Unit" value={unitId} onChange={setUnitId} options={units.map((u) => ({ value: u.id, label: u.name }))} /> : null}
         <DateRange from={range.from} to={range.to} onChange={setRange} error={valid ? undefined : 'Use dates as YYYY-MM-DD, the end not before the start.'} />
       </Card>
+      {unitId && valid ? (
+        <Card>
+          <ExportButtons label="Export this unit and date range" scope={{ unitId, from: range.from, to: range.to }} />
+        </Card>
+      ) : null}
       {query.error ? (
         <ErrorState error={query.error} onRetry={() => void query.refetch()} />
       ) : !data ? (

@@ -1,12 +1,12 @@
 import { router } from 'expo-router';
 import { useState } from 'react';
-import { Pressable, StyleSheet, View } from 'react-native';
-import { toCsv } from '@/shared/csv';
+import { Pressable, StyleSheet, TextInput, View } from 'react-native';
 import type { ReviewQueueQuery } from '@/shared/schemas/review';
 import { REVIEW_KIND_LABELS, REVIEW_KINDS, type ReviewKind, type ReviewStatus } from '@/shared/vocabulary';
 import type { ReviewQueueItem } from '@/shared/types/review';
-import { saveTextFile } from '../downloads/save-text-file';
+import { ExportButtons } from '../reports/export-buttons';
 import { useReviewQueueQuery } from '../queries/review';
+import { TOUCH_TARGET } from '../theme/theme';
 import { useTheme } from '../theme/theme-provider';
 import { Button } from '../ui/button';
 import { Card } from '../ui/card';
@@ -28,6 +28,9 @@ export function ReviewQueueScreen() {
   const [status, setStatus] = useState<ReviewStatus>('unreviewed');
   const [nurseId, setNurseId] = useState<string>('all');
   const [range, setRange] = useState({ from: '', to: '' });
+  const [search, setSearch] = useState('');
+  // Pages after the first, by the cursor each one starts from; any filter change starts again.
+  const [more, setMore] = useState<string[]>([]);
   const rangeError = (range.from && !isDate(range.from)) || (range.to && !isDate(range.to)) ? 'Use dates as YYYY-MM-DD.' : undefined;
   const filters: Partial<ReviewQueueQuery> = {
     ...(unitId !== 'all' ? { unitId } : {}),
@@ -36,24 +39,22 @@ export function ReviewQueueScreen() {
     ...(nurseId !== 'all' ? { nurseId } : {}),
     ...(!rangeError && range.from ? { from: range.from } : {}),
     ...(!rangeError && range.to ? { to: range.to } : {}),
+    ...(search.trim() ? { q: search.trim() } : {}),
     status,
   };
-  const query = useReviewQueueQuery(filters);
-
-  const exportCsv = (items: ReviewQueueItem[]) => {
-    const csv = toCsv(
-      ['flag_id', 'kind', 'unit', 'infant', 'bed', 'raised_at', 'shift', 'shift_date', 'nurse', 'summary', 'minutes_to_first_action', 'minutes_to_resolution', 'teaching_notes'],
-      items.map((i) => [i.flagId, i.kind, i.unitName, i.infantName, i.bedLabel, i.raisedAt, i.shift, i.shiftDate, i.nurse?.name ?? null, i.summary, i.minutesToFirstAction, i.minutesToResolution, i.reviewCount]),
-    );
-    saveTextFile(`review-queue-${new Date().toISOString().slice(0, 10)}.csv`, csv);
-  };
+  const filterKey = JSON.stringify(filters);
+  const [shownFor, setShownFor] = useState(filterKey);
+  if (shownFor !== filterKey) {
+    setShownFor(filterKey);
+    setMore([]);
+  }
+  const query = useReviewQueueQuery({ ...filters, limit: PAGE });
 
   const data = query.data;
   return (
     <Screen
       title="Review queue"
       subtitle="Gap flags, overdue checks, heat-stress prompts and manual-mode warnings"
-      actions={data && data.items.length ? <Button label="Export CSV" icon="list" variant="secondary" onPress={() => exportCsv(data.items)} /> : null}
       refreshing={query.isRefetching}
       onRefresh={() => void query.refetch()}
       wide
@@ -69,6 +70,18 @@ export function ReviewQueueScreen() {
           <Segmented label="Nurse" value={nurseId} onChange={setNurseId} options={[{ value: 'all', label: 'Any nurse' }, ...data.nurses.map((n) => ({ value: n.id, label: n.name }))]} />
         ) : null}
         <DateRange from={range.from} to={range.to} onChange={setRange} error={rangeError} />
+        <SearchField value={search} onChange={setSearch} />
+      </Card>
+      <Card>
+        <ExportButtons
+          label="Export (every matching item, not only this page)"
+          scope={{
+            unitId: unitId !== 'all' ? unitId : null,
+            from: filters.from,
+            to: filters.to,
+            flagFilters: { shift: filters.shift, kind: filters.kind, nurseId: filters.nurseId, q: filters.q, status },
+          }}
+        />
       </Card>
       {query.error ? (
         <ErrorState error={query.error} onRetry={() => void query.refetch()} />
@@ -78,13 +91,58 @@ export function ReviewQueueScreen() {
         <EmptyState title="Nothing to review" message="No items match these filters." />
       ) : (
         <View style={styles.list} aria-label="Review items">
-          <Text tone="muted">{data.total > data.items.length ? `Showing the newest ${data.items.length} of ${data.total} items; narrow the filters to see the rest` : `${data.items.length} items`}</Text>
+          <Text tone="muted">{`${data.total} item${data.total === 1 ? '' : 's'}, newest first`}</Text>
           {data.items.map((item) => (
             <QueueRow key={item.flagId} item={item} />
           ))}
+          {more.map((cursor) => (
+            <QueuePage key={cursor} filters={filters} cursor={cursor} />
+          ))}
+          <MoreButton next={more.length ? null : data.nextCursor} lastCursor={more[more.length - 1]} filters={filters} onMore={(c) => setMore([...more, c])} />
         </View>
       )}
     </Screen>
+  );
+}
+
+const PAGE = 50;
+
+/** A later page of the queue, from its cursor. */
+function QueuePage({ filters, cursor }: { filters: Partial<ReviewQueueQuery>; cursor: string }) {
+  const page = useReviewQueueQuery({ ...filters, cursor, limit: PAGE });
+  if (page.error) return <ErrorState error={page.error} onRetry={() => void page.refetch()} />;
+  if (!page.data) return <LoadingState label="Loading more items…" />;
+  return (
+    <>
+      {page.data.items.map((item) => (
+        <QueueRow key={item.flagId} item={item} />
+      ))}
+    </>
+  );
+}
+
+/** "Show more" under the last page loaded: the first page's cursor, or the last loaded page's. */
+function MoreButton({ next, lastCursor, filters, onMore }: { next: string | null; lastCursor?: string; filters: Partial<ReviewQueueQuery>; onMore: (cursor: string) => void }) {
+  const last = useReviewQueueQuery({ ...filters, cursor: lastCursor, limit: PAGE });
+  const cursor = lastCursor ? (last.data?.nextCursor ?? null) : next;
+  if (!cursor) return null;
+  return <Button label="Show more" icon="list" variant="secondary" onPress={() => onMore(cursor)} />;
+}
+
+function SearchField({ value, onChange }: { value: string; onChange: (v: string) => void }) {
+  const theme = useTheme();
+  return (
+    <View style={styles.search}>
+      <Text variant="label">Search</Text>
+      <TextInput
+        accessibilityLabel="Search by infant, bed or hospital number"
+        placeholder="Infant, bed or hospital number"
+        placeholderTextColor={theme.colors.textMuted}
+        value={value}
+        onChangeText={onChange}
+        style={[styles.input, theme.type.body, { color: theme.colors.text, backgroundColor: theme.colors.surfaceSunken, borderColor: theme.colors.border }]}
+      />
+    </View>
   );
 }
 
@@ -110,7 +168,7 @@ function QueueRow({ item }: { item: ReviewQueueItem }) {
       </Text>
       <Text>{item.summary}</Text>
       <Text tone="muted" variant="caption">
-        Raised {shortDateTime(item.raisedAt)} · {item.nurse ? item.nurse.name : 'nurse unknown'} · first action {minutesText(item.minutesToFirstAction)} · resolved{' '}
+        Raised {shortDateTime(item.raisedAt)} · {item.nurse ? item.nurse.name : item.importedBy ? `imported by ${item.importedBy.name}, no nurse named` : 'nurse unknown'} · first action {minutesText(item.minutesToFirstAction)} · resolved{' '}
         {item.closedAt ? `after ${minutesText(item.minutesToResolution)}` : 'not yet'}
       </Text>
     </Pressable>
@@ -121,4 +179,6 @@ const styles = StyleSheet.create({
   list: { gap: 8 },
   row: { borderWidth: 1, borderRadius: 12, padding: 12, gap: 6 },
   rowTop: { flexDirection: 'row', gap: 6, flexWrap: 'wrap' },
+  search: { gap: 4 },
+  input: { minHeight: TOUCH_TARGET, borderWidth: 2, borderRadius: 10, paddingHorizontal: 12 },
 });
