@@ -362,3 +362,16 @@ describe('taking the checkpoint file away', () => {
     expect(report.findings.map((f) => f.kind)).toContain('checkpoints-missing');
   });
 });
+
+describe('npm run db:seed', () => {
+  it('lays down a demo that npm run audit:verify finds intact and signed, and again after a second reset', () => {
+    const dataDir = path.join(env.dir, 'seeded');
+    const cli = (script: string) => execFileSync(process.execPath, ['--import', 'tsx', script], { encoding: 'utf8', env: { ...process.env, DATA_DIR: dataDir, AUDIT_KEY: KEY } });
+    cli('db/seed-cli.ts');
+    expect(cli('scripts/audit-verify.ts')).toMatch(/^Record intact: \d+ audit events and \d+ chained rows checked[^]*Signed checkpoints: 1 in /);
+    expect(cli('db/seed-cli.ts')).toMatch(/The old chain's audit checkpoints were set aside in .*replaced-/);
+    const again = cli('scripts/audit-verify.ts');
+    expect(again).toMatch(/^Record intact/);
+    expect(again).not.toMatch(/Not vouched for/);
+  });
+});
