@@ -61,6 +61,7 @@ const EXPECTED: Record<string, string> = {
   'GET /api/units/:unitId/handover': 'FUFFN',
   'POST /api/readings-import/preview': 'FYFFN',
   'POST /api/readings-import/:uploadId/import': 'FYFFN',
+  'GET /api/readings-import/:uploadId/errors.csv': 'FYFFN',
   // Review, reports and exports: the educator.
   'GET /api/review/queue': 'FFYFN',
   'GET /api/review/items/:flagId': 'FFUFN',
