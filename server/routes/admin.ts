@@ -8,6 +8,8 @@ import { valid, validate } from '../middleware/validate';
 import { createUser, listUnits, listUsers, sendLinkFor, setUserActive, updateUser } from '../services/admin-users';
 import { sendWeeklyDigests } from '../services/digest';
 import { mailLinkSafely } from '../services/email-links';
+import { recordUnitSettingsChange } from '../services/flag-lifecycle';
+import { loadUnitRow, policyForUnit, type UnitRow } from '../services/flags';
 
 const SETTING_COLUMNS: Record<string, string> = {
   name: 'name',
@@ -18,6 +20,7 @@ const SETTING_COLUMNS: Record<string, string> = {
   dayShiftStart: 'day_shift_start',
   nightShiftStart: 'night_shift_start',
   timeZone: 'time_zone',
+  escalationFallbackEmail: 'escalation_fallback_email',
 };
 
 /** Users, invitations, units, beds and settings: the administrator's. Admins never chart. */
@@ -75,6 +78,9 @@ export function adminRouter(ctx: AppContext) {
     sqlite
       .transaction(() => {
         sqlite.prepare(`UPDATE units SET ${entries.map(([k]) => `${SETTING_COLUMNS[k]} = ?`).join(', ')} WHERE id = ?`).run(...entries.map(([, v]) => v as string | number), unitId);
+        // Settings are versions: earlier judgements keep the settings in force when they were made.
+        const after = loadUnitRow(sqlite, unitId)!;
+        recordUnitSettingsChange(sqlite, unitId, policyForUnit(before as unknown as UnitRow), policyForUnit(after), req.auth!.userId, ctx.clock.now());
         appendAudit(sqlite, { at: ctx.clock.now(), actorId: req.auth!.userId, action: 'unit-settings', entityType: 'unit', entityId: unitId, unitId, before, after: input });
       })
       .immediate();

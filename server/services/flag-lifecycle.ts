@@ -89,8 +89,9 @@ export function versionAt<V extends { effectiveFrom: Date }>(versions: readonly 
 
 /**
  * Record a change of a unit's settings as a new version in force from `effectiveFrom`. The first
- * change also records the settings in force until then (from the unit's creation), so every
- * earlier judgement keeps the settings it was made under.
+ * change also records the settings in force until then (from the beginning: a chart may hold
+ * readings from before the unit's row was made, as an import does), so every earlier judgement
+ * keeps the settings it was made under.
  */
 export function recordPolicyVersion(
   db: Db,
@@ -99,12 +100,11 @@ export function recordPolicyVersion(
   after: UnitPolicy,
   actorId: string | null,
   effectiveFrom: Date,
-  unitCreatedAt: Date,
 ): string {
   const existing = db.select({ id: unitPolicyVersions.id }).from(unitPolicyVersions).where(eq(unitPolicyVersions.unitId, unitId)).limit(1).get();
   if (!existing) {
     db.insert(unitPolicyVersions)
-      .values({ id: randomUUID(), unitId, effectiveFrom: unitCreatedAt, settings: JSON.stringify(before), createdBy: null, createdAt: effectiveFrom })
+      .values({ id: randomUUID(), unitId, effectiveFrom: new Date(0), settings: JSON.stringify(before), createdBy: null, createdAt: effectiveFrom })
       .run();
   }
   const id = randomUUID();
@@ -122,7 +122,8 @@ export function policyChangesBetween(db: Db, unitId: string, from: Date, to: Dat
     .where(and(eq(unitPolicyVersions.unitId, unitId), gt(unitPolicyVersions.effectiveFrom, from), lte(unitPolicyVersions.effectiveFrom, to)))
     .orderBy(asc(unitPolicyVersions.effectiveFrom))
     .all()
-    .filter((v) => v.createdBy !== null || v.effectiveFrom.getTime() !== 0)
+    // The first version only records the settings in force before the first change.
+    .filter((v) => v.createdBy !== null)
     .map((v) => ({ id: v.id, effectiveFrom: v.effectiveFrom.toISOString(), settings: JSON.parse(v.settings) as UnitPolicy }));
 }
 
@@ -251,4 +252,30 @@ export function onTimeCheckFor(db: Db, infantId: string, afterMs: number, dueMs:
     .limit(1)
     .get();
   return row?.id ?? null;
+}
+
+/** The settings a version carries beyond the unit row's columns, kept from one version to the next. */
+const VERSION_ONLY_KEYS = ['recheckSettleMinutes', 'escalationDelays', 'recheckMinutes', 'manualCheckMinutes', 'highOutputMinutes'] as const;
+
+/**
+ * After a change to a unit's row (inside the same transaction): record the settings now in force
+ * as a new version effective `now`, the first time together with the settings in force before.
+ * A change that leaves every clinical setting as it was (a new name) records nothing.
+ */
+export function recordUnitSettingsChange(
+  sqlite: Database.Database,
+  unitId: string,
+  before: UnitPolicy,
+  after: UnitPolicy,
+  actorId: string | null,
+  now: Date,
+): string | null {
+  const db = dbOf(sqlite);
+  const versions = loadPolicyVersions(db, unitId);
+  const last = versions.length ? resolvePolicy(versions[versions.length - 1]!.policy) : null;
+  const carried = Object.fromEntries(VERSION_ONLY_KEYS.map((k) => [k, last ? last[k] : before[k]])) as Partial<UnitPolicy>;
+  const was = last ?? before;
+  const next = resolvePolicy({ ...after, ...carried });
+  if (JSON.stringify(resolvePolicy(was)) === JSON.stringify(next)) return null;
+  return recordPolicyVersion(db, unitId, resolvePolicy({ ...before, ...carried }), next, actorId, now);
 }

@@ -14,9 +14,14 @@ import { REVIEW_KINDS, type UnitRangeQuery } from '../../shared/schemas/review';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { notFound } from '../errors';
-import type { UnitRow } from './flags';
+import { resolvePolicy } from '../../shared/thermal';
+import { dbOf, loadPolicyVersions, policyChangesBetween, versionAt } from './flag-lifecycle';
+import { policyForUnit, type UnitRow } from './flags';
 
 const MINUTE = 60_000;
+
+/** The flag kinds a report counts: the review queue's, plus cold stress and fever. */
+export const REPORT_KINDS: readonly string[] = [...new Set<string>([...REVIEW_KINDS, 'cold-stress', 'fever'])];
 
 export interface UnitWindow {
   unit: UnitRow & { name: string };
@@ -52,7 +57,15 @@ export function remoteChecks(sqlite: Database.Database, w: UnitWindow): RemoteCh
         ORDER BY r.infant_id, r.taken_at`,
     )
     .all(w.unit.id, w.toMs) as Array<{ infant_id: string; taken_at: number; admitted_at: number }>;
-  const interval = w.unit.check_interval_minutes * MINUTE;
+  // Each check is judged by the settings in force at the check before it (its due time) and
+  // counted in the shift of the settings in force when it was taken: a change never rewrites
+  // an earlier judgement.
+  const versions = loadPolicyVersions(dbOf(sqlite), w.unit.id);
+  const base = policyForUnit(w.unit);
+  const at = (ms: number) => {
+    const v = versionAt(versions, ms);
+    return v ? resolvePolicy(v.policy) : base;
+  };
   const checks: RemoteCheck[] = [];
   let infant = '';
   let previous = 0;
@@ -61,7 +74,14 @@ export function remoteChecks(sqlite: Database.Database, w: UnitWindow): RemoteCh
       infant = r.infant_id;
       previous = r.admitted_at;
     }
-    if (r.taken_at >= w.fromMs) checks.push({ takenAt: new Date(r.taken_at), dueAt: new Date(previous + interval) });
+    if (r.taken_at >= w.fromMs) {
+      const then = at(r.taken_at);
+      checks.push({
+        takenAt: new Date(r.taken_at),
+        dueAt: new Date(previous + at(previous).checkIntervalMinutes * MINUTE),
+        times: { dayShiftStart: then.dayShiftStart, nightShiftStart: then.nightShiftStart, timeZone: then.timeZone },
+      });
+    }
     previous = r.taken_at;
   }
   return checks;
@@ -72,7 +92,8 @@ export function flagTimes(sqlite: Database.Database, w: UnitWindow): FlagTimes[]
     .prepare(
       `SELECT f.kind, f.raised_at, (SELECT MIN(a.at) FROM actions a WHERE a.flag_id = f.id) AS first_action_at, fr.closed_at
          FROM flags f LEFT JOIN flag_resolutions fr ON fr.flag_id = f.id
-        WHERE f.unit_id = ? AND f.raised_at >= ? AND f.raised_at < ? AND f.kind IN (${REVIEW_KINDS.map((k) => `'${k}'`).join(', ')})`,
+        WHERE f.unit_id = ? AND f.raised_at >= ? AND f.raised_at < ? AND f.kind IN (${REPORT_KINDS.map((k) => `'${k}'`).join(', ')})
+          AND (fr.how IS NULL OR fr.how <> 'withdrawn')`,
     )
     .all(w.unit.id, w.fromMs, w.toMs) as Array<{ kind: string; raised_at: number; first_action_at: number | null; closed_at: number | null }>;
   return rows.map((r) => ({
@@ -116,8 +137,15 @@ export function unitReport(ctx: AppContext, query: UnitRangeQuery, actorId: stri
     to: query.to,
     onTime: onTimeReport(checks, { dayShiftStart: w.unit.day_shift_start, nightShiftStart: w.unit.night_shift_start, timeZone: w.unit.time_zone }),
     gapRate: gapFlagsPer100(flags.filter((f) => f.kind === 'gap').length, checks.length),
-    responseTimes: responseTimesByKind(flags, REVIEW_KINDS),
+    responseTimes: responseTimesByKind(flags, REPORT_KINDS),
     skinToSkin: skinToSkinDeviationShare(skinToSkinSessions(sqlite, w), new Date(w.fromMs), new Date(Math.max(end, w.fromMs))),
+    settingsChanges: policyChangesBetween(dbOf(sqlite), w.unit.id, new Date(w.fromMs), new Date(w.toMs)).map((c) => ({
+      effectiveFrom: c.effectiveFrom,
+      checkIntervalMinutes: c.settings.checkIntervalMinutes,
+      timeZone: c.settings.timeZone,
+      dayShiftStart: c.settings.dayShiftStart,
+      nightShiftStart: c.settings.nightShiftStart,
+    })),
   };
   sqlite
     .transaction(() => appendAudit(sqlite, { at: ctx.clock.now(), actorId, action: 'report-read', entityType: 'unit', entityId: w.unit.id, unitId: w.unit.id, after: query }))

@@ -40,6 +40,11 @@ export interface RemoteCheck {
    * A check taken at or before this instant was on time; a check after it was late.
    */
   dueAt: Date;
+  /**
+   * The shift times and zone in force when the check was taken (a settings version); the
+   * report's own times when absent. A later change of zone or shifts never moves this check.
+   */
+  times?: ShiftTimes;
 }
 
 export interface OnTimeRow {
@@ -78,10 +83,11 @@ export function onTimeReport(checks: readonly RemoteCheck[], times: ShiftTimes):
     const ok = isOnTime(check) ? 1 : 0;
     total += 1;
     onTime += ok;
-    const s = shiftAt(check.takenAt, times).shift;
+    const own = check.times ?? times;
+    const s = shiftAt(check.takenAt, own).shift;
     shift[s][0] += 1;
     shift[s][1] += ok;
-    const date = localDate(check.takenAt, times.timeZone);
+    const date = localDate(check.takenAt, own.timeZone);
     const d = days.get(date) ?? [0, 0];
     d[0] += 1;
     d[1] += ok;
@@ -238,6 +244,8 @@ export interface UnitReport {
   gapRate: GapRateReport;
   responseTimes: ResponseTimesRow[];
   skinToSkin: SkinToSkinReport;
+  /** Changes of the unit's settings inside the range: each judgement before one kept the settings then. */
+  settingsChanges?: Array<{ effectiveFrom: string; checkIntervalMinutes: number; timeZone: string; dayShiftStart: string; nightShiftStart: string }>;
 }
 
 /** A percentage for a table cell, one decimal; a dash for "no data". */

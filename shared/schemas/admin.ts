@@ -34,6 +34,8 @@ export const unitSettingsSchema = z
     escalationDelayMinutes: z.number({ error: 'Enter minutes.' }).int('Whole minutes.').min(1).max(240, 'At most 4 hours.').optional(),
     dayShiftStart: timeOfDay.optional(),
     nightShiftStart: timeOfDay.optional(),
+    /** Where escalations go when no charge nurse is assigned on the shift; null removes it. */
+    escalationFallbackEmail: z.email({ error: 'Enter an e-mail address.' }).max(254, 'That address is too long.').nullable().optional(),
     timeZone: z
       .string()
       .min(1)

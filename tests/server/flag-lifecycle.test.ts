@@ -53,6 +53,8 @@ async function admit(bed: string, name: string, controlMode = 'skin-servo'): Pro
   expect(res.status).toBe(201);
   const id = res.body.infant?.id ?? res.body.id;
   expect((await post('/units/unit-north/assignments', { infantId: id, nurseId: 'u-nurse' }, charge)).status).toBe(201);
+  // The next reading comes a minute after the admission's (two readings at one instant have no order).
+  env.clock.advanceMinutes(1);
   return id;
 }
 
@@ -169,6 +171,33 @@ describe('check clocks that know the mode', () => {
     expect(openKinds(v.mine)).toEqual([]);
     const events = env.database.sqlite.prepare('SELECT event FROM flag_events WHERE flag_id = ? ORDER BY created_at, rowid').all(gap.id) as Array<{ event: string }>;
     expect(events.map((e) => e.event)).toEqual(['raised', 'action', 'closed']);
+  });
+});
+
+describe('settings in force at the time', () => {
+  it('changing the check interval or the time zone never rewrites earlier figures, and the report marks the change (common practice: a policy applies from when it is adopted)', async () => {
+    const educator = await env.signIn(DEMO.educator);
+    const admin = await env.signIn(DEMO.admin);
+    const today = env.clock.now().toISOString().slice(0, 10);
+    const weekAgo = new Date(env.clock.now().getTime() - 7 * 86_400_000).toISOString().slice(0, 10);
+    const report = async () => get<{ report?: unknown } & Record<string, unknown>>(`/reports?unitId=unit-north&from=${weekAgo}&to=${today}`, educator);
+    const before = await report();
+    // The change takes effect from now; every check in the report was taken before it.
+    env.clock.advanceMinutes(1);
+    const onTime = (r: Record<string, unknown>) => JSON.stringify((r.report ?? r) as { onTime: unknown } && ((r.report ?? r) as { onTime: unknown }).onTime);
+    expect((await request(env.app).patch('/api/admin/units/unit-north').set(auth(admin)).send({ checkIntervalMinutes: 90 })).status).toBe(200);
+    expect((await request(env.app).patch('/api/admin/units/unit-north').set(auth(admin)).send({ timeZone: 'America/New_York' })).status).toBe(200);
+    const after = await report();
+    expect(onTime(after)).toBe(onTime(before));
+    const changes = ((after.report ?? after) as { settingsChanges: Array<{ checkIntervalMinutes: number; timeZone: string }> }).settingsChanges;
+    expect(changes.map((c) => [c.checkIntervalMinutes, c.timeZone])).toEqual([
+      [90, 'Europe/London'],
+      [90, 'America/New_York'],
+    ]);
+    const versions = env.database.sqlite.prepare("SELECT COUNT(*) AS n FROM unit_policy_versions WHERE unit_id = 'unit-north'").get() as { n: number };
+    expect(versions.n).toBe(3);
+    // Put the unit back for the other tests.
+    await request(env.app).patch('/api/admin/units/unit-north').set(auth(admin)).send({ checkIntervalMinutes: 120, timeZone: 'Europe/London' });
   });
 });
 
