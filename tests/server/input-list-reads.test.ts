@@ -84,6 +84,38 @@ describe('list answers name the infants they returned', () => {
     for (const id of after.infantIds) expect(NORTH_ADMITTED).toContain(id);
   });
 
+  it("a nurse's review notes name the infants they are about", async () => {
+    const queue = await get(educator, '/api/review/queue?unitId=unit-north');
+    const item = (queue.body.items as Array<{ flagId: string; infantId: string; nurse: { id: string } | null }>).find((i) => i.nurse?.id === 'u-nurse');
+    expect(item).toBeDefined();
+    const noted = await request(env.app).post(`/api/review/items/${item!.flagId}/notes`).set('Authorization', `Bearer ${educator}`).send({ note: 'Good recheck within the hour.' });
+    expect(noted.status).toBe(201);
+    const mark = lastId();
+    const res = await get(nurse, '/api/reviews/mine');
+    expect(res.status).toBe(200);
+    expect(res.body.notes.length).toBeGreaterThan(0);
+    const [event, ...more] = eventsSince(mark).filter((e) => e.action === 'list-read');
+    expect(more).toHaveLength(0);
+    const after = JSON.parse(event!.after!);
+    expect(after.view).toBe('my-review-notes');
+    expect(after.infantIds).toContain(item!.infantId);
+    for (const id of after.infantIds) expect(NIAS_INFANTS).toContain(id);
+  });
+
+  it('the exports name the infants whose rows they wrote', async () => {
+    const mark = lastId();
+    const res = await get(educator, '/api/exports/readings.csv?unitId=unit-north&from=2026-11-01&to=2026-11-16');
+    expect(res.status).toBe(200);
+    const [event] = eventsSince(mark).filter((e) => e.action === 'export-readings-csv');
+    // Every admitted North infant of the demo has readings in this range.
+    expect(sorted(JSON.parse(event!.after!).infantIds)).toEqual(sorted(NORTH_ADMITTED));
+    const flags = await get(educator, '/api/exports/flags.csv?unitId=unit-north');
+    expect(flags.status).toBe(200);
+    const [flagEvent] = eventsSince(mark).filter((e) => e.action === 'export-flags-csv');
+    for (const id of JSON.parse(flagEvent!.after!).infantIds) expect(NORTH_ADMITTED).toContain(id);
+    expect(JSON.parse(flagEvent!.after!).infantIds.length).toBeGreaterThan(0);
+  });
+
   it('an answer that shows no infant writes no event', async () => {
     const mark = lastId();
     // The charge nurse has no infants assigned to herself in the demo.
