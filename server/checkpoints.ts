@@ -116,6 +116,39 @@ export function readCheckpoints(file: string): ParsedLine[] {
     });
 }
 
+/**
+ * The last whole checkpoint of the file, read from its end only (the file grows by a line a minute
+ * for as long as the product runs). A line a crash cut short cannot be parsed: the next line then
+ * follows the last whole one, on a line of its own.
+ */
+function tail(file: string): { last: Checkpoint | null; endsWithNewline: boolean } {
+  if (!fs.existsSync(file)) return { last: null, endsWithNewline: true };
+  const fd = fs.openSync(file, 'r');
+  try {
+    const size = fs.fstatSync(fd).size;
+    if (size === 0) return { last: null, endsWithNewline: true };
+    const length = Math.min(size, 64 * 1024);
+    const buffer = Buffer.alloc(length);
+    fs.readSync(fd, buffer, 0, length, size - length);
+    const text = buffer.toString('utf8');
+    const lines = text.split('\n');
+    if (length < size) lines.shift(); // the first piece may start mid-line
+    let last: Checkpoint | null = null;
+    for (const line of lines.reverse()) {
+      if (!line.trim()) continue;
+      try {
+        last = JSON.parse(line) as Checkpoint;
+        break;
+      } catch {
+        // a torn line: look further back
+      }
+    }
+    return { last, endsWithNewline: text.endsWith('\n') };
+  } finally {
+    fs.closeSync(fd);
+  }
+}
+
 /** The chain's head now: the last event, how many events there are, and the first one. */
 export function chainHead(sqlite: Database.Database): { headId: number; headHash: string; count: number; firstId: number; firstHash: string } | null {
   const head = prepared(sqlite, 'SELECT id, hash FROM audit_events ORDER BY id DESC LIMIT 1').get() as { id: number; hash: string } | undefined;
@@ -134,8 +167,7 @@ export function writeCheckpoint(sqlite: Database.Database, settings: CheckpointS
   // One read transaction, so the head, the count and the first event belong together.
   const head = sqlite.transaction(() => chainHead(sqlite))();
   if (!head) return null;
-  const lines = readCheckpoints(settings.file);
-  const last = lines.at(-1)?.checkpoint ?? null;
+  const { last, endsWithNewline } = tail(settings.file);
   if (last && last.headId === head.headId && last.headHash === head.headHash && last.firstHash === head.firstHash) return null;
   const unsigned: Unsigned = { v: 1, at: now.toISOString(), ...head, reason, prev: last?.mac ?? null };
   const checkpoint: Checkpoint = { ...unsigned, mac: mac(settings.key.key, unsigned) };
@@ -143,7 +175,7 @@ export function writeCheckpoint(sqlite: Database.Database, settings: CheckpointS
   // 'a': append only; 0600 when the file is created, and kept so if it already was.
   const fd = fs.openSync(settings.file, 'a', 0o600);
   try {
-    fs.writeSync(fd, `${JSON.stringify(checkpoint)}\n`);
+    fs.writeSync(fd, `${endsWithNewline ? '' : '\n'}${JSON.stringify(checkpoint)}\n`);
     fs.fsyncSync(fd);
   } finally {
     fs.closeSync(fd);

@@ -40,7 +40,7 @@ export interface RecordReport {
   findings: Finding[];
   /** `ledger-installed` events: from when each chained table is covered, and how many rows were only baselined. */
   baselines: Array<{ eventId: number; at: number; tables: Record<string, number> }>;
-  checkpoints: { file: string | null; status: 'checked' | 'no-file' | 'no-key' | 'not-asked'; keySource: string | null; lines: number; last: Checkpoint | null };
+  checkpoints: { file: string | null; status: 'checked' | 'no-file' | 'no-key' | 'not-asked'; keySource: string | null; lines: number; last: Checkpoint | null; unreadable: number[] };
   /** Events after the last valid checkpoint: consistent with the chain, but no signature vouches for them. */
   unvouched: { fromId: number; toId: number; events: number; fromAt: number; toAt: number } | null;
 }
@@ -167,6 +167,7 @@ export function verifyRecord(sqlite: Database.Database, options: { checkpoints?:
     keySource: options.checkpoints?.key?.source ?? null,
     lines: lines.length,
     last: null,
+    unreadable: [],
   };
   // The server signs the head whenever it starts, so with a key in place an empty or missing file
   // means the file was taken away (together, perhaps, with a recomputed chain).
@@ -182,7 +183,13 @@ export function verifyRecord(sqlite: Database.Database, options: { checkpoints?:
     let previousMac: string | null = null;
     let replacedReported = false;
     for (const { line, checkpoint: c } of lines) {
-      if (!c || !macMatches(key, c)) {
+      if (!c) {
+        // Not JSON: a write cut short by a crash. Hiding a line this way shows at the next one,
+        // whose `prev` names the hidden line's MAC; the last line could simply have been removed.
+        checkpoints.unreadable.push(line);
+        continue;
+      }
+      if (!macMatches(key, c)) {
         findings.push({ kind: 'checkpoint-invalid', eventId: null, message: `checkpoint line ${line} has no valid signature: it was altered or written with another key` });
         continue;
       }
@@ -265,7 +272,8 @@ export function describeRecordReport(report: RecordReport, file: string): string
   }
   const c = report.checkpoints;
   if (c.status === 'checked' && c.last) out.push(`Signed checkpoints: ${c.lines} in ${c.file}; the last (${c.last.at}) vouches for events up to ${c.last.headId}.`);
-  else if (c.status === 'no-key') out.push(`Checkpoints NOT checked: ${c.file} exists but no audit key was found (set AUDIT_KEY or AUDIT_KEY_FILE).`);
+  if (c.unreadable.length) out.push(`Checkpoint line(s) ${c.unreadable.join(', ')} could not be read (a write cut short by a crash); the lines after them still follow on.`);
+  if (c.status === 'no-key') out.push(`Checkpoints NOT checked: ${c.file} exists but no audit key was found (set AUDIT_KEY or AUDIT_KEY_FILE).`);
   else if (c.status === 'no-file') out.push(`No signed checkpoints in ${c.file}: a chain recomputed as a whole, or cut short together with its rows, would not be found.`);
   if (report.unvouched) {
     const u = report.unvouched;

@@ -375,3 +375,20 @@ describe('npm run db:seed', () => {
     expect(again).not.toMatch(/Not vouched for/);
   });
 });
+
+describe('a checkpoint line cut short by a crash', () => {
+  it('is noted, not taken for tampering, and the next line follows the last whole one', () => {
+    const file = path.join(env.dir, 'torn.log');
+    fs.copyFileSync(settings.file, file);
+    const torn = { ...settings, file };
+    fs.appendFileSync(file, '{"v":1,"at":"2026-11-16T10:0');
+    env.database.sqlite.prepare("INSERT INTO beds (id, unit_id, label, sort_order, active) VALUES (?, 'unit-south', ?, 99, 1)").run(`bed-${randomUUID()}`, `T${Date.now()}`);
+    expect(writeCheckpoint(env.database.sqlite, torn, 'test', env.clock.now())).not.toBeNull();
+    const report = verifyRecord(env.database.sqlite, { checkpoints: torn });
+    expect(report.findings).toEqual([]);
+    const lines = fs.readFileSync(file, 'utf8').trim().split('\n');
+    expect(report.checkpoints.unreadable).toEqual([lines.length - 1]);
+    expect(report.unvouched).toBeNull();
+    expect(describeRecordReport(report, 'x').join('\n')).toMatch(/could not be read \(a write cut short by a crash\)/);
+  });
+});
