@@ -100,6 +100,6 @@ export function unitFhirBundle(ctx: AppContext, query: UnitRangeQuery & { infant
   if (query.infantId) infantOfUnit(ctx, w.unit.id, query.infantId);
   const ids = query.infantId ? [query.infantId] : infantsWithReadings(db, w.unit.id, w);
   const { bundle, observations } = fhirBundle(db, ids, ctx.clock.now(), w);
-  audit(ctx, { actorId, action: 'export-fhir', entityType: query.infantId ? 'infant' : 'unit', entityId: query.infantId ?? w.unit.id, unitId: w.unit.id, after: { ...query, patients: ids.length, observations } });
+  audit(ctx, { actorId, action: 'export-fhir', entityType: query.infantId ? 'infant' : 'unit', entityId: query.infantId ?? w.unit.id, unitId: w.unit.id, after: { ...query, patients: ids.length, infantIds: ids, observations } });
   return bundle;
 }

@@ -114,6 +114,10 @@ describe('list answers name the infants they returned', () => {
     const [flagEvent] = eventsSince(mark).filter((e) => e.action === 'export-flags-csv');
     for (const id of JSON.parse(flagEvent!.after!).infantIds) expect(NORTH_ADMITTED).toContain(id);
     expect(JSON.parse(flagEvent!.after!).infantIds.length).toBeGreaterThan(0);
+    const fhir = await get(educator, '/api/exports/fhir?unitId=unit-north&from=2026-11-01&to=2026-11-16');
+    expect(fhir.status).toBe(200);
+    const [fhirEvent] = eventsSince(mark).filter((e) => e.action === 'export-fhir');
+    expect(sorted(JSON.parse(fhirEvent!.after!).infantIds)).toEqual(sorted(NORTH_ADMITTED));
   });
 
   it('an answer that shows no infant writes no event', async () => {
