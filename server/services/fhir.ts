@@ -5,15 +5,16 @@
  * Observation per measure: its id and its identifier (a Warmfold system plus the chain's first
  * reading id) stay the same across corrections, `meta.versionId` counts the versions, and the
  * status says what happened: `final`, `corrected` (a value or the time changed), `amended`
- * (information was only added) or `entered-in-error`. Resources reference each other by
+ * (information was only added) or `entered-in-error`. Each infant's stay is an Encounter whose
+ * locations are the beds with their periods (from the bed stays). Resources reference each other by
  * `urn:uuid:` full URLs inside the Bundle, so every reference resolves without a server.
  */
-import type { Bundle, BundleEntry, CodeableConcept, Observation, Patient } from 'fhir/r4';
+import type { Bundle, BundleEntry, CodeableConcept, Encounter, Observation, Patient } from 'fhir/r4';
 import { createHash } from 'node:crypto';
 import { and, asc, eq, gte, inArray, lt } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/sqlite-core';
 import type { Db } from '../../db/client';
-import { infants, readings, units, users } from '../../db/schema';
+import { beds, bedStays, infants, readings, units, users } from '../../db/schema';
 import { localDateOf } from './review';
 
 export const LOINC = 'http://loinc.org';
@@ -98,7 +99,36 @@ export function statusOf(chain: Version[], m: Measure): Observation['status'] {
   return present.length < chain.length ? 'amended' : 'final';
 }
 
-function observationFor(chain: Version[], m: Measure, patientUrl: string): Observation | null {
+/**
+ * The stay as an Encounter whose locations are the beds, each with the period the infant lay
+ * there (from the append-only bed stays), so a receiver finds the bed at any Observation's time.
+ */
+function encounterFor(db: Db, infant: typeof infants.$inferSelect, unitName: string, patientUrl: string): Encounter {
+  const stays = db
+    .select({ at: bedStays.at, label: beds.label })
+    .from(bedStays)
+    .leftJoin(beds, eq(beds.id, bedStays.bedId))
+    .where(eq(bedStays.infantId, infant.id))
+    .orderBy(asc(bedStays.at), asc(bedStays.id))
+    .all();
+  const locations: NonNullable<Encounter['location']> = [];
+  stays.forEach((stay, i) => {
+    if (!stay.label) return;
+    const end = stays[i + 1]?.at;
+    locations.push({ location: { display: `${unitName}, bed ${stay.label}` }, status: end ? 'completed' : 'active', period: { start: stay.at.toISOString(), ...(end ? { end: end.toISOString() } : {}) } });
+  });
+  return {
+    resourceType: 'Encounter',
+    id: `${infant.id}-stay`,
+    status: infant.status === 'discharged' ? 'finished' : 'in-progress',
+    class: { system: 'http://terminology.hl7.org/CodeSystem/v3-ActCode', code: 'IMP', display: 'inpatient encounter' },
+    subject: { reference: patientUrl },
+    period: { start: infant.admittedAt.toISOString(), ...(infant.dischargedAt ? { end: infant.dischargedAt.toISOString() } : {}) },
+    ...(locations.length ? { location: locations } : {}),
+  };
+}
+
+function observationFor(chain: Version[], m: Measure, patientUrl: string, encounterUrl: string): Observation | null {
   // The last version that carried this measure gives the value shown (an entered-in-error row keeps the values it withdrew).
   const withValue = [...chain].reverse().find((v) => valueOf(v, m) !== null);
   if (!withValue) return null;
@@ -114,6 +144,7 @@ function observationFor(chain: Version[], m: Measure, patientUrl: string): Obser
     status,
     code: { text: '' },
     subject: { reference: patientUrl },
+    encounter: { reference: encounterUrl },
     effectiveDateTime: withValue.takenAt.toISOString(),
     // An imported row that named nobody credits no nurse.
     ...(tip.uploadId === null ? { performer: [{ display: tip.recorderName }] } : tip.takerName ? { performer: [{ display: tip.takerName }] } : {}),
@@ -159,13 +190,13 @@ export function fhirBundle(db: Db, infantIds: string[], now: Date, window?: { fr
   const recorder = alias(users, 'recorder');
   const taker = alias(users, 'taker');
   const people = db
-    .select({ infant: infants, unitZone: units.timeZone, hospitalName: units.hospitalName })
+    .select({ infant: infants, unitZone: units.timeZone, unitName: units.name, hospitalName: units.hospitalName })
     .from(infants)
     .innerJoin(units, eq(units.id, infants.unitId))
     .where(inArray(infants.id, infantIds))
     .orderBy(asc(infants.displayName), asc(infants.id))
     .all();
-  for (const { infant, unitZone, hospitalName } of people) {
+  for (const { infant, unitZone, unitName, hospitalName } of people) {
     const patientUrl = fullUrlOf('Patient', infant.id);
     const patient: Patient = {
       resourceType: 'Patient',
@@ -190,6 +221,8 @@ export function fhirBundle(db: Db, infantIds: string[], now: Date, window?: { fr
       _birthDate: { extension: [{ url: BIRTH_TIME, valueDateTime: infant.birthAt.toISOString() }] },
     };
     entries.push({ fullUrl: patientUrl, resource: patient });
+    const encounterUrl = fullUrlOf('Encounter', `${infant.id}-stay`);
+    entries.push({ fullUrl: encounterUrl, resource: encounterFor(db, infant, unitName, patientUrl) });
     const rows = db
       .select({
         id: readings.id,
@@ -214,7 +247,7 @@ export function fhirBundle(db: Db, infantIds: string[], now: Date, window?: { fr
     for (const chain of chainsOf(rows)) {
       if (window && !chain.some((v) => v.takenAt.getTime() >= window.fromMs && v.takenAt.getTime() < window.toMs)) continue;
       for (const m of ['remote', 'probe', 'hr'] as const) {
-        const o = observationFor(chain, m, patientUrl);
+        const o = observationFor(chain, m, patientUrl, encounterUrl);
         if (!o) continue;
         entries.push({ fullUrl: fullUrlOf('Observation', o.id!), resource: o });
         observations += 1;

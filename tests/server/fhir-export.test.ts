@@ -8,7 +8,7 @@
  * `corrected` for a changed value, `entered-in-error` for a withdrawn one.
  */
 import { randomUUID } from 'node:crypto';
-import type { Bundle, BundleEntry, Observation, Patient } from 'fhir/r4';
+import type { Bundle, BundleEntry, Encounter, Observation, Patient } from 'fhir/r4';
 import request from 'supertest';
 import { DEMO, makeEnv, type TestEnv } from './helpers';
 // eslint-disable-next-line @typescript-eslint/no-require-imports
@@ -35,7 +35,7 @@ const HEART_RATE = profile('http://hl7.org/fhir/StructureDefinition/heartrate');
 const schema = new FhirSchemaValidator();
 
 /** Errors from both validators, with the profiles each Observation claims by its codes. */
-function validationErrors(resource: Patient | Observation | Bundle): string[] {
+function validationErrors(resource: Patient | Observation | Encounter | Bundle): string[] {
   const errors = schema.validate(resource).map((e) => `schema ${e.dataPath ?? ''} ${e.message ?? ''}`);
   const run = (options?: { profile?: unknown }) => {
     try {
@@ -92,7 +92,7 @@ function ashgroveReadings(): Array<{ id: string; remote_centi: number; heart_rat
     .all() as Array<{ id: string; remote_centi: number; heart_rate: number }>;
 }
 
-const entriesOf = (b: Bundle) => (b.entry ?? []) as Array<BundleEntry & { resource: Patient | Observation }>;
+const entriesOf = (b: Bundle) => (b.entry ?? []) as Array<BundleEntry & { resource: Patient | Observation | Encounter }>;
 const observations = (b: Bundle) => entriesOf(b).map((e) => e.resource).filter((r): r is Observation => r.resourceType === 'Observation');
 
 describe('a corrected and a withdrawn reading', () => {
@@ -155,7 +155,10 @@ describe('a corrected and a withdrawn reading', () => {
   it('references resolve inside the Bundle through urn:uuid full URLs', () => {
     const urls = new Set(entriesOf(bundle).map((e) => e.fullUrl));
     for (const e of entriesOf(bundle)) expect(e.fullUrl).toMatch(/^urn:uuid:[0-9a-f]{8}-[0-9a-f]{4}-5[0-9a-f]{3}-[89ab][0-9a-f]{3}-[0-9a-f]{12}$/);
-    for (const o of observations(bundle)) expect(urls.has(o.subject!.reference!)).toBe(true);
+    for (const o of observations(bundle)) {
+      expect(urls.has(o.subject!.reference!)).toBe(true);
+      expect(urls.has(o.encounter!.reference!)).toBe(true);
+    }
   });
 });
 
@@ -198,6 +201,30 @@ describe('the Patient', () => {
       .send({ bedId: 'bed-N13', displayName: 'Baby Orrin', birthAt: '2026-11-15T08:00:00Z', gestationWeeks: 36, gestationDays: 0, birthWeightGrams: 2600, heatSource: 'incubator', controlMode: 'skin-servo', setTemperature: 36.5, hospitalNumber: 'a b;c', sex: 'male' });
     expect(res.status).toBe(400);
     expect(res.body.error.fields.hospitalNumber).toMatch(/letters, digits/);
+  });
+});
+
+describe('the bed at the time', () => {
+  it('the Encounter lists each bed with its period, so every Observation falls in the bed the infant lay in then', async () => {
+    const charge = await env.signIn(DEMO.charge);
+    const at = Date.parse('2026-11-16T10:00:00Z');
+    env.clock.set(new Date(at + 2 * 60_000));
+    try {
+      expect((await request(env.app).post('/api/infants/inf-dunmere/move').set('Authorization', `Bearer ${charge}`).send({ bedId: 'bed-N11' })).status).toBe(200);
+      env.clock.set(new Date(at + 4 * 60_000));
+      expect((await post('/infants/inf-dunmere/readings', { id: randomUUID(), unit: 'C', probe: 36.7, remote: 36.8, remoteSite: 'axilla', heatSigns: [] })).status).toBe(201);
+    } finally {
+      env.clock.set(new Date(at));
+    }
+    const b = JSON.parse((await get('/exports/infants/inf-dunmere/fhir', educator)).text) as Bundle;
+    const encounter = entriesOf(b).map((e) => e.resource).find((r): r is Encounter => r.resourceType === 'Encounter')!;
+    expect(validationErrors(encounter)).toEqual([]);
+    expect(encounter.location!.map((l) => [l.location.display, l.status])).toEqual([['Neonatal Unit North, bed N04', 'completed'], ['Neonatal Unit North, bed N11', 'active']]);
+    const bedAt = (iso: string) =>
+      encounter.location!.find((l) => l.period!.start! <= iso && (!l.period!.end || iso < l.period!.end))?.location.display;
+    const obs = observations(b);
+    expect(obs.filter((o) => bedAt(o.effectiveDateTime!)?.endsWith('N11')).length).toBe(2);
+    expect(obs.filter((o) => bedAt(o.effectiveDateTime!)?.endsWith('N04')).length).toBe(obs.length - 2);
   });
 });
 
