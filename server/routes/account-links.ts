@@ -5,6 +5,7 @@ import { valid, validate } from '../middleware/validate';
 import { enqueueMailJob } from '../mail/queue';
 import { sendResetLink, useLink } from '../services/email-links';
 import { recordAttempt, resetRequestBudget } from '../services/sign-in-throttle';
+import { batchedWrite } from '../write-batch';
 
 /** Public: accepting an invitation, and resetting a password, by e-mailed link. Mounted under /auth. */
 export function accountLinksRouter(ctx: AppContext) {
@@ -27,11 +28,11 @@ export function accountLinksRouter(ctx: AppContext) {
    * only the throttle is checked and the request counted (the same work for every address); the
    * account is looked up, and its link made and mailed, from the mail queue after the answer.
    */
-  router.post('/password-reset/request', allow(ctx, 'public'), validate('body', requestResetSchema), (req, res) => {
+  router.post('/password-reset/request', allow(ctx, 'public'), validate('body', requestResetSchema), async (req, res) => {
     const { email } = valid<{ email: string }>(req, 'body');
     const address = req.ip ?? 'unknown';
     resetRequestBudget(ctx, email, address);
-    recordAttempt(ctx, 'reset-request', email, address, true);
+    await batchedWrite(ctx.database.sqlite, () => recordAttempt(ctx, 'reset-request', email, address, true));
     res.status(202).json({ message: 'If that address has an account, a reset link is on its way.' });
     enqueueMailJob(ctx, () => sendResetLink(ctx, email));
   });

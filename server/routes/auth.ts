@@ -6,6 +6,7 @@ import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { badRequest, unauthorized } from '../errors';
 import { allow, secureRouter } from '../middleware/access';
+import { batchedWrite } from '../write-batch';
 import { valid, validate } from '../middleware/validate';
 import { hashPassword, loadSessionUser, revokeAllSessions, revokeSession, signIn, verifyPassword } from '../services/auth';
 import { assertPasswordAllowed } from '../services/passwords';
@@ -65,7 +66,7 @@ export function authRouter(ctx: AppContext) {
     // A stolen session must not become a way to guess the password behind it.
     passwordCheckBudget(ctx, user.email);
     const right = user.passwordHash !== null && (await verifyPassword(currentPassword, user.passwordHash));
-    recordAttempt(ctx, 'password-check', user.email, req.ip ?? 'unknown', right);
+    await batchedWrite(ctx.database.sqlite, () => recordAttempt(ctx, 'password-check', user.email, req.ip ?? 'unknown', right));
     if (!right) throw badRequest('Your current password is not right.', { currentPassword: 'This is not your current password.' });
     assertPasswordAllowed(newPassword, 'newPassword', [user.email, user.name]);
     const hash = await hashPassword(newPassword, ctx.config.bcryptCost);

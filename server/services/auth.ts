@@ -3,9 +3,9 @@ import jwt from 'jsonwebtoken';
 import { createSecretKey, randomUUID, type KeyObject } from 'node:crypto';
 import type { Statement } from 'better-sqlite3';
 import { authSessions, units as unitsTable, userUnits, users } from '../../db/schema';
-import { writeTx } from '../../db/client';
 import type { SessionUser } from '../../shared/schemas/auth';
 import { appendAudit } from '../audit';
+import { batchedWrite } from '../write-batch';
 import type { AppContext } from '../context';
 import { ApiError, unauthorized } from '../errors';
 import type { AuthContext } from '../types';
@@ -66,13 +66,14 @@ export async function signIn(ctx: AppContext, email: string, password: string, a
   const ok = Boolean(user && user.active && user.passwordHash && matches);
   const now = ctx.clock.now();
   if (!ok || !user) {
-    recordAttempt(ctx, 'sign-in', email, address, false, device);
+    await batchedWrite(ctx.database.sqlite, () => recordAttempt(ctx, 'sign-in', email, address, false, device));
     throw new ApiError(401, 'unauthorized', 'That e-mail and password do not match an active account.', { password: 'Check the e-mail and password.' });
   }
   const sessionId = randomUUID();
   const expiresAt = now.getTime() + ABSOLUTE_LIMIT_MS;
-  // The attempt, the session and the audit event in one transaction: one fsync, not three, on the event loop.
-  writeTx(ctx.database.sqlite, () => {
+  // The attempt, the session and the audit event in one transaction, group-committed with the
+  // other writes in flight: one fsync for a burst of sign-ins, not three for each, on the event loop.
+  await batchedWrite(ctx.database.sqlite, () => {
     recordAttempt(ctx, 'sign-in', email, address, true, device);
     db.insert(authSessions)
       .values({ id: sessionId, userId: user.id, sessionVersion: user.sessionVersion, createdAt: now, lastSeenAt: now, expiresAt: new Date(expiresAt) })
@@ -81,7 +82,8 @@ export async function signIn(ctx: AppContext, email: string, password: string, a
   });
   // iat follows the app's clock, so exp agrees with the session row even under a test clock.
   const iat = Math.floor(now.getTime() / 1000);
-  const token = jwt.sign({ sub: user.id, sv: user.sessionVersion, iat }, ctx.config.jwtSecret, {
+  // The cached secret KeyObject: from a string, jsonwebtoken first tries it as a private key and fails.
+  const token = jwt.sign({ sub: user.id, sv: user.sessionVersion, iat }, secretKey(ctx.config.jwtSecret), {
     algorithm: ALGORITHM,
     jwtid: sessionId,
     expiresIn: Math.floor(ABSOLUTE_LIMIT_MS / 1000),
