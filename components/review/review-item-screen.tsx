@@ -43,7 +43,7 @@ function ReviewItemView({ data }: { data: ReviewItemDetail }) {
         </Text>
         <Text>{item.summary}</Text>
         <Text>
-          Raised {shortDateTime(item.raisedAt)} · nurse concerned: {item.nurse?.name ?? 'unknown'}
+          Raised {shortDateTime(item.raisedAt)} · nurse concerned: {item.nurse?.name ?? (item.importedBy ? `none named (imported by ${item.importedBy.name})` : 'unknown')}
         </Text>
         <Text>
           Time to first action: <Text variant="bodyStrong">{minutesText(item.minutesToFirstAction)}</Text> · time to resolution:{' '}
