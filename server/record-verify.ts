@@ -69,6 +69,12 @@ interface RowEvent {
 const rowKey = (table: string, key: string) => `${table}\u0000${key}`;
 
 export function verifyRecord(sqlite: Database.Database, options: { checkpoints?: CheckpointSettings } = {}): RecordReport {
+  // One read transaction: one snapshot of the events and the rows, even beside a running server
+  // (a row committed between reading the events and reading the rows would look unrecorded).
+  return sqlite.transaction(() => verifySnapshot(sqlite, options))();
+}
+
+function verifySnapshot(sqlite: Database.Database, options: { checkpoints?: CheckpointSettings }): RecordReport {
   const findings: Finding[] = [];
   const lines = options.checkpoints ? readCheckpoints(options.checkpoints.file) : [];
   const wanted = new Set<number>();
@@ -89,7 +95,6 @@ export function verifyRecord(sqlite: Database.Database, options: { checkpoints?:
   let count = 0;
   let first: EventRow | null = null;
   let last: EventRow | null = null;
-  const times = new Map<number, number>();
   for (const e of events) {
     count += 1;
     first ??= e;
@@ -104,7 +109,6 @@ export function verifyRecord(sqlite: Database.Database, options: { checkpoints?:
     prev = e.hash;
     prevId = e.id;
     if (wanted.has(e.id)) seenAt.set(e.id, { hash: e.hash, ordinal: count });
-    times.set(e.id, e.at);
     if (rowActions.has(e.action) && e.entityId !== null) {
       const parsed = parseAfter(e.after);
       rowEvents.set(rowKey(e.entityType, e.entityId), { id: e.id, action: e.action as RowAction, v: parsed.v, hash: parsed.hash });
@@ -220,16 +224,8 @@ export function verifyRecord(sqlite: Database.Database, options: { checkpoints?:
   let unvouched: RecordReport['unvouched'] = null;
   if (last && (vouchedTo === null || last.id > vouchedTo)) {
     const fromId = vouchedTo === null ? first!.id : vouchedTo + 1;
-    let n = 0;
-    let fromAt = Infinity;
-    let toAt = -Infinity;
-    for (const [id, at] of times) {
-      if (id < fromId) continue;
-      n += 1;
-      fromAt = Math.min(fromAt, at);
-      toAt = Math.max(toAt, at);
-    }
-    if (n > 0) unvouched = { fromId, toId: last.id, events: n, fromAt, toAt };
+    const w = sqlite.prepare('SELECT COUNT(*) AS n, MIN(at) AS fromAt, MAX(at) AS toAt FROM audit_events WHERE id >= ?').get(fromId) as { n: number; fromAt: number; toAt: number };
+    if (w.n > 0) unvouched = { fromId, toId: last.id, events: w.n, fromAt: w.fromAt, toAt: w.toAt };
   }
 
   const ordered = [...findings.sort((a, b) => (a.eventId ?? Infinity) - (b.eventId ?? Infinity)), ...unrecorded];
