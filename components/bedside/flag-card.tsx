@@ -17,6 +17,7 @@ import { CLINICAL_PROMPT_CAVEAT } from '@/shared/thermal/policy';
 import type { Flowsheet, FlowsheetFlag } from '@/shared/types/bedside';
 import { clockTime, duration, FLAG_LABELS, temp, tempDelta } from './format';
 import { openRecordForm } from './open-record-form';
+import { escalationLine, flagLook } from '@/components/board/flag-look';
 
 /** What a nurse can record against each kind of flag, in the order she would usually try them. */
 export const FLAG_ACTIONS: Record<FlagKind, ActionKind[]> = {
@@ -54,17 +55,27 @@ export function FlagCard({ flag, sheet, canChart, now }: { flag: FlowsheetFlag; 
   const kinds = FLAG_ACTIONS[flag.kind];
   const done = new Set(flag.actions.map((a) => a.kind));
   const recheckMs = flag.recheckDueAt ? Date.parse(flag.recheckDueAt) - now.getTime() : null;
-  const { tone, icon } = flagTone(flag.kind);
+  const { tone } = flagTone(flag.kind);
+  const look = flagLook(flag);
+  const told = escalationLine(flag.escalation, tz, user.clock);
   const openRecord = () => openRecordForm(router, sheet.infant.id);
   return (
     <Card style={[styles.card, { borderColor: colors[tone === 'together' ? 'together' : tone === 'heat' ? 'heat' : tone === 'warning' ? 'warning' : 'danger'] }]} role="region" aria-label={FLAG_LABELS[flag.kind]}>
-      <StatusBadge tone={tone} icon={icon} label={`${FLAG_LABELS[flag.kind]} open${flag.escalated ? ', escalated' : ''}`} large />
+      <StatusBadge tone={look.tone} icon={look.icon} label={look.label} large />
+      {told ? <Text variant="bodyStrong">{told}</Text> : null}
+      {flag.kind === 'fever' ? (
+        <Text tone="danger">A newborn with a fever may have an infection: tell the medical team per unit policy; do not only cool the infant.</Text>
+      ) : null}
+      {flag.kind === 'cold-stress' && flag.severity !== 'caution' ? <Text tone="danger">Tell the medical team per unit policy.</Text> : null}
       <Text>
         Raised {clockTime(flag.raisedAt, tz, user.clock)} ({duration(now.getTime() - Date.parse(flag.raisedAt))} ago)
       </Text>
       <FlagDetail flag={flag} unit={unit} tz={tz} clock={user.clock} />
       {recheckMs !== null ? (
         <StatusBadge tone={recheckMs < 0 ? 'danger' : 'warning'} icon="clock" label={recheckMs < 0 ? `Recheck overdue by ${duration(-recheckMs)}` : `Recheck due in ${duration(recheckMs)}`} />
+      ) : null}
+      {flag.recheck?.countsFrom && Date.parse(flag.recheck.countsFrom) > now.getTime() ? (
+        <Text variant="caption">A recheck counts from {clockTime(flag.recheck.countsFrom, tz, user.clock)}, once the reading has settled.</Text>
       ) : null}
       {flag.kind === 'heat-stress' ? (
         <View style={styles.list} role="list" aria-label="Heat-stress steps">
@@ -174,7 +185,7 @@ function FlagDetail({ flag, unit, tz, clock }: { flag: FlowsheetFlag; unit: 'C' 
 export function ClosedFlags({ sheet }: { sheet: Flowsheet }) {
   const user = useUser();
   const tz = sheet.infant.timeZone;
-  const closed = sheet.flags.filter((f) => f.status === 'closed').sort((a, b) => Date.parse(b.closedAt ?? b.raisedAt) - Date.parse(a.closedAt ?? a.raisedAt));
+  const closed = sheet.flags.filter((f) => f.status !== 'open').sort((a, b) => Date.parse(b.closedAt ?? b.raisedAt) - Date.parse(a.closedAt ?? a.raisedAt));
   if (!closed.length) return null;
   return (
     <Card role="region" aria-label="Closed flags">
@@ -183,7 +194,14 @@ export function ClosedFlags({ sheet }: { sheet: Flowsheet }) {
       </Text>
       {closed.map((f) => (
         <View key={f.key} style={styles.closed}>
-          <StatusBadge tone="ok" icon="check" label={`${FLAG_LABELS[f.kind]} closed${f.closedAt ? ` ${clockTime(f.closedAt, tz, user.clock)}` : ''}`} />
+          {f.status === 'withdrawn' ? (
+            // Withdrawn: it should not have been raised (a late entry or correction showed it); never a late check.
+            <Text variant="caption" style={styles.struck}>
+              {FLAG_LABELS[f.kind]} withdrawn{f.closedAt ? ` ${clockTime(f.closedAt, tz, user.clock)}` : ''}: {f.withdrawn?.reason === 'late-entry-on-time' ? 'the check was charted late but taken on time' : 'a correction showed it should not have been raised'}
+            </Text>
+          ) : (
+            <StatusBadge tone="ok" icon="check" label={`${FLAG_LABELS[f.kind]} closed${f.closedAt ? ` ${clockTime(f.closedAt, tz, user.clock)}` : ''}`} />
+          )}
           <Text variant="caption" tone="muted">
             Raised {clockTime(f.raisedAt, tz, user.clock)} · {f.actions.map((a) => ACTION_LABELS[a.kind as ActionKind] ?? a.kind).join(', ') || 'no actions recorded'}
           </Text>
@@ -198,4 +216,5 @@ const styles = StyleSheet.create({
   list: { gap: 4 },
   buttons: { flexDirection: 'row', flexWrap: 'wrap', gap: 8 },
   closed: { gap: 2 },
+  struck: { textDecorationLine: 'line-through' },
 });

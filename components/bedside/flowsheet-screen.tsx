@@ -16,7 +16,7 @@ import { Segmented } from '@/components/ui/segmented';
 import { ErrorState, LoadingState } from '@/components/ui/state-view';
 import { StatusBadge } from '@/components/ui/status-badge';
 import { Text } from '@/components/ui/text';
-import { CheckBadge } from './check-badge';
+import { CheckClockBadges } from './check-badge';
 import { ClosedFlags, FlagCard } from './flag-card';
 import { clockTime, CONTROL_MODE_LABELS, CORRECTION_REASON_LABELS, dayTime, SITE_LABELS, temp } from './format';
 import { startPendingFlush, usePendingReadings } from './pending-readings';
@@ -72,7 +72,7 @@ function FlowsheetBody({ sheet, hours, setHours, canChart }: { sheet: Flowsheet;
   return (
     <View style={styles.body}>
       <View style={styles.badges}>
-        <CheckBadge next={sheet.nextCheck} now={now} />
+        <CheckClockBadges checks={sheet.checks} next={sheet.nextCheck} now={now} />
         {openFlags.length === 0 ? <StatusBadge tone="ok" icon="check" label="No open flags" /> : null}
       </View>
       {pending.map((p) => (

@@ -12,8 +12,9 @@ import { ScopeChoice, type Scope } from '@/components/ui/scope-choice';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/state-view';
 import { StatusBadge } from '@/components/ui/status-badge';
 import { Text } from '@/components/ui/text';
-import { CheckBadge } from './check-badge';
-import { clockTime, CONTROL_MODE_LABELS, FLAG_LABELS, gestation, HEAT_SOURCE_LABELS, SITE_LABELS, temp } from './format';
+import { escalationLine, flagLook } from '@/components/board/flag-look';
+import { CheckClockBadges } from './check-badge';
+import { clockTime, CONTROL_MODE_LABELS, gestation, HEAT_SOURCE_LABELS, SITE_LABELS, temp } from './format';
 import { usePendingReadings } from './pending-readings';
 import { TeachingNotesCard } from './teaching-notes-card';
 import { useNow } from './use-now';
@@ -65,12 +66,14 @@ export function InfantRow({ infant, wide = false }: { infant: InfantSummary; wid
         router.push(`/infants/${infant.id}`);
       }}
     >
-      <Card style={[styles.row, { borderColor: infant.openFlags.length ? theme.colors.danger : theme.colors.border }]}>
+      <Card style={[styles.row, { borderColor: infant.attention?.needsAttention ?? infant.openFlags.length ? theme.colors.danger : infant.openFlags.length ? theme.colors.warning : theme.colors.border }]}>
         <View style={styles.head}>
           <Text variant="title">
             {infant.bedLabel ?? '—'} · {infant.displayName}
           </Text>
-          <CheckBadge next={infant.nextCheck} now={now} />
+          <View style={styles.badges}>
+            <CheckClockBadges checks={infant.checks} next={infant.nextCheck} now={now} />
+          </View>
         </View>
         <Text tone="muted">
           GA {gestation(infant.gestationWeeks, infant.gestationDays)} · corrected {gestation(infant.correctedWeeks, infant.correctedDays)} · day {infant.ageDays} ·{' '}
@@ -86,14 +89,11 @@ export function InfantRow({ infant, wide = false }: { infant: InfantSummary; wid
           {remote ? `${temp(remote.centi, user.tempUnit)} ${remote.site ? SITE_LABELS[remote.site].toLowerCase() : ''} at ${t(remote.takenAt)}` : '—'}
         </Text>
         <View style={styles.badges}>
-          {infant.openFlags.map((f) => (
-            <StatusBadge
-              key={f.key}
-              tone={f.kind === 'heat-stress' ? 'heat' : f.kind === 'cold-stress' ? 'warning' : f.kind === 'skin-to-skin-deviation' ? 'together' : 'danger'}
-              icon={f.kind === 'heat-stress' ? 'flame' : f.kind === 'cold-stress' ? 'snow' : 'alert'}
-              label={`${FLAG_LABELS[f.kind]}${f.escalated ? ' (escalated)' : ''}`}
-            />
-          ))}
+          {infant.openFlags.map((f) => {
+            const look = flagLook(f);
+            const told = escalationLine(f.escalation, infant.timeZone, user.clock);
+            return <StatusBadge key={f.key} tone={look.tone} icon={look.icon} label={told ? `${look.label}. ${told}` : look.label} />;
+          })}
           {infant.skinToSkin ? <StatusBadge tone="together" icon="hands" label="Skin-to-skin" /> : null}
           {pending.length ? <StatusBadge tone="warning" icon="cloud-off" label={`${pending.length} not yet saved`} /> : null}
         </View>

@@ -8,7 +8,20 @@ import { useTheme } from '@/components/theme/theme-provider';
 import { CONTROL_MODE_LABELS, HEAT_SOURCE_LABELS } from '@/shared/vocabulary';
 import { formatTemperature, type TempUnit } from '@/shared/thermal/units';
 import type { BoardBed } from '@/shared/types/board';
-import { ageOf, clockTime, countdown, FLAG_WORDS } from './board-format';
+import { ageOf, clockTime, countdown } from './board-format';
+import { escalationLine, flagLook } from './flag-look';
+
+/** Which check the countdown is for, in words, when it is not the routine remote-site check. */
+export function clockCaption(infant: NonNullable<BoardBed['infant']>, clock: ClockSetting): string | null {
+  const next = infant.checks?.next;
+  const manual = infant.checks?.manual;
+  if (next?.clock === 'manual' && manual) {
+    const output = manual.outputPct !== null ? ` at ${manual.outputPct} % output` : '';
+    return `Manual mode since ${clockTime(manual.since, infant.timeZone, clock)}${output}: nothing regulates the heat, so check every ${manual.limitMinutes} min`;
+  }
+  if (next?.clock === 'recheck') return 'Recheck after an action';
+  return null;
+}
 
 export interface BoardTileProps {
   bed: BoardBed;
@@ -48,7 +61,9 @@ export function BoardTile({ bed, nowMs, tempUnit, timeZone, clock, dueSoonMinute
     );
   }
 
-  const due = countdown(infant.nextCheck.dueAt, nowMs, dueSoonMinutes);
+  const next = infant.checks?.next ?? infant.nextCheck;
+  const due = countdown(next.dueAt, nowMs, dueSoonMinutes);
+  const caption = clockCaption(infant, clock);
   const probe = infant.latest.probe;
   const remote = infant.latest.remote;
   return (
@@ -79,6 +94,11 @@ export function BoardTile({ bed, nowMs, tempUnit, timeZone, clock, dueSoonMinute
           {due.text}
         </Text>
       </View>
+      {caption ? (
+        <Text variant="label" tone={due.tone === 'danger' ? 'danger' : 'muted'}>
+          {caption}
+        </Text>
+      ) : null}
 
       <View style={styles.values}>
         <View style={styles.value}>
@@ -107,22 +127,20 @@ export function BoardTile({ bed, nowMs, tempUnit, timeZone, clock, dueSoonMinute
       </Text>
 
       <View style={styles.badges}>
-        {infant.openFlags.map((f) => (
-          <StatusBadge key={f.key} tone={FLAG_WORDS[f.kind].tone} icon={FLAG_WORDS[f.kind].icon} label={FLAG_WORDS[f.kind].label} large />
-        ))}
+        {infant.openFlags.map((f) => {
+          const look = flagLook(f);
+          return <StatusBadge key={f.key} tone={look.tone} icon={look.icon} label={look.label} large />;
+        })}
         {infant.skinToSkin ? <StatusBadge tone="together" icon="hands" label={`Skin-to-skin since ${clockTime(infant.skinToSkin.startedAt, timeZone, clock)}`} large /> : null}
       </View>
 
-      {bed.escalations.map((e) => (
+      {/* Only an escalation that went out is shown: "escalated" must name whom it reached. */}
+      {bed.escalations.filter((e) => e.sentAt).map((e) => (
         <View key={e.id} style={[styles.escalation, { borderColor: e.acknowledgedAt ? c.border : c.danger }]}>
           <StatusBadge
             tone={e.acknowledgedAt ? 'neutral' : 'danger'}
             icon="bell"
-            label={
-              e.acknowledgedAt
-                ? `Escalation seen by ${e.acknowledgedBy?.name ?? 'charge nurse'} at ${clockTime(e.acknowledgedAt, timeZone, clock)}`
-                : `Escalated at ${clockTime(e.escalatedAt, timeZone, clock)}: ${FLAG_WORDS[e.flagKind].label.toLowerCase()}`
-            }
+            label={`${flagLook({ kind: e.flagKind, severity: e.severity }).label}. ${escalationLine({ id: e.id, sentAt: e.sentAt!, to: e.to, how: 'email', acknowledgedAt: e.acknowledgedAt, acknowledgedBy: e.acknowledgedBy }, timeZone, clock)}`}
           />
           {!e.acknowledgedAt && canManage ? (
             <Button label="Acknowledge" variant="danger" compact busy={acknowledging === e.id} onPress={() => onAcknowledge(e.id)} />

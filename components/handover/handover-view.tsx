@@ -7,7 +7,7 @@ import { useTheme } from '@/components/theme/theme-provider';
 import { CONTROL_MODE_LABELS, HEAT_SOURCE_LABELS } from '@/shared/vocabulary';
 import { formatTemperature, type TempUnit } from '@/shared/thermal/units';
 import type { HandoverInfant, HandoverReading } from '@/shared/types/board';
-import { FLAG_WORDS } from '../board/board-format';
+import { escalationLine, flagLook } from '../board/flag-look';
 
 const TABLE_BREAKPOINT = 720;
 
@@ -56,9 +56,20 @@ export function HandoverView({ handover, tempUnit, timeZone, clock }: { handover
                 : 'No remote-site check charted'
             }
           />
-          {open.map((f) => (
-            <StatusBadge key={f.id} tone={FLAG_WORDS[f.kind].tone} icon={FLAG_WORDS[f.kind].icon} label={`${FLAG_WORDS[f.kind].label} since ${when(f.raisedAt, timeZone, clock)}`} />
+          {handover.checks?.manual ? (
+            <StatusBadge
+              tone={handover.checks.manual.status === 'overdue' ? 'danger' : 'warning'}
+              icon="hand"
+              label={`Manual mode since ${when(handover.checks.manual.since, timeZone, clock)}: ${handover.checks.manual.status === 'overdue' ? 'check overdue since' : 'next check due'} ${when(handover.checks.manual.dueAt!, timeZone, clock)} (every ${handover.checks.manual.limitMinutes} min)`}
+            />
+          ) : null}
+          {(handover.checks?.rechecks ?? []).map((r) => (
+            <StatusBadge key={r.flagId} tone={r.status === 'overdue' ? 'danger' : 'warning'} icon="clock" label={`Recheck ${r.status === 'overdue' ? 'overdue since' : 'due'} ${when(r.dueAt!, timeZone, clock)}`} />
           ))}
+          {open.map((f) => {
+            const look = flagLook(f);
+            return <StatusBadge key={f.id} tone={look.tone} icon={look.icon} label={`${look.label} since ${when(f.raisedAt, timeZone, clock)}`} />;
+          })}
         </View>
       </View>
 
@@ -73,10 +84,10 @@ export function HandoverView({ handover, tempUnit, timeZone, clock }: { handover
         {handover.flags.map((f) => (
           <View key={f.id} data-print-block style={styles.flag}>
             <Text variant="bodyStrong">
-              {FLAG_WORDS[f.kind].label}: raised {when(f.raisedAt, timeZone, clock)}
-              {f.closedAt ? `, closed ${when(f.closedAt, timeZone, clock)} (${f.how})` : ', still open'}
-              {f.escalatedAt ? ` · escalated ${when(f.escalatedAt, timeZone, clock)}${f.acknowledgedAt ? ', acknowledged' : ''}` : ''}
+              {flagLook(f).label}: raised {when(f.raisedAt, timeZone, clock)}
+              {f.closedAt ? `, ${f.how === 'withdrawn' ? 'withdrawn' : 'closed'} ${when(f.closedAt, timeZone, clock)} (${f.how})` : ', still open'}
             </Text>
+            {escalationLine(f.escalation, timeZone, clock) ? <Text variant="caption">{escalationLine(f.escalation, timeZone, clock)}</Text> : null}
             {f.actions.map((a, i) => (
               <Text key={i} variant="caption" tone="muted">
                 {when(a.at, timeZone, clock)} · {a.kind.replace(/-/g, ' ')}
