@@ -1,12 +1,12 @@
 import compression from 'compression';
 import cors from 'cors';
-import express, { type Express, type Request, type RequestHandler, type Response } from 'express';
+import express, { type Express, type Request, type Response } from 'express';
 import helmet from 'helmet';
 import type { Database_ } from '../db/client';
 import type { Clock } from './clock';
 import type { AppConfig } from './config';
 import type { AppContext } from './context';
-import { ApiError, apiNotFound, errorHandler } from './errors';
+import { apiNotFound, errorHandler } from './errors';
 import type { Mailer } from './mail/mailer';
 import { requestLog } from './middleware/request-log';
 import { apiRouters } from './routes';
@@ -26,24 +26,6 @@ export const JSON_BODY_LIMIT = '100kb';
 export function compressibleAnswer(req: Request, res: Response): boolean {
   return !req.path.startsWith('/auth/') && compression.filter(req, res);
 }
-
-/** The routes that take a multipart upload (paths relative to /api); every other body must be JSON. */
-export const MULTIPART_PATHS: readonly RegExp[] = [/^\/admin\/roster\/preview\/?$/, /^\/readings-import\/preview\/?$/];
-
-/**
- * A body that is not JSON answers 415 before any route sees it: express.json() leaves such a body
- * unread, and a route would otherwise take the request as an empty JSON object (a discharge whose
- * note was sent as text/plain went through without it). Multipart is accepted only where a route
- * reads it. A request without a body (no Content-Length or a zero one) passes.
- */
-export const jsonBodiesOnly: RequestHandler = (req, _res, next) => {
-  const hasBody = req.headers['transfer-encoding'] !== undefined || Number(req.headers['content-length'] ?? 0) > 0;
-  if (!hasBody) return next();
-  if (req.is(['application/json', 'application/*+json'])) return next();
-  if (req.is('multipart/form-data') && MULTIPART_PATHS.some((re) => re.test(req.path))) return next();
-  const type = req.headers['content-type'] ?? 'no Content-Type';
-  next(new ApiError(415, 'unsupported-media-type', `This route takes a JSON body (Content-Type: application/json), not ${type.split(';')[0]}.`, { _: 'Send the body as JSON.' }));
-};
 
 /** Builds the whole product as an Express app. Tests call this; server/index.ts listens. */
 export function createApp({ db, mailer, clock, config, log = (line) => process.stdout.write(`${line}\n`) }: CreateAppOptions): Express & { context: AppContext } {
@@ -103,7 +85,6 @@ export function createApp({ db, mailer, clock, config, log = (line) => process.s
   // BREACH attacks need.
   api.use(compression({ filter: compressibleAnswer }));
   api.use(express.json({ limit: JSON_BODY_LIMIT, strict: true, type: ['application/json', 'application/*+json'] }));
-  api.use(jsonBodiesOnly);
   for (const [mount, router] of apiRouters(ctx)) api.use(mount, router);
   api.use(apiNotFound);
   app.use('/api', api);

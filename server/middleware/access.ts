@@ -5,6 +5,7 @@ import type { AppContext } from '../context';
 import { forbidden, notFound, unauthorized } from '../errors';
 import { assertManageable } from '../services/admin-users';
 import { verifyToken } from '../services/auth';
+import { bodyTypeCheck } from './validate';
 
 export type Access = 'public' | 'signed-in' | Permission;
 
@@ -91,7 +92,9 @@ export function secureRouter(): Router {
       if (!first || typeof first.access !== 'string') {
         throw new Error(`Route ${method.toUpperCase()} ${path} has no access rule: start it with allow(ctx, ...)`);
       }
-      return original(path, ...handlers);
+      // Right after the access rule: a body that is not JSON (or, for an upload route, multipart) is 415.
+      const multipart = handlers.some((h) => (h as Partial<{ acceptsMultipart: boolean }>).acceptsMultipart === true);
+      return original(path, handlers[0]!, bodyTypeCheck(multipart), ...handlers.slice(1));
     };
   }
   return router;

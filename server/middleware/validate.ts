@@ -25,13 +25,33 @@ export function valid<T>(req: Express.Request, part: Part): T {
  * Such errors answer 400 naming the upload field; errors with a system code (a full disk, a
  * permission) stay server errors, and the handler's own ApiErrors pass through.
  */
-export function multipartErrorsAs400(handler: RequestHandler, field = 'file'): RequestHandler {
-  return (req, res, next) => {
+export function multipartErrorsAs400(handler: RequestHandler, field = 'file'): RequestHandler & { acceptsMultipart: true } {
+  const wrapped = (req: Parameters<RequestHandler>[0], res: Parameters<RequestHandler>[1], next: Parameters<RequestHandler>[2]) => {
     handler(req, res, (err?: unknown) => {
       if (!err || err instanceof ApiError || !(err instanceof Error)) return next(err);
       const e = err as Error & { code?: unknown; errno?: unknown; storageErrors?: unknown };
       if (e.name === 'MulterError' || e.code !== undefined || e.errno !== undefined) return next(err);
       next(badRequest('The upload is not a well-formed multipart form.', { [field]: `The upload could not be read (${e.message}). Choose the file again.` }));
     });
+  };
+  // secureRouter sees this mark and lets the route take a multipart body.
+  return Object.assign(wrapped, { acceptsMultipart: true as const });
+}
+
+/**
+ * A body that is not JSON answers 415: express.json() leaves such a body unread, and the route
+ * would otherwise take the request as an empty JSON object (a discharge whose note was sent as
+ * text/plain went through without it). A route whose handlers read an upload (marked by
+ * multipartErrorsAs400) takes multipart/form-data too. A request without a body passes.
+ * secureRouter puts this right after each route's access rule.
+ */
+export function bodyTypeCheck(acceptsMultipart: boolean): RequestHandler {
+  return (req, _res, next) => {
+    const hasBody = req.headers['transfer-encoding'] !== undefined || Number(req.headers['content-length'] ?? 0) > 0;
+    if (!hasBody || req.is(['application/json', 'application/*+json'])) return next();
+    if (acceptsMultipart && req.is('multipart/form-data')) return next();
+    const type = (req.headers['content-type'] ?? 'a body without a Content-Type').split(';')[0];
+    const expected = acceptsMultipart ? 'a multipart/form-data upload' : 'a JSON body (Content-Type: application/json)';
+    next(new ApiError(415, 'unsupported-media-type', `This route takes ${expected}, not ${type}.`, { _: acceptsMultipart ? 'Send the file as a form upload.' : 'Send the body as JSON.' }));
   };
 }

@@ -41,9 +41,12 @@ function statingSizeLimit(handler: RequestHandler): RequestHandler {
     });
 }
 
-/** One CSV file in the field `file`, kept on disk under the data folder; size and type limited. */
+/**
+ * One CSV file in the field `file`, kept on disk under the data folder; size and type limited.
+ * multipartErrorsAs400 stays the outermost wrapper: its mark is what lets the route take multipart.
+ */
 export function csvUpload(ctx: AppContext) {
-  return statingSizeLimit(multipartErrorsAs400(multer({
+  return multipartErrorsAs400(statingSizeLimit(multer({
     storage: multer.diskStorage({
       destination: (_req, _file, cb) => {
         const dir = uploadsDir(ctx);

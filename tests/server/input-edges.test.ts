@@ -137,6 +137,13 @@ describe('bodies that are not JSON', () => {
     expect(json.status).toBe(201);
   });
 
+  it('an upload route takes multipart, not text/plain; the access rule still comes first', async () => {
+    const plain = await as(admin, 'post', '/api/admin/roster/preview').set('Content-Type', 'text/plain').send('name,email,role,unit');
+    expect(plain.status).toBe(415);
+    const anonymous = await request(env.app).post('/api/infants/inf-elderbrook/discharge').set('Content-Type', 'text/plain').send('note');
+    expect(anonymous.status).toBe(401);
+  });
+
   it('a request without a body still works (deactivate, sign-out)', async () => {
     const res = await as(admin, 'post', '/api/admin/users/u-nurse-2/password-reset');
     expect(res.status).toBe(202);
