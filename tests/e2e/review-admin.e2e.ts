@@ -35,9 +35,12 @@ describe('review queue and administration', () => {
     assert.equal(await page.getByText('Day shift').count(), 0, 'only night shifts are listed');
     await shot(page, 'review-queue-night-gaps');
 
-    const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Export CSV' }).click()]);
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Flags CSV (with teaching notes)' }).click()]);
     const file = await download.path();
-    const csv = fs.readFileSync(file!, 'utf8');
+    const bytes = fs.readFileSync(file!);
+    // A spreadsheet reads the file as UTF-8 by its byte-order mark, EF BB BF (Unicode §23.8).
+    assert.deepEqual([...bytes.subarray(0, 3)], [0xef, 0xbb, 0xbf]);
+    const csv = bytes.subarray(3).toString('utf8');
     assert.match(csv.split('\r\n')[0]!, /^flag_id,kind,unit,infant/);
     for (const line of csv.trim().split('\r\n').slice(1)) assert.match(line, /,gap,.*,night,/);
 
@@ -51,6 +54,19 @@ describe('review queue and administration', () => {
     await page.getByRole('status').filter({ hasText: 'marked reviewed' }).waitFor();
     await page.getByText(note).waitFor();
     await shot(page, 'review-item-noted');
+
+    // The reports screen downloads the unit's readings and its FHIR Bundle for the chosen range.
+    await page.goto(`${BASE_URL}/reports`);
+    await page.getByRole('heading', { name: 'Reports', level: 1 }).waitFor();
+    const [readings] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Readings CSV' }).click()]);
+    assert.match(readings.suggestedFilename(), /^readings-\d{4}-\d{2}-\d{2}-\d{4}-\d{2}-\d{2}\.csv$/);
+    const readingsCsv = fs.readFileSync((await readings.path())!);
+    assert.deepEqual([...readingsCsv.subarray(0, 3)], [0xef, 0xbb, 0xbf]);
+    assert.match(readingsCsv.subarray(3).toString('utf8'), /^reading_id,infant_id,infant,bed,/);
+    const [fhir] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'FHIR R4 (JSON)' }).click()]);
+    const bundle = JSON.parse(fs.readFileSync((await fhir.path())!, 'utf8')) as { resourceType: string; entry: unknown[] };
+    assert.equal(bundle.resourceType, 'Bundle');
+    assert.ok(bundle.entry.length > 10);
     await page.context().close();
   });
 
