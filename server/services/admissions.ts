@@ -6,6 +6,7 @@ import { toCentiCelsius } from '../../shared/thermal';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { badRequest, conflict, notFound } from '../errors';
+import { infants } from '../../db/schema';
 import { recordBedStay } from './bed-stays';
 import { loadUnitRow, syncFlags } from './flags';
 
@@ -45,14 +46,14 @@ export function admitInfant(ctx: AppContext, unitId: string, input: AdmitInfant,
   return writeTx(sqlite, () => {
     const bed = requireEmptyBed(ctx, unitId, input.bedId);
     const id = randomUUID();
-    sqlite
-      .prepare(
-        `INSERT INTO infants (id, unit_id, bed_id, display_name, birth_at, gestation_weeks, gestation_days, birth_weight_grams, weight_grams, heat_source, status, admitted_at,
-           hospital_number, sex)
-         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, 'admitted', ?, ?, ?)`,
-      )
-      .run(id, unitId, bed.id, input.displayName, Date.parse(input.birthAt), input.gestationWeeks, input.gestationDays, input.birthWeightGrams, input.birthWeightGrams, input.heatSource, now.getTime(),
-        input.hospitalNumber ?? null, input.sex ?? null);
+    ctx.database.db
+      .insert(infants)
+      .values({
+        id, unitId, bedId: bed.id, displayName: input.displayName, birthAt: new Date(Date.parse(input.birthAt)), gestationWeeks: input.gestationWeeks, gestationDays: input.gestationDays,
+        birthWeightGrams: input.birthWeightGrams, weightGrams: input.birthWeightGrams, heatSource: input.heatSource, status: 'admitted', admittedAt: now,
+        hospitalNumber: input.hospitalNumber ?? null, sex: input.sex ?? null,
+      })
+      .run();
     recordBedStay(ctx.database.db, { id: randomUUID(), infantId: id, unitId, bedId: bed.id, event: 'admitted', at: now, recordedBy: actorId });
     // The initial settings are charted as the first reading, so the flowsheet and rules see them.
     const readingId = randomUUID();

@@ -32,6 +32,7 @@ interface FlagRow {
   review_count: number;
   last_review_at: number | null;
   reading_recorder: string | null;
+  reading_recorder_name: string | null;
 }
 
 const MINUTE = 60_000;
@@ -50,7 +51,7 @@ function loadFlagRows(sqlite: Database.Database, unitIds: string[], flagId?: str
       `SELECT f.id, f.kind, f.unit_id, u.name AS unit_name, u.time_zone, u.day_shift_start, u.night_shift_start,
               f.infant_id, i.display_name AS infant_name, b.label AS bed_label, f.raised_at, f.raised_by_reading_id, f.detail,
               CASE WHEN r.upload_id IS NULL THEN r.recorded_by ELSE r.taken_by END AS reading_by, ru.name AS reading_by_name, r.upload_id AS reading_upload_id,
-              r.recorded_by AS reading_recorder, i.hospital_number,
+              r.recorded_by AS reading_recorder, rec.name AS reading_recorder_name, i.hospital_number,
               (SELECT MIN(a.at) FROM actions a WHERE a.flag_id = f.id) AS first_action_at,
               fr.closed_at,
               (SELECT COUNT(*) FROM reviews v WHERE v.flag_id = f.id) AS review_count,
@@ -61,6 +62,7 @@ function loadFlagRows(sqlite: Database.Database, unitIds: string[], flagId?: str
          LEFT JOIN beds b ON b.id = i.bed_id
          LEFT JOIN readings r ON r.id = f.raised_by_reading_id
          LEFT JOIN users ru ON ru.id = CASE WHEN r.upload_id IS NULL THEN r.recorded_by ELSE r.taken_by END
+         LEFT JOIN users rec ON rec.id = r.recorded_by
          LEFT JOIN flag_resolutions fr ON fr.flag_id = f.id
         WHERE f.kind IN (${KIND_LIST}) AND f.unit_id IN (${marks}) ${flagId ? 'AND f.id = ?' : ''}
         ORDER BY f.raised_at DESC, f.id`,
@@ -101,17 +103,13 @@ function summaryOf(kind: ReviewKind, detail: Record<string, unknown>): string {
   }
 }
 
-function personName(sqlite: Database.Database, id: string): PersonRef {
-  return { id, name: (sqlite.prepare('SELECT name FROM users WHERE id = ?').get(id) as { name: string } | undefined)?.name ?? '' };
-}
-
 function toItem(sqlite: Database.Database, row: FlagRow): ReviewQueueItem {
   const raisedAt = new Date(row.raised_at);
   const slot = shiftAt(raisedAt, { dayShiftStart: row.day_shift_start, nightShiftStart: row.night_shift_start, timeZone: row.time_zone });
   const detail = JSON.parse(row.detail) as Record<string, unknown>;
   // An imported reading credits the nurse the file named; a file that named nobody credits no nurse, and the uploader is shown as who imported it.
   const recorder = row.reading_by ? { id: row.reading_by, name: row.reading_by_name ?? '' } : null;
-  const importedBy = row.reading_upload_id !== null && row.reading_by === null && row.reading_recorder ? personName(sqlite, row.reading_recorder) : null;
+  const importedBy = row.reading_upload_id !== null && row.reading_by === null && row.reading_recorder ? { id: row.reading_recorder, name: row.reading_recorder_name ?? '' } : null;
   // Who the note is for: the nurse who charted the reading, or (for a check that was not taken) the nurse assigned.
   const nurse =
     row.kind === 'overdue-check'
