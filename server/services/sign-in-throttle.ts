@@ -53,9 +53,9 @@ export function deviceFromCookies(ctx: AppContext, cookieHeader: string | undefi
   if (!cookieHeader) return null;
   const name = deviceCookieName(ctx, email);
   for (const part of cookieHeader.split(';')) {
-    const eq_ = part.indexOf('=');
-    if (eq_ < 0 || part.slice(0, eq_).trim() !== name) continue;
-    const [id, sig] = part.slice(eq_ + 1).trim().split('.');
+    const split = part.indexOf('=');
+    if (split < 0 || part.slice(0, split).trim() !== name) continue;
+    const [id, sig] = part.slice(split + 1).trim().split('.');
     if (!id || !sig) return null;
     const expected = Buffer.from(mac(ctx, `device|${email}|${id}`));
     const given = Buffer.from(sig);
