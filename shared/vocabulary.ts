@@ -61,7 +61,7 @@ export const ACTION_LABELS: Record<ActionKind, string> = {
 };
 
 /** The flag kinds the educator's review queue shows. */
-export const REVIEW_KINDS = ['gap', 'overdue-check', 'heat-stress', 'manual-mode'] as const;
+export const REVIEW_KINDS = ['gap', 'overdue-check', 'heat-stress', 'manual-mode', 'cold-stress', 'fever'] as const;
 export type ReviewKind = (typeof REVIEW_KINDS)[number];
 
 export const REVIEW_KIND_LABELS: Record<ReviewKind, string> = {
@@ -69,6 +69,8 @@ export const REVIEW_KIND_LABELS: Record<ReviewKind, string> = {
   'overdue-check': 'Overdue check',
   'heat-stress': 'Heat-stress prompt',
   'manual-mode': 'Manual-mode warning',
+  'cold-stress': 'Cold stress or hypothermia',
+  fever: 'Fever',
 };
 
 export const REVIEW_STATUSES = ['unreviewed', 'reviewed', 'all'] as const;

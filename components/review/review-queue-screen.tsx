@@ -166,7 +166,8 @@ function QueueRow({ item }: { item: ReviewQueueItem }) {
         {item.infantName}
         {item.bedLabel ? ` · ${item.bedLabel}` : ''} · {item.unitName}
       </Text>
-      <Text>{item.summary}</Text>
+      <Text style={item.withdrawn ? styles.struck : undefined}>{item.summary}</Text>
+      {item.withdrawn ? <Text variant="caption">Withdrawn: the check was on time or the reading was corrected; not a late check.</Text> : null}
       <Text tone="muted" variant="caption">
         Raised {shortDateTime(item.raisedAt)} · {item.nurse ? item.nurse.name : item.importedBy ? `imported by ${item.importedBy.name}, no nurse named` : 'nurse unknown'} · first action {minutesText(item.minutesToFirstAction)} · resolved{' '}
         {item.closedAt ? `after ${minutesText(item.minutesToResolution)}` : 'not yet'}
@@ -176,6 +177,7 @@ function QueueRow({ item }: { item: ReviewQueueItem }) {
 }
 
 const styles = StyleSheet.create({
+  struck: { textDecorationLine: 'line-through' },
   list: { gap: 8 },
   row: { borderWidth: 1, borderRadius: 12, padding: 12, gap: 6 },
   rowTop: { flexDirection: 'row', gap: 6, flexWrap: 'wrap' },

@@ -8,6 +8,7 @@ import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { badRequest, forbidden, notFound } from '../errors';
 import { bedAtLookup } from './bed-stays';
+import { BAND_LABELS } from '../../shared/thermal/bands';
 
 interface FlagRow {
   id: string;
@@ -29,6 +30,7 @@ interface FlagRow {
   hospital_number: string | null;
   first_action_at: number | null;
   closed_at: number | null;
+  how: string | null;
   review_count: number;
   last_review_at: number | null;
   reading_recorder: string | null;
@@ -53,7 +55,7 @@ function loadFlagRows(sqlite: Database.Database, unitIds: string[], flagId?: str
               CASE WHEN r.upload_id IS NULL THEN r.recorded_by ELSE r.taken_by END AS reading_by, ru.name AS reading_by_name, r.upload_id AS reading_upload_id,
               r.recorded_by AS reading_recorder, rec.name AS reading_recorder_name, i.hospital_number,
               (SELECT MIN(a.at) FROM actions a WHERE a.flag_id = f.id) AS first_action_at,
-              fr.closed_at,
+              fr.closed_at, fr.how,
               (SELECT COUNT(*) FROM reviews v WHERE v.flag_id = f.id) AS review_count,
               (SELECT MAX(v.created_at) FROM reviews v WHERE v.flag_id = f.id) AS last_review_at
          FROM flags f
@@ -100,6 +102,10 @@ function summaryOf(kind: ReviewKind, detail: Record<string, unknown>): string {
       return Array.isArray(detail.reasons) ? `Signs: ${detail.reasons.map(heatReasonLabel).join(', ')}` : 'Heat-stress prompt';
     case 'manual-mode':
       return 'Manual mode at high heater output';
+    case 'cold-stress':
+      return `${typeof detail.band === 'string' ? (BAND_LABELS as Record<string, string>)[detail.band] ?? 'Cold stress' : 'Cold stress'}: lowest remote site ${t(detail.lowestCenti)}`;
+    case 'fever':
+      return `Remote site ${t(detail.highestCenti)} (38.0 °C or over)`;
   }
 }
 
@@ -134,6 +140,8 @@ function toItem(sqlite: Database.Database, row: FlagRow): ReviewQueueItem {
     summary: summaryOf(row.kind, detail),
     firstActionAt: row.first_action_at === null ? null : new Date(row.first_action_at).toISOString(),
     closedAt: row.closed_at === null ? null : new Date(row.closed_at).toISOString(),
+    // A late entry or correction showed it should not have been raised: never a late check.
+    withdrawn: row.how === 'withdrawn',
     minutesToFirstAction: mins(row.first_action_at),
     minutesToResolution: mins(row.closed_at),
     reviewCount: row.review_count,

@@ -34,6 +34,8 @@ export interface ReviewQueueItem {
   summary: string;
   firstActionAt: string | null;
   closedAt: string | null;
+  /** A late entry or correction showed it should not have been raised: shown struck through, never counted late. */
+  withdrawn?: boolean;
   minutesToFirstAction: number | null;
   minutesToResolution: number | null;
   reviewCount: number;

@@ -27,7 +27,7 @@ beforeEach(signInAgain);
 const auth = (token: string) => ({ Authorization: `Bearer ${token}` });
 const get = async <T>(path: string, token = nurse): Promise<T> => {
   const res = await request(env.app).get(`/api${path}`).set(auth(token));
-  expect(res.status).toBe(200);
+  if (res.status !== 200) throw new Error(`GET ${path}: ${res.status} ${JSON.stringify(res.body)}`);
   return res.body as T;
 };
 const post = (path: string, body: object, token = nurse) => request(env.app).post(`/api${path}`).set(auth(token)).send(body);
@@ -209,6 +209,7 @@ describe('late entries', () => {
     const due = Date.parse(flowsheet0.nextCheck.dueAt!);
     env.clock.set(new Date(due + 20 * 60_000));
     await runEscalations(env.app.context, env.clock.now());
+    await signInAgain();
     let f = await get<Flowsheet>(`/infants/${id}/flowsheet?hours=12`, charge);
     expect(f.flags.filter((x) => x.kind === 'overdue-check' && x.status === 'open')).toHaveLength(1);
     const res = await post(
@@ -221,6 +222,12 @@ describe('late entries', () => {
     const withdrawn = f.flags.find((x) => x.kind === 'overdue-check' && x.status === 'withdrawn')!;
     expect(withdrawn.withdrawn).toMatchObject({ reason: 'late-entry-on-time', readingId: res.body.reading.id });
     expect(f.infant.openFlags.filter((x) => x.kind === 'overdue-check')).toEqual([]);
+    // The educator sees it struck through, never as a late check; reports leave it out.
+    const educator = await env.signIn(DEMO.educator);
+    const queue = await get<{ items: Array<{ flagId: string; kind: string; withdrawn?: boolean }> }>(`/review/queue?status=all&limit=200`, educator);
+    expect(queue.items.find((i) => i.flagId === withdrawn.id)).toMatchObject({ withdrawn: true });
+    // Cold stress is reviewed like the other kinds (WHO 1997 via Miller 2011 bands).
+    expect(queue.items.some((i) => i.kind === 'cold-stress')).toBe(true);
   });
 });
 

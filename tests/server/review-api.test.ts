@@ -17,11 +17,11 @@ const get = (path: string, token?: string) => {
 };
 
 describe('review queue', () => {
-  it('lists stored gap flags, overdue checks, heat-stress and manual-mode items across both units', async () => {
+  it('lists stored gap flags, overdue checks, heat-stress, manual-mode and cold-stress items across both units', async () => {
     const res = await get('/api/review/queue', educator);
     expect(res.status).toBe(200);
     const kinds = new Set(res.body.items.map((i: { kind: string }) => i.kind));
-    expect(kinds).toEqual(new Set(['gap', 'overdue-check', 'heat-stress', 'manual-mode']));
+    expect(kinds).toEqual(new Set(['gap', 'overdue-check', 'heat-stress', 'manual-mode', 'cold-stress']));
     expect(res.body.units.map((u: { id: string }) => u.id).sort()).toEqual(['unit-north', 'unit-south']);
     const caught = res.body.items.find((i: { kind: string; firstActionAt: string | null; closedAt: string | null }) => i.kind === 'gap' && i.firstActionAt && i.closedAt);
     expect(caught.minutesToFirstAction).toBeGreaterThanOrEqual(0);
@@ -171,7 +171,7 @@ describe('the demo for the educator', () => {
 describe('review queue paging and search', () => {
   /** The queue's flags counted straight from the tables (the review kinds, both units). */
   const storedFlags = () =>
-    (env.database.sqlite.prepare("SELECT COUNT(*) AS n FROM flags WHERE kind IN ('gap', 'overdue-check', 'heat-stress', 'manual-mode')").get() as { n: number }).n;
+    (env.database.sqlite.prepare("SELECT COUNT(*) AS n FROM flags WHERE kind IN ('gap', 'overdue-check', 'heat-stress', 'manual-mode', 'cold-stress', 'fever')").get() as { n: number }).n;
 
   it('walks every item page by page with nextCursor: none twice, none left out, newest first', async () => {
     const seen: string[] = [];
