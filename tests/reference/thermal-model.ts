@@ -198,9 +198,14 @@ export interface ModelOptions {
   settleKinds: readonly FlagKind[];
 }
 
+/**
+ * The gap is the one kind that needs an action to close, and its recheck counts from the first
+ * action plus the settle time (common practice: read again 15–30 min after a change). Other kinds
+ * close on their next qualifying reading.
+ */
 export const MODEL_OPTIONS: ModelOptions = {
-  settleFrom: 'last-action',
-  settleKinds: ['gap', 'heat-stress', 'cold-stress', 'fever', 'skin-to-skin-deviation'],
+  settleFrom: 'first-action',
+  settleKinds: ['gap'],
 };
 
 // ---------------------------------------------------------------------------------------------
