@@ -21,7 +21,7 @@ export interface UsualRange {
 
 export const USUAL_RANGES = {
   /** Skin probe (servo sensor on the skin). */
-  skin: { min: 3400, max: 3950, source: 'from memory: wide enough that a sick infant\'s real skin value passes with a confirmation' },
+  skin: { min: 3400, max: 3800, source: 'common practice: around the normal abdominal skin 36.0–36.5 °C of Gomella, Neonatology 7th ed. 2013, widened by 2 °C below and 1.5 °C above: skin reads below core, so a probe above 38.0 °C is confirmed first' },
   /** Remote site (axillary or rectal): a body temperature. */
   remote: { min: 3400, max: 3950, source: 'from memory: around the WHO 1997 normal range of 36.5–37.5 °C, widened for illness' },
   /** Air temperature in the incubator or under the warmer. */

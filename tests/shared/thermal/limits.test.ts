@@ -35,8 +35,8 @@ describe('hard limits: refuse what cannot be a reading (common practice)', () =>
 });
 
 describe('plausible ranges: confirm the unusual (from memory)', () => {
-  it('probe and remote 34.0–39.5 °C, air 25–40 °C, set 34.0–38.0 °C, heart rate 80–220', () => {
-    expect(PLAUSIBLE.probe).toEqual({ min: 3400, max: 3950 });
+  it('probe 34.0–38.0 °C (Gomella 2013, widened), remote 34.0–39.5 °C, air 25–40 °C, set 34.0–38.0 °C, heart rate 80–220', () => {
+    expect(PLAUSIBLE.probe).toEqual({ min: 3400, max: 3800 });
     expect(PLAUSIBLE.remote).toEqual({ min: 3400, max: 3950 });
     expect(PLAUSIBLE.air).toEqual({ min: 2500, max: 4000 });
     expect(PLAUSIBLE.set).toEqual({ min: 3400, max: 3800 });
@@ -49,6 +49,9 @@ describe('plausible ranges: confirm the unusual (from memory)', () => {
     ['remote', 3950, 'ok'],
     ['remote', 3951, 'confirm'],
     ['probe', 3300, 'confirm'],
+    // Gomella 2013: normal abdominal skin 36.0–36.5 °C; a 39.4 °C probe is confirmed before it is charted.
+    ['probe', 3940, 'confirm'],
+    ['probe', 3800, 'ok'],
     ['air', 2499, 'confirm'],
     ['air', 4001, 'confirm'],
     ['set', 3801, 'confirm'],
