@@ -63,13 +63,18 @@ export function currentVersion(sqlite: Database.Database, name: string, table: C
 
 const NOW_MS = "CAST(ROUND((julianday('now') - 2440587.5) * 86400000) AS INTEGER)";
 
-function triggerSql(name: string, table: ChainedTable, version: number, op: 'INSERT' | 'UPDATE' | 'DELETE'): string {
-  const row = op === 'DELETE' ? 'OLD.' : 'NEW.';
+/** REKEY: an UPDATE that changes the key also records the old key's row as deleted. */
+type Op = 'INSERT' | 'UPDATE' | 'DELETE' | 'REKEY';
+const OPS: readonly Op[] = ['INSERT', 'UPDATE', 'DELETE', 'REKEY'];
+
+function triggerSql(name: string, table: ChainedTable, version: number, op: Op): string {
+  const row = op === 'DELETE' || op === 'REKEY' ? 'OLD.' : 'NEW.';
   const action: RowAction = op === 'INSERT' ? 'row-insert' : op === 'UPDATE' ? 'row-update' : 'row-delete';
+  const when = op === 'REKEY' ? `AFTER UPDATE ON main.${q(name)} WHEN ${keySql(table, 'OLD.')} IS NOT ${keySql(table, 'NEW.')}` : `AFTER ${op} ON main.${q(name)}`;
   const unit = table.unit ? `${row}${q(table.unit)}` : 'NULL';
   // One call into JavaScript per row: warmfold_row_event answers "<event hash> <after>". The
   // LIMIT 1s keep SQLite from flattening the subqueries, which would evaluate them more than once.
-  return `CREATE TEMP TRIGGER IF NOT EXISTS ${triggerName(name, op)} AFTER ${op} ON main.${q(name)} BEGIN
+  return `CREATE TEMP TRIGGER IF NOT EXISTS ${triggerName(name, op)} ${when} BEGIN
   INSERT INTO main.audit_events (at, actor_id, action, entity_type, entity_id, unit_id, before, after, prev_hash, hash)
   SELECT e.at, NULL, '${action}', '${name}', e.eid, e.unit, NULL, substr(e.x, 66), e.prev, substr(e.x, 1, 64)
   FROM (SELECT i.at, i.eid, i.unit, i.prev,
@@ -113,7 +118,7 @@ export function installLedger(sqlite: Database.Database, now = new Date()): void
     if (version === 0) continue;
     versions.set(name, version);
     names.push(name);
-    for (const op of ['INSERT', 'UPDATE', 'DELETE'] as const) sqlite.exec(triggerSql(name, table, version, op));
+    for (const op of OPS) sqlite.exec(triggerSql(name, table, version, op));
   }
   installed.set(sqlite, names);
   sqlite.transaction(() => baseline(sqlite, versions, now)).immediate();
@@ -177,7 +182,7 @@ function baseline(sqlite: Database.Database, versions: Map<string, number>, now:
  */
 export function withoutLedger<T>(sqlite: Database.Database, fn: () => T): T {
   const names = installed.get(sqlite) ?? [];
-  for (const name of names) for (const op of ['INSERT', 'UPDATE', 'DELETE']) sqlite.exec(`DROP TRIGGER IF EXISTS temp.${triggerName(name, op)}`);
+  for (const name of names) for (const op of OPS) sqlite.exec(`DROP TRIGGER IF EXISTS temp.${triggerName(name, op)}`);
   try {
     return fn();
   } finally {

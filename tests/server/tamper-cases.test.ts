@@ -114,6 +114,16 @@ describe('a database the app wrote', () => {
     expect(JSON.parse(events[0]!.after)).toEqual({ v: 1, row: expect.stringMatching(/^[0-9a-f]{64}$/) });
   });
 
+  it('follows a row whose key the app changes: the old key is recorded as gone, the new one as written', () => {
+    const { sqlite } = env.database;
+    const id = `bed-${randomUUID()}`;
+    sqlite.prepare("INSERT INTO beds (id, unit_id, label, sort_order, active) VALUES (?, 'unit-north', ?, 98, 1)").run(id, `K${Date.now()}`);
+    sqlite.prepare('UPDATE beds SET id = ? WHERE id = ?').run(`${id}-renamed`, id);
+    const actions = sqlite.prepare("SELECT action, entity_id FROM audit_events WHERE entity_type = 'beds' AND entity_id IN (?, ?) ORDER BY id").all(id, `${id}-renamed`);
+    expect(actions).toEqual(expect.arrayContaining([{ action: 'row-insert', entity_id: id }, { action: 'row-delete', entity_id: id }, { action: 'row-update', entity_id: `${id}-renamed` }]));
+    expect(verifyRecord(sqlite).findings).toEqual([]);
+  });
+
   it('keeps a failed write out of the chain: a savepoint rolled back takes its row events with it', async () => {
     const { sqlite } = env.database;
     const before = (sqlite.prepare('SELECT COUNT(*) AS n FROM audit_events').get() as { n: number }).n;
