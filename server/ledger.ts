@@ -5,8 +5,8 @@
  *
  * It works through TEMP triggers on the app's connection, the way the board cache watches its
  * tables: no write path has to remember it, a rolled-back savepoint rolls its events back too, and
- * the group-committed readings keep their events in commit order. The hashing runs in two
- * deterministic SQL functions registered on the connection. Another connection (a script, the
+ * the group-committed readings keep their events in commit order. The hashing runs in one
+ * deterministic SQL function registered on the connection. Another connection (a script, the
  * sqlite3 shell, someone holding the file) writes without events, which is exactly what
  * `npm run audit:verify` reports.
  *
@@ -72,8 +72,8 @@ function triggerSql(name: string, table: ChainedTable, version: number, op: Op):
   const action: RowAction = op === 'INSERT' ? 'row-insert' : op === 'UPDATE' ? 'row-update' : 'row-delete';
   const when = op === 'REKEY' ? `AFTER UPDATE ON main.${q(name)} WHEN ${keySql(table, 'OLD.')} IS NOT ${keySql(table, 'NEW.')}` : `AFTER ${op} ON main.${q(name)}`;
   const unit = table.unit ? `${row}${q(table.unit)}` : 'NULL';
-  // One call into JavaScript per row: warmfold_row_event answers "<event hash> <after>". The
-  // LIMIT 1s keep SQLite from flattening the subqueries, which would evaluate them more than once.
+  // warmfold_row_event answers "<event hash> <after>" (deterministic, so SQLite may call it for each
+  // substr). The statement reads audit_events before it inserts, so `prev` is the head before it.
   return `CREATE TEMP TRIGGER IF NOT EXISTS ${triggerName(name, op)} ${when} BEGIN
   INSERT INTO main.audit_events (at, actor_id, action, entity_type, entity_id, unit_id, before, after, prev_hash, hash)
   SELECT e.at, NULL, '${action}', '${name}', e.eid, e.unit, NULL, substr(e.x, 66), e.prev, substr(e.x, 1, 64)
