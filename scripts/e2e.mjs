@@ -76,4 +76,6 @@ const run = spawnSync('node', ['--import', 'tsx', '--test', '--test-concurrency=
 server.kill('SIGTERM');
 await new Promise((r) => server.once('exit', r));
 fs.rmSync(dataDir, { recursive: true, force: true });
+// The demo's audit key is generated beside the data folder, not in it.
+fs.rmSync(`${dataDir}.audit-key`, { force: true });
 process.exit(run.status ?? 1);
