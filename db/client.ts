@@ -54,6 +54,9 @@ export function secureDataFiles(file: string): void {
   for (const f of [file, `${file}-wal`, `${file}-shm`]) {
     if (fs.existsSync(f)) fs.chmodSync(f, 0o600);
   }
+  // Uploaded files sit in the data folder too; the folder's 0700 keeps them, this says so twice.
+  const uploads = path.join(dir, 'uploads');
+  if (fs.existsSync(uploads)) fs.chmodSync(uploads, 0o700);
 }
 
 /**

@@ -59,8 +59,9 @@ describe('the data folder', () => {
     first.close();
     fs.chmodSync(dir, 0o755);
     fs.chmodSync(path.join(dir, 'w.db'), 0o644);
+    fs.mkdirSync(path.join(dir, 'uploads'), { mode: 0o755 });
     const again = openDatabase(path.join(dir, 'w.db'));
-    expect([mode(dir), mode(path.join(dir, 'w.db'))]).toEqual([0o700, 0o600]);
+    expect([mode(dir), mode(path.join(dir, 'w.db')), mode(path.join(dir, 'uploads'))]).toEqual([0o700, 0o600, 0o700]);
     again.close();
     fs.rmSync(dir, { recursive: true, force: true });
   });
