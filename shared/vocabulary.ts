@@ -61,7 +61,7 @@ export const ACTION_LABELS: Record<ActionKind, string> = {
 };
 
 /** The flag kinds the educator's review queue shows. */
-export const REVIEW_KINDS = ['gap', 'overdue-check', 'heat-stress', 'manual-mode', 'cold-stress', 'fever'] as const;
+export const REVIEW_KINDS = ['gap', 'overdue-check', 'heat-stress', 'manual-mode', 'cold-stress', 'fever', 'skin-to-skin-deviation'] as const;
 export type ReviewKind = (typeof REVIEW_KINDS)[number];
 
 export const REVIEW_KIND_LABELS: Record<ReviewKind, string> = {
@@ -71,6 +71,7 @@ export const REVIEW_KIND_LABELS: Record<ReviewKind, string> = {
   'manual-mode': 'Manual-mode warning',
   'cold-stress': 'Cold stress or hypothermia',
   fever: 'Fever',
+  'skin-to-skin-deviation': 'Skin-to-skin deviation',
 };
 
 export const REVIEW_STATUSES = ['unreviewed', 'reviewed', 'all'] as const;

@@ -106,6 +106,10 @@ function summaryOf(kind: ReviewKind, detail: Record<string, unknown>): string {
       return `${typeof detail.band === 'string' ? (BAND_LABELS as Record<string, string>)[detail.band] ?? 'Cold stress' : 'Cold stress'}: lowest remote site ${t(detail.lowestCenti)}`;
     case 'fever':
       return `Remote site ${t(detail.highestCenti)} (38.0 °C or over)`;
+    case 'skin-to-skin-deviation':
+      return typeof detail.deviationCenti === 'number'
+        ? `${detail.deviationCenti < 0 ? 'Colder' : 'Warmer'} than the reference ${t(detail.referenceCenti)} during skin-to-skin`
+        : 'Skin-to-skin deviation';
   }
 }
 

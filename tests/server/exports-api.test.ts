@@ -197,7 +197,7 @@ describe('exports a spreadsheet reads as written', () => {
   });
 
   it('exports every matching flag whatever the page size, with the teaching notes written out', async () => {
-    const stored = (env.database.sqlite.prepare("SELECT COUNT(*) AS n FROM flags WHERE kind IN ('gap', 'overdue-check', 'heat-stress', 'manual-mode', 'cold-stress', 'fever')").get() as { n: number }).n;
+    const stored = (env.database.sqlite.prepare("SELECT COUNT(*) AS n FROM flags WHERE kind IN ('gap', 'overdue-check', 'heat-stress', 'manual-mode', 'cold-stress', 'fever', 'skin-to-skin-deviation')").get() as { n: number }).n;
     const queue = await get('/api/review/queue?status=all&limit=1', educator);
     const flagId = queue.body.items[0].flagId as string;
     expect((await request(env.app).post(`/api/review/items/${flagId}/notes`).set('Authorization', `Bearer ${educator}`).send({ note: 'Good catch; recheck within 30 minutes, as the unit policy says.' })).status).toBe(201);

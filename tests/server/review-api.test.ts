@@ -171,7 +171,7 @@ describe('the demo for the educator', () => {
 describe('review queue paging and search', () => {
   /** The queue's flags counted straight from the tables (the review kinds, both units). */
   const storedFlags = () =>
-    (env.database.sqlite.prepare("SELECT COUNT(*) AS n FROM flags WHERE kind IN ('gap', 'overdue-check', 'heat-stress', 'manual-mode', 'cold-stress', 'fever')").get() as { n: number }).n;
+    (env.database.sqlite.prepare("SELECT COUNT(*) AS n FROM flags WHERE kind IN ('gap', 'overdue-check', 'heat-stress', 'manual-mode', 'cold-stress', 'fever', 'skin-to-skin-deviation')").get() as { n: number }).n;
 
   it('walks every item page by page with nextCursor: none twice, none left out, newest first', async () => {
     const seen: string[] = [];
