@@ -433,6 +433,31 @@ export const reviews = sqliteTable(
   (t) => [index('reviews_flag').on(t.flagId)],
 );
 
+/**
+ * What happened to a teaching note after it was written, and review outcomes without a note:
+ * append-only (UPDATE/DELETE refused). `amended` carries the note's new text (version n+1),
+ * `withdrawn` an optional reason, `acknowledged` the version the nurse read, and
+ * `no-teaching-point` closes a review item without a note (review_id null). The review status
+ * is separate from the flag's own lifecycle (flag_events).
+ */
+export const reviewEvents = sqliteTable(
+  'review_events',
+  {
+    id: text('id').primaryKey(),
+    flagId: flagRef(),
+    unitId: unitRef(),
+    reviewId: text('review_id').references(() => reviews.id),
+    event: text('event', { enum: ['amended', 'withdrawn', 'acknowledged', 'no-teaching-point'] }).notNull(),
+    note: text('note'),
+    version: integer('version'),
+    actorId: text('actor_id')
+      .notNull()
+      .references(() => users.id),
+    createdAt: instant('created_at').notNull(),
+  },
+  (t) => [index('review_events_flag').on(t.flagId), index('review_events_review').on(t.reviewId)],
+);
+
 export const uploads = sqliteTable(
   'uploads',
   {

@@ -37,6 +37,7 @@ export const CHAINED: Readonly<Record<string, ChainedTable>> = {
   actions: { key: ['id'], unit: 'unit_id', versions: [['id', 'flag_id', 'infant_id', 'unit_id', 'kind', 'note', 'at', 'recorded_by', 'created_at']] },
   escalations: { key: ['id'], unit: 'unit_id', versions: [['id', 'flag_id', 'unit_id', 'escalated_at', 'mailed_at', 'acknowledged_at', 'acknowledged_by', 'acknowledge_note'], ['id', 'flag_id', 'unit_id', 'escalated_at', 'mailed_at', 'acknowledged_at', 'acknowledged_by', 'acknowledge_note', 'recipient', 'channel', 'severity']] },
   reviews: { key: ['id'], unit: 'unit_id', versions: [['id', 'flag_id', 'unit_id', 'reviewer_id', 'note', 'created_at']] },
+  review_events: { key: ['id'], unit: 'unit_id', versions: [['id', 'flag_id', 'unit_id', 'review_id', 'event', 'note', 'version', 'actor_id', 'created_at']] },
   uploads: { key: ['id'], unit: 'unit_id', versions: [['id', 'kind', 'unit_id', 'filename', 'stored_name', 'sha256', 'size_bytes', 'row_count', 'status', 'uploaded_by', 'created_at', 'imported_at']] },
 };
 

@@ -16,6 +16,8 @@ export const PERMISSIONS = {
   'review:work': ['educator'],
   /** Users, invitations, roster, units, beds, unit settings, the mailbox. */
   'admin:manage': ['admin'],
+  /** The admission-temperature measure with the infants that missed it: the educator and the charge nurse. */
+  'measure:read': ['charge', 'educator'],
   /** Import readings from a CSV file: clinical data, so a charting role. */
   'readings:import': ['charge'],
 } as const satisfies Record<string, readonly Role[]>;

@@ -1,14 +1,26 @@
 import { z } from 'zod';
 import { CSV_BOM, toCsv } from '../../shared/csv';
 import { REPORT_TABLE_NAMES, reportTables } from '../../shared/reports';
-import { exportRangeQuerySchema, reviewQueueQuerySchema, unitRangeQuerySchema, type ExportRangeQuery, type ReviewQueueQuery, type UnitRangeQuery } from '../../shared/schemas/review';
+import {
+  compareQuerySchema,
+  exportRangeQuerySchema,
+  reviewQueueQuerySchema,
+  trendQuerySchema,
+  unitRangeQuerySchema,
+  type CompareQuery,
+  type ExportRangeQuery,
+  type ReviewQueueQuery,
+  type TrendQuery,
+  type UnitRangeQuery,
+} from '../../shared/schemas/review';
+import { admissionMeasure } from '../services/admission-measure';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { notFound } from '../errors';
 import { allow, assertUnit, secureRouter } from '../middleware/access';
 import { valid, validate } from '../middleware/validate';
 import { flagsCsv, infantFhirBundle, readingsCsv, unitFhirBundle } from '../services/exports';
-import { unitReport } from '../services/reports';
+import { comparePeriods, unitReport, unitTrends } from '../services/reports';
 import { loadReviews, reviewQueue } from '../services/review';
 
 const tableParams = z.object({ table: z.enum(REPORT_TABLE_NAMES as [string, ...string[]], { error: 'No such report table.' }) });
@@ -37,6 +49,24 @@ export function reportsRouter(ctx: AppContext) {
     assertUnit(req, query.unitId);
     const report = unitReport(ctx, query, req.auth!.userId);
     res.json({ report, tables: reportTables(report) });
+  });
+
+  router.get('/reports/trends', allow(ctx, 'review:work'), validate('query', trendQuerySchema), (req, res) => {
+    const query = valid<TrendQuery>(req, 'query');
+    assertUnit(req, query.unitId);
+    res.json(unitTrends(ctx, query, req.auth!.userId));
+  });
+
+  router.get('/reports/compare', allow(ctx, 'review:work'), validate('query', compareQuerySchema), (req, res) => {
+    const query = valid<CompareQuery>(req, 'query');
+    assertUnit(req, query.unitId);
+    res.json(comparePeriods(ctx, query, req.auth!.userId));
+  });
+
+  router.get('/reports/admission-measure', allow(ctx, 'measure:read'), validate('query', unitRangeQuerySchema), (req, res) => {
+    const query = valid<UnitRangeQuery>(req, 'query');
+    assertUnit(req, query.unitId);
+    res.json({ measure: admissionMeasure(ctx, query, req.auth!.userId) });
   });
 
   router.get('/reports/tables/:table.csv', allow(ctx, 'review:work'), validate('params', tableParams), validate('query', unitRangeQuerySchema), (req, res) => {

@@ -42,6 +42,8 @@ export function admitInfant(ctx: AppContext, unitId: string, input: AdmitInfant,
   const { sqlite } = ctx.database;
   const now = ctx.clock.now();
   if (Date.parse(input.birthAt) > now.getTime() + 5 * 60_000) throw badRequest('The birth cannot be in the future.', { birthAt: 'The time of birth is in the future.' });
+  // Admission is now: a birth after it is in the future (above); one over a year before is a typing slip on a neonatal unit.
+  if (Date.parse(input.birthAt) < now.getTime() - 366 * 86_400_000) throw badRequest('Check the date of birth.', { birthAt: 'The birth is more than a year before admission.' });
   const setCenti = toCentiCelsius(input.setTemperature, input.tempUnit, 'setTemperature');
   return writeTx(sqlite, () => {
     const bed = requireEmptyBed(ctx, unitId, input.bedId);

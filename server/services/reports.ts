@@ -3,14 +3,18 @@ import type Database from 'better-sqlite3';
 import {
   gapFlagsPer100,
   onTimeReport,
+  periodsOf,
+  responseTimes,
   responseTimesByKind,
+  type DatePeriod,
   skinToSkinDeviationShare,
   type FlagTimes,
   type RemoteCheck,
   type SkinToSkinSession,
   type UnitReport,
 } from '../../shared/reports';
-import { REVIEW_KINDS, type UnitRangeQuery } from '../../shared/schemas/review';
+import { REVIEW_KINDS, type CompareQuery, type TrendQuery, type UnitRangeQuery } from '../../shared/schemas/review';
+import type { CompareResponse, PeriodFigures, TrendResponse } from '../../shared/types/review';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { notFound } from '../errors';
@@ -151,4 +155,48 @@ export function unitReport(ctx: AppContext, query: UnitRangeQuery, actorId: stri
     .transaction(() => appendAudit(sqlite, { at: ctx.clock.now(), actorId, action: 'report-read', entityType: 'unit', entityId: w.unit.id, unitId: w.unit.id, after: query }))
     .immediate();
   return report;
+}
+
+/** A unit's headline figures for one range of local dates (no audit: the caller audits the read once). */
+export function periodFigures(ctx: AppContext, unitId: string, period: DatePeriod): PeriodFigures {
+  const { sqlite } = ctx.database;
+  const w = unitWindow(sqlite, { unitId, from: period.from, to: period.to });
+  const checks = remoteChecks(sqlite, w);
+  const flags = flagTimes(sqlite, w);
+  const on = onTimeReport(checks, { dayShiftStart: w.unit.day_shift_start, nightShiftStart: w.unit.night_shift_start, timeZone: w.unit.time_zone }).overall;
+  const gap = gapFlagsPer100(flags.filter((f) => f.kind === 'gap').length, checks.length);
+  const all = responseTimes(flags);
+  return {
+    label: period.label,
+    from: period.from,
+    to: period.to,
+    checks: on.checks,
+    onTime: on.onTime,
+    onTimeRate: on.rate,
+    flags: flags.length,
+    gapFlags: gap.gapFlags,
+    gapPer100: gap.per100,
+    medianMinutesToAction: all.toFirstAction.medianMinutes,
+    medianMinutesToResolution: all.toResolution.medianMinutes,
+  };
+}
+
+function auditReportRead(ctx: AppContext, actorId: string, unitId: string, after: Record<string, unknown>) {
+  const { sqlite } = ctx.database;
+  sqlite.transaction(() => appendAudit(sqlite, { at: ctx.clock.now(), actorId, action: 'report-read', entityType: 'unit', entityId: unitId, unitId, after })).immediate();
+}
+
+/** The unit's figures week by week or month by month over the range. */
+export function unitTrends(ctx: AppContext, query: TrendQuery, actorId: string): TrendResponse {
+  const periods = periodsOf(query.from, query.to, query.by).map((p) => periodFigures(ctx, query.unitId, p));
+  auditReportRead(ctx, actorId, query.unitId, { ...query, view: 'trends' });
+  return { unitId: query.unitId, by: query.by, periods };
+}
+
+/** Two periods of the unit side by side. */
+export function comparePeriods(ctx: AppContext, query: CompareQuery, actorId: string): CompareResponse {
+  const a = periodFigures(ctx, query.unitId, { label: `${query.aFrom} to ${query.aTo}`, from: query.aFrom, to: query.aTo });
+  const b = periodFigures(ctx, query.unitId, { label: `${query.bFrom} to ${query.bTo}`, from: query.bFrom, to: query.bTo });
+  auditReportRead(ctx, actorId, query.unitId, { ...query, view: 'compare' });
+  return { unitId: query.unitId, a, b };
 }

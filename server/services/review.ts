@@ -2,8 +2,16 @@ import type Database from 'better-sqlite3';
 import { randomUUID } from 'node:crypto';
 import { REVIEW_KINDS, type ReviewKind, type ReviewQueueQuery } from '../../shared/schemas/review';
 import { shiftAt } from '../../shared/shifts';
-import { formatTemperature, HEAT_STRESS_SIGN_LABELS } from '../../shared/thermal';
-import type { MyReviewNote, PersonRef, ReviewItemDetail, ReviewNote, ReviewQueueItem, ReviewQueueResponse } from '../../shared/types/review';
+import { eq, inArray } from 'drizzle-orm';
+import { flags as flagsTable, reviews, users } from '../../db/schema';
+import { median } from '../../shared/reports';
+import { FEVER_MIN_CENTI, NORMAL_MAX_CENTI } from '../../shared/thermal/bands';
+import { HEART_RATE_HIGH_ABOVE } from '../../shared/thermal/heat-stress';
+import { formatTemperature, HEAT_STRESS_SIGN_LABELS, type TempUnit } from '../../shared/thermal';
+import type { UnitRangeQuery } from '../../shared/schemas/review';
+import type { MyReviewNote, NurseSummaryResponse, NurseSummaryRow, PersonRef, ReviewItemDetail, ReviewNote, ReviewQueueItem, ReviewQueueResponse } from '../../shared/types/review';
+import { dbOf } from './flag-lifecycle';
+import { loadNotes, reviewStatuses, reviewStatusOf, UNREVIEWED, type ReviewStatusOf } from './review-loop';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { badRequest, forbidden, notFound } from '../errors';
@@ -82,30 +90,41 @@ function assignedNurse(sqlite: Database.Database, infantId: string, shiftDate: s
   return row ?? null;
 }
 
-/** A heat-stress reason in words a nurse reads, not the rule's code. */
-function heatReasonLabel(reason: unknown): string {
+/** The viewer's own settings: temperatures in °C or °F, times on a 12- or 24-hour clock. */
+export interface ViewerPrefs {
+  tempUnit: TempUnit;
+  clock: '12h' | '24h';
+}
+
+export function viewerPrefs(ctx: AppContext, userId: string): ViewerPrefs {
+  const row = dbOf(ctx.database.sqlite).select({ tempUnit: users.tempUnit, clock: users.clock }).from(users).where(eq(users.id, userId)).get();
+  return { tempUnit: row?.tempUnit === 'F' ? 'F' : 'C', clock: row?.clock === '12h' ? '12h' : '24h' };
+}
+
+/** A heat-stress reason in words a nurse reads, not the rule's code, in the viewer's unit. */
+function heatReasonLabel(reason: unknown, unit: TempUnit): string {
   const r = (typeof reason === 'string' ? { kind: reason } : reason) as { kind?: string; sign?: string };
   if (r.kind === 'sign' && r.sign) return (HEAT_STRESS_SIGN_LABELS as Record<string, string>)[r.sign]?.toLowerCase() ?? r.sign;
-  if (r.kind === 'remote-above-normal') return 'remote site above 37.5 °C';
-  if (r.kind === 'heart-rate-high') return 'heart rate over 160/min';
+  if (r.kind === 'remote-above-normal') return `remote site above ${formatTemperature(NORMAL_MAX_CENTI, unit)}`;
+  if (r.kind === 'heart-rate-high') return `heart rate over ${HEART_RATE_HIGH_ABOVE}/min`;
   return r.kind ?? 'a sign';
 }
 
-function summaryOf(kind: ReviewKind, detail: Record<string, unknown>): string {
-  const t = (v: unknown) => (typeof v === 'number' ? formatTemperature(v, 'C') : '—');
+function summaryOf(kind: ReviewKind, detail: Record<string, unknown>, unit: TempUnit): string {
+  const t = (v: unknown) => (typeof v === 'number' ? formatTemperature(v, unit) : '—');
   switch (kind) {
     case 'gap':
       return `Probe ${t(detail.probeCenti)}, remote site ${t(detail.remoteCenti)}`;
     case 'overdue-check':
       return typeof detail.minutesLate === 'number' ? `Remote-site check ${detail.minutesLate} min late` : 'Remote-site check overdue';
     case 'heat-stress':
-      return Array.isArray(detail.reasons) ? `Signs: ${detail.reasons.map(heatReasonLabel).join(', ')}` : 'Heat-stress prompt';
+      return Array.isArray(detail.reasons) ? `Signs: ${detail.reasons.map((r) => heatReasonLabel(r, unit)).join(', ')}` : 'Heat-stress prompt';
     case 'manual-mode':
       return 'Manual mode at high heater output';
     case 'cold-stress':
       return `${typeof detail.band === 'string' ? (BAND_LABELS as Record<string, string>)[detail.band] ?? 'Cold stress' : 'Cold stress'}: lowest remote site ${t(detail.lowestCenti)}`;
     case 'fever':
-      return `Remote site ${t(detail.highestCenti)} (38.0 °C or over)`;
+      return `Remote site ${t(detail.highestCenti)} (${t(FEVER_MIN_CENTI)} or over)`;
     case 'skin-to-skin-deviation':
       return typeof detail.deviationCenti === 'number'
         ? `${detail.deviationCenti < 0 ? 'Colder' : 'Warmer'} than the reference ${t(detail.referenceCenti)} during skin-to-skin`
@@ -113,20 +132,25 @@ function summaryOf(kind: ReviewKind, detail: Record<string, unknown>): string {
   }
 }
 
-function toItem(sqlite: Database.Database, row: FlagRow): ReviewQueueItem {
-  const raisedAt = new Date(row.raised_at);
-  const slot = shiftAt(raisedAt, { dayShiftStart: row.day_shift_start, nightShiftStart: row.night_shift_start, timeZone: row.time_zone });
-  const detail = JSON.parse(row.detail) as Record<string, unknown>;
-  // An imported reading credits the nurse the file named; a file that named nobody credits no nurse, and the uploader is shown as who imported it.
+/** The nurse concerned with a flag: who charted the raising reading, or for an overdue check the nurse assigned. */
+function nurseFor(sqlite: Database.Database, row: FlagRow, slot: { shiftDate: string; shift: string }) {
   const recorder = row.reading_by ? { id: row.reading_by, name: row.reading_by_name ?? '' } : null;
   const importedBy = row.reading_upload_id !== null && row.reading_by === null && row.reading_recorder ? { id: row.reading_recorder, name: row.reading_recorder_name ?? '' } : null;
-  // Who the note is for: the nurse who charted the reading, or (for a check that was not taken) the nurse assigned.
   const nurse =
     row.kind === 'overdue-check'
       ? (assignedNurse(sqlite, row.infant_id, slot.shiftDate, slot.shift) ?? recorder)
       : importedBy
         ? null
         : (recorder ?? assignedNurse(sqlite, row.infant_id, slot.shiftDate, slot.shift));
+  return { nurse, importedBy };
+}
+
+function toItem(sqlite: Database.Database, row: FlagRow, status: ReviewStatusOf = UNREVIEWED, unit: TempUnit = 'C'): ReviewQueueItem {
+  const raisedAt = new Date(row.raised_at);
+  const slot = shiftAt(raisedAt, { dayShiftStart: row.day_shift_start, nightShiftStart: row.night_shift_start, timeZone: row.time_zone });
+  const detail = JSON.parse(row.detail) as Record<string, unknown>;
+  // An imported reading credits the nurse the file named; a file that named nobody credits no nurse, and the uploader is shown as who imported it.
+  const { nurse, importedBy } = nurseFor(sqlite, row, slot);
   const mins = (at: number | null) => (at === null ? null : Math.max(0, Math.round((at - row.raised_at) / MINUTE)));
   return {
     flagId: row.id,
@@ -141,15 +165,16 @@ function toItem(sqlite: Database.Database, row: FlagRow): ReviewQueueItem {
     shiftDate: slot.shiftDate,
     nurse,
     importedBy,
-    summary: summaryOf(row.kind, detail),
+    summary: summaryOf(row.kind, detail, unit),
     firstActionAt: row.first_action_at === null ? null : new Date(row.first_action_at).toISOString(),
     closedAt: row.closed_at === null ? null : new Date(row.closed_at).toISOString(),
     // A late entry or correction showed it should not have been raised: never a late check.
     withdrawn: row.how === 'withdrawn',
     minutesToFirstAction: mins(row.first_action_at),
     minutesToResolution: mins(row.closed_at),
-    reviewCount: row.review_count,
-    lastReviewedAt: row.last_review_at === null ? null : new Date(row.last_review_at).toISOString(),
+    reviewCount: status.current,
+    lastReviewedAt: status.lastAt === null ? null : new Date(status.lastAt).toISOString(),
+    reviewState: status.state,
   };
 }
 
@@ -169,7 +194,7 @@ function decodeCursor(cursor: string): { at: number; id: string } {
  * exports, which are never cut. The bed is the bed at the time the flag was raised. The nurse
  * filter list comes from the unfiltered set.
  */
-export function reviewQueue(ctx: AppContext, unitIds: string[], query: Omit<ReviewQueueQuery, 'limit'> & { limit?: number | 'all' }): ReviewQueueResponse {
+export function reviewQueue(ctx: AppContext, unitIds: string[], query: Omit<ReviewQueueQuery, 'limit'> & { limit?: number | 'all' }, unit: TempUnit = 'C'): ReviewQueueResponse {
   const { sqlite } = ctx.database;
   const units = unitIds.length
     ? (sqlite.prepare(`SELECT id, name FROM units WHERE id IN (${unitIds.map(() => '?').join(', ')}) ORDER BY name`).all(...unitIds) as Array<{ id: string; name: string }>)
@@ -178,6 +203,8 @@ export function reviewQueue(ctx: AppContext, unitIds: string[], query: Omit<Revi
   const loaded = loadFlagRows(sqlite, scope);
   const bedAt = bedAtLookup(ctx.database.db, loaded.map((r) => r.infant_id));
   for (const r of loaded) r.bed_label = bedAt(r.infant_id, r.raised_at) ?? r.bed_label;
+  const statuses = reviewStatuses(dbOf(sqlite), scope);
+  const statusOf = (flagId: string) => statuses.get(flagId) ?? UNREVIEWED;
   const needle = query.q?.trim().toLowerCase();
   const rows = loaded.filter((r) => {
     if (query.kind && r.kind !== query.kind) return false;
@@ -188,11 +215,12 @@ export function reviewQueue(ctx: AppContext, unitIds: string[], query: Omit<Revi
       if (query.from && date < query.from) return false;
       if (query.to && date > query.to) return false;
     }
-    if (query.status === 'reviewed' && r.review_count === 0) return false;
-    if (query.status === 'unreviewed' && r.review_count > 0) return false;
+    // Reviewed: a current teaching note, or closed with no teaching point (the review's own status).
+    if (query.status === 'reviewed' && statusOf(r.id).state === 'unreviewed') return false;
+    if (query.status === 'unreviewed' && statusOf(r.id).state !== 'unreviewed') return false;
     return true;
   });
-  const all = rows.map((r) => ({ row: r, item: toItem(sqlite, r) }));
+  const all = rows.map((r) => ({ row: r, item: toItem(sqlite, r, statusOf(r.id), unit) }));
   const nurses = new Map<string, PersonRef>();
   for (const { item } of all) if (item.nurse) nurses.set(item.nurse.id, item.nurse);
   const matching = all.filter(({ item: i }) => (!query.shift || i.shift === query.shift) && (!query.nurseId || i.nurse?.id === query.nurseId));
@@ -210,19 +238,13 @@ export function reviewQueue(ctx: AppContext, unitIds: string[], query: Omit<Revi
   };
 }
 
+/** The teaching notes of the flags with their versions, withdrawal and acknowledgement. */
 export function loadReviews(sqlite: Database.Database, flagIds: string[]): ReviewNote[] {
-  if (flagIds.length === 0) return [];
-  const rows = sqlite
-    .prepare(
-      `SELECT v.id, v.flag_id, v.note, v.created_at, u.id AS reviewer_id, u.name AS reviewer_name
-         FROM reviews v JOIN users u ON u.id = v.reviewer_id WHERE v.flag_id IN (${flagIds.map(() => '?').join(', ')}) ORDER BY v.created_at, v.rowid`,
-    )
-    .all(...flagIds) as Array<{ id: string; flag_id: string; note: string; created_at: number; reviewer_id: string; reviewer_name: string }>;
-  return rows.map((r) => ({ id: r.id, flagId: r.flag_id, note: r.note, createdAt: new Date(r.created_at).toISOString(), reviewer: { id: r.reviewer_id, name: r.reviewer_name } }));
+  return loadNotes(dbOf(sqlite), flagIds);
 }
 
 /** Finds a queue flag; 404 when it does not exist, 403 when it belongs to another unit. */
-function findFlag(ctx: AppContext, flagId: string, unitIds: string[]): FlagRow {
+export function findFlag(ctx: AppContext, flagId: string, unitIds: string[]): FlagRow {
   const { sqlite } = ctx.database;
   const unit = sqlite.prepare(`SELECT unit_id FROM flags WHERE id = ? AND kind IN (${KIND_LIST})`).get(flagId) as { unit_id: string } | undefined;
   if (!unit) throw notFound('That review item');
@@ -231,10 +253,11 @@ function findFlag(ctx: AppContext, flagId: string, unitIds: string[]): FlagRow {
 }
 
 /** The event in full: readings from 3 hours before the flag to an hour after it closed (or was raised). An audited chart read. */
-export function reviewItemDetail(ctx: AppContext, flagId: string, auth: { userId: string; unitIds: string[] }): ReviewItemDetail {
+export function reviewItemDetail(ctx: AppContext, flagId: string, auth: { userId: string; unitIds: string[] }, unit: TempUnit = 'C'): ReviewItemDetail {
   const { sqlite } = ctx.database;
   const row = findFlag(ctx, flagId, auth.unitIds);
-  const item = toItem(sqlite, row);
+  const status = reviewStatusOf(dbOf(sqlite), flagId);
+  const item = toItem(sqlite, row, status, unit);
   const from = row.raised_at - 3 * 60 * MINUTE;
   const to = Math.max(row.closed_at ?? row.raised_at, row.first_action_at ?? 0, row.raised_at) + 60 * MINUTE;
   const readings = (
@@ -273,7 +296,7 @@ export function reviewItemDetail(ctx: AppContext, flagId: string, auth: { userId
       appendAudit(sqlite, { at: ctx.clock.now(), actorId: auth.userId, action: 'chart-read', entityType: 'flag', entityId: flagId, unitId: row.unit_id, after: { view: 'review-item' } }),
     )
     .immediate();
-  return { item, detail: JSON.parse(row.detail) as Record<string, unknown>, readings, actions, reviews: loadReviews(sqlite, [flagId]) };
+  return { item, detail: JSON.parse(row.detail) as Record<string, unknown>, readings, actions, reviews: loadReviews(sqlite, [flagId]), noTeachingPoint: status.noTeachingPoint };
 }
 
 /** Append a teaching note (reviews are append-only: a second note is a new row). */
@@ -284,27 +307,74 @@ export function addTeachingNote(ctx: AppContext, flagId: string, note: string, a
   const now = ctx.clock.now();
   sqlite
     .transaction(() => {
-      sqlite.prepare('INSERT INTO reviews (id, flag_id, unit_id, reviewer_id, note, created_at) VALUES (?, ?, ?, ?, ?, ?)').run(id, flagId, row.unit_id, auth.userId, note, now.getTime());
+      dbOf(sqlite).insert(reviews).values({ id, flagId, unitId: row.unit_id, reviewerId: auth.userId, note, createdAt: now }).run();
       appendAudit(sqlite, { at: now, actorId: auth.userId, action: 'review-note', entityType: 'review', entityId: id, unitId: row.unit_id, after: { flagId, note } });
     })
     .immediate();
   return loadReviews(sqlite, [flagId]).find((r) => r.id === id)!;
 }
 
-/** Teaching notes on flags where the signed-in nurse is the nurse concerned, newest first. */
+/** The nurse concerned with a flag (the queue's rule), or null. */
+export function nurseConcerned(ctx: AppContext, flagId: string): string | null {
+  const { sqlite } = ctx.database;
+  const unit = dbOf(sqlite).select({ unitId: flagsTable.unitId }).from(flagsTable).where(eq(flagsTable.id, flagId)).get();
+  const row = unit ? loadFlagRows(sqlite, [unit.unitId], flagId)[0] : undefined;
+  if (!row) return null;
+  const slot = shiftAt(new Date(row.raised_at), { dayShiftStart: row.day_shift_start, nightShiftStart: row.night_shift_start, timeZone: row.time_zone });
+  return nurseFor(sqlite, row, slot).nurse?.id ?? null;
+}
+
+/**
+ * Teaching notes on flags where the signed-in nurse is the nurse concerned, newest first.
+ * A withdrawn note is no longer shown to her; an amended one shows its current version.
+ */
 export function myReviewNotes(ctx: AppContext, auth: { userId: string; unitIds: string[] }): MyReviewNote[] {
   const { sqlite } = ctx.database;
-  const flagIds = (
-    sqlite.prepare(`SELECT DISTINCT v.flag_id FROM reviews v WHERE v.unit_id IN (${auth.unitIds.map(() => '?').join(', ') || "''"})`).all(...auth.unitIds) as Array<{ flag_id: string }>
-  ).map((r) => r.flag_id);
+  const db = dbOf(sqlite);
+  const flagIds = auth.unitIds.length ? [...new Set(db.select({ flagId: reviews.flagId }).from(reviews).where(inArray(reviews.unitId, auth.unitIds)).all().map((r) => r.flagId))] : [];
   const notes: MyReviewNote[] = [];
   for (const flagId of flagIds) {
-    const unit = sqlite.prepare('SELECT unit_id FROM flags WHERE id = ?').get(flagId) as { unit_id: string };
-    const row = loadFlagRows(sqlite, [unit.unit_id], flagId)[0];
+    const unit = db.select({ unitId: flagsTable.unitId }).from(flagsTable).where(eq(flagsTable.id, flagId)).get();
+    const row = unit ? loadFlagRows(sqlite, [unit.unitId], flagId)[0] : undefined;
     if (!row) continue;
     const item = toItem(sqlite, row);
     if (item.nurse?.id !== auth.userId) continue;
-    for (const n of loadReviews(sqlite, [flagId])) notes.push({ ...n, kind: item.kind, infantName: item.infantName, raisedAt: item.raisedAt });
+    for (const n of loadReviews(sqlite, [flagId])) if (!n.withdrawn) notes.push({ ...n, kind: item.kind, infantName: item.infantName, raisedAt: item.raisedAt });
   }
   return notes.sort((a, b) => (a.createdAt < b.createdAt ? 1 : a.createdAt > b.createdAt ? -1 : 0));
+}
+
+/** Per nurse concerned, over a range of local dates in one unit: flags, review outcomes and the median minutes to first action. */
+export function nurseSummary(ctx: AppContext, query: UnitRangeQuery): NurseSummaryResponse {
+  const { items } = reviewQueue(ctx, [query.unitId], { unitId: query.unitId, from: query.from, to: query.to, status: 'all', limit: 'all' });
+  const byNurse = new Map<string, { nurse: PersonRef; items: ReviewQueueItem[] }>();
+  let withoutNurse = 0;
+  for (const i of items) {
+    if (i.withdrawn) continue; // withdrawn flags are not the nurse's to learn from
+    if (!i.nurse) {
+      withoutNurse += 1;
+      continue;
+    }
+    const entry = byNurse.get(i.nurse.id) ?? { nurse: i.nurse, items: [] };
+    entry.items.push(i);
+    byNurse.set(i.nurse.id, entry);
+  }
+  const nurses: NurseSummaryRow[] = [...byNurse.values()]
+    .map(({ nurse, items: mine }) => {
+      const byKind: Record<string, number> = {};
+      for (const i of mine) byKind[i.kind] = (byKind[i.kind] ?? 0) + 1;
+      const count = (state: string) => mine.filter((i) => i.reviewState === state).length;
+      return {
+        nurse,
+        flags: mine.length,
+        byKind,
+        noted: count('noted') + count('acknowledged'),
+        acknowledged: count('acknowledged'),
+        noTeachingPoint: count('no-teaching-point'),
+        unreviewed: count('unreviewed'),
+        medianMinutesToAction: median(mine.filter((i) => i.minutesToFirstAction !== null).map((i) => i.minutesToFirstAction!)),
+      };
+    })
+    .sort((a, b) => a.nurse.name.localeCompare(b.nurse.name));
+  return { unitId: query.unitId, from: query.from, to: query.to, nurses, withoutNurse };
 }

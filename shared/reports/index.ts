@@ -4,8 +4,9 @@
  *
  * Percentiles use the nearest-rank method: the P-th percentile of n sorted values is the value
  * at rank ceil(P / 100 × n) (1-based). It always returns a value that was observed, so a
- * response time in a report is one a nurse actually took. The median is the 50th percentile by
- * the same method: for an even count it is the lower of the two middle values.
+ * 90th-percentile response time is one a nurse actually took. The median is the conventional
+ * one (a spreadsheet's MEDIAN): the middle value, or for an even count the mean of the two
+ * middle values (7.5 for 6, 7, 8, 9). Screens and CSV headers say so.
  */
 import { shiftAt, type ShiftName, type ShiftTimes } from '../shifts';
 
@@ -23,6 +24,17 @@ export function percentileNearestRank(values: readonly number[], p: number): num
 export function medianNearestRank(values: readonly number[]): number | null {
   return percentileNearestRank(values, 50);
 }
+
+/** The conventional median: the middle value, or the mean of the two middle values; null for none. */
+export function median(values: readonly number[]): number | null {
+  if (values.length === 0) return null;
+  const sorted = [...values].sort((a, b) => a - b);
+  const mid = sorted.length >> 1;
+  return sorted.length % 2 === 1 ? sorted[mid]! : (sorted[mid - 1]! + sorted[mid]!) / 2;
+}
+
+/** How the screens name the median, so nobody takes it for the lower middle value. */
+export const MEDIAN_WORDS = 'median (middle value; for an even count the mean of the two middle values)';
 
 /** A share as a fraction 0–1, or null when there is nothing to divide by. */
 export function rate(part: number, whole: number): number | null {
@@ -146,7 +158,7 @@ export function minutesBetween(from: Date, to: Date): number {
 }
 
 export function summarise(minutes: readonly number[]): DurationSummary {
-  return { count: minutes.length, medianMinutes: medianNearestRank(minutes), p90Minutes: percentileNearestRank(minutes, 90) };
+  return { count: minutes.length, medianMinutes: median(minutes), p90Minutes: percentileNearestRank(minutes, 90) };
 }
 
 export function responseTimes(flags: readonly FlagTimes[], kind = 'all'): ResponseTimesRow {
@@ -290,7 +302,7 @@ export function reportTables(report: UnitReport): ReportTable[] {
     },
     {
       name: 'response-times',
-      title: 'Minutes from flag to first action and to resolution (nearest-rank percentiles)',
+      title: 'Minutes from flag to first action and to resolution (median: mean of the two middle values for an even count; 90th: nearest rank)',
       header: ['kind', 'flags', 'with_action', 'median_to_action_min', 'p90_to_action_min', 'resolved', 'median_to_resolution_min', 'p90_to_resolution_min'],
       rows: report.responseTimes.map((r) => [
         r.kind,
@@ -313,3 +325,42 @@ export function reportTables(report: UnitReport): ReportTable[] {
 }
 
 export const REPORT_TABLE_NAMES: ReadonlyArray<ReportTable['name']> = ['on-time-by-shift', 'on-time-by-day', 'gap-rate', 'response-times', 'skin-to-skin'];
+
+// ---------------------------------------------------------------------------------------------
+// Trends: a range of local dates cut into weeks (Monday to Sunday) or calendar months
+// ---------------------------------------------------------------------------------------------
+
+export interface DatePeriod {
+  /** "2026-11" for a month; "week of 2026-11-16" (its Monday) for a week. */
+  label: string;
+  from: string;
+  to: string;
+}
+
+const dayMs = 86_400_000;
+const ymd = (ms: number) => new Date(ms).toISOString().slice(0, 10);
+
+/** The weeks or months that meet [from, to] (local dates, inclusive), each cut to the range, oldest first. */
+export function periodsOf(from: string, to: string, by: 'week' | 'month'): DatePeriod[] {
+  const end = Date.parse(`${to}T00:00:00Z`);
+  let cursor = Date.parse(`${from}T00:00:00Z`);
+  const out: DatePeriod[] = [];
+  while (cursor <= end) {
+    const d = new Date(cursor);
+    let start: number;
+    let next: number;
+    let label: string;
+    if (by === 'month') {
+      start = Date.UTC(d.getUTCFullYear(), d.getUTCMonth(), 1);
+      next = Date.UTC(d.getUTCFullYear(), d.getUTCMonth() + 1, 1);
+      label = ymd(start).slice(0, 7);
+    } else {
+      start = cursor - ((d.getUTCDay() + 6) % 7) * dayMs; // back to Monday
+      next = start + 7 * dayMs;
+      label = `week of ${ymd(start)}`;
+    }
+    out.push({ label, from: ymd(Math.max(start, cursor)), to: ymd(Math.min(next - dayMs, end)) });
+    cursor = next;
+  }
+  return out;
+}

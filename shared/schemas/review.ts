@@ -46,25 +46,51 @@ export const teachingNoteSchema = z.strictObject({
 });
 export type TeachingNoteInput = z.infer<typeof teachingNoteSchema>;
 
+const withinYear = (from: string, to: string) => Date.parse(to) - Date.parse(from) <= 366 * 86_400_000;
+
+const unitRangeShape = { unitId: id, from: localDateSchema, to: localDateSchema };
+
+/** An inclusive range of local dates: the end not before the start, at most a year. */
+function checkRange(v: { from: string; to: string }, ctx: z.RefinementCtx): void {
+  if (!rangeOk(v)) ctx.addIssue({ code: 'custom', ...RANGE_MESSAGE });
+  else if (!withinYear(v.from, v.to)) ctx.addIssue({ code: 'custom', message: 'Choose at most a year.', path: ['to'] });
+}
+
 /** Reports and exports: one unit, an inclusive range of local dates (at most a year). */
-export const unitRangeQuerySchema = z
-  .strictObject({
-    unitId: id,
-    from: localDateSchema,
-    to: localDateSchema,
-  })
-  .refine(rangeOk, RANGE_MESSAGE)
-  .refine((v) => Date.parse(v.to) - Date.parse(v.from) <= 366 * 86_400_000, { message: 'Choose at most a year.', path: ['to'] });
+export const unitRangeQuerySchema = z.strictObject(unitRangeShape).superRefine(checkRange);
 export type UnitRangeQuery = z.infer<typeof unitRangeQuerySchema>;
 
 /** Exports: a unit and a range of local dates, optionally one infant of the unit. */
-export const exportRangeQuerySchema = z
+export const exportRangeQuerySchema = z.strictObject({ ...unitRangeShape, infantId: id.optional() }).superRefine(checkRange);
+export type ExportRangeQuery = z.infer<typeof exportRangeQuerySchema>;
+
+/** Withdrawing a teaching note: an optional reason, kept with the note. */
+export const withdrawNoteSchema = z.strictObject({
+  reason: safeNote('Write the reason in plain words.').max(500, 'Keep the reason under 500 characters.').optional(),
+});
+export type WithdrawNoteInput = z.infer<typeof withdrawNoteSchema>;
+
+/** Closing a review item as "no teaching point": an optional comment, no note forced. */
+export const noTeachingPointSchema = z.strictObject({
+  comment: safeNote('Write the comment in plain words.').max(500, 'Keep the comment under 500 characters.').optional(),
+});
+export type NoTeachingPointInput = z.infer<typeof noTeachingPointSchema>;
+
+/** Trends: a unit's figures by week (Monday to Sunday) or by calendar month over a range. */
+export const trendQuerySchema = z.strictObject({ ...unitRangeShape, by: z.enum(['week', 'month'], { error: 'Choose week or month.' }).default('month') }).superRefine(checkRange);
+export type TrendQuery = z.infer<typeof trendQuerySchema>;
+
+/** Two periods of one unit side by side. */
+export const compareQuerySchema = z
   .strictObject({
     unitId: id,
-    from: localDateSchema,
-    to: localDateSchema,
-    infantId: id.optional(),
+    aFrom: localDateSchema,
+    aTo: localDateSchema,
+    bFrom: localDateSchema,
+    bTo: localDateSchema,
   })
-  .refine(rangeOk, RANGE_MESSAGE)
-  .refine((v) => Date.parse(v.to) - Date.parse(v.from) <= 366 * 86_400_000, { message: 'Choose at most a year.', path: ['to'] });
-export type ExportRangeQuery = z.infer<typeof exportRangeQuerySchema>;
+  .refine((v) => v.aFrom <= v.aTo, { message: 'The end date must not be before the start date.', path: ['aTo'] })
+  .refine((v) => v.bFrom <= v.bTo, { message: 'The end date must not be before the start date.', path: ['bTo'] })
+  .refine((v) => withinYear(v.aFrom, v.aTo), { message: 'Choose at most a year.', path: ['aTo'] })
+  .refine((v) => withinYear(v.bFrom, v.bTo), { message: 'Choose at most a year.', path: ['bTo'] });
+export type CompareQuery = z.infer<typeof compareQuerySchema>;

@@ -6,13 +6,36 @@ export interface PersonRef {
   name: string;
 }
 
+export interface ReviewNoteVersion {
+  version: number;
+  note: string;
+  at: string;
+  by: PersonRef;
+}
+
 export interface ReviewNote {
   id: string;
   flagId: string;
+  /** The current text (the latest version). */
   note: string;
   reviewer: PersonRef;
   createdAt: string;
+  /** 1 for the note as first written; each amendment adds one. */
+  version: number;
+  /** Every version, oldest first (append-only: an amendment never overwrites). */
+  versions: ReviewNoteVersion[];
+  /** Withdrawn by the educator: kept in the record, no longer shown to the nurse as current. */
+  withdrawn: { at: string; by: PersonRef; reason: string | null } | null;
+  /** The nurse concerned said she read it: when, and which version. Null until then. */
+  acknowledged: { at: string; by: PersonRef; version: number } | null;
 }
+
+/**
+ * The review's own status, apart from the flag's lifecycle (open, closed, withdrawn):
+ * unreviewed; noted (a current teaching note); acknowledged (the nurse read the current
+ * version); no-teaching-point (closed by the educator without a note).
+ */
+export type ReviewState = 'unreviewed' | 'noted' | 'acknowledged' | 'no-teaching-point';
 
 export interface ReviewQueueItem {
   flagId: string;
@@ -40,6 +63,8 @@ export interface ReviewQueueItem {
   minutesToResolution: number | null;
   reviewCount: number;
   lastReviewedAt: string | null;
+  /** The review's status (separate from the flag's lifecycle). */
+  reviewState: ReviewState;
 }
 
 export interface ReviewQueueResponse {
@@ -84,10 +109,63 @@ export interface ReviewItemDetail {
   readings: ReviewReading[];
   actions: ReviewAction[];
   reviews: ReviewNote[];
+  /** Closed as "no teaching point": by whom and when, with an optional comment. */
+  noTeachingPoint: { at: string; by: PersonRef; comment: string | null } | null;
 }
 
 export interface MyReviewNote extends ReviewNote {
   kind: ReviewKind;
   infantName: string;
   raisedAt: string;
+}
+
+/** One nurse's flags and reviews over a range (the nurse concerned, as in the queue). */
+export interface NurseSummaryRow {
+  nurse: PersonRef;
+  flags: number;
+  byKind: Record<string, number>;
+  /** Flags whose review status is noted or acknowledged. */
+  noted: number;
+  acknowledged: number;
+  noTeachingPoint: number;
+  unreviewed: number;
+  /** Conventional median minutes from flag to first action (mean of the two middle values for an even count). */
+  medianMinutesToAction: number | null;
+}
+
+export interface NurseSummaryResponse {
+  unitId: string;
+  from: string;
+  to: string;
+  nurses: NurseSummaryRow[];
+  /** Flags whose nurse is not known (an import that named nobody). */
+  withoutNurse: number;
+}
+
+/** A unit's figures over one period (a week, a month, or one side of a comparison). */
+export interface PeriodFigures {
+  label: string;
+  from: string;
+  to: string;
+  checks: number;
+  onTime: number;
+  onTimeRate: number | null;
+  flags: number;
+  gapFlags: number;
+  gapPer100: number | null;
+  /** Conventional median minutes from flag to first action. */
+  medianMinutesToAction: number | null;
+  medianMinutesToResolution: number | null;
+}
+
+export interface TrendResponse {
+  unitId: string;
+  by: 'week' | 'month';
+  periods: PeriodFigures[];
+}
+
+export interface CompareResponse {
+  unitId: string;
+  a: PeriodFigures;
+  b: PeriodFigures;
 }

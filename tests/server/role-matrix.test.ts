@@ -66,6 +66,16 @@ const EXPECTED: Record<string, string> = {
   'GET /api/review/queue': 'FFYFN',
   'GET /api/review/items/:flagId': 'FFUFN',
   'POST /api/review/items/:flagId/notes': 'FFUFN',
+  'POST /api/review/items/:flagId/no-teaching-point': 'FFUFN',
+  'POST /api/reviews/:id/amend': 'FFYFN',
+  'POST /api/reviews/:id/withdraw': 'FFYFN',
+  // Only the nurse a note is for may acknowledge it (checked in the handler); any signed-in caller reaches it.
+  'POST /api/reviews/:id/acknowledge': 'YYYYN',
+  'GET /api/review/nurses': 'FFYFN',
+  'GET /api/reports/trends': 'FFYFN',
+  'GET /api/reports/compare': 'FFYFN',
+  // The admission-temperature measure: the educator and the charge nurse.
+  'GET /api/reports/admission-measure': 'FYYFN',
   'GET /api/reports': 'FFYFN',
   'GET /api/reports/tables/:table.csv': 'FFYFN',
   'GET /api/exports/readings.csv': 'FFYFN',

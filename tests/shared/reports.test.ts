@@ -87,14 +87,14 @@ describe('time from flag to first action and to resolution (hand-computed)', () 
     { kind: 'gap', raisedAt: raised, firstActionAt: null, closedAt: null },
   ];
 
-  it('first action: sorted 3, 7, 12, 20, 45 → median rank ceil(2.5)=3 → 12; p90 rank ceil(4.5)=5 → 45', () => {
+  it('first action: sorted 3, 7, 12, 20, 45 → median (odd count) the middle value 12; p90 rank ceil(4.5)=5 → 45', () => {
     const r = responseTimes(flags);
     expect(r.flags).toBe(6);
     expect(r.toFirstAction).toEqual({ count: 5, medianMinutes: 12, p90Minutes: 45 });
   });
 
-  it('resolution: sorted 10, 25, 30, 90 → median rank 2 → 25; p90 rank ceil(3.6)=4 → 90', () => {
-    expect(responseTimes(flags).toResolution).toEqual({ count: 4, medianMinutes: 25, p90Minutes: 90 });
+  it('resolution: sorted 10, 25, 30, 90 → median (25 + 30) / 2 = 27.5 (conventional median, NIST/SEMATECH e-Handbook 1.3.5.1); p90 rank ceil(3.6)=4 → 90', () => {
+    expect(responseTimes(flags).toResolution).toEqual({ count: 4, medianMinutes: 27.5, p90Minutes: 90 });
   });
 });
 
