@@ -156,7 +156,7 @@ async function oneRun(browser: Browser, opts: VitalsOptions, iife: string): Prom
       await p.getByRole('button', { name: 'Sign in' }).waitFor();
     });
     await page.getByLabel('E-mail').fill(opts.email);
-    await page.getByLabel('Password').fill(opts.password);
+    await page.getByLabel('Password', { exact: true }).fill(opts.password);
     await page.getByRole('button', { name: 'Sign in' }).click();
     await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
     // Signing in lands on My infants; let that page finish (its list shown, the network quiet)
@@ -225,7 +225,7 @@ async function warmUp(browser: Browser, opts: VitalsOptions): Promise<void> {
     });
     await page.goto(`${opts.base}/sign-in`);
     await page.getByLabel('E-mail').fill(opts.email);
-    await page.getByLabel('Password').fill(opts.password);
+    await page.getByLabel('Password', { exact: true }).fill(opts.password);
     await page.getByRole('button', { name: 'Sign in' }).click();
     await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
     await page.goto(`${opts.base}/infants`);

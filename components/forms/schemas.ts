@@ -8,7 +8,7 @@
  */
 export { zodResolver } from '@hookform/resolvers/zod';
 export { createUserSchema } from '@/shared/schemas/admin';
-export { changePasswordSchema, linkPasswordSchema, signInSchema } from '@/shared/schemas/auth';
+export { changePasswordSchema, linkPasswordSchema, requestResetSchema, signInSchema } from '@/shared/schemas/auth';
 export { teachingNoteSchema } from '@/shared/schemas/review';
 export { admitFormSchema, admitFormToInput, assignNurseSchema } from '@/shared/schemas/unit';
 export { unitSettingsFormSchema } from '../admin-users/unit-settings-schema';

@@ -1,6 +1,6 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { CreateUserInput, UnitSettingsInput, UpdateUserInput } from '@/shared/schemas/admin';
-import type { LinkPasswordInput } from '@/shared/schemas/auth';
+import type { LinkPasswordInput, RequestResetInput } from '@/shared/schemas/auth';
 import type { AdminUnit, AdminUser, ImportResult, UploadPreview } from '@/shared/types/admin';
 import { api } from '../api/client';
 
@@ -84,6 +84,14 @@ export function useDigestSendMutation() {
 }
 
 /** Public: accepting an invitation or resetting a password with an e-mailed link. */
+/** Ask for a reset link; the answer is the same whether or not the address has an account. */
+export function useRequestResetMutation() {
+  return useMutation({
+    mutationFn: (input: RequestResetInput) =>
+      api<{ message: string }>('/auth/password-reset/request', { method: 'POST', body: input, skipUnauthorizedHandler: true }),
+  });
+}
+
 export function useLinkPasswordMutation(kind: 'invite' | 'reset') {
   return useMutation({
     mutationFn: (input: LinkPasswordInput) =>

@@ -1,3 +1,4 @@
+import { router } from 'expo-router';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { KeyboardAvoidingView, StyleSheet, View } from 'react-native';
@@ -90,9 +91,7 @@ export function SignInScreen() {
           ) : null}
           <Button label="Sign in" onPress={() => void onSubmit()} busy={formState.isSubmitting} />
         </Card>
-        <Text variant="caption" tone="muted">
-          Forgot your password? Ask your unit administrator to send a reset link.
-        </Text>
+        <Button label="Forgot your password?" variant="quiet" onPress={() => router.push('/forgot-password')} />
       </View>
     </KeyboardAvoidingView>
   );

@@ -54,6 +54,7 @@ export const linkPasswordSchema = z.strictObject({
 export type LinkPasswordInput = z.infer<typeof linkPasswordSchema>;
 
 export const requestResetSchema = z.strictObject({ email: emailSchema });
+export type RequestResetInput = z.infer<typeof requestResetSchema>;
 
 export interface SessionUser {
   id: string;

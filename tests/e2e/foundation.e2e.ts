@@ -1,4 +1,6 @@
+import Database from 'better-sqlite3';
 import assert from 'node:assert/strict';
+import path from 'node:path';
 import { after, before, describe, it } from 'node:test';
 import type { Browser } from 'playwright-core';
 import { ACCOUNTS, BASE_URL, launch, newPage, PHONE, shot, signIn, WIDE } from './support';
@@ -48,7 +50,7 @@ describe('foundation', () => {
     const page = await newPage(browser, PHONE);
     await page.goto(`${BASE_URL}/sign-in`);
     await page.getByLabel('E-mail').fill(ACCOUNTS.nurse);
-    await page.getByLabel('Password').fill('not-the-right-one');
+    await page.getByLabel('Password', { exact: true }).fill('not-the-right-one');
     await page.getByRole('button', { name: 'Sign in' }).click();
     const alert = page.getByRole('alert').filter({ hasText: 'do not match' });
     await alert.waitFor();
@@ -64,6 +66,36 @@ describe('foundation', () => {
     await page.goto(`${BASE_URL}/settings`);
     await page.getByRole('button', { name: 'Sign out' }).first().click();
     await page.waitForURL((url) => url.pathname === '/sign-in');
+    await page.context().close();
+  });
+
+  it('resets a forgotten password from the sign-in screen, by the e-mailed link', async () => {
+    const email = 'sunniva.hale@warmfold.test';
+    const page = await newPage(browser, PHONE);
+    await page.goto(`${BASE_URL}/sign-in`);
+    await page.getByRole('button', { name: 'Forgot your password?' }).click();
+    await page.getByRole('heading', { name: 'Forgot your password?', level: 1 }).waitFor();
+    await page.getByLabel('E-mail').fill(email);
+    await page.getByRole('button', { name: 'Send the reset link' }).click();
+    await page.getByRole('status').filter({ hasText: 'If that address has an account' }).waitFor();
+    await shot(page, 'forgot-password-sent');
+    // The link reaches her own inbox (the local catcher) after the answer, from the mail queue.
+    let link: string | undefined;
+    for (let i = 0; i < 40 && !link; i++) {
+      const db = new Database(path.join(process.env.E2E_DATA_DIR!, 'warmfold.db'), { readonly: true });
+      const caught = db.prepare('SELECT text_body FROM caught_mail WHERE to_addresses = ? ORDER BY id DESC').get(email) as { text_body: string } | undefined;
+      db.close();
+      link = caught ? /(https?:\/\/\S+\/reset-password\?token=\S+)/.exec(caught.text_body)?.[1] : undefined;
+      if (!link) await new Promise((r) => setTimeout(r, 250));
+    }
+    assert.ok(link, 'the reset link was mailed to her');
+    const url = new URL(link);
+    await page.goto(`${BASE_URL}${url.pathname}${url.search}`);
+    await page.getByLabel('New password', { exact: true }).fill('lantern-meadow-copper-17');
+    await page.getByRole('button', { name: 'Save the new password' }).click();
+    await page.getByRole('status').filter({ hasText: 'Your password is set' }).waitFor();
+    await signIn(page, email, 'lantern-meadow-copper-17');
+    await page.waitForURL((u) => u.pathname === '/infants');
     await page.context().close();
   });
 

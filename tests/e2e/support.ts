@@ -44,7 +44,7 @@ export async function newPage(browser: Browser, viewport: { width: number; heigh
 export async function signIn(page: Page, email: string, password = PASSWORD): Promise<void> {
   await page.goto(`${BASE_URL}/sign-in`);
   await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(password);
+  await page.getByLabel('Password', { exact: true }).fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
   await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
 }
