@@ -103,6 +103,7 @@ export function buildBoard(sqlite: Database.Database, unitId: string, now: Date)
       note: e.acknowledge_note,
       sentAt: e.mailed_at === null ? null : new Date(e.mailed_at).toISOString(),
       to: e.recipient ? (JSON.parse(e.recipient) as BoardEscalation['to']) : [],
+      recipient: e.recipient ? (JSON.parse(e.recipient) as BoardEscalation['to']) : [],
       severity: e.severity ?? 'urgent',
     });
     escalationsByInfant.set(e.infant_id, list);

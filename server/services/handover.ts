@@ -124,6 +124,7 @@ export function buildHandover(ctx: AppContext, infantId: string, now: Date): Han
       severity: f.severity,
       escalation: f.escalation ?? null,
       withdrawn: f.withdrawn ? { reason: f.withdrawn.reason, readingId: f.withdrawn.readingId } : null,
+      detail: f.detail,
     })),
     sessions: sessions.map((s) => ({
       id: s.id,

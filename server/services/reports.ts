@@ -45,7 +45,16 @@ export function unitWindow(sqlite: Database.Database, query: UnitRangeQuery): Un
   if (!unit) throw notFound('That unit');
   const [y, m, d] = query.to.split('-').map(Number);
   const next = new Date(Date.UTC(y!, m! - 1, d! + 1)).toISOString().slice(0, 10);
-  return { unit, fromMs: localMidnight(query.from, unit.time_zone), toMs: localMidnight(next, unit.time_zone) };
+  // A local date means midnight in the zone in force on that date: a later change of the unit's
+  // zone never moves the range of an earlier report.
+  const versions = loadPolicyVersions(dbOf(sqlite), unit.id);
+  const midnight = (date: string) => {
+    const guess = localMidnight(date, unit.time_zone);
+    const v = versionAt(versions, guess);
+    const zone = v ? resolvePolicy(v.policy).timeZone : unit.time_zone;
+    return zone === unit.time_zone ? guess : localMidnight(date, zone);
+  };
+  return { unit, fromMs: midnight(query.from), toMs: midnight(next) };
 }
 
 /**

@@ -22,6 +22,8 @@ export interface BoardEscalation {
   sentAt: string | null;
   /** Whom it reached. */
   to: EscalationSent['to'];
+  /** The same as `to` (the name the contract with the scenario tests uses). */
+  recipient: EscalationSent['to'];
   severity: Severity;
 }
 
@@ -92,6 +94,8 @@ export interface HandoverFlag {
   escalation?: EscalationSent | null;
   /** Set when a late entry or correction withdrew it. */
   withdrawn?: { reason: string; readingId: string | null } | null;
+  /** The rules' detail (a gap's direction: which reading is lower; a deviation's sign). */
+  detail?: Record<string, unknown>;
 }
 
 export interface HandoverInfant {
