@@ -11,29 +11,12 @@ import {
   type ReadingInput,
   type SessionInput,
 } from '../../../shared/thermal';
+import { readingAfter } from './reading-fixture';
 
 const t0 = new Date('2026-05-01T08:00:00Z');
 const at = (minutes: number) => new Date(t0.getTime() + minutes * 60_000);
 
-function reading(id: string, minutes: number, values: Partial<ReadingInput> = {}): ReadingInput {
-  return {
-    id,
-    takenAt: at(minutes),
-    probeCenti: null,
-    remoteCenti: null,
-    remoteSite: null,
-    airCenti: null,
-    setCenti: null,
-    controlMode: null,
-    heaterOutputPct: null,
-    heartRate: null,
-    heatSigns: [],
-    replacesId: null,
-    enteredInError: false,
-    recordedAt: at(minutes),
-    ...values,
-  };
-}
+const reading = (id: string, minutes: number, values: Partial<ReadingInput> = {}): ReadingInput => readingAfter(t0, id, minutes, values);
 
 /** A routine check: probe and axillary both charted, on skin servo. */
 function check(id: string, minutes: number, probeCenti: number, remoteCenti: number, extra: Partial<ReadingInput> = {}) {
