@@ -35,6 +35,9 @@ export default function Root({ children }: PropsWithChildren) {
         <meta charSet="utf-8" />
         <meta name="viewport" content="width=device-width, initial-scale=1, shrink-to-fit=no" />
         <meta name="theme-color" content="#1F4E5A" />
+        {/* Installable on a ward phone; the service worker (scripts/sw-template.js) opens it with no connection. */}
+        <link rel="manifest" href="/manifest.webmanifest" />
+        <link rel="apple-touch-icon" href="/icons/icon-192.png" />
         <script dangerouslySetInnerHTML={{ __html: THEME_CHOICE }} />
         {/* A bedside page starts its first reads now, while its scripts arrive (components/api/early-requests.ts). */}
         <script dangerouslySetInnerHTML={{ __html: earlyRequestScript(TOKEN_KEY, `${API_BASE}/api`) }} />

@@ -1,9 +1,10 @@
 import { QueryClientProvider } from '@tanstack/react-query';
 import { Slot } from 'expo-router';
 import Head from 'expo-router/head';
-import { useState } from 'react';
+import { useEffect, useState } from 'react';
 import { View } from 'react-native';
 import { makeQueryClient } from '@/components/api/query-client';
+import { registerServiceWorker } from '@/components/offline/service-worker';
 import { AuthProvider, useAuth } from '@/components/auth/auth-provider';
 import { ThemeProvider, useTheme } from '@/components/theme/theme-provider';
 import { useAppFonts } from '@/components/theme/use-app-fonts';
@@ -13,6 +14,8 @@ export default function RootLayout() {
   const [queryClient] = useState(makeQueryClient);
   // The fonts ship with the app; nothing is fetched from another host. On the web they never hold the first paint.
   const fontsLoaded = useAppFonts();
+  // The offline worker registers once the page has loaded and the browser is idle (off the first paint).
+  useEffect(registerServiceWorker, []);
   return (
     <QueryClientProvider client={queryClient}>
       <Head>

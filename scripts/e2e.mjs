@@ -30,6 +30,7 @@ function must(label, cmd, args) {
 
 if (!process.argv.includes('--no-build')) {
   must('web build', 'npx', ['expo', 'export', '--platform', 'web', '--output-dir', 'dist']);
+  must('service worker', 'npx', ['tsx', 'scripts/service-worker.ts', 'dist']);
   must('server build', 'npx', ['tsc', '-p', 'tsconfig.server.json']);
 }
 

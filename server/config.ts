@@ -40,6 +40,12 @@ const envSchema = z.object({
   TRUST_PROXY: z.string().default(''),
   LOG_REQUESTS: bool.default(true),
   BCRYPT_COST: z.coerce.number().int().min(10).max(15).default(10),
+  /**
+   * Serve HTTPS itself: the certificate (PEM, with its chain) and its private key (PEM). Both or
+   * neither; without them the server speaks HTTP and HTTPS is a proxy's job (README).
+   */
+  TLS_CERT_FILE: z.string().optional(),
+  TLS_KEY_FILE: z.string().optional(),
 });
 
 export interface AppConfig {
@@ -60,6 +66,8 @@ export interface AppConfig {
   bcryptCost: number;
   /** Express's `trust proxy`: false, or the proxies named in TRUST_PROXY. */
   trustProxy: false | string[];
+  /** The certificate and key files when the server speaks HTTPS itself; null for HTTP. */
+  tls: { certFile: string; keyFile: string } | null;
 }
 
 /** Read a secret kept in the data folder, or make one on first start. */
@@ -87,6 +95,18 @@ function parseTrustProxy(value: string): { list: false | string[]; problems: str
     problems.push(`TRUST_PROXY: "${entry}" is not an address, a CIDR range or one of loopback, linklocal, uniquelocal (name the proxy itself, never true or a number)`);
   }
   return { list: problems.length ? false : entries, problems };
+}
+
+/** TLS_CERT_FILE and TLS_KEY_FILE: both or neither, each a readable file. */
+function parseTls(certFile: string | undefined, keyFile: string | undefined): { tls: AppConfig['tls']; problems: string[] } {
+  if (!certFile && !keyFile) return { tls: null, problems: [] };
+  const problems: string[] = [];
+  if (!certFile) problems.push('TLS_CERT_FILE: set it with TLS_KEY_FILE (the certificate in PEM, with its chain), or unset both for HTTP');
+  if (!keyFile) problems.push('TLS_KEY_FILE: set it with TLS_CERT_FILE (the private key in PEM), or unset both for HTTP');
+  for (const [name, file] of [['TLS_CERT_FILE', certFile], ['TLS_KEY_FILE', keyFile]] as const) {
+    if (file && !fs.existsSync(file)) problems.push(`${name}: no file at ${file}`);
+  }
+  return problems.length ? { tls: null, problems } : { tls: { certFile: path.resolve(certFile!), keyFile: path.resolve(keyFile!) }, problems };
 }
 
 /** The configuration could not be used; `problems` says, one line each, which variable to set and how. */
@@ -131,7 +151,8 @@ export function loadConfig(env: Environment = process.env): AppConfig {
   }
   const e = parsed.data;
   const trust = parseTrustProxy(e.TRUST_PROXY);
-  const problems = [...trust.problems, ...(mode === 'production' ? productionProblems(env, e) : [])];
+  const tls = parseTls(e.TLS_CERT_FILE, e.TLS_KEY_FILE);
+  const problems = [...trust.problems, ...tls.problems, ...(mode === 'production' ? productionProblems(env, e) : [])];
   if (problems.length) throw new ConfigError(mode, problems);
   const demo = mode === 'demo';
   const dataDir = path.resolve(e.DATA_DIR);
@@ -144,13 +165,14 @@ export function loadConfig(env: Environment = process.env): AppConfig {
     jwtSecret: e.JWT_SECRET ?? persistentSecret(dataDir),
     jwtSecretGenerated: !e.JWT_SECRET,
     smtp: { host: e.SMTP_HOST, port: e.SMTP_PORT, fake: e.SMTP_FAKE ?? demo, user: e.SMTP_USER, pass: e.SMTP_PASS, from: e.MAIL_FROM },
-    publicUrl: (e.PUBLIC_URL ?? `http://localhost:${e.PORT}`).replace(/\/$/, ''),
+    publicUrl: (e.PUBLIC_URL ?? `${tls.tls ? 'https' : 'http'}://localhost:${e.PORT}`).replace(/\/$/, ''),
     corsOrigins: e.CORS_ORIGINS.split(',').map((s) => s.trim()).filter(Boolean),
     webDir: path.resolve(e.WEB_DIR),
     seedDemo: e.SEED_DEMO ?? demo,
     logRequests: e.LOG_REQUESTS,
     bcryptCost: e.BCRYPT_COST,
     trustProxy: trust.list,
+    tls: tls.tls,
   };
 }
 
@@ -172,6 +194,7 @@ export function testConfig(overrides: Partial<AppConfig> = {}): AppConfig {
     logRequests: false,
     bcryptCost: 10,
     trustProxy: false,
+    tls: null,
     ...overrides,
   };
 }

@@ -4,6 +4,7 @@ import { seedDemo, isEmpty } from '../db/seed';
 import { createApp } from './app';
 import { systemClock } from './clock';
 import { ConfigError, loadConfig } from './config';
+import { listen } from './listen';
 import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
 import { smtpMailer } from './mail/mailer';
 import { drainMailQueue } from './mail/queue';
@@ -49,9 +50,9 @@ async function main(): Promise<void> {
   await runEscalations(app.context, systemClock.now()).catch((err: unknown) => log(`escalations at start-up failed: ${String(err)}`));
   const scheduler = startScheduler(app.context, [escalationJob(process.env.ESCALATION_INTERVAL_SECONDS), weeklyDigestJob(), checkpoints.job]);
 
-  const server = app.listen(config.port, config.host, () => {
-    const { port } = server.address() as AddressInfo;
-    for (const line of startBanner(config, `http://localhost:${port}`, fake ? fake.port : null)) log(line);
+  const server = listen(app, config, (srv, scheme) => {
+    const { port } = srv.address() as AddressInfo;
+    for (const line of startBanner(config, `${scheme}://localhost:${port}`, fake ? fake.port : null)) log(line);
   });
 
   let closing = false;

@@ -92,7 +92,9 @@ export function serveWeb(app: Express, webDir: string): void {
     return;
   }
   // Hashed bundles never change; the HTML must always be fresh.
-  const cacheControl = (file: string) => (/[\\/]_expo[\\/]|[\\/]assets[\\/]/.test(file) ? 'public, max-age=31536000, immutable' : file.endsWith('.html') ? 'no-cache' : null);
+  // The service worker and the manifest are checked for a new build at every visit.
+  const cacheControl = (file: string) =>
+    /[\\/]_expo[\\/]|[\\/]assets[\\/]/.test(file) ? 'public, max-age=31536000, immutable' : /\.html$|[\\/]sw\.js$|\.webmanifest$/.test(file) ? 'no-cache' : null;
   const routes = htmlRoutes(webDir);
   const notFound = path.join(webDir, '+not-found.html');
   // Rewrite a page's path to its HTML file, so the precompressed and static handlers below serve it.

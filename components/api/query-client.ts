@@ -14,6 +14,9 @@ export function makeQueryClient(): QueryClient {
     defaultOptions: {
       queries: {
         staleTime: STALE.normal,
+        // Ask even when the browser says it is offline: the service worker answers from the last
+        // answer it kept, so an installed app opens its lists with no connection.
+        networkMode: 'offlineFirst',
         retry: (count, error) => {
           if (error instanceof ApiFailure && ['unauthorized', 'forbidden', 'not-found', 'invalid'].includes(error.problem.kind)) return false;
           return count < 2;

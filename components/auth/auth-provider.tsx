@@ -5,6 +5,7 @@ import { api, configureApi } from '../api/client';
 import { storage } from '../api/storage';
 import { afterNextPaint } from '../ui/after-next-paint';
 import { TOKEN_KEY, USER_KEY } from './session-keys';
+import { clearPatientData } from '@/components/offline/service-worker';
 
 
 interface AuthState {
@@ -54,6 +55,8 @@ export function AuthProvider({ children }: { children: ReactNode }) {
     storage.remove(USER_KEY);
     setUser(null);
     queryClient.clear();
+    // The service worker's stored API answers are patient data: they go with the session.
+    clearPatientData();
   }, [queryClient]);
 
   useEffect(() => {

@@ -5,10 +5,10 @@ import { Pressable, StyleSheet, useWindowDimensions, View } from 'react-native';
 import type { Flowsheet, FlowsheetReading, ReadingVersion } from '@/shared/types/bedside';
 import { useUser } from '@/components/auth/auth-provider';
 import { InfantExports } from '@/components/reports/infant-exports';
-import { useFlowsheetQuery } from '@/components/queries/infants';
+import { prefetchInfant, useFlowsheetQuery } from '@/components/queries/infants';
 import { useTheme } from '@/components/theme/theme-provider';
 import { WIDE_BREAKPOINT } from '@/components/theme/theme';
-import { useAfterFirstPaint } from '@/components/ui/after-next-paint';
+import { afterNextPaint, useAfterFirstPaint } from '@/components/ui/after-next-paint';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { Screen } from '@/components/ui/screen';
@@ -37,6 +37,7 @@ export function FlowsheetScreen({ infantId }: { infantId: string }) {
   const sheet = query.data;
   const queryClient = useQueryClient();
   useEffect(() => startPendingFlush(queryClient), [queryClient]);
+  useEffect(() => (canChart ? afterNextPaint(() => void prefetchInfant(queryClient, infantId)) : undefined), [canChart, queryClient, infantId]);
   return (
     <Screen
       title={sheet ? `${sheet.infant.bedLabel ?? ''} · ${sheet.infant.displayName}` : 'Flowsheet'}

@@ -1,4 +1,4 @@
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { useMutation, useQuery, useQueryClient, type QueryClient } from '@tanstack/react-query';
 import type { CorrectReadingInput, CreateActionInput, StartSessionInput } from '@/shared/schemas/bedside';
 import type { CreateReadingResult, Flowsheet, FlagAction, InfantDetail, InfantSummary, ReadingVersion, SessionRecord } from '@/shared/types/bedside';
 import { api, ApiFailure } from '@/components/api/client';
@@ -43,12 +43,22 @@ export function useUnitInfantsQuery(unitId: string | null = null, { enabled = tr
   });
 }
 
+const infantQuery = (id: string) => ({
+  queryKey: infantKeys.detail(id),
+  queryFn: ({ signal }: { signal: AbortSignal }) => api<InfantDetail>(`/infants/${enc(id)}`, { signal }),
+  staleTime: STALE.live,
+});
+
 export function useInfantQuery(id: string) {
-  return useQuery({
-    queryKey: infantKeys.detail(id),
-    queryFn: ({ signal }) => api<InfantDetail>(`/infants/${enc(id)}`, { signal }),
-    staleTime: STALE.live,
-  });
+  return useQuery(infantQuery(id));
+}
+
+/**
+ * Read the infant's record-form defaults ahead (from the flowsheet, after its first paint): the
+ * form then opens at once, and the offline worker keeps the answer so it opens with no connection.
+ */
+export function prefetchInfant(queryClient: QueryClient, id: string): Promise<void> {
+  return queryClient.prefetchQuery(infantQuery(id));
 }
 
 export function useFlowsheetQuery(id: string, hours: 12 | 24 | 72) {

@@ -8,6 +8,7 @@ import { useTheme } from '../theme/theme-provider';
 import { Icon } from '../ui/icon';
 import { Text } from '../ui/text';
 import { ConnectionBanner } from './connection-banner';
+import { UpdateBanner } from '../offline/update-banner';
 import { navItemsFor, type NavItem } from './nav-items';
 
 /** Bottom tabs on a phone, a side rail from 1024 px. */
@@ -45,6 +46,7 @@ export function AppShell({ children }: { children: ReactNode }) {
         </View>
         <View style={styles.main} role="main">
           <ConnectionBanner />
+          <UpdateBanner />
           {children}
         </View>
       </View>
@@ -54,6 +56,7 @@ export function AppShell({ children }: { children: ReactNode }) {
     <View style={[styles.narrowRoot, { backgroundColor: c.background }]}>
       <View style={styles.main} role="main">
         <ConnectionBanner />
+        <UpdateBanner />
         {children}
       </View>
       <View style={[styles.tabs, { backgroundColor: c.surface, borderTopColor: c.border }]} role="navigation" aria-label="Main">
