@@ -518,3 +518,54 @@ export const settings = sqliteTable('app_settings', {
     .notNull()
     .default(sql`(unixepoch() * 1000)`),
 });
+
+/**
+ * An empty bed being warmed for an expected admission, one row per event, never edited: `started`
+ * (heat source, control mode, set temperature, since when, whom the bed is for) and `ended`
+ * (the infant was admitted into it, or the warming was stopped). The bed's warming is its latest
+ * row when that row is `started`.
+ */
+export const bedWarmings = sqliteTable(
+  'bed_warmings',
+  {
+    id: text('id').primaryKey(),
+    unitId: unitRef(),
+    bedId: text('bed_id')
+      .notNull()
+      .references(() => beds.id),
+    event: text('event', { enum: ['started', 'ended'] }).notNull(),
+    heatSource: text('heat_source', { enum: ['radiant-warmer', 'incubator', 'convertible'] }),
+    controlMode: text('control_mode', { enum: ['skin-servo', 'air-servo', 'manual'] }),
+    setCenti: integer('set_centi'),
+    /** When the heat source was switched on (the clinical instant), for `started`. */
+    since: instant('since'),
+    /** Whom the bed is for, as the charge nurse wrote it (no more than a name or a note). */
+    expectedInfant: text('expected_infant'),
+    /** For `ended`: admitted or stopped; the infant admitted into the bed. */
+    endReason: text('end_reason', { enum: ['admitted', 'stopped'] }),
+    infantId: text('infant_id').references(() => infants.id),
+    enteredUnit: text('entered_unit', { enum: ['C', 'F'] }),
+    recordedBy: text('recorded_by').references(() => users.id),
+    createdAt: instant('created_at').notNull(),
+  },
+  (t) => [index('bed_warmings_bed').on(t.bedId, t.createdAt)],
+);
+
+/**
+ * The handover plan for one infant and shift, as written on the handover screen. Append-only: a
+ * new version is a new row; the latest row for (infant, shift date, shift) is the plan.
+ */
+export const handoverPlans = sqliteTable(
+  'handover_plans',
+  {
+    id: text('id').primaryKey(),
+    unitId: unitRef(),
+    infantId: infantRef(),
+    shiftDate: text('shift_date').notNull(),
+    shift: text('shift', { enum: ['day', 'night'] }).notNull(),
+    plan: text('plan').notNull(),
+    writtenBy: text('written_by').references(() => users.id),
+    createdAt: instant('created_at').notNull(),
+  },
+  (t) => [index('handover_plans_infant').on(t.infantId, t.shiftDate, t.shift, t.createdAt)],
+);

@@ -38,6 +38,8 @@ export const CHAINED: Readonly<Record<string, ChainedTable>> = {
   escalations: { key: ['id'], unit: 'unit_id', versions: [['id', 'flag_id', 'unit_id', 'escalated_at', 'mailed_at', 'acknowledged_at', 'acknowledged_by', 'acknowledge_note'], ['id', 'flag_id', 'unit_id', 'escalated_at', 'mailed_at', 'acknowledged_at', 'acknowledged_by', 'acknowledge_note', 'recipient', 'channel', 'severity']] },
   reviews: { key: ['id'], unit: 'unit_id', versions: [['id', 'flag_id', 'unit_id', 'reviewer_id', 'note', 'created_at']] },
   review_events: { key: ['id'], unit: 'unit_id', versions: [['id', 'flag_id', 'unit_id', 'review_id', 'event', 'note', 'version', 'actor_id', 'created_at']] },
+  bed_warmings: { key: ['id'], unit: 'unit_id', versions: [['id', 'unit_id', 'bed_id', 'event', 'heat_source', 'control_mode', 'set_centi', 'since', 'expected_infant', 'end_reason', 'infant_id', 'entered_unit', 'recorded_by', 'created_at']] },
+  handover_plans: { key: ['id'], unit: 'unit_id', versions: [['id', 'unit_id', 'infant_id', 'shift_date', 'shift', 'plan', 'written_by', 'created_at']] },
   uploads: { key: ['id'], unit: 'unit_id', versions: [['id', 'kind', 'unit_id', 'filename', 'stored_name', 'sha256', 'size_bytes', 'row_count', 'status', 'uploaded_by', 'created_at', 'imported_at']] },
 };
 

@@ -4,6 +4,8 @@ import { admissionsRouter } from './admissions';
 import { accountLinksRouter } from './account-links';
 import { adminRouter } from './admin';
 import { authRouter } from './auth';
+import { bedWarmingRouter } from './bed-warming';
+import { shiftWorkRouter } from './shift-work';
 import { bedsideRouter } from './bedside';
 import { escalationsRouter } from './escalations';
 import { handoverRouter } from './handover';
@@ -24,6 +26,8 @@ export function apiRouters(ctx: AppContext): Array<[string, Router]> {
     ['/', bedsideRouter(ctx)],
     ['/', unitBoardRouter(ctx)],
     ['/', admissionsRouter(ctx)],
+    ['/', bedWarmingRouter(ctx)],
+    ['/', shiftWorkRouter(ctx)],
     ['/', escalationsRouter(ctx)],
     ['/', handoverRouter(ctx)],
     ['/auth', accountLinksRouter(ctx)],

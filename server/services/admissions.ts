@@ -8,6 +8,7 @@ import type { AppContext } from '../context';
 import { badRequest, conflict, notFound } from '../errors';
 import { infants } from '../../db/schema';
 import { recordBedStay } from './bed-stays';
+import { endWarmingOnAdmission } from './bed-warming';
 import { loadUnitRow, syncFlags } from './flags';
 
 export interface InfantRow {
@@ -57,6 +58,8 @@ export function admitInfant(ctx: AppContext, unitId: string, input: AdmitInfant,
       })
       .run();
     recordBedStay(ctx.database.db, { id: randomUUID(), infantId: id, unitId, bedId: bed.id, event: 'admitted', at: now, recordedBy: actorId });
+    // A bed warmed for this admission stops being "warming": it now holds the infant.
+    const warming = endWarmingOnAdmission(ctx, unitId, bed.id, id, actorId, now);
     // The initial settings are charted as the first reading, so the flowsheet and rules see them.
     const readingId = randomUUID();
     sqlite
@@ -72,7 +75,7 @@ export function admitInfant(ctx: AppContext, unitId: string, input: AdmitInfant,
       entityType: 'infant',
       entityId: id,
       unitId,
-      after: { ...input, bedLabel: bed.label, setCenti, initialReadingId: readingId },
+      after: { ...input, bedLabel: bed.label, setCenti, initialReadingId: readingId, ...(warming ? { warmingId: warming.id } : {}) },
     });
     syncFlags(sqlite, id, now, actorId);
     return { id };
@@ -156,7 +159,7 @@ export function listAssignableNurses(ctx: AppContext, unitId: string): Array<{ i
   return ctx.database.sqlite
     .prepare(
       `SELECT u.id, u.name, u.role FROM users u JOIN user_units m ON m.user_id = u.id
-        WHERE m.unit_id = ? AND u.active = 1 AND u.role IN ('nurse', 'charge') ORDER BY u.name`,
+        WHERE m.unit_id = ? AND u.active = 1 AND u.password_hash IS NOT NULL AND u.role IN ('nurse', 'charge') ORDER BY u.name`,
     )
     .all(unitId) as Array<{ id: string; name: string; role: string }>;
 }
@@ -172,7 +175,7 @@ export function assignNurse(ctx: AppContext, unitId: string, input: Required<Ass
     const nurse = sqlite
       .prepare(
         `SELECT u.id, u.name FROM users u JOIN user_units m ON m.user_id = u.id
-          WHERE u.id = ? AND m.unit_id = ? AND u.active = 1 AND u.role IN ('nurse', 'charge')`,
+          WHERE u.id = ? AND m.unit_id = ? AND u.active = 1 AND u.password_hash IS NOT NULL AND u.role IN ('nurse', 'charge')`,
       )
       .get(input.nurseId, unitId) as { id: string; name: string } | undefined;
     if (!nurse) throw badRequest('Choose a nurse of this unit.', { nurseId: 'This person is not a nurse of this unit.' });

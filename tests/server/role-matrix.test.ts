@@ -54,6 +54,15 @@ const EXPECTED: Record<string, string> = {
   'GET /api/units/:unitId/nurses': 'FUFFN',
   'POST /api/units/:unitId/assignments': 'FUFFN',
   'POST /api/units/:unitId/infants': 'FUFFN',
+  'POST /api/units/:unitId/beds/:bedId/warming': 'FUFFN',
+  'POST /api/units/:unitId/beds/:bedId/warming/end': 'FUFFN',
+  // Beds warmed for the next admission: shown on the board to the clinical roles of the unit.
+  'GET /api/units/:unitId/warmings': 'UUUFN',
+  // Shift change: the plan per infant (charting roles write it), every nurse's infants in one step.
+  'GET /api/infants/:id/handover-plan': 'UUUFN',
+  'POST /api/infants/:id/handover-plan': 'UUFFN',
+  'GET /api/units/:unitId/handover-plans': 'FUFFN',
+  'POST /api/units/:unitId/assignments/bulk': 'FUFFN',
   'POST /api/infants/:id/move': 'FUFFN',
   'PATCH /api/infants/:id': 'FUFFN',
   'POST /api/infants/:id/discharge': 'FUFFN',
