@@ -50,3 +50,19 @@ export function useMyReviewNotesQuery({ enabled = true }: { enabled?: boolean } 
     staleTime: 5 * 60_000,
   });
 }
+
+/** Amend, withdraw or acknowledge a note, or close an item with no teaching point: every review view is refreshed. */
+export function useReviewActionMutation() {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: (action: { path: string; body?: object }) => api<unknown>(action.path, { method: 'POST', body: action.body ?? {} }),
+    onSuccess: () => client.invalidateQueries({ queryKey: reviewKeys.all() }),
+  });
+}
+
+export const reviewPaths = {
+  amend: (reviewId: string) => `/reviews/${encodeURIComponent(reviewId)}/amend`,
+  withdraw: (reviewId: string) => `/reviews/${encodeURIComponent(reviewId)}/withdraw`,
+  acknowledge: (reviewId: string) => `/reviews/${encodeURIComponent(reviewId)}/acknowledge`,
+  noTeachingPoint: (flagId: string) => `/review/items/${encodeURIComponent(flagId)}/no-teaching-point`,
+};

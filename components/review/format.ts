@@ -1,17 +1,18 @@
-import { formatTemperature } from '@/shared/thermal/units';
+import { formatTemperature, type TempUnit } from '@/shared/thermal/units';
+import { formatDayTime, type ClockSetting } from '../ui/format-time';
 
-/** "16 Nov 08:40" in the browser's zone, 24-hour. */
-export function shortDateTime(iso: string): string {
-  const d = new Date(iso);
-  return d.toLocaleString('en-GB', { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit', hour12: false });
+/** "16 Nov, 08:40" or "16 Nov, 8:40 AM" in the unit's zone (never the device's), on the viewer's clock. */
+export function shortDateTime(iso: string, timeZone: string, clock: ClockSetting): string {
+  return formatDayTime(iso, timeZone, clock);
 }
 
 export function minutesText(m: number | null): string {
   return m === null ? '—' : m < 90 ? `${m} min` : `${Math.floor(m / 60)} h ${m % 60} min`;
 }
 
-export function temp(centi: number | null): string {
-  return centi === null ? '—' : formatTemperature(centi, 'C');
+/** A temperature in the viewer's unit. */
+export function temp(centi: number | null, unit: TempUnit): string {
+  return centi === null ? '—' : formatTemperature(centi, unit);
 }
 
 /** YYYY-MM-DD of a local day `offset` days from today. */
@@ -20,3 +21,11 @@ export function localDay(offset = 0): string {
   d.setDate(d.getDate() + offset);
   return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
 }
+
+/** The review's own status in words (apart from the flag's lifecycle). */
+export const REVIEW_STATE_WORDS = {
+  unreviewed: 'To review',
+  noted: 'Noted, not yet read by the nurse',
+  acknowledged: 'Noted and read by the nurse',
+  'no-teaching-point': 'No teaching point',
+} as const;

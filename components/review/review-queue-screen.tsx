@@ -4,6 +4,8 @@ import { Pressable, StyleSheet, TextInput, View } from 'react-native';
 import type { ReviewQueueQuery } from '@/shared/schemas/review';
 import { REVIEW_KIND_LABELS, REVIEW_KINDS, type ReviewKind, type ReviewStatus } from '@/shared/vocabulary';
 import type { ReviewQueueItem } from '@/shared/types/review';
+import { problemOf } from '../api/client';
+import { useUser } from '../auth/auth-provider';
 import { ExportButtons } from '../reports/export-buttons';
 import { useReviewQueueQuery } from '../queries/review';
 import { TOUCH_TARGET } from '../theme/theme';
@@ -16,7 +18,7 @@ import { EmptyState, ErrorState, LoadingState } from '../ui/state-view';
 import { StatusBadge } from '../ui/status-badge';
 import { Text } from '../ui/text';
 import { DateRange, isDate } from './date-range';
-import { minutesText, shortDateTime } from './format';
+import { minutesText, REVIEW_STATE_WORDS, shortDateTime } from './format';
 
 type All = 'all';
 
@@ -31,7 +33,13 @@ export function ReviewQueueScreen() {
   const [search, setSearch] = useState('');
   // Pages after the first, by the cursor each one starts from; any filter change starts again.
   const [more, setMore] = useState<string[]>([]);
-  const rangeError = (range.from && !isDate(range.from)) || (range.to && !isDate(range.to)) ? 'Use dates as YYYY-MM-DD.' : undefined;
+  // A bad or reversed range is said under the dates and left out of the request; every other filter stays.
+  const rangeError =
+    (range.from && !isDate(range.from)) || (range.to && !isDate(range.to))
+      ? 'Use dates as YYYY-MM-DD.'
+      : range.from && range.to && range.from > range.to
+        ? 'The end date must not be before the start date.'
+        : undefined;
   const filters: Partial<ReviewQueueQuery> = {
     ...(unitId !== 'all' ? { unitId } : {}),
     ...(shift !== 'all' ? { shift } : {}),
@@ -51,6 +59,9 @@ export function ReviewQueueScreen() {
   const query = useReviewQueueQuery({ ...filters, limit: PAGE });
 
   const data = query.data;
+  // A field the server refused (a range among them) is shown beside its filter, not as a broken screen.
+  const problem = query.error ? problemOf(query.error) : null;
+  const fieldError = problem?.kind === 'invalid' ? (problem.fields.to ?? problem.fields.from) : undefined;
   return (
     <Screen
       title="Review queue"
@@ -69,7 +80,7 @@ export function ReviewQueueScreen() {
         {data && data.nurses.length ? (
           <Segmented label="Nurse" value={nurseId} onChange={setNurseId} options={[{ value: 'all', label: 'Any nurse' }, ...data.nurses.map((n) => ({ value: n.id, label: n.name }))]} />
         ) : null}
-        <DateRange from={range.from} to={range.to} onChange={setRange} error={rangeError} />
+        <DateRange from={range.from} to={range.to} onChange={setRange} error={rangeError ?? fieldError} />
         <SearchField value={search} onChange={setSearch} />
       </Card>
       <Card>
@@ -83,8 +94,10 @@ export function ReviewQueueScreen() {
           }}
         />
       </Card>
-      {query.error ? (
+      {query.error && !fieldError ? (
         <ErrorState error={query.error} onRetry={() => void query.refetch()} />
+      ) : fieldError ? (
+        <EmptyState title="Check the dates" message={fieldError} />
       ) : !data ? (
         <LoadingState label="Loading the review queue…" />
       ) : data.items.length === 0 ? (
@@ -148,8 +161,10 @@ function SearchField({ value, onChange }: { value: string; onChange: (v: string)
 
 function QueueRow({ item }: { item: ReviewQueueItem }) {
   const theme = useTheme();
+  const user = useUser();
+  const when = (iso: string) => shortDateTime(iso, item.timeZone, user.clock);
   const tone = item.kind === 'heat-stress' ? 'heat' : item.kind === 'gap' ? 'danger' : 'warning';
-  const label = `${REVIEW_KIND_LABELS[item.kind]}, ${item.infantName}, ${shortDateTime(item.raisedAt)}`;
+  const label = `${REVIEW_KIND_LABELS[item.kind]}, ${item.infantName}, ${when(item.raisedAt)}`;
   return (
     <Pressable
       role="link"
@@ -160,7 +175,7 @@ function QueueRow({ item }: { item: ReviewQueueItem }) {
       <View style={styles.rowTop}>
         <StatusBadge tone={tone} icon={item.kind === 'heat-stress' ? 'flame' : item.kind === 'gap' ? 'thermometer' : 'clock'} label={REVIEW_KIND_LABELS[item.kind]} />
         <StatusBadge tone="neutral" icon="clock" label={`${item.shift === 'night' ? 'Night' : 'Day'} shift`} />
-        {item.reviewCount ? <StatusBadge tone="ok" icon="check" label="Reviewed" /> : null}
+        {item.reviewState !== 'unreviewed' ? <StatusBadge tone="ok" icon="check" label={REVIEW_STATE_WORDS[item.reviewState]} /> : null}
       </View>
       <Text variant="bodyStrong">
         {item.infantName}
@@ -169,7 +184,7 @@ function QueueRow({ item }: { item: ReviewQueueItem }) {
       <Text style={item.withdrawn ? styles.struck : undefined}>{item.summary}</Text>
       {item.withdrawn ? <Text variant="caption">Withdrawn: the check was on time or the reading was corrected; not a late check.</Text> : null}
       <Text tone="muted" variant="caption">
-        Raised {shortDateTime(item.raisedAt)} · {item.nurse ? item.nurse.name : item.importedBy ? `imported by ${item.importedBy.name}, no nurse named` : 'nurse unknown'} · first action {minutesText(item.minutesToFirstAction)} · resolved{' '}
+        Raised {when(item.raisedAt)} · {item.nurse ? item.nurse.name : item.importedBy ? `imported by ${item.importedBy.name}, no nurse named` : 'nurse unknown'} · first action {minutesText(item.minutesToFirstAction)} · resolved{' '}
         {item.closedAt ? `after ${minutesText(item.minutesToResolution)}` : 'not yet'}
       </Text>
     </Pressable>

@@ -4,7 +4,15 @@ import { REVIEW_KIND_LABELS } from '../../shared/schemas/review';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { unitReport } from './reports';
+import { and, asc, eq } from 'drizzle-orm';
+import { userUnits, users } from '../../db/schema';
+import { dbOf } from './flag-lifecycle';
 import { localDateOf, reviewQueue } from './review';
+
+/** "16 Nov, 08:40" (or "16 Nov, 8:40 am") in the unit's zone, on the reader's clock: never UTC. */
+export function digestTime(iso: string, timeZone: string, clock: '12h' | '24h'): string {
+  return new Intl.DateTimeFormat('en-GB', { timeZone, day: 'numeric', month: 'short', hour: clock === '12h' ? 'numeric' : '2-digit', minute: '2-digit', hour12: clock === '12h' }).format(new Date(iso));
+}
 
 /** Monday 07:00 in each unit's own time zone. */
 export const DIGEST_WEEKDAY = 1;
@@ -39,15 +47,25 @@ export async function sendWeeklyDigests(ctx: AppContext, now: Date, options: { u
       const last = sqlite.prepare('SELECT value FROM app_settings WHERE key = ?').get(key) as { value: string } | undefined;
       if (last?.value === today) continue;
     }
-    const educators = sqlite
-      .prepare("SELECT u.email, u.name FROM users u JOIN user_units m ON m.user_id = u.id WHERE m.unit_id = ? AND u.role = 'educator' AND u.active = 1 ORDER BY u.name")
-      .all(unit.id) as Array<{ email: string; name: string }>;
+    const educators = dbOf(sqlite)
+      .select({ email: users.email, name: users.name, tempUnit: users.tempUnit, clock: users.clock })
+      .from(users)
+      .innerJoin(userUnits, eq(userUnits.userId, users.id))
+      .where(and(eq(userUnits.unitId, unit.id), eq(users.role, 'educator'), eq(users.active, true)))
+      .orderBy(asc(users.name))
+      .all();
     const from = addDays(today, -7);
     const to = addDays(today, -1);
     const report = unitReport(ctx, { unitId: unit.id, from, to }, options.actorId ?? null);
-    const open = reviewQueue(ctx, [unit.id], { unitId: unit.id, status: 'unreviewed', from, to }).items;
+    const openIn = (tempUnit: 'C' | 'F') => reviewQueue(ctx, [unit.id], { unitId: unit.id, status: 'unreviewed', from, to }, tempUnit).items;
+    const open = openIn('C');
     const all = report.responseTimes[0]!;
-    const lines = [
+    // Each educator reads the items' times in the unit's zone on her own clock, and temperatures in her own unit.
+    const itemLines = (tempUnit: 'C' | 'F', clock: '12h' | '24h') =>
+      openIn(tempUnit)
+        .slice(0, 20)
+        .map((i) => `  ${digestTime(i.raisedAt, unit.time_zone, clock)} · ${REVIEW_KIND_LABELS[i.kind]} · ${i.infantName} · ${i.shift} shift · ${i.nurse?.name ?? 'nurse unknown'} · ${i.summary}`);
+    const lines = (tempUnit: 'C' | 'F', clock: '12h' | '24h') => [
       `Weekly digest for ${unit.name}, ${from} to ${to}.`,
       '',
       `On-time remote-site checks: ${formatPercent(report.onTime.overall.rate)} (${report.onTime.overall.onTime} of ${report.onTime.overall.checks})`,
@@ -57,16 +75,16 @@ export async function sendWeeklyDigests(ctx: AppContext, now: Date, options: { u
       `Flag to resolution: median ${formatMinutes(all.toResolution.medianMinutes)}, 90th percentile ${formatMinutes(all.toResolution.p90Minutes)}`,
       `Skin-to-skin time with a deviation: ${formatPercent(report.skinToSkin.share)}`,
       '',
-      `Review items without a teaching note: ${open.length}`,
-      ...open.slice(0, 20).map((i) => `  ${i.raisedAt.slice(0, 16).replace('T', ' ')} UTC · ${REVIEW_KIND_LABELS[i.kind]} · ${i.infantName} · ${i.shift} shift · ${i.nurse?.name ?? 'nurse unknown'}`),
+      `Review items not yet reviewed: ${open.length} (times in the unit's time zone, ${unit.time_zone})`,
+      ...itemLines(tempUnit, clock),
       open.length > 20 ? `  …and ${open.length - 20} more.` : '',
       '',
       `Open the review queue: ${ctx.config.publicUrl}/review`,
-      'Percentiles are by nearest rank.',
+      'Medians are the middle value (for an even count, the mean of the two middle values); 90th percentiles are by nearest rank.',
     ].filter((l, i, a) => !(l === '' && a[i - 1] === ''));
     for (const educator of educators) {
       try {
-        await ctx.mailer.send({ to: [educator.email], subject: `Warmfold weekly digest: ${unit.name}, week to ${to}`, text: [`Hello ${educator.name},`, '', ...lines].join('\n') });
+        await ctx.mailer.send({ to: [educator.email], subject: `Warmfold weekly digest: ${unit.name}, week to ${to}`, text: [`Hello ${educator.name},`, '', ...lines(educator.tempUnit === 'F' ? 'F' : 'C', educator.clock === '12h' ? '12h' : '24h')].join('\n') });
         result.sent += 1;
       } catch (err) {
         ctx.log(`digest to ${educator.email} failed: ${String(err)}`);

@@ -157,6 +157,7 @@ function toItem(sqlite: Database.Database, row: FlagRow, status: ReviewStatusOf 
     kind: row.kind,
     unitId: row.unit_id,
     unitName: row.unit_name,
+    timeZone: row.time_zone,
     infantId: row.infant_id,
     infantName: row.infant_name,
     bedLabel: row.bed_label,

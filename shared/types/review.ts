@@ -42,6 +42,8 @@ export interface ReviewQueueItem {
   kind: ReviewKind;
   unitId: string;
   unitName: string;
+  /** The unit's IANA time zone: every time of the item is shown in it. */
+  timeZone: string;
   infantId: string;
   infantName: string;
   bedLabel: string | null;

@@ -180,7 +180,7 @@ describe('weekly digest', () => {
     const mails = env.mailer.sent.slice(sent);
     expect(mails.every((m) => m.to[0] === DEMO.educator)).toBe(true);
     expect(mails[0]!.text).toMatch(/On-time remote-site checks: \d+\.\d %/);
-    expect(mails[0]!.text).toMatch(/Review items without a teaching note: \d+/);
+    expect(mails[0]!.text).toMatch(/Review items not yet reviewed: \d+/);
     expect((await as(educator, 'post', '/api/admin/digest/send')).status).toBe(403);
   });
 

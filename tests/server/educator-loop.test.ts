@@ -7,6 +7,7 @@
 import request from 'supertest';
 import { median as referenceMedian } from 'simple-statistics';
 import { median, periodsOf } from '../../shared/reports';
+import { digestTime, sendWeeklyDigests } from '../../server/services/digest';
 import { count, DEMO, makeEnv, type TestEnv } from './helpers';
 
 let env: TestEnv;
@@ -213,5 +214,29 @@ describe('review text in the viewer’s unit', () => {
       expect(i.summary).not.toContain('°C');
     }
     await request(env.app).patch('/api/auth/me/preferences').set('Authorization', `Bearer ${educator}`).send({ tempUnit: 'C' });
+  });
+});
+
+describe('the weekly digest in the unit’s zone and the reader’s settings', () => {
+  it('formats a time in the unit’s zone on a 12- or 24-hour clock (13:05 UTC on 16 Nov 2026 is 08:05 in New York, EST = UTC−5, IANA tz database)', () => {
+    expect(digestTime('2026-11-16T13:05:00Z', 'America/New_York', '24h')).toBe('16 Nov, 08:05');
+    expect(digestTime('2026-11-16T13:05:00Z', 'America/New_York', '12h').toLowerCase()).toBe('16 nov, 8:05 am');
+    expect(digestTime('2026-07-16T13:05:00Z', 'Europe/London', '24h')).toBe('16 Jul, 14:05'); // BST = UTC+1
+  });
+
+  it('the e-mail names the zone, lists no UTC times, and shows °F to an educator who chose it', async () => {
+    await request(env.app).patch('/api/auth/me/preferences').set('Authorization', `Bearer ${educator}`).send({ tempUnit: 'F', clock: '12h' });
+    env.mailer.sent.length = 0;
+    await sendWeeklyDigests(env.app.context, new Date('2026-11-16T10:00:00Z'), { unitIds: ['unit-north'], force: true });
+    const mail = env.mailer.sent.find((m) => m.to.includes(DEMO.educator))!;
+    expect(mail.text).toContain("time zone, Europe/London");
+    expect(mail.text).not.toContain('UTC');
+    const itemLines = mail.text.split('\n').filter((l) => l.startsWith('  ') && l.includes(' shift · '));
+    expect(itemLines.length).toBeGreaterThan(0);
+    for (const l of itemLines) {
+      expect(l).toMatch(/^ {2}\d{1,2} \w{3}, \d{1,2}:\d{2} (am|pm|AM|PM) · /);
+      expect(l).not.toContain('°C');
+    }
+    await request(env.app).patch('/api/auth/me/preferences').set('Authorization', `Bearer ${educator}`).send({ tempUnit: 'C', clock: '24h' });
   });
 });
