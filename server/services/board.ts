@@ -84,8 +84,9 @@ export function buildBoard(sqlite: Database.Database, unitId: string, now: Date)
   }>;
   const nurses = prepared(
     sqlite,
+      // Only people who accepted their invitation (a password set): nobody else can be on shift.
       `SELECT u.id, u.name, u.role FROM users u JOIN user_units m ON m.user_id = u.id
-        WHERE m.unit_id = ? AND u.active = 1 AND u.role IN ('nurse', 'charge') ORDER BY u.name`,
+        WHERE m.unit_id = ? AND u.active = 1 AND u.password_hash IS NOT NULL AND u.role IN ('nurse', 'charge') ORDER BY u.name`,
     )
     .all(unitId) as Array<{ id: string; name: string; role: 'nurse' | 'charge' }>;
 

@@ -86,6 +86,11 @@ describe('bulk assignment at shift change', () => {
     const names = nurses.body.nurses.map((n: { name: string }) => n.name);
     expect(names).toContain('Kofi Mensah');
     expect(names).not.toContain('Rowan Pellew');
+    // The board's nurse filter lists the same people.
+    env.clock.advanceMinutes(1);
+    const board = await request(env.app).get('/api/units/unit-north/board').set(auth('charge'));
+    expect(board.body.nurses.map((n: { name: string }) => n.name)).not.toContain('Rowan Pellew');
+    expect(board.body.nurses.map((n: { name: string }) => n.name)).toContain('Kofi Mensah');
     // Nor can she be given infants before she has accepted.
     const give = await request(env.app).post('/api/units/unit-north/assignments/bulk').set(auth('charge')).send({ assignments: [{ nurseId: invited.body.user.id, infantIds: ['inf-ashgrove'] }] });
     expect(give.status).toBe(400);
