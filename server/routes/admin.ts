@@ -74,13 +74,15 @@ export function adminRouter(ctx: AppContext) {
     const day = input.dayShiftStart ?? (before.day_shift_start as string);
     const night = input.nightShiftStart ?? (before.night_shift_start as string);
     if (day >= night) throw badRequest('The night shift must start later in the day than the day shift.', { nightShiftStart: 'Must be later than the day shift start.' });
-    const entries = Object.entries(input).filter(([, v]) => v !== undefined);
+    // Settings the unit row has no column for live only in the settings versions.
+    const { escalationDelays, recheckSettleMinutes, ...columns } = input;
+    const entries = Object.entries(columns).filter(([, v]) => v !== undefined);
     sqlite
       .transaction(() => {
-        sqlite.prepare(`UPDATE units SET ${entries.map(([k]) => `${SETTING_COLUMNS[k]} = ?`).join(', ')} WHERE id = ?`).run(...entries.map(([, v]) => v as string | number), unitId);
+        if (entries.length) sqlite.prepare(`UPDATE units SET ${entries.map(([k]) => `${SETTING_COLUMNS[k]} = ?`).join(', ')} WHERE id = ?`).run(...entries.map(([, v]) => v as string | number | null), unitId);
         // Settings are versions: earlier judgements keep the settings in force when they were made.
         const after = loadUnitRow(sqlite, unitId)!;
-        recordUnitSettingsChange(sqlite, unitId, policyForUnit(before as unknown as UnitRow), policyForUnit(after), req.auth!.userId, ctx.clock.now());
+        recordUnitSettingsChange(sqlite, unitId, policyForUnit(before as unknown as UnitRow), policyForUnit(after), req.auth!.userId, ctx.clock.now(), { escalationDelays, recheckSettleMinutes });
         appendAudit(sqlite, { at: ctx.clock.now(), actorId: req.auth!.userId, action: 'unit-settings', entityType: 'unit', entityId: unitId, unitId, before, after: input });
       })
       .immediate();

@@ -269,13 +269,18 @@ export function recordUnitSettingsChange(
   after: UnitPolicy,
   actorId: string | null,
   now: Date,
+  changes: Partial<Pick<UnitPolicy, 'escalationDelays' | 'recheckSettleMinutes'>> = {},
 ): string | null {
   const db = dbOf(sqlite);
   const versions = loadPolicyVersions(db, unitId);
   const last = versions.length ? resolvePolicy(versions[versions.length - 1]!.policy) : null;
   const carried = Object.fromEntries(VERSION_ONLY_KEYS.map((k) => [k, last ? last[k] : before[k]])) as Partial<UnitPolicy>;
   const was = last ?? before;
-  const next = resolvePolicy({ ...after, ...carried });
+  const own: Partial<UnitPolicy> = {
+    ...(changes.recheckSettleMinutes !== undefined ? { recheckSettleMinutes: changes.recheckSettleMinutes } : {}),
+    ...(changes.escalationDelays ? { escalationDelays: { ...(carried.escalationDelays ?? {}), ...changes.escalationDelays } } : {}),
+  };
+  const next = resolvePolicy({ ...after, ...carried, ...own });
   if (JSON.stringify(resolvePolicy(was)) === JSON.stringify(next)) return null;
   return recordPolicyVersion(db, unitId, resolvePolicy({ ...before, ...carried }), next, actorId, now);
 }

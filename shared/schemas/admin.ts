@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { safeText } from './safe-text';
 import { ROLES } from '../roles';
 import { emailSchema } from './auth';
+import { SEVERITY_CLASSES, type SeverityClass } from '../thermal/severity';
 
 const name = safeText({ error: 'Enter a name.' }).min(2, 'Enter the full name.').max(120, 'That name is too long.');
 const unitIds = z.array(z.string().min(1).max(100)).max(20);
@@ -34,6 +35,14 @@ export const unitSettingsSchema = z
     escalationDelayMinutes: z.number({ error: 'Enter minutes.' }).int('Whole minutes.').min(1).max(240, 'At most 4 hours.').optional(),
     dayShiftStart: timeOfDay.optional(),
     nightShiftStart: timeOfDay.optional(),
+    /**
+     * Minutes each class of flag may stay open before it escalates (null: never), and the minutes
+     * after a first action before a recheck counts. Kept in the unit's settings versions.
+     */
+    escalationDelays: z
+      .partialRecord(z.enum(SEVERITY_CLASSES as [SeverityClass, ...SeverityClass[]], { error: 'Unknown kind of flag.' }), z.number({ error: 'Enter minutes.' }).int('Whole minutes.').min(0).max(240, 'At most 4 hours.').nullable())
+      .optional(),
+    recheckSettleMinutes: z.number({ error: 'Enter minutes.' }).int('Whole minutes.').min(0).max(30, 'At most the 30-minute recheck time.').optional(),
     /** Where escalations go when no charge nurse is assigned on the shift; null removes it. */
     escalationFallbackEmail: z.email({ error: 'Enter an e-mail address.' }).max(254, 'That address is too long.').nullable().optional(),
     timeZone: z
