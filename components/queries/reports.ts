@@ -14,3 +14,13 @@ export function useReportQuery(unitId: string | null, from: string, to: string) 
     staleTime: 60_000,
   });
 }
+
+/** Any other report of a unit and range (trends, comparison, per nurse, admission measure): asked only with valid dates. */
+export function useReportPartQuery<T>(path: string, params: Record<string, string | null | undefined>, enabled: boolean) {
+  return useQuery({
+    queryKey: [REPORTS_RQKEY_ROOT, path, params] as const,
+    queryFn: ({ signal }) => api<T>(`${path}${queryString(params)}`, { signal }),
+    enabled,
+    staleTime: 60_000,
+  });
+}

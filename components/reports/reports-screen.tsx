@@ -13,6 +13,7 @@ import { ErrorState, LoadingState } from '../ui/state-view';
 import { Text } from '../ui/text';
 import { ExportButtons } from './export-buttons';
 import { OnTimeChart } from './on-time-chart';
+import { AdmissionMeasureCard, CompareCard, MEDIAN_NOTE, NurseSummaryCard, TrendsCard } from './more-reports';
 import { ReportTableCard } from './report-table';
 
 /** On-time checks, gap rate, response times and skin-to-skin deviation for one unit and a date range. */
@@ -24,14 +25,17 @@ export function ReportsScreen() {
   useEffect(() => {
     if (!unitId && units[0]) setUnitId(units[0].id);
   }, [unitId, units]);
-  const valid = isDate(range.from) && isDate(range.to) && range.from <= range.to;
+  const datesOk = isDate(range.from) && isDate(range.to);
+  const valid = datesOk && range.from <= range.to;
+  const rangeError = !datesOk ? 'Use dates as YYYY-MM-DD.' : valid ? undefined : 'The end date must not be before the start date.';
+  const timeZone = user.units.find((u) => u.id === unitId)?.timeZone ?? 'UTC';
   const query = useReportQuery(valid ? unitId : null, range.from, range.to);
   const data = query.data;
   return (
     <Screen title="Reports" subtitle="On-time checks and response times" wide>
       <Card>
         {units.length > 1 ? <Segmented label="Unit" value={unitId} onChange={setUnitId} options={units.map((u) => ({ value: u.id, label: u.name }))} /> : null}
-        <DateRange from={range.from} to={range.to} onChange={setRange} error={valid ? undefined : 'Use dates as YYYY-MM-DD, the end not before the start.'} />
+        <DateRange from={range.from} to={range.to} onChange={setRange} error={rangeError} />
       </Card>
       {unitId && valid ? (
         <Card>
@@ -47,7 +51,7 @@ export function ReportsScreen() {
           <View style={styles.figures}>
             <Figure label="On-time remote-site checks" value={formatPercent(data.report.onTime.overall.rate)} detail={`${data.report.onTime.overall.onTime} of ${data.report.onTime.overall.checks}`} />
             <Figure label="Gap flags per 100 checks" value={data.report.gapRate.per100 === null ? '—' : data.report.gapRate.per100.toFixed(1)} detail={`${data.report.gapRate.gapFlags} gap flags`} />
-            <Figure label="Flag to first action (median / 90th)" value={`${formatMinutes(data.report.responseTimes[0]!.toFirstAction.medianMinutes)} / ${formatMinutes(data.report.responseTimes[0]!.toFirstAction.p90Minutes)}`} detail="nearest-rank percentiles" />
+            <Figure label="Flag to first action (median / 90th)" value={`${formatMinutes(data.report.responseTimes[0]!.toFirstAction.medianMinutes)} / ${formatMinutes(data.report.responseTimes[0]!.toFirstAction.p90Minutes)}`} detail="median: mean of the two middle values for an even count; 90th: nearest rank" />
             <Figure label="Skin-to-skin time with a deviation" value={formatPercent(data.report.skinToSkin.share)} detail={`${Math.round(data.report.skinToSkin.sessionMinutes)} min of sessions`} />
           </View>
           <Card>
@@ -58,8 +62,16 @@ export function ReportsScreen() {
             <ReportTableCard key={t.name} table={t} fileSuffix={`${range.from}-${range.to}`} />
           ))}
           <Text variant="caption" tone="muted">
-            A check is on time when taken no later than the unit&apos;s check interval after the one before it (or admission). Median and 90th percentile use the nearest-rank method: the value at rank ⌈P/100 × n⌉.
+            A check is on time when taken no later than the unit&apos;s check interval after the one before it (or admission). {MEDIAN_NOTE}
           </Text>
+          {unitId ? (
+            <>
+              <TrendsCard unitId={unitId} from={range.from} to={range.to} />
+              <CompareCard unitId={unitId} from={range.from} to={range.to} />
+              <NurseSummaryCard unitId={unitId} from={range.from} to={range.to} />
+              <AdmissionMeasureCard unitId={unitId} from={range.from} to={range.to} timeZone={timeZone} />
+            </>
+          ) : null}
         </>
       )}
     </Screen>
