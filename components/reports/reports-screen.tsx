@@ -19,6 +19,31 @@ import { ReportTableCard } from './report-table';
 /** On-time checks, gap rate, response times and skin-to-skin deviation for one unit and a date range. */
 export function ReportsScreen() {
   const user = useUser();
+  // The charge nurse sees the admission-temperature measure only (the rest is the educator's).
+  if (user.role === 'charge') return <AdmissionMeasureScreen />;
+  return <EducatorReports />;
+}
+
+function AdmissionMeasureScreen() {
+  const user = useUser();
+  const [unitId, setUnitId] = useState<string | null>(user.unitIds[0] ?? null);
+  const [range, setRange] = useState({ from: localDay(-90), to: localDay(0) });
+  const datesOk = isDate(range.from) && isDate(range.to);
+  const valid = datesOk && range.from <= range.to;
+  const timeZone = user.units.find((u) => u.id === unitId)?.timeZone ?? 'UTC';
+  return (
+    <Screen title="Admission temperature" subtitle="Infants born before 32 weeks" wide>
+      <Card>
+        {user.units.length > 1 ? <Segmented label="Unit" value={unitId} onChange={setUnitId} options={user.units.map((u) => ({ value: u.id, label: u.name }))} /> : null}
+        <DateRange from={range.from} to={range.to} onChange={setRange} error={!datesOk ? 'Use dates as YYYY-MM-DD.' : valid ? undefined : 'The end date must not be before the start date.'} />
+      </Card>
+      {unitId && valid ? <AdmissionMeasureCard unitId={unitId} from={range.from} to={range.to} timeZone={timeZone} /> : null}
+    </Screen>
+  );
+}
+
+function EducatorReports() {
+  const user = useUser();
   const units = useReviewQueueQuery({ status: 'all', from: '2999-01-01' }).data?.units ?? [];
   const [unitId, setUnitId] = useState<string | null>(user.unitIds[0] ?? null);
   const [range, setRange] = useState({ from: localDay(-7), to: localDay(0) });

@@ -23,7 +23,7 @@ export function navItemsFor(role: Role): NavItem[] {
     case 'nurse':
       return [ITEMS['/infants'], ITEMS['/board'], ITEMS['/handover'], ITEMS['/settings']];
     case 'charge':
-      return [ITEMS['/board'], { ...ITEMS['/infants'], label: 'Infants' }, ITEMS['/handover'], ITEMS['/settings']];
+      return [ITEMS['/board'], { ...ITEMS['/infants'], label: 'Infants' }, ITEMS['/handover'], { ...ITEMS['/reports'], label: 'Audit' }, ITEMS['/settings']];
     case 'educator':
       return [ITEMS['/review'], ITEMS['/reports'], ITEMS['/board'], ITEMS['/settings']];
     case 'admin':
