@@ -78,7 +78,7 @@ export function flagsCsv(items: ReviewQueueItem[], notes: ReviewNote[]): string 
     items.map((i) => [
       i.flagId, i.kind, i.unitName, i.infantName, i.bedLabel, i.raisedAt, i.shift, i.shiftDate, i.nurse?.name ?? null, i.importedBy?.name ?? null, i.summary,
       i.firstActionAt, i.closedAt, i.minutesToFirstAction, i.minutesToResolution, i.reviewCount,
-      (byFlag.get(i.flagId) ?? []).map((n) => `${n.createdAt.slice(0, 10)} ${n.reviewer.name}: ${n.note}`).join('\n') || null,
+      (byFlag.get(i.flagId) ?? []).map((n) => `${n.createdAt.slice(0, 10)} ${n.reviewer.name}: ${n.note}${n.version > 1 ? ` (amended, version ${n.version})` : ''}${n.withdrawn ? ' (withdrawn)' : ''}`).join('\n') || null,
     ]),
   );
 }

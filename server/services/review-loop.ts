@@ -5,7 +5,7 @@
  * apart from the flag's lifecycle (flag_events / flag_resolutions).
  */
 import { randomUUID } from 'node:crypto';
-import { and, asc, eq, inArray } from 'drizzle-orm';
+import { asc, eq, inArray } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/sqlite-core';
 import { reviewEvents, reviews, users } from '../../db/schema';
 import type { Db } from '../../db/client';
@@ -185,9 +185,4 @@ export function closeNoTeachingPoint(ctx: AppContext, flag: { id: string; unitId
   if (status.current > 0) throw conflict('This item has a teaching note; withdraw it first to close the item with no teaching point.');
   append(ctx, auth.userId, { flagId: flag.id, unitId: flag.unitId, reviewId: null, event: 'no-teaching-point', note: comment ?? null }, 'review-no-teaching-point');
   return reviewStatusOf(db, flag.id);
-}
-
-/** Whether any acknowledgement row exists for the note (used by tests of the append-only record). */
-export function acknowledgementsOf(db: Db, reviewId: string) {
-  return db.select().from(reviewEvents).where(and(eq(reviewEvents.reviewId, reviewId), eq(reviewEvents.event, 'acknowledged'))).all();
 }

@@ -131,6 +131,9 @@ describe('a teaching note, acknowledged, amended and withdrawn', () => {
     expect(item.body.item.reviewState).toBe('unreviewed');
     expect((await post(`/api/reviews/${reviewId}/withdraw`, educator)).status).toBe(409);
     expect((await post(`/api/reviews/${reviewId}/acknowledge`, nurse)).status).toBe(409);
+    // The flags CSV keeps the note, marked as amended and withdrawn.
+    const csv = await get('/api/exports/flags.csv?unitId=unit-north&kind=gap&status=all', educator);
+    expect(csv.text).toContain('humidity when the gap widens. (amended, version 2) (withdrawn)');
   });
 });
 
