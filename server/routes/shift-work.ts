@@ -2,6 +2,7 @@ import { bulkAssignSchema, handoverPlanSchema, type BulkAssign, type HandoverPla
 import type { AppContext } from '../context';
 import { allow, assertUnit, secureRouter } from '../middleware/access';
 import { valid, validate } from '../middleware/validate';
+import { auditListRead, auditRead } from '../read-audit';
 import { loadInfant } from '../services/admissions';
 import { bulkAssign, currentPlan, unitPlans, writePlan } from '../services/shift-work';
 
@@ -15,8 +16,11 @@ export function shiftWorkRouter(ctx: AppContext) {
     return infant;
   };
 
-  router.get('/infants/:id/handover-plan', allow(ctx, 'chart:read'), (req, res) => {
-    res.json({ plan: currentPlan(ctx, infantFor(req)) });
+  router.get('/infants/:id/handover-plan', allow(ctx, 'chart:read'), async (req, res) => {
+    const infant = infantFor(req);
+    const plan = currentPlan(ctx, infant);
+    if (plan) await auditRead(ctx.database.sqlite, { at: ctx.clock.now(), actorId: req.auth!.userId, action: 'chart-read', entityType: 'infant', entityId: infant.id, unitId: infant.unit_id, after: { view: 'handover-plan' } });
+    res.json({ plan });
   });
 
   router.post('/infants/:id/handover-plan', allow(ctx, 'chart:write'), validate('body', handoverPlanSchema), (req, res) => {
@@ -24,10 +28,12 @@ export function shiftWorkRouter(ctx: AppContext) {
     res.status(201).json({ plan: writePlan(ctx, infant, valid<HandoverPlanInput>(req, 'body').plan, req.auth!.userId) });
   });
 
-  router.get('/units/:unitId/handover-plans', allow(ctx, 'unit:manage'), (req, res) => {
+  router.get('/units/:unitId/handover-plans', allow(ctx, 'unit:manage'), async (req, res) => {
     const { unitId } = req.params as { unitId: string };
     assertUnit(req, unitId);
-    res.json({ plans: unitPlans(ctx, unitId) });
+    const plans = unitPlans(ctx, unitId);
+    await auditListRead(ctx.database.sqlite, { at: ctx.clock.now(), actorId: req.auth!.userId, view: 'handover-plans', infants: plans.map((p) => ({ infantId: p.infantId, unitId })) });
+    res.json({ plans });
   });
 
   router.post('/units/:unitId/assignments/bulk', allow(ctx, 'unit:manage'), (req, _res, next) => (assertUnit(req, (req.params as { unitId: string }).unitId), next()), validate('body', bulkAssignSchema), (req, res) => {

@@ -120,6 +120,16 @@ describe('list answers name the infants they returned', () => {
     expect(sorted(JSON.parse(fhirEvent!.after!).infantIds)).toEqual(sorted(NORTH_ADMITTED));
   });
 
+  it("the unit's handover plans name their infants", async () => {
+    const written = await request(env.app).post('/api/infants/inf-ashgrove/handover-plan').set('Authorization', `Bearer ${charge}`).send({ plan: 'Recheck the probe site at 14:00.' });
+    expect(written.status).toBe(201);
+    const mark = lastId();
+    const res = await get(charge, '/api/units/unit-north/handover-plans');
+    expect(res.status).toBe(200);
+    const [event] = eventsSince(mark).filter((e) => e.action === 'list-read');
+    expect(JSON.parse(event!.after!)).toEqual({ view: 'handover-plans', infantIds: ['inf-ashgrove'] });
+  });
+
   it('an answer that shows no infant writes no event', async () => {
     const mark = lastId();
     // The charge nurse has no infants assigned to herself in the demo.
