@@ -5,7 +5,11 @@ import { CompressedJson } from '../compressed-body';
 import { buildBoard } from './board';
 
 /** Every table the board reads. A write to any of them makes every cached board stale. */
-const BOARD_TABLES = ['units', 'beds', 'users', 'user_units', 'infants', 'assignments', 'readings', 'flags', 'flag_resolutions', 'actions', 'escalations', 'skin_to_skin_sessions'];
+const BOARD_TABLES = [
+  'units', 'beds', 'users', 'user_units', 'infants', 'assignments', 'readings', 'flags', 'flag_resolutions', 'actions', 'escalations', 'skin_to_skin_sessions',
+  // What the views read of the stored flag truth: the lifecycle, the check clocks, the settings versions.
+  'flag_events', 'infant_clocks', 'unit_policy_versions',
+];
 
 /**
  * How long a board may be served again when nothing was written: the rules also move with the
