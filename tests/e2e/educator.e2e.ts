@@ -69,6 +69,26 @@ describe('the educator’s loop', () => {
     assert.equal(await page.getByRole('radio', { name: 'Night' }).getAttribute('aria-checked'), 'true');
     await page.getByRole('link', { name: /, / }).first().waitFor();
     await shot(page, 'review-queue-reversed-range-phone');
+
+    // Reports on the phone: trends, the comparison, by nurse and the admission measure, the median said as such.
+    await page.goto(`${BASE_URL}/reports`);
+    await page.getByRole('heading', { name: 'Reports', level: 1 }).waitFor();
+    await page.getByText(/mean of the two middle values/).first().waitFor({ timeout: 30_000 });
+    for (const name of ['Trends', 'This range against the one before', 'By nurse', 'Temperature on admission, born before 32 weeks']) await page.getByRole('heading', { name }).waitFor({ timeout: 30_000 });
+    await page.getByRole('table', { name: 'Flags and reviews by nurse' }).getByRole('cell', { name: 'Nia Okafor' }).waitFor();
+    await shot(page, 'reports-more-phone');
+    await page.context().close();
+  });
+
+  it('the charge nurse opens the admission-temperature measure from Audit on her phone', async () => {
+    const page = await newPage(browser, PHONE);
+    await signIn(page, ACCOUNTS.charge);
+    await page.waitForURL((url) => url.pathname === '/board');
+    await page.getByRole('link', { name: 'Audit' }).first().click();
+    await page.getByRole('heading', { name: 'Admission temperature', level: 1 }).waitFor();
+    await page.getByRole('heading', { name: 'Temperature on admission, born before 32 weeks' }).waitFor();
+    await page.getByText(/ of \d+\)$/).first().waitFor({ timeout: 30_000 });
+    await shot(page, 'charge-admission-measure-phone');
     await page.context().close();
   });
 });
