@@ -166,13 +166,14 @@ function toItem(sqlite: Database.Database, row: FlagRow, status: ReviewStatusOf 
     shiftDate: slot.shiftDate,
     nurse,
     importedBy,
-    summary: summaryOf(row.kind, detail, unit),
+    // A withdrawn overdue check was on time after all: it never describes itself as late.
+    summary: row.how === 'withdrawn' && row.kind === 'overdue-check' ? 'Remote-site check charted on time (withdrawn)' : summaryOf(row.kind, detail, unit),
     firstActionAt: row.first_action_at === null ? null : new Date(row.first_action_at).toISOString(),
     closedAt: row.closed_at === null ? null : new Date(row.closed_at).toISOString(),
     // A late entry or correction showed it should not have been raised: never a late check.
     withdrawn: row.how === 'withdrawn',
     minutesToFirstAction: mins(row.first_action_at),
-    minutesToResolution: mins(row.closed_at),
+    minutesToResolution: row.how === 'withdrawn' ? null : mins(row.closed_at),
     reviewCount: status.current,
     lastReviewedAt: status.lastAt === null ? null : new Date(status.lastAt).toISOString(),
     reviewState: status.state,
