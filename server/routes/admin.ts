@@ -1,10 +1,11 @@
-import { bedActiveSchema, createBedSchema, createUserSchema, unitSettingsSchema, updateUserSchema, type CreateBedInput, type CreateUserInput, type UnitSettingsInput, type UpdateUserInput } from '../../shared/schemas/admin';
+import { auditQuerySchema, createBedSchema, createUnitSchema, createUserSchema, membershipSchema, unitSettingsConflicts, unitSettingsSchema, updateBedSchema, updateUserSchema, userSearchSchema, type AuditQuery, type CreateBedInput, type CreateUnitInput, type CreateUserInput, type MembershipInput, type UnitSettingsInput, type UpdateBedInput, type UpdateUserInput, type UserSearch } from '../../shared/schemas/admin';
 import { randomUUID } from 'node:crypto';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
-import { badRequest, conflict, notFound } from '../errors';
+import { badRequest, conflict, notFound, zodFields } from '../errors';
 import { allow, assertUnit, secureRouter } from '../middleware/access';
 import { valid, validate } from '../middleware/validate';
+import { addMembership, auditLog, createUnit, removeMembership, updateBed } from '../services/admin-console';
 import { createUser, listUnits, listUsers, sendLinkFor, setUserActive, updateUser } from '../services/admin-users';
 import { sendWeeklyDigests } from '../services/digest';
 import { mailLinkSafely } from '../services/email-links';
@@ -28,8 +29,27 @@ export function adminRouter(ctx: AppContext) {
   const router = secureRouter();
   const id = (req: { params: unknown }, name = 'id') => (req.params as Record<string, string>)[name]!;
 
-  router.get('/admin/users', allow(ctx, 'admin:manage'), (req, res) => {
-    res.json({ users: listUsers(ctx, req.auth!.unitIds) });
+  router.get('/admin/users', allow(ctx, 'admin:manage'), validate('query', userSearchSchema), (req, res) => {
+    res.json({ users: listUsers(ctx, req.auth!.unitIds, valid<UserSearch>(req, 'query').q) });
+  });
+
+  /** One unit membership added or removed; the person's other units stay as they are. */
+  router.post('/admin/users/:id/units', allow(ctx, 'admin:manage'), validate('body', membershipSchema), (req, res) => {
+    res.status(201).json({ unitIds: addMembership(ctx, id(req), valid<MembershipInput>(req, 'body').unitId, req.auth!) });
+  });
+
+  router.delete('/admin/users/:id/units/:unit', allow(ctx, 'admin:manage'), (req, res) => {
+    res.json({ unitIds: removeMembership(ctx, id(req), id(req, 'unit'), req.auth!) });
+  });
+
+  /** Who changed what in the administrator's units, newest first, by cursor. */
+  router.get('/admin/audit', allow(ctx, 'admin:manage'), validate('query', auditQuerySchema), (req, res) => {
+    res.json(auditLog(ctx, valid<AuditQuery>(req, 'query'), req.auth!));
+  });
+
+  router.post('/admin/units', allow(ctx, 'admin:manage'), validate('body', createUnitSchema), (req, res) => {
+    const { id: unitId } = createUnit(ctx, valid<CreateUnitInput>(req, 'body'), req.auth!);
+    res.status(201).json({ unit: listUnits(ctx, [unitId])[0] });
   });
 
   router.post('/admin/users', allow(ctx, 'admin:manage'), validate('body', createUserSchema), async (req, res) => {
@@ -64,16 +84,34 @@ export function adminRouter(ctx: AppContext) {
     res.json({ units: listUnits(ctx, req.auth!.unitIds) });
   });
 
-  router.patch('/admin/units/:id', allow(ctx, 'admin:manage'), validate('body', unitSettingsSchema), (req, res) => {
+  router.patch('/admin/units/:id', allow(ctx, 'admin:manage'), (req, res) => {
     const unitId = id(req);
     const { sqlite } = ctx.database;
     const before = sqlite.prepare('SELECT * FROM units WHERE id = ?').get(unitId) as Record<string, unknown> | undefined;
     if (!before) throw notFound('That unit');
     assertUnit(req, unitId);
-    const input = valid<UnitSettingsInput>(req, 'body');
-    const day = input.dayShiftStart ?? (before.day_shift_start as string);
-    const night = input.nightShiftStart ?? (before.night_shift_start as string);
-    if (day >= night) throw badRequest('The night shift must start later in the day than the day shift.', { nightShiftStart: 'Must be later than the day shift start.' });
+    // Each field's own checks and the checks across fields together, so every field at fault is named at once.
+    const parsed = unitSettingsSchema.safeParse(req.body ?? {});
+    const fields = parsed.success ? {} : zodFields(parsed.error);
+    const raw = (req.body ?? {}) as Record<string, unknown>;
+    const pick = <T,>(key: string, column: string): T => (key in raw && !(key in fields) ? raw[key] : before[column]) as T;
+    Object.assign(
+      fields,
+      Object.fromEntries(
+        Object.entries(
+          unitSettingsConflicts({
+            checkIntervalMinutes: pick('checkIntervalMinutes', 'check_interval_minutes'),
+            dueSoonMinutes: pick('dueSoonMinutes', 'due_soon_minutes'),
+            escalationDelayMinutes: pick('escalationDelayMinutes', 'escalation_delay_minutes'),
+            dayShiftStart: pick('dayShiftStart', 'day_shift_start'),
+            nightShiftStart: pick('nightShiftStart', 'night_shift_start'),
+          }),
+        ).filter(([k]) => !(k in fields)),
+      ),
+    );
+    const bad = Object.keys(fields);
+    if (bad.length || !parsed.success) throw badRequest(`${bad.length === 1 ? 'One setting needs' : `${bad.length} settings need`} attention: ${bad.join(', ')}.`, fields);
+    const input: UnitSettingsInput = parsed.data;
     // Settings the unit row has no column for live only in the settings versions.
     const { escalationDelays, recheckSettleMinutes, ...columns } = input;
     const entries = Object.entries(columns).filter(([, v]) => v !== undefined);
@@ -89,12 +127,20 @@ export function adminRouter(ctx: AppContext) {
     res.json({ unit: listUnits(ctx, [unitId])[0] });
   });
 
-  router.post('/admin/units/:id/beds', allow(ctx, 'admin:manage'), validate('body', createBedSchema), (req, res) => {
+  router.post('/admin/units/:id/beds', allow(ctx, 'admin:manage'), (req, res) => {
     const unitId = id(req);
     const { sqlite } = ctx.database;
     if (!sqlite.prepare('SELECT 1 FROM units WHERE id = ?').get(unitId)) throw notFound('That unit');
     assertUnit(req, unitId);
-    const { label } = valid<CreateBedInput>(req, 'body');
+    const parsed = createBedSchema.safeParse(req.body ?? {});
+    if (!parsed.success) {
+      // Name the bed and the reason, not only "some fields".
+      const fields = zodFields(parsed.error);
+      const given = (req.body as { label?: unknown } | undefined)?.label;
+      const which = typeof given === 'string' && given.trim() ? `Bed "${given.slice(0, 40)}"` : 'The bed label';
+      throw badRequest(`${which}: ${fields.label ?? Object.values(fields)[0]}`, fields);
+    }
+    const { label }: CreateBedInput = parsed.data;
     const bedId = randomUUID();
     sqlite
       .transaction(() => {
@@ -107,23 +153,9 @@ export function adminRouter(ctx: AppContext) {
     res.status(201).json({ bed: { id: bedId, label, active: true } });
   });
 
-  router.patch('/admin/beds/:id', allow(ctx, 'admin:manage'), validate('body', bedActiveSchema), (req, res) => {
-    const bedId = id(req);
-    const { sqlite } = ctx.database;
-    const bed = sqlite.prepare('SELECT id, unit_id, label, active FROM beds WHERE id = ?').get(bedId) as { id: string; unit_id: string; label: string; active: number } | undefined;
-    if (!bed) throw notFound('That bed');
-    assertUnit(req, bed.unit_id);
-    const { active } = valid<{ active: boolean }>(req, 'body');
-    if (!active && sqlite.prepare("SELECT 1 FROM infants WHERE bed_id = ? AND status = 'admitted'").get(bedId)) {
-      throw conflict('An infant is in this bed; move the infant first.', { active: 'An infant is in this bed.' });
-    }
-    sqlite
-      .transaction(() => {
-        sqlite.prepare('UPDATE beds SET active = ? WHERE id = ?').run(active ? 1 : 0, bedId);
-        appendAudit(sqlite, { at: ctx.clock.now(), actorId: req.auth!.userId, action: 'bed-updated', entityType: 'bed', entityId: bedId, unitId: bed.unit_id, before: { active: bed.active === 1 }, after: { active } });
-      })
-      .immediate();
-    res.json({ bed: { id: bedId, label: bed.label, active } });
+  /** Rename a bed, take it out of use or back, or move it up or down the unit's order. */
+  router.patch('/admin/beds/:id', allow(ctx, 'admin:manage'), validate('body', updateBedSchema), (req, res) => {
+    res.json({ bed: updateBed(ctx, id(req), valid<UpdateBedInput>(req, 'body'), req.auth!) });
   });
 
   /** The weekly digest, now, to the educators of the admin's units. */

@@ -9,6 +9,7 @@ import { badRequest, conflict, forbidden, notFound } from '../errors';
 import { eq } from 'drizzle-orm';
 import type { Database_ } from '../../db/client';
 import { units, userUnits, users } from '../../db/schema';
+import { lastSignIns } from './admin-console';
 import { revokeAllSessions } from './auth';
 import { issueLink, type IssuedLink } from './email-links';
 
@@ -44,13 +45,17 @@ export function toAdminUser(sqlite: Database.Database, row: UserRow, now: number
 }
 
 /** Users who share a unit with the admin, or belong to none yet. */
-export function listUsers(ctx: AppContext, adminUnits: string[]): AdminUser[] {
+export function listUsers(ctx: AppContext, adminUnits: string[], search?: string): AdminUser[] {
   const { sqlite } = ctx.database;
   const rows = sqlite.prepare('SELECT id, name, email, role, active, password_hash FROM users ORDER BY name').all() as UserRow[];
   const now = ctx.clock.now().getTime();
-  return rows
+  const needle = search?.trim().toLocaleLowerCase() ?? '';
+  const listed = rows
+    .filter((r) => !needle || r.name.toLocaleLowerCase().includes(needle) || r.email.toLocaleLowerCase().includes(needle))
     .map((r) => toAdminUser(sqlite, r, now, adminUnits))
     .filter((u) => u.unitIds.length === 0 || u.unitIds.some((id) => adminUnits.includes(id)));
+  const signIns = lastSignIns(ctx, listed.map((u) => u.id));
+  return listed.map((u) => ({ ...u, lastSignInAt: signIns.get(u.id) ?? null }));
 }
 
 function assertUnits(adminUnits: string[], unitIds: string[]): void {

@@ -11,6 +11,8 @@ export interface AdminUser {
   /** 'active': has a password; 'invited': an invitation is waiting; 'deactivated'. */
   status: 'active' | 'invited' | 'deactivated';
   inviteExpiresAt: string | null;
+  /** When the person last signed in (a session started), or null if never. */
+  lastSignInAt?: string | null;
   /** False when the person also works in a unit the signed-in administrator does not administer. */
   manageable: boolean;
 }
@@ -53,4 +55,25 @@ export interface ImportResult {
   created: number;
   skipped: number;
   alreadyImported: boolean;
+}
+
+/** One entry of the administrator's audit-log viewer; before and after never hold secrets. */
+export interface AuditEntry {
+  id: number;
+  at: string;
+  actorId: string | null;
+  actorName: string | null;
+  action: string;
+  entityType: string;
+  entityId: string | null;
+  unitId: string | null;
+  unitName: string | null;
+  before: unknown;
+  after: unknown;
+}
+
+export interface AuditPage {
+  events: AuditEntry[];
+  /** Pass as `cursor` for the next (older) page; null on the last page. */
+  nextCursor: number | null;
 }
