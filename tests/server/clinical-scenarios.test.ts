@@ -5,8 +5,9 @@
  * unit and the infant at hand.
  */
 import { runEscalations } from '../../server/services/escalations';
+import { sendWeeklyDigests } from '../../server/services/digest';
 import { evaluateModel } from '../reference/thermal-model';
-import { differences, modelView, Ward, type ViewState } from './clinical-views';
+import { differences, modelView, UNIT, Ward, type ViewState } from './clinical-views';
 import { makeEnv, type TestEnv } from './helpers';
 
 let env: TestEnv;
@@ -197,6 +198,16 @@ describe('the check clock knows the mode', () => {
     await expectViewsMatchModel(id);
   });
 
+  it('the gap says which reading is lower (common practice: in skin servo a low probe drives the heater up)', async () => {
+    const id = await admit();
+    await ward.chart(id, { probe: 36.1, remote: 36.8 });
+    const { mine, sheet } = await summaryFlags(id);
+    expect(mine.openFlags.find((f: any) => f.kind === 'gap').detail.direction).toBe('probe-lower');
+    expect(sheet.flags.find((f: any) => f.kind === 'gap' && f.status === 'open').detail.direction).toBe('probe-lower');
+    const handover = (await ward.ok('nurse', 'get', `/infants/${id}/handover`)).body.infants[0];
+    expect(JSON.stringify(handover.flags)).toMatch(/probe-lower|probe (is )?lower/i);
+  });
+
   it('a probe-only reading does not close a skin-to-skin flag raised on the remote site (IEC 60601-2-21:2020 scope note: a probe is not a body temperature)', async () => {
     const id = await admit();
     await ward.startSession(id, 36.8, 50);
@@ -209,5 +220,79 @@ describe('the check clock knows the mode', () => {
     ward.advance(10);
     await ward.chart(id, { probe: 36.8, remote: 36.9 });
     for (const v of await ward.views(id)) expect({ view: v.view, kinds: kindsIn(v) }).toEqual({ view: v.view, kinds: [] });
+  });
+});
+
+describe('late entries and settings', () => {
+  const today = () => new Intl.DateTimeFormat('en-CA', { timeZone: 'Europe/London' }).format(env.clock.now());
+  const report = async (from: string, to: string) => (await ward.ok('educator', 'get', `/reports?unitId=${UNIT}&from=${from}&to=${to}`)).body.report ?? (await ward.ok('educator', 'get', `/reports?unitId=${UNIT}&from=${from}&to=${to}`)).body;
+  const lateOf = (r: any) => r.onTime.overall.checks - r.onTime.overall.onTime;
+  const overdueFlagsOf = (r: any) => r.responseTimes.find((x: any) => x.kind === 'overdue-check')?.flags ?? 0;
+
+  it('a late-charted on-time check withdraws the overdue flag; the review queue and reports do not count it (common practice)', async () => {
+    const id = await admit();
+    await ward.chart(id, { probe: 36.8, remote: 36.8 });
+    const t0 = ward.now();
+    const before = await report(today(), today());
+    ward.advance(125);
+    await sweep();
+    const overdue = (await summaryFlags(id)).mine.openFlags.find((f: any) => f.kind === 'overdue-check');
+    expect(overdue).toBeDefined();
+    // The unit's other infants go overdue meanwhile too: compare at this instant, before and after the entry.
+    const withOverdue = await report(today(), today());
+    await ward.chart(id, { probe: 36.8, remote: 36.9 }, t0 + 115 * MIN);
+    const views = await expectViewsMatchModel(id);
+    for (const v of views) expect({ view: v.view, kinds: kindsIn(v) }).toEqual({ view: v.view, kinds: [] });
+    const sheet = (await summaryFlags(id)).sheet;
+    expect(sheet.flags.find((f: any) => f.id === overdue.id)).toMatchObject({ status: 'withdrawn', withdrawn: { reason: expect.any(String) } });
+    const queue = (await ward.ok('educator', 'get', `/review/queue?infantId=${id}`)).body.items;
+    const item = queue.find((i: any) => i.flagId === overdue.id);
+    if (item) expect(item).toMatchObject({ withdrawn: expect.anything() });
+    expect(JSON.stringify(queue)).not.toMatch(/min(utes)? late/);
+    const after = await report(today(), today());
+    expect(lateOf(after) - lateOf(before)).toBe(0);
+    expect(overdueFlagsOf(after)).toBeLessThanOrEqual(overdueFlagsOf(withOverdue));
+  });
+
+  it('changing the interval 120 → 90 or the time zone leaves last week\'s figures unchanged, and reports mark the change (common practice)', async () => {
+    const id = await admit();
+    const day = today();
+    // Checks 100 and 110 min apart: on time at 120, and some would be late at 90.
+    for (let i = 0; i < 8; i += 1) {
+      await ward.chart(id, { probe: 36.8, remote: 36.8 });
+      ward.advance(i % 2 ? 100 : 110);
+    }
+    ward.advance(24 * 60);
+    const before = await report(day, day);
+    await ward.setCheckInterval(90);
+    const changedAt = ward.now();
+    expect((await report(day, day)).onTime).toEqual(before.onTime);
+    ward.advance(1);
+    await ward.ok('admin', 'patch', `/admin/units/${UNIT}`, { timeZone: 'America/New_York' });
+    expect((await report(day, day)).onTime).toEqual(before.onTime);
+    ward.advance(1);
+    await ward.ok('admin', 'patch', `/admin/units/${UNIT}`, { timeZone: 'Europe/London' });
+    await ward.setCheckInterval(120);
+    const spanning = await report(day, today());
+    const marks = JSON.stringify(Object.entries(spanning).filter(([k]) => /setting|polic/i.test(k)));
+    expect(marks).toContain(new Date(changedAt).toISOString().slice(0, 16));
+  });
+
+  it('cold stress is in the review queue, the reports and the weekly digest (WHO 1997 via Miller 2011: 36.0–36.4 °C)', async () => {
+    const id = await admit();
+    const day = today();
+    const res = await ward.chart(id, { probe: 36.4, remote: 36.2 });
+    const cold = res.body.openFlags.find((f: any) => f.kind === 'cold-stress');
+    expect(cold).toMatchObject({ severity: 'caution' });
+    expect(cold.band ?? cold.detail.band).toBe('cold-stress');
+    await expectViewsMatchModel(id);
+    const queue = (await ward.ok('educator', 'get', `/review/queue?infantId=${id}`)).body.items;
+    expect(queue.map((i: any) => i.flagId)).toContain(cold.id);
+    const r = await report(day, day);
+    expect(r.responseTimes.find((x: any) => x.kind === 'cold-stress')?.flags).toBeGreaterThanOrEqual(1);
+    ward.advance(2 * 24 * 60);
+    env.mailer.sent = [];
+    await sendWeeklyDigests(env.app.context, env.clock.now(), { unitIds: [UNIT], force: true });
+    expect(env.mailer.sent.map((m) => m.text).join('\n')).toMatch(/cold stress/i);
   });
 });
