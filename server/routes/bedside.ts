@@ -17,7 +17,7 @@ import {
   type NewReadingRow,
 } from '../services/bedside';
 import { appendFlagEvent, dbOf } from '../services/flag-lifecycle';
-import { syncFlags } from '../services/flags';
+import { currentFlagIds, ruleKeyOf, syncFlags } from '../services/flags';
 import { nextCheckJson, openFlagJson } from '../services/summaries';
 
 type IdParams = { id: string };
@@ -28,7 +28,7 @@ export function bedsideRouter(ctx: AppContext) {
   const { sqlite } = ctx.database;
 
   const evaluationBody = (infantId: string, sync: ReturnType<typeof syncFlags>) => {
-    const ids = new Map((prepared(sqlite, 'SELECT id, key FROM flags WHERE infant_id = ?').all(infantId) as Array<{ id: string; key: string }>).map((f) => [f.key, f.id]));
+    const ids = currentFlagIds(sqlite, infantId);
     return {
       openFlags: sync.evaluation.openFlags.map((f) => openFlagJson(f, ids.get(f.key) ?? null, false)),
       nextCheck: nextCheckJson(sync.evaluation.nextCheck),
@@ -186,7 +186,7 @@ export function bedsideRouter(ctx: AppContext) {
       return { created: true, sync: syncFlags(sqlite, flag.infant_id, now, auth.userId) };
     });
     const a = same(loadAction()!);
-    const evaluated = result.sync.evaluation.flags.find((f) => f.key === flag.key);
+    const evaluated = result.sync.evaluation.flags.find((f) => f.key === ruleKeyOf(flag.key));
     res.status(result.created ? 201 : 200).json({
       action: { id: a.id, flagId: a.flag_id, kind: a.kind, note: a.note, at: new Date(a.at).toISOString(), recordedBy: { id: a.recorded_by, name: a.name } },
       created: result.created,

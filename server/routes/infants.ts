@@ -33,7 +33,7 @@ import {
   sessionAt,
   sessionJson,
 } from '../services/bedside';
-import { loadUnitRow, primeRuleReadings, syncFlags, type UnitRow } from '../services/flags';
+import { currentFlagIds, loadUnitRow, primeRuleReadings, syncFlags, type UnitRow } from '../services/flags';
 import { nextCheckJson, openFlagJson, summarizeInfants } from '../services/summaries';
 
 type IdParams = { id: string };
@@ -194,9 +194,7 @@ export function infantsRouter(ctx: AppContext) {
       return { created: true, sync: syncFlags(sqlite, infantId, now, auth.userId, { from: row.takenAt, excludeReadingId: row.id }) };
     });
     const stored = loadReading(sqlite, input.id)!;
-    const stored_ = new Map(
-      (prepared(sqlite, 'SELECT id, key FROM flags WHERE infant_id = ?').all(infantId) as Array<{ id: string; key: string }>).map((f) => [f.key, f.id]),
-    );
+    const stored_ = currentFlagIds(sqlite, infantId);
     const body: CreateReadingResult = {
       reading: readingJson(stored),
       created: result.created,

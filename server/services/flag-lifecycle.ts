@@ -6,7 +6,7 @@
  */
 import type Database from 'better-sqlite3';
 import { randomUUID } from 'node:crypto';
-import { and, asc, desc, eq, gt, isNotNull, lte } from 'drizzle-orm';
+import { and, asc, desc, eq, gt, isNotNull, lte, sql } from 'drizzle-orm';
 import { drizzle } from 'drizzle-orm/better-sqlite3';
 import * as schema from '../../db/schema';
 import { flagEvents, infantClocks, readings, unitPolicyVersions } from '../../db/schema';
@@ -72,7 +72,8 @@ export function loadPolicyVersions(db: Db, unitId: string): StoredPolicyVersion[
     .select({ id: unitPolicyVersions.id, effectiveFrom: unitPolicyVersions.effectiveFrom, settings: unitPolicyVersions.settings })
     .from(unitPolicyVersions)
     .where(eq(unitPolicyVersions.unitId, unitId))
-    .orderBy(asc(unitPolicyVersions.effectiveFrom), asc(unitPolicyVersions.createdAt))
+    // Versions made at the same instant keep the order they were made in (the last one wins).
+    .orderBy(asc(unitPolicyVersions.effectiveFrom), asc(unitPolicyVersions.createdAt), asc(sql`rowid`))
     .all()
     .map((v) => ({ id: v.id, effectiveFrom: v.effectiveFrom, policy: JSON.parse(v.settings) as Partial<UnitPolicy> }));
 }

@@ -71,13 +71,43 @@ export function loadUnitRow(sqlite: Database.Database, unitId: string): UnitRow 
   return prepared(sqlite, 'SELECT * FROM units WHERE id = ?').get(unitId) as UnitRow | undefined;
 }
 
+/**
+ * A flag the rules see again after it was withdrawn or closed (a correction, an entry in error)
+ * is stored as a new row continuing it: the rules' key with `#<n>` on the end (keys are unique
+ * per infant and resolutions are append-only, one per row). This gives the rules' key back.
+ */
+export function ruleKeyOf(storedKey: string): string {
+  const at = storedKey.lastIndexOf('#');
+  return at > 0 && /^\d+$/.test(storedKey.slice(at + 1)) ? storedKey.slice(0, at) : storedKey;
+}
+
+function reopeningOf(storedKey: string): number {
+  const at = storedKey.lastIndexOf('#');
+  return at > 0 && /^\d+$/.test(storedKey.slice(at + 1)) ? Number(storedKey.slice(at + 1)) : 0;
+}
+
+/** Each rule key's current stored row id (the latest reopening): for answers naming flag ids. */
+export function currentFlagIds(sqlite: Database.Database, infantId: string): Map<string, string> {
+  const rows = prepared(sqlite, 'SELECT id, key FROM flags WHERE infant_id = ?').all(infantId) as Array<{ id: string; key: string }>;
+  const best = new Map<string, { id: string; n: number }>();
+  for (const r of rows) {
+    const k = ruleKeyOf(r.key);
+    const n = reopeningOf(r.key);
+    const was = best.get(k);
+    if (!was || n > was.n) best.set(k, { id: r.id, n });
+  }
+  return new Map([...best].map(([k, v]) => [k, v.id]));
+}
+
 /** Shared and frozen: the rules only read a reading's signs. */
 const NO_SIGNS: HeatStressSign[] = Object.freeze([]) as unknown as HeatStressSign[];
 
 /** Turn stored rows into the rules' input. Every version is passed; the rules pick the current ones. */
-export function toRuleReading(r: ReadingRow) {
+export function toRuleReading(r: ReadingRow & { rowid_?: number }) {
   return {
     id: r.id,
+    // Readings with equal taken and recorded times keep the order they were stored in.
+    seq: r.rowid_,
     takenAt: new Date(r.taken_at),
     recordedAt: new Date(r.recorded_at),
     probeCenti: r.probe_centi,
@@ -151,8 +181,8 @@ const AT = Object.fromEntries(RULE_COLUMN_LIST.map((c, i) => [c, i])) as Record<
 export function loadInfantState(sqlite: Database.Database, infantId: string, since?: number): InfantState {
   const readings = (
     since === undefined
-      ? prepared(sqlite, `SELECT ${RULE_COLUMNS} FROM readings WHERE infant_id = ? ORDER BY taken_at, recorded_at`).all(infantId)
-      : prepared(sqlite, `SELECT ${RULE_COLUMNS} FROM readings WHERE infant_id = ? AND taken_at >= ? ORDER BY taken_at, recorded_at`).all(infantId, since)
+      ? prepared(sqlite, `SELECT rowid AS rowid_, ${RULE_COLUMNS} FROM readings WHERE infant_id = ? ORDER BY taken_at, recorded_at, rowid`).all(infantId)
+      : prepared(sqlite, `SELECT rowid AS rowid_, ${RULE_COLUMNS} FROM readings WHERE infant_id = ? AND taken_at >= ? ORDER BY taken_at, recorded_at, rowid`).all(infantId, since)
   ) as ReadingRow[];
   return loadStateWith(sqlite, infantId, readings.map(toRuleReading));
 }
@@ -207,7 +237,7 @@ function newRows(sqlite: Database.Database, infantId: string, afterRowid: number
 }
 
 /** The order of the query's ORDER BY taken_at, recorded_at. */
-const inRuleOrder = (a: CachedReading, b: CachedReading) => a.takenMs - b.takenMs || a.recordedMs - b.recordedMs;
+const inRuleOrder = (a: CachedReading, b: CachedReading) => a.takenMs - b.takenMs || a.recordedMs - b.recordedMs || a.rowid - b.rowid;
 
 /** `sorted` with `added` merged in; new readings almost always go on the end. Neither is changed. */
 function mergeInOrder(sorted: CachedReading[], added: CachedReading[]): CachedReading[] {
@@ -244,7 +274,7 @@ function loadStateWith(sqlite: Database.Database, infantId: string, readings: Ru
     .all(infantId) as Array<{ id: string; started_at: number; ended_at: number | null; reference_centi: number; limit_centi: number }>;
   return {
     readings,
-    actions: actions.map((a) => ({ id: a.id, flagKey: a.flag_key, kind: a.kind, at: new Date(a.at) })),
+    actions: actions.map((a) => ({ id: a.id, flagKey: ruleKeyOf(a.flag_key), kind: a.kind, at: new Date(a.at) })),
     sessions: sessions.map((s) => ({
       id: s.id,
       startedAt: new Date(s.started_at),
@@ -369,14 +399,34 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
   const evaluation = evaluateInfant(state, now, policy, versions);
   const stored = prepared(
     sqlite,
-    'SELECT f.id, f.key, f.kind, f.raised_at, f.raised_by_reading_id, f.detail, f.severity, r.flag_id AS resolved FROM flags f LEFT JOIN flag_resolutions r ON r.flag_id = f.id WHERE f.infant_id = ?',
-  ).all(infantId) as Array<{ id: string; key: string; kind: string; raised_at: number; raised_by_reading_id: string | null; detail: string; severity: Severity | null; resolved: string | null }>;
+    `SELECT f.id, f.key, f.kind, f.raised_at, f.raised_by_reading_id, f.detail, f.severity, r.flag_id AS resolved, r.how,
+            EXISTS (SELECT 1 FROM flag_events e WHERE e.flag_id = f.id AND e.event = 'withdrawn') AS withdrawn_event
+       FROM flags f LEFT JOIN flag_resolutions r ON r.flag_id = f.id WHERE f.infant_id = ?`,
+  ).all(infantId) as Array<{
+    id: string;
+    key: string;
+    kind: string;
+    raised_at: number;
+    raised_by_reading_id: string | null;
+    detail: string;
+    severity: Severity | null;
+    resolved: string | null;
+    how: string | null;
+    withdrawn_event: number;
+  }>;
   const previous = readClocks(db, infantId);
   const lastSeverity = new Map((previous ? (JSON.parse(previous.openFlags) as StoredOpenFlag[]) : []).map((f) => [f.flagId, f.severity]));
   const openNow: StoredOpenFlag[] = [];
   const event = (flagId: string, e: Omit<Parameters<typeof appendFlagEvent>[1], 'flagId' | 'infantId' | 'unitId' | 'now'>) =>
     appendFlagEvent(db, { flagId, infantId, unitId: infant.unit_id, now, actorId, ...e });
-  const byKey = new Map(stored.map((s) => [s.key, s]));
+  // Each rule key's current row: the latest reopening of it.
+  const byKey = new Map<string, (typeof stored)[number]>();
+  for (const row of stored) {
+    const k = ruleKeyOf(row.key);
+    const was = byKey.get(k);
+    if (!was || reopeningOf(row.key) > reopeningOf(was.key)) byKey.set(k, row);
+  }
+  const current = new Set([...byKey.values()].map((r) => r.id));
   const seen = new Set<string>();
   const raised: string[] = [];
   const closed: string[] = [];
@@ -397,17 +447,36 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
   for (const flag of evaluation.flags) {
     seen.add(flag.key);
     let row = byKey.get(flag.key);
+    // The rules see again a flag that was withdrawn, or see open one that was closed (the reading
+    // that closed it was corrected or entered in error): it is reopened as a new row continuing
+    // the old one, with a `reopened` event naming it. A discharge is never undone here.
+    let reopenedFrom: { id: string; key: string; how: string | null } | null = null;
+    if (
+      row?.resolved &&
+      infant.status !== 'discharged' &&
+      row.how !== 'discharged' &&
+      (row.how === 'withdrawn' || row.withdrawn_event === 1 || flag.status === 'open')
+    ) {
+      reopenedFrom = { id: row.id, key: row.key, how: row.withdrawn_event === 1 ? 'withdrawn' : row.how };
+      row = undefined;
+    }
     if (!row) {
       // A flag that opened and closed entirely in the past (a late entry) is still recorded.
       const id = randomUUID();
       const raisedUnder = policyAt(unit, versions, flag.raisedAt.getTime()).versionId;
       const severity = flag.severity;
       const detail = JSON.stringify(flag.detail ?? {});
-      insertFlag.run(id, infantId, infant.unit_id, flag.key, flag.kind, flag.raisedAt.getTime(), flag.raisedByReadingId, detail, severity, raisedUnder, now.getTime());
+      const storedKey = reopenedFrom ? `${flag.key}#${reopeningOf(reopenedFrom.key) + 1}` : flag.key;
+      insertFlag.run(id, infantId, infant.unit_id, storedKey, flag.kind, flag.raisedAt.getTime(), flag.raisedByReadingId, detail, severity, raisedUnder, now.getTime());
       appendAudit(sqlite, { at: now, actorId, action: 'flag-raised', entityType: 'flag', entityId: id, unitId: infant.unit_id, after: serializeFlag(flag) });
-      event(id, { event: 'raised', at: flag.raisedAt, readingId: flag.raisedByReadingId, severity, policyVersionId: raisedUnder, detail: flag.detail });
+      if (reopenedFrom) {
+        event(id, { event: 'reopened', at: now, readingId: flag.raisedByReadingId, severity, policyVersionId: raisedUnder, detail: { previousFlagId: reopenedFrom.id, was: reopenedFrom.how } });
+        appendAudit(sqlite, { at: now, actorId, action: 'flag-reopened', entityType: 'flag', entityId: id, unitId: infant.unit_id, after: { key: storedKey, previousFlagId: reopenedFrom.id, was: reopenedFrom.how } });
+      } else {
+        event(id, { event: 'raised', at: flag.raisedAt, readingId: flag.raisedByReadingId, severity, policyVersionId: raisedUnder, detail: flag.detail });
+      }
       raised.push(id);
-      row = { id, key: flag.key, kind: flag.kind, raised_at: flag.raisedAt.getTime(), raised_by_reading_id: flag.raisedByReadingId, detail, severity, resolved: null };
+      row = { id, key: storedKey, kind: flag.kind, raised_at: flag.raisedAt.getTime(), raised_by_reading_id: flag.raisedByReadingId, detail, severity, resolved: null, how: null, withdrawn_event: 0 };
       lastSeverity.set(id, severity);
     }
     if (flag.status === 'closed' && !row.resolved) {
@@ -432,7 +501,17 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
   // left). A windowed evaluation only speaks for flags raised inside its window; restartPoint
   // guarantees every open stored flag is, so this is a guard, not a behaviour.
   for (const row of stored) {
-    if (row.resolved || seen.has(row.key)) continue;
+    if (!current.has(row.id) || seen.has(ruleKeyOf(row.key))) continue;
+    if (row.resolved) {
+      // Closed, but the rules no longer see it at all: the reading that raised it was corrected
+      // away, so it should never have been raised. The closing stays; the flag is withdrawn.
+      if (row.how !== 'withdrawn' && row.how !== 'discharged' && row.withdrawn_event === 0 && (windowFrom === null || row.raised_at >= windowFrom)) {
+        const shownBy = row.raised_by_reading_id ? latestVersionOf(sqlite, row.raised_by_reading_id) : null;
+        event(row.id, { event: 'withdrawn', at: now, readingId: shownBy, detail: { reason: 'reading-corrected', readingId: shownBy } });
+        appendAudit(sqlite, { at: now, actorId, action: 'flag-withdrawn', entityType: 'flag', entityId: row.id, unitId: infant.unit_id, after: { key: row.key, reason: 'reading-corrected', readingId: shownBy } });
+      }
+      continue;
+    }
     if (windowFrom !== null && row.raised_at < windowFrom) {
       // Raised before the window: still open as far as the rules can tell; keep showing it.
       const kept = previous ? (JSON.parse(previous.openFlags) as StoredOpenFlag[]).find((f) => f.flagId === row.id) : undefined;
@@ -452,6 +531,18 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
   }
   writeClocks(db, { infantId, unitId: infant.unit_id, now, policy, policyVersionId: versionId, evaluation, openFlags: openNow, previous, windowed: windowFrom !== null });
   return { raised, closed, evaluation, windowFrom };
+}
+
+/** The latest version of a reading's correction chain (itself when never corrected). */
+function latestVersionOf(sqlite: Database.Database, readingId: string): string {
+  const next = prepared(sqlite, 'SELECT id FROM readings WHERE replaces_id = ?');
+  let id = readingId;
+  for (let i = 0; i < 100; i++) {
+    const row = next.get(id) as { id: string } | undefined;
+    if (!row) break;
+    id = row.id;
+  }
+  return id;
 }
 
 function severityOfRow(row: { kind: string; detail: string }): Severity {

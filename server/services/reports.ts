@@ -106,7 +106,10 @@ export function flagTimes(sqlite: Database.Database, w: UnitWindow): FlagTimes[]
       `SELECT f.kind, f.raised_at, (SELECT MIN(a.at) FROM actions a WHERE a.flag_id = f.id) AS first_action_at, fr.closed_at
          FROM flags f LEFT JOIN flag_resolutions fr ON fr.flag_id = f.id
         WHERE f.unit_id = ? AND f.raised_at >= ? AND f.raised_at < ? AND f.kind IN (${REPORT_KINDS.map((k) => `'${k}'`).join(', ')})
-          AND (fr.how IS NULL OR fr.how <> 'withdrawn')`,
+          AND (fr.how IS NULL OR fr.how <> 'withdrawn')
+          AND NOT EXISTS (SELECT 1 FROM flag_events e WHERE e.flag_id = f.id AND e.event = 'withdrawn')
+          -- a flag reopened later is counted once, as its continuing row
+          AND NOT EXISTS (SELECT 1 FROM flag_events e WHERE e.infant_id = f.infant_id AND e.event = 'reopened' AND json_extract(e.detail, '$.previousFlagId') = f.id)`,
     )
     .all(w.unit.id, w.fromMs, w.toMs) as Array<{ kind: string; raised_at: number; first_action_at: number | null; closed_at: number | null }>;
   return rows.map((r) => ({

@@ -63,7 +63,9 @@ function loadFlagRows(sqlite: Database.Database, unitIds: string[], flagId?: str
               CASE WHEN r.upload_id IS NULL THEN r.recorded_by ELSE r.taken_by END AS reading_by, ru.name AS reading_by_name, r.upload_id AS reading_upload_id,
               r.recorded_by AS reading_recorder, rec.name AS reading_recorder_name, i.hospital_number,
               (SELECT MIN(a.at) FROM actions a WHERE a.flag_id = f.id) AS first_action_at,
-              fr.closed_at, fr.how,
+              fr.closed_at,
+              -- A flag closed before its raising reading was corrected away was withdrawn later (an event).
+              CASE WHEN EXISTS (SELECT 1 FROM flag_events e WHERE e.flag_id = f.id AND e.event = 'withdrawn') THEN 'withdrawn' ELSE fr.how END AS how,
               (SELECT COUNT(*) FROM reviews v WHERE v.flag_id = f.id) AS review_count,
               (SELECT MAX(v.created_at) FROM reviews v WHERE v.flag_id = f.id) AS last_review_at
          FROM flags f

@@ -324,6 +324,8 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
  * newest first, with its actions, its current severity, its recheck clock, the escalation that
  * went out (if any) and, for a withdrawn flag, why and by which reading.
  */
+const SEVERITY_RANK: Record<string, number> = { critical: 0, urgent: 1, caution: 2 };
+
 export function storedFlowsheetFlags(sqlite: Database.Database, infantId: string, fromMs: number, now: Date): FlowsheetFlag[] {
   const db = dbOf(sqlite);
   const rows = db
@@ -376,7 +378,8 @@ export function storedFlowsheetFlags(sqlite: Database.Database, infantId: string
         id: r.id,
         key: r.key,
         kind: r.kind,
-        status: r.closedAt === null ? 'open' : r.how === 'withdrawn' ? 'withdrawn' : 'closed',
+        // A flag closed before its raising reading was corrected away is withdrawn too (an event).
+        status: r.closedAt === null ? 'open' : r.how === 'withdrawn' || w ? 'withdrawn' : 'closed',
         raisedAt: r.raisedAt.toISOString(),
         raisedByReadingId: r.raisedByReadingId,
         closedAt: iso(r.closedAt),
@@ -394,5 +397,7 @@ export function storedFlowsheetFlags(sqlite: Database.Database, infantId: string
           .map((a) => ({ id: a.id, flagId: a.flagId, kind: a.kind, note: a.note, at: a.at.toISOString(), recordedBy: { id: a.recordedBy, name: a.name } })),
       };
     })
-    .reverse();
+    .reverse()
+    // Open flags first in severity order, as on the board; then the rest, newest first (stable sort).
+    .sort((a, b) => (a.status === 'open' ? 0 : 1) - (b.status === 'open' ? 0 : 1) || (a.status === 'open' ? (SEVERITY_RANK[a.severity ?? 'urgent'] ?? 1) - (SEVERITY_RANK[b.severity ?? 'urgent'] ?? 1) : 0));
 }

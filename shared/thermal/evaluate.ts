@@ -52,6 +52,11 @@ export interface ReadingInput {
   /** A correction saying the reading it replaces should not have been charted at all. */
   readonly enteredInError: boolean;
   readonly recordedAt: Date;
+  /**
+   * The order in which the rows were stored (a database's row number), when known: readings taken
+   * and recorded at the same instant keep that order rather than one by id.
+   */
+  readonly seq?: number;
 }
 
 /** Something done about a flag (moved the probe, lowered the set temperature…). */
@@ -248,6 +253,12 @@ function compareIds(a: string, b: string): number {
   return a < b ? -1 : a > b ? 1 : 0;
 }
 
+/** Storing order when both rows carry one, else plain id order. */
+function bySeqThenId(a: ReadingInput, b: ReadingInput): number {
+  if (typeof a.seq === 'number' && typeof b.seq === 'number' && a.seq !== b.seq) return a.seq - b.seq;
+  return compareIds(a.id, b.id);
+}
+
 // ---------------------------------------------------------------------------------------------
 // Corrections
 // ---------------------------------------------------------------------------------------------
@@ -352,7 +363,7 @@ function currentVersions(readings: readonly ReadingInput[], nowMs: number): Curr
     if (
       other === undefined ||
       entry.recordedMs > other.recordedMs ||
-      (entry.recordedMs === other.recordedMs && entry.reading.id > other.reading.id)
+      (entry.recordedMs === other.recordedMs && bySeqThenId(other.reading, entry.reading) < 0)
     ) {
       tips.set(entry.rootId, entry);
     }
@@ -364,7 +375,7 @@ function currentVersions(readings: readonly ReadingInput[], nowMs: number): Curr
       (a, b) =>
         a.ms - b.ms ||
         a.recordedMs - b.recordedMs ||
-        compareIds(a.reading.id, b.reading.id),
+        bySeqThenId(a.reading, b.reading),
     );
 }
 
