@@ -14,6 +14,8 @@ import { TextField } from '@/components/ui/text-field';
 import type { AdmitForm, AssignNurseInput } from '@/shared/schemas/unit';
 import { CONTROL_MODE_LABELS, CONTROL_MODES, HEAT_SOURCE_LABELS, HEAT_SOURCES, INFANT_SEX_LABELS, INFANT_SEXES } from '@/shared/vocabulary';
 import type { BoardBed, BoardResponse } from '@/shared/types/board';
+import type { BedWarming } from '@/shared/schemas/warming';
+import { admitDefaultsFromWarming, WarmingForm } from '@/components/unit-shift/warming';
 
 const admitResolver = lazyZodResolver<AdmitForm>((m) => m.admitFormSchema);
 const assignResolver = lazyZodResolver<AssignNurseInput>((m) => m.assignNurseSchema);
@@ -23,25 +25,41 @@ export interface BedManagePanelProps {
   bed: BoardBed;
   tempUnit: 'C' | 'F';
   onClose: () => void;
+  /** The empty bed's warming for an admission, if any: the admission starts from its settings. */
+  warming?: BedWarming;
 }
 
 /** The charge nurse's work on one bed: admit to it when empty; otherwise reassign, move, change or discharge. */
-export function BedManagePanel({ board, bed, tempUnit, onClose }: BedManagePanelProps) {
+/** Shown in the board's dialog (components/ui/sheet.tsx), which carries the bed's name and Close. */
+export function BedManagePanel({ board, bed, tempUnit, onClose, warming }: BedManagePanelProps) {
+  const [warmingOpen, setWarmingOpen] = useState(false);
   return (
-    <Card style={styles.panel} role="region" aria-label={`Bed ${bed.label} actions`}>
-      <View style={styles.header}>
-        <Text variant="title">
-          Bed {bed.label}
-          {bed.infant ? ` · ${bed.infant.displayName}` : ' · empty'}
-        </Text>
-        <Button label="Close" variant="quiet" compact onPress={onClose} />
-      </View>
-      {bed.infant ? <OccupiedBed board={board} bed={bed} onDone={onClose} /> : <AdmitForm unitId={board.unit.id} bed={bed} tempUnit={tempUnit} onDone={onClose} />}
-    </Card>
+    <View style={styles.panel} role="region" aria-label={`Bed ${bed.label} actions`}>
+      {bed.infant ? (
+        <OccupiedBed board={board} bed={bed} onDone={onClose} />
+      ) : (
+        <>
+          <Card style={styles.form}>
+            <Text variant="title" aria-level={3}>
+              {warming ? 'Warming for an admission' : 'Warm this bed for an admission'}
+            </Text>
+            {warming || warmingOpen ? (
+              <WarmingForm unitId={board.unit.id} bedId={bed.bedId} bedLabel={bed.label} warming={warming} tempUnit={tempUnit} onDone={onClose} />
+            ) : (
+              <Button label={`Warm ${bed.label} for an admission`} icon="thermometer" variant="secondary" compact onPress={() => setWarmingOpen(true)} />
+            )}
+          </Card>
+          <Text variant="title" aria-level={3}>
+            Admit
+          </Text>
+          <AdmitForm unitId={board.unit.id} bed={bed} tempUnit={tempUnit} onDone={onClose} warming={warming} />
+        </>
+      )}
+    </View>
   );
 }
 
-function AdmitForm({ unitId, bed, tempUnit, onDone }: { unitId: string; bed: BoardBed; tempUnit: 'C' | 'F'; onDone: () => void }) {
+function AdmitForm({ unitId, bed, tempUnit, onDone, warming }: { unitId: string; bed: BoardBed; tempUnit: 'C' | 'F'; onDone: () => void; warming?: BedWarming }) {
   const admit = useAdmitInfantMutation(unitId);
   const today = new Date();
   const pad = (n: number) => String(n).padStart(2, '0');
@@ -59,6 +77,8 @@ function AdmitForm({ unitId, bed, tempUnit, onDone }: { unitId: string; bed: Boa
       setTemperature: '',
       hospitalNumber: '',
       sex: 'unknown',
+      // A bed warmed for this admission: its heat source, mode and set temperature.
+      ...admitDefaultsFromWarming(warming, tempUnit),
     },
   });
   const problem = admit.error ? problemOf(admit.error) : null;

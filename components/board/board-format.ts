@@ -22,13 +22,19 @@ export function clockSpan(totalSeconds: number): string {
   return h > 0 ? `${h}:${String(m).padStart(2, '0')}:${sec}` : `${m}:${sec}`;
 }
 
-/** The countdown to the next remote-site check at `nowMs`. */
+/** "55 min" or "2 h 05 min": a span in words, never a clock-like "55:33". */
+export function minutesWords(totalSeconds: number): string {
+  const m = Math.max(0, Math.floor(totalSeconds / 60));
+  return m < 60 ? `${m} min` : `${Math.floor(m / 60)} h ${String(m % 60).padStart(2, '0')} min`;
+}
+
+/** The countdown to the next check at `nowMs`, in words ("Overdue by 55 min"). */
 export function countdown(dueAt: string | null, nowMs: number, dueSoonMinutes: number): { text: string; tone: StatusTone; icon: IconName } {
   if (!dueAt) return { text: 'No check yet', tone: 'neutral', icon: 'clock' };
   const left = (Date.parse(dueAt) - nowMs) / 1000;
-  if (left < 0) return { text: `Overdue ${clockSpan(-left)}`, tone: 'danger', icon: 'alert' };
-  if (left <= dueSoonMinutes * 60) return { text: `Due in ${clockSpan(left)}`, tone: 'warning', icon: 'clock' };
-  return { text: `Check in ${clockSpan(left)}`, tone: 'ok', icon: 'check' };
+  if (left < 0) return { text: `Overdue by ${minutesWords(-left)}`, tone: 'danger', icon: 'alert' };
+  if (left <= dueSoonMinutes * 60) return { text: `Due in ${minutesWords(left)}`, tone: 'warning', icon: 'clock' };
+  return { text: `Check in ${minutesWords(left)}`, tone: 'ok', icon: 'check' };
 }
 
 /** "4 min ago", "2 h 10 min ago". */

@@ -1,6 +1,6 @@
-import { useMemo, useState } from 'react';
+import { useLayoutEffect, useRef, useState } from 'react';
 import { useRouter } from 'expo-router';
-import { StyleSheet, View, useWindowDimensions } from 'react-native';
+import { Platform, StyleSheet, View, useWindowDimensions } from 'react-native';
 import { problemOf } from '@/components/api/client';
 import { useUser } from '@/components/auth/auth-provider';
 import { useAcknowledgeEscalationMutation, useBoardQuery } from '@/components/queries/board';
@@ -10,12 +10,15 @@ import { Button } from '@/components/ui/button';
 import { Caution } from '@/components/ui/caution';
 import { Screen } from '@/components/ui/screen';
 import { Segmented } from '@/components/ui/segmented';
+import { Sheet } from '@/components/ui/sheet';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/state-view';
 import { Text } from '@/components/ui/text';
+import { BulkAssign } from '@/components/unit-shift/bulk-assign';
+import { useWarmingsQuery } from '@/components/unit-shift/queries';
 import { can } from '@/shared/roles';
 import type { BoardBed, BoardResponse } from '@/shared/types/board';
 import { BedManagePanel } from './bed-manage-panel';
-import { BoardTile } from './board-tile';
+import { BoardTile, type WallScale } from './board-tile';
 import { clockTime } from './board-format';
 import { useNow } from './use-now';
 
@@ -36,6 +39,23 @@ export function matchesFilters(bed: BoardBed, status: StatusFilter, nurseId: str
   return true;
 }
 
+const GAP = 12;
+
+/**
+ * The wall grid: as many columns as fit at the scale's narrowest tile, and tiles as tall as the
+ * rows left below the grid's top allow, so the whole unit is on one screen. Every tile has the same
+ * size (the last row's tiles do not stretch).
+ */
+export function wallGrid(count: number, width: number, height: number, windowWidth: number): { columns: number; tileWidth: number; tileHeight: number; scale: WallScale } {
+  const scale: WallScale = windowWidth >= 1800 ? 'large' : 'medium';
+  const minWidth = scale === 'large' ? 300 : 212;
+  const columns = Math.max(1, Math.min(count, Math.floor((width + GAP) / (minWidth + GAP))));
+  const rows = Math.max(1, Math.ceil(count / columns));
+  const tileWidth = Math.floor((width - GAP * (columns - 1)) / columns);
+  const tileHeight = Math.max(scale === 'large' ? 240 : 180, Math.floor((height - GAP * (rows - 1)) / rows));
+  return { columns, tileWidth, tileHeight, scale };
+}
+
 /** The unit board; at night (by the unit's shift) it turns dark unless the user chose a theme. */
 export function BoardScreen() {
   const user = useUser();
@@ -48,15 +68,29 @@ export function BoardScreen() {
 
 function BoardBody({ query }: { query: ReturnType<typeof useBoardQuery> }) {
   const user = useUser();
-  const { width } = useWindowDimensions();
+  const { width, height } = useWindowDimensions();
   const wide = width >= WIDE_BREAKPOINT;
   const [status, setStatus] = useState<StatusFilter>('all');
   const [nurseId, setNurseId] = useState('all');
+  const [filtersOpen, setFiltersOpen] = useState(false);
   const [managing, setManaging] = useState<string | null>(null);
+  const [shiftChange, setShiftChange] = useState(false);
   const acknowledge = useAcknowledgeEscalationMutation();
+  const warmings = useWarmingsQuery(user.unitIds[0] ?? null);
   const nowMs = useNow(query.data?.serverTime);
   const canManage = can(user.role, 'unit:manage');
   const router = useRouter();
+  const gridRef = useRef<View>(null);
+  const [area, setArea] = useState<{ top: number; width: number } | null>(null);
+
+  // Where the grid starts and how wide it is (the web only; a phone lists the beds in one column).
+  useLayoutEffect(() => {
+    if (Platform.OS !== 'web' || !wide || !gridRef.current) return;
+    const el = gridRef.current as unknown as HTMLElement;
+    const r = el.getBoundingClientRect();
+    const next = { top: Math.round(r.top + window.scrollY), width: Math.round(r.width) };
+    setArea((a) => (a && a.top === next.top && a.width === next.width ? a : next));
+  });
 
   if (user.unitIds.length === 0) return <EmptyState title="No unit" message="You are not a member of any unit yet." />;
   if (query.error && !query.data) return <ErrorState error={query.error} onRetry={() => void query.refetch()} />;
@@ -66,7 +100,29 @@ function BoardBody({ query }: { query: ReturnType<typeof useBoardQuery> }) {
   const beds = board.beds.filter((b) => matchesFilters(b, status, nurseId));
   const managed = managing ? board.beds.find((b) => b.bedId === managing) : undefined;
   const attention = board.beds.filter((b) => b.tier === 0).length;
-  const tileWidth = wide ? ('31%' as const) : ('100%' as const);
+  const warmingOf = new Map((warmings.data ?? []).map((w) => [w.bedId, w]));
+  const grid = wide && area ? wallGrid(beds.length, area.width, height - area.top - 16, width) : null;
+  const filtered = status !== 'all' || nurseId !== 'all';
+  const filterSummary = `${STATUS_OPTIONS.find((o) => o.value === status)!.label} · ${nurseId === 'all' ? 'everyone' : (board.nurses.find((n) => n.id === nurseId)?.name ?? 'one nurse')}`;
+
+  const filters = (
+    <View style={styles.filterBox}>
+      <Button
+        label={`Filters: ${filterSummary}`}
+        icon="list"
+        variant={filtered ? 'primary' : 'quiet'}
+        compact
+        aria-expanded={filtersOpen}
+        onPress={() => setFiltersOpen((o) => !o)}
+      />
+      {filtersOpen ? (
+        <View style={[styles.filters, wide && styles.filtersWide]}>
+          <Segmented label="Show" value={status} onChange={setStatus} options={STATUS_OPTIONS} />
+          <Segmented label="Nurse" value={nurseId} onChange={setNurseId} options={[{ value: 'all', label: 'Everyone' }, ...board.nurses.map((n) => ({ value: n.id, label: n.name }))]} />
+        </View>
+      ) : null}
+    </View>
+  );
 
   return (
     <Screen
@@ -75,25 +131,35 @@ function BoardBody({ query }: { query: ReturnType<typeof useBoardQuery> }) {
       subtitle={`${board.unit.name} · ${board.shift.shift === 'day' ? 'Day' : 'Night'} shift · ${attention} ${attention === 1 ? 'bed needs' : 'beds need'} attention · updated ${clockTime(board.serverTime, board.unit.timeZone, user.clock)}`}
       refreshing={query.isRefetching}
       onRefresh={() => void query.refetch()}
-      actions={canManage ? <Button label="Import readings" variant="secondary" icon="list" compact onPress={() => router.push('/readings-import')} /> : undefined}
+      actions={
+        canManage ? (
+          <View style={styles.actions}>
+            {wide ? filters : null}
+            <Button label="Shift change" variant="secondary" icon="users" compact onPress={() => setShiftChange(true)} />
+            <Button label="Import readings" variant="secondary" icon="list" compact onPress={() => router.push('/readings-import')} />
+          </View>
+        ) : wide ? (
+          filters
+        ) : undefined
+      }
     >
-      <View style={[styles.filters, wide && styles.filtersWide]}>
-        <Segmented label="Show" value={status} onChange={setStatus} options={STATUS_OPTIONS} />
-        <Segmented label="Nurse" value={nurseId} onChange={setNurseId} options={[{ value: 'all', label: 'Everyone' }, ...board.nurses.map((n) => ({ value: n.id, label: n.name }))]} />
-      </View>
-
       {acknowledge.error ? (
         <Text tone="danger" role="alert">
           {problemOf(acknowledge.error).message}
         </Text>
       ) : null}
 
-      {managed ? <BedManagePanel key={managed.bedId} board={board} bed={managed} tempUnit={user.tempUnit} onClose={() => setManaging(null)} /> : null}
+      <Sheet title={managed ? `Bed ${managed.label}${managed.infant ? ` · ${managed.infant.displayName}` : ' · empty'}` : ''} open={!!managed} onClose={() => setManaging(null)}>
+        {managed ? <BedManagePanel key={managed.bedId} board={board} bed={managed} warming={warmingOf.get(managed.bedId)} tempUnit={user.tempUnit} onClose={() => setManaging(null)} /> : null}
+      </Sheet>
+      <Sheet title="Shift change: each nurse's beds" open={shiftChange} onClose={() => setShiftChange(false)} wide>
+        {shiftChange ? <BulkAssign board={board} onDone={() => setShiftChange(false)} /> : null}
+      </Sheet>
 
       {beds.length === 0 ? (
         <EmptyState title="No beds match" message="Change the filters to see more beds." />
       ) : (
-        <View style={styles.grid} role="list" aria-label="Beds, most urgent first">
+        <View ref={gridRef} style={styles.grid} role="list" aria-label="Beds, most urgent first">
           {beds.map((bed) => (
             <BoardTile
               key={bed.bedId}
@@ -107,18 +173,25 @@ function BoardBody({ query }: { query: ReturnType<typeof useBoardQuery> }) {
               acknowledging={acknowledge.isPending ? (acknowledge.variables?.escalationId ?? null) : null}
               onManage={(b) => setManaging(b.bedId)}
               onAcknowledge={(escalationId) => acknowledge.mutate({ escalationId })}
-              width={tileWidth}
+              warming={warmingOf.get(bed.bedId)}
+              width={grid ? grid.tileWidth : '100%'}
+              height={grid ? grid.tileHeight : undefined}
+              scale={grid ? grid.scale : 'phone'}
             />
           ))}
         </View>
       )}
+      {/* On a phone the beds come first; the filters follow them. */}
+      {wide ? null : filters}
       <Caution />
     </Screen>
   );
 }
 
 const styles = StyleSheet.create({
+  filterBox: { gap: 12 },
   filters: { gap: 12 },
   filtersWide: { flexDirection: 'row', flexWrap: 'wrap', gap: 24 },
-  grid: { flexDirection: 'row', flexWrap: 'wrap', gap: 16 },
+  actions: { flexDirection: 'row', flexWrap: 'wrap', gap: 8, alignItems: 'flex-start' },
+  grid: { flexDirection: 'row', flexWrap: 'wrap', gap: GAP, alignItems: 'flex-start' },
 });

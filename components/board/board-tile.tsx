@@ -1,12 +1,14 @@
-import { StyleSheet, View } from 'react-native';
+import { StyleSheet, View, type TextStyle } from 'react-native';
 import { Button } from '@/components/ui/button';
 import { Icon } from '@/components/ui/icon';
 import type { ClockSetting } from '@/components/ui/format-time';
 import { StatusBadge } from '@/components/ui/status-badge';
 import { Text } from '@/components/ui/text';
 import { useTheme } from '@/components/theme/theme-provider';
+import { WarmingLine } from '@/components/unit-shift/warming';
 import { CONTROL_MODE_LABELS, HEAT_SOURCE_LABELS } from '@/shared/vocabulary';
 import { formatTemperature, type TempUnit } from '@/shared/thermal/units';
+import type { BedWarming } from '@/shared/schemas/warming';
 import type { BoardBed } from '@/shared/types/board';
 import { ageOf, clockTime, countdown } from './board-format';
 import { escalationLine, flagLook } from './flag-look';
@@ -23,6 +25,16 @@ export function clockCaption(infant: NonNullable<BoardBed['infant']>, clock: Clo
   return null;
 }
 
+/** How large the tile draws: a phone's list, a 1440-wide wall or a 1920-wide wall. */
+export type WallScale = 'phone' | 'medium' | 'large';
+
+/** Type sizes per scale: across the room at 1920x1080 the bed and countdown at 32 px or more, flag words at 20 px or more. */
+const SIZES: Record<WallScale, { bed: number; countdown: number; name: number; flag: number; line: number; icon: number }> = {
+  phone: { bed: 34, countdown: 34, name: 20, flag: 17, line: 15, icon: 26 },
+  medium: { bed: 24, countdown: 22, name: 16, flag: 15, line: 13, icon: 20 },
+  large: { bed: 38, countdown: 36, name: 22, flag: 21, line: 16, icon: 28 },
+};
+
 export interface BoardTileProps {
   bed: BoardBed;
   nowMs: number;
@@ -35,27 +47,37 @@ export interface BoardTileProps {
   onManage: (bed: BoardBed) => void;
   onAcknowledge: (escalationId: string) => void;
   width: number | `${number}%`;
+  /** A fixed height on the wall (every tile the same); the phone's list lets each tile be as tall as it needs. */
+  height?: number;
+  scale?: WallScale;
+  warming?: BedWarming;
 }
 
-/** One bed, readable from across the room: the countdown and the values in display type. */
-export function BoardTile({ bed, nowMs, tempUnit, timeZone, clock, dueSoonMinutes, canManage, acknowledging, onManage, onAcknowledge, width }: BoardTileProps) {
+/** One bed, readable from across the room: the bed, the countdown and the flags in display type. */
+export function BoardTile({ bed, nowMs, tempUnit, timeZone, clock, dueSoonMinutes, canManage, acknowledging, onManage, onAcknowledge, width, height, scale = 'phone', warming }: BoardTileProps) {
   const theme = useTheme();
   const c = theme.colors;
+  const size = SIZES[scale];
   const infant = bed.infant;
   const edge = bed.tier === 0 ? c.danger : bed.tier === 1 ? c.warning : c.border;
+  const box = { width, ...(height ? { height, overflow: 'hidden' as const } : null) };
+  const bedStyle: TextStyle = { fontSize: size.bed, lineHeight: Math.round(size.bed * 1.15) };
 
   if (!infant) {
     return (
       <View
         role="listitem"
-        style={[styles.tile, styles.empty, { width, borderColor: c.border, backgroundColor: c.background }]}
-        aria-label={`Bed ${bed.label}, empty`}
+        style={[styles.tile, styles.empty, box, { borderColor: warming ? c.warning : c.border, backgroundColor: c.background }]}
+        aria-label={`Bed ${bed.label}, empty${warming ? ', warming for an admission' : ''}`}
         testID={`bed-${bed.label}`}
       >
-        <Text variant="heading">{bed.label}</Text>
+        <Text variant="display" style={bedStyle} testID="bed-label">
+          {bed.label}
+        </Text>
         <Text tone="muted" variant="bodyStrong">
           Empty bed
         </Text>
+        {warming ? <WarmingLine warming={warming} tempUnit={tempUnit} timeZone={timeZone} clock={clock} nowMs={nowMs} /> : null}
         {canManage ? <Button label={`Admit to ${bed.label}`} icon="plus" variant="secondary" compact onPress={() => onManage(bed)} /> : null}
       </View>
     );
@@ -66,109 +88,103 @@ export function BoardTile({ bed, nowMs, tempUnit, timeZone, clock, dueSoonMinute
   const caption = clockCaption(infant, clock);
   const probe = infant.latest.probe;
   const remote = infant.latest.remote;
+  const dueColour = due.tone === 'danger' ? c.danger : due.tone === 'warning' ? c.warning : c.text;
+  const lineStyle: TextStyle = { fontSize: size.line, lineHeight: Math.round(size.line * 1.35) };
   return (
     <View
       role="listitem"
-      style={[styles.tile, { width, borderColor: edge, borderWidth: bed.tier <= 1 ? 4 : 2, backgroundColor: c.surface }]}
+      style={[styles.tile, box, { borderColor: edge, borderWidth: bed.tier <= 1 ? 4 : 2, backgroundColor: c.surface }]}
       aria-label={`Bed ${bed.label}, ${infant.displayName}`}
       testID={`bed-${bed.label}`}
     >
       <View style={styles.head}>
-        <Text variant="display" style={styles.bed}>
+        <Text variant="display" style={[styles.bed, bedStyle]} testID="bed-label">
           {bed.label}
         </Text>
-        <View style={styles.who}>
-          <Text variant="title" numberOfLines={1}>
-            {infant.displayName}
-          </Text>
-          <Text tone="muted" variant="label">
-            {infant.gestationWeeks}+{infant.gestationDays} wk · {infant.weightGrams} g
-          </Text>
+        <View style={styles.headEnd}>
+          {infant.assignedNurse ? null : <StatusBadge tone="warning" icon="users" label="No nurse assigned" />}
+          {canManage ? <Button label="Manage" variant="secondary" compact onPress={() => onManage(bed)} accessibilityLabel={`Manage bed ${bed.label}`} /> : null}
         </View>
+      </View>
+      <View style={styles.who}>
+        <Text variant="title" numberOfLines={1} style={{ fontSize: size.name, lineHeight: Math.round(size.name * 1.3) }}>
+          {infant.displayName}
+          {infant.assignedNurse ? <Text variant="label" tone="muted" style={lineStyle}>{`  · ${infant.assignedNurse.name}`}</Text> : null}
+        </Text>
       </View>
 
       <View style={[styles.countdown, { backgroundColor: due.tone === 'danger' ? c.dangerSoft : due.tone === 'warning' ? c.warningSoft : c.surfaceSunken }]}>
         {/* The word says the state; the icon and colour repeat it for a glance across the room. */}
-        <Icon name={due.icon} size={30} color={due.tone === 'danger' ? c.danger : due.tone === 'warning' ? c.warning : c.text} />
-        <Text variant="display" style={[styles.countdownText, { color: due.tone === 'danger' ? c.danger : due.tone === 'warning' ? c.warning : c.text }]} accessibilityLiveRegion="none">
+        <Icon name={due.icon} size={size.icon} color={dueColour} />
+        <Text
+          variant="display"
+          style={[styles.countdownText, { color: dueColour, fontSize: size.countdown, lineHeight: Math.round(size.countdown * 1.15) }]}
+          accessibilityLiveRegion="none"
+          testID="bed-countdown"
+        >
           {due.text}
         </Text>
       </View>
       {caption ? (
-        <Text variant="label" tone={due.tone === 'danger' ? 'danger' : 'muted'}>
+        <Text variant="label" tone={due.tone === 'danger' ? 'danger' : 'muted'} style={lineStyle}>
           {caption}
         </Text>
       ) : null}
 
-      <View style={styles.values}>
-        <View style={styles.value}>
-          <Text variant="caption" tone="muted">
-            Probe
-          </Text>
-          <Text variant="heading">{probe ? formatTemperature(probe.centi, tempUnit) : '—'}</Text>
-          <Text variant="caption" tone="muted">
-            {probe ? ageOf(probe.takenAt, nowMs) : 'none charted'}
-          </Text>
-        </View>
-        <View style={styles.value}>
-          <Text variant="caption" tone="muted">
-            Remote site{remote?.site ? ` (${remote.site})` : ''}
-          </Text>
-          <Text variant="heading">{remote ? formatTemperature(remote.centi, tempUnit) : '—'}</Text>
-          <Text variant="caption" tone="muted">
-            {remote ? ageOf(remote.takenAt, nowMs) : 'none charted'}
-          </Text>
-        </View>
-      </View>
-
-      <Text variant="label" tone="muted">
-        {HEAT_SOURCE_LABELS[infant.heatSource]} · {infant.controlMode ? CONTROL_MODE_LABELS[infant.controlMode] : 'mode not charted'}
-        {infant.setCenti !== null ? ` · set ${formatTemperature(infant.setCenti, tempUnit)}` : ''}
-      </Text>
-
-      <View style={styles.badges}>
-        {infant.openFlags.map((f) => {
-          const look = flagLook(f);
-          return <StatusBadge key={f.key} tone={look.tone} icon={look.icon} label={look.label} large />;
-        })}
-        {infant.skinToSkin ? <StatusBadge tone="together" icon="hands" label={`Skin-to-skin since ${clockTime(infant.skinToSkin.startedAt, timeZone, clock)}`} large /> : null}
-      </View>
-
+      {/* Before the flags: on a full wall tile the Acknowledge button must never be cut off. */}
       {/* Only an escalation that went out is shown: "escalated" must name whom it reached. */}
       {bed.escalations.filter((e) => e.sentAt).map((e) => (
         <View key={e.id} style={[styles.escalation, { borderColor: e.acknowledgedAt ? c.border : c.danger }]}>
-          <StatusBadge
-            tone={e.acknowledgedAt ? 'neutral' : 'danger'}
-            icon="bell"
-            label={`${flagLook({ kind: e.flagKind, severity: e.severity }).label}. ${escalationLine({ id: e.id, sentAt: e.sentAt!, to: e.to, how: 'email', acknowledgedAt: e.acknowledgedAt, acknowledgedBy: e.acknowledgedBy }, timeZone, clock)}`}
-          />
+          <Text variant="label" tone={e.acknowledgedAt ? 'muted' : 'danger'} style={[lineStyle, styles.escalationText]}>
+            {escalationLine({ id: e.id, sentAt: e.sentAt!, to: e.to, how: 'email', acknowledgedAt: e.acknowledgedAt, acknowledgedBy: e.acknowledgedBy }, timeZone, clock)}
+          </Text>
           {!e.acknowledgedAt && canManage ? (
             <Button label="Acknowledge" variant="danger" compact busy={acknowledging === e.id} onPress={() => onAcknowledge(e.id)} />
           ) : null}
         </View>
       ))}
 
-      <View style={styles.footer}>
-        <Text variant="label">
-          Nurse: <Text variant="bodyStrong">{infant.assignedNurse?.name ?? 'unassigned'}</Text>
-        </Text>
-        {canManage ? <Button label="Manage" variant="secondary" compact onPress={() => onManage(bed)} accessibilityLabel={`Manage bed ${bed.label}`} /> : null}
-      </View>
+      {infant.openFlags.length || infant.skinToSkin ? (
+        <View style={styles.flags}>
+          {infant.openFlags.map((f) => {
+            const look = flagLook(f);
+            const colour = look.tone === 'danger' ? c.danger : look.tone === 'warning' ? c.warning : c.text;
+            return (
+              <View key={f.key} style={styles.flag}>
+                <Icon name={look.icon} size={size.icon - 4} color={colour} />
+                <Text variant="bodyStrong" style={{ color: colour, fontSize: size.flag, lineHeight: Math.round(size.flag * 1.25), flexShrink: 1 }} testID="bed-flag">
+                  {look.label}
+                </Text>
+              </View>
+            );
+          })}
+          {infant.skinToSkin ? <StatusBadge tone="together" icon="hands" label={`Skin-to-skin since ${clockTime(infant.skinToSkin.startedAt, timeZone, clock)}`} large /> : null}
+        </View>
+      ) : null}
+
+      <Text variant="label" tone="muted" style={lineStyle}>
+        Probe {probe ? `${formatTemperature(probe.centi, tempUnit)} (${ageOf(probe.takenAt, nowMs)})` : 'none charted'} · remote site
+        {remote?.site ? ` (${remote.site})` : ''} {remote ? `${formatTemperature(remote.centi, tempUnit)} (${ageOf(remote.takenAt, nowMs)})` : 'none charted'}
+      </Text>
+      <Text variant="label" tone="muted" style={lineStyle}>
+        {infant.gestationWeeks}+{infant.gestationDays} wk · {infant.weightGrams} g · {HEAT_SOURCE_LABELS[infant.heatSource]} · {infant.controlMode ? CONTROL_MODE_LABELS[infant.controlMode] : 'mode not charted'}
+        {infant.setCenti !== null ? ` · set ${formatTemperature(infant.setCenti, tempUnit)}` : ''}
+      </Text>
     </View>
   );
 }
 
 const styles = StyleSheet.create({
-  tile: { borderRadius: 14, padding: 14, gap: 10, minWidth: 280, flexGrow: 1 },
-  empty: { borderWidth: 2, borderStyle: 'dashed', justifyContent: 'center', alignItems: 'flex-start', minHeight: 140 },
-  head: { flexDirection: 'row', alignItems: 'center', gap: 12 },
-  bed: { minWidth: 76 },
-  who: { flexShrink: 1, gap: 2 },
-  countdown: { borderRadius: 10, paddingHorizontal: 12, paddingVertical: 6, flexDirection: 'row', alignItems: 'center', gap: 10 },
+  tile: { borderRadius: 14, padding: 12, gap: 8 },
+  empty: { borderWidth: 2, borderStyle: 'dashed', justifyContent: 'flex-start', alignItems: 'flex-start', minHeight: 140 },
+  head: { flexDirection: 'row', alignItems: 'center', gap: 10 },
+  headEnd: { flex: 1, flexDirection: 'row', justifyContent: 'flex-end', alignItems: 'center', gap: 6, flexWrap: 'wrap' },
+  bed: { minWidth: 56 },
+  who: { minWidth: 0 },
+  countdown: { borderRadius: 10, paddingHorizontal: 10, paddingVertical: 4, flexDirection: 'row', alignItems: 'center', gap: 10 },
   countdownText: { flexShrink: 1 },
-  values: { flexDirection: 'row', gap: 16 },
-  value: { flex: 1, gap: 0 },
-  badges: { flexDirection: 'row', flexWrap: 'wrap', gap: 6 },
-  escalation: { borderWidth: 2, borderRadius: 10, padding: 8, gap: 8, flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', justifyContent: 'space-between' },
-  footer: { flexDirection: 'row', alignItems: 'center', justifyContent: 'space-between', gap: 8, flexWrap: 'wrap' },
+  flags: { gap: 4 },
+  flag: { flexDirection: 'row', alignItems: 'center', gap: 6 },
+  escalation: { borderWidth: 2, borderRadius: 10, padding: 6, gap: 6, flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', justifyContent: 'space-between' },
+  escalationText: { flexShrink: 1 },
 });

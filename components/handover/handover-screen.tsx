@@ -9,6 +9,12 @@ import { EmptyState, ErrorState, LoadingState } from '@/components/ui/state-view
 import type { HandoverResponse } from '@/shared/types/board';
 import { HandoverActions } from './handover-actions';
 import { HandoverView } from './handover-view';
+import { Text } from '@/components/ui/text';
+import { formatDayTime } from '@/components/ui/format-time';
+import { HandoverPlanField } from '@/components/unit-shift/handover-plan';
+import { PrintPage, PrintPageStyle } from '@/components/unit-shift/print-page';
+import { useUnitPlansQuery } from '@/components/unit-shift/queries';
+import { UnitSummary } from '@/components/unit-shift/unit-summary';
 import { NoPrint } from './no-print';
 import { PrintStyle } from './print-style';
 
@@ -19,14 +25,18 @@ function HandoverBody({
   title,
   emptyMessage,
   choice = null,
+  summary = false,
 }: {
   query: { data?: HandoverResponse; error: unknown; refetch: () => unknown; isRefetching: boolean };
   title: string;
   emptyMessage: string;
   /** Shown above the handover, and while it loads. */
   choice?: ReactNode;
+  /** The unit handover starts with a one-page summary of every bed. */
+  summary?: boolean;
 }) {
   const user = useUser();
+  const plans = useUnitPlansQuery(summary ? (user.unitIds[0] ?? null) : null);
   if (query.error && !query.data) {
     return (
       <Screen title={title}>
@@ -44,13 +54,29 @@ function HandoverBody({
     );
   }
   const { infants } = query.data;
+  const zone = infants[0]?.timeZone ?? Intl.DateTimeFormat().resolvedOptions().timeZone;
+  // On every printed page: when and by whom it was printed.
+  const printedAt = new Date().toISOString();
+  const printed = `printed at ${formatDayTime(printedAt, zone, user.clock).replace(/^(.*), (.*)$/, '$2 on $1')} by ${user.name}`;
   return (
     <Screen title={title} subtitle="The last 12 hours" actions={<HandoverActions infantIds={infants.map((h) => h.infant.id)} />} refreshing={query.isRefetching} onRefresh={() => void query.refetch()}>
       <PrintStyle />
       {choice}
       {infants.length === 0 ? <EmptyState title="Nothing to hand over" message={emptyMessage} /> : null}
-      {infants.map((h) => (
-        <HandoverView key={h.infant.id} handover={h} tempUnit={user.tempUnit} timeZone={h.timeZone} clock={user.clock} />
+      <PrintPageStyle />
+      {summary && infants.length ? (
+        <PrintPage first header={`Unit summary · ${infants.length} infants · ${printed}`}>
+          <Text variant="heading" role="heading" aria-level={2}>
+            Unit summary
+          </Text>
+          <UnitSummary handovers={infants} plans={plans.data ?? []} tempUnit={user.tempUnit} timeZone={zone} clock={user.clock} nowMs={Date.parse(query.data.generatedAt)} />
+        </PrintPage>
+      ) : null}
+      {infants.map((h, i) => (
+        <PrintPage key={h.infant.id} first={!summary && i === 0} header={`${h.infant.bedLabel ?? '—'} · ${h.infant.displayName} · ${printed}`}>
+          <HandoverView handover={h} tempUnit={user.tempUnit} timeZone={h.timeZone} clock={user.clock} />
+          <HandoverPlanField infantId={h.infant.id} canWrite={can(user.role, 'chart:write')} />
+        </PrintPage>
       ))}
       <Caution />
     </Screen>
@@ -76,7 +102,7 @@ export function MyHandoverScreen() {
     </NoPrint>
   ) : null;
   return scope === 'unit' && canHandOverUnit ? (
-    <HandoverBody query={unit} title="Unit handover" emptyMessage="No infants are admitted to the unit." choice={choice} />
+    <HandoverBody query={unit} title="Unit handover" emptyMessage="No infants are admitted to the unit." choice={choice} summary />
   ) : (
     <HandoverBody query={mine} title="My handover" emptyMessage="No infants are assigned to you this shift." choice={choice} />
   );

@@ -76,6 +76,10 @@ describe('keyboard alone (Chromium)', () => {
     await page.getByRole('heading', { name: 'Unit board', level: 1 }).waitFor();
     await page.locator('[data-testid^="bed-"]').first().waitFor();
 
+    // The filters fold away behind one button: Tab to it and open it with Enter.
+    await tabTo(page, (f) => f.role === 'button' && f.name.startsWith('Filters'), 'the Filters button');
+    await page.keyboard.press('Enter');
+    await page.getByRole('radiogroup', { name: 'Show' }).waitFor();
     // The filters are one radio group: Tab reaches it once, at the chosen filter, and the arrow
     // keys move the choice (and the focus with it) to "Needs attention".
     const first = await tabTo(page, (f) => f.role === 'radio', 'the board filters');
