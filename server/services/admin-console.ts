@@ -88,7 +88,7 @@ export function updateBed(ctx: AppContext, bedId: string, input: UpdateBedInput,
     .transaction(() => {
       if (input.label !== undefined && input.label !== bed.label) {
         if (db.select({ id: beds.id }).from(beds).where(and(eq(beds.unitId, bed.unitId), eq(beds.label, input.label))).get()) {
-          throw conflict(`Bed ${input.label}: this unit already has a bed with this label.`, { label: `Bed ${input.label}: this unit already has a bed with this label.` });
+          throw conflict(`Bed ${input.label}: this unit already has a bed with this label.`, { label: 'This unit already has a bed with this label.' });
         }
       }
       const set: Partial<typeof beds.$inferInsert> = {};

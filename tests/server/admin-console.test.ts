@@ -137,7 +137,8 @@ describe('beds and units', () => {
     const [first, second] = bedsOf('unit-north');
     const taken = await as(admin, 'patch', `/api/admin/beds/${first!.id}`, { label: second!.label });
     expect(taken.status).toBe(409);
-    expect(taken.body.error.fields.label).toContain(second!.label);
+    expect(taken.body.error.message).toContain(`Bed ${second!.label}:`);
+    expect(taken.body.error.fields.label).toMatch(/already has a bed/);
     const res = await as(admin, 'patch', `/api/admin/beds/${first!.id}`, { label: 'N-Window' });
     expect(res.status).toBe(200);
     expect(bedsOf('unit-north')[0]!.label).toBe('N-Window');
