@@ -17,6 +17,7 @@ import {
   type NewReadingRow,
 } from '../services/bedside';
 import { appendFlagEvent, dbOf } from '../services/flag-lifecycle';
+import { escalateAfterWrite } from '../services/escalations';
 import { currentFlagIds, ruleKeyOf, syncFlags } from '../services/flags';
 import { nextCheckJson, openFlagJson } from '../services/summaries';
 
@@ -134,6 +135,7 @@ export function bedsideRouter(ctx: AppContext) {
       });
       return { created: true, sync: syncFlags(sqlite, original.infant_id, now, auth.userId) };
     });
+    escalateAfterWrite(ctx, now, result.sync.raised);
     res.status(result.created ? 201 : 200).json({
       reading: readingJson(loadReading(sqlite, input.id)!),
       created: result.created,

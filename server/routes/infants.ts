@@ -33,6 +33,7 @@ import {
   sessionAt,
   sessionJson,
 } from '../services/bedside';
+import { escalateAfterWrite } from '../services/escalations';
 import { currentFlagIds, loadUnitRow, primeRuleReadings, syncFlags, type UnitRow } from '../services/flags';
 import { nextCheckJson, openFlagJson, summarizeInfants } from '../services/summaries';
 
@@ -203,6 +204,7 @@ export function infantsRouter(ctx: AppContext) {
       raisedFlagIds: result.sync.raised,
       closedFlagIds: result.sync.closed,
     };
+    escalateAfterWrite(ctx, now, result.sync.raised);
     res.status(result.created ? 201 : 200).json(body);
   });
 

@@ -93,10 +93,10 @@ function severitySince(db: Db, flagId: string, fallback: Date): Date {
  * by setting mailed_at in a write transaction before it is sent, so a second run, in this process
  * or another, finds nothing to send. A failed send releases the claim for the next run.
  */
-export async function runEscalations(ctx: AppContext, now: Date): Promise<EscalationRun> {
+export async function runEscalations(ctx: AppContext, now: Date, opts: { syncFirst?: boolean } = {}): Promise<EscalationRun> {
   const { sqlite } = ctx.database;
   const db = dbOf(sqlite);
-  syncAdmittedInfants(ctx, now);
+  if (opts.syncFirst !== false) syncAdmittedInfants(ctx, now);
 
   const created = writeTx(sqlite, () => {
     const candidates = db
@@ -322,4 +322,15 @@ export function acknowledgeEscalation(
     appendFlagEvent(db, { flagId: row.flagId, infantId: row.infantId, unitId: row.unitId, event: 'acknowledged', at: now, actorId: actor.userId, detail: { escalationId: row.id, note }, now });
     return { id: row.id, acknowledgedAt: now.toISOString(), acknowledgedBy: actor.userId, note };
   });
+}
+
+/**
+ * Right after a write that raised a flag has committed: escalate what is due at once (a zero
+ * delay: the most severe classes by default) without waiting for the next minute's sweep. The
+ * escalation row is written before this returns; the mail goes out in the background (a failure
+ * is left for the sweep, which sends what is not yet sent).
+ */
+export function escalateAfterWrite(ctx: AppContext, now: Date, raisedFlagIds: readonly string[]): void {
+  if (raisedFlagIds.length === 0) return;
+  runEscalations(ctx, now, { syncFirst: false }).catch(() => undefined);
 }
