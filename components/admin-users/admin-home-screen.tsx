@@ -1,18 +1,19 @@
 import { router } from 'expo-router';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
-import { Pressable, StyleSheet, View } from 'react-native';
+import { StyleSheet, View } from 'react-native';
 import { ROLE_LABELS, ROLES, type Role } from '@/shared/roles';
 import type { CreateUserInput, UpdateUserInput } from '@/shared/schemas/admin';
 import type { AdminUnit, AdminUser } from '@/shared/types/admin';
 import { problemOf } from '../api/client';
 import { lazyZodResolver } from '../forms/lazy-resolver';
 import { FormRootError } from '../forms/form-root-error';
-import { useAdminUnitsQuery, useAdminUsersQuery, useCreateUserMutation, useDigestSendMutation, useUpdateUserMutation, useUserActionMutation } from '../queries/admin';
+import { useAdminUnitsQuery, useAdminUsersQuery, useCreateUserMutation, useDigestSendMutation, useMembershipMutation, useUpdateUserMutation, useUserActionMutation } from '../queries/admin';
+import { useUser } from '../auth/auth-provider';
+import { formatDayTime } from '../ui/format-time';
 import { useTheme } from '../theme/theme-provider';
 import { Button } from '../ui/button';
 import { Card } from '../ui/card';
-import { Icon } from '../ui/icon';
 import { Screen } from '../ui/screen';
 import { Segmented } from '../ui/segmented';
 import { ErrorState, LoadingState } from '../ui/state-view';
@@ -20,13 +21,17 @@ import { StatusBadge } from '../ui/status-badge';
 import { Text } from '../ui/text';
 import { TextField } from '../ui/text-field';
 import { ConfirmDialog, type PendingChange } from './confirm-dialog';
+import { AuditLogCard } from './audit-log-card';
+import { CreateUnitCard } from './create-unit-card';
 import { UnitSettingsCard } from './unit-settings-card';
 import { UploadPanel } from './upload-panel';
 import { DemoMailboxLink } from '@/components/mailbox/demo-mailbox-link';
 
 /** Users and invitations, units and settings, the roster import, the digest and the mailbox. */
 export function AdminHomeScreen() {
-  const users = useAdminUsersQuery();
+  const search = useForm<{ q: string }>({ defaultValues: { q: '' } });
+  const q = search.watch('q');
+  const users = useAdminUsersQuery(q);
   const units = useAdminUnitsQuery();
   const digest = useDigestSendMutation();
   const [pending, setPending] = useState<PendingChange | null>(null);
@@ -42,7 +47,16 @@ export function AdminHomeScreen() {
         <Text variant="title" role="heading" aria-level={2}>
           People
         </Text>
-        {users.error ? <ErrorState error={users.error} onRetry={() => void users.refetch()} /> : !users.data ? <LoadingState /> : users.data.map((u) => <UserRow key={u.id} user={u} units={units.data ?? []} onConfirm={setPending} />)}
+        <TextField control={search.control} name="q" label="Search people" hint="Part of a name or an e-mail address" autoCapitalize="none" autoCorrect={false} />
+        {users.error ? (
+          <ErrorState error={users.error} onRetry={() => void users.refetch()} />
+        ) : !users.data ? (
+          <LoadingState />
+        ) : users.data.length === 0 ? (
+          <Text tone="muted" role="status">No one matches “{q.trim()}”.</Text>
+        ) : (
+          users.data.map((u) => <UserRow key={u.id} user={u} units={units.data ?? []} onConfirm={setPending} />)
+        )}
         <ConfirmDialog change={pending} onClose={() => setPending(null)} />
       </Card>
       <Card>
@@ -53,6 +67,8 @@ export function AdminHomeScreen() {
         <UploadPanel label="Roster CSV" previewPath="/admin/roster/preview" importPath={(id) => `/admin/roster/${id}/import`} />
       </Card>
       {units.data?.map((u) => <UnitSettingsCard key={u.id} unit={u} />)}
+      <CreateUnitCard />
+      <AuditLogCard units={units.data ?? []} />
       <Card>
         <Text variant="title" role="heading" aria-level={2}>
           Weekly digest
@@ -110,6 +126,7 @@ function InviteForm({ units }: { units: AdminUnit[] }) {
 
 function UserRow({ user, units, onConfirm }: { user: AdminUser; units: AdminUnit[]; onConfirm: (change: PendingChange) => void }) {
   const action = useUserActionMutation();
+  const me = useUser();
   const [editing, setEditing] = useState(false);
   const unitName = (id: string) => units.find((u) => u.id === id)?.name ?? id;
   const unitNames = user.unitIds.map(unitName).join(', ');
@@ -131,13 +148,16 @@ function UserRow({ user, units, onConfirm }: { user: AdminUser; units: AdminUnit
       <Text tone="muted" variant="caption">
         {user.email} · {ROLE_LABELS[user.role]} · {unitNames || 'no unit'}
       </Text>
+      <Text tone="muted" variant="caption">
+        {user.lastSignInAt ? `Last signed in ${formatDayTime(user.lastSignInAt, units.find((u) => user.unitIds.includes(u.id))?.timeZone ?? units[0]?.timeZone ?? 'UTC', me.clock)}` : 'Never signed in'}
+      </Text>
       {!user.manageable ? (
         <Text tone="muted" variant="caption">
           Also works in a unit you do not administer: only an administrator of every unit they work in can change this person.
         </Text>
       ) : (
         <View style={styles.actions}>
-          <Button compact variant="quiet" label={editing ? 'Close' : 'Change role or units'} onPress={() => setEditing(!editing)} />
+          <Button compact variant="quiet" label={editing ? 'Close' : 'Change role'} onPress={() => setEditing(!editing)} />
           {user.status === 'invited' ? <Button compact variant="quiet" label="Send invitation again" onPress={() => action.mutate({ id: user.id, action: 'invitation' })} /> : null}
           {user.status === 'active' ? <Button compact variant="quiet" label="Send password reset" onPress={() => action.mutate({ id: user.id, action: 'password-reset' })} /> : null}
           {user.active ? (
@@ -147,7 +167,8 @@ function UserRow({ user, units, onConfirm }: { user: AdminUser; units: AdminUnit
           )}
         </View>
       )}
-      {editing && user.manageable ? <AccessEditor user={user} units={units} unitName={unitName} onConfirm={onConfirm} onDone={() => setEditing(false)} /> : null}
+      {user.manageable && user.id !== me.id ? <Memberships user={user} units={units} unitName={unitName} onConfirm={onConfirm} /> : null}
+      {editing && user.manageable ? <AccessEditor user={user} unitName={unitName} onConfirm={onConfirm} onDone={() => setEditing(false)} /> : null}
       {action.isSuccess && action.variables?.id === user.id && action.variables.action !== 'deactivate' ? <Text tone="ok" role="status" variant="caption">Done.</Text> : null}
       {action.error && action.variables?.action !== 'deactivate' ? <Text tone="danger" role="alert" variant="caption">{problemOf(action.error).message}</Text> : null}
     </View>
@@ -166,26 +187,55 @@ export function describeAccessChange(name: string, before: { role: Role; unitIds
   return lines;
 }
 
-/** Role and units as a draft; saving asks for confirmation first. */
-function AccessEditor({ user, units, unitName, onConfirm, onDone }: { user: AdminUser; units: AdminUnit[]; unitName: (id: string) => string; onConfirm: (change: PendingChange) => void; onDone: () => void }) {
+/**
+ * Each unit the person works in, removable one at a time after a confirmation, and each other unit
+ * of the administrator's to add: choosing a unit never replaces the others.
+ */
+function Memberships({ user, units, unitName, onConfirm }: { user: AdminUser; units: AdminUnit[]; unitName: (id: string) => string; onConfirm: (change: PendingChange) => void }) {
+  const membership = useMembershipMutation();
+  const theme = useTheme();
+  const others = units.filter((u) => !user.unitIds.includes(u.id));
+  const ask = (unitId: string, op: 'add' | 'remove') =>
+    onConfirm({
+      title: op === 'remove' ? `Remove ${user.name} from ${unitName(unitId)}?` : `Add ${user.name} to ${unitName(unitId)}?`,
+      lines: [
+        ...describeAccessChange(user.name, user, { role: user.role, unitIds: op === 'add' ? [...user.unitIds, unitId] : user.unitIds.filter((u) => u !== unitId) }, unitName),
+        ...(op === 'remove' ? [`${user.name} keeps ${user.unitIds.filter((u) => u !== unitId).map(unitName).join(' and ')}.`] : [`${user.name} keeps ${user.unitIds.map(unitName).join(' and ')}.`]),
+      ],
+      confirmLabel: op === 'remove' ? `Remove from ${unitName(unitId)}` : `Add to ${unitName(unitId)}`,
+      danger: op === 'remove',
+      run: () => membership.mutateAsync({ userId: user.id, unitId, op }),
+    });
+  return (
+    <View role="group" aria-label={`${user.name}'s units`} style={styles.actions}>
+      {user.unitIds.map((id) => (
+        <View key={id} style={[styles.chip, { borderColor: theme.colors.border }]}>
+          <Text variant="caption">{unitName(id)}</Text>
+          {user.unitIds.length > 1 ? <Button compact variant="quiet" label={`Remove from ${unitName(id)}…`} onPress={() => ask(id, 'remove')} /> : null}
+        </View>
+      ))}
+      {others.map((u) => (
+        <Button key={u.id} compact variant="quiet" icon="plus" label={`Add to ${u.name}…`} onPress={() => ask(u.id, 'add')} />
+      ))}
+    </View>
+  );
+}
+
+/** The role as a draft; saving asks for confirmation first. */
+function AccessEditor({ user, unitName, onConfirm, onDone }: { user: AdminUser; unitName: (id: string) => string; onConfirm: (change: PendingChange) => void; onDone: () => void }) {
   const update = useUpdateUserMutation();
   const [role, setRole] = useState<Role>(user.role);
-  const [unitIds, setUnitIds] = useState<string[]>(user.unitIds);
   const [hint, setHint] = useState<string | null>(null);
-  const toggle = (id: string) => setUnitIds((ids) => (ids.includes(id) ? ids.filter((u) => u !== id) : [...ids, id]));
   const review = () => {
-    if (unitIds.length === 0) return setHint('Choose at least one unit.');
-    const lines = describeAccessChange(user.name, user, { role, unitIds }, unitName);
+    const lines = describeAccessChange(user.name, user, { role, unitIds: user.unitIds }, unitName);
     if (lines.length === 0) return setHint('Nothing has changed yet.');
     setHint(null);
-    const input: UpdateUserInput = {};
-    if (role !== user.role) input.role = role;
-    if (lines.some((l) => l.startsWith('Removed') || l.startsWith('Added'))) input.unitIds = unitIds;
+    const input: UpdateUserInput = { role };
     onConfirm({
       title: `Change ${user.name}'s access?`,
       lines,
       confirmLabel: 'Make the change',
-      danger: role !== user.role || user.unitIds.some((u) => !unitIds.includes(u)),
+      danger: true,
       run: async () => {
         await update.mutateAsync({ id: user.id, input });
         onDone();
@@ -195,27 +245,9 @@ function AccessEditor({ user, units, unitName, onConfirm, onDone }: { user: Admi
   return (
     <View style={styles.form}>
       <Segmented label="Role" value={role} onChange={setRole} options={ROLES.map((r) => ({ value: r, label: ROLE_LABELS[r] }))} />
-      <View role="group" aria-label="Units" style={styles.form}>
-        <Text variant="label">Units</Text>
-        {units.map((u) => (
-          <Checkbox key={u.id} label={u.name} checked={unitIds.includes(u.id)} onToggle={() => toggle(u.id)} />
-        ))}
-      </View>
       <Button compact label="Review the change…" onPress={review} />
       {hint ? <Text tone="warning" role="status" variant="caption">{hint}</Text> : null}
     </View>
-  );
-}
-
-function Checkbox({ label, checked, onToggle }: { label: string; checked: boolean; onToggle: () => void }) {
-  const theme = useTheme();
-  return (
-    <Pressable role="checkbox" aria-checked={checked} aria-label={label} onPress={onToggle} style={styles.checkRow}>
-      <View style={[styles.checkBox, { borderColor: theme.colors.border, backgroundColor: checked ? theme.colors.primary : 'transparent' }]}>
-        {checked ? <Icon name="check" size={16} color={theme.colors.onPrimary} /> : null}
-      </View>
-      <Text>{label}</Text>
-    </Pressable>
   );
 }
 
@@ -224,6 +256,5 @@ const styles = StyleSheet.create({
   userRow: { gap: 4, paddingVertical: 8 },
   userHead: { flexDirection: 'row', gap: 8, alignItems: 'center', flexWrap: 'wrap' },
   actions: { flexDirection: 'row', gap: 4, flexWrap: 'wrap' },
-  checkRow: { flexDirection: 'row', alignItems: 'center', gap: 8, minHeight: 44 },
-  checkBox: { width: 24, height: 24, borderRadius: 4, borderWidth: 2, alignItems: 'center', justifyContent: 'center' },
+  chip: { flexDirection: 'row', alignItems: 'center', gap: 4, paddingLeft: 10, borderRadius: 16, borderWidth: 1, minHeight: 44 },
 });

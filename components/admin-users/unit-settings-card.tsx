@@ -5,7 +5,9 @@ import type { AdminUnit } from '@/shared/types/admin';
 import { problemOf } from '../api/client';
 import { lazyZodResolver } from '../forms/lazy-resolver';
 import { FormRootError } from '../forms/form-root-error';
-import { useAddBedMutation, useUnitSettingsMutation } from '../queries/admin';
+import { useAddBedMutation, useUnitSettingsMutation, useUpdateBedMutation } from '../queries/admin';
+import type { AdminBed } from '@/shared/types/admin';
+import { TimeZonePicker } from './time-zone-picker';
 import { Button } from '../ui/button';
 import { Card } from '../ui/card';
 import { Text } from '../ui/text';
@@ -22,6 +24,16 @@ export interface UnitSettingsFormValues {
   newBed: string;
 }
 type FormValues = UnitSettingsFormValues;
+/** The form's labels by the server's field names, to name each field at fault. */
+const LABELS: Record<string, string> = {
+  checkIntervalMinutes: 'Check interval',
+  dueSoonMinutes: 'Due-soon window',
+  gapLimitCenti: 'Gap limit',
+  escalationDelayMinutes: 'Escalation delay',
+  dayShiftStart: 'Day shift starts',
+  nightShiftStart: 'Night shift starts',
+  timeZone: 'Time zone',
+};
 const unitSettingsResolver = lazyZodResolver<FormValues>((m) => m.unitSettingsFormSchema);
 
 /** One unit's thermal-care settings and its beds. */
@@ -62,8 +74,11 @@ export function UnitSettingsCard({ unit }: { unit: AdminUnit }) {
       setStatus('Settings saved.');
     } catch (err) {
       const p = problemOf(err);
-      if (p.kind === 'invalid') setFields({ ...p.fields, gapLimit: p.fields.gapLimitCenti ?? '' });
-      setStatus(p.message);
+      if (p.kind === 'invalid' && p.fields) {
+        setFields({ ...p.fields, gapLimit: p.fields.gapLimitCenti ?? '' });
+        const named = Object.keys(p.fields).map((k) => LABELS[k] ?? k);
+        setStatus(`${named.length === 1 ? 'One setting needs' : `${named.length} settings need`} attention: ${named.join(', ')}. Each reason is under its field.`);
+      } else setStatus(p.message);
     }
   });
   const onAddBed = async () => {
@@ -89,12 +104,16 @@ export function UnitSettingsCard({ unit }: { unit: AdminUnit }) {
         <TextField control={control} name="escalationDelayMinutes" label="Escalation delay" suffix="min" keyboardType="number-pad" serverError={fields.escalationDelayMinutes} />
         <TextField control={control} name="dayShiftStart" label="Day shift starts" serverError={fields.dayShiftStart} />
         <TextField control={control} name="nightShiftStart" label="Night shift starts" serverError={fields.nightShiftStart} />
-        <TextField control={control} name="timeZone" label="Time zone" autoCapitalize="none" serverError={fields.timeZone} />
+        <TimeZonePicker control={control} name="timeZone" label="Time zone" serverError={fields.timeZone} />
       </View>
       <FormRootError control={control} />
       <Button label={`Save ${unit.name} settings`} onPress={() => void onSubmit()} busy={formState.isSubmitting} />
       <Text variant="label">Beds</Text>
-      <Text tone="muted">{unit.beds.map((b) => (b.active ? b.label : `${b.label} (out of use)`)).join(', ')}</Text>
+      <View role="list" aria-label={`${unit.name} beds`}>
+        {unit.beds.map((b, i) => (
+          <BedRow key={b.id} bed={b} first={i === 0} last={i === unit.beds.length - 1} />
+        ))}
+      </View>
       <View style={styles.row}>
         <View style={styles.grow}>
           <TextField control={control} name="newBed" label="New bed label" autoCapitalize="characters" />
@@ -106,7 +125,51 @@ export function UnitSettingsCard({ unit }: { unit: AdminUnit }) {
   );
 }
 
+/** One bed: rename it, move it up or down the unit's order, take it out of use or back. */
+function BedRow({ bed, first, last }: { bed: AdminBed; first: boolean; last: boolean }) {
+  const update = useUpdateBedMutation();
+  const [renaming, setRenaming] = useState(false);
+  const [message, setMessage] = useState<string | null>(null);
+  const form = useForm<{ label: string }>({ defaultValues: { label: bed.label } });
+  const run = async (input: { label?: string; active?: boolean; move?: 'up' | 'down' }, done: string) => {
+    setMessage(null);
+    try {
+      await update.mutateAsync({ bedId: bed.id, input });
+      setMessage(done);
+      setRenaming(false);
+    } catch (err) {
+      const p = problemOf(err);
+      setMessage((p.kind === 'invalid' || p.kind === 'conflict') && p.fields?.label ? `Bed "${input.label ?? bed.label}": ${p.fields.label}` : p.message);
+    }
+  };
+  return (
+    <View role="listitem" aria-label={`Bed ${bed.label}${bed.active ? '' : ', out of use'}`} style={styles.bed}>
+      <View style={styles.row}>
+        <Text variant="bodyStrong" style={styles.bedLabel}>
+          {bed.label}
+        </Text>
+        {!bed.active ? <Text tone="muted" variant="caption">out of use</Text> : null}
+        <Button compact variant="quiet" label={`Move ${bed.label} up`} disabled={first} onPress={() => void run({ move: 'up' }, `Bed ${bed.label} moved up.`)} />
+        <Button compact variant="quiet" label={`Move ${bed.label} down`} disabled={last} onPress={() => void run({ move: 'down' }, `Bed ${bed.label} moved down.`)} />
+        <Button compact variant="quiet" label={renaming ? 'Cancel' : `Rename ${bed.label}`} onPress={() => setRenaming(!renaming)} />
+        <Button compact variant="quiet" label={bed.active ? `Take ${bed.label} out of use` : `Put ${bed.label} back in use`} onPress={() => void run({ active: !bed.active }, bed.active ? `Bed ${bed.label} is out of use.` : `Bed ${bed.label} is back in use.`)} />
+      </View>
+      {renaming ? (
+        <View style={styles.row}>
+          <View style={styles.grow}>
+            <TextField control={form.control} name="label" label={`New label for ${bed.label}`} autoCapitalize="characters" />
+          </View>
+          <Button compact label="Save label" onPress={() => void run({ label: form.getValues('label').trim() }, `Bed renamed to ${form.getValues('label').trim()}.`)} busy={update.isPending} />
+        </View>
+      ) : null}
+      {message ? <Text role="status" variant="caption">{message}</Text> : null}
+    </View>
+  );
+}
+
 const styles = StyleSheet.create({
+  bed: { gap: 4, paddingVertical: 4 },
+  bedLabel: { minWidth: 56 },
   grid: { flexDirection: 'row', flexWrap: 'wrap', gap: 12 },
   row: { flexDirection: 'row', gap: 8, alignItems: 'flex-end', flexWrap: 'wrap' },
   grow: { flexGrow: 1, minWidth: 160 },

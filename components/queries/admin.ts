@@ -1,17 +1,68 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { CreateUserInput, UnitSettingsInput, UpdateUserInput } from '@/shared/schemas/admin';
+import type { CreateUnitInput, CreateUserInput, UnitSettingsInput, UpdateBedInput, UpdateUserInput } from '@/shared/schemas/admin';
 import type { LinkPasswordInput, RequestResetInput } from '@/shared/schemas/auth';
-import type { AdminUnit, AdminUser, ImportResult, UploadPreview } from '@/shared/types/admin';
+import type { AdminUnit, AdminUser, AuditPage, ImportResult, UploadPreview } from '@/shared/types/admin';
 import { api } from '../api/client';
 
 export const ADMIN_RQKEY_ROOT = 'admin';
 export const adminKeys = {
   users: () => [ADMIN_RQKEY_ROOT, 'users'] as const,
   units: () => [ADMIN_RQKEY_ROOT, 'units'] as const,
+  audit: (filters: AuditFilters) => [ADMIN_RQKEY_ROOT, 'audit', filters] as const,
 };
 
-export function useAdminUsersQuery() {
-  return useQuery({ queryKey: adminKeys.users(), queryFn: ({ signal }) => api<{ users: AdminUser[] }>('/admin/users', { signal }).then((r) => r.users) });
+/** The audit viewer's filters: a person's id and an ISO range, each optional. */
+export interface AuditFilters {
+  actorId?: string;
+  from?: string;
+  to?: string;
+}
+
+export function useAdminUsersQuery(search = '') {
+  const q = search.trim();
+  return useQuery({
+    queryKey: q ? [...adminKeys.users(), q] : adminKeys.users(),
+    queryFn: ({ signal }) => api<{ users: AdminUser[] }>(q ? `/admin/users?q=${encodeURIComponent(q)}` : '/admin/users', { signal }).then((r) => r.users),
+    placeholderData: (previous) => previous,
+  });
+}
+
+/** One page of the audit log; `cursor` pages back to older events. */
+export function useAuditPageQuery(filters: AuditFilters, cursor: number | null) {
+  const params = new URLSearchParams({ limit: '25' });
+  if (filters.actorId) params.set('actorId', filters.actorId);
+  if (filters.from) params.set('from', filters.from);
+  if (filters.to) params.set('to', filters.to);
+  if (cursor) params.set('cursor', String(cursor));
+  return useQuery({ queryKey: [...adminKeys.audit(filters), cursor], queryFn: ({ signal }) => api<AuditPage>(`/admin/audit?${params.toString()}`, { signal }), placeholderData: (previous) => previous });
+}
+
+/** Add or remove one unit membership. Invalidates the user list and the audit log. */
+export function useMembershipMutation() {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: ({ userId, unitId, op }: { userId: string; unitId: string; op: 'add' | 'remove' }) =>
+      op === 'add' ? api<{ unitIds: string[] }>(`/admin/users/${userId}/units`, { method: 'POST', body: { unitId } }) : api<{ unitIds: string[] }>(`/admin/users/${userId}/units/${unitId}`, { method: 'DELETE' }),
+    onSuccess: () => client.invalidateQueries({ queryKey: [ADMIN_RQKEY_ROOT] }),
+  });
+}
+
+/** Rename, move, take out of use. Invalidates the units. */
+export function useUpdateBedMutation() {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: ({ bedId, input }: { bedId: string; input: UpdateBedInput }) => api<unknown>(`/admin/beds/${bedId}`, { method: 'PATCH', body: input }),
+    onSuccess: () => client.invalidateQueries({ queryKey: [ADMIN_RQKEY_ROOT] }),
+  });
+}
+
+/** Invalidates the units (and the session's units are read again at the next sign-in). */
+export function useCreateUnitMutation() {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: (input: CreateUnitInput) => api<{ unit: AdminUnit }>('/admin/units', { method: 'POST', body: input }),
+    onSuccess: () => client.invalidateQueries({ queryKey: [ADMIN_RQKEY_ROOT] }),
+  });
 }
 
 export function useAdminUnitsQuery() {

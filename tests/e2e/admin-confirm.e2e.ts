@@ -65,7 +65,7 @@ describe('admin confirmations', () => {
     await signIn(page, ACCOUNTS.admin);
     await page.waitForURL((url) => url.pathname === '/admin');
     const row = page.locator('[aria-label="Kofi Mensah, Bedside nurse"]');
-    await row.getByRole('button', { name: 'Change role or units' }).click();
+    await row.getByRole('button', { name: 'Change role' }).click();
     await row.getByRole('radio', { name: 'Charge nurse' }).click();
     await row.getByRole('button', { name: 'Review the change…' }).click();
     const dialog = page.getByRole('dialog', { name: "Change Kofi Mensah's access?" });
