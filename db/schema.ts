@@ -339,7 +339,7 @@ export const flagEvents = sqliteTable(
     infantId: infantRef(),
     unitId: unitRef(),
     event: text('event', {
-      enum: ['raised', 'severity-changed', 'action', 'recheck', 'escalated', 'acknowledged', 'closed', 'withdrawn', 'reopened'],
+      enum: ['raised', 'severity-changed', 'action', 'action-undone', 'recheck', 'escalated', 'acknowledged', 'closed', 'withdrawn', 'reopened'],
     }).notNull(),
     /** The clinical instant: the reading's taken time, the action's time, when the mail went out. */
     at: instant('at').notNull(),
@@ -397,6 +397,28 @@ export const actions = sqliteTable(
   },
   (t) => [index('actions_flag').on(t.flagId), index('actions_infant').on(t.infantId, t.at)],
 );
+
+/**
+ * An action marked entered in error (a mistaken tap), never edited or deleted: the action row
+ * stays and this row says it should not count. Undoing an action that led to a closure reopens
+ * the flag (a `reopened` lifecycle event).
+ */
+export const actionUndos = sqliteTable('action_undos', {
+  id: text('id').primaryKey(),
+  actionId: text('action_id')
+    .notNull()
+    .unique()
+    .references(() => actions.id),
+  flagId: flagRef(),
+  infantId: infantRef(),
+  unitId: unitRef(),
+  undoneBy: text('undone_by')
+    .notNull()
+    .references(() => users.id),
+  note: text('note'),
+  at: instant('at').notNull(),
+  createdAt: instant('created_at').notNull(),
+});
 
 export const escalations = sqliteTable('escalations', {
   id: text('id').primaryKey(),

@@ -35,6 +35,7 @@ export const CHAINED: Readonly<Record<string, ChainedTable>> = {
   flag_events: { key: ['id'], unit: 'unit_id', versions: [['id', 'flag_id', 'infant_id', 'unit_id', 'event', 'at', 'reading_id', 'severity', 'policy_version_id', 'detail', 'actor_id', 'created_at']] },
   flag_resolutions: { key: ['flag_id'], unit: null, versions: [['flag_id', 'closed_at', 'closed_by_reading_id', 'how', 'created_at']] },
   actions: { key: ['id'], unit: 'unit_id', versions: [['id', 'flag_id', 'infant_id', 'unit_id', 'kind', 'note', 'at', 'recorded_by', 'created_at']] },
+  action_undos: { key: ['id'], unit: 'unit_id', versions: [['id', 'action_id', 'flag_id', 'infant_id', 'unit_id', 'undone_by', 'note', 'at', 'created_at']] },
   escalations: { key: ['id'], unit: 'unit_id', versions: [['id', 'flag_id', 'unit_id', 'escalated_at', 'mailed_at', 'acknowledged_at', 'acknowledged_by', 'acknowledge_note'], ['id', 'flag_id', 'unit_id', 'escalated_at', 'mailed_at', 'acknowledged_at', 'acknowledged_by', 'acknowledge_note', 'recipient', 'channel', 'severity']] },
   reviews: { key: ['id'], unit: 'unit_id', versions: [['id', 'flag_id', 'unit_id', 'reviewer_id', 'note', 'created_at']] },
   review_events: { key: ['id'], unit: 'unit_id', versions: [['id', 'flag_id', 'unit_id', 'review_id', 'event', 'note', 'version', 'actor_id', 'created_at']] },

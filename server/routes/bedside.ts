@@ -1,5 +1,5 @@
 import { prepared, writeTx } from '../../db/client';
-import { correctReadingSchema, createActionSchema, endSessionSchema, type CorrectReading, type CreateAction, type EndSession } from '../../shared/schemas/bedside';
+import { correctReadingSchema, createActionSchema, endSessionSchema, undoActionSchema, type CorrectReading, type CreateAction, type EndSession, type UndoActionInput } from '../../shared/schemas/bedside';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { ApiError, badRequest, conflict, notFound } from '../errors';
@@ -18,12 +18,15 @@ import {
 } from '../services/bedside';
 import { appendFlagEvent, dbOf } from '../services/flag-lifecycle';
 import { escalateAfterWrite } from '../services/escalations';
-import { currentFlagIds, ruleKeyOf, syncFlags } from '../services/flags';
+import { currentFlagIds, primeRuleReadings, ruleKeyOf, syncFlags } from '../services/flags';
 import { nextCheckJson, openFlagJson } from '../services/summaries';
 
 type IdParams = { id: string };
 
 /** Corrections, flag actions and the end of a skin-to-skin session: records reached by their own id. */
+/** A second tap of the same action within this long stores nothing new. */
+const REPEAT_TAP_MS = 60_000;
+
 export function bedsideRouter(ctx: AppContext) {
   const router = secureRouter();
   const { sqlite } = ctx.database;
@@ -154,10 +157,11 @@ export function bedsideRouter(ctx: AppContext) {
     const auth = req.auth!;
     const now = ctx.clock.now();
     const at = input.at ? new Date(input.at) : now;
-    const loadAction = () =>
-      prepared(sqlite, 'SELECT a.*, u.name FROM actions a JOIN users u ON u.id = a.recorded_by WHERE a.id = ?').get(input.id) as
+    const loadActionById = (id: string) =>
+      prepared(sqlite, 'SELECT a.*, u.name FROM actions a JOIN users u ON u.id = a.recorded_by WHERE a.id = ?').get(id) as
         | { id: string; flag_id: string; kind: string; note: string | null; at: number; recorded_by: string; name: string }
         | undefined;
+    const loadAction = () => loadActionById(input.id);
     const same = (a: NonNullable<ReturnType<typeof loadAction>>) => {
       if (a.flag_id !== flagId || a.kind !== input.kind || (a.note ?? null) !== (input.note || null) || (input.at && a.at !== at.getTime())) {
         throw conflict('A different action was already saved with this id.', { id: 'This id belongs to another action.' });
@@ -170,9 +174,17 @@ export function bedsideRouter(ctx: AppContext) {
       if (at.getTime() > now.getTime() + 2 * 60_000) throw badRequest('The time is in the future.', { at: 'The time cannot be in the future.' });
       if (at.getTime() < flag.raised_at) throw badRequest('The time is before the flag was raised.', { at: 'The time is before the flag was raised.' });
     }
-    const result = writeTx(sqlite, () => {
+    const result = writeTx(sqlite, (): { created: boolean; sync: ReturnType<typeof syncFlags>; repeatOf?: string } => {
       const again = loadAction();
       if (again) return { created: false, sync: syncFlags(sqlite, flag.infant_id, now, auth.userId) };
+      // A second tap of the same action on the same flag by the same person within a short
+      // window is the same action (common practice: one thing done, charted once).
+      const repeat = prepared(
+        sqlite,
+        `SELECT a.id FROM actions a WHERE a.flag_id = ? AND a.kind = ? AND a.recorded_by = ? AND a.created_at >= ?
+           AND NOT EXISTS (SELECT 1 FROM action_undos u WHERE u.action_id = a.id) ORDER BY a.created_at DESC LIMIT 1`,
+      ).get(flagId, input.kind, auth.userId, now.getTime() - REPEAT_TAP_MS) as { id: string } | undefined;
+      if (repeat) return { created: false, sync: syncFlags(sqlite, flag.infant_id, now, auth.userId), repeatOf: repeat.id };
       prepared(sqlite, 'INSERT INTO actions (id, flag_id, infant_id, unit_id, kind, note, at, recorded_by, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)')
         .run(input.id, flagId, flag.infant_id, flag.unit_id, input.kind, input.note || null, at.getTime(), auth.userId, now.getTime());
       appendAudit(sqlite, {
@@ -187,7 +199,7 @@ export function bedsideRouter(ctx: AppContext) {
       appendFlagEvent(dbOf(sqlite), { flagId, infantId: flag.infant_id, unitId: flag.unit_id, event: 'action', at, actorId: auth.userId, detail: { actionId: input.id, kind: input.kind }, now });
       return { created: true, sync: syncFlags(sqlite, flag.infant_id, now, auth.userId) };
     });
-    const a = same(loadAction()!);
+    const a = result.repeatOf ? loadActionById(result.repeatOf)! : same(loadAction()!);
     const evaluated = result.sync.evaluation.flags.find((f) => f.key === ruleKeyOf(flag.key));
     res.status(result.created ? 201 : 200).json({
       action: { id: a.id, flagId: a.flag_id, kind: a.kind, note: a.note, at: new Date(a.at).toISOString(), recordedBy: { id: a.recorded_by, name: a.name } },
@@ -202,6 +214,42 @@ export function bedsideRouter(ctx: AppContext) {
           }
         : { id: flagId, key: flag.key, status: 'closed', recheckDueAt: null, recheckCountsFrom: null },
       ...evaluationBody(flag.infant_id, result.sync),
+    });
+  });
+
+  /**
+   * Undo a mistaken action: an action_undos row marks it entered in error (the action stays on
+   * record). The rules run again without it; when the action had let a recheck close the flag,
+   * the flag reopens (a `reopened` event). Idempotent: undoing an undone action answers with the
+   * first undo.
+   */
+  router.post('/flags/:flagId/actions/:id/undo', allow(ctx, 'chart:write'), validate('body', undoActionSchema), (req, res) => {
+    const { flagId, id: actionId } = req.params as { flagId: string; id: string };
+    const input = valid<UndoActionInput>(req, 'body');
+    const flag = prepared(sqlite, 'SELECT id, unit_id, infant_id FROM flags WHERE id = ?').get(flagId) as { id: string; unit_id: string; infant_id: string } | undefined;
+    if (!flag) throw notFound('That flag');
+    assertUnit(req, flag.unit_id);
+    const action = prepared(sqlite, 'SELECT id, flag_id, infant_id, unit_id, kind, at FROM actions WHERE id = ? AND flag_id = ?').get(actionId, flagId) as
+      | { id: string; flag_id: string; infant_id: string; unit_id: string; kind: string; at: number }
+      | undefined;
+    if (!action) throw notFound('That action');
+    const auth = req.auth!;
+    const now = ctx.clock.now();
+    primeRuleReadings(sqlite, action.infant_id);
+    const result = writeTx(sqlite, () => {
+      const done = prepared(sqlite, 'SELECT id FROM action_undos WHERE action_id = ?').get(actionId) as { id: string } | undefined;
+      if (done) return { created: false, undoId: done.id, sync: syncFlags(sqlite, action.infant_id, now, auth.userId) };
+      prepared(sqlite, 'INSERT INTO action_undos (id, action_id, flag_id, infant_id, unit_id, undone_by, note, at, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)')
+        .run(input.id, actionId, flagId, action.infant_id, action.unit_id, auth.userId, input.note || null, now.getTime(), now.getTime());
+      appendAudit(sqlite, { at: now, actorId: auth.userId, action: 'flag-action-undone', entityType: 'action', entityId: actionId, unitId: action.unit_id, after: { undoId: input.id, flagId, kind: action.kind, note: input.note ?? null } });
+      appendFlagEvent(dbOf(sqlite), { flagId, infantId: action.infant_id, unitId: action.unit_id, event: 'action-undone', at: now, actorId: auth.userId, detail: { actionId, kind: action.kind }, now });
+      return { created: true, undoId: input.id, sync: syncFlags(sqlite, action.infant_id, now, auth.userId) };
+    });
+    res.status(result.created ? 201 : 200).json({
+      undo: { id: result.undoId, actionId, flagId },
+      created: result.created,
+      reopenedFlagIds: result.sync.raised,
+      ...evaluationBody(action.infant_id, result.sync),
     });
   });
 

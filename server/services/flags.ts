@@ -268,7 +268,7 @@ function ruleReadings(sqlite: Database.Database, infantId: string, since: number
 
 function loadStateWith(sqlite: Database.Database, infantId: string, readings: RuleReading[]): InfantState {
   const infant = prepared(sqlite, 'SELECT admitted_at FROM infants WHERE id = ?').get(infantId) as { admitted_at: number } | undefined;
-  const actions = prepared(sqlite, 'SELECT a.id, f.key AS flag_key, a.kind, a.at FROM actions a JOIN flags f ON f.id = a.flag_id WHERE a.infant_id = ? ORDER BY a.at')
+  const actions = prepared(sqlite, 'SELECT a.id, f.key AS flag_key, a.kind, a.at FROM actions a JOIN flags f ON f.id = a.flag_id WHERE a.infant_id = ? AND NOT EXISTS (SELECT 1 FROM action_undos u WHERE u.action_id = a.id) ORDER BY a.at')
     .all(infantId) as Array<{ id: string; flag_key: string; kind: string; at: number }>;
   const sessions = prepared(sqlite, 'SELECT id, started_at, ended_at, reference_centi, limit_centi FROM skin_to_skin_sessions WHERE infant_id = ? ORDER BY started_at')
     .all(infantId) as Array<{ id: string; started_at: number; ended_at: number | null; reference_centi: number; limit_centi: number }>;

@@ -77,6 +77,13 @@ export const createActionSchema = z.strictObject({
 });
 export type CreateActionInput = z.input<typeof createActionSchema>;
 
+/** Undo a mistaken action: it stays on record, marked entered in error. Idempotent by the client's id. */
+export const undoActionSchema = z.strictObject({
+  id: uuid,
+  note: safeNote().max(300, 'Keep the note under 300 characters.').nullable().optional(),
+});
+export type UndoActionInput = z.input<typeof undoActionSchema>;
+
 export const startSessionSchema = z.strictObject({
   id: uuid,
   unit: tempUnitSchema,

@@ -49,6 +49,7 @@ const EXPECTED: Record<string, string> = {
   'POST /api/infants/:id/skin-to-skin': 'UUFFN',
   'POST /api/readings/:id/corrections': 'UUFFN',
   'POST /api/flags/:id/actions': 'UUFFN',
+  'POST /api/flags/:flagId/actions/:id/undo': 'UUFFN',
   'POST /api/skin-to-skin/:id/end': 'UUFFN',
   // Running the unit: the charge nurse.
   'GET /api/units/:unitId/nurses': 'FUFFN',
