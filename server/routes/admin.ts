@@ -102,7 +102,6 @@ export function adminRouter(ctx: AppContext) {
           unitSettingsConflicts({
             checkIntervalMinutes: pick('checkIntervalMinutes', 'check_interval_minutes'),
             dueSoonMinutes: pick('dueSoonMinutes', 'due_soon_minutes'),
-            escalationDelayMinutes: pick('escalationDelayMinutes', 'escalation_delay_minutes'),
             dayShiftStart: pick('dayShiftStart', 'day_shift_start'),
             nightShiftStart: pick('nightShiftStart', 'night_shift_start'),
           }),

@@ -44,11 +44,10 @@ export const timeZoneSchema = z
  * Settings that only make sense together, checked on the settings as they would be after the
  * change: every field at fault is named, each with its reason.
  */
-export function unitSettingsConflicts(v: { checkIntervalMinutes: number; dueSoonMinutes: number; dayShiftStart: string; nightShiftStart: string; escalationDelayMinutes: number }): Record<string, string> {
+export function unitSettingsConflicts(v: { checkIntervalMinutes: number; dueSoonMinutes: number; dayShiftStart: string; nightShiftStart: string }): Record<string, string> {
   const fields: Record<string, string> = {};
   if (v.dueSoonMinutes >= v.checkIntervalMinutes) fields.dueSoonMinutes = `The due-soon window (${v.dueSoonMinutes} min) must be shorter than the check interval (${v.checkIntervalMinutes} min).`;
   if (v.dayShiftStart >= v.nightShiftStart) fields.nightShiftStart = `The night shift (${v.nightShiftStart}) must start later in the day than the day shift (${v.dayShiftStart}).`;
-  if (v.escalationDelayMinutes > v.checkIntervalMinutes) fields.escalationDelayMinutes = `The escalation delay (${v.escalationDelayMinutes} min) must not be longer than the check interval (${v.checkIntervalMinutes} min).`;
   return fields;
 }
 
