@@ -73,7 +73,7 @@ function severitySince(db: Db, flagId: string, fallback: Date): Date {
   const row = db
     .select({ at: flagEvents.at, createdAt: flagEvents.createdAt })
     .from(flagEvents)
-    .where(and(eq(flagEvents.flagId, flagId), inArray(flagEvents.event, ['raised', 'severity-changed', 'reopened'])))
+    .where(and(eq(flagEvents.flagId, flagId), inArray(flagEvents.event, ['raised', 'severity-changed'])))
     .orderBy(desc(flagEvents.createdAt))
     .limit(1)
     .get();
