@@ -107,7 +107,7 @@ describe('keyboard alone (Chromium)', () => {
     const bedId = target.tile;
     assert.ok(bedId, 'the Acknowledge button sits in a bed tile');
     await page.keyboard.press('Enter');
-    await page.getByTestId(bedId).getByText(/Escalation seen by Marta Lindqvist/).first().waitFor();
+    await page.getByTestId(bedId).getByText(/acknowledged by Marta Lindqvist/).first().waitFor();
     await page.context().close();
   });
 
