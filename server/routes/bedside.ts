@@ -18,6 +18,8 @@ import {
 } from '../services/bedside';
 import { appendFlagEvent, dbOf } from '../services/flag-lifecycle';
 import { escalateAfterWrite } from '../services/escalations';
+import { flagHistory } from '../services/flag-history';
+import { auditRead } from '../read-audit';
 import { currentFlagIds, primeRuleReadings, ruleKeyOf, syncFlags } from '../services/flags';
 import { nextCheckJson, openFlagJson } from '../services/summaries';
 
@@ -251,6 +253,17 @@ export function bedsideRouter(ctx: AppContext) {
       reopenedFlagIds: result.sync.raised,
       ...evaluationBody(action.infant_id, result.sync),
     });
+  });
+
+  /** A flag's lifecycle in words (and its earlier rows when it was reopened), oldest first. */
+  router.get('/flags/:id/history', allow(ctx, 'chart:read'), async (req, res) => {
+    const { id: flagId } = req.params as IdParams;
+    const flag = prepared(sqlite, 'SELECT id, unit_id, infant_id FROM flags WHERE id = ?').get(flagId) as { id: string; unit_id: string; infant_id: string } | undefined;
+    if (!flag) throw notFound('That flag');
+    assertUnit(req, flag.unit_id);
+    const events = flagHistory(sqlite, flagId);
+    await auditRead(sqlite, { at: ctx.clock.now(), actorId: req.auth!.userId, action: 'chart-read', entityType: 'flag', entityId: flagId, unitId: flag.unit_id, after: { view: 'flag-history', infantId: flag.infant_id } });
+    res.json({ flagId, events });
   });
 
   /** End a skin-to-skin session. Ending an ended session answers with it, unchanged. */

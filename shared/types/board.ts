@@ -96,6 +96,8 @@ export interface HandoverFlag {
   withdrawn?: { reason: string; readingId: string | null } | null;
   /** The rules' detail (a gap's direction: which reading is lower; a deviation's sign). */
   detail?: Record<string, unknown>;
+  /** The temperature band: a cold-stress flag's worst band, 'fever' for a fever, else null. */
+  band?: string | null;
 }
 
 export interface HandoverInfant {

@@ -65,6 +65,29 @@ describe('undo a mistaken action', () => {
     expect(events(id).filter((e) => e.event === 'reopened')).toHaveLength(1);
   });
 
+  it("a flag's history reads in words, across its reopening, and is refused to another unit's reader (common practice: the record says who did what and when)", async () => {
+    const id = await admit();
+    const raised = await ward.chart(id, { probe: 37.3, remote: 36.6 });
+    const gap = raised.body.openFlags.find((f: { kind: string }) => f.kind === 'gap');
+    ward.advance(2);
+    const act = await ward.act(id, gap.id, gap.key);
+    ward.advance(20);
+    await ward.chart(id, { probe: 36.8, remote: 36.9 });
+    ward.advance(3);
+    const undo = await ward.ok('nurse', 'post', `/flags/${gap.id}/actions/${act.body.action.id}/undo`, { id: randomUUID() });
+    const reopenedId = undo.body.reopenedFlagIds[0] as string;
+    const history = (await ward.ok('nurse', 'get', `/flags/${reopenedId}/history`)).body.events as Array<{ text: string; by: { name: string } | null }>;
+    const texts = history.map((e) => e.text);
+    expect(texts[0]).toMatch(/^Raised/);
+    expect(texts.some((t) => /^Action: [A-Z]/.test(t))).toBe(true);
+    expect(texts.some((t) => /^Closed by a recheck/.test(t))).toBe(true);
+    expect(texts.some((t) => /^Action undone/.test(t))).toBe(true);
+    expect(texts[texts.length - 1]).toMatch(/^Reopened/);
+    // Words, never internal codes.
+    expect(texts.join(' ')).not.toMatch(/gap:|reading-corrected|check-recorded|severity-changed/);
+    expect(history.find((e) => /^Action undone/.test(e.text))!.by).toMatchObject({ name: expect.any(String) });
+  });
+
   it('an undo from another unit is refused, and a bad note says which field (common practice)', async () => {
     const id = await admit();
     const raised = await ward.chart(id, { probe: 37.3, remote: 36.6 });

@@ -50,6 +50,7 @@ const EXPECTED: Record<string, string> = {
   'POST /api/readings/:id/corrections': 'UUFFN',
   'POST /api/flags/:id/actions': 'UUFFN',
   'POST /api/flags/:flagId/actions/:id/undo': 'UUFFN',
+  'GET /api/flags/:id/history': 'UUUFN',
   'POST /api/skin-to-skin/:id/end': 'UUFFN',
   // Running the unit: the charge nurse.
   'GET /api/units/:unitId/nurses': 'FUFFN',
