@@ -133,7 +133,8 @@ export function BoardTile({ bed, nowMs, tempUnit, timeZone, clock, dueSoonMinute
 
       {/* Before the flags: on a full wall tile the Acknowledge button must never be cut off. */}
       {/* Only an escalation that went out is shown: "escalated" must name whom it reached. */}
-      {bed.escalations.filter((e) => e.sentAt).map((e) => (
+      {/* An acknowledged one moves below the flags: on a fixed-height tile the flag words matter more. */}
+      {bed.escalations.filter((e) => e.sentAt && !e.acknowledgedAt).map((e) => (
         <View key={e.id} style={[styles.escalation, { borderColor: e.acknowledgedAt ? c.border : c.danger }]}>
           <Text variant="label" tone={e.acknowledgedAt ? 'muted' : 'danger'} style={[lineStyle, styles.escalationText]}>
             {escalationLine({ id: e.id, sentAt: e.sentAt!, to: e.to, how: 'email', acknowledgedAt: e.acknowledgedAt, acknowledgedBy: e.acknowledgedBy }, timeZone, clock)}
@@ -161,6 +162,11 @@ export function BoardTile({ bed, nowMs, tempUnit, timeZone, clock, dueSoonMinute
           {infant.skinToSkin ? <StatusBadge tone="together" icon="hands" label={`Skin-to-skin since ${clockTime(infant.skinToSkin.startedAt, timeZone, clock)}`} large /> : null}
         </View>
       ) : null}
+      {bed.escalations.filter((e) => e.sentAt && e.acknowledgedAt).map((e) => (
+        <Text key={e.id} variant="label" tone="muted" style={lineStyle} numberOfLines={height ? 2 : undefined}>
+          {escalationLine({ id: e.id, sentAt: e.sentAt!, to: e.to, how: 'email', acknowledgedAt: e.acknowledgedAt, acknowledgedBy: e.acknowledgedBy }, timeZone, clock)}
+        </Text>
+      ))}
 
       <Text variant="label" tone="muted" style={lineStyle}>
         Probe {probe ? `${formatTemperature(probe.centi, tempUnit)} (${ageOf(probe.takenAt, nowMs)})` : 'none charted'} · remote site
