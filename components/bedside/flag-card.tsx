@@ -2,7 +2,8 @@ import { useRouter } from 'expo-router';
 import { StyleSheet, View } from 'react-native';
 import { problemOf } from '@/components/api/client';
 import { useUser } from '@/components/auth/auth-provider';
-import { useFlagActionMutation } from '@/components/queries/infants';
+import { useState } from 'react';
+import { useFlagActionMutation, useFlagHistory, useUndoActionMutation } from '@/components/queries/infants';
 import { useTheme } from '@/components/theme/theme-provider';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
@@ -50,6 +51,7 @@ export function FlagCard({ flag, sheet, canChart, now }: { flag: FlowsheetFlag; 
   const router = useRouter();
   const { colors } = useTheme();
   const mutation = useFlagActionMutation(sheet.infant.id);
+  const undo = useUndoActionMutation(sheet.infant.id);
   const tz = sheet.infant.timeZone;
   const unit = user.tempUnit;
   const kinds = FLAG_ACTIONS[flag.kind];
@@ -91,9 +93,20 @@ export function FlagCard({ flag, sheet, canChart, now }: { flag: FlowsheetFlag; 
         <View style={styles.list} role="list" aria-label="Done so far">
           <Text variant="label">Done so far</Text>
           {flag.actions.map((a) => (
-            <Text key={a.id} role="listitem" variant="caption">
-              ✓ {ACTION_LABELS[a.kind as ActionKind] ?? a.kind} · {a.recordedBy.name} at {clockTime(a.at, tz, user.clock)}
-            </Text>
+            <View key={a.id} role="listitem" style={styles.actionRow}>
+              <Text variant="caption">
+                ✓ {ACTION_LABELS[a.kind as ActionKind] ?? a.kind} · {a.recordedBy.name} at {clockTime(a.at, tz, user.clock)}
+              </Text>
+              {canChart && flag.id ? (
+                <Button
+                  compact
+                  variant="quiet"
+                  label="Undo"
+                  busy={undo.isPending && undo.variables?.actionId === a.id}
+                  onPress={() => undo.mutate({ flagId: a.flagId, actionId: a.id })}
+                />
+              ) : null}
+            </View>
           ))}
         </View>
       ) : null}
@@ -118,16 +131,46 @@ export function FlagCard({ flag, sheet, canChart, now }: { flag: FlowsheetFlag; 
           </View>
         </View>
       ) : null}
-      {mutation.isError ? (
+      {mutation.isError || undo.isError ? (
         <Text tone="danger" role="alert">
-          {problemOf(mutation.error).message}
+          {problemOf(mutation.error ?? undo.error).message}
         </Text>
       ) : null}
+      {flag.id ? <FlagHistory flagId={flag.id} tz={tz} clock={user.clock} /> : null}
       <Text variant="caption" tone="muted">
         {CLINICAL_PROMPT_CAVEAT}
         {flag.kind === 'overdue-check' ? '' : ` Recheck ${sheet.policy.recheckMinutes} minutes after an action.`}
       </Text>
     </Card>
+  );
+}
+
+/** The flag's history in words (raised, actions, escalations, closing, withdrawal, reopening), on request. */
+export function FlagHistory({ flagId, tz, clock }: { flagId: string; tz: string; clock: '24h' | '12h' }) {
+  const [open, setOpen] = useState(false);
+  const history = useFlagHistory(flagId, open);
+  return (
+    <View style={styles.list}>
+      <Button compact variant="quiet" icon="clock" label={open ? 'Hide history' : 'Show history'} aria-expanded={open} onPress={() => setOpen(!open)} />
+      {open ? (
+        history.isError ? (
+          <Text tone="danger" role="alert">
+            {problemOf(history.error).message}
+          </Text>
+        ) : !history.data ? (
+          <Text variant="caption">Loading the history…</Text>
+        ) : (
+          <View role="list" aria-label="History" style={styles.list}>
+            {history.data.events.map((e) => (
+              <Text key={e.id} role="listitem" variant="caption">
+                {clockTime(e.at, tz, clock)} · {e.text}
+                {e.by ? ` · ${e.by.name}` : ''}
+              </Text>
+            ))}
+          </View>
+        )
+      ) : null}
+    </View>
   );
 }
 
@@ -215,6 +258,7 @@ const styles = StyleSheet.create({
   card: { borderWidth: 2 },
   list: { gap: 4 },
   buttons: { flexDirection: 'row', flexWrap: 'wrap', gap: 8 },
+  actionRow: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: 8 },
   closed: { gap: 2 },
   struck: { textDecorationLine: 'line-through' },
 });

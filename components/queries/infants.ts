@@ -130,6 +130,31 @@ export function useFlagActionMutation(infantId: string) {
   });
 }
 
+/** Undo a mistaken action (it stays on record, marked entered in error). */
+export function useUndoActionMutation(infantId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: ({ flagId, actionId }: { flagId: string; actionId: string }) =>
+      api<{ undo: { id: string; actionId: string; flagId: string } }>(`/flags/${enc(flagId)}/actions/${enc(actionId)}/undo`, {
+        method: 'POST',
+        body: { id: globalThis.crypto.randomUUID() },
+      }),
+    onSuccess: () => {
+      invalidateInfant(queryClient, infantId);
+      void queryClient.invalidateQueries({ queryKey: ['flag-history'] });
+    },
+  });
+}
+
+/** A flag's lifecycle in words, fetched when its history is opened. */
+export function useFlagHistory(flagId: string | null, enabled: boolean) {
+  return useQuery({
+    queryKey: ['flag-history', flagId],
+    queryFn: () => api<{ flagId: string; events: Array<{ id: string; event: string; at: string; by: { id: string; name: string } | null; text: string }> }>(`/flags/${enc(flagId!)}/history`),
+    enabled: enabled && flagId !== null,
+  });
+}
+
 export function useStartSkinToSkinMutation(infantId: string) {
   const queryClient = useQueryClient();
   return useMutation({

@@ -4,7 +4,7 @@
  * as a new row (see ruleKeyOf in flags.ts) shows the whole chain, oldest first.
  */
 import type Database from 'better-sqlite3';
-import { asc, eq, inArray } from 'drizzle-orm';
+import { asc, eq, inArray, sql } from 'drizzle-orm';
 import { flagEvents, flags, users } from '../../db/schema';
 import { BAND_LABELS } from '../../shared/thermal/bands';
 import { SEVERITY_WORDS, type Severity } from '../../shared/thermal/severity';
@@ -102,7 +102,8 @@ export function flagHistory(sqlite: Database.Database, flagId: string): FlagHist
     .from(flagEvents)
     .leftJoin(users, eq(users.id, flagEvents.actorId))
     .where(inArray(flagEvents.flagId, ids))
-    .orderBy(asc(flagEvents.createdAt), asc(flagEvents.at))
+    // Events written in one transaction keep the order they were written in.
+    .orderBy(asc(flagEvents.createdAt), asc(sql`flag_events.rowid`))
     .all();
   return rows.map((r) => ({
     id: r.id,

@@ -1,7 +1,7 @@
 import { prepared, writeTx } from '../../db/client';
 import type Database from 'better-sqlite3';
 import { and, asc, eq, gte, inArray, isNotNull, isNull, or } from 'drizzle-orm';
-import { actions, escalations, flagEvents, flagResolutions, flags, infantClocks, users } from '../../db/schema';
+import { actions, actionUndos, escalations, flagEvents, flagResolutions, flags, infantClocks, users } from '../../db/schema';
 import { dueStatus, needsAttention, worseSeverity, type EvaluatedFlag, type FlagKind, type InfantEvaluation, type Severity } from '../../shared/thermal';
 import { shiftAt } from '../../shared/shifts';
 import type { CheckClocks, ClockStatus, EscalationSent, FlowsheetFlag, InfantSummary, NextCheck, OpenFlagSummary, RecheckClock } from '../../shared/types/bedside';
@@ -357,7 +357,9 @@ export function storedFlowsheetFlags(sqlite: Database.Database, infantId: string
         .select({ id: actions.id, flagId: actions.flagId, kind: actions.kind, note: actions.note, at: actions.at, recordedBy: actions.recordedBy, name: users.name })
         .from(actions)
         .innerJoin(users, eq(users.id, actions.recordedBy))
-        .where(inArray(actions.flagId, ids))
+        // An undone action (entered in error) no longer counts; the history still shows it.
+        .leftJoin(actionUndos, eq(actionUndos.actionId, actions.id))
+        .where(and(inArray(actions.flagId, ids), isNull(actionUndos.id)))
         .orderBy(asc(actions.at), asc(actions.createdAt))
         .all()
     : [];
