@@ -7,20 +7,16 @@
 import { randomUUID } from 'node:crypto';
 import { evaluateModel } from '../reference/thermal-model';
 import { differences, modelView, Ward } from './clinical-views';
-import { makeEnv, type TestEnv } from './helpers';
+import type { TestEnv } from './helpers';
+import { wardSuite } from './flag-ward';
 
+const suite = wardSuite();
 let env: TestEnv;
 let ward: Ward;
-const admitted: string[] = [];
-
-beforeAll(async () => {
-  env = await makeEnv();
-  ward = new Ward(env);
-});
-afterAll(() => env.close());
-afterEach(async () => {
-  for (const id of admitted.splice(0)) await ward.discharge(id).catch(() => undefined);
-  ward.advance(60);
+const admitted = suite.admitted;
+beforeAll(() => {
+  env = suite.env;
+  ward = suite.ward;
 });
 
 async function admit() {
