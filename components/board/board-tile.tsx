@@ -7,6 +7,7 @@ import { Text } from '@/components/ui/text';
 import { useTheme } from '@/components/theme/theme-provider';
 import { WarmingLine } from '@/components/unit-shift/warming';
 import { CONTROL_MODE_LABELS, HEAT_SOURCE_LABELS } from '@/shared/vocabulary';
+import { SEVERITY_RANK } from '@/shared/thermal/severity';
 import { formatTemperature, type TempUnit } from '@/shared/thermal/units';
 import type { BedWarming } from '@/shared/schemas/warming';
 import type { BoardBed } from '@/shared/types/board';
@@ -147,7 +148,8 @@ export function BoardTile({ bed, nowMs, tempUnit, timeZone, clock, dueSoonMinute
 
       {infant.openFlags.length || infant.skinToSkin ? (
         <View style={styles.flags}>
-          {infant.openFlags.map((f) => {
+          {/* Most severe first, as the board orders the beds: a clipped wall tile loses the mildest. */}
+          {[...infant.openFlags].sort((a, b) => SEVERITY_RANK[b.severity ?? 'caution'] - SEVERITY_RANK[a.severity ?? 'caution']).map((f) => {
             const look = flagLook(f);
             const colour = look.tone === 'danger' ? c.danger : look.tone === 'warning' ? c.warning : c.text;
             return (
