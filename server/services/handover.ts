@@ -125,7 +125,7 @@ export function buildHandover(ctx: AppContext, infantId: string, now: Date): Han
       escalation: f.escalation ?? null,
       withdrawn: f.withdrawn ? { reason: f.withdrawn.reason, readingId: f.withdrawn.readingId } : null,
       detail: f.detail,
-      band: f.kind === 'fever' ? 'fever' : f.kind === 'cold-stress' && typeof f.detail?.band === 'string' ? f.detail.band : null,
+      band: f.kind === 'cold-stress' && typeof f.detail?.band === 'string' ? f.detail.band : null,
     })),
     sessions: sessions.map((s) => ({
       id: s.id,

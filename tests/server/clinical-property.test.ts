@@ -6,8 +6,8 @@
  * the real Express app on a real SQLite file.
  *
  * Replay a failure with CLINICAL_SEED=<seed> (printed with the counterexample); CLINICAL_RUNS
- * sets the number of stays; CLINICAL_CORRECTIONS=1 adds corrections and entries in error to the
- * random steps.
+ * sets the number of stays. Corrections and entries in error are among the random steps;
+ * CLINICAL_CORRECTIONS=0 leaves them out, to tell a correction bug from another one.
  */
 import fc from 'fast-check';
 import { runEscalations } from '../../server/services/escalations';
@@ -65,8 +65,8 @@ const typed: fc.Arbitrary<Typed> = fc
 const step: fc.Arbitrary<Step> = fc.oneof(
   { weight: 10, arbitrary: typed.map((x) => ({ t: 'reading' as const, typed: x })) },
   { weight: 2, arbitrary: fc.record({ minutesAgo: fc.integer({ min: 11, max: 90 }), typed }).map((x) => ({ t: 'late' as const, ...x })) },
-  // Corrections and entries in error: CLINICAL_CORRECTIONS=1 (a correction must reopen what the corrected reading had closed).
-  ...(process.env.CLINICAL_CORRECTIONS === '1'
+  // Corrections and entries in error (a correction must reopen what the corrected reading had closed).
+  ...(process.env.CLINICAL_CORRECTIONS !== '0'
     ? [{ weight: 1, arbitrary: fc.record({ pick: fc.nat(), typed: fc.oneof(typed, fc.constant('entered-in-error' as const)) }).map((x) => ({ t: 'correct' as const, ...x })) }]
     : []),
   { weight: 3, arbitrary: fc.nat().map((pick) => ({ t: 'action' as const, pick })) },
