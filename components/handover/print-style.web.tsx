@@ -11,6 +11,9 @@ const PRINT_CSS = `
   [role="main"] { width: 100% !important; }
   * { color: #000 !important; box-shadow: none !important; }
   [data-print-block] { break-inside: avoid; page-break-inside: avoid; }
+  /* The unit summary is one page: compact type for a full 14-bed unit. */
+  [aria-label="Unit summary, one row per bed"] * { font-size: 9pt !important; line-height: 1.25 !important; }
+  [aria-label="Unit summary, one row per bed"] [role="row"] { padding-top: 2px !important; padding-bottom: 2px !important; }
 }
 `;
 
