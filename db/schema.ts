@@ -170,6 +170,11 @@ export const infants = sqliteTable(
     hospitalNumber: text('hospital_number'),
     /** Administrative sex as recorded on admission; null only on rows older than the field. */
     sex: text('sex', { enum: ['female', 'male', 'indeterminate', 'unknown'] }),
+    /** Why the infant left (set at discharge): home, transfer, ward or death. */
+    dischargeReason: text('discharge_reason', { enum: ['home', 'transfer', 'ward', 'death'] }),
+    /** Where to, as written at discharge (a transfer's unit or hospital, a ward). */
+    dischargeDestination: text('discharge_destination'),
+    dischargeNote: text('discharge_note'),
   },
   (t) => [index('infants_unit_status').on(t.unitId, t.status)],
 );
@@ -274,6 +279,13 @@ export const readings = sqliteTable(
     takenBy: text('taken_by').references(() => users.id),
     /** SHA-256 of the request body that created the row, so a retried id with other content is refused. */
     requestHash: text('request_hash'),
+    /** Settings charted with the reading: where the probe sits, its cover, the infant's position (shared/vocabulary.ts). */
+    probeSite: text('probe_site', { enum: ['abdomen', 'back-or-flank', 'axilla', 'other'] }),
+    probeCovered: flag('probe_covered'),
+    infantPosition: text('infant_position', { enum: ['supine', 'prone', 'side'] }),
+    /** Current weight (g) and incubator humidity (% relative humidity), when charted. */
+    weightGrams: integer('weight_grams'),
+    humidityPct: integer('humidity_pct'),
   },
   (t) => [
     index('readings_infant_taken').on(t.infantId, t.takenAt),
@@ -394,6 +406,8 @@ export const actions = sqliteTable(
       .notNull()
       .references(() => users.id),
     createdAt: instant('created_at').notNull(),
+    /** For 'moved-probe': where the probe went (it becomes the current placement). */
+    probeSite: text('probe_site', { enum: ['abdomen', 'back-or-flank', 'axilla', 'other'] }),
   },
   (t) => [index('actions_flag').on(t.flagId), index('actions_infant').on(t.infantId, t.at)],
 );
@@ -591,3 +605,47 @@ export const handoverPlans = sqliteTable(
   },
   (t) => [index('handover_plans_infant').on(t.infantId, t.shiftDate, t.shift, t.createdAt)],
 );
+
+/**
+ * A change of the probe's placement charted on its own (the probe moved, the infant turned),
+ * append-only. Readings carry the placement too; the current placement is the latest of both.
+ */
+export const placementChanges = sqliteTable(
+  'placement_changes',
+  {
+    /** Made by the client, so a retried request is stored once. */
+    id: text('id').primaryKey(),
+    infantId: infantRef(),
+    unitId: unitRef(),
+    /** The clinical instant of the change. */
+    at: instant('at').notNull(),
+    probeSite: text('probe_site', { enum: ['abdomen', 'back-or-flank', 'axilla', 'other'] }),
+    probeCovered: flag('probe_covered'),
+    infantPosition: text('infant_position', { enum: ['supine', 'prone', 'side'] }),
+    recordedBy: text('recorded_by')
+      .notNull()
+      .references(() => users.id),
+    createdAt: instant('created_at').notNull(),
+  },
+  (t) => [index('placement_changes_infant').on(t.infantId, t.at)],
+);
+
+/**
+ * The infant's current placement and its prompt (shared/thermal/placement.ts), as stored by the
+ * last write that could change it: one row per infant, derived from readings, placement changes
+ * and moved-probe actions. The views read it and never judge the placement themselves.
+ */
+export const infantPlacements = sqliteTable('infant_placements', {
+  infantId: text('infant_id')
+    .primaryKey()
+    .references(() => infants.id),
+  unitId: unitRef(),
+  probeSite: text('probe_site', { enum: ['abdomen', 'back-or-flank', 'axilla', 'other'] }),
+  probeCovered: flag('probe_covered'),
+  infantPosition: text('infant_position', { enum: ['supine', 'prone', 'side'] }),
+  /** When the latest of these was charted (the clinical instant). */
+  chartedAt: instant('charted_at').notNull(),
+  /** The placement's prompt code, or null. */
+  prompt: text('prompt', { enum: ['probe-under-prone-infant'] }),
+  computedAt: instant('computed_at').notNull(),
+});

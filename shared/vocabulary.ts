@@ -88,3 +88,47 @@ export const PASSWORD_MAX_BYTES = 72;
 
 export const TEACHING_NOTE_MAX = 2000;
 export const REVIEW_PAGE_MAX = 500;
+
+/**
+ * Where the skin probe sits, whether it is under a heat-reflecting cover, and how the infant
+ * lies: settings charted with each reading and on admission, carried forward until changed.
+ * Abdomen, or the back or flank when prone, under a heat-reflecting cover (Iowa Neonatology
+ * Handbook, "Servocontrol"); the axilla is a local alternative (common practice).
+ */
+export const PROBE_SITES = ['abdomen', 'back-or-flank', 'axilla', 'other'] as const;
+export type ProbeSite = (typeof PROBE_SITES)[number];
+export const PROBE_SITE_LABELS: Record<ProbeSite, string> = {
+  abdomen: 'Abdomen',
+  'back-or-flank': 'Back or flank',
+  axilla: 'Axilla',
+  other: 'Other site',
+};
+export const INFANT_POSITIONS = ['supine', 'prone', 'side'] as const;
+export type InfantPosition = (typeof INFANT_POSITIONS)[number];
+export const INFANT_POSITION_LABELS: Record<InfantPosition, string> = {
+  supine: 'On the back (supine)',
+  prone: 'On the front (prone)',
+  side: 'On the side',
+};
+/** The cover as a choice: yes or no (null: not charted). */
+export const PROBE_COVER_LABELS = { yes: 'Under a heat-reflecting cover', no: 'Not covered' } as const;
+
+/** Current weight on the reading form, grams: the same bounds as a weight change on the board (common practice). */
+export const WEIGHT_GRAMS_MIN = 300;
+export const WEIGHT_GRAMS_MAX = 8000;
+/** Incubator humidity, whole percent of relative humidity: 0–100 by definition. */
+export const HUMIDITY_PCT_MIN = 0;
+export const HUMIDITY_PCT_MAX = 100;
+
+/** Why an infant left the unit; a transfer names where to, a ward may. */
+export const DISCHARGE_REASONS = ['home', 'transfer', 'ward', 'death'] as const;
+export type DischargeReason = (typeof DISCHARGE_REASONS)[number];
+export const DISCHARGE_REASON_LABELS: Record<DischargeReason, string> = {
+  home: 'Home',
+  transfer: 'Transfer to another unit or hospital',
+  ward: 'To a ward in this hospital',
+  death: 'Died',
+};
+/** The reasons whose destination is written in: required for a transfer, optional for a ward. */
+export const DISCHARGE_DESTINATION_REQUIRED: readonly DischargeReason[] = ['transfer'];
+export const DISCHARGE_DESTINATION_ALLOWED: readonly DischargeReason[] = ['transfer', 'ward'];
