@@ -8,7 +8,7 @@ import {
   type PlausibilityField,
   type TempUnit,
 } from '../../shared/thermal';
-import { FUTURE_TOLERANCE_MINUTES, LATE_ENTRY_MINUTES } from '../../shared/schemas/bedside';
+import { FUTURE_TIME_MESSAGE, isFutureTime, isLateEntry, LATE_ENTRY_MINUTES } from '../../shared/chart-time';
 import { unusualReason } from '../../shared/plausibility';
 import type { ControlMode } from '../../shared/vocabulary';
 import type { Flowsheet, FlowsheetFlag, FlowsheetReading, ReadingVersion, SessionRecord } from '../../shared/types/bedside';
@@ -126,13 +126,14 @@ export function convertAndCheck(input: TypedTemperatures, confirmed: boolean, pr
 
 /** A chart time: not in the future; more than 10 minutes back needs a late-entry reason. */
 export function checkTakenAt(takenAt: Date, now: Date, admittedAt: number, lateReason: string | null | undefined, field = 'takenAt'): { late: boolean } {
-  if (takenAt.getTime() > now.getTime() + FUTURE_TOLERANCE_MINUTES * 60_000) {
-    throw badRequest('The time is in the future.', { [field]: 'The time cannot be in the future.' });
+  // The same rule as the bedside form's (shared/chart-time.ts).
+  if (isFutureTime(takenAt.getTime(), now.getTime())) {
+    throw badRequest('The time is in the future.', { [field]: FUTURE_TIME_MESSAGE });
   }
   if (takenAt.getTime() < admittedAt - 60 * 60_000) {
     throw badRequest('The time is before the infant was admitted.', { [field]: 'The time is before admission.' });
   }
-  const late = now.getTime() - takenAt.getTime() > LATE_ENTRY_MINUTES * 60_000;
+  const late = isLateEntry(takenAt.getTime(), now.getTime());
   if (late && !lateReason) {
     throw badRequest('A late entry needs a reason.', { lateReason: `This time is more than ${LATE_ENTRY_MINUTES} minutes ago: say why it is charted late.` });
   }
