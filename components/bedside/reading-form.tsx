@@ -34,14 +34,18 @@ export interface ReadingFormProps {
   serverMessage?: string | null;
   onSubmit: (body: CreateReadingInput & { takenAt: string }) => void;
   onCancel?: () => void;
+  /** Values to start from instead of the empty form (the nurse's own kept draft). */
+  initialValues?: Partial<ReadingFormValues>;
+  /** Called with every change of the values (keeps the draft; does not redraw the form). */
+  onValuesChange?: (values: ReadingFormValues) => void;
 }
 
 /** Probe, remote site and save first: a routine check is digits, Tab, digits, Enter. */
-export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () => new Date(), makeId = () => globalThis.crypto.randomUUID(), busy, serverFields = {}, serverMessage, onSubmit, onCancel }: ReadingFormProps) {
+export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () => new Date(), makeId = () => globalThis.crypto.randomUUID(), busy, serverFields = {}, serverMessage, onSubmit, onCancel, initialValues, onValuesChange }: ReadingFormProps) {
   const theme = useTheme();
   const resolver = useMemo(() => lazyZodResolver<ReadingFormValues>((m) => m.readingFormResolverSchema(unit, timeZone, now)), [unit, timeZone, now]);
   useEffect(() => resolver.preload(), [resolver]);
-  const { control, handleSubmit, setValue } = useForm<ReadingFormValues>({
+  const { control, handleSubmit, setValue, watch } = useForm<ReadingFormValues>({
     resolver,
     defaultValues: {
       probe: '',
@@ -56,8 +60,16 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
       note: '',
       time: '',
       lateReason: '',
+      ...initialValues,
     },
   });
+  // A subscription, not useWatch: keeping the draft must not redraw the form on each keystroke.
+  const valuesChanged = useRef(onValuesChange);
+  valuesChanged.current = onValuesChange;
+  useEffect(() => {
+    const sub = watch((values) => valuesChanged.current?.(values as ReadingFormValues));
+    return () => sub.unsubscribe();
+  }, [watch]);
   const remoteRef = useRef<TextInput>(null);
   const [confirming, setConfirming] = useState<string[] | null>(null);
   // One id per reading: a retry after an error or a lost connection reuses it.
