@@ -36,12 +36,27 @@ export function openDatabase(file: string): Database_ {
   const sync = sqlite.pragma('synchronous', { simple: true });
   if (file !== ':memory:' && mode !== 'wal') throw new Error(`SQLite refused WAL mode (got ${String(mode)})`);
   if (sync !== 2) throw new Error(`SQLite refused synchronous=FULL (got ${String(sync)})`);
-  const db = drizzle(sqlite, { schema });
+  const db = drizzleOf(sqlite);
   migrate(db, { migrationsFolder: migrationsFolder() });
   // Bind every write to the chained tables into the audit chain (server/ledger.ts).
   installLedger(sqlite);
   if (file !== ':memory:') secureDataFiles(file);
   return { sqlite, db, close: () => sqlite.close() };
+}
+
+const drizzles = new WeakMap<Database.Database, Db>();
+
+/**
+ * The Drizzle instance over a connection, made once per connection: `openDatabase`'s own `db`, and
+ * the one code handed a bare connection (the audit chain, the ledger, the verifier) queries through.
+ */
+export function drizzleOf(sqlite: Database.Database): Db {
+  let db = drizzles.get(sqlite);
+  if (!db) {
+    db = drizzle(sqlite, { schema });
+    drizzles.set(sqlite, db);
+  }
+  return db;
 }
 
 /** Owner-only access to health data: the database's folder 0700, the file and its WAL and SHM 0600. */
