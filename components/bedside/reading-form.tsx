@@ -1,6 +1,6 @@
 import { useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
 import { useForm, useFormState, useWatch, type Control } from 'react-hook-form';
-import { Pressable, StyleSheet, View, type TextInput } from 'react-native';
+import { Platform, Pressable, StyleSheet, View, type TextInput, type ViewStyle } from 'react-native';
 import type { CreateReadingInput } from '@/shared/schemas/bedside';
 import { BAND_LABELS, temperatureBand } from '@/shared/thermal/bands';
 import { assessGapCenti } from '@/shared/thermal/gap';
@@ -16,7 +16,7 @@ import { Segmented } from '@/components/ui/segmented';
 import { StatusBadge } from '@/components/ui/status-badge';
 import { Text } from '@/components/ui/text';
 import { TextField } from '@/components/ui/text-field';
-import { CONTROL_MODE_OPTIONS, REMOTE_SITE_OPTIONS, tempDelta } from './format';
+import { CONTROL_MODE_LABELS, CONTROL_MODE_OPTIONS, REMOTE_SITE_OPTIONS, SITE_LABELS, tempDelta } from './format';
 import { lazyZodResolver } from '@/components/forms/lazy-resolver';
 import { FormRootError } from '@/components/forms/form-root-error';
 import { centiOf, implausibleReasons, isLate, toCreateReading, type ReadingFormValues } from './reading-form-values';
@@ -40,7 +40,13 @@ export interface ReadingFormProps {
   onValuesChange?: (values: ReadingFormValues) => void;
 }
 
-/** Probe, remote site and save first: a routine check is digits, Tab, digits, Enter. */
+/**
+ * The routine check is five fields and Save, in the order she takes them: probe, remote site, the
+ * air temperature (the air set temperature in air servo), heater output and heart rate. Enter (the
+ * keypad's Next) moves to the next field and saves from the last; each field is one tap without
+ * it. The settings (mode, set temperature, remote site) come forward from the last reading and
+ * are shown; measurements are never filled in. Save stays on screen in a footer.
+ */
 export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () => new Date(), makeId = () => globalThis.crypto.randomUUID(), busy, serverFields = {}, serverMessage, onSubmit, onCancel, initialValues, onValuesChange }: ReadingFormProps) {
   const theme = useTheme();
   const resolver = useMemo(() => lazyZodResolver<ReadingFormValues>((m) => m.readingFormResolverSchema(unit, timeZone, now)), [unit, timeZone, now]);
@@ -70,7 +76,12 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
     const sub = watch((values) => valuesChanged.current?.(values as ReadingFormValues));
     return () => sub.unsubscribe();
   }, [watch]);
+  const controlMode = useWatch({ control, name: 'controlMode' });
+  const airServo = controlMode === 'air-servo';
   const remoteRef = useRef<TextInput>(null);
+  const thirdRef = useRef<TextInput>(null);
+  const heaterRef = useRef<TextInput>(null);
+  const heartRateRef = useRef<TextInput>(null);
   const [confirming, setConfirming] = useState<string[] | null>(null);
   // One id per reading: a retry after an error or a lost connection reuses it.
   const [id] = useState(makeId);
@@ -93,6 +104,40 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
     );
 
   const serverConfirm = serverFields.confirmedImplausible === 'confirm';
+  /** Enter or Next on a field: on to the next one, kept clear of the footer. */
+  const next = (ref: React.RefObject<TextInput | null>) => ({
+    returnKeyType: 'next' as const,
+    blurOnSubmit: false,
+    submitBehavior: 'submit' as const,
+    onSubmitEditing: () => focusField(ref.current),
+  });
+  const setField = (label: string, inRoutine: boolean) => (
+    <TextField
+      ref={inRoutine ? thirdRef : undefined}
+      control={control}
+      name="set"
+      label={label}
+      hint={inRoutine && defaults.set ? `From the last reading: ${defaults.set} ${u}. Change it if the setting changed.` : undefined}
+      suffix={u}
+      inputMode="decimal"
+      keyboardType="decimal-pad"
+      serverError={serverFields.set}
+      {...(inRoutine ? next(heaterRef) : {})}
+    />
+  );
+  const airField = (inRoutine: boolean) => (
+    <TextField
+      ref={inRoutine ? thirdRef : undefined}
+      control={control}
+      name="air"
+      label={`Air temperature (${u})`}
+      suffix={u}
+      inputMode="decimal"
+      keyboardType="decimal-pad"
+      serverError={serverFields.air}
+      {...(inRoutine ? next(heaterRef) : {})}
+    />
+  );
 
   return (
     <View style={styles.form}>
@@ -104,10 +149,8 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
         inputMode="decimal"
         keyboardType="decimal-pad"
         autoFocus
-        returnKeyType="next"
-        blurOnSubmit={false}
-        onSubmitEditing={() => remoteRef.current?.focus()}
         serverError={serverFields.probe}
+        {...next(remoteRef)}
       />
       <TextField
         ref={remoteRef}
@@ -117,9 +160,8 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
         suffix={u}
         inputMode="decimal"
         keyboardType="decimal-pad"
-        returnKeyType="done"
-        onSubmitEditing={() => void submit(false)()}
         serverError={serverFields.remote}
+        {...next(thirdRef)}
       />
       <Watch control={control} name="remoteSite">
         {(remoteSite) => (
@@ -132,47 +174,50 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
         )}
       </Watch>
       <FieldError control={control} name="remoteSite" fallback={serverFields.remoteSite} />
+      {airServo ? setField(`Air set temperature (${u})`, true) : airField(true)}
+      <TextField
+        ref={heaterRef}
+        control={control}
+        name="heaterOutputPct"
+        label="Heater output (%)"
+        suffix="%"
+        inputMode="numeric"
+        keyboardType="number-pad"
+        serverError={serverFields.heaterOutputPct}
+        {...next(heartRateRef)}
+      />
+      <TextField
+        ref={heartRateRef}
+        control={control}
+        name="heartRate"
+        label="Heart rate (/min)"
+        suffix="/min"
+        inputMode="numeric"
+        keyboardType="number-pad"
+        returnKeyType="done"
+        blurOnSubmit={false}
+        submitBehavior="submit"
+        onSubmitEditing={() => void submit(false)()}
+        serverError={serverFields.heartRate}
+      />
 
       <WatchAll control={control}>{(values) => <Preview values={values} unit={unit} gapLimitCenti={gapLimitCenti} />}</WatchAll>
 
-      {confirming || serverConfirm ? (
-        <Card style={{ borderColor: theme.colors.warning, backgroundColor: theme.colors.warningSoft }} role="alert">
-          <StatusBadge tone="warning" icon="alert" label="Confirm unusual values" />
-          {(confirming ?? Object.entries(serverFields).filter(([k]) => k !== 'confirmedImplausible').map(([, v]) => v)).map((r) => (
-            <Text key={r}>{r}</Text>
-          ))}
-          <Button label="Confirm and save" variant="danger" onPress={() => void submit(true)()} busy={busy} />
-        </Card>
-      ) : null}
-
-      <View style={styles.actions}>
-        <Button label="Save reading" icon="check" onPress={() => void submit(false)()} busy={busy} />
-        {onCancel ? <Button label="Cancel" variant="quiet" onPress={onCancel} /> : null}
-      </View>
-      <FormRootError control={control} />
-      {serverMessage && !serverConfirm ? (
-        <Text tone="danger" role="alert">
-          {serverMessage}
+      <Card role="group" aria-label="Settings">
+        <Text variant="title" role="heading" aria-level={2}>
+          Settings
         </Text>
-      ) : null}
+        <Text variant="caption" tone="muted">
+          {carriedLine(defaults, u)}
+        </Text>
+        <Segmented label="Control mode" value={controlMode} options={CONTROL_MODE_OPTIONS} onChange={(mode) => setValue('controlMode', mode)} />
+        {airServo ? null : setField(`Set temperature (${u})`, false)}
+      </Card>
 
       <Text variant="title" role="heading" aria-level={2}>
         More observations
       </Text>
-      <Watch control={control} name="controlMode">
-        {(controlMode) => (
-          <Segmented
-            label="Control mode"
-            value={controlMode}
-            options={CONTROL_MODE_OPTIONS}
-            onChange={(mode) => setValue('controlMode', mode)}
-          />
-        )}
-      </Watch>
-      <TextField control={control} name="set" label={`Set temperature (${u})`} suffix={u} inputMode="decimal" keyboardType="decimal-pad" serverError={serverFields.set} />
-      <TextField control={control} name="air" label={`Air temperature (${u})`} suffix={u} inputMode="decimal" keyboardType="decimal-pad" serverError={serverFields.air} />
-      <TextField control={control} name="heaterOutputPct" label="Heater output (%)" suffix="%" inputMode="numeric" keyboardType="number-pad" serverError={serverFields.heaterOutputPct} />
-      <TextField control={control} name="heartRate" label="Heart rate (/min)" suffix="/min" inputMode="numeric" keyboardType="number-pad" serverError={serverFields.heartRate} />
+      {airServo ? airField(false) : null}
       <View style={styles.wrap} role="group" aria-label="Heat-stress signs">
         <Text variant="label">Heat-stress signs</Text>
         <Watch control={control} name="heatSigns">
@@ -205,9 +250,51 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
         {(values) => (isLate(values, now(), timeZone) ? <TextField control={control} name="lateReason" label="Why is this charted late?" serverError={serverFields.lateReason} /> : null)}
       </WatchAll>
       <TextField control={control} name="note" label="Note" multiline serverError={serverFields.note} />
+
+      {/* Save in reach whatever is filled: the footer sticks to the bottom of the screen while the form runs past it. */}
+      <View style={[styles.footer, STICKY, { backgroundColor: theme.colors.background, borderTopColor: theme.colors.border }]}>
+        {confirming || serverConfirm ? (
+          <Card style={{ borderColor: theme.colors.warning, backgroundColor: theme.colors.warningSoft }} role="alert">
+            <StatusBadge tone="warning" icon="alert" label="Confirm unusual values" />
+            {(confirming ?? Object.entries(serverFields).filter(([k]) => k !== 'confirmedImplausible').map(([, v]) => v)).map((r) => (
+              <Text key={r}>{r}</Text>
+            ))}
+            <Button label="Confirm and save" variant="danger" onPress={() => void submit(true)()} busy={busy} />
+          </Card>
+        ) : null}
+        <View style={styles.actions}>
+          <Button label="Save reading" icon="check" style={styles.save} onPress={() => void submit(false)()} busy={busy} />
+          {onCancel ? <Button label="Cancel" variant="quiet" onPress={onCancel} /> : null}
+        </View>
+        <FormRootError control={control} />
+        {serverMessage && !serverConfirm ? (
+          <Text tone="danger" role="alert">
+            {serverMessage}
+          </Text>
+        ) : null}
+      </View>
     </View>
   );
 }
+
+/** What came forward from the last reading, in words. */
+function carriedLine(defaults: ReadingFormProps['defaults'], u: string): string {
+  const parts = [
+    defaults.controlMode ? CONTROL_MODE_LABELS[defaults.controlMode] : null,
+    defaults.set ? `set ${defaults.set} ${u}` : null,
+    defaults.remoteSite ? `remote site ${SITE_LABELS[defaults.remoteSite].toLowerCase()}` : null,
+  ].filter(Boolean);
+  return parts.length ? `From the last reading: ${parts.join(', ')}. Change any that changed.` : 'No earlier reading: choose the settings.';
+}
+
+/** Focus a field and bring it to the middle of the screen, clear of the footer (web). */
+function focusField(input: TextInput | null) {
+  input?.focus();
+  if (Platform.OS === 'web') (input as unknown as { scrollIntoView?: (o: object) => void } | null)?.scrollIntoView?.({ block: 'center' });
+}
+
+/** react-native-web passes `position: sticky` to the page; native keeps the footer after the fields. */
+const STICKY = (Platform.OS === 'web' ? { position: 'sticky', bottom: 0, zIndex: 2 } : {}) as ViewStyle;
 
 /**
  * Re-renders only its children when one field changes. Watching every value at the top of the
@@ -278,6 +365,8 @@ export function Preview({ values, unit, gapLimitCenti }: { values: ReadingFormVa
 const styles = StyleSheet.create({
   form: { gap: 14, width: '100%', maxWidth: 560 },
   actions: { flexDirection: 'row', gap: 12, flexWrap: 'wrap' },
+  save: { flexGrow: 1 },
+  footer: { gap: 8, paddingVertical: 10, borderTopWidth: StyleSheet.hairlineWidth },
   wrap: { gap: 6 },
   chips: { flexDirection: 'row', flexWrap: 'wrap', gap: 8 },
   chip: { minHeight: TOUCH_TARGET, paddingHorizontal: 12, borderRadius: 10, borderWidth: 2, justifyContent: 'center' },
