@@ -87,3 +87,76 @@ export function formatClock(at: string | Date | number, timeZone: string, clock:
 export function formatDayTime(at: string | Date | number, timeZone: string, clock: ClockSetting): string {
   return formatInZone(at, timeZone, clock === '24h' ? 'd MMM, HH:mm' : 'd MMM, h:mm a');
 }
+
+/** The wall clock in the zone, or in UTC (said so by `utc`) for a zone this runtime does not know. */
+function wallOrUtc(ms: number, timeZone: string): WallClock & { utc: boolean } {
+  const local = wallClock(ms, timeZone);
+  if (local) return { ...local, utc: false };
+  const d = new Date(ms);
+  return { year: d.getUTCFullYear(), month: d.getUTCMonth() + 1, day: d.getUTCDate(), hour: d.getUTCHours(), minute: d.getUTCMinutes(), utc: true };
+}
+
+/** A calendar day as a number of days since 1970-01-01, for counting days between two dates. */
+const dayNumber = (w: Pick<WallClock, 'year' | 'month' | 'day'>) => Math.round(Date.UTC(w.year, w.month - 1, w.day) / 86_400_000);
+
+/** The calendar day of an instant in the unit's zone, as "2026-12-03": a key to group a list by day. */
+export function localDayKey(at: string | Date | number, timeZone: string): string {
+  const w = wallOrUtc(instant(at), timeZone);
+  return `${w.year}-${pad(w.month)}-${pad(w.day)}`;
+}
+
+/** A day key moved by whole days: shiftDayKey("2026-03-01", -1) is "2026-02-28". */
+export function shiftDayKey(key: string, days: number): string {
+  const [y, m, d] = key.split('-').map(Number) as [number, number, number];
+  const t = new Date(Date.UTC(y, m - 1, d + days));
+  return `${t.getUTCFullYear()}-${pad(t.getUTCMonth() + 1)}-${pad(t.getUTCDate())}`;
+}
+
+/** "Today", "Yesterday", "Tomorrow", else "Wed 2 Dec" (with the year when it is not this year's). */
+export function dayKeyName(key: string, timeZone: string, now: Date | number): string {
+  const [year, month, day] = key.split('-').map(Number) as [number, number, number];
+  const today = wallOrUtc(instant(now), timeZone);
+  const diff = dayNumber({ year, month, day }) - dayNumber(today);
+  if (diff === 0) return 'Today';
+  if (diff === -1) return 'Yesterday';
+  if (diff === 1) return 'Tomorrow';
+  const w = { year, month, day, hour: 0, minute: 0 };
+  return `${weekday(w)} ${dayMonth(w)}${year === today.year ? '' : ` ${year}`}`;
+}
+
+/**
+ * The heading of a day in a list or on a chart's axis, in the unit's zone: "Today",
+ * "Yesterday", "Wed 2 Dec". Group rows with localDayKey and put this above each new day.
+ */
+export function dayHeading(at: string | Date | number, timeZone: string, now: Date | number): string {
+  const ms = instant(at);
+  if (Number.isNaN(ms)) return '—';
+  return dayKeyName(localDayKey(ms, timeZone), timeZone, now);
+}
+
+/**
+ * A time on a list or a card, dated whenever it is not today (in the unit's zone, on the
+ * unit's calendar): "14:05" today, "Yesterday, 23:40", "Tomorrow, 00:30", "3 Dec, 09:15",
+ * "3 Dec 2025, 09:15" in another year. With the 12-hour clock, "Yesterday, 11:40 PM".
+ */
+export function formatWhen(at: string | Date | number, timeZone: string, clock: ClockSetting, now: Date | number): string {
+  const ms = instant(at);
+  if (Number.isNaN(ms)) return '—';
+  const w = wallOrUtc(ms, timeZone);
+  const time = `${clock === '24h' ? h24(w) : h12(w)}${w.utc ? ' UTC' : ''}`;
+  const today = wallOrUtc(instant(now), timeZone);
+  const diff = dayNumber(w) - dayNumber(today);
+  if (diff === 0) return time;
+  if (diff === -1) return `Yesterday, ${time}`;
+  if (diff === 1) return `Tomorrow, ${time}`;
+  return `${dayMonth(w)}${w.year === today.year ? '' : ` ${w.year}`}, ${time}`;
+}
+
+/** Always naming the day, for a form's "taken at" line: "Today, 21:18", "Yesterday, 23:40", "Sat 14 Nov, 09:15". */
+export function formatDayAndTime(at: string | Date | number, timeZone: string, clock: ClockSetting, now: Date | number): string {
+  const ms = instant(at);
+  if (Number.isNaN(ms)) return '—';
+  const w = wallOrUtc(ms, timeZone);
+  const time = `${clock === '24h' ? h24(w) : h12(w)}${w.utc ? ' UTC' : ''}`;
+  return `${dayHeading(ms, timeZone, now)}, ${time}`;
+}
