@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { safeNote, safeText } from './safe-text';
+import { hasOneDecimalAtMost, oneDecimalMessage } from '../chart-time';
 import { ACTION_KINDS, CONTROL_MODES, HEAT_SIGNS, HEAT_SOURCES, REMOTE_SITES } from '../vocabulary';
 
 export { ACTION_KINDS, ACTION_LABELS, FUTURE_TOLERANCE_MINUTES, LATE_ENTRY_MINUTES, type ActionKind } from '../vocabulary';
@@ -20,6 +21,21 @@ const temperature = (label: string) =>
 
 const uuid = z.string().uuid({ error: 'Must be an id made by the app (a UUID).' });
 const isoInstant = z.iso.datetime({ offset: true, error: 'Must be a date and time (ISO 8601).' });
+
+/**
+ * Temperatures as typed, to one decimal place in the unit the nurse used (thermometers show
+ * one): more is refused, field by field. The readings import keeps its own rule (two decimals,
+ * shared/uploads/csv-formats.ts): it reads other devices' exports.
+ */
+function oneDecimalTemperatures(v: { unit?: string; probe?: number | null; remote?: number | null; air?: number | null; set?: number | null }, ctx: z.RefinementCtx, prefix: string[] = []): void {
+  if (v.unit !== 'C' && v.unit !== 'F') return;
+  for (const [field, label] of [['probe', 'Probe temperature'], ['remote', 'Remote-site temperature'], ['air', 'Air temperature'], ['set', 'Set temperature']] as const) {
+    const value = v[field];
+    if (typeof value === 'number' && Number.isFinite(value) && !hasOneDecimalAtMost(value)) {
+      ctx.addIssue({ code: 'custom', path: [...prefix, field], message: oneDecimalMessage(label, v.unit) });
+    }
+  }
+}
 
 /** What a reading holds, as typed: shared by a new reading and a correction's new version. */
 const readingValueFields = {
@@ -46,6 +62,7 @@ export const createReadingSchema = z
     lateReason: safeNote().max(300, 'Keep the reason under 300 characters.').nullable().optional(),
   })
   .superRefine((v, ctx) => {
+    oneDecimalTemperatures(v, ctx);
     if (v.probe == null && v.remote == null && v.air == null && v.heartRate == null) {
       ctx.addIssue({ code: 'custom', path: ['probe'], message: 'Enter at least one temperature or the heart rate.' });
     }
@@ -65,6 +82,7 @@ export const correctReadingSchema = z.strictObject({
   note: safeNote().min(1, 'Say briefly what was wrong.').max(500, 'Keep the note under 500 characters.'),
   values: z
     .strictObject(readingValueFields)
+    .superRefine((v, ctx) => oneDecimalTemperatures(v, ctx))
     .optional(),
 });
 export type CorrectReadingInput = z.input<typeof correctReadingSchema>;
