@@ -434,24 +434,32 @@ export const actionUndos = sqliteTable('action_undos', {
   createdAt: instant('created_at').notNull(),
 });
 
-export const escalations = sqliteTable('escalations', {
-  id: text('id').primaryKey(),
-  flagId: text('flag_id')
-    .notNull()
-    .unique()
-    .references(() => flags.id),
-  unitId: unitRef(),
-  escalatedAt: instant('escalated_at').notNull(),
-  mailedAt: instant('mailed_at'),
-  acknowledgedAt: instant('acknowledged_at'),
-  acknowledgedBy: text('acknowledged_by').references(() => users.id),
-  acknowledgeNote: text('acknowledge_note'),
-  /** JSON [{ userId, name, email }]: who it went to (set when it is sent). */
-  recipient: text('recipient'),
-  /** How it went: 'email'. */
-  channel: text('channel'),
-  severity: text('severity', { enum: ['critical', 'urgent', 'caution'] }),
-});
+/**
+ * An escalation of a flag: once per severity, so a flag that worsens after it escalated (moderate
+ * to severe hypothermia) escalates again, and one that stays as it was never does twice.
+ */
+export const escalations = sqliteTable(
+  'escalations',
+  {
+    id: text('id').primaryKey(),
+    flagId: text('flag_id')
+      .notNull()
+      .references(() => flags.id),
+    unitId: unitRef(),
+    escalatedAt: instant('escalated_at').notNull(),
+    mailedAt: instant('mailed_at'),
+    acknowledgedAt: instant('acknowledged_at'),
+    acknowledgedBy: text('acknowledged_by').references(() => users.id),
+    acknowledgeNote: text('acknowledge_note'),
+    /** JSON [{ userId, name, email }]: who it went to (set when it is sent). */
+    recipient: text('recipient'),
+    /** How it went: 'email'. */
+    channel: text('channel'),
+    severity: text('severity', { enum: ['critical', 'urgent', 'caution'] }),
+  },
+  // Rows stored before severities were kept have none (NULLs never collide): see escalatedSeverity.
+  (t) => [uniqueIndex('escalations_flag_severity').on(t.flagId, t.severity)],
+);
 
 /** An educator's teaching note on a flag; shown to the nurse concerned. */
 export const reviews = sqliteTable(
