@@ -19,7 +19,8 @@ import { Text } from '@/components/ui/text';
 import { CheckClockBadges } from './check-badge';
 import { ClosedFlags, FlagCard } from './flag-card';
 import { clockTime, CONTROL_MODE_LABELS, CORRECTION_REASON_LABELS, dayTime, SITE_LABELS, temp } from './format';
-import { startPendingFlush, usePendingReadings } from './pending-readings';
+import { startPendingFlush } from './pending-readings';
+import { PendingReadingCards } from './pending-reading-card';
 import { SkinToSkinPanel } from './skin-to-skin';
 import { TrendChart } from './trend-chart';
 import { useNow } from './use-now';
@@ -67,7 +68,6 @@ function FlowsheetBody({ sheet, hours, setHours, canChart }: { sheet: Flowsheet;
   const painted = useAfterFirstPaint();
   const { width } = useWindowDimensions();
   const wide = width >= WIDE_BREAKPOINT;
-  const pending = usePendingReadings(sheet.infant.id);
   const openFlags = sheet.flags.filter((f) => f.status === 'open');
   const corrected = [...sheet.readings.filter((r) => r.corrected), ...sheet.removed];
   return (
@@ -76,17 +76,7 @@ function FlowsheetBody({ sheet, hours, setHours, canChart }: { sheet: Flowsheet;
         <CheckClockBadges checks={sheet.checks} next={sheet.nextCheck} now={now} />
         {openFlags.length === 0 ? <StatusBadge tone="ok" icon="check" label="No open flags" /> : null}
       </View>
-      {pending.map((p) => (
-        <Card key={p.body.id} role="status">
-          <StatusBadge tone="warning" icon="cloud-off" label={p.refusal ? 'Not saved: refused' : 'Not yet saved'} />
-          <Text>
-            Probe {p.body.probe ?? '—'} · remote site {p.body.remote ?? '—'} °{p.body.unit} at {clockTime(p.body.takenAt, sheet.infant.timeZone, user.clock)}
-          </Text>
-          <Text variant="caption" tone="muted">
-            {p.refusal ?? 'Kept on this device; it is sent when the connection returns.'}
-          </Text>
-        </Card>
-      ))}
+      <PendingReadingCards infantId={sheet.infant.id} timeZone={sheet.infant.timeZone} />
       <View style={[styles.columns, wide && styles.columnsWide]}>
         {openFlags.map((f) => (
           <View key={f.key} style={wide ? styles.column : undefined}>

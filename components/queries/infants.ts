@@ -101,7 +101,10 @@ export function useCreateReadingMutation(infantId: string) {
         if (err instanceof ApiFailure && (err.problem.kind === 'cannot-connect' || err.problem.kind === 'server-error')) {
           return { saved: false, pending };
         }
-        pendingReadings.remove(body.id);
+        // An ended session: the form keeps the reading and sends it again once she has signed in.
+        // Any other refusal stays pending with the server's reason, so it is never lost unseen.
+        if (err instanceof ApiFailure && err.problem.kind === 'unauthorized') pendingReadings.remove(body.id);
+        else pendingReadings.markRefused(body.id, err instanceof Error ? err.message : 'The server refused this reading.');
         throw err;
       }
     },

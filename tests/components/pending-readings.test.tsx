@@ -1,8 +1,16 @@
 import { onlineManager, QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { act, renderHook, waitFor } from '@testing-library/react-native';
 import type { ReactNode } from 'react';
+import { storage } from '@/components/api/storage';
+import { TOKEN_KEY, USER_KEY } from '@/components/auth/session-keys';
 import { flushPendingReadings, pendingReadings, startPendingFlush, usePendingReadings, type PendingReading } from '@/components/bedside/pending-readings';
 import { useCreateReadingMutation } from '@/components/queries/infants';
+
+/** The session as the auth provider stores it: the pending queue sends only under its owner's session. */
+function signedInAs(id: string, token = `token-${id}`) {
+  storage.set(TOKEN_KEY, token);
+  storage.set(USER_KEY, JSON.stringify({ id, name: id, email: `${id}@warmfold.test`, role: 'nurse' }));
+}
 
 const INFANT = 'inf-test';
 const body = (id: string): PendingReading['body'] => ({
@@ -55,6 +63,7 @@ beforeEach(() => {
   for (const p of pendingReadings.all()) pendingReadings.remove(p.body.id);
   pendingReadings.reset();
   onlineManager.setOnline(true);
+  signedInAs('u-nia');
 });
 
 describe('readings saved without a connection', () => {
@@ -129,18 +138,80 @@ describe('readings saved without a connection', () => {
     expect(server.stored.size).toBe(1);
   });
 
-  it('does not queue a reading the server refuses: the form shows why', async () => {
-    const { wrapper } = setup();
-    global.fetch = jest.fn(async () => ({
+  it('keeps a reading the server refuses as pending, with the reason, and does not send it again by itself', async () => {
+    const { wrapper, queryClient } = setup();
+    const refuse = jest.fn(async () => ({
       ok: false,
       status: 400,
       headers: { get: () => null },
       json: async () => ({ error: { code: 'invalid', message: 'Check the values.', fields: { probe: 'Too high.' } } }),
-    })) as unknown as typeof fetch;
+    }));
+    global.fetch = refuse as unknown as typeof fetch;
     const { result } = renderHook(() => ({ save: useCreateReadingMutation(INFANT), pending: usePendingReadings(INFANT) }), { wrapper });
     await act(async () => {
       await expect(result.current.save.mutateAsync(body('44444444-4444-4444-8444-444444444444'))).rejects.toThrow('Check the values.');
     });
+    expect(result.current.pending.map((p) => [p.body.id, p.refusal])).toEqual([['44444444-4444-4444-8444-444444444444', 'Check the values.']]);
+    expect(result.current.pending[0]?.userId).toBe('u-nia');
+    await act(async () => {
+      await flushPendingReadings(queryClient);
+    });
+    expect(refuse).toHaveBeenCalledTimes(1);
+    // Saved again (the nurse put it right in the form, same id): the refusal goes with the success.
+    const { server } = setup();
+    await act(async () => {
+      await result.current.save.mutateAsync(body('44444444-4444-4444-8444-444444444444'));
+    });
+    expect(server.stored.size).toBe(1);
+    expect(result.current.pending).toHaveLength(0);
+  });
+
+  it('does not keep a reading pending when the session has ended: the form holds it until she signs in', async () => {
+    const { wrapper } = setup();
+    global.fetch = jest.fn(async () => ({
+      ok: false,
+      status: 401,
+      headers: { get: () => null },
+      json: async () => ({ error: { code: 'unauthorized', message: 'Your session has ended. Please sign in again.' } }),
+    })) as unknown as typeof fetch;
+    const { result } = renderHook(() => ({ save: useCreateReadingMutation(INFANT), pending: usePendingReadings(INFANT) }), { wrapper });
+    await act(async () => {
+      await expect(result.current.save.mutateAsync(body('55555555-5555-4555-8555-555555555555'))).rejects.toThrow(/session has ended/);
+    });
+    expect(result.current.pending).toHaveLength(0);
+  });
+
+  it("sends a reading only under the session of the nurse who saved it, never another user's or with no session", async () => {
+    const { server, wrapper, queryClient } = setup();
+    server.set('down');
+    const { result } = renderHook(() => ({ save: useCreateReadingMutation(INFANT), pending: usePendingReadings(INFANT) }), { wrapper });
+    await act(async () => {
+      await result.current.save.mutateAsync(body('66666666-6666-4666-8666-666666666666'));
+    });
+    expect(result.current.pending[0]?.userId).toBe('u-nia');
+    server.set('up');
+
+    // The session ended: nothing goes.
+    storage.remove(TOKEN_KEY);
+    await act(async () => {
+      await flushPendingReadings(queryClient);
+    });
+    expect(server.posts).toHaveLength(0);
+
+    // Someone else signs in on the phone: still nothing, the reading is Nia's.
+    signedInAs('u-marta');
+    await act(async () => {
+      await flushPendingReadings(queryClient);
+    });
+    expect(server.posts).toHaveLength(0);
+    expect(result.current.pending).toHaveLength(1);
+
+    // Nia again: it goes, once.
+    signedInAs('u-nia');
+    await act(async () => {
+      await flushPendingReadings(queryClient);
+    });
+    expect(server.posts.map((p) => p.id)).toEqual(['66666666-6666-4666-8666-666666666666']);
     expect(result.current.pending).toHaveLength(0);
   });
 });
