@@ -1,28 +1,29 @@
-import { prepared, writeTx } from '../../db/client';
+import { writeTx } from '../../db/client';
 import type Database from 'better-sqlite3';
-import { and, asc, eq, gte, inArray, isNotNull, isNull, or } from 'drizzle-orm';
-import { actions, actionUndos, escalations, flagEvents, flagResolutions, flags, infantClocks, users } from '../../db/schema';
-import { dueStatus, needsAttention, worseSeverity, type EvaluatedFlag, type FlagKind, type InfantEvaluation, type Severity } from '../../shared/thermal';
+import { and, asc, eq, gte, inArray, isNotNull, isNull, or, sql } from 'drizzle-orm';
+import {
+  actions,
+  actionUndos,
+  assignments,
+  beds,
+  escalations,
+  flagEvents,
+  flagResolutions,
+  flags,
+  infantClocks,
+  infants,
+  skinToSkinSessions,
+  units,
+  users,
+} from '../../db/schema';
+import { dueStatus, needsAttention, worseSeverity, type EvaluatedFlag, type InfantEvaluation, type Severity } from '../../shared/thermal';
 import { shiftAt } from '../../shared/shifts';
 import type { CheckClocks, ClockStatus, EscalationSent, FlowsheetFlag, InfantSummary, NextCheck, OpenFlagSummary, RecheckClock } from '../../shared/types/bedside';
 import { dbOf, type ClockRow, type StoredLatest, type StoredOpenFlag } from './flag-lifecycle';
-import { syncFlags, type UnitRow } from './flags';
+import { syncFlags } from './flags';
+import { jsonList, perConnection } from './prepared-queries';
 
 const DAY_MS = 86_400_000;
-
-interface InfantRow {
-  id: string;
-  unit_id: string;
-  bed_id: string | null;
-  bed_label: string | null;
-  display_name: string;
-  birth_at: number;
-  gestation_weeks: number;
-  gestation_days: number;
-  weight_grams: number;
-  heat_source: InfantSummary['heatSource'];
-  admitted_at: number;
-}
 
 /** JSON-safe copy of the rules' detail (Dates become ISO strings). */
 export function plainDetail(detail: unknown): Record<string, unknown> {
@@ -83,16 +84,71 @@ export function checkClocks(clock: ClockRow | undefined, open: OpenFlagSummary[]
   return { remote, manual, rechecks, next: STATUS_RANK[next.status] <= STATUS_RANK[remote.status] ? next : { clock: 'remote', ...remote } };
 }
 
-interface StoredFlagRow {
-  id: string;
-  infantId: string;
-  key: string;
-  kind: FlagKind;
-  raisedAt: Date;
-  raisedByReadingId: string | null;
-  detail: string;
-  severity: Severity | null;
-}
+/** A stored flag as the views read it. */
+type StoredFlagRow = Pick<typeof flags.$inferSelect, 'id' | 'infantId' | 'key' | 'kind' | 'raisedAt' | 'raisedByReadingId' | 'detail' | 'severity'>;
+
+const storedFlagColumns = {
+  id: flags.id,
+  infantId: flags.infantId,
+  key: flags.key,
+  kind: flags.kind,
+  raisedAt: flags.raisedAt,
+  raisedByReadingId: flags.raisedByReadingId,
+  detail: flags.detail,
+  severity: flags.severity,
+};
+
+/**
+ * The summaries' reads, prepared: the board and the flowsheet run them on every build (bench
+ * budget: "unit board" and "72-h flowsheet" req/s at least 50 % of the baseline route's).
+ */
+const summaryQueries = perConnection((db) => ({
+  infants: db
+    .select({
+      id: infants.id,
+      unitId: infants.unitId,
+      bedId: infants.bedId,
+      bedLabel: beds.label,
+      displayName: infants.displayName,
+      birthAt: infants.birthAt,
+      gestationWeeks: infants.gestationWeeks,
+      gestationDays: infants.gestationDays,
+      weightGrams: infants.weightGrams,
+      heatSource: infants.heatSource,
+    })
+    .from(infants)
+    .leftJoin(beds, eq(beds.id, infants.bedId))
+    .where(inArray(infants.id, jsonList('ids')))
+    .prepare(),
+  clocks: db.select().from(infantClocks).where(inArray(infantClocks.infantId, jsonList('ids'))).prepare(),
+  units: db.select().from(units).where(inArray(units.id, jsonList('ids'))).prepare(),
+  openFlags: db
+    .select(storedFlagColumns)
+    .from(flags)
+    .leftJoin(flagResolutions, eq(flagResolutions.flagId, flags.id))
+    .where(and(inArray(flags.infantId, jsonList('ids')), isNull(flagResolutions.flagId)))
+    .orderBy(asc(flags.raisedAt), asc(flags.key))
+    .prepare(),
+  runningSessions: db
+    .select({
+      id: skinToSkinSessions.id,
+      infantId: skinToSkinSessions.infantId,
+      startedAt: skinToSkinSessions.startedAt,
+      referenceCenti: skinToSkinSessions.referenceCenti,
+      limitCenti: skinToSkinSessions.limitCenti,
+    })
+    .from(skinToSkinSessions)
+    .where(and(inArray(skinToSkinSessions.infantId, jsonList('ids')), isNull(skinToSkinSessions.endedAt)))
+    .orderBy(asc(skinToSkinSessions.startedAt))
+    .prepare(),
+  assignments: db
+    .select({ infantId: assignments.infantId, shiftDate: assignments.shiftDate, shift: assignments.shift, nurseId: users.id, nurseName: users.name })
+    .from(assignments)
+    .innerJoin(users, eq(users.id, assignments.nurseId))
+    .where(and(inArray(assignments.infantId, jsonList('ids')), gte(assignments.shiftDate, sql.placeholder('since'))))
+    .orderBy(asc(assignments.createdAt), asc(assignments.id))
+    .prepare(),
+}));
 
 /** Escalations that actually went out, by flag id. */
 export function sentEscalations(sqlite: Database.Database, flagIds: string[]): Map<string, EscalationSent> {
@@ -127,22 +183,7 @@ export function sentEscalations(sqlite: Database.Database, flagIds: string[]): M
 
 /** The stored open flags of these infants (raised, neither closed nor withdrawn). */
 function storedOpenFlags(sqlite: Database.Database, infantIds: string[]): StoredFlagRow[] {
-  return dbOf(sqlite)
-    .select({
-      id: flags.id,
-      infantId: flags.infantId,
-      key: flags.key,
-      kind: flags.kind,
-      raisedAt: flags.raisedAt,
-      raisedByReadingId: flags.raisedByReadingId,
-      detail: flags.detail,
-      severity: flags.severity,
-    })
-    .from(flags)
-    .leftJoin(flagResolutions, eq(flagResolutions.flagId, flags.id))
-    .where(and(inArray(flags.infantId, infantIds), isNull(flagResolutions.flagId)))
-    .orderBy(asc(flags.raisedAt), asc(flags.key))
-    .all();
+  return summaryQueries(sqlite).openFlags.all({ ids: JSON.stringify(infantIds) });
 }
 
 /**
@@ -218,21 +259,14 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
   if (infantIds.length === 0) return [];
   const unique = [...new Set(infantIds)];
   const ids = JSON.stringify(unique);
-  const db = dbOf(sqlite);
+  const q = summaryQueries(sqlite);
 
-  const infants = prepared(
-    sqlite,
-      `SELECT i.id, i.unit_id, i.bed_id, b.label AS bed_label, i.display_name, i.birth_at, i.gestation_weeks, i.gestation_days,
-              i.weight_grams, i.heat_source, i.admitted_at
-         FROM infants i LEFT JOIN beds b ON b.id = i.bed_id
-        WHERE i.id IN (SELECT value FROM json_each(?))`,
-    )
-    .all(ids) as InfantRow[];
-  if (infants.length === 0) return [];
+  const infantRows = q.infants.all({ ids });
+  if (infantRows.length === 0) return [];
 
-  const loadClocks = () => db.select().from(infantClocks).where(inArray(infantClocks.infantId, unique)).all();
+  const loadClocks = () => q.clocks.all({ ids });
   let clockRows = loadClocks();
-  const missing = infants.filter((i) => !clockRows.some((c) => c.infantId === i.id));
+  const missing = infantRows.filter((i) => !clockRows.some((c) => c.infantId === i.id));
   if (missing.length > 0 && !sqlite.inTransaction) {
     writeTx(sqlite, () => {
       for (const i of missing) syncFlags(sqlite, i.id, now, null);
@@ -241,65 +275,41 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
   }
   const clocks = new Map(clockRows.map((c) => [c.infantId, c]));
 
-  const unitIds = JSON.stringify([...new Set(infants.map((i) => i.unit_id))]);
-  const units = prepared(sqlite, 'SELECT * FROM units WHERE id IN (SELECT value FROM json_each(?))').all(unitIds) as UnitRow[];
-  const unitById = new Map(units.map((u) => [u.id, u]));
+  const unitRows = q.units.all({ ids: JSON.stringify([...new Set(infantRows.map((i) => i.unitId))]) });
+  const unitById = new Map(unitRows.map((u) => [u.id, u]));
 
   const openRows = storedOpenFlags(sqlite, unique);
   const sent = sentEscalations(sqlite, openRows.map((r) => r.id));
-
-  const sessions = prepared(
-    sqlite,
-      `SELECT id, infant_id, started_at, ended_at, reference_centi, limit_centi FROM skin_to_skin_sessions
-        WHERE infant_id IN (SELECT value FROM json_each(?)) AND ended_at IS NULL ORDER BY started_at`,
-    )
-    .all(ids) as Array<{ id: string; infant_id: string; started_at: number; ended_at: number | null; reference_centi: number; limit_centi: number }>;
-
-  const assignments = prepared(
-    sqlite,
-      `SELECT a.infant_id, a.shift_date, a.shift, a.created_at, u.id AS nurse_id, u.name AS nurse_name
-         FROM assignments a JOIN users u ON u.id = a.nurse_id
-        WHERE a.infant_id IN (SELECT value FROM json_each(?)) AND a.shift_date >= ?
-        ORDER BY a.created_at, a.id`,
-    )
-    .all(ids, new Date(now.getTime() - 2 * DAY_MS).toISOString().slice(0, 10)) as Array<{
-    infant_id: string;
-    shift_date: string;
-    shift: string;
-    created_at: number;
-    nurse_id: string;
-    nurse_name: string;
-  }>;
+  const sessions = q.runningSessions.all({ ids });
+  const assigned = q.assignments.all({ ids, since: new Date(now.getTime() - 2 * DAY_MS).toISOString().slice(0, 10) });
 
   const flagsBy = groupBy(openRows, (f) => f.infantId);
-  const sessionsBy = groupBy(sessions, (s) => s.infant_id);
-  const assignmentsBy = groupBy(assignments, (a) => a.infant_id);
-  const slots = new Map(
-    units.map((u) => [u.id, shiftAt(now, { dayShiftStart: u.day_shift_start, nightShiftStart: u.night_shift_start, timeZone: u.time_zone })]),
-  );
+  const sessionsBy = groupBy(sessions, (s) => s.infantId);
+  const assignmentsBy = groupBy(assigned, (a) => a.infantId);
+  const slots = new Map(unitRows.map((u) => [u.id, shiftAt(now, { dayShiftStart: u.dayShiftStart, nightShiftStart: u.nightShiftStart, timeZone: u.timeZone })]));
 
   const byId = new Map<string, InfantSummary>();
-  for (const infant of infants) {
-    const unit = unitById.get(infant.unit_id)!;
+  for (const infant of infantRows) {
+    const unit = unitById.get(infant.unitId)!;
     const clock = clocks.get(infant.id);
     const latest: StoredLatest | null = clock ? (JSON.parse(clock.latest) as StoredLatest) : null;
     const openFlags = openFlagsFromStore(flagsBy.get(infant.id) ?? [], clock, sent, now);
     const checks = checkClocks(clock, openFlags, now);
-    const running = (sessionsBy.get(infant.id) ?? []).filter((s) => s.started_at <= now.getTime()).pop();
-    const slot = slots.get(infant.unit_id)!;
-    const assigned = (assignmentsBy.get(infant.id) ?? []).filter((a) => a.shift_date === slot.shiftDate && a.shift === slot.shift).pop();
+    const running = (sessionsBy.get(infant.id) ?? []).filter((s) => s.startedAt.getTime() <= now.getTime()).pop();
+    const slot = slots.get(infant.unitId)!;
+    const nurse = (assignmentsBy.get(infant.id) ?? []).filter((a) => a.shiftDate === slot.shiftDate && a.shift === slot.shift).pop();
     byId.set(infant.id, {
       id: infant.id,
-      unitId: infant.unit_id,
-      timeZone: unit.time_zone,
-      bedId: infant.bed_id,
-      bedLabel: infant.bed_label,
-      displayName: infant.display_name,
-      gestationWeeks: infant.gestation_weeks,
-      gestationDays: infant.gestation_days,
-      ...ages(infant.birth_at, infant.gestation_weeks, infant.gestation_days, now),
-      weightGrams: infant.weight_grams,
-      heatSource: infant.heat_source,
+      unitId: infant.unitId,
+      timeZone: unit.timeZone,
+      bedId: infant.bedId,
+      bedLabel: infant.bedLabel,
+      displayName: infant.displayName,
+      gestationWeeks: infant.gestationWeeks,
+      gestationDays: infant.gestationDays,
+      ...ages(infant.birthAt.getTime(), infant.gestationWeeks, infant.gestationDays, now),
+      weightGrams: infant.weightGrams,
+      heatSource: infant.heatSource,
       controlMode: latest?.controlMode ?? null,
       setCenti: latest?.setCenti ?? null,
       latest: {
@@ -310,10 +320,8 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
       checks,
       attention: attentionOf(openFlags, checks),
       openFlags,
-      skinToSkin: running
-        ? { id: running.id, startedAt: new Date(running.started_at).toISOString(), referenceCenti: running.reference_centi, limitCenti: running.limit_centi }
-        : null,
-      assignedNurse: assigned ? { id: assigned.nurse_id, name: assigned.nurse_name } : null,
+      skinToSkin: running ? { id: running.id, startedAt: running.startedAt.toISOString(), referenceCenti: running.referenceCenti, limitCenti: running.limitCenti } : null,
+      assignedNurse: nurse ? { id: nurse.nurseId, name: nurse.nurseName } : null,
     });
   }
   return unique.map((id) => byId.get(id)).filter((s): s is InfantSummary => s !== undefined);
@@ -326,50 +334,47 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
  */
 const SEVERITY_RANK: Record<string, number> = { critical: 0, urgent: 1, caution: 2 };
 
-export function storedFlowsheetFlags(sqlite: Database.Database, infantId: string, fromMs: number, now: Date): FlowsheetFlag[] {
-  const db = dbOf(sqlite);
-  const rows = db
-    .select({
-      id: flags.id,
-      infantId: flags.infantId,
-      key: flags.key,
-      kind: flags.kind,
-      raisedAt: flags.raisedAt,
-      raisedByReadingId: flags.raisedByReadingId,
-      detail: flags.detail,
-      severity: flags.severity,
-      closedAt: flagResolutions.closedAt,
-      closedByReadingId: flagResolutions.closedByReadingId,
-      how: flagResolutions.how,
-    })
+/** The flowsheet's reads, prepared: it is read on every poll (bench budget: "72-h flowsheet" req/s at least 50 % of the baseline's). */
+const flowsheetQueries = perConnection((db) => ({
+  flags: db
+    .select({ ...storedFlagColumns, closedAt: flagResolutions.closedAt, closedByReadingId: flagResolutions.closedByReadingId, how: flagResolutions.how })
     .from(flags)
     .leftJoin(flagResolutions, eq(flagResolutions.flagId, flags.id))
-    .where(and(eq(flags.infantId, infantId), or(isNull(flagResolutions.flagId), gte(flags.raisedAt, new Date(fromMs)), gte(flagResolutions.closedAt, new Date(fromMs)))))
+    .where(
+      and(
+        eq(flags.infantId, sql.placeholder('infantId')),
+        or(isNull(flagResolutions.flagId), gte(flags.raisedAt, sql.placeholder('fromMs')), gte(flagResolutions.closedAt, sql.placeholder('fromMs'))),
+      ),
+    )
     .orderBy(asc(flags.raisedAt), asc(flags.key))
-    .all();
-  const clock = db.select().from(infantClocks).where(eq(infantClocks.infantId, infantId)).get();
+    .prepare(),
+  clock: db.select().from(infantClocks).where(eq(infantClocks.infantId, sql.placeholder('infantId'))).prepare(),
+  actions: db
+    .select({ id: actions.id, flagId: actions.flagId, kind: actions.kind, note: actions.note, at: actions.at, recordedBy: actions.recordedBy, name: users.name })
+    .from(actions)
+    .innerJoin(users, eq(users.id, actions.recordedBy))
+    // An undone action (entered in error) no longer counts; the history still shows it.
+    .leftJoin(actionUndos, eq(actionUndos.actionId, actions.id))
+    .where(and(inArray(actions.flagId, jsonList('ids')), isNull(actionUndos.id)))
+    .orderBy(asc(actions.at), asc(actions.createdAt))
+    .prepare(),
+  withdrawals: db
+    .select({ flagId: flagEvents.flagId, at: flagEvents.at, detail: flagEvents.detail })
+    .from(flagEvents)
+    .where(and(inArray(flagEvents.flagId, jsonList('ids')), eq(flagEvents.event, 'withdrawn')))
+    .prepare(),
+}));
+
+export function storedFlowsheetFlags(sqlite: Database.Database, infantId: string, fromMs: number, now: Date): FlowsheetFlag[] {
+  const q = flowsheetQueries(sqlite);
+  const rows = q.flags.all({ infantId, fromMs });
+  const clock = q.clock.get({ infantId });
   const open = rows.filter((r) => r.closedAt === null);
   const sent = sentEscalations(sqlite, rows.map((r) => r.id));
   const openJson = new Map(openFlagsFromStore(open, clock, sent, now).map((f) => [f.id, f]));
-  const ids = rows.map((r) => r.id);
-  const acts = ids.length
-    ? db
-        .select({ id: actions.id, flagId: actions.flagId, kind: actions.kind, note: actions.note, at: actions.at, recordedBy: actions.recordedBy, name: users.name })
-        .from(actions)
-        .innerJoin(users, eq(users.id, actions.recordedBy))
-        // An undone action (entered in error) no longer counts; the history still shows it.
-        .leftJoin(actionUndos, eq(actionUndos.actionId, actions.id))
-        .where(and(inArray(actions.flagId, ids), isNull(actionUndos.id)))
-        .orderBy(asc(actions.at), asc(actions.createdAt))
-        .all()
-    : [];
-  const withdrawals = ids.length
-    ? db
-        .select({ flagId: flagEvents.flagId, at: flagEvents.at, detail: flagEvents.detail })
-        .from(flagEvents)
-        .where(and(inArray(flagEvents.flagId, ids), eq(flagEvents.event, 'withdrawn')))
-        .all()
-    : [];
+  const ids = JSON.stringify(rows.map((r) => r.id));
+  const acts = rows.length ? q.actions.all({ ids }) : [];
+  const withdrawals = rows.length ? q.withdrawals.all({ ids }) : [];
   const withdrawnBy = new Map(withdrawals.map((w) => [w.flagId, w]));
   return rows
     .map((r): FlowsheetFlag => {
