@@ -1,9 +1,10 @@
 import { Redirect, Slot } from 'expo-router';
 import { useAuth } from '@/components/auth/auth-provider';
+import { SessionSheet } from '@/components/auth/session-sheet';
 import { AppShell } from '@/components/shell/app-shell';
 import { LoadingState } from '@/components/ui/state-view';
 
-/** Everything in this group needs a signed-in user. */
+/** Everything in this group needs a signed-in user; an ended session is signed into again over the screen. */
 export default function SignedInLayout() {
   const { user, ready } = useAuth();
   if (!user && !ready) return <LoadingState label="Opening Warmfold…" />;
@@ -11,6 +12,7 @@ export default function SignedInLayout() {
   return (
     <AppShell>
       <Slot />
+      <SessionSheet />
     </AppShell>
   );
 }

@@ -77,3 +77,8 @@ export function takeEarlyRead(path: string, token: string | null, now = Date.now
 export function takeEarlyAnswer(path: string, token: string | null, now = Date.now()): EarlyAnswer | null {
   return take('answers', path, token, now);
 }
+
+/** Sign-out and a change of user: drop whatever the page read early (patient data in memory). */
+export function forgetEarlyReads(): void {
+  delete (globalThis as { [GLOBAL]?: EarlyReads })[GLOBAL];
+}

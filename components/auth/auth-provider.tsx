@@ -2,17 +2,27 @@ import { useQueryClient } from '@tanstack/react-query';
 import { createContext, useCallback, useContext, useEffect, useMemo, useState, type ReactNode } from 'react';
 import type { SessionUser, SignInInput } from '@/shared/schemas/auth';
 import { api, configureApi } from '../api/client';
+import { forgetEarlyReads } from '../api/early-requests';
 import { storage } from '../api/storage';
 import { afterNextPaint } from '../ui/after-next-paint';
 import { TOKEN_KEY, USER_KEY } from './session-keys';
 import { clearPatientData } from '@/components/offline/service-worker';
-
+import { forgetDeviceData } from '@/components/offline/device-data';
+import { flushPendingReadings } from '@/components/bedside/pending-readings';
 
 interface AuthState {
+  /** The signed-in user; while `sessionEnded`, the user whose session it was (their screens stay). */
   user: SessionUser | null;
   /** False until the stored session has been read. */
   ready: boolean;
+  /**
+   * The server ended the session (a 401) while someone was signed in: the screen stays as it was
+   * (a form keeps what was typed) and sign-in happens over it. The same user carries on where
+   * they were; someone else signing in starts afresh, and the first user's drafts stay theirs.
+   */
+  sessionEnded: boolean;
   signIn: (input: SignInInput) => Promise<SessionUser>;
+  /** Sign out and forget this device's drafts, pending readings and stored patient data. */
   signOut: () => Promise<void>;
   replaceUser: (user: SessionUser) => void;
   /** Set when the server ended the session, so sign-in can say why. */
@@ -23,6 +33,16 @@ const AuthContext = createContext<AuthState | null>(null);
 
 /** What a 401 does; the provider sets it once mounted. */
 let whenUnauthorized: () => void = () => {};
+
+const resumedListeners = new Set<(userId: string) => void>();
+/**
+ * Called with the user who signed in over an ended session (the same nurse, or someone else): a
+ * screen holding a save for that session sends it if the user is the one it belongs to.
+ */
+export function onSignedInAgain(listener: (userId: string) => void): () => void {
+  resumedListeners.add(listener);
+  return () => resumedListeners.delete(listener);
+}
 
 // Configured when this module loads, not in the provider's effect: React runs a screen's effects
 // (and so its first queries) before its parents', so a page opened with a stored session used to
@@ -49,22 +69,40 @@ export function AuthProvider({ children }: { children: ReactNode }) {
   const [user, setUser] = useState<SessionUser | null>(null);
   const [ready, setReady] = useState(false);
   const [endedMessage, setEndedMessage] = useState<string | null>(null);
+  const [sessionEnded, setSessionEnded] = useState(false);
 
   const clear = useCallback(() => {
     storage.remove(TOKEN_KEY);
     storage.remove(USER_KEY);
     setUser(null);
+    setSessionEnded(false);
     queryClient.clear();
+    forgetEarlyReads();
     // The service worker's stored API answers are patient data: they go with the session.
-    clearPatientData();
+    void clearPatientData();
   }, [queryClient]);
 
   useEffect(() => {
     whenUnauthorized = () => {
-      if (storage.get(TOKEN_KEY)) setEndedMessage('Your session ended. Please sign in again.');
+      const hadToken = storage.get(TOKEN_KEY) !== null;
+      storage.remove(TOKEN_KEY);
+      // Someone was signed in: keep their screen and ask them to sign in over it.
+      if (readStoredUser()) {
+        setSessionEnded(true);
+        return;
+      }
+      if (hadToken) setEndedMessage('Your session ended. Please sign in again.');
       clear();
     };
     if (!storage.get(TOKEN_KEY)) {
+      // A user kept without a token is a session the server ended (sign-out forgets both): the
+      // page opens as it was, with sign-in over it, so a reload does not lose the nurse's place.
+      const ended = readStoredUser();
+      if (ended) {
+        // eslint-disable-next-line react-hooks/set-state-in-effect -- storage is read after hydration (DEVELOPERS.md, Footguns)
+        setUser(ended);
+        setSessionEnded(true);
+      }
       setReady(true);
       return;
     }
@@ -87,21 +125,43 @@ export function AuthProvider({ children }: { children: ReactNode }) {
     });
   }, [clear]);
 
-  const signIn = useCallback(async (input: SignInInput) => {
-    const result = await api<{ token: string; user: SessionUser }>('/auth/sign-in', { method: 'POST', body: input, skipUnauthorizedHandler: true });
-    storage.set(TOKEN_KEY, result.token);
-    storage.set(USER_KEY, JSON.stringify(result.user));
-    setEndedMessage(null);
-    setUser(result.user);
-    return result.user;
-  }, []);
+  const signIn = useCallback(
+    async (input: SignInInput) => {
+      const result = await api<{ token: string; user: SessionUser }>('/auth/sign-in', { method: 'POST', body: input, skipUnauthorizedHandler: true });
+      const before = readStoredUser();
+      const resumed = before !== null && before.id === result.user.id;
+      if (before && !resumed) {
+        // Someone else over an ended session: nothing of the first user's stays in memory or in the
+        // worker's cache. Their drafts and pending readings stay on the device, still theirs.
+        queryClient.clear();
+        forgetEarlyReads();
+        void clearPatientData();
+      }
+      storage.set(TOKEN_KEY, result.token);
+      storage.set(USER_KEY, JSON.stringify(result.user));
+      setEndedMessage(null);
+      setSessionEnded(false);
+      setUser(result.user);
+      if (resumed) {
+        // The same nurse again: what failed while signed out is asked again, and her pending readings go.
+        void queryClient.invalidateQueries();
+        void flushPendingReadings(queryClient);
+      }
+      if (before) resumedListeners.forEach((l) => l(result.user.id));
+      return result.user;
+    },
+    [queryClient],
+  );
 
   const signOut = useCallback(async () => {
-    try {
-      await api('/auth/sign-out', { method: 'POST', skipUnauthorizedHandler: true });
-    } catch {
-      // Signing out locally still happens when the server cannot be reached.
+    if (storage.get(TOKEN_KEY)) {
+      try {
+        await api('/auth/sign-out', { method: 'POST', skipUnauthorizedHandler: true });
+      } catch {
+        // Signing out locally still happens when the server cannot be reached.
+      }
     }
+    forgetDeviceData();
     clear();
   }, [clear]);
 
@@ -110,7 +170,10 @@ export function AuthProvider({ children }: { children: ReactNode }) {
     setUser(next);
   }, []);
 
-  const value = useMemo(() => ({ user, ready, signIn, signOut, replaceUser, endedMessage }), [user, ready, signIn, signOut, replaceUser, endedMessage]);
+  const value = useMemo(
+    () => ({ user, ready, sessionEnded, signIn, signOut, replaceUser, endedMessage }),
+    [user, ready, sessionEnded, signIn, signOut, replaceUser, endedMessage],
+  );
   return <AuthContext.Provider value={value}>{children}</AuthContext.Provider>;
 }
 

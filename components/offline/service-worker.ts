@@ -3,7 +3,9 @@ export function registerServiceWorker(): () => void {
   return () => {};
 }
 
-export function clearPatientData(): void {}
+export function clearPatientData(): Promise<void> {
+  return Promise.resolve();
+}
 
 export function useUpdateReady(): (() => void) | null {
   return null;

@@ -7,6 +7,8 @@ import { useSyncExternalStore } from 'react';
 
 /** The service worker's cache of API answers (patient data); the name is the worker's. */
 const API_CACHE = 'warmfold-api';
+/** The pages opened online, by path (their addresses name infants); the name is the worker's. */
+const PAGE_CACHE = 'warmfold-pages';
 
 let applyUpdate: (() => void) | null = null;
 const listeners = new Set<() => void>();
@@ -48,11 +50,17 @@ export function registerServiceWorker(): () => void {
   };
 }
 
-/** Sign-out and an ended session: forget every stored API answer on this device. */
-export function clearPatientData(): void {
-  if (typeof window === 'undefined' || !('caches' in window)) return;
-  void caches.delete(API_CACHE).catch(() => {});
+/**
+ * Sign-out and a change of user: forget every stored API answer on this device, and the pages
+ * kept by their addresses. The worker's precache (the build's own files) holds no patient data.
+ */
+export function clearPatientData(): Promise<void> {
+  if (typeof window === 'undefined' || !('caches' in window)) return Promise.resolve();
   navigator.serviceWorker?.controller?.postMessage({ type: 'CLEAR_PATIENT_DATA' });
+  return Promise.all([caches.delete(API_CACHE), caches.delete(PAGE_CACHE)]).then(
+    () => undefined,
+    () => undefined,
+  );
 }
 
 /** A function that switches to the new build and reloads, once one is waiting; else null. */

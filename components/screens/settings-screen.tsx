@@ -4,7 +4,8 @@ import { StyleSheet } from 'react-native';
 import { ROLE_LABELS } from '@/shared/roles';
 import type { ChangePasswordInput } from '@/shared/schemas/auth';
 import { problemOf } from '../api/client';
-import { useAuth, useUser } from '../auth/auth-provider';
+import { useUser } from '../auth/auth-provider';
+import { useSignOut } from '../shell/sign-out';
 import { lazyZodResolver } from '../forms/lazy-resolver';
 import { DemoMailboxLink } from '../mailbox/demo-mailbox-link';
 import { FormRootError } from '../forms/form-root-error';
@@ -19,7 +20,7 @@ import { TextField } from '../ui/text-field';
 
 export function SettingsScreen() {
   const user = useUser();
-  const { signOut } = useAuth();
+  const requestSignOut = useSignOut();
   const prefs = usePreferencesMutation();
   const { setChoice } = useThemeChoice();
   return (
@@ -65,9 +66,9 @@ export function SettingsScreen() {
           </Text>
         ) : null}
       </Card>
-      <PasswordCard onChanged={() => void signOut()} />
+      <PasswordCard onChanged={requestSignOut} />
       <DemoMailboxLink />
-      <Button label="Sign out" variant="secondary" icon="out" onPress={() => void signOut()} style={styles.start} />
+      <Button label="Sign out" variant="secondary" icon="out" onPress={requestSignOut} style={styles.start} />
     </Screen>
   );
 }

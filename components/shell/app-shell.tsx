@@ -2,12 +2,13 @@ import { router, usePathname } from 'expo-router';
 import type { ReactNode } from 'react';
 import { Pressable, StyleSheet, View, useWindowDimensions } from 'react-native';
 import { ROLE_LABELS } from '@/shared/roles';
-import { useAuth, useUser } from '../auth/auth-provider';
+import { useUser } from '../auth/auth-provider';
 import { TOUCH_TARGET, WIDE_BREAKPOINT } from '../theme/theme';
 import { useTheme } from '../theme/theme-provider';
 import { Icon } from '../ui/icon';
 import { Text } from '../ui/text';
 import { ConnectionBanner } from './connection-banner';
+import { SignOutDialog, useSignOut } from './sign-out';
 import { UpdateBanner } from '../offline/update-banner';
 import { navItemsFor, type NavItem } from './nav-items';
 
@@ -17,7 +18,7 @@ export function AppShell({ children }: { children: ReactNode }) {
   const wide = width >= WIDE_BREAKPOINT;
   const theme = useTheme();
   const user = useUser();
-  const { signOut } = useAuth();
+  const signOut = useSignOut();
   const items = navItemsFor(user.role);
   const c = theme.colors;
 
@@ -37,7 +38,7 @@ export function AppShell({ children }: { children: ReactNode }) {
             <NavLink key={item.href} item={item} layout="rail" />
           ))}
           <View style={styles.spacer} />
-          <Pressable role="button" aria-label="Sign out" onPress={() => void signOut()} style={styles.railItem}>
+          <Pressable role="button" aria-label="Sign out" onPress={signOut} style={styles.railItem}>
             <Icon name="out" color={c.textMuted} />
             <Text tone="muted" variant="label">
               Sign out
@@ -49,6 +50,7 @@ export function AppShell({ children }: { children: ReactNode }) {
           <UpdateBanner />
           {children}
         </View>
+        <SignOutDialog />
       </View>
     );
   }
@@ -64,6 +66,7 @@ export function AppShell({ children }: { children: ReactNode }) {
           <NavLink key={item.href} item={item} layout="tabs" />
         ))}
       </View>
+      <SignOutDialog />
     </View>
   );
 }

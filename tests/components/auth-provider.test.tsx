@@ -23,7 +23,7 @@ function serverExpecting(token: string) {
 
 /** A screen that asks for its data as soon as it mounts: its effect runs before the provider's. */
 function Screen() {
-  const { user, endedMessage } = useAuth();
+  const { user, endedMessage, sessionEnded } = useAuth();
   const [loaded, setLoaded] = useState(false);
   useEffect(() => {
     api('/me/infants').then(
@@ -33,7 +33,7 @@ function Screen() {
   }, []);
   return (
     <Text>
-      {user ? `signed in as ${user.name}` : 'signed out'} {loaded ? 'loaded' : ''} {endedMessage ?? ''}
+      {user ? `signed in as ${user.name}` : 'signed out'} {loaded ? 'loaded' : ''} {endedMessage ?? ''} {sessionEnded ? 'session ended' : ''}
     </Text>
   );
 }
@@ -66,9 +66,21 @@ describe('AuthProvider', () => {
     expect(storage.get('warmfold.token')).toBe('stored-token');
   });
 
-  it('signs out and says why when the server ends the session', async () => {
+  it('keeps the screen and its user when the server ends the session, and asks to sign in over it', async () => {
     storage.set('warmfold.token', 'revoked-token');
     storage.set('warmfold.user', JSON.stringify(USER));
+    globalThis.fetch = serverExpecting('another-token').fetchMock as unknown as typeof fetch;
+    const screen = renderScreen();
+    await screen.findByText(/signed in as Nia Okafor.*session ended/);
+    expect(storage.get('warmfold.token')).toBeNull();
+    // A reload opens the same way: the user kept without a token is an ended session, not a sign-out.
+    screen.unmount();
+    const again = renderScreen();
+    await again.findByText(/signed in as Nia Okafor.*session ended/);
+  });
+
+  it('signs out and says why when a session ends with no user kept on the device', async () => {
+    storage.set('warmfold.token', 'revoked-token');
     globalThis.fetch = serverExpecting('another-token').fetchMock as unknown as typeof fetch;
     const screen = renderScreen();
     await screen.findByText(/signed out.*Your session ended/);
