@@ -1,4 +1,4 @@
-import { dischargeInfantSchema, moveInfantSchema, updateInfantSchema, type DischargeInfantInput, type MoveInfantInput } from '../../shared/schemas/unit';
+import { dischargeInfantSchema, moveInfantSchema, updateInfantSchema, type DischargeInfant, type MoveInfantInput } from '../../shared/schemas/unit';
 import type { AppContext } from '../context';
 import { allow, assertUnit, secureRouter } from '../middleware/access';
 import { valid, validate } from '../middleware/validate';
@@ -32,8 +32,8 @@ export function admissionsRouter(ctx: AppContext) {
 
   router.post('/infants/:id/discharge', allow(ctx, 'unit:manage'), validate('body', dischargeInfantSchema), (req, res) => {
     const infant = infantFor(req);
-    const { note } = valid<DischargeInfantInput>(req, 'body');
-    const result = dischargeInfant(ctx, infant, note, req.auth!.userId);
+    const input = valid<DischargeInfant>(req, 'body');
+    const result = dischargeInfant(ctx, infant, input, req.auth!.userId);
     res.json({ infant: { id: infant.id, status: 'discharged' }, ...result });
   });
 

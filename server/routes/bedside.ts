@@ -1,4 +1,6 @@
 import { prepared, writeTx } from '../../db/client';
+import { and, desc, eq, gte, isNull } from 'drizzle-orm';
+import { actions, actionUndos } from '../../db/schema';
 import { correctReadingSchema, createActionSchema, endSessionSchema, undoActionSchema, type CorrectReading, type CreateAction, type EndSession, type UndoActionInput } from '../../shared/schemas/bedside';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
@@ -17,6 +19,8 @@ import {
   type NewReadingRow,
 } from '../services/bedside';
 import { appendFlagEvent, dbOf } from '../services/flag-lifecycle';
+import { refreshPlacement } from '../services/placement';
+import { remoteSiteConflict } from '../../shared/thermal/placement';
 import { escalateAfterWrite } from '../services/escalations';
 import { flagHistory } from '../services/flag-history';
 import { auditRead } from '../read-audit';
@@ -93,6 +97,11 @@ export function bedsideRouter(ctx: AppContext) {
         correctionNote: input.note,
         enteredInError: input.reason === 'entered-in-error',
         requestHash: hash,
+        probeSite: original.probe_site,
+        probeCovered: original.probe_covered === null ? null : original.probe_covered === 1,
+        infantPosition: original.infant_position,
+        weightGrams: original.weight_grams,
+        humidityPct: original.humidity_pct,
       };
       if (input.values && input.reason !== 'entered-in-error') {
         const v = input.values;
@@ -101,6 +110,11 @@ export function bedsideRouter(ctx: AppContext) {
         if (v.probe == null && v.remote == null && v.air == null && v.heartRate == null) {
           throw badRequest('Enter at least one temperature or the heart rate.', { 'values.probe': 'Enter at least one temperature or the heart rate.' });
         }
+        // Settings and measures left out of the new version keep the original's.
+        const kept = <T,>(value: T | undefined, was: T) => (value === undefined ? was : value);
+        const probeSite = kept(v.probeSite, base.probeSite ?? null);
+        const taken = remoteSiteConflict(probeSite, v.remoteSite, v.remote != null);
+        if (taken) throw badRequest(taken, { 'values.remoteSite': taken });
         const takenAt = v.takenAt ? Date.parse(v.takenAt) : original.taken_at;
         if (v.takenAt) checkTakenAt(new Date(takenAt), now, infant.admitted_at, input.reason === 'late-entry' ? input.note : original.late_reason ?? input.note, 'values.takenAt');
         row = {
@@ -115,6 +129,11 @@ export function bedsideRouter(ctx: AppContext) {
           note: v.note || null,
           enteredUnit: v.unit,
           lateReason: input.reason === 'late-entry' ? input.note : original.late_reason,
+          probeSite,
+          probeCovered: kept(v.probeCovered, base.probeCovered ?? null),
+          infantPosition: kept(v.position, base.infantPosition ?? null),
+          weightGrams: kept(v.weightGrams, base.weightGrams ?? null),
+          humidityPct: kept(v.humidityPct, base.humidityPct ?? null),
         };
       } else {
         row = base;
@@ -161,11 +180,11 @@ export function bedsideRouter(ctx: AppContext) {
     const at = input.at ? new Date(input.at) : now;
     const loadActionById = (id: string) =>
       prepared(sqlite, 'SELECT a.*, u.name FROM actions a JOIN users u ON u.id = a.recorded_by WHERE a.id = ?').get(id) as
-        | { id: string; flag_id: string; kind: string; note: string | null; at: number; recorded_by: string; name: string }
+        | { id: string; flag_id: string; kind: string; note: string | null; at: number; recorded_by: string; name: string; probe_site: string | null }
         | undefined;
     const loadAction = () => loadActionById(input.id);
     const same = (a: NonNullable<ReturnType<typeof loadAction>>) => {
-      if (a.flag_id !== flagId || a.kind !== input.kind || (a.note ?? null) !== (input.note || null) || (input.at && a.at !== at.getTime())) {
+      if (a.flag_id !== flagId || a.kind !== input.kind || (a.note ?? null) !== (input.note || null) || (a.probe_site ?? null) !== (input.probeSite ?? null) || (input.at && a.at !== at.getTime())) {
         throw conflict('A different action was already saved with this id.', { id: 'This id belongs to another action.' });
       }
       return a;
@@ -181,14 +200,31 @@ export function bedsideRouter(ctx: AppContext) {
       if (again) return { created: false, sync: syncFlags(sqlite, flag.infant_id, now, auth.userId) };
       // A second tap of the same action on the same flag by the same person within a short
       // window is the same action (common practice: one thing done, charted once).
-      const repeat = prepared(
-        sqlite,
-        `SELECT a.id FROM actions a WHERE a.flag_id = ? AND a.kind = ? AND a.recorded_by = ? AND a.created_at >= ?
-           AND NOT EXISTS (SELECT 1 FROM action_undos u WHERE u.action_id = a.id) ORDER BY a.created_at DESC LIMIT 1`,
-      ).get(flagId, input.kind, auth.userId, now.getTime() - REPEAT_TAP_MS) as { id: string } | undefined;
+      // (A move of the probe to another site is another action.)
+      const repeat = dbOf(sqlite)
+        .select({ id: actions.id })
+        .from(actions)
+        .leftJoin(actionUndos, eq(actionUndos.actionId, actions.id))
+        .where(
+          and(
+            eq(actions.flagId, flagId),
+            eq(actions.kind, input.kind),
+            eq(actions.recordedBy, auth.userId),
+            gte(actions.createdAt, new Date(now.getTime() - REPEAT_TAP_MS)),
+            input.probeSite ? eq(actions.probeSite, input.probeSite) : isNull(actions.probeSite),
+            // "Something else" is its note: another note is another thing done.
+            input.kind === 'other' ? eq(actions.note, input.note ?? '') : undefined,
+            isNull(actionUndos.id),
+          ),
+        )
+        .orderBy(desc(actions.createdAt))
+        .limit(1)
+        .get();
       if (repeat) return { created: false, sync: syncFlags(sqlite, flag.infant_id, now, auth.userId), repeatOf: repeat.id };
-      prepared(sqlite, 'INSERT INTO actions (id, flag_id, infant_id, unit_id, kind, note, at, recorded_by, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)')
-        .run(input.id, flagId, flag.infant_id, flag.unit_id, input.kind, input.note || null, at.getTime(), auth.userId, now.getTime());
+      dbOf(sqlite)
+        .insert(actions)
+        .values({ id: input.id, flagId, infantId: flag.infant_id, unitId: flag.unit_id, kind: input.kind, note: input.note || null, at, recordedBy: auth.userId, createdAt: now, probeSite: input.probeSite ?? null })
+        .run();
       appendAudit(sqlite, {
         at: now,
         actorId: auth.userId,
@@ -196,15 +232,26 @@ export function bedsideRouter(ctx: AppContext) {
         entityType: 'action',
         entityId: input.id,
         unitId: flag.unit_id,
-        after: { flagId, flagKey: flag.key, kind: input.kind, note: input.note ?? null, at: at.toISOString() },
+        after: { flagId, flagKey: flag.key, kind: input.kind, note: input.note ?? null, at: at.toISOString(), ...(input.probeSite ? { probeSite: input.probeSite } : {}) },
       });
-      appendFlagEvent(dbOf(sqlite), { flagId, infantId: flag.infant_id, unitId: flag.unit_id, event: 'action', at, actorId: auth.userId, detail: { actionId: input.id, kind: input.kind }, now });
+      appendFlagEvent(dbOf(sqlite), {
+        flagId,
+        infantId: flag.infant_id,
+        unitId: flag.unit_id,
+        event: 'action',
+        at,
+        actorId: auth.userId,
+        detail: { actionId: input.id, kind: input.kind, ...(input.probeSite ? { probeSite: input.probeSite } : {}) },
+        now,
+      });
+      // Moving the probe charts its new site as the current placement.
+      if (input.probeSite) refreshPlacement(sqlite, flag.infant_id, flag.unit_id, now);
       return { created: true, sync: syncFlags(sqlite, flag.infant_id, now, auth.userId) };
     });
     const a = result.repeatOf ? loadActionById(result.repeatOf)! : same(loadAction()!);
     const evaluated = result.sync.evaluation.flags.find((f) => f.key === ruleKeyOf(flag.key));
     res.status(result.created ? 201 : 200).json({
-      action: { id: a.id, flagId: a.flag_id, kind: a.kind, note: a.note, at: new Date(a.at).toISOString(), recordedBy: { id: a.recorded_by, name: a.name } },
+      action: { id: a.id, flagId: a.flag_id, kind: a.kind, note: a.note, at: new Date(a.at).toISOString(), recordedBy: { id: a.recorded_by, name: a.name }, probeSite: a.probe_site },
       created: result.created,
       flag: evaluated
         ? {
@@ -245,6 +292,8 @@ export function bedsideRouter(ctx: AppContext) {
         .run(input.id, actionId, flagId, action.infant_id, action.unit_id, auth.userId, input.note || null, now.getTime(), now.getTime());
       appendAudit(sqlite, { at: now, actorId: auth.userId, action: 'flag-action-undone', entityType: 'action', entityId: actionId, unitId: action.unit_id, after: { undoId: input.id, flagId, kind: action.kind, note: input.note ?? null } });
       appendFlagEvent(dbOf(sqlite), { flagId, infantId: action.infant_id, unitId: action.unit_id, event: 'action-undone', at: now, actorId: auth.userId, detail: { actionId, kind: action.kind }, now });
+      // An undone move of the probe no longer says where the probe is.
+      if (action.kind === 'moved-probe') refreshPlacement(sqlite, action.infant_id, action.unit_id, now);
       return { created: true, undoId: input.id, sync: syncFlags(sqlite, action.infant_id, now, auth.userId) };
     });
     res.status(result.created ? 201 : 200).json({

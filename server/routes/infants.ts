@@ -13,6 +13,9 @@ import { checkPlausibility, toCentiCelsius } from '../../shared/thermal';
 import { shiftAt } from '../../shared/shifts';
 import type { CreateReadingResult, InfantDetail } from '../../shared/types/bedside';
 import { appendAudit } from '../audit';
+import { eq } from 'drizzle-orm';
+import { infants as infantRows } from '../../db/schema';
+import { dbOf } from '../services/flag-lifecycle';
 import { auditListRead, auditRead } from '../read-audit';
 import { batchedWrite } from '../write-batch';
 import type { AppContext } from '../context';
@@ -34,6 +37,9 @@ import {
   sessionJson,
 } from '../services/bedside';
 import { escalateAfterWrite } from '../services/escalations';
+import { recordPlacementChange, refreshPlacement, storedPlacement } from '../services/placement';
+import { placementChangeSchema, type PlacementChange } from '../../shared/schemas/placement';
+import { remoteSiteConflict } from '../../shared/thermal/placement';
 import { currentFlagIds, loadUnitRow, primeRuleReadings, syncFlags, type UnitRow } from '../services/flags';
 import { nextCheckJson, openFlagJson, summarizeInfants } from '../services/summaries';
 
@@ -101,6 +107,8 @@ export function infantsRouter(ctx: AppContext) {
     const [summary] = summarizeInfants(sqlite, [id], now);
     const last = (column: string) =>
       (prepared(sqlite, `SELECT ${column} AS v FROM readings r WHERE infant_id = ? AND ${column} IS NOT NULL AND entered_in_error = 0 AND NOT EXISTS (SELECT 1 FROM readings y WHERE y.replaces_id = r.id) ORDER BY taken_at DESC, recorded_at DESC LIMIT 1`).get(id) as { v: unknown } | undefined)?.v ?? null;
+    const placement = storedPlacement(sqlite, id);
+    const left = infant.status === 'discharged' ? dischargeOf(id) : null;
     const detail: InfantDetail = {
       infant: summary!,
       birthAt: new Date(infant.birth_at).toISOString(),
@@ -112,7 +120,11 @@ export function infantsRouter(ctx: AppContext) {
         controlMode: summary!.controlMode,
         setCenti: summary!.setCenti,
         remoteSite: last('remote_site') as InfantDetail['defaults']['remoteSite'],
+        placement: placement
+          ? { probeSite: placement.probeSite, probeCovered: placement.probeCovered, position: placement.position, prompt: placement.prompt?.code ?? null }
+          : null,
       },
+      discharge: left,
     };
     res.json(detail);
   });
@@ -154,6 +166,12 @@ export function infantsRouter(ctx: AppContext) {
     };
     const already = replay();
     if (!already) requireAdmitted(infant);
+    // The probe on the axilla (charted now, or carried from before) leaves the axilla taken.
+    if (!already) {
+      const probeSite = input.probeSite !== undefined ? input.probeSite : (storedPlacement(sqlite, infantId)?.probeSite ?? null);
+      const taken = remoteSiteConflict(probeSite, input.remoteSite, input.remote != null);
+      if (taken) throw badRequest(taken, { remoteSite: taken });
+    }
     const converted = already ? null : convertAndCheck(input, input.confirmedImplausible);
     const takenAt = input.takenAt ? new Date(input.takenAt) : now;
     if (!already) checkTakenAt(takenAt, now, infant.admitted_at, input.lateReason);
@@ -188,8 +206,14 @@ export function infantsRouter(ctx: AppContext) {
         correctionNote: null,
         enteredInError: false,
         requestHash: hash,
+        probeSite: input.probeSite ?? null,
+        probeCovered: input.probeCovered ?? null,
+        infantPosition: input.position ?? null,
+        weightGrams: input.weightGrams ?? null,
+        humidityPct: input.humidityPct ?? null,
       };
       insertReading(sqlite, row);
+      refreshPlacement(sqlite, infantId, infant.unit_id, now);
       appendAudit(sqlite, { at: now, actorId: auth.userId, action: 'reading-create', entityType: 'reading', entityId: row.id, unitId: infant.unit_id, after: { ...row, requestHash: undefined } });
       // The chart changed from the reading's time on: the rules start at or before it.
       return { created: true, sync: syncFlags(sqlite, infantId, now, auth.userId, { from: row.takenAt, excludeReadingId: row.id }) };
@@ -206,6 +230,24 @@ export function infantsRouter(ctx: AppContext) {
     };
     escalateAfterWrite(ctx, now, result.sync.raised);
     res.status(result.created ? 201 : 200).json(body);
+  });
+
+  /**
+   * Chart a change of the probe's placement on its own: the probe moved (to the back or flank when
+   * the infant lies prone), the cover, the infant turned. Stored append-only; the current
+   * placement and its prompt are stored again with it. Idempotent by the client's id.
+   */
+  router.post('/:id/placement', allow(ctx, 'chart:write'), validate('body', placementChangeSchema), (req, res) => {
+    const { id: infantId } = req.params as IdParams;
+    const input = valid<PlacementChange>(req, 'body');
+    const infant = loadInfantFor(sqlite, req, infantId);
+    const now = ctx.clock.now();
+    const result = writeTx(sqlite, () => {
+      const known = prepared(sqlite, 'SELECT 1 FROM placement_changes WHERE id = ?').get(input.id);
+      if (!known) requireAdmitted(loadInfantFor(sqlite, req, infantId));
+      return recordPlacementChange(sqlite, infant, input, req.auth!.userId, now);
+    });
+    res.status(result.created ? 201 : 200).json({ created: result.created, placement: storedPlacement(sqlite, infantId) });
   });
 
   /** Start a skin-to-skin session; one at a time per infant. Idempotent by the client's id. */
@@ -246,6 +288,16 @@ export function infantsRouter(ctx: AppContext) {
     });
     res.status(201).json({ session: sessionJson(loadSession(sqlite, input.id)!) });
   });
+
+  /** When, why and where to an infant left (from the infant's row). */
+  function dischargeOf(infantId: string): InfantDetail['discharge'] {
+    const row = dbOf(sqlite)
+      .select({ at: infantRows.dischargedAt, reason: infantRows.dischargeReason, destination: infantRows.dischargeDestination })
+      .from(infantRows)
+      .where(eq(infantRows.id, infantId))
+      .get();
+    return row?.at ? { at: row.at.toISOString(), reason: row.reason, destination: row.destination } : null;
+  }
 
   function orderByBed(ids: string[]): string[] {
     if (ids.length === 0) return ids;

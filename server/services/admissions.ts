@@ -1,4 +1,5 @@
 import { randomUUID } from 'node:crypto';
+import { and, asc, eq, isNull } from 'drizzle-orm';
 import { writeTx } from '../../db/client';
 import type { AdmitInfant, AssignNurseInput, UpdateInfantInput } from '../../shared/schemas/unit';
 import { nextShift, shiftAt, type ShiftSlot } from '../../shared/shifts';
@@ -6,7 +7,10 @@ import { toCentiCelsius } from '../../shared/thermal';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { badRequest, conflict, notFound } from '../errors';
-import { infants } from '../../db/schema';
+import { flagResolutions, flags, infants, readings } from '../../db/schema';
+import type { DischargeInfant } from '../../shared/schemas/unit';
+import { appendFlagEvent } from './flag-lifecycle';
+import { refreshPlacement } from './placement';
 import { recordBedStay } from './bed-stays';
 import { endWarmingOnAdmission } from './bed-warming';
 import { loadUnitRow, syncFlags } from './flags';
@@ -60,14 +64,18 @@ export function admitInfant(ctx: AppContext, unitId: string, input: AdmitInfant,
     recordBedStay(ctx.database.db, { id: randomUUID(), infantId: id, unitId, bedId: bed.id, event: 'admitted', at: now, recordedBy: actorId });
     // A bed warmed for this admission stops being "warming": it now holds the infant.
     const warming = endWarmingOnAdmission(ctx, unitId, bed.id, id, actorId, now);
-    // The initial settings are charted as the first reading, so the flowsheet and rules see them.
+    // The initial settings (with the probe's place) are charted as the first reading, so the
+    // flowsheet and rules see them; the placement carries forward from it.
     const readingId = randomUUID();
-    sqlite
-      .prepare(
-        `INSERT INTO readings (id, infant_id, unit_id, taken_at, recorded_at, recorded_by, set_centi, control_mode, heat_signs, note, entered_unit)
-         VALUES (?, ?, ?, ?, ?, ?, ?, ?, '[]', ?, ?)`,
-      )
-      .run(readingId, id, unitId, now.getTime(), now.getTime(), actorId, setCenti, input.controlMode, 'Settings on admission.', input.tempUnit);
+    ctx.database.db
+      .insert(readings)
+      .values({
+        id: readingId, infantId: id, unitId, takenAt: now, recordedAt: now, recordedBy: actorId, setCenti, controlMode: input.controlMode, heatSigns: '[]',
+        note: 'Settings on admission.', enteredUnit: input.tempUnit,
+        probeSite: input.probeSite ?? null, probeCovered: input.probeCovered ?? null, infantPosition: input.position ?? null,
+      })
+      .run();
+    refreshPlacement(sqlite, id, unitId, now);
     appendAudit(sqlite, {
       at: now,
       actorId,
@@ -115,23 +123,50 @@ export function updateInfant(ctx: AppContext, infant: InfantRow, input: UpdateIn
   });
 }
 
-/** The infant stays in the record; the bed is freed and every open flag closes as 'discharged'. */
-export function dischargeInfant(ctx: AppContext, infant: InfantRow, note: string | undefined, actorId: string): { closedFlags: number } {
-  const { sqlite } = ctx.database;
+/**
+ * The infant stays in the record; the bed is freed; the discharge's reason and destination are
+ * kept on the infant's row; every open flag closes with the discharge as its stated reason (a
+ * resolution `discharged` and a `closed` lifecycle event saying so). Answers with the flags it
+ * closed, so the screen can say which.
+ */
+export function dischargeInfant(
+  ctx: AppContext,
+  infant: InfantRow,
+  input: DischargeInfant,
+  actorId: string,
+): { closedFlags: number; closed: Array<{ id: string; kind: string }>; discharge: { at: string; reason: string; destination: string | null } } {
+  const { sqlite, db } = ctx.database;
   const now = ctx.clock.now();
   if (infant.status !== 'admitted') throw conflict('This infant has already been discharged.');
+  const destination = input.destination?.trim() || null;
   return writeTx(sqlite, () => {
     // Store what the rules say up to the discharge first, so the record is complete.
     syncFlags(sqlite, infant.id, now, actorId);
-    sqlite.prepare("UPDATE infants SET status = 'discharged', discharged_at = ?, bed_id = NULL WHERE id = ?").run(now.getTime(), infant.id);
+    db.update(infants)
+      .set({ status: 'discharged', dischargedAt: now, bedId: null, dischargeReason: input.reason, dischargeDestination: destination, dischargeNote: input.note?.trim() || null })
+      .where(eq(infants.id, infant.id))
+      .run();
     recordBedStay(ctx.database.db, { id: randomUUID(), infantId: infant.id, unitId: infant.unit_id, bedId: null, event: 'discharged', at: now, recordedBy: actorId });
-    const open = sqlite
-      .prepare('SELECT f.id, f.key FROM flags f LEFT JOIN flag_resolutions r ON r.flag_id = f.id WHERE f.infant_id = ? AND r.flag_id IS NULL')
-      .all(infant.id) as Array<{ id: string; key: string }>;
-    const close = sqlite.prepare("INSERT INTO flag_resolutions (flag_id, closed_at, closed_by_reading_id, how, created_at) VALUES (?, ?, NULL, 'discharged', ?)");
+    const open = db
+      .select({ id: flags.id, key: flags.key, kind: flags.kind })
+      .from(flags)
+      .leftJoin(flagResolutions, eq(flagResolutions.flagId, flags.id))
+      .where(and(eq(flags.infantId, infant.id), isNull(flagResolutions.flagId)))
+      .orderBy(asc(flags.raisedAt), asc(flags.key))
+      .all();
     for (const f of open) {
-      close.run(f.id, now.getTime(), now.getTime());
-      appendAudit(sqlite, { at: now, actorId, action: 'flag-closed', entityType: 'flag', entityId: f.id, unitId: infant.unit_id, after: { key: f.key, how: 'discharged' } });
+      db.insert(flagResolutions).values({ flagId: f.id, closedAt: now, closedByReadingId: null, how: 'discharged', createdAt: now }).run();
+      appendFlagEvent(db, {
+        flagId: f.id,
+        infantId: infant.id,
+        unitId: infant.unit_id,
+        event: 'closed',
+        at: now,
+        actorId,
+        detail: { how: 'discharged', reason: 'discharged', dischargeReason: input.reason },
+        now,
+      });
+      appendAudit(sqlite, { at: now, actorId, action: 'flag-closed', entityType: 'flag', entityId: f.id, unitId: infant.unit_id, after: { key: f.key, how: 'discharged', reason: 'discharged' } });
     }
     appendAudit(sqlite, {
       at: now,
@@ -141,9 +176,13 @@ export function dischargeInfant(ctx: AppContext, infant: InfantRow, note: string
       entityId: infant.id,
       unitId: infant.unit_id,
       before: { status: 'admitted', bedId: infant.bed_id },
-      after: { status: 'discharged', note: note ?? null },
+      after: { status: 'discharged', reason: input.reason, destination, note: input.note ?? null, closedFlagIds: open.map((f) => f.id) },
     });
-    return { closedFlags: open.length };
+    return {
+      closedFlags: open.length,
+      closed: open.map((f) => ({ id: f.id, kind: f.kind })),
+      discharge: { at: now.toISOString(), reason: input.reason, destination },
+    };
   });
 }
 

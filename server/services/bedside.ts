@@ -10,9 +10,10 @@ import {
 } from '../../shared/thermal';
 import { FUTURE_TIME_MESSAGE, isFutureTime, isLateEntry, LATE_ENTRY_MINUTES } from '../../shared/chart-time';
 import { unusualReason } from '../../shared/plausibility';
-import type { ControlMode } from '../../shared/vocabulary';
+import type { ControlMode, InfantPosition, ProbeSite } from '../../shared/vocabulary';
 import type { Flowsheet, FlowsheetFlag, FlowsheetReading, ReadingVersion, SessionRecord } from '../../shared/types/bedside';
-import { prepared, writeTx } from '../../db/client';
+import { drizzleOf, prepared, writeTx } from '../../db/client';
+import { readings } from '../../db/schema';
 import { ApiError, badRequest, notFound } from '../errors';
 import { assertUnit } from '../middleware/access';
 import { CompressedJson } from '../compressed-body';
@@ -166,6 +167,11 @@ export interface StoredReading {
   correction_note: string | null;
   entered_in_error: number;
   request_hash: string | null;
+  probe_site: ProbeSite | null;
+  probe_covered: number | null;
+  infant_position: InfantPosition | null;
+  weight_grams: number | null;
+  humidity_pct: number | null;
 }
 
 export const READING_SELECT = 'SELECT r.*, u.name AS recorded_by_name FROM readings r JOIN users u ON u.id = r.recorded_by';
@@ -198,6 +204,11 @@ export function readingJson(r: StoredReading): ReadingVersion {
     correctionReason: r.correction_reason,
     correctionNote: r.correction_note,
     enteredInError: r.entered_in_error === 1,
+    probeSite: r.probe_site,
+    probeCovered: r.probe_covered === null ? null : r.probe_covered === 1,
+    position: r.infant_position,
+    weightGrams: r.weight_grams,
+    humidityPct: r.humidity_pct,
   };
 }
 
@@ -226,19 +237,32 @@ export interface NewReadingRow {
   correctionNote: string | null;
   enteredInError: boolean;
   requestHash: string;
+  /** Settings and measures charted with the reading; absent means not charted. */
+  probeSite?: ProbeSite | null;
+  probeCovered?: boolean | null;
+  infantPosition?: InfantPosition | null;
+  weightGrams?: number | null;
+  humidityPct?: number | null;
 }
 
 export function insertReading(sqlite: Database.Database, r: NewReadingRow): void {
-  prepared(
-    sqlite,
-      `INSERT INTO readings (id, infant_id, unit_id, taken_at, recorded_at, recorded_by, probe_centi, remote_centi, remote_site, air_centi, set_centi,
-         control_mode, heater_output_pct, heart_rate, heat_signs, note, entered_unit, late_reason, session_id, replaces_id, correction_reason,
-         correction_note, entered_in_error, request_hash)
-       VALUES (@id, @infantId, @unitId, @takenAt, @recordedAt, @recordedBy, @probeCenti, @remoteCenti, @remoteSite, @airCenti, @setCenti,
-         @controlMode, @heaterOutputPct, @heartRate, @heatSigns, @note, @enteredUnit, @lateReason, @sessionId, @replacesId, @correctionReason,
-         @correctionNote, @enteredInError, @requestHash)`,
-    )
-    .run({ ...r, heatSigns: JSON.stringify(r.heatSigns), enteredInError: r.enteredInError ? 1 : 0 });
+  drizzleOf(sqlite)
+    .insert(readings)
+    .values({
+      ...r,
+      takenAt: new Date(r.takenAt),
+      recordedAt: new Date(r.recordedAt),
+      remoteSite: r.remoteSite as StoredReading['remote_site'],
+      controlMode: r.controlMode as StoredReading['control_mode'],
+      heatSigns: JSON.stringify(r.heatSigns),
+      correctionReason: r.correctionReason as StoredReading['correction_reason'],
+      probeSite: r.probeSite ?? null,
+      probeCovered: r.probeCovered ?? null,
+      infantPosition: r.infantPosition ?? null,
+      weightGrams: r.weightGrams ?? null,
+      humidityPct: r.humidityPct ?? null,
+    })
+    .run();
 }
 
 /** The skin-to-skin session running at `at`, if any. */

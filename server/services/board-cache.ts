@@ -9,6 +9,8 @@ const BOARD_TABLES = [
   'units', 'beds', 'users', 'user_units', 'infants', 'assignments', 'readings', 'flags', 'flag_resolutions', 'actions', 'escalations', 'skin_to_skin_sessions',
   // What the views read of the stored flag truth: the lifecycle, the check clocks, the settings versions.
   'flag_events', 'infant_clocks', 'unit_policy_versions',
+  // The stored current placement (and the changes charted on their own).
+  'infant_placements', 'placement_changes',
 ];
 
 /**

@@ -30,6 +30,7 @@ export const READING_IDENTIFIER = {
   remote: 'urn:warmfold:fhir:reading:remote-site-temperature',
   probe: 'urn:warmfold:fhir:reading:skin-probe-temperature',
   hr: 'urn:warmfold:fhir:reading:heart-rate',
+  weight: 'urn:warmfold:fhir:reading:body-weight',
 } as const;
 export const HOSPITAL_NUMBER_SYSTEM = 'urn:warmfold:fhir:hospital-number';
 
@@ -54,7 +55,12 @@ export function stableUuid(name: string): string {
 
 const fullUrlOf = (type: string, id: string) => `urn:uuid:${stableUuid(`${type}/${id}`)}`;
 
-type Measure = 'remote' | 'probe' | 'hr';
+/**
+ * The measures exported: remote-site and probe temperatures, heart rate and the current weight
+ * (LOINC 29463-7 Body weight, in g). Incubator humidity is left out: no LOINC code names the
+ * humidity of an incubator's air cleanly.
+ */
+type Measure = 'remote' | 'probe' | 'hr' | 'weight';
 
 interface Version {
   id: string;
@@ -64,6 +70,7 @@ interface Version {
   remoteCenti: number | null;
   remoteSite: 'axilla' | 'rectal' | 'other' | null;
   heartRate: number | null;
+  weightGrams: number | null;
   enteredInError: boolean;
   replacesId: string | null;
   uploadId: string | null;
@@ -86,7 +93,7 @@ export function chainsOf(rows: Version[]): Version[][] {
   return chains;
 }
 
-const valueOf = (v: Version, m: Measure) => (m === 'remote' ? v.remoteCenti : m === 'probe' ? v.probeCenti : v.heartRate);
+const valueOf = (v: Version, m: Measure) => (m === 'remote' ? v.remoteCenti : m === 'probe' ? v.probeCenti : m === 'weight' ? v.weightGrams : v.heartRate);
 
 /** The status of one measure across a chain's versions. */
 export function statusOf(chain: Version[], m: Measure): Observation['status'] {
@@ -125,7 +132,21 @@ function encounterFor(db: Db, infant: typeof infants.$inferSelect, unitName: str
     subject: { reference: patientUrl },
     period: { start: infant.admittedAt.toISOString(), ...(infant.dischargedAt ? { end: infant.dischargedAt.toISOString() } : {}) },
     ...(locations.length ? { location: locations } : {}),
+    ...(infant.dischargeReason ? { hospitalization: { dischargeDisposition: dischargeDisposition(infant.dischargeReason, infant.dischargeDestination) } } : {}),
   };
+}
+
+/** The discharge's reason in HL7's discharge-disposition codes (a ward in the same hospital has none of its own: other). */
+const DISCHARGE_DISPOSITION = {
+  home: { code: 'home', display: 'Home' },
+  transfer: { code: 'other-hcf', display: 'Other healthcare facility' },
+  ward: { code: 'oth', display: 'Other' },
+  death: { code: 'exp', display: 'Expired' },
+} as const;
+
+function dischargeDisposition(reason: keyof typeof DISCHARGE_DISPOSITION, destination: string | null): CodeableConcept {
+  const c = DISCHARGE_DISPOSITION[reason];
+  return { coding: [{ system: 'http://terminology.hl7.org/CodeSystem/discharge-disposition', ...c }], text: destination ? `${c.display}: ${destination}` : c.display };
 }
 
 function observationFor(chain: Version[], m: Measure, patientUrl: string, encounterUrl: string): Observation | null {
@@ -169,6 +190,14 @@ function observationFor(chain: Version[], m: Measure, patientUrl: string, encoun
       code: { coding: [{ system: WARMFOLD_CODES, code: 'skin-probe-temperature', display: 'Skin probe temperature (heater servo sensor)' }], text: 'Skin probe temperature' },
       method: { coding: [{ system: WARMFOLD_CODES, code: 'skin-probe', display: 'Skin probe' }], text: 'Skin probe (servo sensor), not a clinical thermometer reading' },
       valueQuantity: { value: withValue.probeCenti! / 100, unit: 'Cel', system: UCUM, code: 'Cel' },
+    };
+  }
+  if (m === 'weight') {
+    return {
+      ...base,
+      category: vitalSigns,
+      code: { coding: [{ system: LOINC, code: '29463-7', display: 'Body weight' }], text: 'Body weight' },
+      valueQuantity: { value: withValue.weightGrams!, unit: 'g', system: UCUM, code: 'g' },
     };
   }
   return {
@@ -232,6 +261,7 @@ export function fhirBundle(db: Db, infantIds: string[], now: Date, window?: { fr
         remoteCenti: readings.remoteCenti,
         remoteSite: readings.remoteSite,
         heartRate: readings.heartRate,
+        weightGrams: readings.weightGrams,
         enteredInError: readings.enteredInError,
         replacesId: readings.replacesId,
         uploadId: readings.uploadId,
@@ -246,7 +276,7 @@ export function fhirBundle(db: Db, infantIds: string[], now: Date, window?: { fr
       .all();
     for (const chain of chainsOf(rows)) {
       if (window && !chain.some((v) => v.takenAt.getTime() >= window.fromMs && v.takenAt.getTime() < window.toMs)) continue;
-      for (const m of ['remote', 'probe', 'hr'] as const) {
+      for (const m of ['remote', 'probe', 'hr', 'weight'] as const) {
         const o = observationFor(chain, m, patientUrl, encounterUrl);
         if (!o) continue;
         entries.push({ fullUrl: fullUrlOf('Observation', o.id!), resource: o });

@@ -107,6 +107,8 @@ export function buildHandover(ctx: AppContext, infantId: string, now: Date): Han
       probeCenti: latest.probeCenti ?? null,
       remoteCenti: latest.remoteCenti ?? null,
       remoteTakenAt: latest.remoteTakenAt ?? null,
+      // The current placement and its prompt, as stored (the same as every other view).
+      placement: summary!.placement ?? null,
     },
     nextCheck: summary!.nextCheck,
     checks: summary!.checks,

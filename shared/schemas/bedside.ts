@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { safeNote, safeText } from './safe-text';
 import { hasOneDecimalAtMost, oneDecimalMessage } from '../chart-time';
 import { ACTION_KINDS, CONTROL_MODES, HEAT_SIGNS, HEAT_SOURCES, REMOTE_SITES } from '../vocabulary';
+import { probeSiteSchema, readingExtraFields, refineRemoteSite } from './placement';
 
 export { ACTION_KINDS, ACTION_LABELS, FUTURE_TOLERANCE_MINUTES, LATE_ENTRY_MINUTES, type ActionKind } from '../vocabulary';
 
@@ -53,6 +54,8 @@ const readingValueFields = {
   note: safeNote().max(1000, 'Keep the note under 1,000 characters.').nullable().optional(),
   /** The nurse confirmed a value outside the plausible range. */
   confirmedImplausible: z.boolean().default(false),
+  /** The probe's site, cover and the infant's position (settings); current weight and incubator humidity. */
+  ...readingExtraFields,
 };
 
 export const createReadingSchema = z
@@ -69,6 +72,7 @@ export const createReadingSchema = z
     if (v.remote != null && !v.remoteSite) {
       ctx.addIssue({ code: 'custom', path: ['remoteSite'], message: 'Choose where the remote-site temperature was taken.' });
     }
+    refineRemoteSite(v, ctx);
   });
 export type CreateReadingInput = z.input<typeof createReadingSchema>;
 export type CreateReading = z.output<typeof createReadingSchema>;
@@ -87,12 +91,19 @@ export const correctReadingSchema = z.strictObject({
 });
 export type CorrectReadingInput = z.input<typeof correctReadingSchema>;
 
-export const createActionSchema = z.strictObject({
-  id: uuid,
-  kind: z.enum(ACTION_KINDS, { error: 'Choose what was done.' }),
-  note: safeNote().max(500, 'Keep the note under 500 characters.').nullable().optional(),
-  at: isoInstant.optional(),
-});
+export const createActionSchema = z
+  .strictObject({
+    id: uuid,
+    kind: z.enum(ACTION_KINDS, { error: 'Choose what was done.' }),
+    note: safeNote().max(500, 'Keep the note under 500 characters.').nullable().optional(),
+    at: isoInstant.optional(),
+    /** Where the probe went: required when it was moved, refused otherwise. */
+    probeSite: probeSiteSchema.nullable().optional(),
+  })
+  .superRefine((v, ctx) => {
+    if (v.kind === 'moved-probe' && v.probeSite == null) ctx.addIssue({ code: 'custom', path: ['probeSite'], message: 'Choose where the probe was moved to.' });
+    if (v.kind !== 'moved-probe' && v.probeSite != null) ctx.addIssue({ code: 'custom', path: ['probeSite'], message: 'A probe site goes only with moving the probe.' });
+  });
 export type CreateActionInput = z.input<typeof createActionSchema>;
 
 /** Undo a mistaken action: it stays on record, marked entered in error. Idempotent by the client's id. */

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { safeNote, safeText } from './safe-text';
-import { CONTROL_MODES, HEAT_SOURCES, INFANT_SEXES } from '../vocabulary';
+import { CONTROL_MODES, DISCHARGE_DESTINATION_ALLOWED, DISCHARGE_DESTINATION_REQUIRED, DISCHARGE_REASONS, HEAT_SOURCES, INFANT_SEXES } from '../vocabulary';
+import { infantPositionSchema, placementFields, probeSiteSchema } from './placement';
 
 /**
  * The charge nurse's unit work: admissions, moves, discharges, assignments and escalation
@@ -48,6 +49,8 @@ export const admitInfantSchema = z
     tempUnit: z.enum(['C', 'F'], { error: 'Choose °C or °F.' }).default('C'),
     hospitalNumber: hospitalNumber.optional(),
     sex: sex.optional(),
+    /** Where the probe sits, its cover and the infant's position on admission (charted with the admission's settings). */
+    ...placementFields,
   })
   .superRefine((v, ctx) => {
     const celsius = v.tempUnit === 'F' ? ((v.setTemperature - 32) * 5) / 9 : v.setTemperature;
@@ -71,6 +74,9 @@ export const admitFormSchema = z.object({
   setTemperature: z.string().regex(/^\d{2,3}([.,]\d{1,2})?$/, 'Enter a temperature such as 36.5.'),
   hospitalNumber,
   sex,
+  probeSite: probeSiteSchema.nullable(),
+  probeCovered: z.enum(['yes', 'no']).nullable(),
+  position: infantPositionSchema.nullable(),
 });
 export type AdmitForm = z.infer<typeof admitFormSchema>;
 
@@ -89,6 +95,9 @@ export function admitFormToInput(form: AdmitForm, bedId: string, tempUnit: 'C' |
     tempUnit,
     hospitalNumber: form.hospitalNumber,
     sex: form.sex,
+    probeSite: form.probeSite ?? null,
+    probeCovered: form.probeCovered === null || form.probeCovered === undefined ? null : form.probeCovered === 'yes',
+    position: form.position ?? null,
   };
 }
 
@@ -103,10 +112,27 @@ export const updateInfantSchema = z
   .refine((v) => v.heatSource !== undefined || v.weightGrams !== undefined, { path: ['heatSource'], message: 'Change the heat source or the weight.' });
 export type UpdateInfantInput = z.input<typeof updateInfantSchema>;
 
-export const dischargeInfantSchema = z.strictObject({
-  note: safeNote().max(300, 'Keep the note under 300 characters.').optional(),
-});
-export type DischargeInfantInput = z.infer<typeof dischargeInfantSchema>;
+/**
+ * A discharge says why the infant left (home, a transfer, a ward, death) and, for a transfer,
+ * where to; a ward may be named. The open flags close with the discharge as the reason.
+ */
+export const dischargeInfantSchema = z
+  .strictObject({
+    reason: z.enum(DISCHARGE_REASONS, { error: 'Choose why the infant is leaving: home, a transfer, a ward or died.' }),
+    destination: safeText().max(120, 'Keep the destination under 120 characters.').nullable().optional(),
+    note: safeNote().max(300, 'Keep the note under 300 characters.').optional(),
+  })
+  .superRefine((v, ctx) => {
+    const destination = v.destination?.trim() ?? '';
+    if (DISCHARGE_DESTINATION_REQUIRED.includes(v.reason) && destination === '') {
+      ctx.addIssue({ code: 'custom', path: ['destination'], message: 'Name the unit or hospital the infant is transferred to.' });
+    }
+    if (!DISCHARGE_DESTINATION_ALLOWED.includes(v.reason) && destination !== '') {
+      ctx.addIssue({ code: 'custom', path: ['destination'], message: 'A destination goes only with a transfer or a ward.' });
+    }
+  });
+export type DischargeInfantInput = z.input<typeof dischargeInfantSchema>;
+export type DischargeInfant = z.output<typeof dischargeInfantSchema>;
 
 export const assignNurseSchema = z.strictObject({
   infantId: id('an infant'),

@@ -3,6 +3,8 @@
  * ISO 8601 strings. The client formats both by the user's settings.
  */
 import type { FlagKind, Severity } from '../thermal';
+import type { PlacementPromptCode } from '../thermal/placement';
+import type { InfantPosition, ProbeSite } from '../vocabulary';
 
 export type HeatSource = 'radiant-warmer' | 'incubator' | 'convertible';
 export type ControlModeName = 'skin-servo' | 'air-servo' | 'manual';
@@ -75,6 +77,20 @@ export interface OpenFlagSummary {
   escalated?: boolean;
 }
 
+/**
+ * The infant's current placement (probe site, cover, position) and its prompt, as stored at the
+ * last write that could change it (server/services/placement.ts); views show it as it is.
+ */
+export interface CurrentPlacement {
+  probeSite: ProbeSite | null;
+  probeCovered: boolean | null;
+  position: InfantPosition | null;
+  /** When the latest of them was charted. */
+  chartedAt: string;
+  /** The stored prompt and its words, or null. */
+  prompt: { code: PlacementPromptCode; text: string } | null;
+}
+
 export interface SkinToSkinSummary {
   id: string;
   startedAt: string;
@@ -112,6 +128,8 @@ export interface InfantSummary {
   openFlags: OpenFlagSummary[];
   skinToSkin: SkinToSkinSummary | null;
   assignedNurse: { id: string; name: string } | null;
+  /** The current placement, null until one is charted. */
+  placement?: CurrentPlacement | null;
 }
 
 export type CorrectionReason = 'corrected-value' | 'entered-in-error' | 'late-entry';
@@ -140,6 +158,12 @@ export interface ReadingVersion {
   correctionReason: CorrectionReason | null;
   correctionNote: string | null;
   enteredInError: boolean;
+  /** Settings charted with the reading (null when not charted). */
+  probeSite?: ProbeSite | null;
+  probeCovered?: boolean | null;
+  position?: InfantPosition | null;
+  weightGrams?: number | null;
+  humidityPct?: number | null;
 }
 
 /** A reading as the flowsheet shows it: the current version and the versions before it. */
@@ -180,6 +204,8 @@ export interface FlagAction {
   note: string | null;
   at: string;
   recordedBy: { id: string; name: string };
+  /** Where the probe was moved to (moved-probe only). */
+  probeSite?: ProbeSite | null;
 }
 
 export interface SessionRecord {
@@ -225,7 +251,15 @@ export interface InfantDetail {
   unitName: string;
   timeZone: string;
   /** Defaults for the record form, from the latest readings. */
-  defaults: { controlMode: ControlModeName | null; setCenti: number | null; remoteSite: RemoteSiteName | null };
+  defaults: {
+    controlMode: ControlModeName | null;
+    setCenti: number | null;
+    remoteSite: RemoteSiteName | null;
+    /** The current placement, carried forward as the form's settings. */
+    placement?: { probeSite: ProbeSite | null; probeCovered: boolean | null; position: InfantPosition | null; prompt: PlacementPromptCode | null } | null;
+  };
+  /** Set once the infant has left: when, why and where to. */
+  discharge?: { at: string; reason: string | null; destination: string | null } | null;
 }
 
 export interface CreateReadingResult {

@@ -1,6 +1,6 @@
 /** What the board, handover and mailbox endpoints answer. Instants are ISO strings. */
 import type { CheckStatus, FlagKind, Severity } from '../thermal';
-import type { CheckClocks, ControlModeName, EscalationSent, HeatSource, InfantSummary } from './bedside';
+import type { CheckClocks, ControlModeName, CurrentPlacement, EscalationSent, HeatSource, InfantSummary } from './bedside';
 
 export type { HeatSource } from './bedside';
 export type ControlMode = ControlModeName;
@@ -116,7 +116,16 @@ export interface HandoverInfant {
   to: string;
   /** The unit's zone: every time on the handover is shown in it. */
   timeZone: string;
-  settings: { controlMode: ControlMode | null; setCenti: number | null; heaterOutputPct: number | null; probeCenti: number | null; remoteCenti: number | null; remoteTakenAt: string | null };
+  settings: {
+    controlMode: ControlMode | null;
+    setCenti: number | null;
+    heaterOutputPct: number | null;
+    probeCenti: number | null;
+    remoteCenti: number | null;
+    remoteTakenAt: string | null;
+    /** The current placement and its prompt, as stored. */
+    placement?: CurrentPlacement | null;
+  };
   nextCheck: { status: CheckStatus; dueAt: string | null; minutesLate: number };
   checks?: CheckClocks;
   readings: HandoverReading[];

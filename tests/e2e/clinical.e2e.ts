@@ -10,7 +10,7 @@ before(async () => {
 });
 after(async () => {
   // Leave the demo unit as the other stories expect it.
-  if (infantId) await call('POST', `/infants/${infantId}/discharge`, await apiToken(ACCOUNTS.charge), { note: 'End of the story.' }).catch(() => undefined);
+  if (infantId) await call('POST', `/infants/${infantId}/discharge`, await apiToken(ACCOUNTS.charge), { reason: 'home', note: 'End of the story.' }).catch(() => undefined);
   await browser.close();
 });
 

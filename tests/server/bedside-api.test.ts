@@ -56,7 +56,7 @@ describe('GET /api/infants/:id and its flowsheet', () => {
     const res = await get('/infants/inf-ashgrove');
     expect(res.status).toBe(200);
     expect(res.body.infant.displayName).toBe('Baby Ashgrove');
-    expect(res.body.defaults).toEqual({ controlMode: 'skin-servo', setCenti: 3650, remoteSite: 'axilla' });
+    expect(res.body.defaults).toEqual({ controlMode: 'skin-servo', setCenti: 3650, remoteSite: 'axilla', placement: null });
     expect(res.body.timeZone).toBe('Europe/London');
     expect(count(env.database, 'audit_events')).toBe(before + 1);
   });
@@ -184,8 +184,8 @@ describe('the gap story: a gap, actions, a recheck that closes the flag', () => 
     expect(a1.body.flag.recheckDueAt).toBe('2026-11-16T10:32:00.000Z');
     const retry = await post(`/flags/${gap.id}/actions`, contact);
     expect(retry.status).toBe(200);
-    expect((await post(`/flags/${gap.id}/actions`, { ...contact, kind: 'moved-probe' })).status).toBe(409);
-    const a2 = await post(`/flags/${gap.id}/actions`, { id: randomUUID(), kind: 'moved-probe', note: 'To the left flank.' });
+    expect((await post(`/flags/${gap.id}/actions`, { ...contact, kind: 'moved-probe', probeSite: 'back-or-flank' })).status).toBe(409);
+    const a2 = await post(`/flags/${gap.id}/actions`, { id: randomUUID(), kind: 'moved-probe', probeSite: 'back-or-flank', note: 'To the left flank.' });
     expect(a2.status).toBe(201);
     expect(count(env.database, `actions WHERE flag_id = '${gap.id}'`)).toBe(2);
 

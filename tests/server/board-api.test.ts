@@ -157,10 +157,10 @@ describe('move, change and discharge', () => {
   it('discharges: the bed frees, open flags close as discharged, the record stays', async () => {
     expect((await request(env.app).post('/api/infants/inf-ashgrove/discharge').set(auth('nurse')).send({})).status).toBe(403);
     expect((await request(env.app).post('/api/infants/nope/discharge').set(auth('charge')).send({})).status).toBe(404);
-    const bad = await request(env.app).post('/api/infants/inf-ashgrove/discharge').set(auth('charge')).send({ note: 'x'.repeat(400) });
+    const bad = await request(env.app).post('/api/infants/inf-ashgrove/discharge').set(auth('charge')).send({ reason: 'home', note: 'x'.repeat(400) });
     expect(bad.status).toBe(400);
     expect(bad.body.error.fields).toHaveProperty('note');
-    const res = await request(env.app).post('/api/infants/inf-ashgrove/discharge').set(auth('charge')).send({ note: 'Home with parents.' });
+    const res = await request(env.app).post('/api/infants/inf-ashgrove/discharge').set(auth('charge')).send({ reason: 'home', note: 'Home with parents.' });
     expect(res.status).toBe(200);
     expect(res.body.closedFlags).toBeGreaterThan(0);
     const open = env.database.sqlite
@@ -172,7 +172,7 @@ describe('move, change and discharge', () => {
     expect((await board()).beds.find((b) => b.label === 'N01')!.infant).toBeNull();
     const row = env.database.sqlite.prepare("SELECT status, bed_id FROM infants WHERE id = 'inf-ashgrove'").get() as { status: string; bed_id: string | null };
     expect(row).toEqual({ status: 'discharged', bed_id: null });
-    expect((await request(env.app).post('/api/infants/inf-ashgrove/discharge').set(auth('charge')).send({})).status).toBe(409);
+    expect((await request(env.app).post('/api/infants/inf-ashgrove/discharge').set(auth('charge')).send({ reason: 'home' })).status).toBe(409);
   });
 });
 

@@ -107,7 +107,7 @@ export class Ward {
   }
 
   async discharge(infantId: string): Promise<void> {
-    await this.ok('charge', 'post', `/infants/${infantId}/discharge`, {});
+    await this.ok('charge', 'post', `/infants/${infantId}/discharge`, { reason: 'home' });
   }
 
   /** Chart a reading now, or taken earlier (a late entry). Answers the stored reading's body. */

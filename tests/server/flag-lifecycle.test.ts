@@ -169,7 +169,7 @@ describe('check clocks that know the mode', () => {
     const id = await admit('bed-N14', 'Baby Quarrendon');
     await chart(id, { probe: 37.4, remote: 36.8, remoteSite: 'axilla', controlMode: 'skin-servo' });
     const gap = (await views(id)).mine.openFlags.find((f) => f.kind === 'gap')!;
-    const action = await post(`/flags/${gap.id}/actions`, { id: randomUUID(), kind: 'moved-probe' });
+    const action = await post(`/flags/${gap.id}/actions`, { id: randomUUID(), kind: 'moved-probe', probeSite: 'back-or-flank' });
     expect(action.status).toBe(201);
     env.clock.advanceMinutes(2);
     await chart(id, { probe: 36.9, remote: 36.8, remoteSite: 'axilla' });

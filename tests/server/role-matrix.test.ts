@@ -47,6 +47,7 @@ const EXPECTED: Record<string, string> = {
   // Charting: bedside and charge nurses.
   'POST /api/infants/:id/readings': 'UUFFN',
   'POST /api/infants/:id/skin-to-skin': 'UUFFN',
+  'POST /api/infants/:id/placement': 'UUFFN',
   'POST /api/readings/:id/corrections': 'UUFFN',
   'POST /api/flags/:id/actions': 'UUFFN',
   'POST /api/flags/:flagId/actions/:id/undo': 'UUFFN',
