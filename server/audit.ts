@@ -52,14 +52,24 @@ function prepareAppend(db: Db) {
 // Prepared once per connection: every write and every chart read appends (bench: durable writes ≥ 200/s, board and flowsheet ≥ 50 % of /api/ping).
 const appendStatements = new WeakMap<Db, ReturnType<typeof prepareAppend>>();
 
+function appendStatementsOf(sqlite: Database.Database) {
+  const db = drizzleOf(sqlite);
+  let st = appendStatements.get(db);
+  if (!st) appendStatements.set(db, (st = prepareAppend(db)));
+  return st;
+}
+
+/** The hash of the chain's last event (the genesis hash when there is none). */
+export function headHash(sqlite: Database.Database): string {
+  return appendStatementsOf(sqlite).head.get()?.hash ?? GENESIS_HASH;
+}
+
 /**
  * Append one audit event. Call inside the same write transaction as the change it records,
  * so the change and its audit event are stored together or not at all.
  */
 export function appendAudit(sqlite: Database.Database, input: AuditInput): void {
-  const db = drizzleOf(sqlite);
-  let st = appendStatements.get(db);
-  if (!st) appendStatements.set(db, (st = prepareAppend(db)));
+  const st = appendStatementsOf(sqlite);
   const prevHash = st.head.get()?.hash ?? GENESIS_HASH;
   const row = {
     at: input.at.getTime(),

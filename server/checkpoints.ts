@@ -15,7 +15,9 @@ import { createHmac, randomBytes, timingSafeEqual } from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import type Database from 'better-sqlite3';
-import { prepared } from '../db/client';
+import { count, desc } from 'drizzle-orm';
+import { drizzleOf } from '../db/client';
+import { auditEvents } from '../db/schema';
 import { ConfigError } from './config';
 import type { Job } from './scheduler';
 
@@ -151,11 +153,13 @@ function tail(file: string): { last: Checkpoint | null; endsWithNewline: boolean
 
 /** The chain's head now: the last event, how many events there are, and the first one. */
 export function chainHead(sqlite: Database.Database): { headId: number; headHash: string; count: number; firstId: number; firstHash: string } | null {
-  const head = prepared(sqlite, 'SELECT id, hash FROM audit_events ORDER BY id DESC LIMIT 1').get() as { id: number; hash: string } | undefined;
-  if (!head) return null;
-  const first = prepared(sqlite, 'SELECT id, hash FROM audit_events ORDER BY id LIMIT 1').get() as { id: number; hash: string };
-  const count = (prepared(sqlite, 'SELECT COUNT(*) AS n FROM audit_events').get() as { n: number }).n;
-  return { headId: head.id, headHash: head.hash, count, firstId: first.id, firstHash: first.hash };
+  const db = drizzleOf(sqlite);
+  const event = { id: auditEvents.id, hash: auditEvents.hash };
+  const head = db.select(event).from(auditEvents).orderBy(desc(auditEvents.id)).limit(1).get();
+  const first = db.select(event).from(auditEvents).orderBy(auditEvents.id).limit(1).get();
+  if (!head || !first) return null;
+  const events = db.select({ n: count() }).from(auditEvents).get()?.n ?? 0;
+  return { headId: head.id, headHash: head.hash, count: events, firstId: first.id, firstHash: first.hash };
 }
 
 /**

@@ -16,7 +16,11 @@
  */
 import { createHash } from 'node:crypto';
 import type Database from 'better-sqlite3';
-import { appendAudit, auditHash, GENESIS_HASH } from './audit';
+import { and, eq, getTableName, gt, is, sql, type SQL } from 'drizzle-orm';
+import { SQLiteTable } from 'drizzle-orm/sqlite-core';
+import { drizzleOf } from '../db/client';
+import * as schema from '../db/schema';
+import { appendAudit, auditHash, GENESIS_HASH, headHash } from './audit';
 import { CHAINED, type ChainedTable } from './ledger-tables';
 
 export type RowAction = 'row-insert' | 'row-update' | 'row-delete' | 'row-baseline';
@@ -44,8 +48,58 @@ export function canonicalSql(table: ChainedTable, version: number, prefix = ''):
   return `json_array(${columns.map((c) => `${prefix}${q(c)}`).join(', ')})`;
 }
 
-function columnsOf(sqlite: Database.Database, table: string): Set<string> {
-  return new Set((sqlite.prepare(`PRAGMA main.table_info(${q(table)})`).all() as Array<{ name: string }>).map((c) => c.name));
+// sql fragments: SQLite's CAST and json_array are the encoding every row hash was made over (Drizzle has no json_array).
+const keyExpr = (table: ChainedTable): SQL<string> => sql<string>`${sql.join(table.key.map((k) => sql`CAST(${sql.identifier(k)} AS TEXT)`), sql` || ':' || `)}`;
+function canonicalExpr(table: ChainedTable, version: number): SQL<string> {
+  const columns = table.versions[version - 1];
+  if (!columns) throw new Error(`no canonical version ${version}`);
+  return sql<string>`json_array(${sql.join(columns.map((c) => sql.identifier(c)), sql`, `)})`;
+}
+// sql fragment: rowid is SQLite's own row number, not a declared column: the order rows were written in.
+const rowid = sql<number>`rowid`;
+
+const SCHEMA_TABLES = new Map<string, SQLiteTable>(
+  (Object.values(schema) as unknown[])
+    .filter((t): t is SQLiteTable => is(t, SQLiteTable))
+    .map((t) => [getTableName(t), t]),
+);
+
+export interface ChainedRow {
+  key: string;
+  unit: string | null;
+  /** The canonical content (json_array text) for each version asked for. */
+  canonical: Map<number, string>;
+}
+
+const ROW_PAGE = 2_000;
+
+/**
+ * Every row of a chained table in the order it was written, a page at a time: its key, its unit
+ * and its canonical content under each of `versions` (columns as SQLite stores them, so the text
+ * is the one the row events hashed).
+ */
+export function* chainedRows(sqlite: Database.Database, name: string, table: ChainedTable, versions: readonly number[]): Generator<ChainedRow> {
+  const from = SCHEMA_TABLES.get(name);
+  if (!from) throw new Error(`the chained table ${name} is not in db/schema.ts`);
+  const fields: Record<string, SQL> = { rid: rowid, key: keyExpr(table), unit: table.unit ? sql<string | null>`${sql.identifier(table.unit)}` : sql<null>`NULL` };
+  for (const v of versions) fields[`c${v}`] = canonicalExpr(table, v);
+  const db = drizzleOf(sqlite);
+  let after = 0;
+  for (;;) {
+    const page = db.select(fields).from(from).where(gt(rowid, after)).orderBy(rowid).limit(ROW_PAGE).all();
+    for (const r of page) {
+      yield { key: String(r.key), unit: r.unit === null ? null : String(r.unit), canonical: new Map(versions.map((v) => [v, String(r[`c${v}`])])) };
+    }
+    if (page.length < ROW_PAGE) return;
+    after = Number(page[page.length - 1]!.rid);
+  }
+}
+
+/** The columns a table has in this database file (none when it is missing). */
+export function columnsOf(sqlite: Database.Database, table: string): Set<string> {
+  // PRAGMA: the columns of the file as it is (Drizzle knows only the schema's); one object per column.
+  const info: unknown = sqlite.pragma(`main.table_info(${q(table)})`);
+  return new Set((Array.isArray(info) ? info : []).map((c: { name?: unknown }) => String(c.name)));
 }
 
 /**
@@ -67,6 +121,7 @@ const NOW_MS = "CAST(ROUND((julianday('now') - 2440587.5) * 86400000) AS INTEGER
 type Op = 'INSERT' | 'UPDATE' | 'DELETE' | 'REKEY';
 const OPS: readonly Op[] = ['INSERT', 'UPDATE', 'DELETE', 'REKEY'];
 
+// SQL text: a TEMP trigger (Drizzle has no triggers); SQLite runs its body inside every write of the table.
 function triggerSql(name: string, table: ChainedTable, version: number, op: Op): string {
   const row = op === 'DELETE' || op === 'REKEY' ? 'OLD.' : 'NEW.';
   const action: RowAction = op === 'INSERT' ? 'row-insert' : op === 'UPDATE' ? 'row-update' : 'row-delete';
@@ -127,9 +182,11 @@ export function installLedger(sqlite: Database.Database, now = new Date()): void
 /** Tables some `ledger-installed` event already covers. */
 export function coveredTables(sqlite: Database.Database): Set<string> {
   const covered = new Set<string>();
-  const markers = sqlite
-    .prepare('SELECT after FROM audit_events WHERE entity_type = ? AND entity_id = ? AND action = ?')
-    .all(LEDGER_MARKER.entityType, LEDGER_MARKER.entityId, LEDGER_MARKER.action) as Array<{ after: string | null }>;
+  const markers = drizzleOf(sqlite)
+    .select({ after: schema.auditEvents.after })
+    .from(schema.auditEvents)
+    .where(and(eq(schema.auditEvents.entityType, LEDGER_MARKER.entityType), eq(schema.auditEvents.entityId, LEDGER_MARKER.entityId), eq(schema.auditEvents.action, LEDGER_MARKER.action)))
+    .all();
   for (const m of markers) {
     const tables = (JSON.parse(m.after ?? '{}') as { tables?: Record<string, number> }).tables ?? {};
     for (const t of Object.keys(tables)) covered.add(t);
@@ -140,27 +197,31 @@ export function coveredTables(sqlite: Database.Database): Set<string> {
 function baseline(sqlite: Database.Database, versions: Map<string, number>, now: Date): void {
   const covered = coveredTables(sqlite);
   const counts: Record<string, number> = {};
-  const insert = sqlite.prepare(
-    'INSERT INTO audit_events (at, actor_id, action, entity_type, entity_id, unit_id, before, after, prev_hash, hash) VALUES (?, NULL, ?, ?, ?, ?, NULL, ?, ?, ?)',
-  );
-  let prev = (sqlite.prepare('SELECT hash FROM audit_events ORDER BY id DESC LIMIT 1').get() as { hash: string } | undefined)?.hash ?? GENESIS_HASH;
+  const db = drizzleOf(sqlite);
+  let pending: Array<typeof schema.auditEvents.$inferInsert> = [];
+  // Several events to a statement; their ids keep the order of the array, which is the chain's.
+  const flush = () => {
+    if (pending.length) db.insert(schema.auditEvents).values(pending).run();
+    pending = [];
+  };
+  let prev = headHash(sqlite);
   const at = now.getTime();
   for (const [name, version] of versions) {
     if (covered.has(name)) continue;
     const table = CHAINED[name]!;
-    const unit = table.unit ? q(table.unit) : 'NULL';
-    const rows = sqlite
-      .prepare(`SELECT ${keySql(table)} AS eid, ${unit} AS unit, ${canonicalSql(table, version)} AS canonical FROM main.${q(name)} ORDER BY rowid`)
-      .all() as Array<{ eid: string; unit: string | null; canonical: string }>;
-    for (const r of rows) {
-      const after = rowEventAfter(name, version, r.canonical, false);
-      const e = { at, actorId: null, action: 'row-baseline', entityType: name, entityId: r.eid, unitId: r.unit, before: null, after };
+    let n = 0;
+    for (const r of chainedRows(sqlite, name, table, [version])) {
+      const after = rowEventAfter(name, version, r.canonical.get(version)!, false);
+      const e = { at, actorId: null, action: 'row-baseline', entityType: name, entityId: r.key, unitId: r.unit, before: null, after };
       const hash = auditHash(prev, e);
-      insert.run(at, e.action, name, r.eid, r.unit, after, prev, hash);
+      pending.push({ ...e, at: now, prevHash: prev, hash });
+      if (pending.length >= 500) flush();
       prev = hash;
+      n += 1;
     }
-    counts[name] = rows.length;
+    counts[name] = n;
   }
+  flush();
   if (Object.keys(counts).length === 0) return;
   appendAudit(sqlite, {
     at: now,
@@ -182,6 +243,7 @@ function baseline(sqlite: Database.Database, versions: Map<string, number>, now:
  */
 export function withoutLedger<T>(sqlite: Database.Database, fn: () => T): T {
   const names = installed.get(sqlite) ?? [];
+  // SQL text: dropping the TEMP triggers (Drizzle has no triggers).
   for (const name of names) for (const op of OPS) sqlite.exec(`DROP TRIGGER IF EXISTS temp.${triggerName(name, op)}`);
   try {
     return fn();

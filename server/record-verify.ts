@@ -6,10 +6,17 @@
  * or beside the running server.
  */
 import type Database from 'better-sqlite3';
-import { auditHash, GENESIS_HASH } from './audit';
+import { count as countOf, eq, gte, max, min } from 'drizzle-orm';
+import { integer, sqliteTable, text } from 'drizzle-orm/sqlite-core';
+import { drizzleOf } from '../db/client';
+import { auditEvents } from '../db/schema';
+import { auditEventsInOrder, auditHash, GENESIS_HASH, hashedFields, type AuditEventRow } from './audit';
 import { macMatches, readCheckpoints, type Checkpoint, type CheckpointSettings } from './checkpoints';
-import { canonicalSql, keySql, LEDGER_MARKER, ROW_ACTIONS, rowHash, type RowAction } from './ledger';
+import { chainedRows, columnsOf, LEDGER_MARKER, ROW_ACTIONS, rowHash, type RowAction } from './ledger';
 import { CHAINED } from './ledger-tables';
+
+/** SQLite's own table of AUTOINCREMENT counters (made by SQLite, so not in db/schema.ts). */
+const sqliteSequence = sqliteTable('sqlite_sequence', { name: text('name').notNull(), seq: integer('seq').notNull() });
 
 export type FindingKind =
   | 'event-link'
@@ -45,20 +52,6 @@ export interface RecordReport {
   unvouched: { fromId: number; toId: number; events: number; fromAt: number; toAt: number } | null;
 }
 
-interface EventRow {
-  id: number;
-  at: number;
-  actorId: string | null;
-  action: string;
-  entityType: string;
-  entityId: string | null;
-  unitId: string | null;
-  before: string | null;
-  after: string | null;
-  prevHash: string;
-  hash: string;
-}
-
 interface RowEvent {
   id: number;
   action: RowAction;
@@ -85,17 +78,14 @@ function verifySnapshot(sqlite: Database.Database, options: { checkpoints?: Chec
   const rowEvents = new Map<string, RowEvent>();
   const baselines: RecordReport['baselines'] = [];
   const rowActions = new Set<string>(ROW_ACTIONS);
-  const events = sqlite
-    .prepare(
-      'SELECT id, at, actor_id AS actorId, action, entity_type AS entityType, entity_id AS entityId, unit_id AS unitId, before, after, prev_hash AS prevHash, hash FROM audit_events ORDER BY id',
-    )
-    .iterate() as IterableIterator<EventRow>;
+  const isRowAction = (action: string): action is RowAction => rowActions.has(action);
+  const db = drizzleOf(sqlite);
   let prev = GENESIS_HASH;
   let prevId: number | null = null;
   let count = 0;
-  let first: EventRow | null = null;
-  let last: EventRow | null = null;
-  for (const e of events) {
+  let first: AuditEventRow | null = null;
+  let last: AuditEventRow | null = null;
+  for (const e of auditEventsInOrder(sqlite)) {
     count += 1;
     first ??= e;
     last = e;
@@ -103,23 +93,23 @@ function verifySnapshot(sqlite: Database.Database, options: { checkpoints?: Chec
       const gap = prevId !== null && e.id !== prevId + 1 ? ` (events ${prevId + 1}–${e.id - 1} are missing)` : '';
       findings.push({ kind: 'event-link', eventId: e.id, message: `the link to the previous event does not match: an event before it was removed or changed${gap}` });
     }
-    if (auditHash(e.prevHash, e) !== e.hash) {
+    if (auditHash(e.prevHash, hashedFields(e)) !== e.hash) {
       findings.push({ kind: 'event-changed', eventId: e.id, message: 'the event was changed after it was written' });
     }
     prev = e.hash;
     prevId = e.id;
     if (wanted.has(e.id)) seenAt.set(e.id, { hash: e.hash, ordinal: count });
-    if (rowActions.has(e.action) && e.entityId !== null) {
+    if (isRowAction(e.action) && e.entityId !== null) {
       const parsed = parseAfter(e.after);
-      rowEvents.set(rowKey(e.entityType, e.entityId), { id: e.id, action: e.action as RowAction, v: parsed.v, hash: parsed.hash });
+      rowEvents.set(rowKey(e.entityType, e.entityId), { id: e.id, action: e.action, v: parsed.v, hash: parsed.hash });
     } else if (e.action === LEDGER_MARKER.action && e.entityType === LEDGER_MARKER.entityType) {
       const tables = (parseJson(e.after) as { tables?: Record<string, number> } | null)?.tables ?? {};
-      baselines.push({ eventId: e.id, at: e.at, tables });
+      baselines.push({ eventId: e.id, at: e.at.getTime(), tables });
     }
   }
 
   // 2. A cut tail: AUTOINCREMENT's counter remembers the highest id ever handed out.
-  const seq = (sqlite.prepare("SELECT seq FROM sqlite_sequence WHERE name = 'audit_events'").get() as { seq: number } | undefined)?.seq ?? 0;
+  const seq = db.select({ seq: sqliteSequence.seq }).from(sqliteSequence).where(eq(sqliteSequence.name, 'audit_events')).get()?.seq ?? 0;
   const lastId = last?.id ?? 0;
   if (seq > lastId) {
     findings.push({
@@ -133,14 +123,12 @@ function verifySnapshot(sqlite: Database.Database, options: { checkpoints?: Chec
   let rowsChecked = 0;
   const unrecorded: Finding[] = [];
   for (const [name, table] of Object.entries(CHAINED)) {
-    const have = new Set((sqlite.prepare(`PRAGMA main.table_info("${name}")`).all() as Array<{ name: string }>).map((c) => c.name));
+    const have = columnsOf(sqlite, name);
     if (have.size === 0) continue;
     const usable = table.versions.map((cols, i) => (cols.every((c) => have.has(c)) ? i + 1 : 0)).filter((v) => v > 0);
-    const select = usable.map((v) => `${canonicalSql(table, v)} AS c${v}`).join(', ');
-    const rows = sqlite.prepare(`SELECT ${keySql(table)} AS k${select ? `, ${select}` : ''} FROM main."${name}" ORDER BY rowid`).iterate() as IterableIterator<Record<string, string>>;
-    for (const row of rows) {
+    for (const row of chainedRows(sqlite, name, table, usable)) {
       rowsChecked += 1;
-      const key = String(row.k);
+      const key = row.key;
       const id = rowKey(name, key);
       const event = rowEvents.get(id);
       rowEvents.delete(id);
@@ -152,7 +140,7 @@ function verifySnapshot(sqlite: Database.Database, options: { checkpoints?: Chec
         findings.push({ kind: 'row-unrecorded', eventId: event.id, table: name, key, message: `${name} row ${key} is present although event ${event.id} recorded its deletion` });
         continue;
       }
-      const canonical = row[`c${event.v}`];
+      const canonical = row.canonical.get(event.v);
       if (canonical === undefined || event.hash === null || rowHash(name, event.v, canonical) !== event.hash) {
         findings.push({ kind: 'row-edited', eventId: event.id, table: name, key, message: `${name} row ${key} differs from what event ${event.id} recorded: it was edited outside the app` });
       }
@@ -224,8 +212,8 @@ function verifySnapshot(sqlite: Database.Database, options: { checkpoints?: Chec
   let unvouched: RecordReport['unvouched'] = null;
   if (last && (vouchedTo === null || last.id > vouchedTo)) {
     const fromId = vouchedTo === null ? first!.id : vouchedTo + 1;
-    const w = sqlite.prepare('SELECT COUNT(*) AS n, MIN(at) AS fromAt, MAX(at) AS toAt FROM audit_events WHERE id >= ?').get(fromId) as { n: number; fromAt: number; toAt: number };
-    if (w.n > 0) unvouched = { fromId, toId: last.id, events: w.n, fromAt: w.fromAt, toAt: w.toAt };
+    const w = db.select({ n: countOf(), fromAt: min(auditEvents.at), toAt: max(auditEvents.at) }).from(auditEvents).where(gte(auditEvents.id, fromId)).get();
+    if (w && w.n > 0 && w.fromAt && w.toAt) unvouched = { fromId, toId: last.id, events: w.n, fromAt: w.fromAt.getTime(), toAt: w.toAt.getTime() };
   }
 
   const ordered = [...findings.sort((a, b) => (a.eventId ?? Infinity) - (b.eventId ?? Infinity)), ...unrecorded];
