@@ -11,6 +11,8 @@ export const CONTROL_MODES = ['skin-servo', 'air-servo', 'manual'] as const;
 export type ControlMode = (typeof CONTROL_MODES)[number];
 export const REMOTE_SITES = ['axilla', 'rectal', 'other'] as const;
 export type RemoteSite = (typeof REMOTE_SITES)[number];
+/** Where a remote-site (body) temperature was taken, as the forms and the charts name it. */
+export const REMOTE_SITE_LABELS: Record<RemoteSite, string> = { axilla: 'Axilla', rectal: 'Rectal', other: 'Other site' };
 export const HEAT_SIGNS = ['red-skin', 'warm-to-touch', 'sweating', 'irritability', 'fast-breathing'] as const;
 export type HeatSign = (typeof HEAT_SIGNS)[number];
 

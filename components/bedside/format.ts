@@ -1,5 +1,5 @@
 import { formatClock, formatInZone } from '@/components/ui/format-time';
-import { CONTROL_MODE_LABELS, CONTROL_MODES, HEAT_SOURCE_LABELS } from '@/shared/vocabulary';
+import { CONTROL_MODE_LABELS, CONTROL_MODES, HEAT_SOURCE_LABELS, REMOTE_SITE_LABELS, REMOTE_SITES } from '@/shared/vocabulary';
 import { formatTemperature, formatTemperatureDifference, type TempUnit } from '@/shared/thermal/units';
 
 export interface DisplayPrefs {
@@ -44,12 +44,8 @@ export { CONTROL_MODE_LABELS, HEAT_SOURCE_LABELS };
 /** The control-mode choice of the reading form. */
 export const CONTROL_MODE_OPTIONS = CONTROL_MODES.map((value) => ({ value, label: CONTROL_MODE_LABELS[value] }));
 /** The remote-site choice of the reading and correction forms. */
-export const REMOTE_SITE_OPTIONS: Array<{ value: 'axilla' | 'rectal' | 'other'; label: string }> = [
-  { value: 'axilla', label: 'Axilla' },
-  { value: 'rectal', label: 'Rectal' },
-  { value: 'other', label: 'Other' },
-];
-export const SITE_LABELS = { axilla: 'Axilla', rectal: 'Rectal', other: 'Other site' } as const;
+export const REMOTE_SITE_OPTIONS = REMOTE_SITES.map((value) => ({ value, label: REMOTE_SITE_LABELS[value] }));
+export const SITE_LABELS = REMOTE_SITE_LABELS;
 export const FLAG_LABELS = {
   gap: 'Gap flag',
   'overdue-check': 'Check overdue',

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { controlModeSchema, correctionReasonSchema, heatSignSchema, remoteSiteSchema } from '@/shared/schemas/bedside';
 import { isThermalInputError } from '@/shared/thermal/errors';
-import { checkPlausibility, type PlausibilityField } from '@/shared/thermal/limits';
+import { checkPlausibility, HARD_LIMITS, type PlausibilityField } from '@/shared/thermal/limits';
 import { toCentiCelsius, type TempUnit } from '@/shared/thermal/units';
 import { LATE_ENTRY_MINUTES } from '@/shared/vocabulary';
 import { instantOfLocalTime, isLate, parseNumber, TEMPS, type ReadingFormValues } from './reading-form-values';
@@ -45,9 +45,9 @@ export function readingFormResolverSchema(unit: TempUnit, timeZone: string, now:
         ctx.addIssue({ code: 'custom', path: [field], message: isThermalInputError(err) ? `${label} ${err.message.replace(/^\S+ /, '')}.` : `${label} is not usable.` });
       }
     }
-    for (const [field, label, min, max] of [
-      ['heartRate', 'Heart rate', 30, 300],
-      ['heaterOutputPct', 'Heater output', 0, 100],
+    for (const [field, label, { min, max }] of [
+      ['heartRate', 'Heart rate', HARD_LIMITS.heartRate],
+      ['heaterOutputPct', 'Heater output', HARD_LIMITS.heaterOutputPct],
     ] as const) {
       const n = parseNumber(v[field]);
       if (n === 'invalid' || (n !== null && (!Number.isInteger(n) || n < min || n > max))) {

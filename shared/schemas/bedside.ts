@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { safeNote, safeText } from './safe-text';
 import { hasOneDecimalAtMost, oneDecimalMessage } from '../chart-time';
+import { HARD_LIMITS } from '../thermal/limits';
 import { ACTION_KINDS, CONTROL_MODES, HEAT_SIGNS, HEAT_SOURCES, REMOTE_SITES } from '../vocabulary';
 import { probeSiteSchema, readingExtraFields, refineRemoteSite } from './placement';
 
@@ -48,8 +49,20 @@ const readingValueFields = {
   air: temperature('Air temperature'),
   set: temperature('Set temperature'),
   controlMode: controlModeSchema.nullable().optional(),
-  heaterOutputPct: z.number({ error: 'Heater output must be a number.' }).int('Use a whole percentage.').min(0, 'At least 0 %.').max(100, 'At most 100 %.').nullable().optional(),
-  heartRate: z.number({ error: 'Heart rate must be a number.' }).int('Use whole beats per minute.').min(30, 'Below 30/min is not a plausible heart rate.').max(300, 'Above 300/min is not a plausible heart rate.').nullable().optional(),
+  heaterOutputPct: z
+    .number({ error: 'Heater output must be a number.' })
+    .int('Use a whole percentage.')
+    .min(HARD_LIMITS.heaterOutputPct.min, `At least ${HARD_LIMITS.heaterOutputPct.min} %.`)
+    .max(HARD_LIMITS.heaterOutputPct.max, `At most ${HARD_LIMITS.heaterOutputPct.max} %.`)
+    .nullable()
+    .optional(),
+  heartRate: z
+    .number({ error: 'Heart rate must be a number.' })
+    .int('Use whole beats per minute.')
+    .min(HARD_LIMITS.heartRate.min, `Below ${HARD_LIMITS.heartRate.min}/min is not a plausible heart rate.`)
+    .max(HARD_LIMITS.heartRate.max, `Above ${HARD_LIMITS.heartRate.max}/min is not a plausible heart rate.`)
+    .nullable()
+    .optional(),
   heatSigns: z.array(heatSignSchema).max(5).default([]),
   note: safeNote().max(1000, 'Keep the note under 1,000 characters.').nullable().optional(),
   /** The nurse confirmed a value outside the plausible range. */

@@ -25,14 +25,10 @@ import { resolvePolicy, type UnitPolicy } from './policy';
 import { checkStatus, MINUTE_MS, type CheckStatusResult } from './schedule';
 import { validateSession } from './skin-to-skin';
 import { severityOf, type Severity } from './severity';
+import type { RemoteSite } from '../vocabulary';
 
-export type RemoteSite = 'axilla' | 'rectal' | 'other';
-
-export const REMOTE_SITES: readonly { readonly site: RemoteSite; readonly label: string }[] = [
-  { site: 'axilla', label: 'Axillary' },
-  { site: 'rectal', label: 'Rectal' },
-  { site: 'other', label: 'Other' },
-];
+/** Where a remote-site temperature was taken; the list and its labels are in shared/vocabulary.ts. */
+export type { RemoteSite };
 
 /** One stored reading (temperatures in integer hundredths of °C). */
 export interface ReadingInput {

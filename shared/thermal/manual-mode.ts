@@ -19,23 +19,13 @@
 
 import { requireFinite, requireTime, ThermalInputError } from './errors';
 import { MINUTE_MS, requireMinutes } from './schedule';
+import { CONTROL_MODES, type ControlMode } from '../vocabulary';
 
-export type ControlMode = 'skin-servo' | 'air-servo' | 'manual';
-
-export interface ControlModeInfo {
-  readonly mode: ControlMode;
-  readonly label: string;
-}
-
-/** The standards' control modes (IEC 60601-2-21, 2-19): baby (skin), air, manual. */
-export const CONTROL_MODES: readonly ControlModeInfo[] = [
-  { mode: 'skin-servo', label: 'Skin servo' },
-  { mode: 'air-servo', label: 'Air servo' },
-  { mode: 'manual', label: 'Manual' },
-];
+/** The standards' control modes (IEC 60601-2-21, 2-19): baby (skin), air, manual; the list and its labels are in shared/vocabulary.ts. */
+export type { ControlMode };
 
 export function isControlMode(value: unknown): value is ControlMode {
-  return value === 'skin-servo' || value === 'air-servo' || value === 'manual';
+  return (CONTROL_MODES as readonly unknown[]).includes(value);
 }
 
 /** Heater output at or above 80 % counts as high (from memory). */

@@ -4,11 +4,8 @@
  */
 import type { FlagKind, Severity } from '../thermal';
 import type { PlacementPromptCode } from '../thermal/placement';
-import type { InfantPosition, ProbeSite } from '../vocabulary';
+import type { ControlMode, HeatSource, InfantPosition, ProbeSite, RemoteSite } from '../vocabulary';
 
-export type HeatSource = 'radiant-warmer' | 'incubator' | 'convertible';
-export type ControlModeName = 'skin-servo' | 'air-servo' | 'manual';
-export type RemoteSiteName = 'axilla' | 'rectal' | 'other';
 export type NextCheckStatus = 'never' | 'ok' | 'due-soon' | 'overdue';
 
 export interface NextCheck {
@@ -114,11 +111,11 @@ export interface InfantSummary {
   ageDays: number;
   weightGrams: number;
   heatSource: HeatSource;
-  controlMode: ControlModeName | null;
+  controlMode: ControlMode | null;
   setCenti: number | null;
   latest: {
     probe: { centi: number; takenAt: string } | null;
-    remote: { centi: number; site: RemoteSiteName | null; takenAt: string } | null;
+    remote: { centi: number; site: RemoteSite | null; takenAt: string } | null;
   };
   /** The remote-site check clock (kept for older screens; `checks.remote` is the same). */
   nextCheck: NextCheck;
@@ -143,10 +140,10 @@ export interface ReadingVersion {
   recordedBy: { id: string; name: string };
   probeCenti: number | null;
   remoteCenti: number | null;
-  remoteSite: RemoteSiteName | null;
+  remoteSite: RemoteSite | null;
   airCenti: number | null;
   setCenti: number | null;
-  controlMode: ControlModeName | null;
+  controlMode: ControlMode | null;
   heaterOutputPct: number | null;
   heartRate: number | null;
   heatSigns: string[];
@@ -252,9 +249,9 @@ export interface InfantDetail {
   timeZone: string;
   /** Defaults for the record form, from the latest readings. */
   defaults: {
-    controlMode: ControlModeName | null;
+    controlMode: ControlMode | null;
     setCenti: number | null;
-    remoteSite: RemoteSiteName | null;
+    remoteSite: RemoteSite | null;
     /** The current placement, carried forward as the form's settings. */
     placement?: { probeSite: ProbeSite | null; probeCovered: boolean | null; position: InfantPosition | null; prompt: PlacementPromptCode | null } | null;
   };

@@ -1,9 +1,7 @@
 /** What the board, handover and mailbox endpoints answer. Instants are ISO strings. */
 import type { CheckStatus, FlagKind, Severity } from '../thermal';
-import type { CheckClocks, ControlModeName, CurrentPlacement, EscalationSent, HeatSource, InfantSummary } from './bedside';
-
-export type { HeatSource } from './bedside';
-export type ControlMode = ControlModeName;
+import type { ControlMode, HeatSource } from '../vocabulary';
+import type { CheckClocks, CurrentPlacement, EscalationSent, InfantSummary } from './bedside';
 
 /** 0 needs attention now (a critical or urgent flag, an overdue clock), 1 due soon or a caution, 2 the rest, 3 empty bed. */
 export type UrgencyTier = 0 | 1 | 2 | 3;

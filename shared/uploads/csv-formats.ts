@@ -8,7 +8,9 @@ import { emailSchema } from '../schemas/auth';
 import { unsafeTextReason } from '../schemas/safe-text';
 import { ROLES, type Role } from '../roles';
 import { isThermalInputError } from '../thermal/errors';
+import { HARD_LIMITS } from '../thermal/limits';
 import { toCentiCelsius, type TempUnit } from '../thermal/units';
+import { CONTROL_MODES, REMOTE_SITES, type ControlMode, type RemoteSite } from '../vocabulary';
 import { unusualValues } from '../plausibility';
 import { parseRowTime } from './csv-text';
 
@@ -82,9 +84,9 @@ export interface ParsedReadingRow {
   takenAt: Date;
   probeCenti: number | null;
   remoteCenti: number | null;
-  remoteSite: 'axilla' | 'rectal' | 'other' | null;
+  remoteSite: RemoteSite | null;
   unit: TempUnit;
-  controlMode: 'skin-servo' | 'air-servo' | 'manual' | null;
+  controlMode: ControlMode | null;
   heaterOutputPct: number | null;
   heartRate: number | null;
   airCenti: number | null;
@@ -113,6 +115,11 @@ function temperature(value: string, unit: TempUnit | null, column: string, error
     errors.push(`${column}: ${isThermalInputError(err) ? `${v} °${unit} is outside 20–45 °C (68–113 °F)` : 'not a temperature'}`);
     return null;
   }
+}
+
+/** "a, b or c": the values a column takes, as they are typed in the file. */
+function orList(values: readonly string[]): string {
+  return values.length < 2 ? values.join('') : `${values.slice(0, -1).join(', ')} or ${values[values.length - 1]}`;
 }
 
 function whole(value: string, column: string, min: number, max: number, errors: string[]): number | null {
@@ -151,19 +158,19 @@ export function checkReadingRow(row: Row, timeZone: string): { value?: ParsedRea
   const siteText = (row.site ?? '').trim().toLowerCase();
   let remoteSite: ParsedReadingRow['remoteSite'] = null;
   if (siteText) {
-    if (siteText === 'axilla' || siteText === 'rectal' || siteText === 'other') remoteSite = siteText;
-    else errors.push('site: use axilla, rectal or other');
+    remoteSite = REMOTE_SITES.find((s) => s === siteText) ?? null;
+    if (!remoteSite) errors.push(`site: use ${orList(REMOTE_SITES)}`);
   }
   if ((row.remote ?? '').trim() && !siteText) errors.push('site: say where the remote-site temperature was taken');
   if (siteText && !(row.remote ?? '').trim()) errors.push('site: given without a remote-site temperature');
   const modeText = (row.mode ?? '').trim().toLowerCase();
   let controlMode: ParsedReadingRow['controlMode'] = null;
   if (modeText) {
-    if (modeText === 'skin-servo' || modeText === 'air-servo' || modeText === 'manual') controlMode = modeText;
-    else errors.push('mode: use skin-servo, air-servo or manual');
+    controlMode = CONTROL_MODES.find((m) => m === modeText) ?? null;
+    if (!controlMode) errors.push(`mode: use ${orList(CONTROL_MODES)}`);
   }
-  const heaterOutputPct = whole(row.output ?? '', 'output', 0, 100, errors);
-  const heartRate = whole(row.heart_rate ?? '', 'heart_rate', 30, 300, errors);
+  const heaterOutputPct = whole(row.output ?? '', 'output', HARD_LIMITS.heaterOutputPct.min, HARD_LIMITS.heaterOutputPct.max, errors);
+  const heartRate = whole(row.heart_rate ?? '', 'heart_rate', HARD_LIMITS.heartRate.min, HARD_LIMITS.heartRate.max, errors);
   if (!(row.probe ?? '').trim() && !(row.remote ?? '').trim() && !(row.heart_rate ?? '').trim()) errors.push('row: give at least a probe, remote-site or heart-rate value');
   if (errors.length || !takenAt || !unit) return { errors };
   const unusual = unusualValues({ probeCenti, remoteCenti, airCenti, setCenti, heartRate, controlMode }, unit).map((u) => u.reason);
