@@ -19,5 +19,3 @@ export interface ApiErrorBody {
     fields?: Record<string, string>;
   };
 }
-
-export const MAX_PAGE_SIZE = 500;

@@ -5,6 +5,8 @@
  * each of them, so the server and the schemas keep one source.
  */
 
+import type { FlagKind } from './thermal/evaluate';
+
 export const HEAT_SOURCES = ['radiant-warmer', 'incubator', 'convertible'] as const;
 export type HeatSource = (typeof HEAT_SOURCES)[number];
 export const CONTROL_MODES = ['skin-servo', 'air-servo', 'manual'] as const;
@@ -60,6 +62,17 @@ export const ACTION_LABELS: Record<ActionKind, string> = {
   'informed-medical-team': 'Told the medical team',
   'recorded-check': 'Recorded the check',
   other: 'Something else (see note)',
+};
+
+/** Each flag as the bedside screens name it (the review queue has its own, longer names below). */
+export const FLAG_KIND_LABELS: Record<FlagKind, string> = {
+  gap: 'Gap flag',
+  'overdue-check': 'Check overdue',
+  'heat-stress': 'Heat-stress prompt',
+  'cold-stress': 'Cold stress',
+  'manual-mode': 'Manual mode',
+  'skin-to-skin-deviation': 'Skin-to-skin deviation',
+  fever: 'Fever',
 };
 
 /** The flag kinds the educator's review queue shows. */

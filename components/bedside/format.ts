@@ -1,5 +1,5 @@
 import { formatClock, formatInZone } from '@/components/ui/format-time';
-import { CONTROL_MODE_LABELS, CONTROL_MODES, HEAT_SOURCE_LABELS, REMOTE_SITE_LABELS, REMOTE_SITES } from '@/shared/vocabulary';
+import { CONTROL_MODE_LABELS, CONTROL_MODES, FLAG_KIND_LABELS, HEAT_SOURCE_LABELS, REMOTE_SITE_LABELS, REMOTE_SITES } from '@/shared/vocabulary';
 import { formatTemperature, formatTemperatureDifference, type TempUnit } from '@/shared/thermal/units';
 
 export interface DisplayPrefs {
@@ -46,13 +46,5 @@ export const CONTROL_MODE_OPTIONS = CONTROL_MODES.map((value) => ({ value, label
 /** The remote-site choice of the reading and correction forms. */
 export const REMOTE_SITE_OPTIONS = REMOTE_SITES.map((value) => ({ value, label: REMOTE_SITE_LABELS[value] }));
 export const SITE_LABELS = REMOTE_SITE_LABELS;
-export const FLAG_LABELS = {
-  gap: 'Gap flag',
-  'overdue-check': 'Check overdue',
-  'heat-stress': 'Heat-stress prompt',
-  'cold-stress': 'Cold stress',
-  'manual-mode': 'Manual mode',
-  'skin-to-skin-deviation': 'Skin-to-skin deviation',
-  fever: 'Fever',
-} as const;
+export const FLAG_LABELS = FLAG_KIND_LABELS;
 export const CORRECTION_REASON_LABELS = { 'corrected-value': 'Corrected value', 'entered-in-error': 'Entered in error', 'late-entry': 'Late entry' } as const;

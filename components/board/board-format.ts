@@ -1,26 +1,6 @@
 import { formatClock, type ClockSetting } from '@/components/ui/format-time';
 import type { IconName } from '@/components/ui/icon';
 import type { StatusTone } from '@/components/ui/status-badge';
-import type { FlagKind } from '@/shared/thermal/evaluate';
-
-export const FLAG_WORDS: Record<FlagKind, { label: string; icon: IconName; tone: StatusTone }> = {
-  gap: { label: 'Gap flag', icon: 'alert', tone: 'danger' },
-  'overdue-check': { label: 'Check overdue', icon: 'clock', tone: 'danger' },
-  'heat-stress': { label: 'Heat-stress prompt', icon: 'flame', tone: 'heat' },
-  'cold-stress': { label: 'Cold stress', icon: 'snow', tone: 'warning' },
-  'manual-mode': { label: 'Manual mode', icon: 'hand', tone: 'warning' },
-  'skin-to-skin-deviation': { label: 'Outside deviation limit', icon: 'hands', tone: 'together' },
-  fever: { label: 'Fever', icon: 'flame', tone: 'danger' },
-};
-
-/** "2:05" or "1:02:05" for a number of whole seconds. */
-export function clockSpan(totalSeconds: number): string {
-  const s = Math.max(0, Math.floor(totalSeconds));
-  const h = Math.floor(s / 3600);
-  const m = Math.floor((s % 3600) / 60);
-  const sec = String(s % 60).padStart(2, '0');
-  return h > 0 ? `${h}:${String(m).padStart(2, '0')}:${sec}` : `${m}:${sec}`;
-}
 
 /** "55 min" or "2 h 05 min": a span in words, never a clock-like "55:33". */
 export function minutesWords(totalSeconds: number): string {

@@ -3,8 +3,6 @@ import type { ChangePasswordInput, PreferencesInput, SessionUser } from '@/share
 import { api } from '../api/client';
 import { useAuth } from '../auth/auth-provider';
 
-export const ACCOUNT_RQKEY_ROOT = 'account';
-
 export function usePreferencesMutation() {
   const { replaceUser } = useAuth();
   return useMutation({

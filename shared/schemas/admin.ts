@@ -113,6 +113,4 @@ export const auditQuerySchema = z
   .refine((v) => !v.from || !v.to || Date.parse(v.from) <= Date.parse(v.to), { message: 'The end of the range is before its start.', path: ['to'] });
 export type AuditQuery = z.infer<typeof auditQuerySchema>;
 
-export const bedActiveSchema = z.strictObject({ active: z.boolean({ error: 'Say whether the bed is in use.' }) });
-
 export const readingsImportQuerySchema = z.strictObject({ unitId: z.string().min(1, 'Choose a unit.').max(100) });

@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { safeNote, safeText } from './safe-text';
 import { REVIEW_KINDS, REVIEW_PAGE_MAX, REVIEW_STATUSES, TEACHING_NOTE_MAX } from '../vocabulary';
 
-export { REVIEW_KIND_LABELS, REVIEW_KINDS, REVIEW_PAGE_MAX, REVIEW_STATUSES, TEACHING_NOTE_MAX, type ReviewKind, type ReviewStatus } from '../vocabulary';
+export { REVIEW_KIND_LABELS, REVIEW_KINDS, REVIEW_PAGE_MAX, REVIEW_STATUSES, TEACHING_NOTE_MAX, type ReviewKind } from '../vocabulary';
 
 /** A local calendar date in the unit's time zone. */
 export const localDateSchema = z

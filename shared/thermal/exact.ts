@@ -53,10 +53,6 @@ export function compare(a: Rational, b: Rational): -1 | 0 | 1 {
   return d < 0n ? -1 : d > 0n ? 1 : 0;
 }
 
-export function fromInteger(n: number): Rational {
-  return { num: BigInt(n), den: 1n };
-}
-
 /**
  * num / den rounded to an integer, halves away from zero (36.445 → 36.45, −0.5 → −1), the
  * rule people use by hand and the one a thermometer's display follows.

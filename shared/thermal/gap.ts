@@ -30,15 +30,6 @@ export interface TemperatureEntry {
   readonly unit: TempUnit;
 }
 
-/** What to do about a gap flag, in the order a nurse usually works through it (common practice). */
-export const GAP_CHECKLIST: readonly string[] = [
-  'Check the probe is in contact with the skin and under its heat-reflecting cover.',
-  'Check the remote-site reading was taken correctly (site, time, thermometer).',
-  'Move or replace the probe if it is loose, wet or lying on a pressure point.',
-  'Adjust the set temperature or change the control mode as your unit policy directs.',
-  'Recheck the probe and the remote site after the action, and record both.',
-];
-
 function requireLimit(limitCenti: unknown): number {
   const limit = requireInteger(limitCenti, 'limitCenti');
   if (limit < 0) {

@@ -22,14 +22,8 @@ import { exactCelsius, requireUnit } from './temperature-input';
 
 export type TempUnit = 'C' | 'F';
 
-export const TEMP_UNITS: readonly TempUnit[] = ['C', 'F'];
-
 /** UCUM codes for FHIR output (UCUM 2.2: offset units 'Cel' and '[degF]'). */
 export const UCUM_UNIT_CODES: Readonly<Record<TempUnit, string>> = { C: 'Cel', F: '[degF]' };
-
-export function isTempUnit(value: unknown): value is TempUnit {
-  return value === 'C' || value === 'F';
-}
 
 /**
  * A typed temperature as integer hundredths of °C, rounded half away from zero.

@@ -45,8 +45,6 @@ export const ROSTER_COLUMNS = ['name', 'email', 'role', 'unit'] as const;
 export const READINGS_COLUMNS = ['infant', 'time', 'probe', 'remote', 'site', 'unit', 'mode', 'output', 'heart_rate', 'air', 'set', 'taken_by'] as const;
 export const READINGS_REQUIRED = ['infant', 'time', 'unit'] as const;
 
-export { READINGS_EXAMPLE } from './example';
-
 export type Row = Record<string, string>;
 
 /** Which required columns a header lacks. */
