@@ -71,7 +71,9 @@ export async function api<T>(path: string, options: RequestOptions = {}): Promis
   let response: Response;
   try {
     const early = (options.method ?? 'GET') === 'GET' ? takeEarlyRead(path, token) : null;
-    response = (early ? await early.catch(() => null) : null) ?? (await fetch(`${API_BASE}/api${path}`, { method: options.method ?? 'GET', headers, body: payload, signal: options.signal }));
+    response =
+      (early ? await early.catch(() => null) : null) ??
+      (await fetch(`${API_BASE}/api${path}`, { method: options.method ?? 'GET', headers, body: payload, signal: options.signal }));
   } catch (err) {
     if ((err as Error).name === 'AbortError') throw err;
     throw new ApiFailure({ kind: 'cannot-connect', message: 'Cannot reach Warmfold. Check the connection; nothing was lost.' });

@@ -20,7 +20,7 @@ import { FLOWSHEET_FIRST_HOURS, flowsheetPath, MY_INFANTS_PATH } from './paths';
 const PAGE_ID = 'PAGE_ID';
 
 /** A page path pattern (matched against location.pathname) and the API paths it reads first; `$1` is the pattern's first group. */
-export const EARLY_ROUTES: ReadonlyArray<{ page: RegExp; reads: string[] }> = [
+export const EARLY_ROUTES: readonly { page: RegExp; reads: string[] }[] = [
   { page: /^\/infants\/?$/, reads: [MY_INFANTS_PATH] },
   { page: /^\/infants\/([^/]+)\/?$/, reads: [flowsheetPath(PAGE_ID, FLOWSHEET_FIRST_HOURS).replace(PAGE_ID, '$1')] },
 ];

@@ -170,10 +170,7 @@ export function AuthProvider({ children }: { children: ReactNode }) {
     setUser(next);
   }, []);
 
-  const value = useMemo(
-    () => ({ user, ready, sessionEnded, signIn, signOut, replaceUser, endedMessage }),
-    [user, ready, sessionEnded, signIn, signOut, replaceUser, endedMessage],
-  );
+  const value = useMemo(() => ({ user, ready, sessionEnded, signIn, signOut, replaceUser, endedMessage }), [user, ready, sessionEnded, signIn, signOut, replaceUser, endedMessage]);
   return <AuthContext.Provider value={value}>{children}</AuthContext.Provider>;
 }
 

@@ -75,10 +75,17 @@ function SignInAgain({ titleId }: { titleId: string }) {
       <Text variant="title" role="heading" aria-level={2} nativeID={titleId} id={titleId}>
         Your session ended
       </Text>
-      <Text>
-        Sign in again to carry on. What you typed stays here{user ? `, and a reading you saved is sent once ${user.name} has signed in` : ''}.
-      </Text>
-      <TextField control={control} name="email" label="E-mail" autoComplete="email" keyboardType="email-address" autoCapitalize="none" inputMode="email" textContentType="username" />
+      <Text>Sign in again to carry on. What you typed stays here{user ? `, and a reading you saved is sent once ${user.name} has signed in` : ''}.</Text>
+      <TextField
+        control={control}
+        name="email"
+        label="E-mail"
+        autoComplete="email"
+        keyboardType="email-address"
+        autoCapitalize="none"
+        inputMode="email"
+        textContentType="username"
+      />
       <TextField
         ref={password}
         control={control}

@@ -53,7 +53,11 @@ function PendingReadingCard({ entry: p, timeZone }: { entry: PendingReading; tim
         Probe {p.body.probe ?? '—'} · remote site {p.body.remote ?? '—'} °{p.body.unit} at {clockTime(p.body.takenAt, timeZone, user.clock)}
       </Text>
       <Text variant="caption" tone={p.refusal ? 'danger' : 'muted'}>
-        {p.refusal ? `The server said: ${p.refusal}` : mine ? 'Kept on this device; it is sent when the connection returns.' : 'Kept on this device for the nurse who saved it; it is sent when she signs in.'}
+        {p.refusal
+          ? `The server said: ${p.refusal}`
+          : mine
+            ? 'Kept on this device; it is sent when the connection returns.'
+            : 'Kept on this device for the nurse who saved it; it is sent when she signs in.'}
       </Text>
       {p.refusal && mine ? (
         discarding ? (

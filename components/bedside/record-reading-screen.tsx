@@ -127,25 +127,16 @@ function RecordReading({ infantId }: { infantId: string }) {
   const shownProblem = problem && problem.kind !== 'unauthorized' ? problem : null;
   return (
     <Screen title={`Record: ${d.infant.bedLabel ?? ''} ${d.infant.displayName}`} subtitle={`Temperatures in °${user.tempUnit}`}>
-      {restored || hasDraft ? (
+      {restored ? (
         <Card role="status" style={styles.draft}>
-          <Text variant="bodyStrong">
-            {restored ? `Draft kept from ${draftTime(restored.updatedAt, d.timeZone, user.clock)}` : 'Kept on this device as a draft until you save'}
+          <Text variant="bodyStrong">{`Draft kept from ${draftTime(restored.updatedAt, d.timeZone, user.clock)}`}</Text>
+          <Text variant="caption" tone="muted">
+            Your values as you left them. Check them, then save, or discard the draft.
           </Text>
-          {restored ? (
-            <Text variant="caption" tone="muted">
-              Your values as you left them. Check them, then save, or discard the draft.
-            </Text>
-          ) : null}
           <View style={styles.draftActions}>
             <Button label="Discard draft" variant="secondary" compact onPress={discard} />
           </View>
         </Card>
-      ) : null}
-      {held ? (
-        <Text role="status" tone="warning">
-          Not saved yet: sign in again and it is sent.
-        </Text>
       ) : null}
       <ReadingForm
         key={formKey}
@@ -156,6 +147,7 @@ function RecordReading({ infantId }: { infantId: string }) {
           controlMode: d.defaults.controlMode,
           set: d.defaults.setCenti === null ? '' : fromCentiCelsius(d.defaults.setCenti, user.tempUnit).toFixed(1),
           remoteSite: d.defaults.remoteSite,
+          placement: d.defaults.placement ?? null,
         }}
         makeId={() => readingId}
         initialValues={restored?.values}
@@ -166,6 +158,20 @@ function RecordReading({ infantId }: { infantId: string }) {
         onCancel={() => router.back()}
         onSubmit={save}
       />
+      {held ? (
+        <Text role="status" tone="warning" style={styles.below}>
+          Not saved yet: sign in again and it is sent.
+        </Text>
+      ) : null}
+      {/* Below the form, so the fields never move while she types the first value. */}
+      {!restored && hasDraft ? (
+        <View style={[styles.draftActions, styles.below]}>
+          <Text variant="caption" tone="muted" role="status">
+            Kept on this device as a draft until you save.
+          </Text>
+          <Button label="Discard draft" variant="quiet" compact onPress={discard} />
+        </View>
+      ) : null}
     </Screen>
   );
 }
@@ -179,5 +185,6 @@ function draftTime(iso: string, timeZone: string, clock: '24h' | '12h'): string 
 
 const styles = StyleSheet.create({
   draft: { gap: 6, marginBottom: 12 },
-  draftActions: { flexDirection: 'row', flexWrap: 'wrap', gap: 8 },
+  draftActions: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: 8 },
+  below: { marginTop: 12 },
 });

@@ -26,12 +26,12 @@ export function ConnectionBanner() {
   const [shown, setShown] = useState(false);
   const { colors } = useTheme();
   useEffect(() => {
-    if (online) {
-      setShown(false);
-      return;
-    }
+    if (online) return;
     const timer = setTimeout(() => setShown(true), SETTLE_MS);
-    return () => clearTimeout(timer);
+    return () => {
+      clearTimeout(timer);
+      setShown(false);
+    };
   }, [online]);
   return (
     <View role="status" aria-live="polite">

@@ -10,7 +10,7 @@ const USER = { id: 'u-nurse', name: 'Nia Okafor', email: 'nia.okafor@warmfold.te
 
 /** A server that answers only requests carrying the stored session's token, as the real one does. */
 function serverExpecting(token: string) {
-  const seen: Array<{ url: string; authorization: string | null }> = [];
+  const seen: { url: string; authorization: string | null }[] = [];
   const fetchMock = jest.fn(async (url: string, init?: { headers?: Record<string, string> }) => {
     const authorization = init?.headers?.Authorization ?? null;
     seen.push({ url, authorization });
@@ -92,7 +92,7 @@ describe('AuthProvider', () => {
     storage.set('warmfold.user', JSON.stringify(USER));
     let answer: (value: Response) => void = () => {};
     globalThis.fetch = jest.fn(() => new Promise<Response>((resolve) => (answer = resolve))) as unknown as typeof fetch;
-    const seen: Array<{ user: unknown; ready: boolean }> = [];
+    const seen: { user: unknown; ready: boolean }[] = [];
     function Probe() {
       const { user, ready } = useAuth();
       seen.push({ user, ready });

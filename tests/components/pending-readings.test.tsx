@@ -29,7 +29,7 @@ const body = (id: string): PendingReading['body'] => ({
  */
 function fakeServer() {
   const stored = new Map<string, unknown>();
-  const posts: Array<{ id: string }> = [];
+  const posts: { id: string }[] = [];
   let mode: 'down' | 'lose-answer' | 'up' = 'up';
   const fetchMock = jest.fn(async (_url: string, init?: { body?: string }) => {
     if (mode === 'down') throw new TypeError('Failed to fetch');

@@ -10,7 +10,15 @@ import { Button } from '@/components/ui/button';
 import { setup } from './setup';
 
 const NIA = { id: 'u-nia', name: 'Nia Okafor', email: 'nia.okafor@warmfold.test', role: 'nurse', unitIds: ['unit-north'], theme: 'light', tempUnit: 'C', clock: '24h' };
-const body = (id: string) => ({ id, unit: 'C' as const, takenAt: '2026-11-16T03:10:00.000Z', probe: 36.8, remote: 36.5, remoteSite: 'axilla' as const, confirmedImplausible: false });
+const body = (id: string) => ({
+  id,
+  unit: 'C' as const,
+  takenAt: '2026-11-16T03:10:00.000Z',
+  probe: 36.8,
+  remote: 36.5,
+  remoteSite: 'axilla' as const,
+  confirmedImplausible: false,
+});
 
 function Shell() {
   const { user } = useAuth();

@@ -21,7 +21,16 @@ jest.mock('expo-router', () => ({
 const INFANT = 'inf-glimmerton';
 const ZONE = 'Europe/London';
 const NIA = { id: 'u-nia', name: 'Nia Okafor', email: 'nia.okafor@warmfold.test', role: 'nurse', unitIds: ['unit-north'], theme: 'light', tempUnit: 'C', clock: '24h' };
-const MARTA = { id: 'u-marta', name: 'Marta Lindqvist', email: 'marta.lindqvist@warmfold.test', role: 'charge', unitIds: ['unit-north'], theme: 'light', tempUnit: 'C', clock: '24h' };
+const MARTA = {
+  id: 'u-marta',
+  name: 'Marta Lindqvist',
+  email: 'marta.lindqvist@warmfold.test',
+  role: 'charge',
+  unitIds: ['unit-north'],
+  theme: 'light',
+  tempUnit: 'C',
+  clock: '24h',
+};
 const PASSWORD = 'warm-hands-at-night';
 
 const DETAIL = {
@@ -39,7 +48,7 @@ type Json = Record<string, unknown>;
 function fakeApi() {
   const sessions = new Map<string, typeof NIA>();
   const stored = new Map<string, Json>();
-  const posts: Array<{ token: string | null; body: Json }> = [];
+  const posts: { token: string | null; body: Json }[] = [];
   let refuseWith: { status: number; message: string; fields?: Record<string, string> } | null = null;
   let issued = 0;
   const answer = (status: number, json: unknown) => ({ ok: status < 400, status, headers: { get: () => null }, json: async () => json }) as unknown as Response;
@@ -67,7 +76,14 @@ function fakeApi() {
       if (refuseWith) return answer(refuseWith.status, { error: { code: 'invalid', message: refuseWith.message, fields: refuseWith.fields ?? {} } });
       const created = !stored.has(String(body.id));
       if (created) stored.set(String(body.id), { ...body, by: who.id });
-      return answer(created ? 201 : 200, { reading: { id: body.id }, created, openFlags: [], nextCheck: { status: 'ok', dueAt: null, minutesLate: 0 }, raisedFlagIds: [], closedFlagIds: [] });
+      return answer(created ? 201 : 200, {
+        reading: { id: body.id },
+        created,
+        openFlags: [],
+        nextCheck: { status: 'ok', dueAt: null, minutesLate: 0 },
+        raisedFlagIds: [],
+        closedFlagIds: [],
+      });
     }
     return answer(404, { error: { code: 'not-found', message: `No ${method} ${path} here.` } });
   });
@@ -178,6 +194,7 @@ describe('the record form keeps a draft', () => {
     const first = open();
     await first.findByLabelText(/^Probe temperature/);
     await first.user.type(probe(), '37.9');
+    expect(await first.findByText('Kept on this device as a draft until you save.')).toBeTruthy();
     first.unmount();
 
     const again = open();
