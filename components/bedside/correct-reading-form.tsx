@@ -12,8 +12,10 @@ import { FormRootError } from '@/components/forms/form-root-error';
 import type { CorrectReadingInput } from '@/shared/schemas/bedside';
 import { fromCentiCelsius, type TempUnit } from '@/shared/thermal/units';
 import type { CorrectionReason, ReadingVersion } from '@/shared/types/bedside';
+import { formatDayAndTime, localDayKey } from '@/components/ui/format-time';
 import { clockTime, CORRECTION_REASON_LABELS, REMOTE_SITE_OPTIONS, temp } from './format';
-import { implausibleReasons, instantOfLocalTime, toCreateReading, type ReadingFormValues } from './reading-form-values';
+import { dayOf, implausibleReasons, takenAtOf, toCreateReading, type ReadingFormValues } from './reading-form-values';
+import { TakenAtField } from './taken-at-field';
 
 export interface CorrectReadingFormValues extends ReadingFormValues {
   reason: CorrectionReason;
@@ -40,7 +42,9 @@ export interface CorrectReadingFormProps {
 export function CorrectReadingForm({ reading, unit, timeZone, clock, now = () => new Date(), makeId = () => globalThis.crypto.randomUUID(), busy, serverFields = {}, serverMessage, onSubmit, onCancel }: CorrectReadingFormProps) {
   const resolver = useMemo(() => lazyZodResolver<CorrectReadingFormValues>((m) => m.correctReadingFormSchema(unit, timeZone, now)), [unit, timeZone, now]);
   useEffect(() => resolver.preload(), [resolver]);
+  // The reading's own day and time: kept unless she changes them.
   const originalTime = clockTime(reading.takenAt, timeZone, '24h');
+  const originalDay = localDayKey(reading.takenAt, timeZone);
   const { control, handleSubmit, setValue } = useForm<CorrectReadingFormValues>({
     resolver,
     defaultValues: {
@@ -57,6 +61,7 @@ export function CorrectReadingForm({ reading, unit, timeZone, clock, now = () =>
       heatSigns: reading.heatSigns as ReadingFormValues['heatSigns'],
       note: reading.note ?? '',
       time: originalTime,
+      day: originalDay,
       lateReason: '',
     },
   });
@@ -78,11 +83,12 @@ export function CorrectReadingForm({ reading, unit, timeZone, clock, now = () =>
           return;
         }
         const at = now();
-        // Only a changed time is sent: the HH:MM field cannot name the day of an older reading.
-        const timeChanged = v.time.trim() !== '' && v.time.trim() !== originalTime;
-        const created = toCreateReading({ ...v, time: '', lateReason: '' }, { id, unit, now: at, timeZone, confirmed: reasons.length > 0 });
+        // Only a changed day or time is sent; otherwise the reading keeps its own instant.
+        const taken = takenAtOf(v, at, timeZone);
+        const changed = taken.kind === 'at' && (v.time.trim() !== originalTime || dayOf(v, at, timeZone) !== originalDay);
+        const created = toCreateReading({ ...v, time: '', day: '', lateReason: '' }, { id, unit, now: at, timeZone, confirmed: reasons.length > 0 });
         const { id: _id, lateReason: _late, takenAt: _takenAt, ...values } = created;
-        body.values = { ...values, ...(timeChanged ? { takenAt: (instantOfLocalTime(v.time, at, timeZone) ?? at).toISOString() } : {}) };
+        body.values = { ...values, ...(changed ? { takenAt: taken.at.toISOString() } : {}) };
       }
       setConfirming(null);
       onSubmit(body);
@@ -91,7 +97,7 @@ export function CorrectReadingForm({ reading, unit, timeZone, clock, now = () =>
   return (
     <View style={styles.form}>
       <Card>
-        <Text variant="label">Correcting the reading of {clockTime(reading.takenAt, timeZone, clock)}</Text>
+        <Text variant="label">Correcting the reading of {formatDayAndTime(reading.takenAt, timeZone, clock, now())}</Text>
         <Text>
           Probe {temp(reading.probeCenti, unit)} · Remote {temp(reading.remoteCenti, unit)} · Set {temp(reading.setCenti, unit)}
         </Text>
@@ -119,7 +125,7 @@ export function CorrectReadingForm({ reading, unit, timeZone, clock, now = () =>
           <TextField control={control} name="set" label={`Set temperature (${u})`} suffix={u} inputMode="decimal" keyboardType="decimal-pad" serverError={f('set')} />
           <TextField control={control} name="air" label={`Air temperature (${u})`} suffix={u} inputMode="decimal" keyboardType="decimal-pad" serverError={f('air')} />
           <TextField control={control} name="heartRate" label="Heart rate (/min)" suffix="/min" inputMode="numeric" keyboardType="number-pad" serverError={f('heartRate')} />
-          <TextField control={control} name="time" label="Time taken" hint={`HH:MM, ${timeZone} time`} inputMode="numeric" serverError={f('takenAt')} />
+          <TakenAtField control={control} timeZone={timeZone} now={now} label="Time taken" alsoDay={originalDay} serverError={f('takenAt')} />
         </>
       ) : (
         <StatusBadge tone="warning" icon="alert" label="The reading will be removed from the chart; its history stays." />

@@ -3,8 +3,8 @@ import { controlModeSchema, correctionReasonSchema, heatSignSchema, remoteSiteSc
 import { isThermalInputError } from '@/shared/thermal/errors';
 import { checkPlausibility, HARD_LIMITS, type PlausibilityField } from '@/shared/thermal/limits';
 import { toCentiCelsius, type TempUnit } from '@/shared/thermal/units';
-import { LATE_ENTRY_MINUTES } from '@/shared/vocabulary';
-import { instantOfLocalTime, isLate, parseNumber, TEMPS, type ReadingFormValues } from './reading-form-values';
+import { FUTURE_TIME_MESSAGE, isFutureTime, isLateEntry, LATE_ENTRY_MINUTES, oneDecimalMessage } from '@/shared/chart-time';
+import { parseNumber, takenAtOf, TEMPS, type ReadingFormValues } from './reading-form-values';
 
 /**
  * The reading and correction forms' checks: the same rules as the server's, with messages for
@@ -24,6 +24,7 @@ export const readingFormSchema = z.object({
   heatSigns: z.array(heatSignSchema),
   note: z.string().max(1000, 'Keep the note under 1,000 characters.'),
   time: z.string(),
+  day: z.string(),
   lateReason: z.string().max(300),
 }) satisfies z.ZodType<ReadingFormValues>;
 
@@ -31,6 +32,11 @@ export const readingFormSchema = z.object({
 export function readingFormResolverSchema(unit: TempUnit, timeZone: string, now: () => Date) {
   return readingFormSchema.superRefine((v, ctx) => {
     for (const [field, label] of TEMPS) {
+      // One decimal place, as thermometers show it, judged on what she typed in her unit (the server's rule too).
+      if (/^\d{1,3}[.,]\d{2,}$/.test(v[field].trim())) {
+        ctx.addIssue({ code: 'custom', path: [field], message: oneDecimalMessage(label, unit) });
+        continue;
+      }
       const n = parseNumber(v[field]);
       if (n === 'invalid') {
         ctx.addIssue({ code: 'custom', path: [field], message: `${label} must be a number, like ${unit === 'C' ? '36.8' : '98.2'}.` });
@@ -61,10 +67,14 @@ export function readingFormResolverSchema(unit: TempUnit, timeZone: string, now:
     if (!blank(v.remote) && !v.remoteSite) {
       ctx.addIssue({ code: 'custom', path: ['remoteSite'], message: 'Choose where the remote-site temperature was taken.' });
     }
-    if (!blank(v.time)) {
-      const at = instantOfLocalTime(v.time, now(), timeZone);
-      if (!at) ctx.addIssue({ code: 'custom', path: ['time'], message: 'Enter the time as HH:MM, like 14:30.' });
-      else if (isLate(v, now(), timeZone) && blank(v.lateReason)) {
+    // The day is named, never guessed; a time ahead of the clock is refused as the server refuses it.
+    const at = now();
+    const taken = takenAtOf(v, at, timeZone);
+    if (taken.kind === 'bad-time') ctx.addIssue({ code: 'custom', path: ['time'], message: 'Enter the time as HH:MM, like 14:30.' });
+    else if (taken.kind === 'no-time') ctx.addIssue({ code: 'custom', path: ['time'], message: 'Enter the time it was taken on that day.' });
+    else if (taken.kind === 'at') {
+      if (isFutureTime(taken.at.getTime(), at.getTime())) ctx.addIssue({ code: 'custom', path: ['time'], message: FUTURE_TIME_MESSAGE });
+      else if (isLateEntry(taken.at.getTime(), at.getTime()) && blank(v.lateReason)) {
         ctx.addIssue({ code: 'custom', path: ['lateReason'], message: `This time is more than ${LATE_ENTRY_MINUTES} minutes ago: say why it is charted late.` });
       }
     }

@@ -1,8 +1,10 @@
 import { TZDate } from '@date-fns/tz';
 import type { CreateReadingInput } from '@/shared/schemas/bedside';
+import { isFutureTime, isLateEntry } from '@/shared/chart-time';
 import { unusualReason } from '@/shared/plausibility';
 import { toCentiCelsius, type TempUnit } from '@/shared/thermal/units';
-import { LATE_ENTRY_MINUTES, type ControlMode, type HeatSign, type RemoteSite } from '@/shared/vocabulary';
+import type { ControlMode, HeatSign, RemoteSite } from '@/shared/vocabulary';
+import { localDayKey } from '@/components/ui/format-time';
 
 /**
  * The reading form's values and the arithmetic on them. No zod here: the form's checks live in
@@ -21,8 +23,13 @@ export interface ReadingFormValues {
   heartRate: string;
   heatSigns: HeatSign[];
   note: string;
-  /** Local time "HH:MM" in the unit's zone; empty means now. */
+  /** Local time "HH:MM" in the unit's zone, on `day`; empty means now. */
   time: string;
+  /**
+   * The day the time is on, named by the nurse, never guessed: "" for today (whatever today is
+   * when she saves), or a calendar day in the unit's zone, "2026-11-15".
+   */
+  day: string;
   lateReason: string;
 }
 
@@ -52,20 +59,52 @@ export function centiOf(text: string, unit: TempUnit): number | null {
   }
 }
 
-/** "HH:MM" today in the unit's zone (yesterday if that is still ahead of now). */
-export function instantOfLocalTime(hhmm: string, now: Date, timeZone: string): Date | null {
-  const m = /^([01]?\d|2[0-3])[:.]?([0-5]\d)$/.exec(hhmm.trim());
-  if (!m) return null;
-  const local = new TZDate(now.getTime(), timeZone);
-  let at = new TZDate(local.getFullYear(), local.getMonth(), local.getDate(), Number(m[1]), Number(m[2]), 0, timeZone).getTime();
-  if (at > now.getTime() + 2 * 60_000) at -= 86_400_000;
-  return new Date(at);
+const CLOCK = /^([01]?\d|2[0-3])[:.]?([0-5]\d)$/;
+const DAY = /^(\d{4})-(\d{2})-(\d{2})$/;
+
+/** "21:18", "2118" or "21.18" as hours and minutes; null if it is not a time of day. */
+export function parseClock(hhmm: string): { hour: number; minute: number } | null {
+  const m = CLOCK.exec(hhmm.trim());
+  return m ? { hour: Number(m[1]), minute: Number(m[2]) } : null;
 }
 
-export function isLate(values: Pick<ReadingFormValues, 'time'>, now: Date, timeZone: string): boolean {
-  if (!values.time.trim()) return false;
-  const at = instantOfLocalTime(values.time, now, timeZone);
-  return at !== null && now.getTime() - at.getTime() > LATE_ENTRY_MINUTES * 60_000;
+/** The calendar day the form means: its own choice, or today in the unit's zone. */
+export function dayOf(values: Pick<ReadingFormValues, 'day'>, now: Date, timeZone: string): string {
+  return values.day?.trim() || localDayKey(now, timeZone);
+}
+
+/**
+ * "HH:MM" on a named calendar day ("2026-11-15"), in the unit's zone. Nothing is guessed: a time
+ * later than now stays later than now (and is refused), whatever the hour.
+ */
+export function instantOfDayTime(day: string, hhmm: string, timeZone: string): Date | null {
+  const clock = parseClock(hhmm);
+  const d = DAY.exec(day);
+  if (!clock || !d) return null;
+  return new Date(new TZDate(Number(d[1]), Number(d[2]) - 1, Number(d[3]), clock.hour, clock.minute, 0, timeZone).getTime());
+}
+
+/** When the reading was taken, as the form says it: now when no time is entered. */
+export type TakenAt = { kind: 'now' } | { kind: 'at'; at: Date } | { kind: 'no-time' } | { kind: 'bad-time' };
+
+export function takenAtOf(values: Pick<ReadingFormValues, 'time' | 'day'>, now: Date, timeZone: string): TakenAt {
+  const time = values.time?.trim() ?? '';
+  // No time: now, unless she named another day (then the time is missing, not now).
+  if (!time) return dayOf(values, now, timeZone) === localDayKey(now, timeZone) ? { kind: 'now' } : { kind: 'no-time' };
+  const at = instantOfDayTime(dayOf(values, now, timeZone), time, timeZone);
+  return at ? { kind: 'at', at } : { kind: 'bad-time' };
+}
+
+/** Later than now: refused by the form as by the server (shared/chart-time.ts, one rule). */
+export function isFuture(values: Pick<ReadingFormValues, 'time' | 'day'>, now: Date, timeZone: string): boolean {
+  const t = takenAtOf(values, now, timeZone);
+  return t.kind === 'at' && isFutureTime(t.at.getTime(), now.getTime());
+}
+
+/** Charted late (more than LATE_ENTRY_MINUTES ago): a reason is asked for. */
+export function isLate(values: Pick<ReadingFormValues, 'time' | 'day'>, now: Date, timeZone: string): boolean {
+  const t = takenAtOf(values, now, timeZone);
+  return t.kind === 'at' && isLateEntry(t.at.getTime(), now.getTime());
 }
 
 /** Values outside the usual range, with the reason in the nurse's unit. */
@@ -92,7 +131,8 @@ export function toCreateReading(v: ReadingFormValues, opts: { id: string; unit: 
     const n = parseNumber(s);
     return typeof n === 'number' ? n : null;
   };
-  const takenAt = v.time.trim() ? (instantOfLocalTime(v.time, opts.now, opts.timeZone) ?? opts.now) : opts.now;
+  const when = takenAtOf(v, opts.now, opts.timeZone);
+  const takenAt = when.kind === 'at' ? when.at : opts.now;
   const late = isLate(v, opts.now, opts.timeZone);
   return {
     id: opts.id,

@@ -20,6 +20,7 @@ import { CONTROL_MODE_LABELS, CONTROL_MODE_OPTIONS, REMOTE_SITE_OPTIONS, SITE_LA
 import { lazyZodResolver } from '@/components/forms/lazy-resolver';
 import { FormRootError } from '@/components/forms/form-root-error';
 import { centiOf, implausibleReasons, isLate, toCreateReading, type ReadingFormValues } from './reading-form-values';
+import { TakenAtField } from './taken-at-field';
 
 export interface ReadingFormProps {
   unit: TempUnit;
@@ -65,6 +66,7 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
       heatSigns: [],
       note: '',
       time: '',
+      day: '',
       lateReason: '',
       ...initialValues,
     },
@@ -245,7 +247,7 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
           )}
         </Watch>
       </View>
-      <TextField control={control} name="time" label="Time taken (leave empty for now)" placeholder="Now" hint={`HH:MM, ${timeZone} time`} inputMode="numeric" serverError={serverFields.takenAt} />
+      <TakenAtField control={control} timeZone={timeZone} now={now} label="Time taken (leave empty for now)" placeholder="Now" serverError={serverFields.takenAt} />
       <WatchAll control={control}>
         {(values) => (isLate(values, now(), timeZone) ? <TextField control={control} name="lateReason" label="Why is this charted late?" serverError={serverFields.lateReason} /> : null)}
       </WatchAll>

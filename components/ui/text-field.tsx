@@ -1,6 +1,6 @@
-import { forwardRef } from 'react';
+import { forwardRef, useCallback } from 'react';
 import { useController, type Control, type FieldValues, type Path } from 'react-hook-form';
-import { StyleSheet, TextInput, View, type TextInputProps } from 'react-native';
+import { Platform, StyleSheet, TextInput, View, type TextInputProps } from 'react-native';
 import { TOUCH_TARGET } from '../theme/theme';
 import { useTheme } from '../theme/theme-provider';
 import { Text } from './text';
@@ -24,6 +24,18 @@ function TextFieldInner<T extends FieldValues>(
   const { field, fieldState } = useController({ control, name });
   const error = fieldState.error?.message ?? serverError;
   const id = `field-${String(name).replace(/\W/g, '-')}`;
+  // One input, two refs: the caller's (Enter moves to the next field) and the form's, so a Save with
+  // errors focuses the first field at fault (react-hook-form's shouldFocusError) and, on the web,
+  // brings it to the middle of the screen, clear of a sticky footer.
+  const { ref: formRef } = field;
+  const setRef = useCallback(
+    (node: TextInput | null) => {
+      if (typeof ref === 'function') ref(node);
+      else if (ref) ref.current = node;
+      formRef(node ? { focus: () => focusAndReveal(node) } : null);
+    },
+    [ref, formRef],
+  );
   return (
     <View style={styles.wrap}>
       <Text variant="label" nativeID={`${id}-label`}>
@@ -36,7 +48,7 @@ function TextFieldInner<T extends FieldValues>(
       ) : null}
       <View style={styles.row}>
         <TextInput
-          ref={ref}
+          ref={setRef}
           value={field.value == null ? '' : String(field.value)}
           onChangeText={field.onChange}
           onBlur={field.onBlur}
@@ -69,6 +81,12 @@ function TextFieldInner<T extends FieldValues>(
       ) : null}
     </View>
   );
+}
+
+/** Focus an input and, on the web, scroll it to the middle of its scrolling container. */
+export function focusAndReveal(node: TextInput): void {
+  node.focus();
+  if (Platform.OS === 'web') (node as unknown as { scrollIntoView?: (o: object) => void }).scrollIntoView?.({ block: 'center' });
 }
 
 export const TextField = forwardRef(TextFieldInner) as <T extends FieldValues>(
