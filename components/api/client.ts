@@ -18,6 +18,14 @@ export class ApiFailure extends Error {
   }
 }
 
+/** Retry-After is whole seconds or an HTTP date (RFC 9110 §10.2.3); anything else says nothing. */
+function secondsToWait(retryAfter: string | null): number | null {
+  const text = retryAfter?.trim() ?? '';
+  if (/^\d+$/.test(text)) return Number(text);
+  const at = Date.parse(text);
+  return Number.isNaN(at) ? null : Math.max(0, Math.ceil((at - Date.now()) / 1000));
+}
+
 export function problemFromStatus(status: number, body: Partial<ApiErrorBody> | null, retryAfter: string | null): ApiProblem {
   const message = body?.error?.message ?? `The server answered ${status}.`;
   const fields = body?.error?.fields ?? {};
@@ -25,7 +33,7 @@ export function problemFromStatus(status: number, body: Partial<ApiErrorBody> | 
   if (status === 403) return { kind: 'forbidden', message };
   if (status === 404) return { kind: 'not-found', message };
   if (status === 409) return { kind: 'conflict', message, fields };
-  if (status === 429) return { kind: 'too-many-requests', message, retryAfterSeconds: retryAfter ? Number(retryAfter) : null };
+  if (status === 429) return { kind: 'too-many-requests', message, retryAfterSeconds: secondsToWait(retryAfter) };
   if (status >= 400 && status < 500) return { kind: 'invalid', message, fields };
   return { kind: 'server-error', message };
 }

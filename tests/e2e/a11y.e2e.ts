@@ -31,6 +31,15 @@ interface Violation {
 const AXE = path.join('node_modules', 'axe-core', 'axe.min.js');
 const TAGS = ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa'];
 const SAMPLE_INFANT = 'inf-ashgrove';
+/**
+ * Counted by hand: the 18 routes under app/ (all but `/`, which only redirects), the not-found
+ * page, Settings for the charge nurse, the educator and the administrator, the board for a nurse
+ * and the unit handover for a charge nurse. A new screen raises the count the sweep finds; a
+ * sweep that finds fewer (a broken walk of app/, a route it could not open) fails.
+ */
+const SCREENS_AT_LEAST = 24;
+const SIZES = 2;
+const THEMES = 2;
 
 /** Every route file under app/, as a URL pattern ("/infants/[id]/record"). */
 function routesFromAppFolder(): string[] {
@@ -269,6 +278,11 @@ describe('accessibility (axe, WCAG 2.2 A and AA)', () => {
     if (plan.skipped.length) console.log(`a11y: not checked (no sample parameters): ${plan.skipped.join(', ')}`);
     if (lines.length) console.log(lines.join('\n'));
     fs.writeFileSync(path.join(process.env.E2E_ARTIFACTS ?? path.join('tests', 'e2e', 'artifacts'), 'a11y-report.json'), JSON.stringify({ checked: [...checked], violations }, null, 2));
+    // No violations means nothing if nothing was looked at: every screen, at both sizes, in both themes.
+    assert.deepEqual(plan.skipped, [], 'every route under app/ is opened with sample parameters');
+    assert.ok(screens.size >= SCREENS_AT_LEAST, `${screens.size} screens checked, expected at least ${SCREENS_AT_LEAST}`);
+    assert.equal(checked.size, screens.size * SIZES * THEMES, 'each screen checked at both sizes in both themes');
+    assert.equal(screens.size, plan.cases.length, 'every planned screen was checked');
     assert.equal(violations.length, 0, `${violations.length} accessibility violations; see the list above`);
   });
 });
