@@ -26,6 +26,8 @@ import { TrendChart } from './trend-chart';
 import { useNow } from './use-now';
 import { FLOWSHEET_FIRST_HOURS, type FlowsheetHours } from '@/components/api/paths';
 import { openRecordForm } from './open-record-form';
+import { CurrentPlacementCard } from './placement-view';
+import { PLACEMENT_GRID_ROWS, readingExtras } from './placement-rows';
 
 type Hours = FlowsheetHours;
 
@@ -76,6 +78,7 @@ function FlowsheetBody({ sheet, hours, setHours, canChart }: { sheet: Flowsheet;
         <CheckClockBadges checks={sheet.checks} next={sheet.nextCheck} now={now} />
         {openFlags.length === 0 ? <StatusBadge tone="ok" icon="check" label="No open flags" /> : null}
       </View>
+      <CurrentPlacementCard infantId={sheet.infant.id} placement={sheet.infant.placement} timeZone={sheet.infant.timeZone} clock={user.clock} canChart={canChart} />
       <PendingReadingCards infantId={sheet.infant.id} timeZone={sheet.infant.timeZone} />
       <View style={[styles.columns, wide && styles.columnsWide]}>
         {openFlags.map((f) => (
@@ -155,6 +158,7 @@ function ReadingCard({ reading: r, sheet, canChart }: { reading: FlowsheetReadin
           r.airCenti !== null ? `air ${temp(r.airCenti, user.tempUnit)}` : null,
           r.heaterOutputPct !== null ? `output ${r.heaterOutputPct} %` : null,
           r.heartRate !== null ? `HR ${r.heartRate}/min` : null,
+          ...readingExtras(r),
           r.recordedBy.name,
         ]
           .filter(Boolean)
@@ -216,6 +220,7 @@ function ReadingGrid({ sheet, canChart }: { sheet: Flowsheet; canChart: boolean 
     ['Mode', (r) => (r.controlMode ? CONTROL_MODE_LABELS[r.controlMode] : '—')],
     ['Output', (r) => (r.heaterOutputPct === null ? '—' : `${r.heaterOutputPct} %`)],
     ['Heart rate', (r) => (r.heartRate === null ? '—' : String(r.heartRate))],
+    ...PLACEMENT_GRID_ROWS,
     ['By', (r) => r.recordedBy.name.split(' ')[0] ?? ''],
   ];
   return (

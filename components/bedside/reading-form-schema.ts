@@ -5,6 +5,7 @@ import { checkPlausibility, HARD_LIMITS, type PlausibilityField } from '@/shared
 import { toCentiCelsius, type TempUnit } from '@/shared/thermal/units';
 import { FUTURE_TIME_MESSAGE, isFutureTime, isLateEntry, LATE_ENTRY_MINUTES, oneDecimalMessage } from '@/shared/chart-time';
 import { parseNumber, takenAtOf, TEMPS, type ReadingFormValues } from './reading-form-values';
+import { placementFormShape, refinePlacementForm } from './placement-form-schema';
 
 /**
  * The reading and correction forms' checks: the same rules as the server's, with messages for
@@ -26,11 +27,13 @@ export const readingFormSchema = z.object({
   time: z.string(),
   day: z.string(),
   lateReason: z.string().max(300),
+  ...placementFormShape,
 }) satisfies z.ZodType<ReadingFormValues>;
 
 /** The new-reading form's schema. */
 export function readingFormResolverSchema(unit: TempUnit, timeZone: string, now: () => Date) {
   return readingFormSchema.superRefine((v, ctx) => {
+    refinePlacementForm(v, ctx);
     for (const [field, label] of TEMPS) {
       // One decimal place, as thermometers show it, judged on what she typed in her unit (the server's rule too).
       if (/^\d{1,3}[.,]\d{2,}$/.test(v[field].trim())) {

@@ -5,14 +5,15 @@ import { unusualReason } from '@/shared/plausibility';
 import { toCentiCelsius, type TempUnit } from '@/shared/thermal/units';
 import type { ControlMode, HeatSign, RemoteSite } from '@/shared/vocabulary';
 import { localDayKey } from '@/components/ui/format-time';
+import { placementBody, type PlacementFormValues } from './placement-values';
 
 /**
  * The reading form's values and the arithmetic on them. No zod here: the form's checks live in
  * reading-form-schema.ts, which the web build loads only when the form first validates.
  */
 
-/** What the keypad gives: strings. Converted to the API's numbers on submit. */
-export interface ReadingFormValues {
+/** What the keypad gives: strings. Converted to the API's numbers on submit. The probe's place, weight and humidity: placement-values.ts. */
+export interface ReadingFormValues extends PlacementFormValues {
   probe: string;
   remote: string;
   remoteSite: RemoteSite | null;
@@ -150,5 +151,6 @@ export function toCreateReading(v: ReadingFormValues, opts: { id: string; unit: 
     note: v.note.trim() || null,
     lateReason: late ? v.lateReason.trim() : null,
     confirmedImplausible: opts.confirmed,
+    ...placementBody(v),
   };
 }

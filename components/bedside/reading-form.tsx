@@ -21,12 +21,14 @@ import { lazyZodResolver } from '@/components/forms/lazy-resolver';
 import { FormRootError } from '@/components/forms/form-root-error';
 import { centiOf, implausibleReasons, isLate, toCreateReading, type ReadingFormValues } from './reading-form-values';
 import { TakenAtField } from './taken-at-field';
+import { ReadingPlacementPrompt, ReadingPlacementSettings, WeightHumidityFields } from './placement-fields';
+import { placementDefaults, placementShort, type PlacementSettings } from './placement-values';
 
 export interface ReadingFormProps {
   unit: TempUnit;
   timeZone: string;
   gapLimitCenti: number;
-  defaults: { controlMode: ReadingFormValues['controlMode']; set: string; remoteSite: ReadingFormValues['remoteSite'] };
+  defaults: { controlMode: ReadingFormValues['controlMode']; set: string; remoteSite: ReadingFormValues['remoteSite']; placement?: PlacementSettings | null };
   now?: () => Date;
   makeId?: () => string;
   busy?: boolean;
@@ -68,6 +70,7 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
       time: '',
       day: '',
       lateReason: '',
+      ...placementDefaults(defaults.placement),
       ...initialValues,
     },
   });
@@ -204,6 +207,7 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
       />
 
       <WatchAll control={control}>{(values) => <Preview values={values} unit={unit} gapLimitCenti={gapLimitCenti} />}</WatchAll>
+      <ReadingPlacementPrompt control={control} />
 
       <Card role="group" aria-label="Settings">
         <Text variant="title" role="heading" aria-level={2}>
@@ -214,6 +218,7 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
         </Text>
         <Segmented label="Control mode" value={controlMode} options={CONTROL_MODE_OPTIONS} onChange={(mode) => setValue('controlMode', mode)} />
         {airServo ? null : setField(`Set temperature (${u})`, false)}
+        <ReadingPlacementSettings control={control} setValue={setValue} />
       </Card>
 
       <Text variant="title" role="heading" aria-level={2}>
@@ -247,6 +252,7 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
           )}
         </Watch>
       </View>
+      <WeightHumidityFields control={control} serverFields={serverFields} />
       <TakenAtField control={control} timeZone={timeZone} now={now} label="Time taken (leave empty for now)" placeholder="Now" serverError={serverFields.takenAt} />
       <WatchAll control={control}>
         {(values) => (isLate(values, now(), timeZone) ? <TextField control={control} name="lateReason" label="Why is this charted late?" serverError={serverFields.lateReason} /> : null)}
@@ -285,6 +291,7 @@ function carriedLine(defaults: ReadingFormProps['defaults'], u: string): string 
     defaults.controlMode ? CONTROL_MODE_LABELS[defaults.controlMode] : null,
     defaults.set ? `set ${defaults.set} ${u}` : null,
     defaults.remoteSite ? `remote site ${SITE_LABELS[defaults.remoteSite].toLowerCase()}` : null,
+    placementShort(defaults.placement),
   ].filter(Boolean);
   return parts.length ? `From the last reading: ${parts.join(', ')}. Change any that changed.` : 'No earlier reading: choose the settings.';
 }

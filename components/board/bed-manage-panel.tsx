@@ -1,6 +1,6 @@
 import { Link } from 'expo-router';
 import { useState } from 'react';
-import { Controller, useForm } from 'react-hook-form';
+import { Controller, useForm, useFormState, useWatch, type Control, type UseFormSetValue } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { problemOf } from '@/components/api/client';
 import { lazyZodResolver, loadSchemas } from '@/components/forms/lazy-resolver';
@@ -11,14 +11,28 @@ import { Card } from '@/components/ui/card';
 import { Segmented } from '@/components/ui/segmented';
 import { Text } from '@/components/ui/text';
 import { TextField } from '@/components/ui/text-field';
-import type { AdmitForm, AssignNurseInput } from '@/shared/schemas/unit';
-import { CONTROL_MODE_LABELS, CONTROL_MODES, HEAT_SOURCE_LABELS, HEAT_SOURCES, INFANT_SEX_LABELS, INFANT_SEXES } from '@/shared/vocabulary';
+import type { AdmitForm, AssignNurseInput, DischargeInfantInput } from '@/shared/schemas/unit';
+import {
+  CONTROL_MODE_LABELS,
+  CONTROL_MODES,
+  DISCHARGE_DESTINATION_ALLOWED,
+  DISCHARGE_REASON_LABELS,
+  DISCHARGE_REASONS,
+  HEAT_SOURCE_LABELS,
+  HEAT_SOURCES,
+  INFANT_SEX_LABELS,
+  INFANT_SEXES,
+} from '@/shared/vocabulary';
+import { placementPrompt } from '@/shared/thermal/placement';
+import { AxillaProbeNote, PlacementChoices, PlacementPromptNote } from '@/components/bedside/placement-fields';
+import { flagLook } from './flag-look';
 import type { BoardBed, BoardResponse } from '@/shared/types/board';
 import type { BedWarming } from '@/shared/schemas/warming';
 import { admitDefaultsFromWarming, WarmingForm } from '@/components/unit-shift/warming';
 
 const admitResolver = lazyZodResolver<AdmitForm>((m) => m.admitFormSchema);
 const assignResolver = lazyZodResolver<AssignNurseInput>((m) => m.assignNurseSchema);
+const dischargeResolver = lazyZodResolver<DischargeInfantInput>((m) => m.dischargeInfantSchema);
 
 export interface BedManagePanelProps {
   board: BoardResponse;
@@ -63,7 +77,7 @@ function AdmitForm({ unitId, bed, tempUnit, onDone, warming }: { unitId: string;
   const admit = useAdmitInfantMutation(unitId);
   const today = new Date();
   const pad = (n: number) => String(n).padStart(2, '0');
-  const { control, handleSubmit } = useForm<AdmitForm>({
+  const { control, handleSubmit, setValue } = useForm<AdmitForm>({
     resolver: admitResolver,
     defaultValues: {
       displayName: '',
@@ -77,6 +91,9 @@ function AdmitForm({ unitId, bed, tempUnit, onDone, warming }: { unitId: string;
       setTemperature: '',
       hospitalNumber: '',
       sex: 'unknown',
+      probeSite: null,
+      probeCovered: null,
+      position: null,
       // A bed warmed for this admission: its heat source, mode and set temperature.
       ...admitDefaultsFromWarming(warming, tempUnit),
     },
@@ -127,6 +144,7 @@ function AdmitForm({ unitId, bed, tempUnit, onDone, warming }: { unitId: string;
         render={({ field }) => <Segmented label="Control mode" value={field.value} onChange={field.onChange} options={CONTROL_MODES.map((v) => ({ value: v, label: CONTROL_MODE_LABELS[v] }))} />}
       />
       <TextField control={control} name="setTemperature" label="Set temperature" suffix={`°${tempUnit}`} keyboardType="decimal-pad" serverError={fields.setTemperature} />
+      <AdmitPlacement control={control} setValue={setValue} />
       {problem ? (
         <Text tone="danger" role="alert">
           {problem.message}
@@ -138,6 +156,25 @@ function AdmitForm({ unitId, bed, tempUnit, onDone, warming }: { unitId: string;
   );
 }
 
+/** The probe's place on admission: charted with the admission's settings and carried forward from there. */
+function AdmitPlacement({ control, setValue }: { control: Control<AdmitForm>; setValue: UseFormSetValue<AdmitForm> }) {
+  const [probeSite, probeCovered, position] = useWatch({ control, name: ['probeSite', 'probeCovered', 'position'] });
+  return (
+    <>
+      <PlacementChoices
+        value={{ probeSite: probeSite ?? null, probeCovered: probeCovered ?? null, position: position ?? null }}
+        onChange={(next) => {
+          setValue('probeSite', next.probeSite);
+          setValue('probeCovered', next.probeCovered);
+          setValue('position', next.position);
+        }}
+      />
+      <PlacementPromptNote code={placementPrompt({ probeSite: probeSite ?? null, position: position ?? null })} />
+      <AxillaProbeNote probeSite={probeSite} />
+    </>
+  );
+}
+
 function OccupiedBed({ board, bed, onDone }: { board: BoardResponse; bed: BoardBed; onDone: () => void }) {
   const infant = bed.infant!;
   const assign = useAssignNurseMutation(board.unit.id);
@@ -146,13 +183,13 @@ function OccupiedBed({ board, bed, onDone }: { board: BoardResponse; bed: BoardB
   const discharge = useDischargeInfantMutation();
   const [target, setTarget] = useState<string | null>(null);
   const [heatSource, setHeatSource] = useState(infant.heatSource);
-  const [confirming, setConfirming] = useState(false);
+  const [discharging, setDischarging] = useState(false);
   const { control, handleSubmit } = useForm<AssignNurseInput>({
     resolver: assignResolver,
     defaultValues: { infantId: infant.id, nurseId: infant.assignedNurse?.id ?? '', shift: 'current' },
   });
   const emptyBeds = board.beds.filter((b) => b.infant === null);
-  const failure = [assign.error, move.error, update.error, discharge.error].find(Boolean);
+  const failure = [assign.error, move.error, update.error].find(Boolean);
 
   return (
     <View style={styles.form}>
@@ -206,12 +243,9 @@ function OccupiedBed({ board, bed, onDone }: { board: BoardResponse; bed: BoardB
         <Link href={`/handover/${infant.id}`} asChild>
           <Button label="Handover" icon="print" variant="secondary" />
         </Link>
-        {confirming ? (
-          <Button label={`Confirm discharge of ${infant.displayName}`} variant="danger" busy={discharge.isPending} onPress={() => discharge.mutate({ infantId: infant.id }, { onSuccess: onDone })} />
-        ) : (
-          <Button label="Discharge…" variant="quiet" onPress={() => setConfirming(true)} />
-        )}
+        {discharging ? null : <Button label="Discharge…" variant="quiet" onPress={() => setDischarging(true)} />}
       </View>
+      {discharging ? <DischargeForm infant={infant} discharge={discharge} onCancel={() => setDischarging(false)} onDone={onDone} /> : null}
       {failure ? (
         <Text tone="danger" role="alert">
           {problemOf(failure).message}
@@ -230,3 +264,85 @@ const styles = StyleSheet.create({
   section: { gap: 8 },
   actions: { flexDirection: 'row', gap: 8, flexWrap: 'wrap' },
 });
+
+/**
+ * Discharge: why the infant is leaving and, for a transfer, where to (a ward may be named). The
+ * infant's open flags are listed first: the discharge closes them, with the discharge as the
+ * reason.
+ */
+function DischargeForm({
+  infant,
+  discharge,
+  onCancel,
+  onDone,
+}: {
+  infant: NonNullable<BoardBed['infant']>;
+  discharge: ReturnType<typeof useDischargeInfantMutation>;
+  onCancel: () => void;
+  onDone: () => void;
+}) {
+  const { control, handleSubmit, setValue } = useForm<DischargeInfantInput>({
+    resolver: dischargeResolver,
+    defaultValues: { reason: undefined, destination: '', note: '' },
+  });
+  const reason = useWatch({ control, name: 'reason' });
+  const { errors } = useFormState({ control, name: 'reason' });
+  const problem = discharge.error ? problemOf(discharge.error) : null;
+  const fields = problem && 'fields' in problem ? (problem.fields ?? {}) : {};
+  const withDestination = reason !== undefined && DISCHARGE_DESTINATION_ALLOWED.includes(reason);
+  const submit = handleSubmit((input) =>
+    discharge.mutate(
+      { infantId: infant.id, reason: input.reason, ...(withDestination && input.destination?.trim() ? { destination: input.destination.trim() } : {}), ...(input.note?.trim() ? { note: input.note.trim() } : {}) },
+      { onSuccess: onDone },
+    ),
+  );
+  return (
+    <View style={styles.section} role="group" aria-label={`Discharge ${infant.displayName}`}>
+      <Text variant="title" aria-level={3}>
+        Discharge {infant.displayName}
+      </Text>
+      {infant.openFlags.length ? (
+        <View role="list" aria-label="Open flags the discharge closes" style={styles.section}>
+          <Text variant="label">These open flags close with the discharge as the reason:</Text>
+          {infant.openFlags.map((f) => (
+            <Text key={f.id ?? f.key} role="listitem">
+              • {flagLook(f).label}
+            </Text>
+          ))}
+        </View>
+      ) : (
+        <Text tone="muted">No open flags.</Text>
+      )}
+      <Segmented
+        label="Leaving for"
+        value={reason ?? null}
+        options={DISCHARGE_REASONS.map((v) => ({ value: v, label: DISCHARGE_REASON_LABELS[v] }))}
+        onChange={(v) => setValue('reason', v, { shouldValidate: errors.reason !== undefined })}
+      />
+      {errors.reason?.message || fields.reason ? (
+        <Text variant="caption" tone="danger" role="alert">
+          {errors.reason?.message ?? fields.reason}
+        </Text>
+      ) : null}
+      {withDestination ? (
+        <TextField
+          control={control}
+          name="destination"
+          label={reason === 'transfer' ? 'Transferred to (unit and hospital)' : 'Which ward (optional)'}
+          serverError={fields.destination}
+        />
+      ) : null}
+      <TextField control={control} name="note" label="Note (optional)" multiline serverError={fields.note} />
+      <FormRootError control={control} />
+      <View style={styles.actions}>
+        <Button label={`Confirm discharge of ${infant.displayName}`} variant="danger" busy={discharge.isPending} onPress={() => void submit()} />
+        <Button label="Cancel" variant="quiet" onPress={onCancel} />
+      </View>
+      {problem ? (
+        <Text tone="danger" role="alert">
+          {problem.message}
+        </Text>
+      ) : null}
+    </View>
+  );
+}

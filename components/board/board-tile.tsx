@@ -13,6 +13,7 @@ import type { BedWarming } from '@/shared/schemas/warming';
 import type { BoardBed } from '@/shared/types/board';
 import { ageOf, clockTime, countdown } from './board-format';
 import { escalationLine, flagLook } from './flag-look';
+import { placementShort } from '@/components/bedside/placement-values';
 
 /** Which check the countdown is for, in words, when it is not the routine remote-site check. */
 export function clockCaption(infant: NonNullable<BoardBed['infant']>, clock: ClockSetting): string | null {
@@ -174,6 +175,16 @@ export function BoardTile({ bed, nowMs, tempUnit, timeZone, clock, dueSoonMinute
         Probe {probe ? `${formatTemperature(probe.centi, tempUnit)} (${ageOf(probe.takenAt, nowMs)})` : 'none charted'} · remote site
         {remote?.site ? ` (${remote.site})` : ''} {remote ? `${formatTemperature(remote.centi, tempUnit)} (${ageOf(remote.takenAt, nowMs)})` : 'none charted'}
       </Text>
+      {/* The stored placement and its prompt (never judged here); nothing while none is charted. */}
+      {infant.placement?.prompt ? (
+        <Text variant="label" tone="danger" style={lineStyle} numberOfLines={height ? 1 : undefined} testID="bed-placement-prompt">
+          Move the probe: it lies under the infant ({placementShort(infant.placement)})
+        </Text>
+      ) : infant.placement ? (
+        <Text variant="label" tone="muted" style={lineStyle} numberOfLines={height ? 1 : undefined}>
+          Probe {placementShort(infant.placement)}
+        </Text>
+      ) : null}
       <Text variant="label" tone="muted" style={lineStyle}>
         {infant.gestationWeeks}+{infant.gestationDays} wk · {infant.weightGrams} g · {HEAT_SOURCE_LABELS[infant.heatSource]} · {infant.controlMode ? CONTROL_MODE_LABELS[infant.controlMode] : 'mode not charted'}
         {infant.setCenti !== null ? ` · set ${formatTemperature(infant.setCenti, tempUnit)}` : ''}

@@ -10,7 +10,7 @@ export { zodResolver } from '@hookform/resolvers/zod';
 export { createUserSchema } from '@/shared/schemas/admin';
 export { changePasswordSchema, linkPasswordSchema, requestResetSchema, signInSchema } from '@/shared/schemas/auth';
 export { teachingNoteSchema } from '@/shared/schemas/review';
-export { admitFormSchema, admitFormToInput, assignNurseSchema } from '@/shared/schemas/unit';
+export { admitFormSchema, admitFormToInput, assignNurseSchema, dischargeInfantSchema } from '@/shared/schemas/unit';
 export { unitSettingsFormSchema } from '../admin-users/unit-settings-schema';
 export { correctReadingFormSchema, readingFormResolverSchema } from '../bedside/reading-form-schema';
 export { startSessionFormSchema } from '../bedside/skin-to-skin-schema';

@@ -8,6 +8,7 @@ import { CONTROL_MODE_LABELS, HEAT_SOURCE_LABELS } from '@/shared/vocabulary';
 import { formatTemperature, type TempUnit } from '@/shared/thermal/units';
 import type { HandoverInfant, HandoverReading } from '@/shared/types/board';
 import { escalationLine, flagLook } from '../board/flag-look';
+import { placementWords } from '../bedside/placement-values';
 
 const TABLE_BREAKPOINT = 720;
 
@@ -40,6 +41,12 @@ export function HandoverView({ handover, tempUnit, timeZone, clock }: { handover
           {settings.controlMode ? CONTROL_MODE_LABELS[settings.controlMode] : 'Mode not charted'} · set {t(settings.setCenti, tempUnit)}
           {settings.heaterOutputPct !== null ? ` · heater ${settings.heaterOutputPct} %` : ''} · probe {t(settings.probeCenti, tempUnit)} · remote site {t(settings.remoteCenti, tempUnit)}
         </Text>
+        <Text>{placementWords(settings.placement) ?? 'Probe placement not charted'}</Text>
+        {settings.placement?.prompt ? (
+          <Text tone="danger" role="alert">
+            {settings.placement.prompt.text}
+          </Text>
+        ) : null}
       </View>
 
       <View style={styles.section}>

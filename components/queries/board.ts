@@ -1,5 +1,5 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { AdmitInfantInput, AssignNurseInput, UpdateInfantInput } from '@/shared/schemas/unit';
+import type { AdmitInfantInput, AssignNurseInput, DischargeInfantInput, UpdateInfantInput } from '@/shared/schemas/unit';
 import type { BoardResponse, HandoverResponse } from '@/shared/types/board';
 import { api } from '../api/client';
 import { STALE } from '../api/query-client';
@@ -74,7 +74,8 @@ export function useUpdateInfantMutation() {
 export function useDischargeInfantMutation() {
   const invalidate = useInvalidateUnit();
   return useMutation({
-    mutationFn: ({ infantId, note }: { infantId: string; note?: string }) => api(`/infants/${enc(infantId)}/discharge`, { method: 'POST', body: note ? { note } : {} }),
+    mutationFn: ({ infantId, ...input }: DischargeInfantInput & { infantId: string }) =>
+      api<{ closedFlags: number; closed: Array<{ id: string; kind: string }>; discharge: { at: string; reason: string; destination: string | null } }>(`/infants/${enc(infantId)}/discharge`, { method: 'POST', body: input }),
     onSuccess: invalidate,
   });
 }

@@ -1,6 +1,7 @@
 import { useMutation, useQuery, useQueryClient, type QueryClient } from '@tanstack/react-query';
 import type { CorrectReadingInput, CreateActionInput, StartSessionInput } from '@/shared/schemas/bedside';
-import type { CreateReadingResult, Flowsheet, FlagAction, InfantDetail, InfantSummary, ReadingVersion, SessionRecord } from '@/shared/types/bedside';
+import type { CreateReadingResult, CurrentPlacement, Flowsheet, FlagAction, InfantDetail, InfantSummary, ReadingVersion, SessionRecord } from '@/shared/types/bedside';
+import type { PlacementChangeInput } from '@/shared/schemas/placement';
 import { api, ApiFailure } from '@/components/api/client';
 import { flowsheetPath, MY_INFANTS_PATH, unitInfantsPath } from '@/components/api/paths';
 import { fromEarlyAnswer, STALE } from '@/components/api/query-client';
@@ -170,6 +171,15 @@ export function useEndSkinToSkinMutation(infantId: string) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (sessionId: string) => api<{ session: SessionRecord }>(`/skin-to-skin/${enc(sessionId)}/end`, { method: 'POST', body: {} }),
+    onSuccess: () => invalidateInfant(queryClient, infantId),
+  });
+}
+
+/** Chart a change of the probe's placement on its own (the probe moved, the infant turned). */
+export function usePlacementChangeMutation(infantId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (body: PlacementChangeInput) => api<{ created: boolean; placement: CurrentPlacement | null }>(`/infants/${enc(infantId)}/placement`, { method: 'POST', body }),
     onSuccess: () => invalidateInfant(queryClient, infantId),
   });
 }

@@ -8,6 +8,7 @@ import { SEVERITY_RANK } from '@/shared/thermal/severity';
 import { formatTemperature, type TempUnit } from '@/shared/thermal/units';
 import type { HandoverInfant } from '@/shared/types/board';
 import type { HandoverPlan } from '@/shared/schemas/shift-work';
+import { placementShort } from '@/components/bedside/placement-values';
 
 /** The next check in words: "overdue by 55 min", never a clock-like countdown. */
 export function nextCheckWords(h: HandoverInfant, nowMs: number, timeZone: string, clock: ClockSetting): string {
@@ -50,6 +51,7 @@ export function UnitSummary({ handovers, plans, tempUnit, timeZone, clock, nowMs
             </View>
             <View role="cell" style={styles.wideCell}>
               {open.length === 0 ? <Text>No open flags</Text> : open.map((f) => <Text key={f.id}>{flagLook(f).label}</Text>)}
+              {h.settings.placement?.prompt ? <Text tone="danger">Move the probe: it lies under the infant</Text> : null}
             </View>
             <Text role="cell" style={styles.cell}>
               {nextCheckWords(h, nowMs, timeZone, clock)}
@@ -62,6 +64,7 @@ export function UnitSummary({ handovers, plans, tempUnit, timeZone, clock, nowMs
                 const site = h.readings.find((r) => r.remoteSite)?.remoteSite;
                 return site ? ` (${site})` : '';
               })()}
+              {h.settings.placement ? `\nProbe ${placementShort(h.settings.placement) ?? 'placement not charted'}` : ''}
             </Text>
           </View>
         );

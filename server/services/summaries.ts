@@ -21,6 +21,7 @@ import { shiftAt } from '../../shared/shifts';
 import type { CheckClocks, ClockStatus, EscalationSent, FlowsheetFlag, InfantSummary, NextCheck, OpenFlagSummary, RecheckClock } from '../../shared/types/bedside';
 import { dbOf, type ClockRow, type StoredLatest, type StoredOpenFlag } from './flag-lifecycle';
 import { syncFlags } from './flags';
+import { storedPlacements } from './placement';
 import { jsonList, perConnection } from './prepared-queries';
 
 const DAY_MS = 86_400_000;
@@ -288,6 +289,8 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
   const assignmentsBy = groupBy(assigned, (a) => a.infantId);
   const slots = new Map(unitRows.map((u) => [u.id, shiftAt(now, { dayShiftStart: u.dayShiftStart, nightShiftStart: u.nightShiftStart, timeZone: u.timeZone })]));
 
+  // The current placement and its prompt, as stored at write time (services/placement.ts).
+  const placements = storedPlacements(sqlite, unique);
   const byId = new Map<string, InfantSummary>();
   for (const infant of infantRows) {
     const unit = unitById.get(infant.unitId)!;
@@ -322,6 +325,7 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
       openFlags,
       skinToSkin: running ? { id: running.id, startedAt: running.startedAt.toISOString(), referenceCenti: running.referenceCenti, limitCenti: running.limitCenti } : null,
       assignedNurse: nurse ? { id: nurse.nurseId, name: nurse.nurseName } : null,
+      placement: placements.get(infant.id) ?? null,
     });
   }
   return unique.map((id) => byId.get(id)).filter((s): s is InfantSummary => s !== undefined);
