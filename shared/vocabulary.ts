@@ -147,3 +147,14 @@ export const DISCHARGE_REASON_LABELS: Record<DischargeReason, string> = {
 /** The reasons whose destination is written in: required for a transfer, optional for a ward. */
 export const DISCHARGE_DESTINATION_REQUIRED: readonly DischargeReason[] = ['transfer'];
 export const DISCHARGE_DESTINATION_ALLOWED: readonly DischargeReason[] = ['transfer', 'ward'];
+
+/**
+ * How a flag closed (the resolution's `how`), in words that follow "closed": "closed 14:05 by a
+ * recheck". A withdrawn flag says "withdrawn" instead.
+ */
+export const FLAG_CLOSED_HOW_LABELS: Readonly<Record<string, string>> = {
+  recheck: 'by a recheck',
+  'check-recorded': 'when the check was charted',
+  'session-ended': 'when skin-to-skin ended',
+  discharged: 'at discharge',
+};
