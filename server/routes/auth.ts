@@ -1,16 +1,10 @@
-import { eq } from 'drizzle-orm';
-import { users } from '../../db/schema';
-import { writeTx } from '../../db/client';
 import { changePasswordSchema, preferencesSchema, signInSchema, type ChangePasswordInput, type PreferencesInput, type SignInInput } from '../../shared/schemas/auth';
-import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
-import { badRequest, unauthorized } from '../errors';
+import { unauthorized } from '../errors';
 import { allow, secureRouter } from '../middleware/access';
-import { batchedWrite } from '../write-batch';
 import { valid, validate } from '../middleware/validate';
-import { hashPassword, loadSessionUser, revokeAllSessions, revokeSession, signIn, verifyPassword } from '../services/auth';
-import { assertPasswordAllowed } from '../services/passwords';
-import { DEVICE_COOKIE_MAX_AGE_MS, DEVICE_COOKIE_PATH, passwordCheckBudget, recordAttempt } from '../services/sign-in-throttle';
+import { changePassword, loadSessionUser, signIn, signOut, updatePreferences } from '../services/auth';
+import { DEVICE_COOKIE_MAX_AGE_MS, DEVICE_COOKIE_PATH } from '../services/sign-in-throttle';
 
 export function authRouter(ctx: AppContext) {
   const router = secureRouter();
@@ -33,11 +27,7 @@ export function authRouter(ctx: AppContext) {
   });
 
   router.post('/sign-out', allow(ctx, 'signed-in'), (req, res) => {
-    const auth = req.auth!;
-    writeTx(ctx.database.sqlite, () => {
-      revokeSession(ctx, auth.sessionId);
-      appendAudit(ctx.database.sqlite, { at: ctx.clock.now(), actorId: auth.userId, action: 'sign-out', entityType: 'user', entityId: auth.userId, unitId: null });
-    });
+    signOut(ctx, req.auth!);
     res.status(204).end();
   });
 
@@ -48,37 +38,12 @@ export function authRouter(ctx: AppContext) {
   });
 
   router.patch('/me/preferences', allow(ctx, 'signed-in'), validate('body', preferencesSchema), (req, res) => {
-    const changes = valid<PreferencesInput>(req, 'body');
-    const auth = req.auth!;
-    writeTx(ctx.database.sqlite, () => {
-      const before = ctx.database.db.select({ tempUnit: users.tempUnit, clock: users.clock, theme: users.theme }).from(users).where(eq(users.id, auth.userId)).get();
-      ctx.database.db.update(users).set({ ...changes, updatedAt: ctx.clock.now() }).where(eq(users.id, auth.userId)).run();
-      appendAudit(ctx.database.sqlite, { at: ctx.clock.now(), actorId: auth.userId, action: 'preferences-change', entityType: 'user', entityId: auth.userId, unitId: null, before, after: changes });
-    });
-    res.json({ user: loadSessionUser(ctx, auth.userId) });
+    updatePreferences(ctx, req.auth!.userId, valid<PreferencesInput>(req, 'body'));
+    res.json({ user: loadSessionUser(ctx, req.auth!.userId) });
   });
 
   router.post('/me/password', allow(ctx, 'signed-in'), validate('body', changePasswordSchema), async (req, res) => {
-    const { currentPassword, newPassword } = valid<ChangePasswordInput>(req, 'body');
-    const auth = req.auth!;
-    const user = ctx.database.db.select().from(users).where(eq(users.id, auth.userId)).get();
-    if (!user) throw unauthorized();
-    // A stolen session must not become a way to guess the password behind it.
-    passwordCheckBudget(ctx, user.email);
-    const right = user.passwordHash !== null && (await verifyPassword(currentPassword, user.passwordHash));
-    await batchedWrite(ctx.database.sqlite, () => recordAttempt(ctx, 'password-check', user.email, req.ip ?? 'unknown', right));
-    if (!right) throw badRequest('Your current password is not right.', { currentPassword: 'This is not your current password.' });
-    assertPasswordAllowed(newPassword, 'newPassword', [user.email, user.name]);
-    const hash = await hashPassword(newPassword, ctx.config.bcryptCost);
-    writeTx(ctx.database.sqlite, () => {
-      ctx.database.db
-        .update(users)
-        .set({ passwordHash: hash, sessionVersion: user.sessionVersion + 1, updatedAt: ctx.clock.now() })
-        .where(eq(users.id, user.id))
-        .run();
-      revokeAllSessions(ctx, user.id);
-      appendAudit(ctx.database.sqlite, { at: ctx.clock.now(), actorId: user.id, action: 'password-change', entityType: 'user', entityId: user.id, unitId: null });
-    });
+    await changePassword(ctx, req.auth!.userId, valid<ChangePasswordInput>(req, 'body'), req.ip ?? 'unknown');
     res.status(204).end();
   });
 

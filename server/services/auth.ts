@@ -1,16 +1,17 @@
-import { and, eq, gt } from 'drizzle-orm';
+import { and, eq, gt, sql } from 'drizzle-orm';
 import jwt from 'jsonwebtoken';
 import { createSecretKey, randomUUID, type KeyObject } from 'node:crypto';
-import type { Statement } from 'better-sqlite3';
+import type { Db } from '../../db/client';
 import { authSessions, units as unitsTable, userUnits, users } from '../../db/schema';
-import type { SessionUser } from '../../shared/schemas/auth';
+import type { PreferencesInput, SessionUser } from '../../shared/schemas/auth';
 import { appendAudit } from '../audit';
 import { batchedWrite } from '../write-batch';
 import type { AppContext } from '../context';
-import { ApiError, unauthorized } from '../errors';
+import { ApiError, badRequest, unauthorized } from '../errors';
 import type { AuthContext } from '../types';
 import { hashPassword, verifyPassword } from './password-hash';
-import { deviceFromCookies, issueDeviceCookie, recordAttempt, signInBudget } from './sign-in-throttle';
+import { assertPasswordAllowed } from './passwords';
+import { deviceFromCookies, issueDeviceCookie, passwordCheckBudget, recordAttempt, signInBudget } from './sign-in-throttle';
 
 export { hashPassword, verifyPassword } from './password-hash';
 
@@ -109,39 +110,36 @@ function secretKey(secret: string): KeyObject {
   return key;
 }
 
-interface SessionRow {
-  id: string;
-  user_id: string;
-  session_version: number;
-  last_seen_at: number;
-  expires_at: number;
-  revoked_at: number | null;
-  role: AuthContext['role'];
-  name: string;
-  email: string;
-  active: number;
-  user_version: number;
-  unit_ids: string | null;
+function prepareSession(db: Db) {
+  // sql fragment: group_concat has no Drizzle helper; the user's units come in the same query as the session.
+  const unitList = db.select({ ids: sql<string>`group_concat(${userUnits.unitId}, char(31))` }).from(userUnits).where(eq(userUnits.userId, users.id));
+  return db
+    .select({
+      id: authSessions.id,
+      userId: authSessions.userId,
+      sessionVersion: authSessions.sessionVersion,
+      lastSeenAt: authSessions.lastSeenAt,
+      expiresAt: authSessions.expiresAt,
+      revokedAt: authSessions.revokedAt,
+      role: users.role,
+      name: users.name,
+      email: users.email,
+      active: users.active,
+      userVersion: users.sessionVersion,
+      unitIds: sql<string | null>`${unitList}`,
+    })
+    .from(authSessions)
+    .innerJoin(users, eq(users.id, authSessions.userId))
+    .where(eq(authSessions.id, sql.placeholder('id')))
+    .prepare();
 }
 
-const sessionStatements = new WeakMap<object, { load: Statement; touch: Statement }>();
-function statements(ctx: AppContext) {
-  let st = sessionStatements.get(ctx.database.sqlite);
-  if (!st) {
-    st = {
-      // One query for the session, its user and the user's units: this runs on every request.
-      load: ctx.database.sqlite.prepare(
-        `SELECT s.id, s.user_id, s.session_version, s.last_seen_at, s.expires_at, s.revoked_at,
-                u.role, u.name, u.email, u.active, u.session_version AS user_version,
-                (SELECT group_concat(unit_id, char(31)) FROM user_units WHERE user_id = u.id) AS unit_ids
-           FROM auth_sessions s JOIN users u ON u.id = s.user_id
-          WHERE s.id = ?`,
-      ),
-      touch: ctx.database.sqlite.prepare('UPDATE auth_sessions SET last_seen_at = ? WHERE id = ?'),
-    };
-    sessionStatements.set(ctx.database.sqlite, st);
-  }
-  return st;
+// Prepared once per connection: the session, its user and their units are read on every signed-in request (bench: unit board and 72-h flowsheet ≥ 50 % of /api/ping).
+const sessionQueries = new WeakMap<Db, ReturnType<typeof prepareSession>>();
+function sessionQuery(db: Db) {
+  let query = sessionQueries.get(db);
+  if (!query) sessionQueries.set(db, (query = prepareSession(db)));
+  return query;
 }
 
 /**
@@ -180,19 +178,20 @@ export function verifyToken(ctx: AppContext, token: string): AuthContext {
   if (typeof claims.jti !== 'string' || typeof claims.sub !== 'string' || typeof claims.exp !== 'number') {
     throw unauthorized('Your session has ended. Please sign in again.');
   }
-  const now = ctx.clock.now().getTime();
-  const st = statements(ctx);
-  const row = st.load.get(claims.jti) as SessionRow | undefined;
-  if (!row || row.user_id !== claims.sub || row.revoked_at !== null) throw unauthorized('Your session has ended. Please sign in again.');
-  if (now > row.expires_at) throw unauthorized('Your session reached its 12-hour limit. Please sign in again.');
-  if (now - row.last_seen_at > IDLE_LIMIT_MS) throw unauthorized('You were signed out after 30 minutes without activity.');
-  if (row.active !== 1 || row.user_version !== row.session_version || claims.sv !== row.user_version) {
+  const now = ctx.clock.now();
+  const { db } = ctx.database;
+  const row = sessionQuery(db).get({ id: claims.jti });
+  if (!row || row.userId !== claims.sub || row.revokedAt !== null) throw unauthorized('Your session has ended. Please sign in again.');
+  if (now.getTime() > row.expiresAt.getTime()) throw unauthorized('Your session reached its 12-hour limit. Please sign in again.');
+  const idle = now.getTime() - row.lastSeenAt.getTime();
+  if (idle > IDLE_LIMIT_MS) throw unauthorized('You were signed out after 30 minutes without activity.');
+  if (!row.active || row.userVersion !== row.sessionVersion || claims.sv !== row.userVersion) {
     throw unauthorized('Your account changed. Please sign in again.');
   }
   // Keep the idle timer fresh without writing on every request.
-  if (now - row.last_seen_at > 15_000) st.touch.run(now, row.id);
-  const unitIds = row.unit_ids ? row.unit_ids.split('\u001f') : [];
-  return { userId: row.user_id, sessionId: row.id, role: row.role, unitIds, name: row.name, email: row.email };
+  if (idle > 15_000) db.update(authSessions).set({ lastSeenAt: now }).where(eq(authSessions.id, row.id)).run();
+  const unitIds = row.unitIds ? row.unitIds.split('\u001f') : [];
+  return { userId: row.userId, sessionId: row.id, role: row.role, unitIds, name: row.name, email: row.email };
 }
 
 export function revokeSession(ctx: AppContext, sessionId: string): void {
@@ -210,4 +209,54 @@ export function revokeAllSessions(ctx: AppContext, userId: string): void {
     .set({ revokedAt: ctx.clock.now() })
     .where(and(eq(authSessions.userId, userId), gt(authSessions.expiresAt, new Date(0))))
     .run();
+}
+
+/** Sign out: this session ends, and says so in the audit trail. */
+export function signOut(ctx: AppContext, auth: { userId: string; sessionId: string }): void {
+  ctx.database.db.transaction(
+    () => {
+      revokeSession(ctx, auth.sessionId);
+      appendAudit(ctx.database.sqlite, { at: ctx.clock.now(), actorId: auth.userId, action: 'sign-out', entityType: 'user', entityId: auth.userId, unitId: null });
+    },
+    { behavior: 'immediate' },
+  );
+}
+
+/** The signed-in person's own display preferences, audited with the values before. */
+export function updatePreferences(ctx: AppContext, userId: string, changes: PreferencesInput): void {
+  ctx.database.db.transaction(
+    (tx) => {
+      const before = tx.select({ tempUnit: users.tempUnit, clock: users.clock, theme: users.theme }).from(users).where(eq(users.id, userId)).get();
+      tx.update(users).set({ ...changes, updatedAt: ctx.clock.now() }).where(eq(users.id, userId)).run();
+      appendAudit(ctx.database.sqlite, { at: ctx.clock.now(), actorId: userId, action: 'preferences-change', entityType: 'user', entityId: userId, unitId: null, before, after: changes });
+    },
+    { behavior: 'immediate' },
+  );
+}
+
+/**
+ * Change one's own password: the current one is checked against its own budget (a stolen session
+ * must not become a way to guess the password behind it), every session ends.
+ */
+export async function changePassword(ctx: AppContext, userId: string, input: { currentPassword: string; newPassword: string }, address: string): Promise<void> {
+  const { db } = ctx.database;
+  const user = db.select().from(users).where(eq(users.id, userId)).get();
+  if (!user) throw unauthorized();
+  passwordCheckBudget(ctx, user.email);
+  const right = user.passwordHash !== null && (await verifyPassword(input.currentPassword, user.passwordHash));
+  await batchedWrite(ctx.database.sqlite, () => recordAttempt(ctx, 'password-check', user.email, address, right));
+  if (!right) throw badRequest('Your current password is not right.', { currentPassword: 'This is not your current password.' });
+  assertPasswordAllowed(input.newPassword, 'newPassword', [user.email, user.name]);
+  const hash = await hashPassword(input.newPassword, ctx.config.bcryptCost);
+  db.transaction(
+    (tx) => {
+      tx.update(users)
+        .set({ passwordHash: hash, sessionVersion: user.sessionVersion + 1, updatedAt: ctx.clock.now() })
+        .where(eq(users.id, user.id))
+        .run();
+      revokeAllSessions(ctx, user.id);
+      appendAudit(ctx.database.sqlite, { at: ctx.clock.now(), actorId: user.id, action: 'password-change', entityType: 'user', entityId: user.id, unitId: null });
+    },
+    { behavior: 'immediate' },
+  );
 }
