@@ -3,8 +3,9 @@ import { View, type LayoutChangeEvent } from 'react-native';
 import { NORMAL_MAX_CENTI, NORMAL_MIN_CENTI } from '@/shared/thermal/bands';
 import type { TempUnit } from '@/shared/thermal/units';
 import type { Flowsheet } from '@/shared/types/bedside';
+import { formatWhen } from '@/components/ui/format-time';
 import { Text } from '@/components/ui/text';
-import { clockTime, FLAG_LABELS, temp } from './format';
+import { FLAG_LABELS, temp } from './format';
 import { DeferredChart, LazyTrendPlot } from './lazy-chart';
 
 const PLOT_HEIGHT = 240;
@@ -29,11 +30,11 @@ export function TrendChart({ sheet, unit, clock }: { sheet: Flowsheet; unit: Tem
         </DeferredChart>
       </View>
       <Text variant="caption" tone="muted">
-        Lines: probe (solid, round points), remote site (diamonds), set temperature (dashed). Shaded: the normal band {temp(NORMAL_MIN_CENTI, unit)}–{temp(NORMAL_MAX_CENTI, unit)}. Red triangles: gap flags.
+        Lines: probe (solid, round points), remote site (diamonds), set temperature (dashed); a dotted upright line marks midnight. Shaded: the normal band {temp(NORMAL_MIN_CENTI, unit)}–{temp(NORMAL_MAX_CENTI, unit)}. Red triangles: gap flags.
       </Text>
       <Text variant="caption" accessibilityLiveRegion="polite">
         {latest
-          ? `Latest at ${clockTime(latest.takenAt, tz, clock)}: probe ${temp(latest.probeCenti, unit)}, remote site ${temp(latest.remoteCenti, unit)}, set ${temp(latest.setCenti, unit)}. `
+          ? `Latest at ${formatWhen(latest.takenAt, tz, clock, Date.parse(sheet.to))}: probe ${temp(latest.probeCenti, unit)}, remote site ${temp(latest.remoteCenti, unit)}, set ${temp(latest.setCenti, unit)}. `
           : 'No readings in this window. '}
         {openGaps ? `${openGaps} open ${FLAG_LABELS.gap.toLowerCase()}${openGaps > 1 ? 's' : ''}.` : 'No open gap flag.'}
       </Text>

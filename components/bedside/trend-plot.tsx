@@ -2,7 +2,7 @@ import { NORMAL_MAX_CENTI, NORMAL_MIN_CENTI } from '@/shared/thermal/bands';
 import { fromCentiCelsius, type TempUnit } from '@/shared/thermal/units';
 import type { Flowsheet } from '@/shared/types/bedside';
 import { useTheme } from '@/components/theme/theme-provider';
-import { clockTime } from './format';
+import { timeAxis } from './time-axis';
 import { VictoryArea, VictoryAxis, VictoryChart, VictoryLine, VictoryScatter } from './victory';
 
 export interface TrendPlotProps {
@@ -37,9 +37,11 @@ export function TrendPlot({ sheet, unit, clock, width, height }: TrendPlotProps)
   const all = [...probe, ...remote, ...set].map((p) => p.y);
   const lo = Math.min(v(3550), ...all) - 0.2;
   const hi = Math.max(v(3800), ...all) + 0.2;
+  // The unit's days: a dashed line at each midnight, and the day named under the ticks that start one.
+  const axis = timeAxis(from, to, tz, clock);
 
   return (
-    <VictoryChart width={width} height={height} scale={{ x: 'time' }} domain={{ x: [from, to], y: [lo, hi] }} padding={{ top: 12, bottom: 36, left: 48, right: 16 }}>
+    <VictoryChart width={width} height={height} scale={{ x: 'time' }} domain={{ x: [from, to], y: [lo, hi] }} padding={{ top: 12, bottom: axis.crossesMidnight ? 50 : 36, left: 48, right: 16 }}>
       <VictoryArea
         data={[
           { x: from, y: v(NORMAL_MAX_CENTI), y0: v(NORMAL_MIN_CENTI) },
@@ -47,7 +49,17 @@ export function TrendPlot({ sheet, unit, clock, width, height }: TrendPlotProps)
         ]}
         style={{ data: { fill: colors.band, opacity: 0.7 } }}
       />
-      <VictoryAxis tickFormat={(d: Date) => clockTime(d, tz, clock)} tickCount={4} style={{ tickLabels: { fill: colors.textMuted, fontSize: 11 }, axis: { stroke: colors.border } }} />
+      {axis.midnights.map((midnight) => (
+        <VictoryLine
+          key={midnight.getTime()}
+          data={[
+            { x: midnight, y: lo },
+            { x: midnight, y: hi },
+          ]}
+          style={{ data: { stroke: colors.textMuted, strokeDasharray: '2,4', strokeWidth: 1 } }}
+        />
+      ))}
+      <VictoryAxis tickFormat={(d: Date, i: number, ticks: Date[]) => axis.label(new Date(d), i, ticks.map((t) => new Date(t)))} tickCount={4} style={{ tickLabels: { fill: colors.textMuted, fontSize: 11 }, axis: { stroke: colors.border } }} />
       <VictoryAxis dependentAxis tickFormat={(d: number) => d.toFixed(1)} style={{ tickLabels: { fill: colors.textMuted, fontSize: 11 }, axis: { stroke: colors.border }, grid: { stroke: colors.border, opacity: 0.2 } }} />
       {set.length > 1 ? <VictoryLine data={set} style={{ data: { stroke: colors.seriesSet, strokeDasharray: '4,4', strokeWidth: 1.5 } }} /> : null}
       {probe.length > 1 ? <VictoryLine data={probe} style={{ data: { stroke: colors.seriesProbe, strokeWidth: 2 } }} /> : null}
