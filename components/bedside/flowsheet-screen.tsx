@@ -28,6 +28,7 @@ import { FLOWSHEET_FIRST_HOURS, type FlowsheetHours } from '@/components/api/pat
 import { openRecordForm } from './open-record-form';
 import { CurrentPlacementCard } from './placement-view';
 import { PLACEMENT_GRID_ROWS, readingExtras } from './placement-rows';
+import { StayEndCard } from './stay-end-card';
 
 type Hours = FlowsheetHours;
 
@@ -78,7 +79,8 @@ function FlowsheetBody({ sheet, hours, setHours, canChart }: { sheet: Flowsheet;
         <CheckClockBadges checks={sheet.checks} next={sheet.nextCheck} now={now} />
         {openFlags.length === 0 ? <StatusBadge tone="ok" icon="check" label="No open flags" /> : null}
       </View>
-      <CurrentPlacementCard infantId={sheet.infant.id} placement={sheet.infant.placement} timeZone={sheet.infant.timeZone} clock={user.clock} canChart={canChart} />
+      <StayEndCard discharge={sheet.discharge} timeZone={sheet.infant.timeZone} clock={user.clock} />
+      <CurrentPlacementCard infantId={sheet.infant.id} placement={sheet.infant.placement} timeZone={sheet.infant.timeZone} clock={user.clock} canChart={canChart && !sheet.discharge} />
       <PendingReadingCards infantId={sheet.infant.id} timeZone={sheet.infant.timeZone} />
       <View style={[styles.columns, wide && styles.columnsWide]}>
         {openFlags.map((f) => (

@@ -13,9 +13,6 @@ import { checkPlausibility, toCentiCelsius } from '../../shared/thermal';
 import { shiftAt } from '../../shared/shifts';
 import type { CreateReadingResult, InfantDetail } from '../../shared/types/bedside';
 import { appendAudit } from '../audit';
-import { eq } from 'drizzle-orm';
-import { infants as infantRows } from '../../db/schema';
-import { dbOf } from '../services/flag-lifecycle';
 import { auditListRead, auditRead } from '../read-audit';
 import { batchedWrite } from '../write-batch';
 import type { AppContext } from '../context';
@@ -25,6 +22,7 @@ import { valid, validate } from '../middleware/validate';
 import {
   checkTakenAt,
   convertAndCheck,
+  dischargeOf,
   flowsheetBody,
   insertReading,
   loadInfantFor,
@@ -108,7 +106,7 @@ export function infantsRouter(ctx: AppContext) {
     const last = (column: string) =>
       (prepared(sqlite, `SELECT ${column} AS v FROM readings r WHERE infant_id = ? AND ${column} IS NOT NULL AND entered_in_error = 0 AND NOT EXISTS (SELECT 1 FROM readings y WHERE y.replaces_id = r.id) ORDER BY taken_at DESC, recorded_at DESC LIMIT 1`).get(id) as { v: unknown } | undefined)?.v ?? null;
     const placement = storedPlacement(sqlite, id);
-    const left = infant.status === 'discharged' ? dischargeOf(id) : null;
+    const left = infant.status === 'discharged' ? dischargeOf(sqlite, id) : null;
     const detail: InfantDetail = {
       infant: summary!,
       birthAt: new Date(infant.birth_at).toISOString(),
@@ -288,16 +286,6 @@ export function infantsRouter(ctx: AppContext) {
     });
     res.status(201).json({ session: sessionJson(loadSession(sqlite, input.id)!) });
   });
-
-  /** When, why and where to an infant left (from the infant's row). */
-  function dischargeOf(infantId: string): InfantDetail['discharge'] {
-    const row = dbOf(sqlite)
-      .select({ at: infantRows.dischargedAt, reason: infantRows.dischargeReason, destination: infantRows.dischargeDestination })
-      .from(infantRows)
-      .where(eq(infantRows.id, infantId))
-      .get();
-    return row?.at ? { at: row.at.toISOString(), reason: row.reason, destination: row.destination } : null;
-  }
 
   function orderByBed(ids: string[]): string[] {
     if (ids.length === 0) return ids;

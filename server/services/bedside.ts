@@ -13,7 +13,8 @@ import { unusualReason } from '../../shared/plausibility';
 import type { ControlMode, InfantPosition, ProbeSite } from '../../shared/vocabulary';
 import type { Flowsheet, FlowsheetFlag, FlowsheetReading, ReadingVersion, SessionRecord } from '../../shared/types/bedside';
 import { drizzleOf, prepared, writeTx } from '../../db/client';
-import { readings } from '../../db/schema';
+import { eq } from 'drizzle-orm';
+import { infants, readings } from '../../db/schema';
 import { ApiError, badRequest, notFound } from '../errors';
 import { assertUnit } from '../middleware/access';
 import { CompressedJson } from '../compressed-body';
@@ -373,6 +374,7 @@ export function buildFlowsheet(sqlite: Database.Database, infantId: string, unit
     removed: chains.filter((c) => c.enteredInError),
     flags: storedFlowsheetFlags(sqlite, infantId, fromMs, now),
     sessions: sessions.map(sessionJson),
+    discharge: dischargeOf(sqlite, infantId),
     nextCheck: summary!.nextCheck,
     checks: summary!.checks,
     policy: {
@@ -384,6 +386,16 @@ export function buildFlowsheet(sqlite: Database.Database, infantId: string, unit
       timeZone: policy.timeZone,
     },
   };
+}
+
+/** When, why and where to the infant left; null while admitted. */
+export function dischargeOf(sqlite: Database.Database, infantId: string): Flowsheet['discharge'] {
+  const row = drizzleOf(sqlite)
+    .select({ at: infants.dischargedAt, reason: infants.dischargeReason, destination: infants.dischargeDestination })
+    .from(infants)
+    .where(eq(infants.id, infantId))
+    .get();
+  return row?.at ? { at: row.at.toISOString(), reason: row.reason, destination: row.destination } : null;
 }
 
 /**

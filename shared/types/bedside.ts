@@ -238,6 +238,8 @@ export interface Flowsheet {
   nextCheck: NextCheck;
   checks?: CheckClocks;
   policy: FlowsheetPolicy;
+  /** Set once the infant has left: when, why and where to (the end of the stay). */
+  discharge?: { at: string; reason: 'home' | 'transfer' | 'ward' | 'death' | null; destination: string | null } | null;
 }
 
 export interface InfantDetail {

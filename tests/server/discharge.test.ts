@@ -133,6 +133,10 @@ describe('discharge with a reason and a destination', () => {
     const detail = await get('/infants/inf-ashgrove', nurse);
     expect(detail.status).toBe(200);
     expect(detail.body.discharge).toEqual({ at: expect.any(String), reason: 'transfer', destination: 'Riverside Children’s Hospital, NICU' });
+    // The flowsheet, the stay's record, ends with it.
+    const sheet = await get('/infants/inf-ashgrove/flowsheet?hours=24', nurse);
+    expect(sheet.status).toBe(200);
+    expect(sheet.body.discharge).toEqual(detail.body.discharge);
     expect((await post('/infants/inf-ashgrove/readings', { id: randomUUID(), unit: 'C', probe: 36.6 }, nurse)).status).toBe(409);
     expect((await post('/infants/inf-ashgrove/placement', { id: randomUUID(), position: 'side' }, nurse)).status).toBe(409);
     expect((await post('/infants/inf-ashgrove/discharge', { reason: 'home' })).status).toBe(409);
