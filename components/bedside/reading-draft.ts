@@ -58,7 +58,7 @@ function removeKey(key: string): void {
  * Settings carried forward from the last reading: changing only these is not worth a draft.
  * Anything else with a value (a temperature, the heart rate, a note, a time, a sign) is.
  */
-const SETTINGS = new Set(['controlMode', 'set', 'remoteSite', 'probeSite', 'probeCover', 'cover', 'position', 'infantPosition']);
+const SETTINGS = new Set(['controlMode', 'set', 'remoteSite', 'probeSite', 'probeCovered', 'position']);
 
 /** Whether the values hold something the nurse typed or chose beyond the carried settings. */
 export function hasTypedValues(values: Partial<ReadingFormValues> | Record<string, unknown>): boolean {

@@ -6,7 +6,7 @@ import { SessionSheet } from '@/components/auth/session-sheet';
 import { TOKEN_KEY, USER_KEY } from '@/components/auth/session-keys';
 import { pendingReadings } from '@/components/bedside/pending-readings';
 import { RecordReadingScreen } from '@/components/bedside/record-reading-screen';
-import { readingDrafts } from '@/components/bedside/reading-draft';
+import { hasTypedValues, readingDrafts } from '@/components/bedside/reading-draft';
 import { setup } from './setup';
 
 const mockRouter = { replace: jest.fn(), push: jest.fn(), back: jest.fn() };
@@ -232,6 +232,16 @@ describe('the record form keeps a draft', () => {
     await nia.findByText(/^Draft kept from /);
     expect(probe().props.value).toBe('36.1');
     expect(readingDrafts.get(MARTA.id, INFANT)?.values.probe).toBe('36.9');
+  });
+});
+
+describe('what is worth a draft', () => {
+  it('a measurement, a note or a sign is; settings carried from the last reading alone are not', () => {
+    const settings = { controlMode: 'air-servo', set: '33.2', remoteSite: 'axilla', probeSite: 'abdomen', probeCovered: 'yes', position: 'prone' } as const;
+    expect(hasTypedValues({ ...settings, probe: '', remote: ' ', heatSigns: [], note: '' })).toBe(false);
+    expect(hasTypedValues({ ...settings, heartRate: '148' })).toBe(true);
+    expect(hasTypedValues({ ...settings, note: 'Moved to the back' })).toBe(true);
+    expect(hasTypedValues({ ...settings, heatSigns: ['sweating'] })).toBe(true);
   });
 });
 
