@@ -12,8 +12,8 @@ import { FormRootError } from '@/components/forms/form-root-error';
 import type { CorrectReadingInput } from '@/shared/schemas/bedside';
 import { fromCentiCelsius, type TempUnit } from '@/shared/thermal/units';
 import type { CorrectionReason, ReadingVersion } from '@/shared/types/bedside';
-import { formatDayAndTime, localDayKey } from '@/components/ui/format-time';
-import { clockTime, CORRECTION_REASON_LABELS, REMOTE_SITE_OPTIONS, temp } from './format';
+import { formatClock, formatDayAndTime, localDayKey } from '@/components/ui/format-time';
+import { CORRECTION_REASON_LABELS, REMOTE_SITE_OPTIONS, temp } from './format';
 import { dayOf, implausibleReasons, takenAtOf, toCreateReading, type ReadingFormValues } from './reading-form-values';
 import { TakenAtField } from './taken-at-field';
 
@@ -43,7 +43,7 @@ export function CorrectReadingForm({ reading, unit, timeZone, clock, now = () =>
   const resolver = useMemo(() => lazyZodResolver<CorrectReadingFormValues>((m) => m.correctReadingFormSchema(unit, timeZone, now)), [unit, timeZone, now]);
   useEffect(() => resolver.preload(), [resolver]);
   // The reading's own day and time: kept unless she changes them.
-  const originalTime = clockTime(reading.takenAt, timeZone, '24h');
+  const originalTime = formatClock(reading.takenAt, timeZone, '24h');
   const originalDay = localDayKey(reading.takenAt, timeZone);
   const { control, handleSubmit, setValue } = useForm<CorrectReadingFormValues>({
     resolver,

@@ -1,4 +1,4 @@
-import { formatClock, formatInZone } from '@/components/ui/format-time';
+import { formatInZone, formatWhen } from '@/components/ui/format-time';
 import { CONTROL_MODE_LABELS, CONTROL_MODES, FLAG_KIND_LABELS, HEAT_SOURCE_LABELS, REMOTE_SITE_LABELS, REMOTE_SITES } from '@/shared/vocabulary';
 import { formatTemperature, formatTemperatureDifference, type TempUnit } from '@/shared/thermal/units';
 
@@ -19,8 +19,14 @@ export function tempDelta(centi: number, unit: TempUnit): string {
   return keepTogether(formatTemperatureDifference(centi, unit));
 }
 
-/** A time of day in the unit's zone, by the user's 12/24-hour setting. */
-export const clockTime = formatClock;
+/**
+ * A time in the unit's zone, by the user's 12/24-hour setting, dated whenever it is not today:
+ * "14:05", "Yesterday, 23:40", "3 Dec, 09:15" (formatWhen in components/ui/format-time.ts).
+ * A bare time of day (a form's HH:MM) is formatClock.
+ */
+export function clockTime(at: string | Date | number, timeZone: string, clock: '24h' | '12h', now: Date | number = Date.now()): string {
+  return formatWhen(at, timeZone, clock, now);
+}
 
 /** "Wed 2 Dec, 14:05": the weekday helps across a night shift. */
 export function dayTime(iso: string, timeZone: string, clock: '24h' | '12h'): string {

@@ -1,4 +1,4 @@
-import { formatClock, type ClockSetting } from '@/components/ui/format-time';
+import { formatWhen, type ClockSetting } from '@/components/ui/format-time';
 import type { IconName } from '@/components/ui/icon';
 import type { StatusTone } from '@/components/ui/status-badge';
 
@@ -24,7 +24,7 @@ export function ageOf(iso: string, nowMs: number): string {
   return `${Math.floor(minutes / 60)} h ${minutes % 60} min ago`;
 }
 
-/** A time of day in the unit's zone, by the user's 12/24-hour setting. */
-export function clockTime(iso: string, timeZone: string, clock: ClockSetting = '24h'): string {
-  return formatClock(iso, timeZone, clock);
+/** A time in the unit's zone, by the user's 12/24-hour setting, dated whenever it is not today ("Yesterday, 23:40"). */
+export function clockTime(iso: string, timeZone: string, clock: ClockSetting = '24h', now: Date | number = Date.now()): string {
+  return formatWhen(iso, timeZone, clock, now);
 }
