@@ -18,7 +18,7 @@ import { CLINICAL_PROMPT_CAVEAT } from '@/shared/thermal/policy';
 import type { Flowsheet, FlowsheetFlag } from '@/shared/types/bedside';
 import { clockTime, duration, FLAG_LABELS, temp, tempDelta } from './format';
 import { openRecordForm } from './open-record-form';
-import { escalationLine, flagLook } from '@/components/board/flag-look';
+import { escalationLines, flagLook } from '@/components/board/flag-look';
 
 /** What a nurse can record against each kind of flag, in the order she would usually try them. */
 export const FLAG_ACTIONS: Record<FlagKind, ActionKind[]> = {
@@ -59,12 +59,17 @@ export function FlagCard({ flag, sheet, canChart, now }: { flag: FlowsheetFlag; 
   const recheckMs = flag.recheckDueAt ? Date.parse(flag.recheckDueAt) - now.getTime() : null;
   const { tone } = flagTone(flag.kind);
   const look = flagLook(flag);
-  const told = escalationLine(flag.escalation, tz, user.clock);
+  // Each escalation, oldest first: a flag that worsened after it escalated was escalated again.
+  const told = escalationLines(flag.escalation, tz, user.clock);
   const openRecord = () => openRecordForm(router, sheet.infant.id);
   return (
     <Card style={[styles.card, { borderColor: colors[tone === 'together' ? 'together' : tone === 'heat' ? 'heat' : tone === 'warning' ? 'warning' : 'danger'] }]} role="region" aria-label={FLAG_LABELS[flag.kind]}>
       <StatusBadge tone={look.tone} icon={look.icon} label={look.label} large />
-      {told ? <Text variant="bodyStrong">{told}</Text> : null}
+      {told.map((line, i) => (
+        <Text key={i} variant="bodyStrong">
+          {line}
+        </Text>
+      ))}
       {flag.kind === 'fever' ? (
         <Text tone="danger">A newborn with a fever may have an infection: tell the medical team per unit policy; do not only cool the infant.</Text>
       ) : null}

@@ -165,7 +165,8 @@ export function BoardTile({ bed, nowMs, tempUnit, timeZone, clock, dueSoonMinute
           {infant.skinToSkin ? <StatusBadge tone="together" icon="hands" label={`Skin-to-skin since ${clockTime(infant.skinToSkin.startedAt, timeZone, clock)}`} large /> : null}
         </View>
       ) : null}
-      {bed.escalations.filter((e) => e.sentAt && e.acknowledgedAt).map((e) => (
+      {/* An acknowledged escalation a later one of the same flag (it worsened) stands in for is left out. */}
+      {bed.escalations.filter((e, _, all) => e.sentAt && e.acknowledgedAt && !all.some((l) => l.flagId === e.flagId && l.sentAt && l.escalatedAt > e.escalatedAt)).map((e) => (
         <Text key={e.id} variant="label" tone="muted" style={lineStyle} numberOfLines={height ? 2 : undefined}>
           {escalationLine({ id: e.id, sentAt: e.sentAt!, to: e.to, how: 'email', acknowledgedAt: e.acknowledgedAt, acknowledgedBy: e.acknowledgedBy }, timeZone, clock)}
         </Text>

@@ -32,9 +32,20 @@ export function flagLook(flag: { kind: FlagKind; severity?: Severity; detail?: R
 }
 
 /** "Told Marta Lindqvist at 10:05 by e-mail", only for an escalation that went out; null otherwise. */
-export function escalationLine(e: EscalationSent | null | undefined, timeZone: string, clock: '24h' | '12h'): string | null {
+export function escalationLine(e: EscalationSent | null | undefined, timeZone: string, clock: '24h' | '12h', withSeverity = false): string | null {
   if (!e) return null;
   const who = e.to.map((r) => r.name ?? r.email).join(', ') || 'the unit address';
+  const sev = withSeverity && e.severity ? ` (${SEVERITY_WORDS[e.severity]})` : '';
   const seen = e.acknowledgedAt ? `; acknowledged by ${e.acknowledgedBy?.name ?? 'the charge nurse'} at ${clockTime(e.acknowledgedAt, timeZone, clock)}` : '';
-  return `Told ${who} at ${clockTime(e.sentAt, timeZone, clock)} by e-mail${seen}`;
+  return `Told ${who} at ${clockTime(e.sentAt, timeZone, clock)} by e-mail${sev}${seen}`;
+}
+
+/**
+ * Every escalation of a flag, oldest first: one line each when it escalated again after
+ * worsening (each naming its severity), else the one line.
+ */
+export function escalationLines(e: EscalationSent | null | undefined, timeZone: string, clock: '24h' | '12h'): string[] {
+  if (!e) return [];
+  const all = [...(e.earlier ?? []), e];
+  return all.map((x) => escalationLine(x, timeZone, clock, all.length > 1)!);
 }

@@ -159,7 +159,7 @@ export function bedsideRouter(ctx: AppContext) {
       });
       return { created: true, sync: syncFlags(sqlite, original.infant_id, now, auth.userId) };
     });
-    escalateAfterWrite(ctx, now, result.sync.raised);
+    escalateAfterWrite(ctx, now, result.sync);
     res.status(result.created ? 201 : 200).json({
       reading: readingJson(loadReading(sqlite, input.id)!),
       created: result.created,

@@ -226,7 +226,7 @@ export function infantsRouter(ctx: AppContext) {
       raisedFlagIds: result.sync.raised,
       closedFlagIds: result.sync.closed,
     };
-    escalateAfterWrite(ctx, now, result.sync.raised);
+    escalateAfterWrite(ctx, now, result.sync);
     res.status(result.created ? 201 : 200).json(body);
   });
 

@@ -1,5 +1,5 @@
 import { randomUUID } from 'node:crypto';
-import { and, asc, desc, eq, inArray, isNull } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray, isNull, lt, ne } from 'drizzle-orm';
 import { writeTx, type Db } from '../../db/client';
 import { assignments, beds, escalations, flagEvents, flagResolutions, flags, infants, units, userUnits, users } from '../../db/schema';
 import { shiftAt } from '../../shared/shifts';
@@ -7,6 +7,7 @@ import {
   escalationDelayOf,
   severityClassOf,
   severityOf,
+  SEVERITY_RANK,
   SEVERITY_WORDS,
   type FlagKind,
   type Severity,
@@ -17,7 +18,7 @@ import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { conflict, notFound } from '../errors';
 import { appendFlagEvent, dbOf, loadPolicyVersions, readClocks, type StoredOpenFlag } from './flag-lifecycle';
-import { loadUnitRow, policyAt, primeRuleReadings, syncFlags } from './flags';
+import { loadUnitRow, policyAt, primeRuleReadings, syncFlags, type SyncResult } from './flags';
 
 export interface EscalationRun {
   /** Escalations created by this run. */
@@ -39,6 +40,8 @@ interface Pending {
   display_name: string;
   bed_label: string | null;
   time_zone: string;
+  /** The escalation of the same flag before this one, when it has worsened since. */
+  previous: { severity: Severity; escalated_at: number } | null;
 }
 
 const WHAT: Record<SeverityClass, { subject: string; line: string }> = {
@@ -68,7 +71,10 @@ export function syncAdmittedInfants(ctx: AppContext, now: Date): void {
   }
 }
 
-/** The instant an open flag reached its current severity: its raising or its last severity change. */
+/**
+ * The instant an open flag reached its current severity as its lifecycle records it: its raising
+ * or its last severity change (the clocks' own record of the last evaluation comes first).
+ */
 function severitySince(db: Db, flagId: string, fallback: Date): Date {
   const row = db
     .select({ at: flagEvents.at, createdAt: flagEvents.createdAt })
@@ -78,8 +84,17 @@ function severitySince(db: Db, flagId: string, fallback: Date): Date {
     .limit(1)
     .get();
   if (!row) return fallback;
-  // A severity change is stamped when the sync saw it; a raising at the reading's taken time.
+  // Both at the clinical instant: the raising or worsening reading's taken time.
   return row.at;
+}
+
+/**
+ * The severity an escalation was sent at. Rows from before escalations recorded it carry none:
+ * they went out at the severity the flag was raised with (flags that worsened had no lifecycle
+ * events then).
+ */
+function escalatedSeverity(row: { severity: Severity | null; flagSeverity: Severity | null; kind: FlagKind; detail: string }): Severity {
+  return row.severity ?? row.flagSeverity ?? severityOf(row.kind, JSON.parse(row.detail));
 }
 
 /**
@@ -89,9 +104,12 @@ function severitySince(db: Db, flagId: string, fallback: Date): Date {
  * charge nurse(s) assigned on the unit's current shift, else the unit's fallback address, else
  * every charge nurse of the unit. The escalation records whom it reached, when and how.
  *
- * Never twice: the escalation row is unique per flag (INSERT OR IGNORE), and a mail is claimed
- * by setting mailed_at in a write transaction before it is sent, so a second run, in this process
- * or another, finds nothing to send. A failed send releases the claim for the next run.
+ * A flag escalates once per severity: again only when it worsens past the severity it last
+ * escalated at (moderate to severe hypothermia), after the new class's delay counted from the
+ * worsening; a flag that stays as it was is never told twice (common practice). The row is unique
+ * per flag and severity (INSERT OR IGNORE), and a mail is claimed by setting mailed_at in a write
+ * transaction before it is sent, so a second run, in this process or another, finds nothing to
+ * send. A failed send releases the claim for the next run.
  */
 export async function runEscalations(ctx: AppContext, now: Date, opts: { syncFirst?: boolean } = {}): Promise<EscalationRun> {
   const { sqlite } = ctx.database;
@@ -100,13 +118,25 @@ export async function runEscalations(ctx: AppContext, now: Date, opts: { syncFir
 
   const created = writeTx(sqlite, () => {
     const candidates = db
-      .select({ flagId: flags.id, unitId: flags.unitId, kind: flags.kind, raisedAt: flags.raisedAt, infantId: flags.infantId, detail: flags.detail })
+      .select({ flagId: flags.id, unitId: flags.unitId, kind: flags.kind, raisedAt: flags.raisedAt, infantId: flags.infantId, detail: flags.detail, flagSeverity: flags.severity })
       .from(flags)
       .innerJoin(infants, eq(infants.id, flags.infantId))
       .leftJoin(flagResolutions, eq(flagResolutions.flagId, flags.id))
-      .leftJoin(escalations, eq(escalations.flagId, flags.id))
-      .where(and(isNull(flagResolutions.flagId), isNull(escalations.id), eq(infants.status, 'admitted')))
+      .where(and(isNull(flagResolutions.flagId), eq(infants.status, 'admitted')))
       .all();
+    // The severities each open flag has already escalated at.
+    const told = new Map<string, Severity[]>();
+    if (candidates.length > 0) {
+      const sent = db
+        .select({ flagId: escalations.flagId, severity: escalations.severity, flagSeverity: flags.severity, kind: flags.kind, detail: flags.detail })
+        .from(escalations)
+        .innerJoin(flags, eq(flags.id, escalations.flagId))
+        .innerJoin(infants, eq(infants.id, flags.infantId))
+        .leftJoin(flagResolutions, eq(flagResolutions.flagId, flags.id))
+        .where(and(isNull(flagResolutions.flagId), eq(infants.status, 'admitted')))
+        .all();
+      for (const e of sent) told.set(e.flagId, [...(told.get(e.flagId) ?? []), escalatedSeverity(e)]);
+    }
     const policies = new Map<string, UnitPolicy>();
     const clocks = new Map<string, Map<string, StoredOpenFlag>>();
     const ids: string[] = [];
@@ -124,14 +154,18 @@ export async function runEscalations(ctx: AppContext, now: Date, opts: { syncFir
         clocks.set(c.infantId, open);
       }
       const detail = open.get(c.flagId)?.detail ?? JSON.parse(c.detail);
+      const severity = severityOf(c.kind, detail);
+      const before = told.get(c.flagId) ?? [];
+      // Told already at this severity or a worse one: nothing new to say.
+      if (before.some((s) => SEVERITY_RANK[s] >= SEVERITY_RANK[severity])) continue;
       const cls = severityClassOf(c.kind, detail);
       const delay = escalationDelayOf(cls, policy);
       if (delay === null) continue;
-      const waited = now.getTime() - severitySince(db, c.flagId, c.raisedAt).getTime();
+      const seen = open.get(c.flagId)?.severitySince;
+      const waited = now.getTime() - (seen ? new Date(seen) : severitySince(db, c.flagId, c.raisedAt)).getTime();
       // "More than" the delay; a delay of zero escalates at once.
       if (delay === 0 ? waited < 0 : waited <= delay * 60_000) continue;
       const id = randomUUID();
-      const severity = severityOf(c.kind, detail);
       const inserted = db
         .insert(escalations)
         .values({ id, flagId: c.flagId, unitId: c.unitId, escalatedAt: now, severity })
@@ -145,7 +179,7 @@ export async function runEscalations(ctx: AppContext, now: Date, opts: { syncFir
         entityType: 'escalation',
         entityId: id,
         unitId: c.unitId,
-        after: { flagId: c.flagId, kind: c.kind, severity, infantId: c.infantId, raisedAt: c.raisedAt.toISOString() },
+        after: { flagId: c.flagId, kind: c.kind, severity, infantId: c.infantId, raisedAt: c.raisedAt.toISOString(), ...(before.length ? { worsenedFrom: before[before.length - 1] } : {}) },
       });
       ids.push(id);
     }
@@ -179,8 +213,17 @@ export async function runEscalations(ctx: AppContext, now: Date, opts: { syncFir
     .map((p): Pending => {
       const seen = readClocks(db, p.infant_id);
       const live = seen ? (JSON.parse(seen.openFlags) as StoredOpenFlag[]).find((f) => f.flagId === p.flag_id) : undefined;
+      const previous = db
+        .select({ severity: escalations.severity, escalatedAt: escalations.escalatedAt, flagSeverity: flags.severity, kind: flags.kind, detail: flags.detail })
+        .from(escalations)
+        .innerJoin(flags, eq(flags.id, escalations.flagId))
+        .where(and(eq(escalations.flagId, p.flag_id), ne(escalations.id, p.id), lt(escalations.escalatedAt, p.escalated_at)))
+        .orderBy(desc(escalations.escalatedAt))
+        .limit(1)
+        .get();
       return {
         ...p,
+        previous: previous ? { severity: escalatedSeverity(previous), escalated_at: previous.escalatedAt.getTime() } : null,
         severity: p.severity ?? 'urgent',
         detail: live?.detail ?? JSON.parse(p.detail),
         raised_at: p.raised_at.getTime(),
@@ -268,9 +311,12 @@ export function escalationMail(p: Pending, now: Date, publicUrl: string): { subj
   const minutes = Math.max(0, Math.floor((now.getTime() - p.raised_at) / 60_000));
   const what = WHAT[severityClassOf(p.kind, p.detail)];
   return {
-    subject: `Warmfold escalation: bed ${bed}, ${what.subject}`,
+    subject: `Warmfold escalation: bed ${bed}, ${what.subject}${p.previous ? ', worse' : ''}`,
     text: [
       `Bed ${bed}, ${p.display_name}: ${what.line}.`,
+      ...(p.previous
+        ? [`It has worsened since the escalation at ${localTime(p.previous.escalated_at, p.time_zone)} (then: ${SEVERITY_WORDS[p.previous.severity]}).`]
+        : []),
       `Severity: ${SEVERITY_WORDS[p.severity]}. Open since ${localTime(p.raised_at, p.time_zone)} (${p.time_zone}), ${minutes} minutes ago.`,
       '',
       `Please look at the board and acknowledge the escalation there: ${publicUrl}/board`,
@@ -300,13 +346,14 @@ export function acknowledgeEscalation(
   const db = dbOf(sqlite);
   return writeTx(sqlite, () => {
     const row = db
-      .select({ id: escalations.id, unitId: escalations.unitId, acknowledgedAt: escalations.acknowledgedAt, flagId: escalations.flagId, infantId: flags.infantId })
+      .select({ id: escalations.id, unitId: escalations.unitId, acknowledgedAt: escalations.acknowledgedAt, flagId: escalations.flagId, infantId: flags.infantId, severity: escalations.severity })
       .from(escalations)
       .innerJoin(flags, eq(flags.id, escalations.flagId))
       .where(eq(escalations.id, escalationId))
       .get();
     if (!row) throw notFound('That escalation');
     assertUnit(row.unitId);
+    // Only this escalation: an earlier or later one of the same flag keeps its own acknowledgement.
     if (row.acknowledgedAt !== null) throw conflict('This escalation has already been acknowledged.');
     db.update(escalations).set({ acknowledgedAt: now, acknowledgedBy: actor.userId, acknowledgeNote: note }).where(eq(escalations.id, row.id)).run();
     appendAudit(sqlite, {
@@ -319,18 +366,20 @@ export function acknowledgeEscalation(
       before: { acknowledgedAt: null },
       after: { acknowledgedAt: now.toISOString(), note },
     });
-    appendFlagEvent(db, { flagId: row.flagId, infantId: row.infantId, unitId: row.unitId, event: 'acknowledged', at: now, actorId: actor.userId, detail: { escalationId: row.id, note }, now });
+    appendFlagEvent(db, { flagId: row.flagId, infantId: row.infantId, unitId: row.unitId, event: 'acknowledged', at: now, actorId: actor.userId, severity: row.severity, detail: { escalationId: row.id, note }, now });
     return { id: row.id, acknowledgedAt: now.toISOString(), acknowledgedBy: actor.userId, note };
   });
 }
 
 /**
- * Right after a write that raised a flag has committed: escalate what is due at once (a zero
- * delay: the most severe classes by default) without waiting for the next minute's sweep. The
- * escalation row is written before this returns; the mail goes out in the background (a failure
- * is left for the sweep, which sends what is not yet sent).
+ * Right after a write that raised a flag, or made an open one worse, has committed: escalate what
+ * is due at once (a zero delay: the most severe classes by default) without waiting for the next
+ * minute's sweep. The escalation row is written before this returns; the mail goes out in the
+ * background (a failure is left for the sweep, which sends what is not yet sent). Takes the
+ * write's sync result (or the raised flag ids alone).
  */
-export function escalateAfterWrite(ctx: AppContext, now: Date, raisedFlagIds: readonly string[]): void {
-  if (raisedFlagIds.length === 0) return;
+export function escalateAfterWrite(ctx: AppContext, now: Date, changed: readonly string[] | Pick<SyncResult, 'raised' | 'worsened'>): void {
+  const ids = 'raised' in changed ? [...changed.raised, ...changed.worsened] : changed;
+  if (ids.length === 0) return;
   runEscalations(ctx, now, { syncFirst: false }).catch(() => undefined);
 }

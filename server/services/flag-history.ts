@@ -51,10 +51,11 @@ function words(event: string, severity: Severity | null, d: Record<string, unkno
       return 'Rechecked';
     case 'escalated': {
       const to = Array.isArray(d.to) ? (d.to as Array<{ name?: string | null; email?: string }>).map((r) => r.name ?? r.email ?? '').filter(Boolean).join(', ') : '';
-      return `Escalated: told ${to || 'the unit address'} by e-mail`;
+      // Each escalation names its severity: a flag that worsens escalates again.
+      return `Escalated${sev}: told ${to || 'the unit address'} by e-mail`;
     }
     case 'acknowledged':
-      return 'Escalation acknowledged';
+      return `Escalation acknowledged${sev}`;
     case 'closed':
       return CLOSED_HOW[String(d.how)] ?? 'Closed';
     case 'withdrawn':

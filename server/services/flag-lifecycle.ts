@@ -133,6 +133,8 @@ export interface StoredOpenFlag {
   flagId: string;
   key: string;
   severity: Severity;
+  /** When it reached that severity (ISO): its raising or the reading that made it worse. */
+  severitySince?: string;
   detail: unknown;
   recheckDueAt: string | null;
   recheckCountsFrom: string | null;

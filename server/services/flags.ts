@@ -1,7 +1,7 @@
 import { prepared } from '../../db/client';
 import type Database from 'better-sqlite3';
 import { randomUUID } from 'node:crypto';
-import { evaluateInfant, resolvePolicy, severityOf, type EvaluatedFlag, type HeatStressSign, type Severity, type UnitPolicy } from '../../shared/thermal';
+import { evaluateInfant, resolvePolicy, severityOf, SEVERITY_RANK, type EvaluatedFlag, type HeatStressSign, type Severity, type UnitPolicy } from '../../shared/thermal';
 import { appendAudit } from '../audit';
 import {
   appendFlagEvent,
@@ -289,6 +289,8 @@ function loadStateWith(sqlite: Database.Database, infantId: string, readings: Ru
 export interface SyncResult {
   raised: string[];
   closed: string[];
+  /** Open flags this sync found more severe than before (a severity-changed event): they may escalate again. */
+  worsened: string[];
   evaluation: ReturnType<typeof evaluateInfant>;
   /**
    * Where the evaluation started: null when it covered the whole stay. A windowed evaluation's
@@ -430,6 +432,7 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
   const seen = new Set<string>();
   const raised: string[] = [];
   const closed: string[] = [];
+  const worsened: string[] = [];
   const insertFlag = prepared(
     sqlite,
     'INSERT INTO flags (id, infant_id, unit_id, key, kind, raised_at, raised_by_reading_id, detail, severity, policy_version_id, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)',
@@ -481,16 +484,21 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
     }
     if (flag.status === 'closed' && !row.resolved) {
       if (flag.severity !== (lastSeverity.get(row.id) ?? flag.severity)) {
-        event(row.id, { event: 'severity-changed', at: flag.closedAt ?? now, severity: flag.severity, detail: flag.detail });
+        event(row.id, { event: 'severity-changed', at: flag.severitySince, severity: flag.severity, detail: flag.detail });
       }
       close(row.id, flag.closedAt ?? now, flag.closedByReadingId, closingHow(flag), flag.key);
     } else if (flag.status === 'open' && !row.resolved) {
       const before = lastSeverity.get(row.id) ?? row.severity ?? severityOfRow(row);
-      if (before !== flag.severity) event(row.id, { event: 'severity-changed', at: now, severity: flag.severity, detail: flag.detail });
+      if (before !== flag.severity) {
+        // At the reading that made it worse (a late entry may have been taken a while ago).
+        event(row.id, { event: 'severity-changed', at: flag.severitySince, severity: flag.severity, detail: flag.detail });
+        if (SEVERITY_RANK[flag.severity] > SEVERITY_RANK[before]) worsened.push(row.id);
+      }
       openNow.push({
         flagId: row.id,
         key: flag.key,
         severity: flag.severity,
+        severitySince: flag.severitySince.toISOString(),
         detail: flag.detail,
         recheckDueAt: flag.recheckDueAt?.toISOString() ?? null,
         recheckCountsFrom: flag.recheckCountsFrom?.toISOString() ?? null,
@@ -530,7 +538,7 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
     } else close(row.id, now, null, 'withdrawn', row.key, 'reading-corrected');
   }
   writeClocks(db, { infantId, unitId: infant.unit_id, now, policy, policyVersionId: versionId, evaluation, openFlags: openNow, previous, windowed: windowFrom !== null });
-  return { raised, closed, evaluation, windowFrom };
+  return { raised, closed, worsened, evaluation, windowFrom };
 }
 
 /** The latest version of a reading's correction chain (itself when never corrected). */

@@ -151,7 +151,10 @@ const summaryQueries = perConnection((db) => ({
     .prepare(),
 }));
 
-/** Escalations that actually went out, by flag id. */
+/**
+ * Escalations that actually went out, by flag id: the latest, with the ones before it (a flag
+ * escalates again when it worsens) in `earlier`, oldest first.
+ */
 export function sentEscalations(sqlite: Database.Database, flagIds: string[]): Map<string, EscalationSent> {
   const out = new Map<string, EscalationSent>();
   if (flagIds.length === 0) return out;
@@ -164,12 +167,15 @@ export function sentEscalations(sqlite: Database.Database, flagIds: string[]): M
       acknowledgedAt: escalations.acknowledgedAt,
       acknowledgedBy: escalations.acknowledgedBy,
       ackName: users.name,
+      severity: escalations.severity,
     })
     .from(escalations)
     .leftJoin(users, eq(users.id, escalations.acknowledgedBy))
     .where(and(inArray(escalations.flagId, flagIds), isNotNull(escalations.mailedAt)))
+    .orderBy(asc(escalations.escalatedAt), asc(escalations.mailedAt))
     .all();
   for (const r of rows) {
+    const { earlier: prior = [], ...before } = out.get(r.flagId) ?? {};
     out.set(r.flagId, {
       id: r.id,
       sentAt: r.mailedAt!.toISOString(),
@@ -177,6 +183,8 @@ export function sentEscalations(sqlite: Database.Database, flagIds: string[]): M
       how: 'email',
       acknowledgedAt: iso(r.acknowledgedAt),
       acknowledgedBy: r.acknowledgedBy ? { id: r.acknowledgedBy, name: r.ackName ?? '' } : null,
+      ...(r.severity ? { severity: r.severity } : {}),
+      ...('id' in before ? { earlier: [...prior, before] } : {}),
     });
   }
   return out;

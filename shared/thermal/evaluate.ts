@@ -189,6 +189,11 @@ interface FlagBase<K extends FlagKind> {
   readonly recheckCountsFrom: Date | null;
   /** From SEVERITY_TABLE, by kind and (cold stress) worst band. */
   readonly severity: Severity;
+  /**
+   * When it reached its current severity: its raising, or the taken time of the reading that
+   * made it worse (a colder band). An escalation's delay runs from here.
+   */
+  readonly severitySince: Date;
 }
 
 export type EvaluatedFlag = { [K in FlagKind]: FlagBase<K> }[FlagKind];
@@ -387,6 +392,8 @@ interface Draft<K extends FlagKind = FlagKind> {
   detail: FlagDetailByKind[K];
   closedMs: number | null;
   closedByReadingId: string | null;
+  /** When it reached its current severity (raisedMs unless it worsened). */
+  severityMs: number;
 }
 
 const KIND_ORDER: Readonly<Record<FlagKind, number>> = {
@@ -422,6 +429,7 @@ class FlagBook {
       detail,
       closedMs: null,
       closedByReadingId: null,
+      severityMs: raisedMs,
     };
     this.drafts.push(draft as unknown as Draft);
     return draft;
@@ -666,10 +674,12 @@ export function evaluateInfant(
             lowestCenti: remote,
           });
         } else {
+          const was = severityOf('cold-stress', openCold.detail);
           openCold.detail = {
             band: worseColdBand(openCold.detail.band, band),
             lowestCenti: Math.min(openCold.detail.lowestCenti, remote),
           };
+          if (severityOf('cold-stress', openCold.detail) !== was) openCold.severityMs = ms;
         }
       } else if (openCold !== null) {
         close(openCold, ms, reading.id);
@@ -793,6 +803,7 @@ function finishFlag(draft: Draft, actions: Map<string, ActionTimes>, policy: Uni
     recheckCountsFrom:
       open && times !== undefined ? new Date(times.first + policy.recheckSettleMinutes * MINUTE_MS) : null,
     severity: severityOf(draft.kind, draft.detail),
+    severitySince: new Date(draft.severityMs),
   } as EvaluatedFlag;
 }
 

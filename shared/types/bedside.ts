@@ -22,6 +22,10 @@ export interface EscalationSent {
   how: 'email';
   acknowledgedAt: string | null;
   acknowledgedBy: { id: string; name: string } | null;
+  /** The flag's severity when it went out (absent on escalations stored before it was kept). */
+  severity?: Severity;
+  /** The same flag's escalations before this one (it worsened since), oldest first. */
+  earlier?: EscalationSent[];
 }
 
 /** A check clock at the time of the answer, from its stored next-due instant. */

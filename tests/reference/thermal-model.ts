@@ -225,7 +225,11 @@ export interface ModelFlag {
   severityAt: number;
   /** Root id of the reading that raised it (null for an overdue check or a clock-raised manual flag). */
   raisedByRootId: string | null;
-  /** After this instant (strictly) an open flag is escalated; null: never (default delays). */
+  /**
+   * After this instant (strictly) an open flag is escalated at its current severity; null: never
+   * (default delays). A worsening starts the new severity's delay: the flag is told again then
+   * (common practice), and never twice at one severity.
+   */
   escalateAfter: number | null;
   /** Last action + recheck minutes, for an open flag with an action. */
   recheckDueAt: number | null;

@@ -17,7 +17,16 @@ export const UNIT = 'unit-north';
 /** One view's account of an infant: open flags and clocks, as far as the view tells them. */
 export interface ViewState {
   view: string;
-  flags: Array<{ id: string; kind: string; severity?: string; band?: string | null; escalated?: boolean; unearnedEscalated?: boolean }>;
+  flags: Array<{
+    id: string;
+    kind: string;
+    severity?: string;
+    band?: string | null;
+    escalated?: boolean;
+    unearnedEscalated?: boolean;
+    /** The severities its escalations went out at, oldest first (when the view says). */
+    escalationSeverities?: string[];
+  }>;
   next?: { clock: string; dueAt: string } | null;
   remoteDueAt?: string | null;
   manualDueAt?: string | null;
@@ -259,7 +268,16 @@ export class Ward {
 
 function flagOf(f: any): ViewState['flags'][number] {
   const told = f.escalation != null && Array.isArray(f.escalation.to) && f.escalation.to.length > 0;
-  return { id: f.id, kind: f.kind, severity: f.severity, band: f.band ?? f.detail?.band ?? null, escalated: typeof f.escalated === 'boolean' ? f.escalated : undefined, unearnedEscalated: f.escalated === true && !told };
+  const sent: any[] = f.escalation ? [...(f.escalation.earlier ?? []), f.escalation] : [];
+  return {
+    id: f.id,
+    kind: f.kind,
+    severity: f.severity,
+    band: f.band ?? f.detail?.band ?? null,
+    escalated: typeof f.escalated === 'boolean' ? f.escalated : undefined,
+    unearnedEscalated: f.escalated === true && !told,
+    escalationSeverities: sent.length > 0 && sent.every((e) => typeof e.severity === 'string') ? sent.map((e) => e.severity) : undefined,
+  };
 }
 
 function clocksOf(checks: any): Omit<ViewState, 'view' | 'flags'> {
@@ -289,7 +307,8 @@ export function modelView(ward: Ward, infantId: string, evaluate: (h: ModelHisto
   const iso = (t: number | null) => (t == null ? null : new Date(t).toISOString());
   return {
     view: 'reference model',
-    // After a sweep at `now`: escalated once open longer than its delay since its current severity.
+    // After a sweep at `now`: escalated at its current severity once open longer than that
+    // severity's delay since it reached it (a worsening starts a new escalation).
     flags: state.open.map((f) => ({ id: f.key, kind: f.kind, severity: f.severity, band: f.kind === 'cold-stress' ? f.band! : null, escalated: f.escalateAfter != null && ward.now() > f.escalateAfter })),
     next: { clock: state.clocks.nextDueAt === state.clocks.recheckDueAt ? 'recheck' : state.clocks.nextDueAt === state.clocks.manualDueAt ? 'manual' : 'remote', dueAt: iso(state.clocks.nextDueAt)! },
     remoteDueAt: iso(state.clocks.remoteDueAt),
@@ -308,11 +327,22 @@ export function differences(view: ViewState, model: ViewState, escalationsSwept 
   const b = flagSet({ ...model, flags: model.flags.map((f) => ({ ...f, band: noBand ? null : f.band, severity: noSeverity ? undefined : f.severity })) });
   if (JSON.stringify(a) !== JSON.stringify(b)) out.push(`${view.view}: open flags ${JSON.stringify(a)}, model ${JSON.stringify(b)}`);
   for (const f of view.flags) if (f.unearnedEscalated) out.push(`${view.view}: ${f.kind} says escalated, but names nobody who was told`);
+  // A flag escalates once per severity, each time to a worse one (common practice).
+  const RANK: Record<string, number> = { caution: 1, urgent: 2, critical: 3 };
+  for (const f of view.flags) {
+    const s = f.escalationSeverities ?? [];
+    if (s.some((x, i) => i > 0 && RANK[x]! <= RANK[s[i - 1]!]!)) out.push(`${view.view}: ${f.kind} escalated at ${s.join(', ')}: again without worsening`);
+  }
   if (escalationsSwept) {
     for (const f of view.flags) {
       const same = model.flags.filter((m) => m.kind === f.kind);
       if (f.escalated === undefined || same.length !== 1 || view.flags.filter((x) => x.kind === f.kind).length !== 1) continue;
       if (f.escalated !== same[0].escalated) out.push(`${view.view}: ${f.kind} escalated ${f.escalated}, model ${same[0].escalated}`);
+      // The model says escalated at the current severity: the latest escalation is at it.
+      const last = f.escalationSeverities?.[f.escalationSeverities.length - 1];
+      if (same[0].escalated && last !== undefined && f.severity !== undefined && last !== f.severity) {
+        out.push(`${view.view}: ${f.kind} is ${f.severity} but last escalated at ${last}; the model says told at its current severity`);
+      }
     }
   }
   if (view.next !== undefined) {

@@ -50,6 +50,7 @@ describe('gap flag: raised over 0.5 °C, closed by a recheck after an action (co
         key: 'gap:r1',
         kind: 'gap',
         raisedAt: at(0),
+        severitySince: at(0),
         raisedByReadingId: 'r1',
         detail: {
           gapCenti: 60,
@@ -200,6 +201,7 @@ describe('overdue check: due 2 hours after the last remote-site check (common pr
         key: 'overdue:r1',
         kind: 'overdue-check',
         raisedAt: at(120),
+        severitySince: at(120),
         raisedByReadingId: 'r1',
         detail: { dueAt: at(120), lastCheckAt: at(0), intervalMinutes: 120, minutesLate: 1 },
         status: 'open',
@@ -314,6 +316,14 @@ describe('cold stress (WHO 1997 via Miller 2011)', () => {
       detail: { band: 'cold-stress' },
     });
     expect(evaluate({ readings: [check('r1', 0, 3650, 3650)] }, 5).flags).toEqual([]);
+  });
+
+  it('reaches a worse severity at the reading that shows the colder band, not at its raising; a band no worse keeps it', () => {
+    // 36.4 mild (caution) at 0, 35.0 moderate (urgent) at 40, 34.0 still moderate at 70, 31.8 severe (critical) at 100.
+    const readings = [check('r1', 0, 3650, 3640), check('r2', 40, 3520, 3500), check('r3', 70, 3420, 3400)];
+    expect(evaluate({ readings }, 80).openFlags[0]).toMatchObject({ severity: 'urgent', raisedAt: at(0), severitySince: at(40) });
+    expect(evaluate({ readings: [...readings, check('r4', 100, 3200, 3180)] }, 110).openFlags[0]).toMatchObject({ severity: 'critical', severitySince: at(100) });
+    expect(evaluate({ readings: readings.slice(0, 1) }, 10).openFlags[0]).toMatchObject({ severity: 'caution', severitySince: at(0) });
   });
 });
 
