@@ -9,6 +9,7 @@ import { Text } from '@/components/ui/text';
 import { TextField } from '@/components/ui/text-field';
 import { lazyZodResolver } from '@/components/forms/lazy-resolver';
 import { FormRootError } from '@/components/forms/form-root-error';
+import { useFocusServerError } from '@/components/forms/focus-server-error';
 import type { CorrectReadingInput } from '@/shared/schemas/bedside';
 import { fromCentiCelsius, type TempUnit } from '@/shared/thermal/units';
 import type { CorrectionReason, ReadingVersion } from '@/shared/types/bedside';
@@ -21,6 +22,17 @@ export interface CorrectReadingFormValues extends ReadingFormValues {
   reason: CorrectionReason;
   why: string;
 }
+
+/** The server's field names for a correction, in the form's order. */
+const SERVER_FIELD_ORDER = [
+  ['note', 'why'],
+  ['values.probe', 'probe'],
+  ['values.remote', 'remote'],
+  ['values.set', 'set'],
+  ['values.air', 'air'],
+  ['values.heartRate', 'heartRate'],
+  ['values.takenAt', 'time'],
+] as const;
 
 const str = (centi: number | null, unit: TempUnit) => (centi === null ? '' : fromCentiCelsius(centi, unit).toFixed(1));
 
@@ -45,7 +57,7 @@ export function CorrectReadingForm({ reading, unit, timeZone, clock, now = () =>
   // The reading's own day and time: kept unless she changes them.
   const originalTime = formatClock(reading.takenAt, timeZone, '24h');
   const originalDay = localDayKey(reading.takenAt, timeZone);
-  const { control, handleSubmit, setValue } = useForm<CorrectReadingFormValues>({
+  const { control, handleSubmit, setValue, setFocus } = useForm<CorrectReadingFormValues>({
     resolver,
     defaultValues: {
       reason: 'corrected-value',
@@ -66,6 +78,8 @@ export function CorrectReadingForm({ reading, unit, timeZone, clock, now = () =>
     },
   });
   const reason = useWatch({ control, name: 'reason' }) as CorrectionReason;
+  // A refusal names fields: the first takes focus (not a request to confirm unusual values).
+  useFocusServerError(serverFields['values.confirmedImplausible'] === 'confirm' ? undefined : serverFields, setFocus, SERVER_FIELD_ORDER);
   const remoteSite = useWatch({ control, name: 'remoteSite' });
   const [id] = useState(makeId);
   const [confirming, setConfirming] = useState<string[] | null>(null);

@@ -19,6 +19,7 @@ import { TextField } from '@/components/ui/text-field';
 import { CONTROL_MODE_LABELS, CONTROL_MODE_OPTIONS, REMOTE_SITE_OPTIONS, SITE_LABELS, tempDelta } from './format';
 import { lazyZodResolver } from '@/components/forms/lazy-resolver';
 import { FormRootError } from '@/components/forms/form-root-error';
+import { useFocusServerError } from '@/components/forms/focus-server-error';
 import { centiOf, implausibleReasons, isLate, toCreateReading, type ReadingFormValues } from './reading-form-values';
 import { TakenAtField } from './taken-at-field';
 import { ReadingPlacementPrompt, ReadingPlacementSettings, WeightHumidityFields } from './placement-fields';
@@ -54,7 +55,7 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
   const theme = useTheme();
   const resolver = useMemo(() => lazyZodResolver<ReadingFormValues>((m) => m.readingFormResolverSchema(unit, timeZone, now)), [unit, timeZone, now]);
   useEffect(() => resolver.preload(), [resolver]);
-  const { control, handleSubmit, setValue, watch } = useForm<ReadingFormValues>({
+  const { control, handleSubmit, setValue, setFocus, watch } = useForm<ReadingFormValues>({
     resolver,
     defaultValues: {
       probe: '',
@@ -109,6 +110,8 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
     );
 
   const serverConfirm = serverFields.confirmedImplausible === 'confirm';
+  // A refusal by the server focuses its first field, as the form's own checks do.
+  useFocusServerError(serverConfirm ? undefined : serverFields, setFocus, SERVER_FIELD_ORDER);
   /** Enter or Next on a field: on to the next one, kept clear of the footer. */
   const next = (ref: React.RefObject<TextInput | null>) => ({
     returnKeyType: 'next' as const,
@@ -284,6 +287,19 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
     </View>
   );
 }
+
+/** The server's field names, in the form's order (takenAt is the time field). */
+const SERVER_FIELD_ORDER = [
+  ['probe', 'probe'],
+  ['remote', 'remote'],
+  ['air', 'air'],
+  ['set', 'set'],
+  ['heaterOutputPct', 'heaterOutputPct'],
+  ['heartRate', 'heartRate'],
+  ['takenAt', 'time'],
+  ['lateReason', 'lateReason'],
+  ['note', 'note'],
+] as const;
 
 /** What came forward from the last reading, in words. */
 function carriedLine(defaults: ReadingFormProps['defaults'], u: string): string {

@@ -170,6 +170,15 @@ describe('errors you can see', () => {
     expect(onSubmit).not.toHaveBeenCalled();
   });
 
+  it('focuses the field the server refused (its clock found the time in the future)', async () => {
+    const { rerender, onSubmit } = renderForm();
+    const props = { unit: 'C' as const, timeZone: 'Europe/London', gapLimitCenti: 50, defaults: { controlMode: 'skin-servo' as const, set: '36.5', remoteSite: 'axilla' as const }, now: () => EVENING, onSubmit };
+    (TextInput.prototype.focus as unknown as jest.Mock).mockClear();
+    rerender(<ReadingForm {...props} serverFields={{ takenAt: 'The time cannot be in the future.' }} serverMessage="The time is in the future." />);
+    expect(screen.getByText('The time cannot be in the future.')).toBeTruthy();
+    await waitFor(() => expect(lastFocused()).toBe('Time taken (leave empty for now)'));
+  });
+
   it('focuses the time when it is in the future', async () => {
     renderForm();
     type(/^Probe temperature/, '36.8');
