@@ -52,6 +52,9 @@ async function gapStory(page: Page, unit: 'C' | 'F', infant: string, bed: string
   await flag.getByRole('button', { name: 'Checked probe contact' }).click();
   await flag.getByText(/✓ Checked probe contact/).waitFor();
   await flag.getByRole('button', { name: 'Moved the probe to another site' }).click();
+  // Moving the probe asks where to (Iowa handbook: the back or flank when the infant lies prone).
+  await flag.getByRole('radiogroup', { name: 'Moved the probe to' }).getByRole('radio', { name: 'Back or flank' }).click();
+  await flag.getByRole('button', { name: 'Save action' }).click();
   await flag.getByText(/✓ Moved the probe to another site/).waitFor();
   await flag.getByText(/Recheck due in/).waitFor();
   await shot(page, `bedside-${tag}-4-actions`);
