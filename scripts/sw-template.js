@@ -1,7 +1,6 @@
 /* Warmfold's service worker. scripts/service-worker.ts writes it to dist/sw.js after the web
  * export: it fills in the list of the build's files to precache and the folder of the
  * Workbox runtime copied beside it. Plain script (importScripts), no bundler. */
-/* eslint-disable no-undef */
 importScripts('/__WORKBOX_DIR__/workbox-sw.js');
 workbox.setConfig({ modulePathPrefix: '/__WORKBOX_DIR__/', debug: false });
 

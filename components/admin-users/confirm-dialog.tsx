@@ -1,4 +1,4 @@
-import { useEffect, useId, useState } from 'react';
+import { useId, useState } from 'react';
 import { Modal, StyleSheet, View } from 'react-native';
 import { problemOf } from '../api/client';
 import { useTheme } from '../theme/theme-provider';
@@ -28,11 +28,12 @@ export function ConfirmDialog({ change, onClose }: { change: PendingChange | nul
   const [busy, setBusy] = useState(false);
   const [error, setError] = useState<string | null>(null);
   const open = change !== null;
-
-  useEffect(() => {
-    if (!open) return;
-    setError(null);
-  }, [open]);
+  // A dialog that opens again starts without the last one's error (set while rendering, not in an effect).
+  const [wasOpen, setWasOpen] = useState(open);
+  if (open !== wasOpen) {
+    setWasOpen(open);
+    if (open) setError(null);
+  }
 
   const confirm = async () => {
     if (!change) return;

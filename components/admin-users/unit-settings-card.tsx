@@ -1,12 +1,11 @@
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
-import type { AdminUnit } from '@/shared/types/admin';
+import type { AdminBed, AdminUnit } from '@/shared/types/admin';
 import { problemOf } from '../api/client';
 import { lazyZodResolver } from '../forms/lazy-resolver';
 import { FormRootError } from '../forms/form-root-error';
 import { useAddBedMutation, useUnitSettingsMutation, useUpdateBedMutation } from '../queries/admin';
-import type { AdminBed } from '@/shared/types/admin';
 import { TimeZonePicker } from './time-zone-picker';
 import { Button } from '../ui/button';
 import { Card } from '../ui/card';

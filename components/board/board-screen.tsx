@@ -24,7 +24,7 @@ import { useNow } from './use-now';
 
 type StatusFilter = 'all' | 'attention' | 'due-soon' | 'empty';
 
-const STATUS_OPTIONS: Array<{ value: StatusFilter; label: string }> = [
+const STATUS_OPTIONS: { value: StatusFilter; label: string }[] = [
   { value: 'all', label: 'All beds' },
   { value: 'attention', label: 'Needs attention' },
   { value: 'due-soon', label: 'Due soon' },
@@ -84,6 +84,9 @@ function BoardBody({ query }: { query: ReturnType<typeof useBoardQuery> }) {
   const [area, setArea] = useState<{ top: number; width: number } | null>(null);
 
   // Where the grid starts and how wide it is (the web only; a phone lists the beds in one column).
+  // Measured after every render, as anything above the grid may move it; setArea keeps the old
+  // object when nothing moved, so React stops there.
+  // eslint-disable-next-line react-hooks/exhaustive-deps
   useLayoutEffect(() => {
     if (Platform.OS !== 'web' || !wide || !gridRef.current) return;
     const el = gridRef.current as unknown as HTMLElement;

@@ -5,14 +5,17 @@ import { useEffect, useState } from 'react';
  * server's instant when the data was made, so countdowns agree with the server, not the device.
  */
 export function useNow(serverTime: string | undefined, intervalMs = 1000): number {
-  const [skew, setSkew] = useState(0);
   const [now, setNow] = useState(() => Date.now());
   useEffect(() => {
-    if (serverTime) setSkew(Date.parse(serverTime) - Date.now());
-  }, [serverTime]);
-  useEffect(() => {
-    const id = setInterval(() => setNow(Date.now()), intervalMs);
-    return () => clearInterval(id);
-  }, [intervalMs]);
-  return now + skew;
+    // The skew is measured once per answer; the first tick follows at once, the rest every interval.
+    const skew = serverTime ? Date.parse(serverTime) - Date.now() : 0;
+    const tick = () => setNow(Date.now() + skew);
+    const first = setTimeout(tick, 0);
+    const id = setInterval(tick, intervalMs);
+    return () => {
+      clearTimeout(first);
+      clearInterval(id);
+    };
+  }, [serverTime, intervalMs]);
+  return now;
 }

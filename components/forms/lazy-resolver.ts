@@ -40,7 +40,7 @@ export type LazyResolver<TValues extends FieldValues> = Resolver<TValues> & {
  * they arrive each validation waits for them. If loading fails, the form gets a root error
  * (nothing is submitted) and the next attempt loads again.
  */
-export function lazyZodResolver<TValues extends FieldValues>(pick: (schemas: Schemas) => z.ZodType<TValues, any>): LazyResolver<TValues> {
+export function lazyZodResolver<TValues extends FieldValues>(pick: (schemas: Schemas) => z.ZodType<TValues, FieldValues>): LazyResolver<TValues> {
   let ready: Promise<Resolver<TValues>> | null = null;
   const loaded = () => {
     ready ??= loadSchemas().then((schemas) => schemas.zodResolver(pick(schemas)) as unknown as Resolver<TValues>);

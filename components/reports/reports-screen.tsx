@@ -1,4 +1,4 @@
-import { useEffect, useState } from 'react';
+import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { formatMinutes, formatPercent } from '@/shared/reports';
 import { useUser } from '../auth/auth-provider';
@@ -45,11 +45,10 @@ function AdmissionMeasureScreen() {
 function EducatorReports() {
   const user = useUser();
   const units = useReviewQueueQuery({ status: 'all', from: '2999-01-01' }).data?.units ?? [];
-  const [unitId, setUnitId] = useState<string | null>(user.unitIds[0] ?? null);
+  const [chosenUnit, setUnitId] = useState<string | null>(user.unitIds[0] ?? null);
+  // Until one is chosen, the first unit the queue names.
+  const unitId = chosenUnit ?? units[0]?.id ?? null;
   const [range, setRange] = useState({ from: localDay(-7), to: localDay(0) });
-  useEffect(() => {
-    if (!unitId && units[0]) setUnitId(units[0].id);
-  }, [unitId, units]);
   const datesOk = isDate(range.from) && isDate(range.to);
   const valid = datesOk && range.from <= range.to;
   const rangeError = !datesOk ? 'Use dates as YYYY-MM-DD.' : valid ? undefined : 'The end date must not be before the start date.';

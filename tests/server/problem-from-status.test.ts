@@ -8,13 +8,15 @@
  */
 import request from 'supertest';
 import { problemFromStatus } from '@/components/api/client';
+import type { ApiErrorBody } from '@/shared/api';
 import { DEMO, makeEnv, type TestEnv } from './helpers';
 
 // The client reads EXPO_PUBLIC_API_URL, which the Expo Babel preset turns into an import of
 // Expo's ES-module env file; this project runs plain CommonJS, so it gets the same values here.
 jest.mock('expo/virtual/env', () => ({ env: process.env }));
 
-const body = (message: string, fields?: Record<string, string>) => ({ error: { code: 'x', message, ...(fields ? { fields } : {}) } });
+/** An error body; the kind comes from the status alone, so every body here carries the same code. */
+const body = (message: string, fields?: Record<string, string>): ApiErrorBody => ({ error: { code: 'bad-request', message, ...(fields ? { fields } : {}) } });
 
 describe('problemFromStatus, status by status', () => {
   it('names each status class by what the person can do about it', () => {

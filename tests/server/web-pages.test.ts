@@ -6,6 +6,7 @@
  */
 import { createHash } from 'node:crypto';
 import fs from 'node:fs';
+import os from 'node:os';
 import path from 'node:path';
 import request from 'supertest';
 import { makeEnv, type TestEnv } from './helpers';
@@ -19,7 +20,7 @@ let env: TestEnv;
 let webDir: string;
 
 beforeAll(async () => {
-  const dir = fs.mkdtempSync(path.join(require('node:os').tmpdir(), 'warmfold-web-'));
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'warmfold-web-'));
   webDir = path.join(dir, 'web');
   const files: Record<string, string> = {
     'index.html': page('home'),

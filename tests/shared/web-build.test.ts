@@ -7,7 +7,6 @@ import fs from 'node:fs';
 import path from 'node:path';
 import ts from 'typescript';
 
-// eslint-disable-next-line @typescript-eslint/no-require-imports
 const config = require('../../metro.config.js') as {
   resolver: { resolveRequest: (context: unknown, moduleName: string, platform: string | null) => { type: string; filePath?: string } };
 };
@@ -26,7 +25,6 @@ describe('metro.config.js', () => {
   });
 
   it('inlines requires in the web build only, keeping Expo’s other transform options', async () => {
-    // eslint-disable-next-line @typescript-eslint/no-require-imports
     const { transformer } = require('../../metro.config.js') as {
       transformer: { getTransformOptions: (entries: string[], options: { platform: string | null }, deps: () => Promise<string[]>) => Promise<{ transform?: Record<string, unknown> }> };
     };
@@ -76,18 +74,17 @@ describe('metro.config.js', () => {
   });
 
   describe('Expo Router stand-ins', () => {
-    // eslint-disable-next-line @typescript-eslint/no-require-imports
     const { ROUTER_STUBS, ROUTER_BUILD } = require('../../components/web/router-stubs/list.js') as {
       ROUTER_BUILD: string;
-      ROUTER_STUBS: Array<{ file: string; stub: string; from?: string[] }>;
+      ROUTER_STUBS: { file: string; stub: string; from?: string[] }[];
     };
     const routerFiles = (dir: string): string[] =>
       fs.readdirSync(dir, { withFileTypes: true }).flatMap((d) => (d.isDirectory() ? routerFiles(path.join(dir, d.name)) : d.name.endsWith('.js') ? [path.join(dir, d.name)] : []));
     const all = routerFiles(ROUTER_BUILD);
 
     /** Every file under expo-router/build that requires `target`, with the names it reads from it. */
-    function importersOf(target: string): Array<{ file: string; names: string[] }> {
-      const out: Array<{ file: string; names: string[] }> = [];
+    function importersOf(target: string): { file: string; names: string[] }[] {
+      const out: { file: string; names: string[] }[] = [];
       for (const file of all) {
         const text = fs.readFileSync(file, 'utf8');
         for (const m of text.matchAll(/(?:const|var|let) (\w+) = (?:__importStar\()?require\("(\.[^"]+)"\)/g)) {
@@ -121,7 +118,7 @@ describe('metro.config.js', () => {
     });
 
     it('the route-listing page is switched off, so its stand-in is never shown', () => {
-      const app = JSON.parse(fs.readFileSync(path.join(root, 'app.json'), 'utf8')) as { expo: { plugins: Array<string | [string, Record<string, unknown>]> } };
+      const app = JSON.parse(fs.readFileSync(path.join(root, 'app.json'), 'utf8')) as { expo: { plugins: (string | [string, Record<string, unknown>])[] } };
       const router = app.expo.plugins.find((p) => Array.isArray(p) && p[0] === 'expo-router') as [string, Record<string, unknown>];
       expect(router[1].sitemap).toBe(false);
     });

@@ -43,7 +43,7 @@ describe('web fonts', () => {
   });
 
   it('are WOFF2, a fraction of the TrueType they come from', () => {
-    const weights = fromScript<Array<[number, string]>>('m.WEB_FONT_WEIGHTS');
+    const weights = fromScript<[number, string][]>('m.WEB_FONT_WEIGHTS');
     expect(weights.map(([w]) => w)).toEqual([400, 500, 600, 700]);
     for (const [weight, file] of weights) {
       const woff2 = fs.readFileSync(path.join(root, 'assets', 'fonts', `inter-${weight}.woff2`));
@@ -54,7 +54,7 @@ describe('web fonts', () => {
   });
 
   it('hold every character the screens write', () => {
-    const ranges = fromScript<Array<[number, number]>>('m.WEB_FONT_RANGES');
+    const ranges = fromScript<[number, number][]>('m.WEB_FONT_RANGES');
     const covered = (cp: number) => ranges.some(([from, to]) => cp >= from && cp <= to);
     const written = charactersWritten();
     expect(written.size).toBeGreaterThan(80);
@@ -64,7 +64,6 @@ describe('web fonts', () => {
   });
 
   it('the web build treats .woff2 as an asset', () => {
-    // eslint-disable-next-line @typescript-eslint/no-require-imports
     const config = require('../../metro.config.js') as { resolver: { assetExts: string[] } };
     expect(config.resolver.assetExts).toContain('woff2');
   });
