@@ -25,8 +25,8 @@ const B64 = 'ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789+/';
 const B64_INDEX = new Map([...B64].map((ch, i) => [ch, i]));
 
 /** One mappings line as [generatedColumn, sourceIndex | -1] pairs; fields are deltas carried across lines. */
-function decodeLine(line: string, state: { source: number }): Array<[number, number]> {
-  const out: Array<[number, number]> = [];
+function decodeLine(line: string, state: { source: number }): [number, number][] {
+  const out: [number, number][] = [];
   let column = 0;
   for (const segment of line.split(',')) {
     if (!segment) continue;

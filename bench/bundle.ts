@@ -17,7 +17,7 @@ export interface BundleFigures {
   html: Sizes;
   /** The scripts index.html itself names: what every route loads before any split chunk. */
   entry: Sizes & { files: string[] };
-  largestJs: Array<{ file: string } & Sizes>;
+  largestJs: ({ file: string } & Sizes)[];
 }
 
 const zero = (): Sizes => ({ raw: 0, gzip: 0, brotli: 0 });

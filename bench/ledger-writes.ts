@@ -29,7 +29,7 @@ async function main() {
   const nurse = DEMO_ACCOUNTS.find((a) => a.role === 'nurse')!;
   const res = await fetch(`${base}/api/auth/sign-in`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: nurse.email, password: DEMO_PASSWORD }) });
   const { token } = (await res.json()) as { token: string };
-  const infants = (database.sqlite.prepare("SELECT DISTINCT infant_id AS id FROM assignments WHERE nurse_id = ?").all(nurse.id) as Array<{ id: string }>).map((r) => r.id);
+  const infants = (database.sqlite.prepare("SELECT DISTINCT infant_id AS id FROM assignments WHERE nurse_id = ?").all(nurse.id) as { id: string }[]).map((r) => r.id);
 
   // The ledger's CPU cost alone: 5,000 rows in one transaction (one fsync), with and without it.
   const cpu = () => {
@@ -46,7 +46,7 @@ async function main() {
   const t0 = performance.now();
   const report = verifyRecord(database.sqlite);
   const verifyMs = performance.now() - t0;
-  const triggers = database.sqlite.prepare("SELECT name FROM sqlite_temp_master WHERE type = 'trigger' AND name LIKE 'ledger_%'").all() as Array<{ name: string }>;
+  const triggers = database.sqlite.prepare("SELECT name FROM sqlite_temp_master WHERE type = 'trigger' AND name LIKE 'ledger_%'").all() as { name: string }[];
   for (const t of triggers) database.sqlite.exec(`DROP TRIGGER temp.${t.name}`);
   const without = await benchWrites(base, infants, token, { connections: 10, seconds });
   const cpuWithout = cpu();

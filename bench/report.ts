@@ -21,7 +21,7 @@ export interface Spread {
 }
 
 /** Nearest-rank percentile: with 5 runs the median is the 3rd and the p75 the 4th value. */
-export function spread(values: Array<number | null>): Spread {
+export function spread(values: (number | null)[]): Spread {
   const v = values.filter((x): x is number => x !== null && Number.isFinite(x)).sort((a, b) => a - b);
   const rank = (p: number) => (v.length ? v[Math.max(0, Math.ceil(p * v.length) - 1)]! : null);
   return { median: rank(0.5), p75: rank(0.75), values: v };

@@ -71,7 +71,7 @@ export async function seedLargeUnit(file: string, size: SeedSize, now = new Date
       "INSERT INTO users (id, email, name, role, password_hash, temp_unit, active, session_version, created_at, updated_at) VALUES (?, ?, ?, ?, ?, 'C', 1, 1, ?, ?)",
     );
     const member = sqlite.prepare('INSERT INTO user_units (user_id, unit_id) VALUES (?, ?)');
-    const staff: Array<[string, string, string, string]> = [
+    const staff: [string, string, string, string][] = [
       ['u-nurse', NURSE_EMAIL, 'Nia Okafor', 'nurse'],
       ['u-charge', CHARGE_EMAIL, 'Marta Lindqvist', 'charge'],
     ];
@@ -139,7 +139,7 @@ export async function seedLargeUnit(file: string, size: SeedSize, now = new Date
     const action = sqlite.prepare('INSERT INTO actions (id, flag_id, infant_id, unit_id, kind, note, at, recorded_by, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)');
     for (let round = 0; round < 100; round++) {
       for (const id of infantIds) syncFlags(sqlite, id, at, null);
-      const gaps = unanswered.all(UNIT_ID) as Array<{ id: string; infant_id: string; raised_at: number }>;
+      const gaps = unanswered.all(UNIT_ID) as { id: string; infant_id: string; raised_at: number }[];
       if (gaps.length === 0) break;
       for (const g of gaps) {
         action.run(randomUUID(), g.id, g.infant_id, UNIT_ID, 'checked-probe-contact', null, g.raised_at + 5 * 60_000, 'u-nurse', g.raised_at + 5 * 60_000);

@@ -79,7 +79,7 @@ export function checkRestartPoints(
     if (a.windowFrom !== null) windowed += 1;
     const va = view(a, fromMs);
     const vb = view(b, fromMs);
-    for (const k of Object.keys(va) as Array<keyof typeof va>) {
+    for (const k of Object.keys(va) as (keyof typeof va)[]) {
       if (va[k] !== vb[k]) throw new Error(`${label} ${infantId} at ${now.toISOString()}: ${k} differs (window from ${a.windowFrom === null ? 'admission' : new Date(a.windowFrom).toISOString()})\n windowed: ${String(va[k])}\n whole:    ${String(vb[k])}`);
     }
     if (aStored.replace(/"closed_by_reading_id":null/g, '') !== bStored.replace(/"closed_by_reading_id":null/g, '') && aStored !== bStored) {

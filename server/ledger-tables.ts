@@ -17,7 +17,7 @@ export interface ChainedTable {
   /** The column holding the row's unit, copied into the event so unit-scoped audit reads find it. */
   unit: string | null;
   /** Canonical columns per version, oldest first; version n is `versions[n - 1]`. */
-  versions: ReadonlyArray<readonly string[]>;
+  versions: readonly (readonly string[])[];
 }
 
 export const CHAINED: Readonly<Record<string, ChainedTable>> = {

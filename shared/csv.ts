@@ -21,6 +21,6 @@ export function csvCell(value: CsvCell): string {
   return /[",;\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
 }
 
-export function toCsv(header: readonly string[], rows: ReadonlyArray<readonly CsvCell[]>): string {
+export function toCsv(header: readonly string[], rows: readonly (readonly CsvCell[])[]): string {
   return [header, ...rows].map((r) => r.map(csvCell).join(',')).join('\r\n') + '\r\n';
 }

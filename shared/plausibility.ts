@@ -74,9 +74,9 @@ export function unusualReason(field: UsualField, value: number | null | undefine
 export function unusualValues(
   r: { probeCenti?: number | null; remoteCenti?: number | null; airCenti?: number | null; setCenti?: number | null; heartRate?: number | null; controlMode?: ControlMode | null },
   unit: 'C' | 'F' = 'C',
-): Array<{ field: UsualField; reason: string }> {
-  const out: Array<{ field: UsualField; reason: string }> = [];
-  const values: Array<[UsualField, number | null | undefined]> = [['probe', r.probeCenti], ['remote', r.remoteCenti], ['air', r.airCenti], ['set', r.setCenti], ['heartRate', r.heartRate]];
+): { field: UsualField; reason: string }[] {
+  const out: { field: UsualField; reason: string }[] = [];
+  const values: [UsualField, number | null | undefined][] = [['probe', r.probeCenti], ['remote', r.remoteCenti], ['air', r.airCenti], ['set', r.setCenti], ['heartRate', r.heartRate]];
   for (const [field, value] of values) {
     const reason = unusualReason(field, value, { unit, controlMode: r.controlMode });
     if (reason) out.push({ field, reason });

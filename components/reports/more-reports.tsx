@@ -100,8 +100,8 @@ interface MeasureAnswer {
     eligible: number;
     met: number;
     rate: number | null;
-    byMonth: Array<{ month: string; eligible: number; met: number; rate: number | null }>;
-    missed: Array<{ infantId: string; displayName: string; hospitalNumber: string | null; birthAt: string; gestationWeeks: number; gestationDays: number; first: { takenAt: string; centi: number; site: string; minutesAfterBirth: number } | null; reasons: string[] }>;
+    byMonth: { month: string; eligible: number; met: number; rate: number | null }[];
+    missed: { infantId: string; displayName: string; hospitalNumber: string | null; birthAt: string; gestationWeeks: number; gestationDays: number; first: { takenAt: string; centi: number; site: string; minutesAfterBirth: number } | null; reasons: string[] }[];
   };
 }
 

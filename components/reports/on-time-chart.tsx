@@ -10,7 +10,7 @@ const PLOT_HEIGHT = 220;
  * On-time rate (%) as bars; the numbers are in the table below, so the chart is decorative to
  * screen readers. The drawing (victory) loads lazily, in the same chunk as the flowsheet's trend.
  */
-export function OnTimeChart({ title, rows }: { title: string; rows: Array<OnTimeRow & { label: string }> }) {
+export function OnTimeChart({ title, rows }: { title: string; rows: (OnTimeRow & { label: string })[] }) {
   const [width, setWidth] = useState(340);
   const data = rows.map((r) => ({ x: r.label, y: r.rate === null ? 0 : Math.round(r.rate * 1000) / 10 }));
   return (

@@ -2,7 +2,7 @@ import { useTheme } from '@/components/theme/theme-provider';
 import { VictoryAxis, VictoryBar, VictoryChart } from '@/components/bedside/victory';
 
 export interface OnTimePlotProps {
-  data: Array<{ x: string; y: number }>;
+  data: { x: string; y: number }[];
   width: number;
   /** Set by on-time-chart.tsx, which reserves a box of this height before this module has loaded. */
   height: number;

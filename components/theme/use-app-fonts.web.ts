@@ -3,7 +3,7 @@ import { WEB_FONT_FAMILY } from './theme';
 
 // @expo-google-fonts/inter's four weights, cut down to the characters Warmfold writes and
 // compressed as WOFF2 by scripts/web-fonts.mjs: 136 KB in all instead of 1.3 MB of TrueType.
-const FACES: Array<[source: number, weight: number]> = [
+const FACES: [source: number, weight: number][] = [
   [require('@/assets/fonts/inter-400.woff2') as number, 400],
   [require('@/assets/fonts/inter-500.woff2') as number, 500],
   [require('@/assets/fonts/inter-600.woff2') as number, 600],

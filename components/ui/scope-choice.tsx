@@ -2,7 +2,7 @@ import { Segmented } from './segmented';
 
 export type Scope = 'mine' | 'unit';
 
-const OPTIONS: Array<{ value: Scope; label: string }> = [
+const OPTIONS: { value: Scope; label: string }[] = [
   { value: 'mine', label: 'My infants' },
   { value: 'unit', label: 'Whole unit' },
 ];

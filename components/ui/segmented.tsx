@@ -19,7 +19,7 @@ const PREVIOUS_KEYS = new Set(['ArrowLeft', 'ArrowUp']);
  */
 export function Segmented<T extends string>({ label, options, value, onChange }: { label: string; options: SegmentedOption<T>[]; value: T | null; onChange: (value: T) => void }) {
   const theme = useTheme();
-  const refs = useRef<Array<View | null>>([]);
+  const refs = useRef<(View | null)[]>([]);
   const chosen = options.findIndex((o) => o.value === value);
   const tabStop = chosen === -1 ? 0 : chosen;
 

@@ -69,7 +69,7 @@ export function useWritePlanMutation(infantId: string) {
 export function useBulkAssignMutation(unitId: string) {
   const client = useQueryClient();
   return useMutation({
-    mutationFn: (input: BulkAssignInput) => api<{ assignments: Array<{ id: string }> }>(`/units/${enc(unitId)}/assignments/bulk`, { method: 'POST', body: input }),
+    mutationFn: (input: BulkAssignInput) => api<{ assignments: { id: string }[] }>(`/units/${enc(unitId)}/assignments/bulk`, { method: 'POST', body: input }),
     onSuccess: () => Promise.all([client.invalidateQueries({ queryKey: ['board'] }), client.invalidateQueries({ queryKey: ['infants'] }), client.invalidateQueries({ queryKey: ['handover'] })]),
   });
 }

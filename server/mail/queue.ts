@@ -6,7 +6,7 @@ import type { AppContext } from '../context';
  * time in order; a failing job is logged and the next one runs.
  */
 interface MailQueue {
-  jobs: Array<() => Promise<void>>;
+  jobs: (() => Promise<void>)[];
   running: Promise<void> | null;
 }
 

@@ -18,7 +18,7 @@ import { unitBoardRouter } from './unit-board';
 import { uploadsRouter } from './uploads';
 
 /** Every API router and where it is mounted under /api. Add new resources here. */
-export function apiRouters(ctx: AppContext): Array<[string, Router]> {
+export function apiRouters(ctx: AppContext): [string, Router][] {
   return [
     ['/', healthRouter(ctx)],
     ['/auth', authRouter(ctx)],
@@ -36,6 +36,6 @@ export function apiRouters(ctx: AppContext): Array<[string, Router]> {
     ['/', adminRouter(ctx)],
     ['/', uploadsRouter(ctx)],
     // The demo's mailbox only: production has no mail catcher, and /api/mailbox answers 404 there.
-    ...(ctx.config.mode === 'demo' ? ([['/', mailboxRouter(ctx)]] as Array<[string, Router]>) : []),
+    ...(ctx.config.mode === 'demo' ? ([['/', mailboxRouter(ctx)]] as [string, Router][]) : []),
   ];
 }

@@ -15,7 +15,7 @@ export function recordBedStay(
  * or before the instant. Loads the stays of the infants once; answers null before admission.
  */
 export function bedAtLookup(db: Db, infantIds: readonly string[], until?: Date): (infantId: string, at: Date | number) => string | null {
-  const byInfant = new Map<string, Array<{ at: number; label: string | null }>>();
+  const byInfant = new Map<string, { at: number; label: string | null }[]>();
   if (infantIds.length) {
     const ids = [...new Set(infantIds)];
     for (let i = 0; i < ids.length; i += 500) {

@@ -68,9 +68,9 @@ export interface OnTimeRow {
 
 export interface OnTimeReport {
   overall: OnTimeRow;
-  byShift: Array<OnTimeRow & { shift: ShiftName }>;
+  byShift: (OnTimeRow & { shift: ShiftName })[];
   /** By the unit's local calendar date of the check, oldest first. */
-  byDay: Array<OnTimeRow & { date: string }>;
+  byDay: (OnTimeRow & { date: string })[];
 }
 
 export function isOnTime(check: RemoteCheck): boolean {
@@ -207,7 +207,7 @@ function clip(i: Interval, from: number, to: number): [number, number] | null {
 }
 
 /** Length of the union of intervals (so two overlapping deviations are not counted twice). */
-function unionLength(parts: Array<[number, number]>): number {
+function unionLength(parts: [number, number][]): number {
   const sorted = [...parts].sort((a, b) => a[0] - b[0]);
   let total = 0;
   let cur: [number, number] | null = null;
@@ -257,7 +257,7 @@ export interface UnitReport {
   responseTimes: ResponseTimesRow[];
   skinToSkin: SkinToSkinReport;
   /** Changes of the unit's settings inside the range: each judgement before one kept the settings then. */
-  settingsChanges?: Array<{ effectiveFrom: string; checkIntervalMinutes: number; timeZone: string; dayShiftStart: string; nightShiftStart: string }>;
+  settingsChanges?: { effectiveFrom: string; checkIntervalMinutes: number; timeZone: string; dayShiftStart: string; nightShiftStart: string }[];
 }
 
 /** A percentage for a table cell, one decimal; a dash for "no data". */
@@ -273,7 +273,7 @@ export interface ReportTable {
   name: 'on-time-by-shift' | 'on-time-by-day' | 'gap-rate' | 'response-times' | 'skin-to-skin';
   title: string;
   header: string[];
-  rows: Array<Array<string | number | null>>;
+  rows: (string | number | null)[][];
 }
 
 const pct = (v: number | null) => (v === null ? null : Math.round(v * 1000) / 10);
@@ -324,7 +324,7 @@ export function reportTables(report: UnitReport): ReportTable[] {
   ];
 }
 
-export const REPORT_TABLE_NAMES: ReadonlyArray<ReportTable['name']> = ['on-time-by-shift', 'on-time-by-day', 'gap-rate', 'response-times', 'skin-to-skin'];
+export const REPORT_TABLE_NAMES: readonly ReportTable['name'][] = ['on-time-by-shift', 'on-time-by-day', 'gap-rate', 'response-times', 'skin-to-skin'];
 
 // ---------------------------------------------------------------------------------------------
 // Trends: a range of local dates cut into weeks (Monday to Sunday) or calendar months

@@ -63,7 +63,7 @@ export interface SessionUser {
   role: 'nurse' | 'charge' | 'educator' | 'admin';
   unitIds: string[];
   /** The same units with their names, for pickers. */
-  units: Array<{ id: string; name: string; timeZone: string }>;
+  units: { id: string; name: string; timeZone: string }[];
   tempUnit: 'C' | 'F';
   clock: '24h' | '12h';
   theme: 'system' | 'light' | 'dark';

@@ -57,7 +57,7 @@ export interface BoardResponse {
   shift: { shiftDate: string; shift: 'day' | 'night'; startsAt: string; endsAt: string };
   beds: BoardBed[];
   /** Everyone who can be assigned in this unit (for the nurse filter and reassigning). */
-  nurses: Array<{ id: string; name: string; role: 'nurse' | 'charge' }>;
+  nurses: { id: string; name: string; role: 'nurse' | 'charge' }[];
 }
 
 export interface HandoverReading {
@@ -84,7 +84,7 @@ export interface HandoverFlag {
   raisedAt: string;
   closedAt: string | null;
   how: string | null;
-  actions: Array<{ kind: string; note: string | null; at: string; by: string }>;
+  actions: { kind: string; note: string | null; at: string; by: string }[];
   escalatedAt: string | null;
   acknowledgedAt: string | null;
   severity?: Severity;
@@ -128,7 +128,7 @@ export interface HandoverInfant {
   checks?: CheckClocks;
   readings: HandoverReading[];
   flags: HandoverFlag[];
-  sessions: Array<{ id: string; startedAt: string; endedAt: string | null; referenceCenti: number; limitCenti: number; carer: string | null }>;
+  sessions: { id: string; startedAt: string; endedAt: string | null; referenceCenti: number; limitCenti: number; carer: string | null }[];
   nurse: { id: string; name: string } | null;
 }
 

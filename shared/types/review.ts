@@ -77,7 +77,7 @@ export interface ReviewQueueResponse {
   nextCursor: string | null;
   /** Nurses who appear in the unfiltered queue, for the nurse filter. */
   nurses: PersonRef[];
-  units: Array<{ id: string; name: string }>;
+  units: { id: string; name: string }[];
 }
 
 export interface ReviewReading {

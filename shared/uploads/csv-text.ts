@@ -16,7 +16,7 @@ import Papa from 'papaparse';
 export type Row = Record<string, string>;
 export type Delimiter = ',' | ';';
 
-const SIGNATURES: Array<[number[], string]> = [
+const SIGNATURES: [number[], string][] = [
   [[0x89, 0x50, 0x4e, 0x47], 'a PNG image'],
   [[0xff, 0xd8, 0xff], 'a JPEG image'],
   [[0x47, 0x49, 0x46, 0x38], 'a GIF image'],
@@ -56,7 +56,7 @@ export interface CsvLines {
   /** Column names, trimmed and lower-cased. */
   header: string[];
   /** Data rows; `line` counts the header line as 1 and blank lines too. */
-  rows: Array<{ line: number; values: Row; error?: string }>;
+  rows: { line: number; values: Row; error?: string }[];
 }
 
 /** Split into lines and parse each on its own, so a broken row stays on its line. */

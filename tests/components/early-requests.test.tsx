@@ -15,7 +15,7 @@ import { TOKEN_KEY } from '@/components/auth/session-keys';
 
 /** Runs the script in a fresh context, as a page at `pathname` with `token` stored; returns what it fetched. */
 function runScript(pathname: string, token: string | null, status = 200) {
-  const fetched: Array<{ url: string; headers: Record<string, string> }> = [];
+  const fetched: { url: string; headers: Record<string, string> }[] = [];
   const window: Record<string, unknown> = {};
   const context = vm.createContext({
     window,

@@ -78,9 +78,9 @@ async function api<T>(pathname: string, token: string): Promise<T> {
 /** Concrete URLs for the screens; a route whose parameters we cannot fill is reported, not hidden. */
 async function screenCases(): Promise<{ cases: ScreenCase[]; skipped: string[] }> {
   const nurse = await apiToken(ACCOUNTS.nurse);
-  const flowsheet = await api<{ readings: Array<{ id: string }> }>(`/infants/${SAMPLE_INFANT}/flowsheet?hours=12`, nurse);
+  const flowsheet = await api<{ readings: { id: string }[] }>(`/infants/${SAMPLE_INFANT}/flowsheet?hours=12`, nurse);
   const educator = await apiToken(ACCOUNTS.educator);
-  const queue = await api<{ items: Array<{ flagId: string }> }>('/review/queue', educator).catch(() => ({ items: [] }));
+  const queue = await api<{ items: { flagId: string }[] }>('/review/queue', educator).catch(() => ({ items: [] }));
   // Parameters by the folder they sit in: review/[id] is a flag, everything else an infant.
   const params = (route: string): Record<string, string | undefined> => ({
     id: route.startsWith('/review/') ? queue.items[0]?.flagId : SAMPLE_INFANT,
@@ -123,10 +123,10 @@ async function settle(page: Page): Promise<void> {
 }
 
 /** Visible controls smaller than 44x44 CSS px. */
-async function smallTargets(page: Page): Promise<Array<{ what: string; size: string }>> {
+async function smallTargets(page: Page): Promise<{ what: string; size: string }[]> {
   return page.evaluate(() => {
     const selector = 'a[href], button, input:not([type="hidden"]), textarea, select, [role="button"], [role="link"], [role="radio"], [role="checkbox"], [role="switch"], [role="tab"]';
-    const out: Array<{ what: string; size: string }> = [];
+    const out: { what: string; size: string }[] = [];
     for (const el of document.querySelectorAll<HTMLElement>(selector)) {
       if (el.offsetParent === null || el.getAttribute('aria-hidden') === 'true') continue;
       const r = el.getBoundingClientRect();
@@ -141,7 +141,7 @@ async function smallTargets(page: Page): Promise<Array<{ what: string; size: str
 }
 
 interface AxeResult {
-  violations: Array<{ id: string; impact: string | null; help: string; nodes: Array<{ target: unknown[]; failureSummary?: string }> }>;
+  violations: { id: string; impact: string | null; help: string; nodes: { target: unknown[]; failureSummary?: string }[] }[];
 }
 
 async function runAxe(page: Page): Promise<AxeResult> {

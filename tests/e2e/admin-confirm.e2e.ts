@@ -26,7 +26,7 @@ const focused = (page: Page) => page.evaluate(() => ({ label: document.activeEle
 async function kofiActive(): Promise<boolean> {
   const token = await apiToken(ACCOUNTS.admin);
   const res = await fetch(`${BASE_URL}/api/admin/users`, { headers: { Authorization: `Bearer ${token}` } });
-  const { users } = (await res.json()) as { users: Array<{ email: string; active: boolean; role: string }> };
+  const { users } = (await res.json()) as { users: { email: string; active: boolean; role: string }[] };
   return users.find((u) => u.email === 'kofi.mensah@warmfold.test')!.active;
 }
 

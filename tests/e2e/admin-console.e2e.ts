@@ -24,7 +24,7 @@ after(async () => {
 async function kofiUnits(): Promise<string[]> {
   const token = await apiToken(ACCOUNTS.admin);
   const res = await fetch(`${BASE_URL}/api/admin/users?q=kofi`, { headers: { Authorization: `Bearer ${token}` } });
-  const { users } = (await res.json()) as { users: Array<{ unitIds: string[] }> };
+  const { users } = (await res.json()) as { users: { unitIds: string[] }[] };
   return users[0]!.unitIds;
 }
 

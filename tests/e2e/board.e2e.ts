@@ -52,7 +52,7 @@ describe('the charge nurse at the unit board (1440x900)', () => {
     await shot(page, 'board-acknowledged');
 
     const charge = await apiToken(ACCOUNTS.charge);
-    const board = await api<{ beds: Array<{ label: string; infant: { assignedNurse: { name: string } | null } | null; escalations: Array<{ acknowledgedAt: string | null }> }> }>(
+    const board = await api<{ beds: { label: string; infant: { assignedNurse: { name: string } | null } | null; escalations: { acknowledgedAt: string | null }[] }[] }>(
       '/units/unit-north/board',
       charge,
     );
@@ -61,7 +61,7 @@ describe('the charge nurse at the unit board (1440x900)', () => {
     assert.ok(n02.escalations[0]?.acknowledgedAt);
 
     // The escalation e-mail went through SMTP to the local catcher, into the charge nurse's own mailbox.
-    const { messages } = await api<{ messages: Array<{ subject: string; to: string; text: string }> }>('/mailbox', charge);
+    const { messages } = await api<{ messages: { subject: string; to: string; text: string }[] }>('/mailbox', charge);
     const mail = messages.find((m) => m.subject.includes('bed N02'));
     assert.ok(mail, 'the N02 escalation mail was caught');
     assert.equal(mail.to, ACCOUNTS.charge);
@@ -69,7 +69,7 @@ describe('the charge nurse at the unit board (1440x900)', () => {
     assert.equal(messages.filter((m) => m.subject.includes('bed N02')).length, 1);
 
     // The handover prints to PDF with the infant's readings.
-    const { infants } = await api<{ infants: Array<{ infant: { id: string }; readings: unknown[] }> }>('/infants/inf-brightwater/handover', charge);
+    const { infants } = await api<{ infants: { infant: { id: string }; readings: unknown[] }[] }>('/infants/inf-brightwater/handover', charge);
     assert.ok(infants[0]!.readings.length > 0);
     await page.goto(`${BASE_URL}/handover/inf-brightwater`);
     await page.getByRole('heading', { name: 'Handover: Baby Brightwater', level: 1 }).waitFor();
@@ -91,7 +91,7 @@ describe('the charge nurse at the unit board (1440x900)', () => {
     await signIn(page, ACCOUNTS.charge);
     await page.waitForURL((url) => url.pathname === '/board');
     const charge = await apiToken(ACCOUNTS.charge);
-    const { infants } = await api<{ infants: Array<{ infant: { displayName: string; bedLabel: string } }> }>('/units/unit-north/handover', charge);
+    const { infants } = await api<{ infants: { infant: { displayName: string; bedLabel: string } }[] }>('/units/unit-north/handover', charge);
     assert.ok(infants.length > 2, 'the demo unit has several infants admitted');
     await page.goto(`${BASE_URL}/handover`);
     await page.getByRole('heading', { name: 'My handover', level: 1 }).waitFor();

@@ -28,7 +28,7 @@ async function api<T>(token: string, path: string, body?: object): Promise<T> {
 describe('the educator’s loop', () => {
   it('the nurse marks a teaching note read on her phone; the educator sees that she did, and when', async () => {
     const educator = await apiToken(ACCOUNTS.educator);
-    const queue = await api<{ items: Array<{ flagId: string; kind: string; nurse: { id: string; name: string } | null; withdrawn?: boolean }> }>(educator, '/review/queue?kind=gap&status=all&limit=200');
+    const queue = await api<{ items: { flagId: string; kind: string; nurse: { id: string; name: string } | null; withdrawn?: boolean }[] }>(educator, '/review/queue?kind=gap&status=all&limit=200');
     const item = queue.items.find((i) => i.nurse?.name === 'Nia Okafor' && !i.withdrawn);
     assert.ok(item, 'a gap flag of the demo nurse');
     const note = `Good catch; move the probe to the flank when she is prone (${Date.now()}).`;

@@ -87,7 +87,7 @@ describe('review queue and administration', () => {
     let sent: { to: string; text: string } | undefined;
     for (let i = 0; i < 40 && !sent; i++) {
       const res = await fetch(`${BASE_URL}/api/mailbox`, { headers: { Authorization: `Bearer ${token}` } });
-      const { messages } = (await res.json()) as { messages: Array<{ to: string; text: string }> };
+      const { messages } = (await res.json()) as { messages: { to: string; text: string }[] };
       sent = messages.find((m) => m.to.includes(email));
       if (!sent) await new Promise((r) => setTimeout(r, 250));
     }

@@ -30,9 +30,9 @@ const as = (token: string, method: 'get' | 'post' | 'patch' | 'delete', path: st
   const r = request(env.app)[method](path).set('Authorization', `Bearer ${token}`);
   return body ? r.send(body) : r;
 };
-const unitsOf = (id: string) => (env.database.sqlite.prepare('SELECT unit_id FROM user_units WHERE user_id = ? ORDER BY unit_id').all(id) as Array<{ unit_id: string }>).map((r) => r.unit_id);
+const unitsOf = (id: string) => (env.database.sqlite.prepare('SELECT unit_id FROM user_units WHERE user_id = ? ORDER BY unit_id').all(id) as { unit_id: string }[]).map((r) => r.unit_id);
 const events = (action: string, entityId: string) =>
-  env.database.sqlite.prepare('SELECT actor_id, unit_id, before, after FROM audit_events WHERE action = ? AND entity_id = ? ORDER BY id').all(action, entityId) as Array<{ actor_id: string; unit_id: string | null; before: string | null; after: string | null }>;
+  env.database.sqlite.prepare('SELECT actor_id, unit_id, before, after FROM audit_events WHERE action = ? AND entity_id = ? ORDER BY id').all(action, entityId) as { actor_id: string; unit_id: string | null; before: string | null; after: string | null }[];
 const unitRow = (id: string) => env.database.sqlite.prepare('SELECT * FROM units WHERE id = ?').get(id);
 
 describe('memberships, one unit at a time', () => {
@@ -131,7 +131,7 @@ describe('unit settings checked together', () => {
 });
 
 describe('beds and units', () => {
-  const bedsOf = (unitId: string) => env.database.sqlite.prepare('SELECT id, label, active FROM beds WHERE unit_id = ? ORDER BY sort_order, label').all(unitId) as Array<{ id: string; label: string; active: number }>;
+  const bedsOf = (unitId: string) => env.database.sqlite.prepare('SELECT id, label, active FROM beds WHERE unit_id = ? ORDER BY sort_order, label').all(unitId) as { id: string; label: string; active: number }[];
 
   it('renames a bed, refusing a label another bed has', async () => {
     const [first, second] = bedsOf('unit-north');

@@ -32,9 +32,9 @@ const as = (token: string, method: 'get' | 'post' | 'patch', path: string, body?
 };
 const userRow = (id: string) =>
   env.database.sqlite.prepare('SELECT role, active, name, session_version FROM users WHERE id = ?').get(id) as { role: string; active: number; name: string; session_version: number };
-const unitsOf = (id: string) => (env.database.sqlite.prepare('SELECT unit_id FROM user_units WHERE user_id = ? ORDER BY unit_id').all(id) as Array<{ unit_id: string }>).map((r) => r.unit_id);
+const unitsOf = (id: string) => (env.database.sqlite.prepare('SELECT unit_id FROM user_units WHERE user_id = ? ORDER BY unit_id').all(id) as { unit_id: string }[]).map((r) => r.unit_id);
 const events = (action: string, entityId: string) =>
-  env.database.sqlite.prepare('SELECT actor_id, before, after FROM audit_events WHERE action = ? AND entity_id = ? ORDER BY id').all(action, entityId) as Array<{ actor_id: string; before: string | null; after: string | null }>;
+  env.database.sqlite.prepare('SELECT actor_id, before, after FROM audit_events WHERE action = ? AND entity_id = ? ORDER BY id').all(action, entityId) as { actor_id: string; before: string | null; after: string | null }[];
 const tokens = (userId: string) => (env.database.sqlite.prepare('SELECT COUNT(*) AS n FROM email_tokens WHERE user_id = ?').get(userId) as { n: number }).n;
 
 describe('a North-only administrator and a North+South educator', () => {
@@ -143,7 +143,7 @@ describe('the roster preview does not reveal accounts in other units', () => {
     ].join('\n');
     const res = await upload(csv);
     expect(res.status).toBe(201);
-    const [south, fresh, north] = res.body.rows as Array<Record<string, unknown>>;
+    const [south, fresh, north] = res.body.rows as Record<string, unknown>[];
     const shape = (r: Record<string, unknown>) => ({ action: r.action, note: r.note, errors: r.errors });
     expect(shape(south!)).toEqual(shape(fresh!));
     expect(shape(fresh!)).toEqual({ action: 'create', note: undefined, errors: [] });

@@ -25,7 +25,7 @@ interface Case {
   weeks: number;
   days: number;
   birth: number;
-  readings: Array<{ id: string; at: number; probe?: number; remote?: number; site?: 'axilla' | 'rectal' | 'other'; replaces?: string; error?: boolean }>;
+  readings: { id: string; at: number; probe?: number; remote?: number; site?: 'axilla' | 'rectal' | 'other'; replaces?: string; error?: boolean }[];
 }
 
 const CASES: Case[] = [

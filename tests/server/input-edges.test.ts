@@ -76,7 +76,7 @@ describe('free-text fields refuse what cannot be stored faithfully, naming the f
     expect((env.database.sqlite.prepare('SELECT note FROM actions WHERE id = ?').get(body.id) as { note: string }).note).toBe('Probe re-sited 👶');
   });
 
-  const cases: Array<{ what: string; token: () => string; method: 'post' | 'patch'; url: () => string; body: (bad: string) => object; field: string }> = [
+  const cases: { what: string; token: () => string; method: 'post' | 'patch'; url: () => string; body: (bad: string) => object; field: string }[] = [
     { what: 'reading note', token: () => nurse, method: 'post', url: () => '/api/infants/inf-ashgrove/readings', body: (note) => ({ id: randomUUID(), unit: 'C', probe: 36.8, note }), field: 'note' },
     { what: 'late-entry reason', token: () => nurse, method: 'post', url: () => '/api/infants/inf-ashgrove/readings', body: (lateReason) => ({ id: randomUUID(), unit: 'C', probe: 36.8, lateReason }), field: 'lateReason' },
     { what: 'correction note', token: () => nurse, method: 'post', url: () => `/api/readings/${aReading('inf-ashgrove')}/corrections`, body: (note) => ({ id: randomUUID(), reason: 'corrected-value', note }), field: 'note' },

@@ -86,7 +86,7 @@ describe('list answers name the infants they returned', () => {
 
   it("a nurse's review notes name the infants they are about", async () => {
     const queue = await get(educator, '/api/review/queue?unitId=unit-north');
-    const item = (queue.body.items as Array<{ flagId: string; infantId: string; nurse: { id: string } | null }>).find((i) => i.nurse?.id === 'u-nurse');
+    const item = (queue.body.items as { flagId: string; infantId: string; nurse: { id: string } | null }[]).find((i) => i.nurse?.id === 'u-nurse');
     expect(item).toBeDefined();
     const noted = await request(env.app).post(`/api/review/items/${item!.flagId}/notes`).set('Authorization', `Bearer ${educator}`).send({ note: 'Good recheck within the hour.' });
     expect(noted.status).toBe(201);

@@ -22,7 +22,7 @@ describe('append-only tables', () => {
   it.each(APPEND_ONLY)('refuses UPDATE and DELETE on %s', (table) => {
     const { sqlite } = env.database;
     // Every table has at least one column; an UPDATE that changes nothing still fires the trigger.
-    const column = (sqlite.prepare(`PRAGMA table_info(${table})`).all() as Array<{ name: string }>)[0]!.name;
+    const column = (sqlite.prepare(`PRAGMA table_info(${table})`).all() as { name: string }[])[0]!.name;
     const rows = (sqlite.prepare(`SELECT COUNT(*) AS n FROM ${table}`).get() as { n: number }).n;
     if (rows === 0) {
       // No row to hit: the trigger must still exist.
@@ -96,7 +96,7 @@ describe('reads of a chart are audited (HIPAA 164.312(b))', () => {
     const before = (sqlite.prepare("SELECT COUNT(*) AS n FROM audit_events WHERE action = 'chart-read'").get() as { n: number }).n;
     const res = await request(env.app).get('/api/infants/inf-ashgrove/flowsheet?hours=12').set('Authorization', `Bearer ${token}`);
     expect(res.status).toBe(200);
-    const rows = sqlite.prepare("SELECT actor_id, entity_id FROM audit_events WHERE action = 'chart-read' ORDER BY id DESC").all() as Array<{ actor_id: string; entity_id: string }>;
+    const rows = sqlite.prepare("SELECT actor_id, entity_id FROM audit_events WHERE action = 'chart-read' ORDER BY id DESC").all() as { actor_id: string; entity_id: string }[];
     expect(rows.length).toBe(before + 1);
     expect(rows[0]).toEqual({ actor_id: 'u-nurse', entity_id: 'inf-ashgrove' });
     expect(verifyAuditChain(sqlite).ok).toBe(true);

@@ -44,7 +44,7 @@ async function caughtCount(expected: number): Promise<void> {
 const mailbox = async (who: string) => {
   const res = await request(env.app).get('/api/mailbox').set('Authorization', `Bearer ${tokens[who]}`);
   expect(res.status).toBe(200);
-  return res.body.messages as Array<{ to: string; subject: string; text: string }>;
+  return res.body.messages as { to: string; subject: string; text: string }[];
 };
 const linkIn = (text: string) => /\/reset-password\?token=([^\s]+)/.exec(text)?.[1];
 

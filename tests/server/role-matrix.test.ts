@@ -132,7 +132,7 @@ interface RouteInfo {
 function listRoutes(env: TestEnv): RouteInfo[] {
   const routes: RouteInfo[] = [];
   for (const [mount, router] of apiRouters(env.app.context)) {
-    const stack = (router as Router & { stack: Array<{ route?: { path: string; methods: Record<string, boolean>; stack: Array<{ handle: Partial<AccessHandler> }> } }> }).stack;
+    const stack = (router as Router & { stack: { route?: { path: string; methods: Record<string, boolean>; stack: { handle: Partial<AccessHandler> }[] } }[] }).stack;
     for (const layer of stack) {
       if (!layer.route) continue;
       const access = layer.route.stack[0]?.handle.access;

@@ -55,7 +55,7 @@ describe('bulk assignment at shift change', () => {
       .send({ shift: 'next', assignments: [{ nurseId: 'u-nurse-2', infantIds: ['inf-ashgrove', 'inf-brightwater'] }, { nurseId: 'u-nurse-4', infantIds: ['inf-cinderford'] }] });
     expect(res.status).toBe(201);
     expect(res.body.assignments).toHaveLength(3);
-    const rows = env.database.sqlite.prepare('SELECT infant_id, nurse_id, shift_date, shift FROM assignments WHERE id IN (' + res.body.assignments.map(() => '?').join(',') + ') ORDER BY infant_id').all(...res.body.assignments.map((a: { id: string }) => a.id)) as Array<{ infant_id: string; nurse_id: string; shift_date: string; shift: string }>;
+    const rows = env.database.sqlite.prepare('SELECT infant_id, nurse_id, shift_date, shift FROM assignments WHERE id IN (' + res.body.assignments.map(() => '?').join(',') + ') ORDER BY infant_id').all(...res.body.assignments.map((a: { id: string }) => a.id)) as { infant_id: string; nurse_id: string; shift_date: string; shift: string }[];
     expect(rows.map((r) => [r.infant_id, r.nurse_id])).toEqual([['inf-ashgrove', 'u-nurse-2'], ['inf-brightwater', 'u-nurse-2'], ['inf-cinderford', 'u-nurse-4']]);
     // One shift for all of them: the next one.
     expect(new Set(rows.map((r) => `${r.shift_date} ${r.shift}`)).size).toBe(1);

@@ -80,9 +80,9 @@ const triggerSql = (db: Database.Database, name: string) => (db.prepare("SELECT 
 
 /** Rewrite every event's hash from the first one on, as someone who knows the algorithm would. */
 function rechain(db: Database.Database): void {
-  const events = db.prepare('SELECT id, at, actor_id AS actorId, action, entity_type AS entityType, entity_id AS entityId, unit_id AS unitId, before, after FROM audit_events ORDER BY id').all() as Array<{
+  const events = db.prepare('SELECT id, at, actor_id AS actorId, action, entity_type AS entityType, entity_id AS entityId, unit_id AS unitId, before, after FROM audit_events ORDER BY id').all() as {
     id: number; at: number; actorId: string | null; action: string; entityType: string; entityId: string | null; unitId: string | null; before: string | null; after: string | null;
-  }>;
+  }[];
   const update = db.prepare('UPDATE audit_events SET prev_hash = ?, hash = ? WHERE id = ?');
   let prev = GENESIS_HASH;
   db.transaction(() => {
@@ -106,7 +106,7 @@ describe('a database the app wrote', () => {
 
   it('gives a reading written over HTTP exactly one row event, holding the hash of its content', () => {
     const { sqlite } = env.database;
-    const events = sqlite.prepare("SELECT after FROM audit_events WHERE action = 'row-insert' AND entity_type = 'readings' AND entity_id = ?").all(appReadingId) as Array<{ after: string }>;
+    const events = sqlite.prepare("SELECT after FROM audit_events WHERE action = 'row-insert' AND entity_type = 'readings' AND entity_id = ?").all(appReadingId) as { after: string }[];
     expect(events).toHaveLength(1);
     const row = sqlite.prepare('SELECT probe_centi, remote_centi FROM readings WHERE id = ?').get(appReadingId);
     // 36.8 °C typed by the nurse is stored as 3680 hundredths (the product's unit convention).

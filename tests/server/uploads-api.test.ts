@@ -175,7 +175,7 @@ describe('readings import: what it refuses and whom it credits', () => {
   const HEAD = 'infant,time,probe,remote,site,unit,mode,output,heart_rate,set,taken_by';
   const preview = (text: string | Buffer, name = 'r.csv') => upload('/api/readings-import/preview?unitId=unit-north', charge, text, name);
   const importWith = (id: string, confirmedLines: number[] = []) => post(`/api/readings-import/${id}/import`, charge).send({ confirmedLines });
-  const errorsOf = (body: { rows: Array<{ line: number; errors: string[] }> }) => Object.fromEntries(body.rows.map((r) => [r.line, r.errors.join(' | ')]));
+  const errorsOf = (body: { rows: { line: number; errors: string[] }[] }) => Object.fromEntries(body.rows.map((r) => [r.line, r.errors.join(' | ')]));
 
   it('strict calendar dates: 31 November and 30 February are refused with the line and the field (Gregorian calendar)', async () => {
     const res = await preview([HEAD, 'N07,2026-11-31T22:00,36.6,,,C,,,,,', 'N07,2026-02-30T08:00:00Z,36.6,,,C,,,,,', 'N07,2026-13-01T08:00,36.6,,,C,,,,,'].join('\n'));
@@ -236,7 +236,7 @@ describe('readings import: what it refuses and whom it credits', () => {
     expect(errorsOf(res.body)[4]).toBe('taken_by: no nurse of this unit has the e-mail nobody@warmfold.test');
     const ok = await preview(text.split('\n').slice(0, 3).join('\n'), 'credit-ok.csv');
     expect((await importWith(ok.body.upload.id)).status).toBe(200);
-    const rows = env.database.sqlite.prepare("SELECT r.id, r.recorded_by, r.taken_by, r.upload_id FROM readings r WHERE r.upload_id = ? ORDER BY r.taken_at").all(ok.body.upload.id) as Array<{ id: string; recorded_by: string; taken_by: string | null; upload_id: string }>;
+    const rows = env.database.sqlite.prepare("SELECT r.id, r.recorded_by, r.taken_by, r.upload_id FROM readings r WHERE r.upload_id = ? ORDER BY r.taken_at").all(ok.body.upload.id) as { id: string; recorded_by: string; taken_by: string | null; upload_id: string }[];
     expect(rows.map((r) => [r.recorded_by, r.taken_by, r.upload_id])).toEqual([['u-charge', null, ok.body.upload.id], ['u-charge', 'u-nurse', ok.body.upload.id]]);
     const educator = await env.signIn(DEMO.educator);
     const queue = await request(env.app).get('/api/review/queue?unitId=unit-north&kind=gap&limit=200').set('Authorization', `Bearer ${educator}`);

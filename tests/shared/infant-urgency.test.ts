@@ -10,7 +10,7 @@ import type { InfantSummary, OpenFlagSummary } from '../../shared/types/bedside'
 const T0 = Date.parse('2026-11-16T10:00:00Z');
 const at = (minutes: number) => new Date(T0 + minutes * 60_000).toISOString();
 
-function infant(bed: string, opts: { flags?: Array<Partial<OpenFlagSummary>>; status?: InfantSummary['nextCheck']['status']; dueIn?: number | null } = {}) {
+function infant(bed: string, opts: { flags?: Partial<OpenFlagSummary>[]; status?: InfantSummary['nextCheck']['status']; dueIn?: number | null } = {}) {
   const dueAt = opts.dueIn === null || opts.dueIn === undefined ? null : at(opts.dueIn);
   return {
     bedLabel: bed,
@@ -20,7 +20,7 @@ function infant(bed: string, opts: { flags?: Array<Partial<OpenFlagSummary>>; st
   };
 }
 
-const beds = (list: Array<{ bedLabel: string | null }>) => list.map((i) => i.bedLabel);
+const beds = (list: { bedLabel: string | null }[]) => list.map((i) => i.bedLabel);
 
 describe('My infants by urgency', () => {
   it('puts the most severe open flag first, whatever the bed', () => {

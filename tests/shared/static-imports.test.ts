@@ -46,7 +46,7 @@ function reachedFromRoutes(): { packages: Map<string, string[]>; files: Map<stri
   const packages = new Map<string, string[]>();
   const files = new Map<string, string[]>();
   const seen = new Set<string>();
-  const queue: Array<{ file: string; chain: string[] }> = routeFiles(path.join(root, 'app')).map((file) => ({ file, chain: [path.relative(root, file)] }));
+  const queue: { file: string; chain: string[] }[] = routeFiles(path.join(root, 'app')).map((file) => ({ file, chain: [path.relative(root, file)] }));
   while (queue.length) {
     const { file, chain } = queue.shift()!;
     if (seen.has(file)) continue;
