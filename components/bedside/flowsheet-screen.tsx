@@ -1,8 +1,9 @@
 import { useRouter } from 'expo-router';
 import { useQueryClient } from '@tanstack/react-query';
-import { useEffect, useState } from 'react';
-import { Pressable, StyleSheet, useWindowDimensions, View } from 'react-native';
+import { Fragment, useEffect, useRef, useState } from 'react';
+import { Platform, Pressable, StyleSheet, useWindowDimensions, View } from 'react-native';
 import type { Flowsheet, FlowsheetReading, ReadingVersion } from '@/shared/types/bedside';
+import { HEAT_STRESS_SIGN_LABELS, type HeatStressSign } from '@/shared/thermal/heat-stress';
 import { useUser } from '@/components/auth/auth-provider';
 import { InfantExports } from '@/components/reports/infant-exports';
 import { prefetchInfant, useFlowsheetQuery } from '@/components/queries/infants';
@@ -11,6 +12,7 @@ import { WIDE_BREAKPOINT } from '@/components/theme/theme';
 import { afterNextPaint, useAfterFirstPaint } from '@/components/ui/after-next-paint';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
+import { dayHeading, formatClock, formatWhen, localDayKey } from '@/components/ui/format-time';
 import { Screen } from '@/components/ui/screen';
 import { Segmented } from '@/components/ui/segmented';
 import { ErrorState, LoadingState } from '@/components/ui/state-view';
@@ -18,10 +20,10 @@ import { StatusBadge } from '@/components/ui/status-badge';
 import { Text } from '@/components/ui/text';
 import { CheckClockBadges } from './check-badge';
 import { ClosedFlags, FlagCard } from './flag-card';
-import { clockTime, CONTROL_MODE_LABELS, CORRECTION_REASON_LABELS, dayTime, SITE_LABELS, temp } from './format';
+import { CONTROL_MODE_LABELS, CORRECTION_REASON_LABELS, dayTime, SITE_LABELS, temp } from './format';
 import { startPendingFlush } from './pending-readings';
 import { PendingReadingCards } from './pending-reading-card';
-import { SkinToSkinPanel } from './skin-to-skin';
+import { SkinToSkinHistory, SkinToSkinPanel } from './skin-to-skin';
 import { TrendChart } from './trend-chart';
 import { useNow } from './use-now';
 import { FLOWSHEET_FIRST_HOURS, type FlowsheetHours } from '@/components/api/paths';
@@ -73,11 +75,15 @@ function FlowsheetBody({ sheet, hours, setHours, canChart }: { sheet: Flowsheet;
   const wide = width >= WIDE_BREAKPOINT;
   const openFlags = sheet.flags.filter((f) => f.status === 'open');
   const corrected = [...sheet.readings.filter((r) => r.corrected), ...sheet.removed];
+  const trend = useRef<View>(null);
+  const cards = painted ? sheet.readings : sheet.readings.slice(0, FIRST_CARDS);
   return (
     <View style={styles.body}>
       <View style={styles.badges}>
         <CheckClockBadges checks={sheet.checks} next={sheet.nextCheck} now={now} />
         {openFlags.length === 0 ? <StatusBadge tone="ok" icon="check" label="No open flags" /> : null}
+        {/* On a phone the chart is below the readings: one tap brings it up. */}
+        {!wide && Platform.OS === 'web' ? <Button compact variant="secondary" label="Chart" accessibilityLabel="Chart: jump to the trend chart" onPress={() => jumpTo(trend.current)} /> : null}
       </View>
       <StayEndCard discharge={sheet.discharge} timeZone={sheet.infant.timeZone} clock={user.clock} />
       <CurrentPlacementCard infantId={sheet.infant.id} placement={sheet.infant.placement} timeZone={sheet.infant.timeZone} clock={user.clock} canChart={canChart && !sheet.discharge} />
@@ -109,16 +115,32 @@ function FlowsheetBody({ sheet, hours, setHours, canChart }: { sheet: Flowsheet;
       ) : wide ? (
         <ReadingGrid sheet={sheet} canChart={canChart} />
       ) : (
-        (painted ? sheet.readings : sheet.readings.slice(0, FIRST_CARDS)).map((r) => <ReadingCard key={r.rootId} reading={r} sheet={sheet} canChart={canChart} />)
+        // Newest first, a heading above each day ("Today", "Yesterday", "Wed 2 Dec") in the unit's zone.
+        cards.map((r, i) => {
+          const day = localDayKey(r.takenAt, sheet.infant.timeZone);
+          const first = i === 0 || localDayKey(cards[i - 1]!.takenAt, sheet.infant.timeZone) !== day;
+          return (
+            <Fragment key={r.rootId}>
+              {first ? (
+                <Text variant="label" role="heading" aria-level={3} style={styles.day}>
+                  {dayHeading(r.takenAt, sheet.infant.timeZone, now)}
+                </Text>
+              ) : null}
+              <ReadingCard reading={r} sheet={sheet} canChart={canChart} now={now} />
+            </Fragment>
+          );
+        })
       )}
       {/* After the readings, as the design orders them: the values first, the picture of them second.
           On a phone the chart is then off the first screen and its code loads only when scrolled near. */}
-      <Card>
-        <Text variant="title" role="heading" aria-level={2}>
-          Trend
-        </Text>
-        <TrendChart sheet={sheet} unit={user.tempUnit} clock={user.clock} />
-      </Card>
+      <View ref={trend} nativeID="trend">
+        <Card>
+          <Text variant="title" role="heading" aria-level={2}>
+            Trend
+          </Text>
+          <TrendChart sheet={sheet} unit={user.tempUnit} clock={user.clock} />
+        </Card>
+      </View>
       {corrected.length ? (
         <Card role="region" aria-label="Corrected entries">
           <Text variant="title" role="heading" aria-level={2}>
@@ -129,6 +151,7 @@ function FlowsheetBody({ sheet, hours, setHours, canChart }: { sheet: Flowsheet;
           ))}
         </Card>
       ) : null}
+      <SkinToSkinHistory sheet={sheet} now={now} />
     </View>
   );
 }
@@ -138,15 +161,17 @@ function useCorrect(sheet: Flowsheet) {
   return (r: FlowsheetReading) => router.push(`/infants/${sheet.infant.id}/correct/${r.id}`);
 }
 
-function ReadingCard({ reading: r, sheet, canChart }: { reading: FlowsheetReading; sheet: Flowsheet; canChart: boolean }) {
+function ReadingCard({ reading: r, sheet, canChart, now }: { reading: FlowsheetReading; sheet: Flowsheet; canChart: boolean; now: Date }) {
   const user = useUser();
   const tz = sheet.infant.timeZone;
   const correct = useCorrect(sheet);
   const [open, setOpen] = useState(false);
+  const when = formatWhen(r.takenAt, tz, user.clock, now);
   return (
     <Card>
       <View style={styles.head}>
-        <Text variant="bodyStrong">{clockTime(r.takenAt, tz, user.clock)}</Text>
+        <Text variant="bodyStrong">{when}</Text>
+        {r.sessionId ? <StatusBadge tone="together" icon="hands" label="Skin-to-skin" /> : null}
         {r.corrected ? <StatusBadge tone="neutral" icon="review" label={`Corrected: ${CORRECTION_REASON_LABELS[r.correctionReason ?? 'corrected-value'].toLowerCase()}`} /> : null}
         {r.lateReason ? <StatusBadge tone="neutral" icon="clock" label="Late entry" /> : null}
       </View>
@@ -166,10 +191,11 @@ function ReadingCard({ reading: r, sheet, canChart }: { reading: FlowsheetReadin
           .filter(Boolean)
           .join(' · ')}
       </Text>
+      {r.heatSigns.length ? <Text variant="caption">Heat-stress signs: {r.heatSigns.map((sign) => HEAT_STRESS_SIGN_LABELS[sign as HeatStressSign] ?? 'another sign').join(', ')}</Text> : null}
       {r.note ? <Text variant="caption">{r.note}</Text> : null}
       {r.lateReason ? <Text variant="caption" tone="muted">Charted late: {r.lateReason}</Text> : null}
       <View style={styles.badges}>
-        {canChart ? <Button compact variant="secondary" label="Correct" accessibilityLabel={`Correct the reading of ${clockTime(r.takenAt, tz, user.clock)}`} onPress={() => correct(r)} /> : null}
+        {canChart ? <Button compact variant="secondary" label="Correct" accessibilityLabel={`Correct the reading of ${when}`} onPress={() => correct(r)} /> : null}
         {r.corrected ? <Button compact variant="quiet" label={open ? 'Hide history' : `History (${r.history.length + 1} versions)`} onPress={() => setOpen(!open)} /> : null}
       </View>
       {open ? <Versions reading={r} sheet={sheet} /> : null}
@@ -208,11 +234,22 @@ function History({ reading: r, sheet }: { reading: FlowsheetReading; sheet: Flow
   );
 }
 
+/** Readings per page of the wide grid: ten columns fit beside the row names on a desk screen. */
+const GRID_PAGE = 10;
+
 function ReadingGrid({ sheet, canChart }: { sheet: Flowsheet; canChart: boolean }) {
   const user = useUser();
   const { colors } = useTheme();
+  const now = useNow();
   const correct = useCorrect(sheet);
-  const cols = sheet.readings.slice(0, 10);
+  const tz = sheet.infant.timeZone;
+  const pages = Math.max(1, Math.ceil(sheet.readings.length / GRID_PAGE));
+  const [page, setPage] = useState(0);
+  // A shorter window (or fewer readings) keeps the page in range.
+  const shown = Math.min(page, pages - 1);
+  const cols = sheet.readings.slice(shown * GRID_PAGE, shown * GRID_PAGE + GRID_PAGE);
+  const first = shown * GRID_PAGE + 1;
+  const last = shown * GRID_PAGE + cols.length;
   const rows: Array<[string, (r: FlowsheetReading) => string]> = [
     ['Probe', (r) => temp(r.probeCenti, user.tempUnit)],
     ['Remote site', (r) => temp(r.remoteCenti, user.tempUnit)],
@@ -229,12 +266,27 @@ function ReadingGrid({ sheet, canChart }: { sheet: Flowsheet; canChart: boolean 
     <Card>
       <View role="table" aria-label="Readings" style={styles.grid}>
         <View role="row" style={[styles.gridRow, { borderBottomColor: colors.border }]}>
+          <Text role="rowheader" variant="label" style={styles.gridHead}>
+            Day
+          </Text>
+          {cols.map((r, i) => {
+            // The day is named where it changes (and on the first column), in the unit's zone.
+            const named = i === 0 || localDayKey(cols[i - 1]!.takenAt, tz) !== localDayKey(r.takenAt, tz);
+            return (
+              <Text key={r.id} role="cell" variant="caption" style={styles.gridCell}>
+                {named ? dayHeading(r.takenAt, tz, now) : ''}
+              </Text>
+            );
+          })}
+        </View>
+        <View role="row" style={[styles.gridRow, { borderBottomColor: colors.border }]}>
           <Text role="columnheader" variant="label" style={styles.gridHead}>
             Time
           </Text>
           {cols.map((r) => (
             <Text key={r.id} role="columnheader" variant="label" style={styles.gridCell}>
-              {clockTime(r.takenAt, sheet.infant.timeZone, user.clock)}
+              {/* The day is in the row above: the time alone here. */}
+              {formatClock(r.takenAt, tz, user.clock)}
               {r.corrected ? ' ✎' : ''}
             </Text>
           ))}
@@ -260,7 +312,7 @@ function ReadingGrid({ sheet, canChart }: { sheet: Flowsheet; canChart: boolean 
               <View key={r.id} role="cell" style={styles.gridCell}>
                 <Pressable
                   role="button"
-                  aria-label={`Correct the reading of ${clockTime(r.takenAt, sheet.infant.timeZone, user.clock)}`}
+                  aria-label={`Correct the reading of ${formatWhen(r.takenAt, tz, user.clock, now)}`}
                   onPress={() => correct(r)}
                   style={styles.gridLink}
                 >
@@ -273,8 +325,15 @@ function ReadingGrid({ sheet, canChart }: { sheet: Flowsheet; canChart: boolean 
           </View>
         ) : null}
       </View>
+      <View style={styles.pager} role="group" aria-label="Pages of readings">
+        <Button compact variant="secondary" label="Newer" disabled={shown === 0} onPress={() => setPage(shown - 1)} />
+        <Text variant="label" accessibilityLiveRegion="polite">
+          Readings {first}–{last} of {sheet.readings.length}, newest first
+        </Text>
+        <Button compact variant="secondary" label="Older" disabled={shown >= pages - 1} onPress={() => setPage(shown + 1)} />
+      </View>
       <Text variant="caption" tone="muted">
-        Newest first; the latest 10 readings (all of them as cards on a phone). ✎ marks a corrected entry: its history is under Corrected entries.
+        ✎ marks a corrected entry: its history is under Corrected entries.
       </Text>
     </Card>
   );
@@ -295,4 +354,14 @@ const styles = StyleSheet.create({
   gridCell: { width: 72, textAlign: 'center', alignItems: 'center' },
   gridLink: { minHeight: 44, minWidth: 64, alignItems: 'center', justifyContent: 'center' },
   underline: { textDecorationLine: 'underline' },
+  pager: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: 12 },
+  day: { marginTop: 4 },
 });
+
+/** Scroll a section to the top of the screen and move the reader there (web). */
+function jumpTo(node: View | null) {
+  const el = node as unknown as { scrollIntoView?: (o: object) => void; focus?: (o?: object) => void; setAttribute?: (k: string, v: string) => void } | null;
+  el?.setAttribute?.('tabindex', '-1');
+  el?.scrollIntoView?.({ block: 'start' });
+  el?.focus?.({ preventScroll: true });
+}

@@ -1,5 +1,5 @@
 import { formatInZone, formatWhen } from '@/components/ui/format-time';
-import { CONTROL_MODE_LABELS, CONTROL_MODES, FLAG_KIND_LABELS, HEAT_SOURCE_LABELS, REMOTE_SITE_LABELS, REMOTE_SITES } from '@/shared/vocabulary';
+import { ACTION_LABELS, CONTROL_MODE_LABELS, CONTROL_MODES, FLAG_KIND_LABELS, HEAT_SOURCE_LABELS, REMOTE_SITE_LABELS, REMOTE_SITES, type ActionKind } from '@/shared/vocabulary';
 import { formatTemperature, formatTemperatureDifference, type TempUnit } from '@/shared/thermal/units';
 
 export interface DisplayPrefs {
@@ -54,3 +54,10 @@ export const REMOTE_SITE_OPTIONS = REMOTE_SITES.map((value) => ({ value, label: 
 export const SITE_LABELS = REMOTE_SITE_LABELS;
 export const FLAG_LABELS = FLAG_KIND_LABELS;
 export const CORRECTION_REASON_LABELS = { 'corrected-value': 'Corrected value', 'entered-in-error': 'Entered in error', 'late-entry': 'Late entry' } as const;
+
+/** An action on a flag in words: "something else" is its note; another action's note follows it. */
+export function actionWords(a: { kind: string; note: string | null }): string {
+  const label = ACTION_LABELS[a.kind as ActionKind] ?? 'Something done';
+  if (a.kind === 'other') return a.note ? `Something else: ${a.note}` : label;
+  return a.note ? `${label} (${a.note})` : label;
+}

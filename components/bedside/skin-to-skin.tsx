@@ -5,19 +5,20 @@ import { problemOf } from '@/components/api/client';
 import { lazyZodResolver } from '@/components/forms/lazy-resolver';
 import { FormRootError } from '@/components/forms/form-root-error';
 import { useUser } from '@/components/auth/auth-provider';
+import { ConfirmDialog, type PendingChange } from '@/components/admin-users/confirm-dialog';
 import { useEndSkinToSkinMutation, useStartSkinToSkinMutation } from '@/components/queries/infants';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
+import { formatWhen } from '@/components/ui/format-time';
 import { Caution } from '@/components/ui/caution';
 import { Segmented } from '@/components/ui/segmented';
 import { StatusBadge } from '@/components/ui/status-badge';
 import { Text } from '@/components/ui/text';
 import { TextField } from '@/components/ui/text-field';
-import { checkPlausibility } from '@/shared/thermal/limits';
 import { SKIN_TO_SKIN_LIMITS_CENTI } from '@/shared/thermal/skin-to-skin';
-import { fromCentiCelsius, type TempUnit } from '@/shared/thermal/units';
-import type { Flowsheet } from '@/shared/types/bedside';
-import { clockTime, duration, temp, tempDelta } from './format';
+import { fromCentiCelsius } from '@/shared/thermal/units';
+import type { Flowsheet, SessionRecord } from '@/shared/types/bedside';
+import { clockTime, duration, SITE_LABELS, temp, tempDelta } from './format';
 import { parseNumber } from './reading-form-values';
 
 interface StartSessionFormValues {
@@ -40,6 +41,18 @@ function RunningSession({ sheet, canChart, now }: { sheet: Flowsheet; canChart: 
   const s = sheet.infant.skinToSkin!;
   const end = useEndSkinToSkinMutation(sheet.infant.id);
   const record = sheet.sessions.find((x) => x.id === s.id);
+  const [confirm, setConfirm] = useState<PendingChange | null>(null);
+  // Ending asks first: an ended session cannot be resumed, and its readings stop counting against the limit.
+  const askToEnd = () =>
+    setConfirm({
+      title: 'End the skin-to-skin session?',
+      lines: [
+        `Running for ${duration(now.getTime() - Date.parse(s.startedAt))}, since ${clockTime(s.startedAt, sheet.infant.timeZone, user.clock)}${record?.carer ? ` with ${record.carer}` : ''}.`,
+        'Readings charted after this no longer count against its deviation limit.',
+      ],
+      confirmLabel: 'End session',
+      run: () => end.mutateAsync(s.id),
+    });
   return (
     <Card role="region" aria-label="Skin-to-skin session">
       <StatusBadge tone="together" icon="hands" label="Skin-to-skin session running" large />
@@ -51,13 +64,65 @@ function RunningSession({ sheet, canChart, now }: { sheet: Flowsheet; canChart: 
       <Text variant="caption" tone="muted">
         Readings charted now count against the deviation limit; one outside it raises a flag.
       </Text>
-      {canChart ? <Button label="End session" variant="secondary" style={styles.start} busy={end.isPending} onPress={() => end.mutate(s.id)} /> : null}
-      {end.isError ? (
-        <Text tone="danger" role="alert">
-          {problemOf(end.error).message}
-        </Text>
-      ) : null}
+      {canChart ? <Button label="End session" variant="secondary" style={styles.start} busy={end.isPending} onPress={askToEnd} /> : null}
+      <ConfirmDialog change={confirm} onClose={() => setConfirm(null)} />
     </Card>
+  );
+}
+
+/**
+ * The sessions of the window, newest first, as part of the record: start and end (or still
+ * running), the carer, the reference and limit, who started it, and the readings taken during it.
+ */
+export function SkinToSkinHistory({ sheet, now }: { sheet: Flowsheet; now: Date }) {
+  if (!sheet.sessions.length) return null;
+  const sessions = [...sheet.sessions].sort((a, b) => Date.parse(b.startedAt) - Date.parse(a.startedAt));
+  return (
+    <Card role="region" aria-label="Skin-to-skin sessions">
+      <Text variant="title" role="heading" aria-level={2}>
+        Skin-to-skin sessions
+      </Text>
+      {sessions.map((s) => (
+        <SessionEntry key={s.id} session={s} sheet={sheet} now={now} />
+      ))}
+    </Card>
+  );
+}
+
+function SessionEntry({ session: s, sheet, now }: { session: SessionRecord; sheet: Flowsheet; now: Date }) {
+  const user = useUser();
+  const tz = sheet.infant.timeZone;
+  const when = (iso: string) => formatWhen(iso, tz, user.clock, now);
+  const endMs = s.endedAt ? Date.parse(s.endedAt) : now.getTime();
+  // Oldest first inside a session: the story of the session as it went.
+  const readings = sheet.readings.filter((r) => r.sessionId === s.id).sort((a, b) => Date.parse(a.takenAt) - Date.parse(b.takenAt));
+  return (
+    <View style={styles.session} role="group" aria-label={`Skin-to-skin from ${when(s.startedAt)}`}>
+      <Text variant="bodyStrong">
+        {when(s.startedAt)} – {s.endedAt ? when(s.endedAt) : 'still running'} ({duration(endMs - Date.parse(s.startedAt))})
+      </Text>
+      <Text>
+        {s.carer ? `With ${s.carer}` : 'Carer not named'} · reference {temp(s.referenceCenti, user.tempUnit)} · deviation limit {tempDelta(s.limitCenti, user.tempUnit)}
+      </Text>
+      <Text variant="caption" tone="muted">
+        Started by {s.startedBy.name}
+      </Text>
+      {readings.length ? (
+        <View role="list" aria-label="Readings during the session" style={styles.readings}>
+          {readings.map((r) => (
+            <Text key={r.id} role="listitem" variant="caption">
+              {when(r.takenAt)} · probe {temp(r.probeCenti, user.tempUnit)} · remote {temp(r.remoteCenti, user.tempUnit)}
+              {r.remoteSite ? ` (${SITE_LABELS[r.remoteSite].toLowerCase()})` : ''}
+              {r.heartRate !== null ? ` · HR ${r.heartRate}/min` : ''} · {r.recordedBy.name}
+            </Text>
+          ))}
+        </View>
+      ) : (
+        <Text variant="caption" tone="muted">
+          No readings charted during it.
+        </Text>
+      )}
+    </View>
   );
 }
 
@@ -121,4 +186,6 @@ function StartSessionForm({ sheet, onDone }: { sheet: Flowsheet; onDone: () => v
 const styles = StyleSheet.create({
   row: { flexDirection: 'row', flexWrap: 'wrap', gap: 12 },
   start: { alignSelf: 'flex-start' },
+  session: { gap: 4, paddingVertical: 6 },
+  readings: { gap: 2, paddingLeft: 8 },
 });

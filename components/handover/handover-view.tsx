@@ -4,10 +4,12 @@ import { formatDayTime, type ClockSetting } from '@/components/ui/format-time';
 import { StatusBadge } from '@/components/ui/status-badge';
 import { Text } from '@/components/ui/text';
 import { useTheme } from '@/components/theme/theme-provider';
-import { CONTROL_MODE_LABELS, HEAT_SOURCE_LABELS } from '@/shared/vocabulary';
+import { CONTROL_MODE_LABELS, FLAG_CLOSED_HOW_LABELS, HEAT_SOURCE_LABELS } from '@/shared/vocabulary';
+import { HEAT_STRESS_SIGN_LABELS, type HeatStressSign } from '@/shared/thermal/heat-stress';
 import { formatTemperature, type TempUnit } from '@/shared/thermal/units';
 import type { HandoverInfant, HandoverReading } from '@/shared/types/board';
 import { escalationLine, flagLook } from '../board/flag-look';
+import { actionWords } from '../bedside/format';
 import { placementWords } from '../bedside/placement-values';
 
 const TABLE_BREAKPOINT = 720;
@@ -92,13 +94,12 @@ export function HandoverView({ handover, tempUnit, timeZone, clock }: { handover
           <View key={f.id} data-print-block style={styles.flag}>
             <Text variant="bodyStrong">
               {flagLook(f).label}: raised {when(f.raisedAt, timeZone, clock)}
-              {f.closedAt ? `, ${f.how === 'withdrawn' ? 'withdrawn' : 'closed'} ${when(f.closedAt, timeZone, clock)} (${f.how})` : ', still open'}
+              {f.closedAt ? `, ${f.how === 'withdrawn' ? 'withdrawn' : 'closed'} ${when(f.closedAt, timeZone, clock)}${f.how && FLAG_CLOSED_HOW_LABELS[f.how] ? ` ${FLAG_CLOSED_HOW_LABELS[f.how]}` : ''}` : ', still open'}
             </Text>
             {escalationLine(f.escalation, timeZone, clock) ? <Text variant="caption">{escalationLine(f.escalation, timeZone, clock)}</Text> : null}
             {f.actions.map((a, i) => (
               <Text key={i} variant="caption" tone="muted">
-                {when(a.at, timeZone, clock)} · {a.kind.replace(/-/g, ' ')}
-                {a.note ? `: ${a.note}` : ''} · {a.by}
+                {when(a.at, timeZone, clock)} · {actionWords(a)} · {a.by}
               </Text>
             ))}
           </View>
@@ -166,7 +167,7 @@ function ReadingsTable({ readings, tempUnit, timeZone, clock }: { readings: Hand
             r.controlMode ? CONTROL_MODE_LABELS[r.controlMode] : '—',
             r.heaterOutputPct !== null ? `${r.heaterOutputPct} %` : '—',
             r.heartRate !== null ? String(r.heartRate) : '—',
-            [r.heatSigns.join(', '), r.note ?? ''].filter(Boolean).join(' · ') || '',
+            [r.heatSigns.map((sign) => HEAT_STRESS_SIGN_LABELS[sign as HeatStressSign] ?? 'another sign').join(', '), r.note ?? ''].filter(Boolean).join(' · ') || '',
             r.recordedBy,
           ].map((cell, i) => (
             <Text key={i} role="cell" variant="caption" style={[styles.td, i === 8 && styles.wide]}>
