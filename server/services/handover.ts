@@ -1,55 +1,72 @@
 import Papa from 'papaparse';
+import { and, asc, desc, eq, gte, isNull, or, sql } from 'drizzle-orm';
+import { writeTx } from '../../db/client';
+import { assignments, beds, infants, readings, skinToSkinSessions, units, users } from '../../db/schema';
 import { shiftAt } from '../../shared/shifts';
 import { currentReadings, fromCentiCelsius, type TempUnit } from '../../shared/thermal';
-import type { HandoverInfant, HandoverReading } from '../../shared/types/board';
+import type { HandoverInfant, HandoverReading, HandoverResponse } from '../../shared/types/board';
+import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
-import { dbOf, readClocks, type StoredLatest } from './flag-lifecycle';
-import { loadInfantState, loadUnitRow } from './flags';
+import { forbidden, notFound } from '../errors';
+import { readClocks, type StoredLatest } from './flag-lifecycle';
+import { loadInfantState } from './flags';
+import { viewerPrefs } from './review';
 import { storedFlowsheetFlags, summarizeInfants } from './summaries';
 
 export const HANDOVER_HOURS = 12;
 
-interface InfantRow {
-  id: string;
-  unit_id: string;
-  display_name: string;
-  bed_label: string | null;
-  gestation_weeks: number;
-  gestation_days: number;
-  weight_grams: number;
-  birth_at: number;
-  heat_source: HandoverInfant['infant']['heatSource'];
-  status: 'admitted' | 'discharged';
+// sql fragment: rowid (the order rows were stored in) breaks a tie of created_at; Drizzle has no column for it.
+const storedOrder = sql`${assignments}.rowid`;
+
+const iso = (d: Date | null) => (d === null ? null : d.toISOString());
+
+function shiftTimes(ctx: AppContext, unitId: string) {
+  return ctx.database.db
+    .select({ dayShiftStart: units.dayShiftStart, nightShiftStart: units.nightShiftStart, timeZone: units.timeZone })
+    .from(units)
+    .where(eq(units.id, unitId))
+    .get();
 }
 
-const iso = (ms: number | null) => (ms === null ? null : new Date(ms).toISOString());
-
 /** One infant's last 12 hours: current readings, flags with their actions, sessions, settings and the next check. */
-export function buildHandover(ctx: AppContext, infantId: string, now: Date): HandoverInfant | null {
-  const { sqlite } = ctx.database;
-  const infant = sqlite
-    .prepare(
-      `SELECT i.id, i.unit_id, i.display_name, b.label AS bed_label, i.gestation_weeks, i.gestation_days, i.weight_grams, i.birth_at, i.heat_source, i.status
-         FROM infants i LEFT JOIN beds b ON b.id = i.bed_id WHERE i.id = ?`,
-    )
-    .get(infantId) as InfantRow | undefined;
+function buildHandover(ctx: AppContext, infantId: string, now: Date): { unitId: string; handover: HandoverInfant } | null {
+  const { sqlite, db } = ctx.database;
+  const infant = db
+    .select({
+      id: infants.id,
+      unitId: infants.unitId,
+      displayName: infants.displayName,
+      bedLabel: beds.label,
+      gestationWeeks: infants.gestationWeeks,
+      gestationDays: infants.gestationDays,
+      weightGrams: infants.weightGrams,
+      birthAt: infants.birthAt,
+      heatSource: infants.heatSource,
+      status: infants.status,
+    })
+    .from(infants)
+    .leftJoin(beds, eq(beds.id, infants.bedId))
+    .where(eq(infants.id, infantId))
+    .get();
   if (!infant) return null;
-  const unit = loadUnitRow(sqlite, infant.unit_id)!;
+  const unit = shiftTimes(ctx, infant.unitId)!;
   const from = now.getTime() - HANDOVER_HOURS * 3_600_000;
   const state = loadInfantState(sqlite, infantId);
   // What the last evaluation stored: the views never evaluate the rules again.
   const [summary] = summarizeInfants(sqlite, [infantId], now);
-  const clock = readClocks(dbOf(sqlite), infantId);
+  const clock = readClocks(db, infantId);
   const latest: Partial<StoredLatest> = clock ? (JSON.parse(clock.latest) as StoredLatest) : {};
 
   const extras = new Map(
-    (
-      sqlite
-        .prepare('SELECT r.id, r.note, r.replaces_id, u.name AS by_name FROM readings r JOIN users u ON u.id = r.recorded_by WHERE r.infant_id = ? AND r.taken_at >= ?')
-        .all(infantId, from) as Array<{ id: string; note: string | null; replaces_id: string | null; by_name: string }>
-    ).map((r) => [r.id, r]),
+    db
+      .select({ id: readings.id, note: readings.note, byName: users.name })
+      .from(readings)
+      .innerJoin(users, eq(users.id, readings.recordedBy))
+      .where(and(eq(readings.infantId, infantId), gte(readings.takenAt, new Date(from))))
+      .all()
+      .map((r) => [r.id, r]),
   );
-  const readings: HandoverReading[] = currentReadings(state.readings)
+  const current: HandoverReading[] = currentReadings(state.readings)
     .filter((r) => r.takenAt.getTime() >= from && r.takenAt.getTime() <= now.getTime())
     .map((r) => {
       const extra = extras.get(r.id);
@@ -66,40 +83,52 @@ export function buildHandover(ctx: AppContext, infantId: string, now: Date): Han
         heartRate: r.heartRate,
         heatSigns: [...r.heatSigns],
         note: extra?.note ?? null,
-        recordedBy: extra?.by_name ?? '',
+        recordedBy: extra?.byName ?? '',
         corrects: r.replacesId !== null,
       };
     });
 
   const flagRows = storedFlowsheetFlags(sqlite, infantId, from, now).reverse();
 
-  const sessions = sqlite
-    .prepare('SELECT id, started_at, ended_at, reference_centi, limit_centi, carer FROM skin_to_skin_sessions WHERE infant_id = ? AND (ended_at IS NULL OR ended_at >= ?) ORDER BY started_at')
-    .all(infantId, from) as Array<{ id: string; started_at: number; ended_at: number | null; reference_centi: number; limit_centi: number; carer: string | null }>;
+  const sessions = db
+    .select({
+      id: skinToSkinSessions.id,
+      startedAt: skinToSkinSessions.startedAt,
+      endedAt: skinToSkinSessions.endedAt,
+      referenceCenti: skinToSkinSessions.referenceCenti,
+      limitCenti: skinToSkinSessions.limitCenti,
+      carer: skinToSkinSessions.carer,
+    })
+    .from(skinToSkinSessions)
+    .where(and(eq(skinToSkinSessions.infantId, infantId), or(isNull(skinToSkinSessions.endedAt), gte(skinToSkinSessions.endedAt, new Date(from)))))
+    .orderBy(asc(skinToSkinSessions.startedAt))
+    .all();
 
-  const slot = shiftAt(now, { dayShiftStart: unit.day_shift_start, nightShiftStart: unit.night_shift_start, timeZone: unit.time_zone });
-  const nurse = sqlite
-    .prepare(
-      `SELECT u.id, u.name FROM assignments a JOIN users u ON u.id = a.nurse_id
-        WHERE a.infant_id = ? AND a.shift_date = ? AND a.shift = ? ORDER BY a.created_at DESC, a.rowid DESC LIMIT 1`,
-    )
-    .get(infantId, slot.shiftDate, slot.shift) as { id: string; name: string } | undefined;
+  const slot = shiftAt(now, unit);
+  const nurse = db
+    .select({ id: users.id, name: users.name })
+    .from(assignments)
+    .innerJoin(users, eq(users.id, assignments.nurseId))
+    .where(and(eq(assignments.infantId, infantId), eq(assignments.shiftDate, slot.shiftDate), eq(assignments.shift, slot.shift)))
+    .orderBy(desc(assignments.createdAt), desc(storedOrder))
+    .limit(1)
+    .get();
 
-  return {
+  const handover: HandoverInfant = {
     infant: {
       id: infant.id,
-      displayName: infant.display_name,
-      bedLabel: infant.bed_label,
-      gestationWeeks: infant.gestation_weeks,
-      gestationDays: infant.gestation_days,
-      weightGrams: infant.weight_grams,
-      birthAt: new Date(infant.birth_at).toISOString(),
-      heatSource: infant.heat_source,
+      displayName: infant.displayName,
+      bedLabel: infant.bedLabel,
+      gestationWeeks: infant.gestationWeeks,
+      gestationDays: infant.gestationDays,
+      weightGrams: infant.weightGrams,
+      birthAt: infant.birthAt.toISOString(),
+      heatSource: infant.heatSource,
       status: infant.status,
     },
     from: new Date(from).toISOString(),
     to: now.toISOString(),
-    timeZone: unit.time_zone,
+    timeZone: unit.timeZone,
     settings: {
       controlMode: latest.controlMode ?? null,
       setCenti: latest.setCenti ?? null,
@@ -112,7 +141,7 @@ export function buildHandover(ctx: AppContext, infantId: string, now: Date): Han
     },
     nextCheck: summary!.nextCheck,
     checks: summary!.checks,
-    readings,
+    readings: current,
     flags: flagRows.map((f) => ({
       id: f.id!,
       kind: f.kind,
@@ -131,50 +160,98 @@ export function buildHandover(ctx: AppContext, infantId: string, now: Date): Han
     })),
     sessions: sessions.map((s) => ({
       id: s.id,
-      startedAt: new Date(s.started_at).toISOString(),
-      endedAt: iso(s.ended_at),
-      referenceCenti: s.reference_centi,
-      limitCenti: s.limit_centi,
+      startedAt: s.startedAt.toISOString(),
+      endedAt: iso(s.endedAt),
+      referenceCenti: s.referenceCenti,
+      limitCenti: s.limitCenti,
       carer: s.carer,
     })),
     nurse: nurse ?? null,
   };
+  return { unitId: infant.unitId, handover };
 }
 
 /** The admitted infants whose latest assignment row for the current shift names this nurse. */
-export function myInfantIds(ctx: AppContext, userId: string, unitIds: string[], now: Date): string[] {
-  const { sqlite } = ctx.database;
+function myInfantIds(ctx: AppContext, userId: string, unitIds: string[], now: Date): string[] {
   const ids: string[] = [];
   for (const unitId of unitIds) {
-    const unit = loadUnitRow(sqlite, unitId);
+    const unit = shiftTimes(ctx, unitId);
     if (!unit) continue;
-    const slot = shiftAt(now, { dayShiftStart: unit.day_shift_start, nightShiftStart: unit.night_shift_start, timeZone: unit.time_zone });
-    const rows = sqlite
-      .prepare(
-        `SELECT a.infant_id, a.nurse_id FROM assignments a JOIN infants i ON i.id = a.infant_id
-          LEFT JOIN beds b ON b.id = i.bed_id
-          WHERE a.unit_id = ? AND a.shift_date = ? AND a.shift = ? AND i.status = 'admitted'
-          ORDER BY a.created_at, a.rowid`,
-      )
-      .all(unitId, slot.shiftDate, slot.shift) as Array<{ infant_id: string; nurse_id: string }>;
+    const slot = shiftAt(now, unit);
+    const rows = ctx.database.db
+      .select({ infantId: assignments.infantId, nurseId: assignments.nurseId })
+      .from(assignments)
+      .innerJoin(infants, eq(infants.id, assignments.infantId))
+      .where(and(eq(assignments.unitId, unitId), eq(assignments.shiftDate, slot.shiftDate), eq(assignments.shift, slot.shift), eq(infants.status, 'admitted')))
+      .orderBy(asc(assignments.createdAt), asc(storedOrder))
+      .all();
     const latest = new Map<string, string>();
-    for (const r of rows) latest.set(r.infant_id, r.nurse_id);
+    for (const r of rows) latest.set(r.infantId, r.nurseId);
     for (const [infantId, nurseId] of latest) if (nurseId === userId) ids.push(infantId);
   }
   return ids;
 }
 
 /** Every admitted infant of the unit, in bed order (infants without a bed last). */
-export function unitInfantIds(ctx: AppContext, unitId: string): string[] {
-  return (
-    ctx.database.sqlite
-      .prepare(
-        `SELECT i.id FROM infants i LEFT JOIN beds b ON b.id = i.bed_id
-          WHERE i.unit_id = ? AND i.status = 'admitted'
-          ORDER BY b.label IS NULL, b.label, i.display_name`,
-      )
-      .all(unitId) as Array<{ id: string }>
-  ).map((r) => r.id);
+function unitInfantIds(ctx: AppContext, unitId: string): string[] {
+  return ctx.database.db
+    .select({ id: infants.id })
+    .from(infants)
+    .leftJoin(beds, eq(beds.id, infants.bedId))
+    .where(and(eq(infants.unitId, unitId), eq(infants.status, 'admitted')))
+    .orderBy(isNull(beds.label), asc(beds.label), asc(infants.displayName))
+    .all()
+    .map((r) => r.id);
+}
+
+type HandoverAction = 'handover-read' | 'handover-export';
+
+/** Many infants' handovers (unknown ids left out), each read audited, in one answer. */
+function readHandovers(ctx: AppContext, actorId: string, infantIds: string[], now: Date, action: HandoverAction = 'handover-read'): HandoverInfant[] {
+  const { sqlite } = ctx.database;
+  const built = infantIds.map((id) => buildHandover(ctx, id, now)).filter((h) => h !== null);
+  writeTx(sqlite, () => {
+    for (const { unitId, handover } of built) {
+      appendAudit(sqlite, { at: ctx.clock.now(), actorId, action, entityType: 'infant', entityId: handover.infant.id, unitId });
+    }
+  });
+  return built.map((b) => b.handover);
+}
+
+/** The signed-in nurse's infants this shift, by bed. */
+export function myHandovers(ctx: AppContext, auth: { userId: string; unitIds: string[] }, now: Date): HandoverResponse {
+  const infantsOut = readHandovers(ctx, auth.userId, myInfantIds(ctx, auth.userId, auth.unitIds, now), now);
+  infantsOut.sort((a, b) => (a.infant.bedLabel ?? '').localeCompare(b.infant.bedLabel ?? ''));
+  return { generatedAt: now.toISOString(), infants: infantsOut };
+}
+
+/** The charge nurse's handover to the next charge nurse: every admitted infant of the unit, by bed. */
+export function unitHandovers(ctx: AppContext, unitId: string, actorId: string, now: Date): HandoverResponse {
+  return { generatedAt: now.toISOString(), infants: readHandovers(ctx, actorId, unitInfantIds(ctx, unitId), now) };
+}
+
+/** One infant's handover: 404 for an unknown infant, 403 for one of another unit. */
+function oneHandover(ctx: AppContext, infantId: string, auth: { userId: string; unitIds: string[] }, now: Date, action: HandoverAction): HandoverInfant {
+  const infant = ctx.database.db.select({ unitId: infants.unitId }).from(infants).where(eq(infants.id, infantId)).get();
+  if (!infant) throw notFound('That infant');
+  if (!auth.unitIds.includes(infant.unitId)) throw forbidden('This infant or record belongs to a unit you are not part of.');
+  const [handover] = readHandovers(ctx, auth.userId, [infantId], now, action);
+  if (!handover) throw notFound('That infant');
+  return handover;
+}
+
+export function infantHandover(ctx: AppContext, infantId: string, auth: { userId: string; unitIds: string[] }, now: Date): HandoverResponse {
+  return { generatedAt: now.toISOString(), infants: [oneHandover(ctx, infantId, auth, now, 'handover-read')] };
+}
+
+/** One infant's handover readings as a CSV file in the reader's temperature unit; an audited export. */
+export function infantHandoverCsv(ctx: AppContext, infantId: string, auth: { userId: string; unitIds: string[] }, now: Date): { filename: string; csv: string } {
+  const handover = oneHandover(ctx, infantId, auth, now, 'handover-export');
+  const safeName = handover.infant.displayName.replace(/[^A-Za-z0-9-]+/g, '-').replace(/^-|-$/g, '') || 'infant';
+  return {
+    filename: `handover-${safeName}-${now.toISOString().slice(0, 10)}.csv`,
+    csv: handoverCsv(handover, viewerPrefs(ctx, auth.userId).tempUnit, handover.timeZone),
+  };
 }
 
 const temp = (centi: number | null, unit: TempUnit) => (centi === null ? '' : fromCentiCelsius(centi, unit).toFixed(unit === 'C' ? 2 : 1));
