@@ -304,7 +304,7 @@ export const flags = sqliteTable(
     /** The rules' stable key (for example `gap:<reading id>`), unique per infant. */
     key: text('key').notNull(),
     kind: text('kind', {
-      enum: ['gap', 'overdue-check', 'heat-stress', 'cold-stress', 'manual-mode', 'skin-to-skin-deviation'],
+      enum: ['gap', 'overdue-check', 'heat-stress', 'cold-stress', 'manual-mode', 'skin-to-skin-deviation', 'fever'],
     }).notNull(),
     raisedAt: instant('raised_at').notNull(),
     raisedByReadingId: text('raised_by_reading_id'),

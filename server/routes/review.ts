@@ -10,14 +10,12 @@ import {
   type UnitRangeQuery,
   type WithdrawNoteInput,
 } from '../../shared/schemas/review';
-import { inArray } from 'drizzle-orm';
-import { flags } from '../../db/schema';
 import type { AppContext } from '../context';
 import { allow, assertUnit, secureRouter } from '../middleware/access';
 import { auditListRead } from '../read-audit';
 import { valid, validate } from '../middleware/validate';
-import { addTeachingNote, findFlag, myReviewNotes, nurseConcerned, nurseSummary, reviewItemDetail, reviewQueue, viewerPrefs } from '../services/review';
-import { acknowledgeNote, amendNote, closeNoTeachingPoint, withdrawNote } from '../services/review-loop';
+import { addTeachingNote, closeWithNoTeachingPoint, infantsOfFlags, myReviewNotes, nurseConcerned, nurseSummary, reviewItemDetail, reviewQueue, viewerPrefs } from '../services/review';
+import { acknowledgeNote, amendNote, withdrawNote } from '../services/review-loop';
 
 /** The educator's review queue and teaching notes; the nurse's own notes. */
 export function reviewRouter(ctx: AppContext) {
@@ -45,8 +43,7 @@ export function reviewRouter(ctx: AppContext) {
   /** Close the item with no teaching point: the review's status, not the flag's. */
   router.post('/review/items/:flagId/no-teaching-point', allow(ctx, 'review:work'), validate('body', noTeachingPointSchema), (req, res) => {
     const { comment } = valid<NoTeachingPointInput>(req, 'body');
-    const row = findFlag(ctx, (req.params as { flagId: string }).flagId, req.auth!.unitIds);
-    const status = closeNoTeachingPoint(ctx, { id: row.id, unitId: row.unit_id }, comment, req.auth!);
+    const status = closeWithNoTeachingPoint(ctx, (req.params as { flagId: string }).flagId, comment, req.auth!);
     res.status(201).json({ reviewState: status.state, noTeachingPoint: status.noTeachingPoint });
   });
 
@@ -75,8 +72,7 @@ export function reviewRouter(ctx: AppContext) {
 
   router.get('/reviews/mine', allow(ctx, 'signed-in'), async (req, res) => {
     const notes = myReviewNotes(ctx, req.auth!);
-    const flagIds = [...new Set(notes.map((n) => n.flagId))];
-    const shown = flagIds.length ? ctx.database.db.select({ infantId: flags.infantId, unitId: flags.unitId }).from(flags).where(inArray(flags.id, flagIds)).all() : [];
+    const shown = infantsOfFlags(ctx, [...new Set(notes.map((n) => n.flagId))]);
     await auditListRead(ctx.database.sqlite, { at: ctx.clock.now(), actorId: req.auth!.userId, view: 'my-review-notes', infants: shown });
     res.json({ notes });
   });

@@ -2,8 +2,10 @@ import type Database from 'better-sqlite3';
 import { randomUUID } from 'node:crypto';
 import { REVIEW_KINDS, type ReviewKind, type ReviewQueueQuery } from '../../shared/schemas/review';
 import { shiftAt } from '../../shared/shifts';
-import { eq, inArray } from 'drizzle-orm';
-import { flags as flagsTable, reviews, users } from '../../db/schema';
+import { and, asc, between, desc, eq, inArray, min } from 'drizzle-orm';
+import { alias } from 'drizzle-orm/sqlite-core';
+import type { Db } from '../../db/client';
+import { actions, assignments, beds, flagEvents, flagResolutions, flags as flagsTable, infants, readings, reviews, units, users } from '../../db/schema';
 import { median } from '../../shared/reports';
 import { FEVER_MIN_CENTI, NORMAL_MAX_CENTI } from '../../shared/thermal/bands';
 import { HEART_RATE_HIGH_ABOVE } from '../../shared/thermal/heat-stress';
@@ -11,84 +13,102 @@ import { formatTemperature, HEAT_STRESS_SIGN_LABELS, type TempUnit } from '../..
 import type { UnitRangeQuery } from '../../shared/schemas/review';
 import type { MyReviewNote, NurseSummaryResponse, NurseSummaryRow, PersonRef, ReviewItemDetail, ReviewNote, ReviewQueueItem, ReviewQueueResponse } from '../../shared/types/review';
 import { dbOf } from './flag-lifecycle';
-import { loadNotes, reviewStatuses, reviewStatusOf, UNREVIEWED, type ReviewStatusOf } from './review-loop';
+import { closeNoTeachingPoint, loadNotes, reviewStatuses, reviewStatusOf, UNREVIEWED, type ReviewStatusOf } from './review-loop';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { badRequest, forbidden, notFound } from '../errors';
 import { bedAtLookup } from './bed-stays';
 import { BAND_LABELS } from '../../shared/thermal/bands';
 
-interface FlagRow {
-  id: string;
-  kind: ReviewKind;
-  unit_id: string;
-  unit_name: string;
-  time_zone: string;
-  day_shift_start: string;
-  night_shift_start: string;
-  infant_id: string;
-  infant_name: string;
-  bed_label: string | null;
-  raised_at: number;
-  raised_by_reading_id: string | null;
-  detail: string;
-  reading_by: string | null;
-  reading_by_name: string | null;
-  reading_upload_id: string | null;
-  hospital_number: string | null;
-  first_action_at: number | null;
-  closed_at: number | null;
-  how: string | null;
-  review_count: number;
-  last_review_at: number | null;
-  reading_recorder: string | null;
-  reading_recorder_name: string | null;
+const MINUTE = 60_000;
+
+function isReviewKind(kind: string): kind is ReviewKind {
+  return (REVIEW_KINDS as readonly string[]).includes(kind);
 }
 
-const MINUTE = 60_000;
-const KIND_LIST = REVIEW_KINDS.map((k) => `'${k}'`).join(', ');
+/** The stored flag kinds the review queue shows. */
+const QUEUE_KINDS = flagsTable.kind.enumValues.filter(isReviewKind);
 
 /** Local calendar date of an instant in a zone, YYYY-MM-DD. */
 export function localDateOf(instant: Date, timeZone: string): string {
   return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(instant);
 }
 
-function loadFlagRows(sqlite: Database.Database, unitIds: string[], flagId?: string): FlagRow[] {
+/** The queue's flags of these units (one flag when `flagId` is given), newest first, with what the queue shows of them. */
+function loadFlagRows(db: Db, unitIds: string[], flagId?: string) {
   if (unitIds.length === 0) return [];
-  const marks = unitIds.map(() => '?').join(', ');
-  return sqlite
-    .prepare(
-      `SELECT f.id, f.kind, f.unit_id, u.name AS unit_name, u.time_zone, u.day_shift_start, u.night_shift_start,
-              f.infant_id, i.display_name AS infant_name, b.label AS bed_label, f.raised_at, f.raised_by_reading_id, f.detail,
-              CASE WHEN r.upload_id IS NULL THEN r.recorded_by ELSE r.taken_by END AS reading_by, ru.name AS reading_by_name, r.upload_id AS reading_upload_id,
-              r.recorded_by AS reading_recorder, rec.name AS reading_recorder_name, i.hospital_number,
-              (SELECT MIN(a.at) FROM actions a WHERE a.flag_id = f.id) AS first_action_at,
-              fr.closed_at,
-              -- A flag closed before its raising reading was corrected away was withdrawn later (an event).
-              CASE WHEN EXISTS (SELECT 1 FROM flag_events e WHERE e.flag_id = f.id AND e.event = 'withdrawn') THEN 'withdrawn' ELSE fr.how END AS how,
-              (SELECT COUNT(*) FROM reviews v WHERE v.flag_id = f.id) AS review_count,
-              (SELECT MAX(v.created_at) FROM reviews v WHERE v.flag_id = f.id) AS last_review_at
-         FROM flags f
-         JOIN units u ON u.id = f.unit_id
-         JOIN infants i ON i.id = f.infant_id
-         LEFT JOIN beds b ON b.id = i.bed_id
-         LEFT JOIN readings r ON r.id = f.raised_by_reading_id
-         LEFT JOIN users ru ON ru.id = CASE WHEN r.upload_id IS NULL THEN r.recorded_by ELSE r.taken_by END
-         LEFT JOIN users rec ON rec.id = r.recorded_by
-         LEFT JOIN flag_resolutions fr ON fr.flag_id = f.id
-        WHERE f.kind IN (${KIND_LIST}) AND f.unit_id IN (${marks}) ${flagId ? 'AND f.id = ?' : ''}
-        ORDER BY f.raised_at DESC, f.id`,
-    )
-    .all(...unitIds, ...(flagId ? [flagId] : [])) as FlagRow[];
+  const recorder = alias(users, 'recorder');
+  const taker = alias(users, 'taker');
+  const firstActions = db.select({ flagId: actions.flagId, at: min(actions.at).as('first_action_at') }).from(actions).groupBy(actions.flagId).as('first_actions');
+  const withdrawnLater = db.selectDistinct({ flagId: flagEvents.flagId }).from(flagEvents).where(eq(flagEvents.event, 'withdrawn')).as('withdrawn_later');
+  const rows = db
+    .select({
+      id: flagsTable.id,
+      kind: flagsTable.kind,
+      unitId: flagsTable.unitId,
+      unitName: units.name,
+      timeZone: units.timeZone,
+      dayShiftStart: units.dayShiftStart,
+      nightShiftStart: units.nightShiftStart,
+      infantId: flagsTable.infantId,
+      infantName: infants.displayName,
+      bedLabel: beds.label,
+      hospitalNumber: infants.hospitalNumber,
+      raisedAt: flagsTable.raisedAt,
+      raisedByReadingId: flagsTable.raisedByReadingId,
+      detail: flagsTable.detail,
+      readingUploadId: readings.uploadId,
+      readingRecorder: readings.recordedBy,
+      readingRecorderName: recorder.name,
+      readingTaker: readings.takenBy,
+      readingTakerName: taker.name,
+      firstActionAt: firstActions.at,
+      closedAt: flagResolutions.closedAt,
+      how: flagResolutions.how,
+      withdrawnLater: withdrawnLater.flagId,
+    })
+    .from(flagsTable)
+    .innerJoin(units, eq(units.id, flagsTable.unitId))
+    .innerJoin(infants, eq(infants.id, flagsTable.infantId))
+    .leftJoin(beds, eq(beds.id, infants.bedId))
+    .leftJoin(readings, eq(readings.id, flagsTable.raisedByReadingId))
+    .leftJoin(recorder, eq(recorder.id, readings.recordedBy))
+    .leftJoin(taker, eq(taker.id, readings.takenBy))
+    .leftJoin(firstActions, eq(firstActions.flagId, flagsTable.id))
+    .leftJoin(flagResolutions, eq(flagResolutions.flagId, flagsTable.id))
+    .leftJoin(withdrawnLater, eq(withdrawnLater.flagId, flagsTable.id))
+    .where(and(inArray(flagsTable.kind, QUEUE_KINDS), inArray(flagsTable.unitId, unitIds), flagId ? eq(flagsTable.id, flagId) : undefined))
+    .orderBy(desc(flagsTable.raisedAt), asc(flagsTable.id))
+    .all();
+  return rows.flatMap(({ kind, withdrawnLater: withdrawn, readingTaker, readingTakerName, ...r }) => {
+    if (!isReviewKind(kind)) return [];
+    // A bedside reading was charted by whoever took it; an imported one credits the nurse the file named.
+    const bedside = r.readingUploadId === null;
+    return [
+      {
+        ...r,
+        kind,
+        raisedMs: r.raisedAt.getTime(),
+        readingBy: bedside ? r.readingRecorder : readingTaker,
+        readingByName: bedside ? r.readingRecorderName : readingTakerName,
+        // A flag closed before its raising reading was corrected away was withdrawn later (an event).
+        how: withdrawn !== null ? 'withdrawn' : r.how,
+      },
+    ];
+  });
 }
 
-function assignedNurse(sqlite: Database.Database, infantId: string, shiftDate: string, shift: string): PersonRef | null {
-  const row = sqlite
-    .prepare(
-      `SELECT n.id, n.name FROM assignments a JOIN users n ON n.id = a.nurse_id
-        WHERE a.infant_id = ? AND a.shift_date = ? AND a.shift = ? ORDER BY a.created_at DESC LIMIT 1`,
-    )
-    .get(infantId, shiftDate, shift) as PersonRef | undefined;
+type FlagRow = ReturnType<typeof loadFlagRows>[number];
+
+function assignedNurse(db: Db, infantId: string, shiftDate: string, shift: 'day' | 'night'): PersonRef | null {
+  const row = db
+    .select({ id: users.id, name: users.name })
+    .from(assignments)
+    .innerJoin(users, eq(users.id, assignments.nurseId))
+    .where(and(eq(assignments.infantId, infantId), eq(assignments.shiftDate, shiftDate), eq(assignments.shift, shift)))
+    .orderBy(desc(assignments.createdAt))
+    .limit(1)
+    .get();
   return row ?? null;
 }
 
@@ -135,34 +155,34 @@ function summaryOf(kind: ReviewKind, detail: Record<string, unknown>, unit: Temp
 }
 
 /** The nurse concerned with a flag: who charted the raising reading, or for an overdue check the nurse assigned. */
-function nurseFor(sqlite: Database.Database, row: FlagRow, slot: { shiftDate: string; shift: string }) {
-  const recorder = row.reading_by ? { id: row.reading_by, name: row.reading_by_name ?? '' } : null;
-  const importedBy = row.reading_upload_id !== null && row.reading_by === null && row.reading_recorder ? { id: row.reading_recorder, name: row.reading_recorder_name ?? '' } : null;
+function nurseFor(db: Db, row: FlagRow, slot: { shiftDate: string; shift: 'day' | 'night' }) {
+  const recorder = row.readingBy ? { id: row.readingBy, name: row.readingByName ?? '' } : null;
+  const importedBy = row.readingUploadId !== null && row.readingBy === null && row.readingRecorder ? { id: row.readingRecorder, name: row.readingRecorderName ?? '' } : null;
   const nurse =
     row.kind === 'overdue-check'
-      ? (assignedNurse(sqlite, row.infant_id, slot.shiftDate, slot.shift) ?? recorder)
+      ? (assignedNurse(db, row.infantId, slot.shiftDate, slot.shift) ?? recorder)
       : importedBy
         ? null
-        : (recorder ?? assignedNurse(sqlite, row.infant_id, slot.shiftDate, slot.shift));
+        : (recorder ?? assignedNurse(db, row.infantId, slot.shiftDate, slot.shift));
   return { nurse, importedBy };
 }
 
-function toItem(sqlite: Database.Database, row: FlagRow, status: ReviewStatusOf = UNREVIEWED, unit: TempUnit = 'C'): ReviewQueueItem {
-  const raisedAt = new Date(row.raised_at);
-  const slot = shiftAt(raisedAt, { dayShiftStart: row.day_shift_start, nightShiftStart: row.night_shift_start, timeZone: row.time_zone });
+function toItem(db: Db, row: FlagRow, status: ReviewStatusOf = UNREVIEWED, unit: TempUnit = 'C'): ReviewQueueItem {
+  const raisedAt = row.raisedAt;
+  const slot = shiftAt(raisedAt, row);
   const detail = JSON.parse(row.detail) as Record<string, unknown>;
   // An imported reading credits the nurse the file named; a file that named nobody credits no nurse, and the uploader is shown as who imported it.
-  const { nurse, importedBy } = nurseFor(sqlite, row, slot);
-  const mins = (at: number | null) => (at === null ? null : Math.max(0, Math.round((at - row.raised_at) / MINUTE)));
+  const { nurse, importedBy } = nurseFor(db, row, slot);
+  const mins = (at: Date | null) => (at === null ? null : Math.max(0, Math.round((at.getTime() - row.raisedMs) / MINUTE)));
   return {
     flagId: row.id,
     kind: row.kind,
-    unitId: row.unit_id,
-    unitName: row.unit_name,
-    timeZone: row.time_zone,
-    infantId: row.infant_id,
-    infantName: row.infant_name,
-    bedLabel: row.bed_label,
+    unitId: row.unitId,
+    unitName: row.unitName,
+    timeZone: row.timeZone,
+    infantId: row.infantId,
+    infantName: row.infantName,
+    bedLabel: row.bedLabel,
     raisedAt: raisedAt.toISOString(),
     shift: slot.shift,
     shiftDate: slot.shiftDate,
@@ -170,19 +190,19 @@ function toItem(sqlite: Database.Database, row: FlagRow, status: ReviewStatusOf 
     importedBy,
     // A withdrawn overdue check was on time after all: it never describes itself as late.
     summary: row.how === 'withdrawn' && row.kind === 'overdue-check' ? 'Remote-site check charted on time (withdrawn)' : summaryOf(row.kind, detail, unit),
-    firstActionAt: row.first_action_at === null ? null : new Date(row.first_action_at).toISOString(),
-    closedAt: row.closed_at === null ? null : new Date(row.closed_at).toISOString(),
+    firstActionAt: row.firstActionAt === null ? null : row.firstActionAt.toISOString(),
+    closedAt: row.closedAt === null ? null : row.closedAt.toISOString(),
     // A late entry or correction showed it should not have been raised: never a late check.
     withdrawn: row.how === 'withdrawn',
-    minutesToFirstAction: mins(row.first_action_at),
-    minutesToResolution: row.how === 'withdrawn' ? null : mins(row.closed_at),
+    minutesToFirstAction: mins(row.firstActionAt),
+    minutesToResolution: row.how === 'withdrawn' ? null : mins(row.closedAt),
     reviewCount: status.current,
     lastReviewedAt: status.lastAt === null ? null : new Date(status.lastAt).toISOString(),
     reviewState: status.state,
   };
 }
 
-const encodeCursor = (row: { raised_at: number; id: string }) => Buffer.from(`${row.raised_at}.${row.id}`, 'utf8').toString('base64url');
+const encodeCursor = (row: { raisedMs: number; id: string }) => Buffer.from(`${row.raisedMs}.${row.id}`, 'utf8').toString('base64url');
 
 function decodeCursor(cursor: string): { at: number; id: string } {
   const text = Buffer.from(cursor, 'base64url').toString('utf8');
@@ -199,23 +219,21 @@ function decodeCursor(cursor: string): { at: number; id: string } {
  * filter list comes from the unfiltered set.
  */
 export function reviewQueue(ctx: AppContext, unitIds: string[], query: Omit<ReviewQueueQuery, 'limit'> & { limit?: number | 'all' }, unit: TempUnit = 'C'): ReviewQueueResponse {
-  const { sqlite } = ctx.database;
-  const units = unitIds.length
-    ? (sqlite.prepare(`SELECT id, name FROM units WHERE id IN (${unitIds.map(() => '?').join(', ')}) ORDER BY name`).all(...unitIds) as Array<{ id: string; name: string }>)
-    : [];
+  const { db } = ctx.database;
+  const unitList = unitIds.length ? db.select({ id: units.id, name: units.name }).from(units).where(inArray(units.id, unitIds)).orderBy(asc(units.name)).all() : [];
   const scope = query.unitId ? unitIds.filter((u) => u === query.unitId) : unitIds;
-  const loaded = loadFlagRows(sqlite, scope);
-  const bedAt = bedAtLookup(ctx.database.db, loaded.map((r) => r.infant_id));
-  for (const r of loaded) r.bed_label = bedAt(r.infant_id, r.raised_at) ?? r.bed_label;
-  const statuses = reviewStatuses(dbOf(sqlite), scope);
+  const loaded = loadFlagRows(db, scope);
+  const bedAt = bedAtLookup(db, loaded.map((r) => r.infantId));
+  for (const r of loaded) r.bedLabel = bedAt(r.infantId, r.raisedMs) ?? r.bedLabel;
+  const statuses = reviewStatuses(db, scope);
   const statusOf = (flagId: string) => statuses.get(flagId) ?? UNREVIEWED;
   const needle = query.q?.trim().toLowerCase();
   const rows = loaded.filter((r) => {
     if (query.kind && r.kind !== query.kind) return false;
-    if (query.infantId && r.infant_id !== query.infantId) return false;
-    if (needle && ![r.infant_name, r.bed_label ?? '', r.hospital_number ?? ''].some((v) => v.toLowerCase().includes(needle))) return false;
+    if (query.infantId && r.infantId !== query.infantId) return false;
+    if (needle && ![r.infantName, r.bedLabel ?? '', r.hospitalNumber ?? ''].some((v) => v.toLowerCase().includes(needle))) return false;
     if (query.from || query.to) {
-      const date = localDateOf(new Date(r.raised_at), r.time_zone);
+      const date = localDateOf(r.raisedAt, r.timeZone);
       if (query.from && date < query.from) return false;
       if (query.to && date > query.to) return false;
     }
@@ -224,12 +242,12 @@ export function reviewQueue(ctx: AppContext, unitIds: string[], query: Omit<Revi
     if (query.status === 'unreviewed' && statusOf(r.id).state !== 'unreviewed') return false;
     return true;
   });
-  const all = rows.map((r) => ({ row: r, item: toItem(sqlite, r, statusOf(r.id), unit) }));
+  const all = rows.map((r) => ({ row: r, item: toItem(db, r, statusOf(r.id), unit) }));
   const nurses = new Map<string, PersonRef>();
   for (const { item } of all) if (item.nurse) nurses.set(item.nurse.id, item.nurse);
   const matching = all.filter(({ item: i }) => (!query.shift || i.shift === query.shift) && (!query.nurseId || i.nurse?.id === query.nurseId));
   const after = query.cursor ? decodeCursor(query.cursor) : null;
-  const rest = after ? matching.filter(({ row }) => row.raised_at < after.at || (row.raised_at === after.at && row.id > after.id)) : matching;
+  const rest = after ? matching.filter(({ row }) => row.raisedMs < after.at || (row.raisedMs === after.at && row.id > after.id)) : matching;
   const limit = query.limit === 'all' ? rest.length : (query.limit ?? 200);
   const page = rest.slice(0, limit);
   const last = page[page.length - 1];
@@ -238,7 +256,7 @@ export function reviewQueue(ctx: AppContext, unitIds: string[], query: Omit<Revi
     total: matching.length,
     nextCursor: rest.length > page.length && last ? encodeCursor(last.row) : null,
     nurses: [...nurses.values()].sort((a, b) => a.name.localeCompare(b.name)),
-    units,
+    units: unitList,
   };
 }
 
@@ -248,59 +266,82 @@ export function loadReviews(sqlite: Database.Database, flagIds: string[]): Revie
 }
 
 /** Finds a queue flag; 404 when it does not exist, 403 when it belongs to another unit. */
-export function findFlag(ctx: AppContext, flagId: string, unitIds: string[]): FlagRow {
-  const { sqlite } = ctx.database;
-  const unit = sqlite.prepare(`SELECT unit_id FROM flags WHERE id = ? AND kind IN (${KIND_LIST})`).get(flagId) as { unit_id: string } | undefined;
+function findFlag(ctx: AppContext, flagId: string, unitIds: string[]): FlagRow {
+  const { db } = ctx.database;
+  const unit = db
+    .select({ unitId: flagsTable.unitId })
+    .from(flagsTable)
+    .where(and(eq(flagsTable.id, flagId), inArray(flagsTable.kind, QUEUE_KINDS)))
+    .get();
   if (!unit) throw notFound('That review item');
-  if (!unitIds.includes(unit.unit_id)) throw forbidden('This item belongs to a unit you are not part of.');
-  return loadFlagRows(sqlite, [unit.unit_id], flagId)[0]!;
+  if (!unitIds.includes(unit.unitId)) throw forbidden('This item belongs to a unit you are not part of.');
+  return loadFlagRows(db, [unit.unitId], flagId)[0]!;
+}
+
+/** Close a review item with no teaching point (the review's status, not the flag's). */
+export function closeWithNoTeachingPoint(ctx: AppContext, flagId: string, comment: string | undefined, auth: { userId: string; unitIds: string[] }) {
+  const row = findFlag(ctx, flagId, auth.unitIds);
+  return closeNoTeachingPoint(ctx, { id: row.id, unitId: row.unitId }, comment, auth);
 }
 
 /** The event in full: readings from 3 hours before the flag to an hour after it closed (or was raised). An audited chart read. */
 export function reviewItemDetail(ctx: AppContext, flagId: string, auth: { userId: string; unitIds: string[] }, unit: TempUnit = 'C'): ReviewItemDetail {
-  const { sqlite } = ctx.database;
+  const { sqlite, db } = ctx.database;
   const row = findFlag(ctx, flagId, auth.unitIds);
-  const status = reviewStatusOf(dbOf(sqlite), flagId);
-  const item = toItem(sqlite, row, status, unit);
-  const from = row.raised_at - 3 * 60 * MINUTE;
-  const to = Math.max(row.closed_at ?? row.raised_at, row.first_action_at ?? 0, row.raised_at) + 60 * MINUTE;
-  const readings = (
-    sqlite
-      .prepare(
-        `SELECT r.id, r.taken_at, r.recorded_by, u.name AS by_name, r.probe_centi, r.remote_centi, r.remote_site, r.control_mode, r.heater_output_pct,
-                r.heart_rate, r.note, EXISTS (SELECT 1 FROM readings c WHERE c.replaces_id = r.id) AS replaced
-           FROM readings r JOIN users u ON u.id = r.recorded_by
-          WHERE r.infant_id = ? AND r.taken_at BETWEEN ? AND ? ORDER BY r.taken_at, r.recorded_at`,
-      )
-      .all(row.infant_id, from, to) as Array<{
-      id: string; taken_at: number; recorded_by: string; by_name: string; probe_centi: number | null; remote_centi: number | null; remote_site: string | null;
-      control_mode: string | null; heater_output_pct: number | null; heart_rate: number | null; note: string | null; replaced: number;
-    }>
-  ).map((r) => ({
-    id: r.id,
-    takenAt: new Date(r.taken_at).toISOString(),
-    recordedBy: { id: r.recorded_by, name: r.by_name },
-    probeCenti: r.probe_centi,
-    remoteCenti: r.remote_centi,
-    remoteSite: r.remote_site,
-    controlMode: r.control_mode,
-    heaterOutputPct: r.heater_output_pct,
-    heartRate: r.heart_rate,
-    note: r.note,
-    raisedFlag: r.id === row.raised_by_reading_id,
-    replaced: r.replaced === 1,
-  }));
-  const actions = (
-    sqlite
-      .prepare('SELECT a.id, a.kind, a.note, a.at, u.id AS by_id, u.name AS by_name FROM actions a JOIN users u ON u.id = a.recorded_by WHERE a.flag_id = ? ORDER BY a.at, a.id')
-      .all(flagId) as Array<{ id: string; kind: string; note: string | null; at: number; by_id: string; by_name: string }>
-  ).map((a) => ({ id: a.id, kind: a.kind, note: a.note, at: new Date(a.at).toISOString(), by: { id: a.by_id, name: a.by_name } }));
-  ctx.database.sqlite
+  const status = reviewStatusOf(db, flagId);
+  const item = toItem(db, row, status, unit);
+  const from = row.raisedMs - 3 * 60 * MINUTE;
+  const to = Math.max(row.closedAt?.getTime() ?? row.raisedMs, row.firstActionAt?.getTime() ?? 0, row.raisedMs) + 60 * MINUTE;
+  const correction = alias(readings, 'correction');
+  const around = db
+    .select({
+      id: readings.id,
+      takenAt: readings.takenAt,
+      recordedBy: readings.recordedBy,
+      byName: users.name,
+      probeCenti: readings.probeCenti,
+      remoteCenti: readings.remoteCenti,
+      remoteSite: readings.remoteSite,
+      controlMode: readings.controlMode,
+      heaterOutputPct: readings.heaterOutputPct,
+      heartRate: readings.heartRate,
+      note: readings.note,
+      correctedBy: correction.id,
+    })
+    .from(readings)
+    .innerJoin(users, eq(users.id, readings.recordedBy))
+    .leftJoin(correction, eq(correction.replacesId, readings.id))
+    .where(and(eq(readings.infantId, row.infantId), between(readings.takenAt, new Date(from), new Date(to))))
+    .orderBy(asc(readings.takenAt), asc(readings.recordedAt))
+    .all()
+    .map((r) => ({
+      id: r.id,
+      takenAt: r.takenAt.toISOString(),
+      recordedBy: { id: r.recordedBy, name: r.byName },
+      probeCenti: r.probeCenti,
+      remoteCenti: r.remoteCenti,
+      remoteSite: r.remoteSite,
+      controlMode: r.controlMode,
+      heaterOutputPct: r.heaterOutputPct,
+      heartRate: r.heartRate,
+      note: r.note,
+      raisedFlag: r.id === row.raisedByReadingId,
+      replaced: r.correctedBy !== null,
+    }));
+  const done = db
+    .select({ id: actions.id, kind: actions.kind, note: actions.note, at: actions.at, byId: users.id, byName: users.name })
+    .from(actions)
+    .innerJoin(users, eq(users.id, actions.recordedBy))
+    .where(eq(actions.flagId, flagId))
+    .orderBy(asc(actions.at), asc(actions.id))
+    .all()
+    .map((a) => ({ id: a.id, kind: a.kind, note: a.note, at: a.at.toISOString(), by: { id: a.byId, name: a.byName } }));
+  sqlite
     .transaction(() =>
-      appendAudit(sqlite, { at: ctx.clock.now(), actorId: auth.userId, action: 'chart-read', entityType: 'flag', entityId: flagId, unitId: row.unit_id, after: { view: 'review-item' } }),
+      appendAudit(sqlite, { at: ctx.clock.now(), actorId: auth.userId, action: 'chart-read', entityType: 'flag', entityId: flagId, unitId: row.unitId, after: { view: 'review-item' } }),
     )
     .immediate();
-  return { item, detail: JSON.parse(row.detail) as Record<string, unknown>, readings, actions, reviews: loadReviews(sqlite, [flagId]), noTeachingPoint: status.noTeachingPoint };
+  return { item, detail: JSON.parse(row.detail) as Record<string, unknown>, readings: around, actions: done, reviews: loadReviews(sqlite, [flagId]), noTeachingPoint: status.noTeachingPoint };
 }
 
 /** Append a teaching note (reviews are append-only: a second note is a new row). */
@@ -311,8 +352,8 @@ export function addTeachingNote(ctx: AppContext, flagId: string, note: string, a
   const now = ctx.clock.now();
   sqlite
     .transaction(() => {
-      dbOf(sqlite).insert(reviews).values({ id, flagId, unitId: row.unit_id, reviewerId: auth.userId, note, createdAt: now }).run();
-      appendAudit(sqlite, { at: now, actorId: auth.userId, action: 'review-note', entityType: 'review', entityId: id, unitId: row.unit_id, after: { flagId, note } });
+      dbOf(sqlite).insert(reviews).values({ id, flagId, unitId: row.unitId, reviewerId: auth.userId, note, createdAt: now }).run();
+      appendAudit(sqlite, { at: now, actorId: auth.userId, action: 'review-note', entityType: 'review', entityId: id, unitId: row.unitId, after: { flagId, note } });
     })
     .immediate();
   return loadReviews(sqlite, [flagId]).find((r) => r.id === id)!;
@@ -320,12 +361,11 @@ export function addTeachingNote(ctx: AppContext, flagId: string, note: string, a
 
 /** The nurse concerned with a flag (the queue's rule), or null. */
 export function nurseConcerned(ctx: AppContext, flagId: string): string | null {
-  const { sqlite } = ctx.database;
-  const unit = dbOf(sqlite).select({ unitId: flagsTable.unitId }).from(flagsTable).where(eq(flagsTable.id, flagId)).get();
-  const row = unit ? loadFlagRows(sqlite, [unit.unitId], flagId)[0] : undefined;
+  const { db } = ctx.database;
+  const unit = db.select({ unitId: flagsTable.unitId }).from(flagsTable).where(eq(flagsTable.id, flagId)).get();
+  const row = unit ? loadFlagRows(db, [unit.unitId], flagId)[0] : undefined;
   if (!row) return null;
-  const slot = shiftAt(new Date(row.raised_at), { dayShiftStart: row.day_shift_start, nightShiftStart: row.night_shift_start, timeZone: row.time_zone });
-  return nurseFor(sqlite, row, slot).nurse?.id ?? null;
+  return nurseFor(db, row, shiftAt(row.raisedAt, row)).nurse?.id ?? null;
 }
 
 /**
@@ -333,19 +373,24 @@ export function nurseConcerned(ctx: AppContext, flagId: string): string | null {
  * A withdrawn note is no longer shown to her; an amended one shows its current version.
  */
 export function myReviewNotes(ctx: AppContext, auth: { userId: string; unitIds: string[] }): MyReviewNote[] {
-  const { sqlite } = ctx.database;
-  const db = dbOf(sqlite);
+  const { sqlite, db } = ctx.database;
   const flagIds = auth.unitIds.length ? [...new Set(db.select({ flagId: reviews.flagId }).from(reviews).where(inArray(reviews.unitId, auth.unitIds)).all().map((r) => r.flagId))] : [];
   const notes: MyReviewNote[] = [];
   for (const flagId of flagIds) {
     const unit = db.select({ unitId: flagsTable.unitId }).from(flagsTable).where(eq(flagsTable.id, flagId)).get();
-    const row = unit ? loadFlagRows(sqlite, [unit.unitId], flagId)[0] : undefined;
+    const row = unit ? loadFlagRows(db, [unit.unitId], flagId)[0] : undefined;
     if (!row) continue;
-    const item = toItem(sqlite, row);
+    const item = toItem(db, row);
     if (item.nurse?.id !== auth.userId) continue;
     for (const n of loadReviews(sqlite, [flagId])) if (!n.withdrawn) notes.push({ ...n, kind: item.kind, infantName: item.infantName, raisedAt: item.raisedAt });
   }
   return notes.sort((a, b) => (a.createdAt < b.createdAt ? 1 : a.createdAt > b.createdAt ? -1 : 0));
+}
+
+/** The infants (and their units) these flags are about, for the read's audit. */
+export function infantsOfFlags(ctx: AppContext, flagIds: string[]): Array<{ infantId: string; unitId: string }> {
+  if (flagIds.length === 0) return [];
+  return ctx.database.db.select({ infantId: flagsTable.infantId, unitId: flagsTable.unitId }).from(flagsTable).where(inArray(flagsTable.id, flagIds)).all();
 }
 
 /** Per nurse concerned, over a range of local dates in one unit: flags, review outcomes and the median minutes to first action. */
