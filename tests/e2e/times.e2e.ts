@@ -1,0 +1,112 @@
+import assert from 'node:assert/strict';
+import { after, before, describe, it } from 'node:test';
+import type { Browser, Page } from 'playwright-core';
+import { ACCOUNTS, apiToken, BASE_URL, launch, PHONE, shot, signIn } from './support';
+
+let browser: Browser;
+before(async () => {
+  browser = await launch();
+});
+after(async () => {
+  await browser.close();
+});
+
+const INFANT = 'inf-fernhollow';
+
+/** The infant's readings as the server has them (the widest window). */
+async function readings(token: string): Promise<Array<{ takenAt: string; probeCenti: number | null }>> {
+  const res = await fetch(`${BASE_URL}/api/infants/${INFANT}/flowsheet?hours=72`, { headers: { Authorization: `Bearer ${token}` } });
+  assert.equal(res.status, 200);
+  return ((await res.json()) as { readings: Array<{ takenAt: string; probeCenti: number | null }> }).readings;
+}
+
+/** Hours and minutes on the unit's wall clock, `minutesAhead` from now. */
+function wallClock(timeZone: string, minutesAhead: number): { hhmm: string; sameDay: boolean } {
+  const at = new Date(Date.now() + minutesAhead * 60_000);
+  const f = new Intl.DateTimeFormat('en-GB', { timeZone, hour: '2-digit', minute: '2-digit', hourCycle: 'h23', day: '2-digit' });
+  const parts = (d: Date) => Object.fromEntries(f.formatToParts(d).map((p) => [p.type, p.value]));
+  const later = parts(at);
+  return { hhmm: `${later.hour}:${later.minute}`, sameDay: later.day === parts(new Date()).day };
+}
+
+const focusedLabel = (page: Page) => page.evaluate(() => document.activeElement?.getAttribute('aria-label') ?? '');
+
+/** Whether the element's box lies inside the phone's screen (not below the fold, not under the footer). */
+async function onScreen(page: Page, text: string): Promise<boolean> {
+  const box = await page.getByText(text, { exact: true }).first().boundingBox();
+  return box !== null && box.y >= 0 && box.y + box.height <= PHONE.height;
+}
+
+describe('date-aware times on a phone', () => {
+  it('a time later than now is refused with the field in view and focused, nothing is saved; the same time yesterday is taken', async () => {
+    const token = await apiToken(ACCOUNTS.nurse);
+    const detail = (await (await fetch(`${BASE_URL}/api/infants/${INFANT}`, { headers: { Authorization: `Bearer ${token}` } })).json()) as { timeZone: string };
+    const zone = detail.timeZone;
+    // Half an hour ahead on the unit's clock; in the last minutes before its midnight there is no later time today: wait them out.
+    let ahead = wallClock(zone, 30);
+    while (!ahead.sameDay && !wallClock(zone, 3).sameDay) {
+      await new Promise((r) => setTimeout(r, 30_000));
+      ahead = wallClock(zone, 30);
+    }
+    const future = ahead.sameDay ? ahead.hhmm : '23:59';
+    const before = await readings(token);
+
+    // The phone is set to another zone than the unit's: the form reads the unit's wall clock.
+    const context = await browser.newContext({ viewport: PHONE, timezoneId: zone === 'Pacific/Auckland' ? 'America/Chicago' : 'Pacific/Auckland' });
+    const page = await context.newPage();
+    page.setDefaultTimeout(15_000);
+    await signIn(page, ACCOUNTS.nurse);
+    await page.goto(`${BASE_URL}/infants`);
+    await page.getByRole('radio', { name: 'Whole unit' }).click();
+    await page.getByRole('link', { name: /^N06, Baby Fernhollow/ }).click();
+    await page.getByRole('heading', { name: /Baby Fernhollow/, level: 1 }).waitFor();
+    await page.getByRole('button', { name: 'Record', exact: true }).click();
+    await page.getByLabel(/^Probe temperature/).fill('36.8');
+    await page.getByLabel(/^Remote-site temperature/).fill('36.7');
+
+    const time = page.getByLabel(/^Time taken/);
+    await time.fill(future);
+    await page.getByText(`Taken: Today, ${future}`).waitFor();
+    await page.getByRole('radio', { name: 'Today', checked: true }).waitFor();
+
+    // Save from the top of the form: the refusal brings the time into view and gives it the focus.
+    await page.getByLabel(/^Probe temperature/).focus();
+    await page.getByRole('button', { name: 'Save reading' }).click();
+    await page.getByText('The time cannot be in the future.').waitFor();
+    await page.waitForFunction(() => document.activeElement?.getAttribute('aria-label')?.startsWith('Time taken') ?? false);
+    assert.ok(await onScreen(page, 'The time cannot be in the future.'), 'the error is on screen');
+    assert.equal(await page.getByRole('alert').filter({ hasText: 'The time cannot be in the future.' }).count(), 1, 'the error is announced as an alert');
+    assert.equal(await page.getByLabel(/^Why is this charted late/).count(), 0, 'no late-entry reason is asked for a future time');
+    await shot(page, 'times-1-future-refused');
+
+    // Nothing was saved, nor kept as pending.
+    await page.waitForTimeout(500);
+    assert.equal((await readings(token)).length, before.length);
+    assert.equal(await page.getByText('Not yet saved').count(), 0);
+
+    // The same time on yesterday, named: charted late, so the reason is asked and then it saves.
+    await page.getByRole('radio', { name: 'Yesterday' }).click();
+    await page.getByText(`Taken: Yesterday, ${future}`).waitFor();
+    await page.getByRole('button', { name: 'Save reading' }).click();
+    await page.getByText(/more than 10 minutes ago: say why/).waitFor();
+    await page.waitForFunction(() => document.activeElement?.getAttribute('aria-label')?.startsWith('Why is this charted late') ?? false);
+    assert.match(await focusedLabel(page), /^Why is this charted late/);
+    await shot(page, 'times-2-late-reason');
+    await page.getByLabel(/^Why is this charted late/).fill('Charted after an admission next door.');
+    await page.getByRole('button', { name: 'Save reading' }).click();
+    await page.getByRole('heading', { name: /Baby Fernhollow/, level: 1 }).waitFor();
+
+    const after = await readings(token);
+    assert.equal(after.length, before.length + 1);
+    const saved = after.find((r) => !before.some((b) => b.takenAt === r.takenAt && b.probeCenti === r.probeCenti));
+    assert.ok(saved, 'the new reading is on the chart');
+    const hoursAgo = (Date.now() - Date.parse(saved.takenAt)) / 3_600_000;
+    // Yesterday at the time that was half an hour ahead today: about 23.5 hours ago, on the unit's clock.
+    assert.ok(hoursAgo > 23 && hoursAgo < 24, `saved ${hoursAgo.toFixed(2)} h ago`);
+    assert.equal(wallClock(zone, -Math.round((Date.now() - Date.parse(saved.takenAt)) / 60_000)).hhmm, future);
+    // The flowsheet dates it.
+    await page.getByText(new RegExp(`Yesterday, ${future}`)).first().waitFor();
+    await shot(page, 'times-3-dated-on-flowsheet');
+    await context.close();
+  });
+});
