@@ -3,6 +3,7 @@ import { StyleSheet, View } from 'react-native';
 import { problemOf } from '@/components/api/client';
 import { useUser } from '@/components/auth/auth-provider';
 import { useState } from 'react';
+import { useForm } from 'react-hook-form';
 import { useFlagActionMutation, useFlagHistory, useUndoActionMutation } from '@/components/queries/infants';
 import { useTheme } from '@/components/theme/theme-provider';
 import { Button } from '@/components/ui/button';
@@ -10,26 +11,28 @@ import { Card } from '@/components/ui/card';
 import { StatusBadge, type StatusTone } from '@/components/ui/status-badge';
 import type { IconName } from '@/components/ui/icon';
 import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
 import { ACTION_LABELS, type ActionKind } from '@/shared/vocabulary';
 import { BAND_LABELS } from '@/shared/thermal/bands';
 import type { FlagKind } from '@/shared/thermal/evaluate';
 import { HEAT_STRESS_CHECKLIST, HEAT_STRESS_SIGN_LABELS, type HeatStressReason } from '@/shared/thermal/heat-stress';
 import { CLINICAL_PROMPT_CAVEAT } from '@/shared/thermal/policy';
 import type { Flowsheet, FlowsheetFlag } from '@/shared/types/bedside';
-import { clockTime, duration, FLAG_LABELS, temp, tempDelta } from './format';
+import { actionWords, clockTime, duration, FLAG_LABELS, temp, tempDelta } from './format';
 import { openRecordForm } from './open-record-form';
 import { escalationLines, flagLook } from '@/components/board/flag-look';
 
 /** What a nurse can record against each kind of flag, in the order she would usually try them. */
 export const FLAG_ACTIONS: Record<FlagKind, ActionKind[]> = {
-  gap: ['checked-probe-contact', 'checked-cover', 'moved-probe', 'adjusted-set-temperature', 'changed-control-mode'],
-  'heat-stress': ['adjusted-set-temperature', 'reduced-heater-output', 'checked-probe-contact', 'removed-coverings', 'informed-charge-nurse', 'informed-medical-team'],
-  'cold-stress': ['checked-probe-contact', 'checked-cover', 'adjusted-set-temperature', 'informed-charge-nurse', 'informed-medical-team'],
-  fever: ['checked-probe-contact', 'removed-coverings', 'informed-medical-team', 'informed-charge-nurse'],
-  'manual-mode': ['changed-control-mode', 'reduced-heater-output', 'informed-charge-nurse'],
-  'skin-to-skin-deviation': ['checked-probe-contact', 'informed-charge-nurse'],
-  'overdue-check': [],
+  gap: ['checked-probe-contact', 'checked-cover', 'moved-probe', 'adjusted-set-temperature', 'changed-control-mode', 'other'],
+  'heat-stress': ['adjusted-set-temperature', 'reduced-heater-output', 'checked-probe-contact', 'removed-coverings', 'informed-charge-nurse', 'informed-medical-team', 'other'],
+  'cold-stress': ['checked-probe-contact', 'checked-cover', 'adjusted-set-temperature', 'informed-charge-nurse', 'informed-medical-team', 'other'],
+  fever: ['checked-probe-contact', 'removed-coverings', 'informed-medical-team', 'informed-charge-nurse', 'other'],
+  'manual-mode': ['changed-control-mode', 'reduced-heater-output', 'informed-charge-nurse', 'other'],
+  'skin-to-skin-deviation': ['checked-probe-contact', 'informed-charge-nurse', 'other'],
+  'overdue-check': ['other'],
 };
+
 
 export function flagTone(kind: FlagKind): { tone: StatusTone; icon: IconName } {
   if (kind === 'heat-stress') return { tone: 'heat', icon: 'flame' };
@@ -56,6 +59,7 @@ export function FlagCard({ flag, sheet, canChart, now }: { flag: FlowsheetFlag; 
   const unit = user.tempUnit;
   const kinds = FLAG_ACTIONS[flag.kind];
   const done = new Set(flag.actions.map((a) => a.kind));
+  const [noting, setNoting] = useState(false);
   const recheckMs = flag.recheckDueAt ? Date.parse(flag.recheckDueAt) - now.getTime() : null;
   const { tone } = flagTone(flag.kind);
   const look = flagLook(flag);
@@ -100,7 +104,7 @@ export function FlagCard({ flag, sheet, canChart, now }: { flag: FlowsheetFlag; 
           {flag.actions.map((a) => (
             <View key={a.id} role="listitem" style={styles.actionRow}>
               <Text variant="caption">
-                ✓ {ACTION_LABELS[a.kind as ActionKind] ?? a.kind} · {a.recordedBy.name} at {clockTime(a.at, tz, user.clock)}
+                ✓ {actionWords(a)} · {a.recordedBy.name} at {clockTime(a.at, tz, user.clock)}
               </Text>
               {canChart && flag.id ? (
                 <Button
@@ -120,7 +124,11 @@ export function FlagCard({ flag, sheet, canChart, now }: { flag: FlowsheetFlag; 
           {kinds.length && flag.id ? <Text variant="label">Record what you did</Text> : null}
           <View style={styles.buttons} role="group" aria-label="Actions">
             {flag.id
-              ? kinds.map((kind) => (
+              ? kinds.map((kind) =>
+                  kind === 'other' ? (
+                    // Something else: its note says what, so it opens a note field first.
+                    <Button key={kind} compact variant="secondary" label={ACTION_LABELS[kind]} aria-expanded={noting} onPress={() => setNoting(!noting)} />
+                  ) : (
                   <Button
                     key={kind}
                     compact
@@ -130,10 +138,12 @@ export function FlagCard({ flag, sheet, canChart, now }: { flag: FlowsheetFlag; 
                     busy={mutation.isPending && mutation.variables?.body.kind === kind}
                     onPress={() => mutation.mutate({ flagId: flag.id!, body: { id: globalThis.crypto.randomUUID(), kind } })}
                   />
-                ))
+                  ),
+                )
               : null}
             <Button compact label={flag.kind === 'overdue-check' ? 'Record the check' : 'Record recheck'} icon="thermometer" onPress={openRecord} />
           </View>
+          {noting && flag.id ? <OtherActionForm flagId={flag.id} infantId={sheet.infant.id} onDone={() => setNoting(false)} /> : null}
         </View>
       ) : null}
       {mutation.isError || undo.isError ? (
@@ -147,6 +157,43 @@ export function FlagCard({ flag, sheet, canChart, now }: { flag: FlowsheetFlag; 
         {flag.kind === 'overdue-check' ? '' : ` Recheck ${sheet.policy.recheckMinutes} minutes after an action.`}
       </Text>
     </Card>
+  );
+}
+
+/** "Something else": what was done, in a note the nurse must write before it is saved. */
+function OtherActionForm({ flagId, infantId, onDone }: { flagId: string; infantId: string; onDone: () => void }) {
+  const mutation = useFlagActionMutation(infantId);
+  const [id] = useState(() => globalThis.crypto.randomUUID());
+  const { control, handleSubmit, setError } = useForm<{ note: string }>({ defaultValues: { note: '' } });
+  const problem = mutation.isError ? problemOf(mutation.error) : null;
+  const save = handleSubmit(({ note }) => {
+    if (!note.trim()) {
+      setError('note', { message: 'Say what you did.' });
+      return;
+    }
+    mutation.mutate({ flagId, body: { id, kind: 'other', note: note.trim() } }, { onSuccess: onDone });
+  });
+  return (
+    <View style={styles.list} role="group" aria-label="Something else">
+      <TextField
+        control={control}
+        name="note"
+        label="What did you do?"
+        autoFocus
+        returnKeyType="done"
+        onSubmitEditing={() => void save()}
+        serverError={problem && 'fields' in problem ? problem.fields?.note : undefined}
+      />
+      <View style={styles.buttons}>
+        <Button compact label="Save action" icon="check" busy={mutation.isPending} onPress={() => void save()} />
+        <Button compact variant="quiet" label="Cancel" onPress={onDone} />
+      </View>
+      {problem && !('fields' in problem && problem.fields?.note) ? (
+        <Text tone="danger" role="alert">
+          {problem.message}
+        </Text>
+      ) : null}
+    </View>
   );
 }
 
@@ -251,7 +298,7 @@ export function ClosedFlags({ sheet }: { sheet: Flowsheet }) {
             <StatusBadge tone="ok" icon="check" label={`${FLAG_LABELS[f.kind]} closed${f.closedAt ? ` ${clockTime(f.closedAt, tz, user.clock)}` : ''}`} />
           )}
           <Text variant="caption" tone="muted">
-            Raised {clockTime(f.raisedAt, tz, user.clock)} · {f.actions.map((a) => ACTION_LABELS[a.kind as ActionKind] ?? a.kind).join(', ') || 'no actions recorded'}
+            Raised {clockTime(f.raisedAt, tz, user.clock)} · {f.actions.map(actionWords).join(', ') || 'no actions recorded'}
           </Text>
         </View>
       ))}
