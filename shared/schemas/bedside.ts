@@ -116,6 +116,8 @@ export const createActionSchema = z
   .superRefine((v, ctx) => {
     if (v.kind === 'moved-probe' && v.probeSite == null) ctx.addIssue({ code: 'custom', path: ['probeSite'], message: 'Choose where the probe was moved to.' });
     if (v.kind !== 'moved-probe' && v.probeSite != null) ctx.addIssue({ code: 'custom', path: ['probeSite'], message: 'A probe site goes only with moving the probe.' });
+    // "Something else (see note)": the note is what was done.
+    if (v.kind === 'other' && !v.note?.trim()) ctx.addIssue({ code: 'custom', path: ['note'], message: 'Say what was done.' });
   });
 export type CreateActionInput = z.input<typeof createActionSchema>;
 
