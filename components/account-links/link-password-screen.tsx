@@ -4,16 +4,16 @@ import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import type { LinkPasswordInput } from '@/shared/schemas/auth';
 import { PASSWORD_MIN_LENGTH } from '@/shared/vocabulary';
-import { problemOf } from '../api/client';
-import { lazyZodResolver } from '../forms/lazy-resolver';
-import { FormRootError } from '../forms/form-root-error';
-import { useLinkPasswordMutation } from '../queries/admin';
-import { useTheme } from '../theme/theme-provider';
-import { Button } from '../ui/button';
-import { Card } from '../ui/card';
-import { Icon } from '../ui/icon';
-import { Text } from '../ui/text';
-import { TextField } from '../ui/text-field';
+import { problemOf } from '@/components/api/client';
+import { lazyZodResolver } from '@/components/forms/lazy-resolver';
+import { FormRootError } from '@/components/forms/form-root-error';
+import { useLinkPasswordMutation } from '@/components/queries/admin';
+import { useTheme } from '@/components/theme/theme-provider';
+import { Button } from '@/components/ui/button';
+import { Card } from '@/components/ui/card';
+import { Icon } from '@/components/ui/icon';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
 
 const linkPasswordResolver = lazyZodResolver<LinkPasswordInput>((m) => m.linkPasswordSchema);
 

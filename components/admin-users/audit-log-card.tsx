@@ -2,16 +2,16 @@ import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import type { AdminUnit, AuditEntry } from '@/shared/types/admin';
-import { problemOf } from '../api/client';
-import { useUser } from '../auth/auth-provider';
-import { useAdminUsersQuery, useAuditPageQuery, type AuditFilters } from '../queries/admin';
-import { useTheme } from '../theme/theme-provider';
-import { Button } from '../ui/button';
-import { Card } from '../ui/card';
-import { formatDayTime } from '../ui/format-time';
-import { LoadingState } from '../ui/state-view';
-import { Text } from '../ui/text';
-import { TextField } from '../ui/text-field';
+import { problemOf } from '@/components/api/client';
+import { useUser } from '@/components/auth/auth-provider';
+import { useAdminUsersQuery, useAuditPageQuery, type AuditFilters } from '@/components/queries/admin';
+import { useTheme } from '@/components/theme/theme-provider';
+import { Button } from '@/components/ui/button';
+import { Card } from '@/components/ui/card';
+import { formatDayTime } from '@/components/ui/format-time';
+import { LoadingState } from '@/components/ui/state-view';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
 
 interface FilterForm {
   person: string;

@@ -1,9 +1,9 @@
 import { useId, useState } from 'react';
 import { Modal, StyleSheet, View } from 'react-native';
-import { problemOf } from '../api/client';
-import { useTheme } from '../theme/theme-provider';
-import { Button } from '../ui/button';
-import { Text } from '../ui/text';
+import { problemOf } from '@/components/api/client';
+import { useTheme } from '@/components/theme/theme-provider';
+import { Button } from '@/components/ui/button';
+import { Text } from '@/components/ui/text';
 
 /** A change to a person that needs a second look before it is made. */
 export interface PendingChange {

@@ -1,12 +1,12 @@
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
-import { problemOf } from '../api/client';
-import { useCreateUnitMutation } from '../queries/admin';
-import { Button } from '../ui/button';
-import { Card } from '../ui/card';
-import { Text } from '../ui/text';
-import { TextField } from '../ui/text-field';
+import { problemOf } from '@/components/api/client';
+import { useCreateUnitMutation } from '@/components/queries/admin';
+import { Button } from '@/components/ui/button';
+import { Card } from '@/components/ui/card';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
 import { TimeZonePicker } from './time-zone-picker';
 
 interface Values {

@@ -1,4 +1,4 @@
-import { Text } from '../ui/text';
+import { Text } from '@/components/ui/text';
 
 /** Uploads are made from a computer's browser; phones show how. */
 export function FilePicker({ label }: { label: string; onPick: (file: File) => void }) {

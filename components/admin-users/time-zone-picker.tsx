@@ -1,9 +1,9 @@
 import { useMemo } from 'react';
 import { useController, type Control, type FieldValues, type Path } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
-import { Button } from '../ui/button';
-import { TextField } from '../ui/text-field';
-import { Text } from '../ui/text';
+import { Button } from '@/components/ui/button';
+import { TextField } from '@/components/ui/text-field';
+import { Text } from '@/components/ui/text';
 
 /** The canonical IANA zones this browser knows, plus UTC (the server checks against its own list). */
 export const CANONICAL_ZONES: readonly string[] = [...new Set([...Intl.supportedValuesOf('timeZone'), 'UTC'])].sort();

@@ -2,15 +2,15 @@ import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import type { AdminBed, AdminUnit } from '@/shared/types/admin';
-import { problemOf } from '../api/client';
-import { lazyZodResolver } from '../forms/lazy-resolver';
-import { FormRootError } from '../forms/form-root-error';
-import { useAddBedMutation, useUnitSettingsMutation, useUpdateBedMutation } from '../queries/admin';
+import { problemOf } from '@/components/api/client';
+import { lazyZodResolver } from '@/components/forms/lazy-resolver';
+import { FormRootError } from '@/components/forms/form-root-error';
+import { useAddBedMutation, useUnitSettingsMutation, useUpdateBedMutation } from '@/components/queries/admin';
 import { TimeZonePicker } from './time-zone-picker';
-import { Button } from '../ui/button';
-import { Card } from '../ui/card';
-import { Text } from '../ui/text';
-import { TextField } from '../ui/text-field';
+import { Button } from '@/components/ui/button';
+import { Card } from '@/components/ui/card';
+import { Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
 
 export interface UnitSettingsFormValues {
   checkIntervalMinutes: string;

@@ -1,11 +1,11 @@
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import type { UploadPreview } from '@/shared/types/admin';
-import { problemOf } from '../api/client';
-import { useUploadImportMutation, useUploadPreviewMutation } from '../queries/admin';
-import { useTheme } from '../theme/theme-provider';
-import { Button } from '../ui/button';
-import { Text } from '../ui/text';
+import { problemOf } from '@/components/api/client';
+import { useUploadImportMutation, useUploadPreviewMutation } from '@/components/queries/admin';
+import { useTheme } from '@/components/theme/theme-provider';
+import { Button } from '@/components/ui/button';
+import { Text } from '@/components/ui/text';
 import { FilePicker } from './file-picker';
 
 type Stage = 'idle' | 'uploading' | 'previewed' | 'importing' | 'done';

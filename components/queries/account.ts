@@ -1,7 +1,7 @@
 import { useMutation } from '@tanstack/react-query';
 import type { ChangePasswordInput, PreferencesInput, SessionUser } from '@/shared/schemas/auth';
-import { api } from '../api/client';
-import { useAuth } from '../auth/auth-provider';
+import { api } from '@/components/api/client';
+import { useAuth } from '@/components/auth/auth-provider';
 
 export function usePreferencesMutation() {
   const { replaceUser } = useAuth();

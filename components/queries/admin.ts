@@ -2,7 +2,7 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { CreateUnitInput, CreateUserInput, UnitSettingsInput, UpdateBedInput, UpdateUserInput } from '@/shared/schemas/admin';
 import type { LinkPasswordInput, RequestResetInput } from '@/shared/schemas/auth';
 import type { AdminUnit, AdminUser, AuditPage, ImportResult, UploadPreview } from '@/shared/types/admin';
-import { api } from '../api/client';
+import { api } from '@/components/api/client';
 
 export const ADMIN_RQKEY_ROOT = 'admin';
 export const adminKeys = {

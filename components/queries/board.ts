@@ -1,8 +1,8 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { AdmitInfantInput, AssignNurseInput, DischargeInfantInput, UpdateInfantInput } from '@/shared/schemas/unit';
 import type { BoardResponse, HandoverResponse } from '@/shared/types/board';
-import { api } from '../api/client';
-import { STALE } from '../api/query-client';
+import { api } from '@/components/api/client';
+import { STALE } from '@/components/api/query-client';
 
 export const BOARD_RQKEY_ROOT = 'board';
 export const HANDOVER_RQKEY_ROOT = 'handover';

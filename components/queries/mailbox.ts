@@ -1,7 +1,7 @@
 import { useQuery } from '@tanstack/react-query';
 import type { CaughtMail } from '@/shared/types/board';
-import { api } from '../api/client';
-import { STALE } from '../api/query-client';
+import { api } from '@/components/api/client';
+import { STALE } from '@/components/api/query-client';
 
 export const MAILBOX_RQKEY_ROOT = 'mailbox';
 export const DEMO_RQKEY_ROOT = 'demo-mode';

@@ -1,6 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { ImportResult, UploadPreview } from '@/shared/types/admin';
-import { api } from '../api/client';
+import { api } from '@/components/api/client';
 
 const enc = encodeURIComponent;
 

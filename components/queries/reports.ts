@@ -1,6 +1,6 @@
 import { useQuery } from '@tanstack/react-query';
 import type { ReportTable, UnitReport } from '@/shared/reports';
-import { api } from '../api/client';
+import { api } from '@/components/api/client';
 import { queryString } from './review';
 
 export const REPORTS_RQKEY_ROOT = 'reports';

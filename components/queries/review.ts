@@ -1,7 +1,7 @@
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { ReviewQueueQuery } from '@/shared/schemas/review';
 import type { MyReviewNote, ReviewItemDetail, ReviewNote, ReviewQueueResponse } from '@/shared/types/review';
-import { api } from '../api/client';
+import { api } from '@/components/api/client';
 
 export const REVIEW_RQKEY_ROOT = 'review';
 export const reviewKeys = {

@@ -1,10 +1,10 @@
 import { useState } from 'react';
 import { READINGS_EXAMPLE } from '@/shared/uploads/example';
-import { useUser } from '../auth/auth-provider';
-import { Card } from '../ui/card';
-import { Screen } from '../ui/screen';
-import { Segmented } from '../ui/segmented';
-import { Text } from '../ui/text';
+import { useUser } from '@/components/auth/auth-provider';
+import { Card } from '@/components/ui/card';
+import { Screen } from '@/components/ui/screen';
+import { Segmented } from '@/components/ui/segmented';
+import { Text } from '@/components/ui/text';
 import { ReadingsUploadPanel } from './readings-upload-panel';
 
 /** The charge nurse imports readings from a CSV file in Warmfold's own format. */

@@ -2,14 +2,14 @@ import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { CSV_BOM } from '@/shared/csv';
 import type { UploadPreview, UploadRowPreview } from '@/shared/types/admin';
-import { FilePicker } from '../admin-users/file-picker';
-import { apiFile, problemOf } from '../api/client';
-import { saveTextFile } from '../downloads/save-text-file';
-import { readingsErrorsPath, useReadingsImportMutation, useReadingsPreviewMutation } from '../queries/readings-import';
-import { useTheme } from '../theme/theme-provider';
-import { TOUCH_TARGET } from '../theme/theme';
-import { Button } from '../ui/button';
-import { Text } from '../ui/text';
+import { FilePicker } from '@/components/admin-users/file-picker';
+import { apiFile, problemOf } from '@/components/api/client';
+import { saveTextFile } from '@/components/downloads/save-text-file';
+import { readingsErrorsPath, useReadingsImportMutation, useReadingsPreviewMutation } from '@/components/queries/readings-import';
+import { useTheme } from '@/components/theme/theme-provider';
+import { TOUCH_TARGET } from '@/components/theme/theme';
+import { Button } from '@/components/ui/button';
+import { Text } from '@/components/ui/text';
 
 /**
  * Pick a readings CSV, see every row checked, confirm each unusual row on its own (there is

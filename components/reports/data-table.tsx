@@ -1,7 +1,7 @@
 import type { ReactNode } from 'react';
 import { ScrollView, StyleSheet, View } from 'react-native';
-import { useTheme } from '../theme/theme-provider';
-import { Text } from '../ui/text';
+import { useTheme } from '@/components/theme/theme-provider';
+import { Text } from '@/components/ui/text';
 
 const COLUMN_MIN = 96;
 

@@ -1,11 +1,11 @@
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { CSV_BOM } from '@/shared/csv';
-import { apiFile, problemOf } from '../api/client';
-import { saveTextFile } from '../downloads/save-text-file';
-import { queryString } from '../queries/review';
-import { Button } from '../ui/button';
-import { Text } from '../ui/text';
+import { apiFile, problemOf } from '@/components/api/client';
+import { saveTextFile } from '@/components/downloads/save-text-file';
+import { queryString } from '@/components/queries/review';
+import { Button } from '@/components/ui/button';
+import { Text } from '@/components/ui/text';
 
 export interface ExportScope {
   /** Readings and FHIR need a unit; the flags CSV without one covers all the user's units. */

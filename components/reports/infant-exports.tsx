@@ -1,7 +1,7 @@
 import { useState } from 'react';
-import { DateRange, isDate } from '../review/date-range';
-import { localDay } from '../review/format';
-import { Card } from '../ui/card';
+import { DateRange, isDate } from '@/components/review/date-range';
+import { localDay } from '@/components/review/format';
+import { Card } from '@/components/ui/card';
 import { ExportButtons } from './export-buttons';
 
 /** The educator's exports of one infant: readings and flags for a date range, FHIR for the range or the whole record. */

@@ -1,8 +1,8 @@
 import { useState } from 'react';
 import { View, type LayoutChangeEvent } from 'react-native';
 import type { OnTimeRow } from '@/shared/reports';
-import { DeferredChart, LazyOnTimePlot } from '../bedside/lazy-chart';
-import { Text } from '../ui/text';
+import { DeferredChart, LazyOnTimePlot } from '@/components/bedside/lazy-chart';
+import { Text } from '@/components/ui/text';
 
 const PLOT_HEIGHT = 220;
 

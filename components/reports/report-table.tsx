@@ -1,10 +1,10 @@
 import { StyleSheet, View } from 'react-native';
 import { toCsv } from '@/shared/csv';
 import type { ReportTable as Table } from '@/shared/reports';
-import { saveTextFile } from '../downloads/save-text-file';
-import { Button } from '../ui/button';
-import { Card } from '../ui/card';
-import { Text } from '../ui/text';
+import { saveTextFile } from '@/components/downloads/save-text-file';
+import { Button } from '@/components/ui/button';
+import { Card } from '@/components/ui/card';
+import { Text } from '@/components/ui/text';
 import { DataTable } from './data-table';
 
 /** One report table, readable as a table by assistive technology, with its own CSV export. */

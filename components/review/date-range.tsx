@@ -1,7 +1,7 @@
 import { StyleSheet, TextInput, View } from 'react-native';
-import { TOUCH_TARGET } from '../theme/theme';
-import { useTheme } from '../theme/theme-provider';
-import { Text } from '../ui/text';
+import { TOUCH_TARGET } from '@/components/theme/theme';
+import { useTheme } from '@/components/theme/theme-provider';
+import { Text } from '@/components/ui/text';
 
 /** Two local dates as YYYY-MM-DD; an empty field means no limit. */
 export function DateRange({ from, to, onChange, error }: { from: string; to: string; onChange: (next: { from: string; to: string }) => void; error?: string }) {

@@ -1,5 +1,5 @@
 import { formatTemperature, type TempUnit } from '@/shared/thermal/units';
-import { formatDayTime, type ClockSetting } from '../ui/format-time';
+import { formatDayTime, type ClockSetting } from '@/components/ui/format-time';
 
 /** "16 Nov, 08:40" or "16 Nov, 8:40 AM" in the unit's zone (never the device's), on the viewer's clock. */
 export function shortDateTime(iso: string, timeZone: string, clock: ClockSetting): string {

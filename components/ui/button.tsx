@@ -1,6 +1,6 @@
 import { ActivityIndicator, Pressable, StyleSheet, View, type PressableProps } from 'react-native';
-import { TOUCH_TARGET } from '../theme/theme';
-import { useTheme } from '../theme/theme-provider';
+import { TOUCH_TARGET } from '@/components/theme/theme';
+import { useTheme } from '@/components/theme/theme-provider';
 import { Icon, type IconName } from './icon';
 import { Text } from './text';
 

@@ -1,5 +1,5 @@
 import { StyleSheet, View, type ViewProps } from 'react-native';
-import { useTheme } from '../theme/theme-provider';
+import { useTheme } from '@/components/theme/theme-provider';
 
 export function Card({ style, ...rest }: ViewProps) {
   const theme = useTheme();

@@ -1,5 +1,5 @@
 import { StyleSheet, View } from 'react-native';
-import { useTheme } from '../theme/theme-provider';
+import { useTheme } from '@/components/theme/theme-provider';
 import { Text } from './text';
 
 /** Shown beside every clinical prompt. */

@@ -1,6 +1,6 @@
 import { createContext, useContext, type ReactNode } from 'react';
 import { RefreshControl, ScrollView, StyleSheet, View } from 'react-native';
-import { useTheme } from '../theme/theme-provider';
+import { useTheme } from '@/components/theme/theme-provider';
 import { Text } from './text';
 
 export interface ScreenProps {

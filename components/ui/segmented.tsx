@@ -1,7 +1,7 @@
 import { useRef } from 'react';
 import { Platform, Pressable, StyleSheet, View } from 'react-native';
-import { TOUCH_TARGET } from '../theme/theme';
-import { useTheme } from '../theme/theme-provider';
+import { TOUCH_TARGET } from '@/components/theme/theme';
+import { useTheme } from '@/components/theme/theme-provider';
 import { Text } from './text';
 
 export interface SegmentedOption<T extends string> {

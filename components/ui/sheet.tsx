@@ -1,6 +1,6 @@
 import { useId, type ReactNode } from 'react';
 import { Modal, ScrollView, StyleSheet, View } from 'react-native';
-import { useTheme } from '../theme/theme-provider';
+import { useTheme } from '@/components/theme/theme-provider';
 import { Button } from './button';
 import { Text } from './text';
 

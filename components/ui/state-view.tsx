@@ -1,6 +1,6 @@
 import { ActivityIndicator, StyleSheet, View } from 'react-native';
-import { problemOf } from '../api/client';
-import { useTheme } from '../theme/theme-provider';
+import { problemOf } from '@/components/api/client';
+import { useTheme } from '@/components/theme/theme-provider';
 import { Button } from './button';
 import { useInScreen } from './screen';
 import { Icon } from './icon';

@@ -1,6 +1,6 @@
 import { StyleSheet, View } from 'react-native';
-import { useTheme } from '../theme/theme-provider';
-import type { ThemeColors } from '../theme/theme';
+import { useTheme } from '@/components/theme/theme-provider';
+import type { ThemeColors } from '@/components/theme/theme';
 import { Icon, type IconName } from './icon';
 import { Text } from './text';
 

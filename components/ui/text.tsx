@@ -1,6 +1,6 @@
 import { Text as RNText, type TextProps } from 'react-native';
-import { useTheme } from '../theme/theme-provider';
-import type { Theme } from '../theme/theme';
+import { useTheme } from '@/components/theme/theme-provider';
+import type { Theme } from '@/components/theme/theme';
 
 type Variant = keyof Theme['type'];
 type Tone = 'default' | 'muted' | 'primary' | 'danger' | 'warning' | 'ok' | 'heat' | 'together' | 'onPrimary';

@@ -1,9 +1,9 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { BedWarming, StartWarmingInput } from '@/shared/schemas/warming';
 import type { BulkAssignInput, HandoverPlan } from '@/shared/schemas/shift-work';
-import { api } from '../api/client';
-import { STALE } from '../api/query-client';
-import { BOARD_REFRESH_MS } from '../queries/board';
+import { api } from '@/components/api/client';
+import { STALE } from '@/components/api/query-client';
+import { BOARD_REFRESH_MS } from '@/components/queries/board';
 
 const enc = encodeURIComponent;
 
