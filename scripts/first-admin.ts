@@ -67,7 +67,7 @@ const link = writeTx(database.sqlite, () => {
   database.db.insert(users).values({ id: userId, email: email.data, name, role: 'admin', createdAt: now, updatedAt: now }).run();
   database.db.insert(userUnits).values({ userId, unitId }).run();
   appendAudit(database.sqlite, { at: now, actorId: null, action: 'user-created', entityType: 'user', entityId: userId, unitId, after: { email: email.data, name, role: 'admin', unitIds: [unitId] } });
-  return issueLink(ctx, database.sqlite, userId, 'invite', null);
+  return issueLink(ctx, userId, 'invite', null);
 });
 database.close();
 process.stdout.write(

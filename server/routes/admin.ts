@@ -1,28 +1,15 @@
 import { auditQuerySchema, createBedSchema, createUnitSchema, createUserSchema, membershipSchema, unitSettingsConflicts, unitSettingsSchema, updateBedSchema, updateUserSchema, userSearchSchema, type AuditQuery, type CreateBedInput, type CreateUnitInput, type CreateUserInput, type MembershipInput, type UnitSettingsInput, type UpdateBedInput, type UpdateUserInput, type UserSearch } from '../../shared/schemas/admin';
-import { randomUUID } from 'node:crypto';
-import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
-import { badRequest, conflict, notFound, zodFields } from '../errors';
+import { badRequest, zodFields } from '../errors';
 import { allow, assertUnit, secureRouter } from '../middleware/access';
 import { valid, validate } from '../middleware/validate';
-import { addMembership, auditLog, createUnit, removeMembership, updateBed } from '../services/admin-console';
+import { addMembership, auditLog, createBed, createUnit, removeMembership, unitSettingsOf, updateBed, updateUnitSettings } from '../services/admin-console';
 import { createUser, listUnits, listUsers, sendLinkFor, setUserActive, updateUser } from '../services/admin-users';
 import { sendWeeklyDigests } from '../services/digest';
 import { mailLinkSafely } from '../services/email-links';
-import { recordUnitSettingsChange } from '../services/flag-lifecycle';
-import { loadUnitRow, policyForUnit, type UnitRow } from '../services/flags';
 
-const SETTING_COLUMNS: Record<string, string> = {
-  name: 'name',
-  checkIntervalMinutes: 'check_interval_minutes',
-  dueSoonMinutes: 'due_soon_minutes',
-  gapLimitCenti: 'gap_limit_centi',
-  escalationDelayMinutes: 'escalation_delay_minutes',
-  dayShiftStart: 'day_shift_start',
-  nightShiftStart: 'night_shift_start',
-  timeZone: 'time_zone',
-  escalationFallbackEmail: 'escalation_fallback_email',
-};
+/** The settings checked across fields; one left out of a change is taken as stored. */
+type CrossChecked = 'checkIntervalMinutes' | 'dueSoonMinutes' | 'dayShiftStart' | 'nightShiftStart';
 
 /** Users, invitations, units, beds and settings: the administrator's. Admins never chart. */
 export function adminRouter(ctx: AppContext) {
@@ -86,24 +73,22 @@ export function adminRouter(ctx: AppContext) {
 
   router.patch('/admin/units/:id', allow(ctx, 'admin:manage'), (req, res) => {
     const unitId = id(req);
-    const { sqlite } = ctx.database;
-    const before = sqlite.prepare('SELECT * FROM units WHERE id = ?').get(unitId) as Record<string, unknown> | undefined;
-    if (!before) throw notFound('That unit');
+    const stored = unitSettingsOf(ctx, unitId);
     assertUnit(req, unitId);
     // Each field's own checks and the checks across fields together, so every field at fault is named at once.
     const parsed = unitSettingsSchema.safeParse(req.body ?? {});
     const fields = parsed.success ? {} : zodFields(parsed.error);
     const raw = (req.body ?? {}) as Record<string, unknown>;
-    const pick = <T,>(key: string, column: string): T => (key in raw && !(key in fields) ? raw[key] : before[column]) as T;
+    const pick = <K extends CrossChecked>(key: K) => (key in raw && !(key in fields) ? raw[key] : stored[key]) as (typeof stored)[K];
     Object.assign(
       fields,
       Object.fromEntries(
         Object.entries(
           unitSettingsConflicts({
-            checkIntervalMinutes: pick('checkIntervalMinutes', 'check_interval_minutes'),
-            dueSoonMinutes: pick('dueSoonMinutes', 'due_soon_minutes'),
-            dayShiftStart: pick('dayShiftStart', 'day_shift_start'),
-            nightShiftStart: pick('nightShiftStart', 'night_shift_start'),
+            checkIntervalMinutes: pick('checkIntervalMinutes'),
+            dueSoonMinutes: pick('dueSoonMinutes'),
+            dayShiftStart: pick('dayShiftStart'),
+            nightShiftStart: pick('nightShiftStart'),
           }),
         ).filter(([k]) => !(k in fields)),
       ),
@@ -111,25 +96,13 @@ export function adminRouter(ctx: AppContext) {
     const bad = Object.keys(fields);
     if (bad.length || !parsed.success) throw badRequest(`${bad.length === 1 ? 'One setting needs' : `${bad.length} settings need`} attention: ${bad.join(', ')}.`, fields);
     const input: UnitSettingsInput = parsed.data;
-    // Settings the unit row has no column for live only in the settings versions.
-    const { escalationDelays, recheckSettleMinutes, ...columns } = input;
-    const entries = Object.entries(columns).filter(([, v]) => v !== undefined);
-    sqlite
-      .transaction(() => {
-        if (entries.length) sqlite.prepare(`UPDATE units SET ${entries.map(([k]) => `${SETTING_COLUMNS[k]} = ?`).join(', ')} WHERE id = ?`).run(...entries.map(([, v]) => v as string | number | null), unitId);
-        // Settings are versions: earlier judgements keep the settings in force when they were made.
-        const after = loadUnitRow(sqlite, unitId)!;
-        recordUnitSettingsChange(sqlite, unitId, policyForUnit(before as unknown as UnitRow), policyForUnit(after), req.auth!.userId, ctx.clock.now(), { escalationDelays, recheckSettleMinutes });
-        appendAudit(sqlite, { at: ctx.clock.now(), actorId: req.auth!.userId, action: 'unit-settings', entityType: 'unit', entityId: unitId, unitId, before, after: input });
-      })
-      .immediate();
+    updateUnitSettings(ctx, unitId, input, req.auth!);
     res.json({ unit: listUnits(ctx, [unitId])[0] });
   });
 
   router.post('/admin/units/:id/beds', allow(ctx, 'admin:manage'), (req, res) => {
     const unitId = id(req);
-    const { sqlite } = ctx.database;
-    if (!sqlite.prepare('SELECT 1 FROM units WHERE id = ?').get(unitId)) throw notFound('That unit');
+    unitSettingsOf(ctx, unitId);
     assertUnit(req, unitId);
     const parsed = createBedSchema.safeParse(req.body ?? {});
     if (!parsed.success) {
@@ -140,16 +113,7 @@ export function adminRouter(ctx: AppContext) {
       throw badRequest(`${which}: ${fields.label ?? Object.values(fields)[0]}`, fields);
     }
     const { label }: CreateBedInput = parsed.data;
-    const bedId = randomUUID();
-    sqlite
-      .transaction(() => {
-        if (sqlite.prepare('SELECT 1 FROM beds WHERE unit_id = ? AND label = ?').get(unitId, label)) throw conflict('That bed label is taken.', { label: 'This unit already has a bed with this label.' });
-        const order = (sqlite.prepare('SELECT COALESCE(MAX(sort_order), 0) + 1 AS n FROM beds WHERE unit_id = ?').get(unitId) as { n: number }).n;
-        sqlite.prepare('INSERT INTO beds (id, unit_id, label, sort_order, active) VALUES (?, ?, ?, ?, 1)').run(bedId, unitId, label, order);
-        appendAudit(sqlite, { at: ctx.clock.now(), actorId: req.auth!.userId, action: 'bed-created', entityType: 'bed', entityId: bedId, unitId, after: { label } });
-      })
-      .immediate();
-    res.status(201).json({ bed: { id: bedId, label, active: true } });
+    res.status(201).json({ bed: createBed(ctx, unitId, label, req.auth!) });
   });
 
   /** Rename a bed, take it out of use or back, or move it up or down the unit's order. */

@@ -1,12 +1,14 @@
 import { randomUUID } from 'node:crypto';
-import { and, desc, eq, gte, inArray, lt, lte, max, notLike, or, sql } from 'drizzle-orm';
-import type { AuditQuery, CreateUnitInput, UpdateBedInput } from '../../shared/schemas/admin';
+import { and, desc, eq, gte, inArray, lt, lte, max, notLike, or } from 'drizzle-orm';
+import type { AuditQuery, CreateUnitInput, UnitSettingsInput, UpdateBedInput } from '../../shared/schemas/admin';
 import type { AuditEntry, AuditPage } from '../../shared/types/admin';
 import { auditEvents, authSessions, beds, infants, units, userUnits, users } from '../../db/schema';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { badRequest, conflict, forbidden, notFound } from '../errors';
-import { revokeAllSessions } from './auth';
+import { nextSessionVersion, revokeAllSessions } from './auth';
+import { recordUnitSettingsChange } from './flag-lifecycle';
+import { loadUnitRow, policyForUnit } from './flags';
 
 type Admin = { userId: string; unitIds: string[] };
 
@@ -34,24 +36,25 @@ function changeMembership(ctx: AppContext, userId: string, unitId: string, admin
   assertAdminUnit(ctx, admin, unitId);
   if (userId === admin.userId) throw badRequest('You cannot change your own units.', { unitId: 'Ask another administrator to change your own units.' });
   const { sqlite, db } = ctx.database;
-  return sqlite
-    .transaction(() => {
+  return db.transaction(
+    (tx) => {
       const before = membershipsOf(ctx, userId);
       if (op === 'add') {
         if (before.includes(unitId)) throw conflict('This person already works in that unit.', { unitId: 'Already a member of this unit.' });
-        db.insert(userUnits).values({ userId, unitId }).run();
+        tx.insert(userUnits).values({ userId, unitId }).run();
       } else {
         if (!before.includes(unitId)) throw notFound('That membership');
         if (before.length === 1) throw conflict('This is the only unit this person works in; deactivate the account instead.', { unitId: 'A person keeps at least one unit.' });
-        db.delete(userUnits).where(and(eq(userUnits.userId, userId), eq(userUnits.unitId, unitId))).run();
+        tx.delete(userUnits).where(and(eq(userUnits.userId, userId), eq(userUnits.unitId, unitId))).run();
       }
-      db.update(users).set({ sessionVersion: sql`${users.sessionVersion} + 1`, updatedAt: ctx.clock.now() }).where(eq(users.id, userId)).run();
+      tx.update(users).set({ sessionVersion: nextSessionVersion, updatedAt: ctx.clock.now() }).where(eq(users.id, userId)).run();
       revokeAllSessions(ctx, userId);
       const after = membershipsOf(ctx, userId);
       appendAudit(sqlite, { at: ctx.clock.now(), actorId: admin.userId, action: op === 'add' ? 'membership-added' : 'membership-removed', entityType: 'user', entityId: userId, unitId, before: { unitIds: before }, after: { unitIds: after } });
       return after;
-    })
-    .immediate();
+    },
+    { behavior: 'immediate' },
+  );
 }
 
 export const addMembership = (ctx: AppContext, userId: string, unitId: string, admin: Admin) => changeMembership(ctx, userId, unitId, admin, 'add');
@@ -61,15 +64,61 @@ export const removeMembership = (ctx: AppContext, userId: string, unitId: string
 export function createUnit(ctx: AppContext, input: CreateUnitInput, admin: Admin): { id: string } {
   const { sqlite, db } = ctx.database;
   const id = randomUUID();
-  sqlite
-    .transaction(() => {
-      if (db.select({ id: units.id }).from(units).where(eq(units.name, input.name)).get()) throw conflict('A unit with that name exists.', { name: 'A unit with this name exists.' });
-      db.insert(units).values({ id, name: input.name, hospitalName: input.hospitalName, timeZone: input.timeZone, createdAt: ctx.clock.now() }).run();
-      db.insert(userUnits).values({ userId: admin.userId, unitId: id }).run();
+  db.transaction(
+    (tx) => {
+      if (tx.select({ id: units.id }).from(units).where(eq(units.name, input.name)).get()) throw conflict('A unit with that name exists.', { name: 'A unit with this name exists.' });
+      tx.insert(units).values({ id, name: input.name, hospitalName: input.hospitalName, timeZone: input.timeZone, createdAt: ctx.clock.now() }).run();
+      tx.insert(userUnits).values({ userId: admin.userId, unitId: id }).run();
       appendAudit(sqlite, { at: ctx.clock.now(), actorId: admin.userId, action: 'unit-created', entityType: 'unit', entityId: id, unitId: id, after: input });
-    })
-    .immediate();
+    },
+    { behavior: 'immediate' },
+  );
   return { id };
+}
+
+/** A unit's stored row (404 when there is none): the settings a partial change is checked against. */
+export function unitSettingsOf(ctx: AppContext, unitId: string): typeof units.$inferSelect {
+  const unit = ctx.database.db.select().from(units).where(eq(units.id, unitId)).get();
+  if (!unit) throw notFound('That unit');
+  return unit;
+}
+
+/**
+ * Change a unit's settings (already checked, each field and across fields). Settings are versions:
+ * earlier judgements keep the settings in force when they were made.
+ */
+export function updateUnitSettings(ctx: AppContext, unitId: string, input: UnitSettingsInput, admin: { userId: string }): void {
+  const { db, sqlite } = ctx.database;
+  // Settings the unit row has no column for live only in the settings versions.
+  const { escalationDelays, recheckSettleMinutes, ...columns } = input;
+  const changed = Object.values(columns).some((v) => v !== undefined);
+  db.transaction(
+    (tx) => {
+      const before = unitSettingsOf(ctx, unitId);
+      const policyBefore = policyForUnit(loadUnitRow(sqlite, unitId)!);
+      if (changed) tx.update(units).set(columns).where(eq(units.id, unitId)).run();
+      const policyAfter = policyForUnit(loadUnitRow(sqlite, unitId)!);
+      recordUnitSettingsChange(sqlite, unitId, policyBefore, policyAfter, admin.userId, ctx.clock.now(), { escalationDelays, recheckSettleMinutes });
+      appendAudit(sqlite, { at: ctx.clock.now(), actorId: admin.userId, action: 'unit-settings', entityType: 'unit', entityId: unitId, unitId, before, after: input });
+    },
+    { behavior: 'immediate' },
+  );
+}
+
+/** A new bed at the end of the unit's order; labels are unique within a unit. */
+export function createBed(ctx: AppContext, unitId: string, label: string, admin: { userId: string }): { id: string; label: string; active: boolean } {
+  const { db, sqlite } = ctx.database;
+  const id = randomUUID();
+  db.transaction(
+    (tx) => {
+      if (tx.select({ id: beds.id }).from(beds).where(and(eq(beds.unitId, unitId), eq(beds.label, label))).get()) throw conflict('That bed label is taken.', { label: 'This unit already has a bed with this label.' });
+      const last = tx.select({ n: max(beds.sortOrder) }).from(beds).where(eq(beds.unitId, unitId)).get();
+      tx.insert(beds).values({ id, unitId, label, sortOrder: (last?.n ?? 0) + 1, active: true }).run();
+      appendAudit(sqlite, { at: ctx.clock.now(), actorId: admin.userId, action: 'bed-created', entityType: 'bed', entityId: id, unitId, after: { label } });
+    },
+    { behavior: 'immediate' },
+  );
+  return { id, label, active: true };
 }
 
 /**
@@ -84,36 +133,37 @@ export function updateBed(ctx: AppContext, bedId: string, input: UpdateBedInput,
   if (input.active === false && db.select({ id: infants.id }).from(infants).where(and(eq(infants.bedId, bedId), eq(infants.status, 'admitted'))).get()) {
     throw conflict('An infant is in this bed; move the infant first.', { active: 'An infant is in this bed.' });
   }
-  return sqlite
-    .transaction(() => {
+  return db.transaction(
+    (tx) => {
       if (input.label !== undefined && input.label !== bed.label) {
-        if (db.select({ id: beds.id }).from(beds).where(and(eq(beds.unitId, bed.unitId), eq(beds.label, input.label))).get()) {
+        if (tx.select({ id: beds.id }).from(beds).where(and(eq(beds.unitId, bed.unitId), eq(beds.label, input.label))).get()) {
           throw conflict(`Bed ${input.label}: this unit already has a bed with this label.`, { label: 'This unit already has a bed with this label.' });
         }
       }
       const set: Partial<typeof beds.$inferInsert> = {};
       if (input.label !== undefined) set.label = input.label;
       if (input.active !== undefined) set.active = input.active;
-      if (Object.keys(set).length) db.update(beds).set(set).where(eq(beds.id, bedId)).run();
+      if (Object.keys(set).length) tx.update(beds).set(set).where(eq(beds.id, bedId)).run();
       if (input.move) {
-        const ordered = db.select({ id: beds.id, sortOrder: beds.sortOrder }).from(beds).where(eq(beds.unitId, bed.unitId)).orderBy(beds.sortOrder, beds.label).all();
+        const ordered = tx.select({ id: beds.id, sortOrder: beds.sortOrder }).from(beds).where(eq(beds.unitId, bed.unitId)).orderBy(beds.sortOrder, beds.label).all();
         const at = ordered.findIndex((b) => b.id === bedId);
         const to = input.move === 'up' ? at - 1 : at + 1;
         if (to < 0 || to >= ordered.length) throw badRequest(`Bed ${bed.label} is already ${input.move === 'up' ? 'first' : 'last'}.`, { move: `Bed ${bed.label} is already ${input.move === 'up' ? 'first' : 'last'}.` });
         [ordered[at], ordered[to]] = [ordered[to]!, ordered[at]!];
         // Renumber the whole unit 1..n so equal or missing orders never leave a move without effect.
         ordered.forEach((b, i) => {
-          if (b.sortOrder !== i + 1) db.update(beds).set({ sortOrder: i + 1 }).where(eq(beds.id, b.id)).run();
+          if (b.sortOrder !== i + 1) tx.update(beds).set({ sortOrder: i + 1 }).where(eq(beds.id, b.id)).run();
         });
       }
-      const after = db.select().from(beds).where(eq(beds.id, bedId)).get()!;
+      const after = tx.select().from(beds).where(eq(beds.id, bedId)).get()!;
       appendAudit(sqlite, {
         at: ctx.clock.now(), actorId: admin.userId, action: 'bed-updated', entityType: 'bed', entityId: bedId, unitId: bed.unitId,
         before: { label: bed.label, active: bed.active, sortOrder: bed.sortOrder }, after: { label: after.label, active: after.active, sortOrder: after.sortOrder },
       });
       return { id: after.id, label: after.label, active: after.active };
-    })
-    .immediate();
+    },
+    { behavior: 'immediate' },
+  );
 }
 
 /** Each person's latest sign-in (a session's start), by user id. */
@@ -125,7 +175,7 @@ export function lastSignIns(ctx: AppContext, userIds: string[]): Map<string, str
     .where(inArray(authSessions.userId, userIds))
     .groupBy(authSessions.userId)
     .all();
-  return new Map(rows.filter((r) => r.at).map((r) => [r.userId, new Date(r.at as unknown as number | Date).toISOString()]));
+  return new Map(rows.flatMap((r) => (r.at ? [[r.userId, r.at.toISOString()] as const] : [])));
 }
 
 /** Keys never shown in the audit viewer, whatever an event holds. */

@@ -1,58 +1,62 @@
-import type Database from 'better-sqlite3';
 import { randomUUID } from 'node:crypto';
-import type { Role } from '../../shared/roles';
+import { and, desc, eq, gt, inArray, isNull } from 'drizzle-orm';
 import type { CreateUserInput, UpdateUserInput } from '../../shared/schemas/admin';
 import type { AdminUnit, AdminUser } from '../../shared/types/admin';
+import type { Database_, Db } from '../../db/client';
+import { beds, emailTokens, units, userUnits, users } from '../../db/schema';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { badRequest, conflict, forbidden, notFound } from '../errors';
-import { eq } from 'drizzle-orm';
-import type { Database_ } from '../../db/client';
-import { units, userUnits, users } from '../../db/schema';
 import { lastSignIns } from './admin-console';
-import { revokeAllSessions } from './auth';
+import { nextSessionVersion, revokeAllSessions } from './auth';
 import { issueLink, type IssuedLink } from './email-links';
 
-interface UserRow {
-  id: string;
-  name: string;
-  email: string;
-  role: Role;
-  active: number;
-  password_hash: string | null;
+/** What the administration screens show of an account. */
+type UserRow = Pick<typeof users.$inferSelect, 'id' | 'name' | 'email' | 'role' | 'active' | 'passwordHash'>;
+
+const userColumns = { id: users.id, name: users.name, email: users.email, role: users.role, active: users.active, passwordHash: users.passwordHash };
+
+function unitsOf(db: Db, userId: string): string[] {
+  return db
+    .select({ unitId: userUnits.unitId })
+    .from(userUnits)
+    .where(eq(userUnits.userId, userId))
+    .orderBy(userUnits.unitId)
+    .all()
+    .map((r) => r.unitId);
 }
 
-function unitsOf(sqlite: Database.Database, userId: string): string[] {
-  return (sqlite.prepare('SELECT unit_id FROM user_units WHERE user_id = ? ORDER BY unit_id').all(userId) as Array<{ unit_id: string }>).map((r) => r.unit_id);
-}
-
-export function toAdminUser(sqlite: Database.Database, row: UserRow, now: number, adminUnits: readonly string[]): AdminUser {
-  const invite = sqlite
-    .prepare("SELECT expires_at FROM email_tokens WHERE user_id = ? AND kind = 'invite' AND used_at IS NULL AND expires_at > ? ORDER BY created_at DESC LIMIT 1")
-    .get(row.id, now) as { expires_at: number } | undefined;
-  const unitIds = unitsOf(sqlite, row.id);
+export function toAdminUser(db: Db, row: UserRow, now: Date, adminUnits: readonly string[]): AdminUser {
+  const invite = db
+    .select({ expiresAt: emailTokens.expiresAt })
+    .from(emailTokens)
+    .where(and(eq(emailTokens.userId, row.id), eq(emailTokens.kind, 'invite'), isNull(emailTokens.usedAt), gt(emailTokens.expiresAt, now)))
+    .orderBy(desc(emailTokens.createdAt))
+    .limit(1)
+    .get();
+  const unitIds = unitsOf(db, row.id);
   return {
     id: row.id,
     name: row.name,
     email: row.email,
     role: row.role,
-    active: row.active === 1,
+    active: row.active,
     unitIds,
     manageable: unitIds.every((u) => adminUnits.includes(u)),
-    status: row.active !== 1 ? 'deactivated' : row.password_hash ? 'active' : 'invited',
-    inviteExpiresAt: invite ? new Date(invite.expires_at).toISOString() : null,
+    status: !row.active ? 'deactivated' : row.passwordHash ? 'active' : 'invited',
+    inviteExpiresAt: invite ? invite.expiresAt.toISOString() : null,
   };
 }
 
 /** Users who share a unit with the admin, or belong to none yet. */
 export function listUsers(ctx: AppContext, adminUnits: string[], search?: string): AdminUser[] {
-  const { sqlite } = ctx.database;
-  const rows = sqlite.prepare('SELECT id, name, email, role, active, password_hash FROM users ORDER BY name').all() as UserRow[];
-  const now = ctx.clock.now().getTime();
+  const { db } = ctx.database;
+  const rows = db.select(userColumns).from(users).orderBy(users.name).all();
+  const now = ctx.clock.now();
   const needle = search?.trim().toLocaleLowerCase() ?? '';
   const listed = rows
     .filter((r) => !needle || r.name.toLocaleLowerCase().includes(needle) || r.email.toLocaleLowerCase().includes(needle))
-    .map((r) => toAdminUser(sqlite, r, now, adminUnits))
+    .map((r) => toAdminUser(db, r, now, adminUnits))
     .filter((u) => u.unitIds.length === 0 || u.unitIds.some((id) => adminUnits.includes(id)));
   const signIns = lastSignIns(ctx, listed.map((u) => u.id));
   return listed.map((u) => ({ ...u, lastSignInAt: signIns.get(u.id) ?? null }));
@@ -63,9 +67,11 @@ function assertUnits(adminUnits: string[], unitIds: string[]): void {
   if (outside.length) throw forbidden('You can only place people in your own units.');
 }
 
-function assertUnitsExist(sqlite: Database.Database, unitIds: string[]): void {
+function assertUnitsExist(db: Db, unitIds: string[]): void {
+  if (unitIds.length === 0) return;
+  const known = new Set(db.select({ id: units.id }).from(units).where(inArray(units.id, unitIds)).all().map((u) => u.id));
   for (const id of unitIds) {
-    if (!sqlite.prepare('SELECT 1 FROM units WHERE id = ?').get(id)) throw badRequest('Unknown unit.', { unitIds: `No unit ${id}.` });
+    if (!known.has(id)) throw badRequest('Unknown unit.', { unitIds: `No unit ${id}.` });
   }
 }
 
@@ -106,120 +112,126 @@ export function accountFor(database: Database_, email: string, adminUnits: reado
   return { exists: true, visible: memberships.length === 0 || memberships.some((m) => adminUnits.includes(m.unitId)) };
 }
 
+function readUser(db: Db, userId: string): UserRow {
+  const user = db.select(userColumns).from(users).where(eq(users.id, userId)).get();
+  if (!user) throw notFound('That user');
+  return user;
+}
+
 function loadUser(ctx: AppContext, userId: string, adminUnits: string[]): UserRow {
   assertManageable(ctx.database, userId, adminUnits);
-  return ctx.database.sqlite.prepare('SELECT id, name, email, role, active, password_hash FROM users WHERE id = ?').get(userId) as UserRow;
+  return readUser(ctx.database.db, userId);
 }
 
 /**
- * Create an account without a password and an invitation link for it, in one transaction.
- * The caller mails the link after commit.
+ * Create an account without a password and an invitation link for it. Call inside a write
+ * transaction; the caller mails the link after commit.
  */
-export function createUserRows(ctx: AppContext, sqlite: Database.Database, input: CreateUserInput, actorId: string): { user: UserRow; link: IssuedLink } {
+export function createUserRows(ctx: AppContext, input: CreateUserInput, actorId: string): { user: UserRow; link: IssuedLink } {
+  const { db, sqlite } = ctx.database;
   const now = ctx.clock.now();
   const id = randomUUID();
-  sqlite
-    .prepare('INSERT INTO users (id, email, name, role, password_hash, active, session_version, created_at, updated_at) VALUES (?, ?, ?, ?, NULL, 1, 1, ?, ?)')
-    .run(id, input.email, input.name, input.role, now.getTime(), now.getTime());
-  const member = sqlite.prepare('INSERT INTO user_units (user_id, unit_id) VALUES (?, ?)');
-  for (const unitId of new Set(input.unitIds)) member.run(id, unitId);
+  db.insert(users).values({ id, email: input.email, name: input.name, role: input.role, passwordHash: null, active: true, sessionVersion: 1, createdAt: now, updatedAt: now }).run();
+  for (const unitId of new Set(input.unitIds)) db.insert(userUnits).values({ userId: id, unitId }).run();
   appendAudit(sqlite, { at: now, actorId, action: 'user-created', entityType: 'user', entityId: id, unitId: input.unitIds[0] ?? null, after: { email: input.email, name: input.name, role: input.role, unitIds: input.unitIds } });
-  const link = issueLink(ctx, sqlite, id, 'invite', actorId);
-  return { user: { id, name: input.name, email: input.email, role: input.role, active: 1, password_hash: null }, link };
+  const link = issueLink(ctx, id, 'invite', actorId);
+  return { user: { id, name: input.name, email: input.email, role: input.role, active: true, passwordHash: null }, link };
 }
 
 export function createUser(ctx: AppContext, input: CreateUserInput, admin: { userId: string; unitIds: string[] }): { user: AdminUser; link: IssuedLink } {
-  const { sqlite } = ctx.database;
+  const { db } = ctx.database;
   assertUnits(admin.unitIds, input.unitIds);
-  assertUnitsExist(sqlite, input.unitIds);
-  return sqlite
-    .transaction(() => {
-      if (sqlite.prepare('SELECT 1 FROM users WHERE email = ?').get(input.email)) throw conflict('Someone already has that e-mail.', { email: 'An account with this e-mail exists.' });
-      const { user, link } = createUserRows(ctx, sqlite, input, admin.userId);
-      return { user: toAdminUser(sqlite, user, ctx.clock.now().getTime(), admin.unitIds), link };
-    })
-    .immediate();
+  assertUnitsExist(db, input.unitIds);
+  return db.transaction(
+    (tx) => {
+      if (tx.select({ id: users.id }).from(users).where(eq(users.email, input.email)).get()) throw conflict('Someone already has that e-mail.', { email: 'An account with this e-mail exists.' });
+      const { user, link } = createUserRows(ctx, input, admin.userId);
+      return { user: toAdminUser(db, user, ctx.clock.now(), admin.unitIds), link };
+    },
+    { behavior: 'immediate' },
+  );
 }
 
 /** Role or unit changes end the person's sessions, so the change holds from their next request. */
 export function updateUser(ctx: AppContext, userId: string, input: UpdateUserInput, admin: { userId: string; unitIds: string[] }): AdminUser {
-  const { sqlite } = ctx.database;
+  const { db, sqlite } = ctx.database;
   const before = loadUser(ctx, userId, admin.unitIds);
   if (userId === admin.userId && (input.role !== undefined || input.unitIds !== undefined)) {
     throw badRequest('You cannot change your own role or units.', { role: 'Ask another administrator to change your own role or units.' });
   }
   if (input.unitIds) {
     assertUnits(admin.unitIds, input.unitIds);
-    assertUnitsExist(sqlite, input.unitIds);
+    assertUnitsExist(db, input.unitIds);
   }
   const now = ctx.clock.now();
-  sqlite
-    .transaction(() => {
-      const beforeUnits = unitsOf(sqlite, userId);
+  db.transaction(
+    (tx) => {
+      const beforeUnits = unitsOf(tx, userId);
       const roleChanged = input.role !== undefined && input.role !== before.role;
       const unitsChanged = input.unitIds !== undefined && [...new Set(input.unitIds)].sort().join() !== beforeUnits.join();
-      if (input.name !== undefined) sqlite.prepare('UPDATE users SET name = ?, updated_at = ? WHERE id = ?').run(input.name, now.getTime(), userId);
-      if (roleChanged) sqlite.prepare('UPDATE users SET role = ?, updated_at = ? WHERE id = ?').run(input.role, now.getTime(), userId);
+      if (input.name !== undefined) tx.update(users).set({ name: input.name, updatedAt: now }).where(eq(users.id, userId)).run();
+      if (roleChanged) tx.update(users).set({ role: input.role, updatedAt: now }).where(eq(users.id, userId)).run();
       if (unitsChanged) {
-        sqlite.prepare('DELETE FROM user_units WHERE user_id = ?').run(userId);
-        const member = sqlite.prepare('INSERT INTO user_units (user_id, unit_id) VALUES (?, ?)');
-        for (const unitId of new Set(input.unitIds)) member.run(userId, unitId);
+        tx.delete(userUnits).where(eq(userUnits.userId, userId)).run();
+        for (const unitId of new Set(input.unitIds)) tx.insert(userUnits).values({ userId, unitId }).run();
       }
       if (roleChanged || unitsChanged) {
-        sqlite.prepare('UPDATE users SET session_version = session_version + 1 WHERE id = ?').run(userId);
+        tx.update(users).set({ sessionVersion: nextSessionVersion }).where(eq(users.id, userId)).run();
         revokeAllSessions(ctx, userId);
       }
       appendAudit(sqlite, {
         at: now, actorId: admin.userId, action: 'user-updated', entityType: 'user', entityId: userId, unitId: null,
         before: { name: before.name, role: before.role, unitIds: beforeUnits },
-        after: { name: input.name ?? before.name, role: input.role ?? before.role, unitIds: unitsOf(sqlite, userId) },
+        after: { name: input.name ?? before.name, role: input.role ?? before.role, unitIds: unitsOf(tx, userId) },
       });
-    })
-    .immediate();
-  return toAdminUser(sqlite, sqlite.prepare('SELECT id, name, email, role, active, password_hash FROM users WHERE id = ?').get(userId) as UserRow, now.getTime(), admin.unitIds);
+    },
+    { behavior: 'immediate' },
+  );
+  return toAdminUser(db, readUser(db, userId), now, admin.unitIds);
 }
 
 /** Accounts are never deleted: deactivation ends every session and blocks sign-in. */
 export function setUserActive(ctx: AppContext, userId: string, active: boolean, admin: { userId: string; unitIds: string[] }): AdminUser {
-  const { sqlite } = ctx.database;
+  const { db, sqlite } = ctx.database;
   const before = loadUser(ctx, userId, admin.unitIds);
   if (userId === admin.userId) throw badRequest('You cannot deactivate yourself.', { _: 'Ask another administrator.' });
   const now = ctx.clock.now();
-  sqlite
-    .transaction(() => {
-      sqlite.prepare('UPDATE users SET active = ?, session_version = session_version + 1, updated_at = ? WHERE id = ?').run(active ? 1 : 0, now.getTime(), userId);
+  db.transaction(
+    (tx) => {
+      tx.update(users).set({ active, sessionVersion: nextSessionVersion, updatedAt: now }).where(eq(users.id, userId)).run();
       revokeAllSessions(ctx, userId);
-      if (!active) sqlite.prepare('UPDATE email_tokens SET used_at = ? WHERE user_id = ? AND used_at IS NULL').run(now.getTime(), userId);
-      appendAudit(sqlite, { at: now, actorId: admin.userId, action: active ? 'user-reactivated' : 'user-deactivated', entityType: 'user', entityId: userId, unitId: null, before: { active: before.active === 1 }, after: { active } });
-    })
-    .immediate();
-  return toAdminUser(sqlite, { ...before, active: active ? 1 : 0 }, now.getTime(), admin.unitIds);
+      if (!active) tx.update(emailTokens).set({ usedAt: now }).where(and(eq(emailTokens.userId, userId), isNull(emailTokens.usedAt))).run();
+      appendAudit(sqlite, { at: now, actorId: admin.userId, action: active ? 'user-reactivated' : 'user-deactivated', entityType: 'user', entityId: userId, unitId: null, before: { active: before.active }, after: { active } });
+    },
+    { behavior: 'immediate' },
+  );
+  return toAdminUser(db, { ...before, active }, now, admin.unitIds);
 }
 
 /** A new invitation (no password yet) or a reset link (has one). */
 export function sendLinkFor(ctx: AppContext, userId: string, kind: 'invite' | 'reset', admin: { userId: string; unitIds: string[] }): IssuedLink {
-  const { sqlite } = ctx.database;
   const user = loadUser(ctx, userId, admin.unitIds);
-  if (user.active !== 1) throw conflict('This account is deactivated; reactivate it first.');
-  if (kind === 'invite' && user.password_hash) throw conflict('This person has already set a password; send a reset link instead.');
-  if (kind === 'reset' && !user.password_hash) throw conflict('This person has not accepted the invitation yet; send the invitation again.');
-  return sqlite.transaction(() => issueLink(ctx, sqlite, userId, kind, admin.userId)).immediate();
-}
-
-interface UnitDbRow {
-  id: string; name: string; hospital_name: string; time_zone: string; check_interval_minutes: number; due_soon_minutes: number;
-  gap_limit_centi: number; escalation_delay_minutes: number; day_shift_start: string; night_shift_start: string;
+  if (!user.active) throw conflict('This account is deactivated; reactivate it first.');
+  if (kind === 'invite' && user.passwordHash) throw conflict('This person has already set a password; send a reset link instead.');
+  if (kind === 'reset' && !user.passwordHash) throw conflict('This person has not accepted the invitation yet; send the invitation again.');
+  return ctx.database.db.transaction(() => issueLink(ctx, userId, kind, admin.userId), { behavior: 'immediate' });
 }
 
 export function listUnits(ctx: AppContext, unitIds: string[]): AdminUnit[] {
-  const { sqlite } = ctx.database;
-  const rows = sqlite.prepare('SELECT * FROM units ORDER BY name').all() as UnitDbRow[];
-  return rows
-    .filter((u) => unitIds.includes(u.id))
-    .map((u) => ({
-      id: u.id, name: u.name, hospitalName: u.hospital_name, timeZone: u.time_zone, checkIntervalMinutes: u.check_interval_minutes,
-      dueSoonMinutes: u.due_soon_minutes, gapLimitCenti: u.gap_limit_centi, escalationDelayMinutes: u.escalation_delay_minutes,
-      dayShiftStart: u.day_shift_start, nightShiftStart: u.night_shift_start,
-      beds: (sqlite.prepare('SELECT id, label, active FROM beds WHERE unit_id = ? ORDER BY sort_order, label').all(u.id) as Array<{ id: string; label: string; active: number }>).map((b) => ({ id: b.id, label: b.label, active: b.active === 1 })),
-    }));
+  const { db } = ctx.database;
+  if (unitIds.length === 0) return [];
+  const rows = db
+    .select({
+      id: units.id, name: units.name, hospitalName: units.hospitalName, timeZone: units.timeZone, checkIntervalMinutes: units.checkIntervalMinutes,
+      dueSoonMinutes: units.dueSoonMinutes, gapLimitCenti: units.gapLimitCenti, escalationDelayMinutes: units.escalationDelayMinutes,
+      dayShiftStart: units.dayShiftStart, nightShiftStart: units.nightShiftStart,
+    })
+    .from(units)
+    .where(inArray(units.id, unitIds))
+    .orderBy(units.name)
+    .all();
+  return rows.map((u) => ({
+    ...u,
+    beds: db.select({ id: beds.id, label: beds.label, active: beds.active }).from(beds).where(eq(beds.unitId, u.id)).orderBy(beds.sortOrder, beds.label).all(),
+  }));
 }

@@ -1,13 +1,11 @@
-import type Database from 'better-sqlite3';
-import { and, count, eq, gt, isNotNull } from 'drizzle-orm';
-import { writeTx } from '../../db/client';
+import { and, count, eq, gt, isNotNull, isNull } from 'drizzle-orm';
 import { emailTokens, users } from '../../db/schema';
 import { createHash, randomBytes, randomUUID } from 'node:crypto';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
-import { badRequest } from '../errors';
+import { badRequest, notFound } from '../errors';
 import { assertPasswordAllowed } from './passwords';
-import { hashPassword, revokeAllSessions } from './auth';
+import { hashPassword, nextSessionVersion, revokeAllSessions } from './auth';
 
 export type LinkKind = 'invite' | 'reset';
 
@@ -35,15 +33,18 @@ export interface IssuedLink {
  * Make a single-use link and keep only the SHA-256 of its token. Earlier unused links of the same
  * kind for the user stop working. Call inside a write transaction; send the mail after commit.
  */
-export function issueLink(ctx: AppContext, sqlite: Database.Database, userId: string, kind: LinkKind, actorId: string | null): IssuedLink {
-  const user = sqlite.prepare('SELECT id, email, name FROM users WHERE id = ?').get(userId) as { id: string; email: string; name: string };
+export function issueLink(ctx: AppContext, userId: string, kind: LinkKind, actorId: string | null): IssuedLink {
+  const { db, sqlite } = ctx.database;
+  const user = db.select({ email: users.email, name: users.name }).from(users).where(eq(users.id, userId)).get();
+  if (!user) throw notFound('That user');
   const now = ctx.clock.now();
   const token = randomBytes(32).toString('base64url');
   const expiresAt = new Date(now.getTime() + LINK_LIFETIME_MS[kind]);
-  sqlite.prepare('UPDATE email_tokens SET used_at = ? WHERE user_id = ? AND kind = ? AND used_at IS NULL').run(now.getTime(), userId, kind);
-  sqlite
-    .prepare('INSERT INTO email_tokens (id, user_id, kind, token_hash, created_at, expires_at, used_at) VALUES (?, ?, ?, ?, ?, ?, NULL)')
-    .run(randomUUID(), userId, kind, hashToken(token), now.getTime(), expiresAt.getTime());
+  db.update(emailTokens)
+    .set({ usedAt: now })
+    .where(and(eq(emailTokens.userId, userId), eq(emailTokens.kind, kind), isNull(emailTokens.usedAt)))
+    .run();
+  db.insert(emailTokens).values({ id: randomUUID(), userId, kind, tokenHash: hashToken(token), createdAt: now, expiresAt, usedAt: null }).run();
   appendAudit(sqlite, { at: now, actorId, action: kind === 'invite' ? 'invitation-sent' : 'password-reset-sent', entityType: 'user', entityId: userId, unitId: null, after: { expiresAt: expiresAt.toISOString() } });
   return { url: `${ctx.config.publicUrl}${LINK_PATH[kind]}?token=${encodeURIComponent(token)}`, expiresAt, to: user.email, name: user.name, kind, sentBy: actorId };
 }
@@ -86,7 +87,7 @@ export async function mailLinkSafely(ctx: AppContext, link: IssuedLink): Promise
  * with a password, at most one every five minutes (older unused links stop working).
  */
 export async function sendResetLink(ctx: AppContext, email: string): Promise<void> {
-  const { db, sqlite } = ctx.database;
+  const { db } = ctx.database;
   const user = db
     .select({ id: users.id })
     .from(users)
@@ -99,7 +100,7 @@ export async function sendResetLink(ctx: AppContext, email: string): Promise<voi
     .where(and(eq(emailTokens.userId, user.id), eq(emailTokens.kind, 'reset'), gt(emailTokens.createdAt, new Date(ctx.clock.now().getTime() - RESET_MAIL_INTERVAL_MS))))
     .get();
   if ((recent?.n ?? 0) > 0) return;
-  const link = writeTx(sqlite, () => issueLink(ctx, sqlite, user.id, 'reset', null));
+  const link = db.transaction(() => issueLink(ctx, user.id, 'reset', null), { behavior: 'immediate' });
   await mailLinkSafely(ctx, link);
 }
 
@@ -108,25 +109,29 @@ export async function sendResetLink(ctx: AppContext, email: string): Promise<voi
  * refused with the same kind of answer, on the `token` field.
  */
 export async function useLink(ctx: AppContext, kind: LinkKind, token: string, password: string): Promise<{ userId: string }> {
-  const { sqlite } = ctx.database;
-  const row = sqlite
-    .prepare('SELECT t.id, t.user_id, t.kind, t.expires_at, t.used_at, u.email, u.name, u.active, u.session_version FROM email_tokens t JOIN users u ON u.id = t.user_id WHERE t.token_hash = ?')
-    .get(hashToken(token)) as { id: string; user_id: string; kind: LinkKind; expires_at: number; used_at: number | null; email: string; name: string; active: number; session_version: number } | undefined;
+  const { db, sqlite } = ctx.database;
+  const row = db
+    .select({ id: emailTokens.id, userId: emailTokens.userId, kind: emailTokens.kind, expiresAt: emailTokens.expiresAt, usedAt: emailTokens.usedAt, email: users.email, name: users.name, active: users.active })
+    .from(emailTokens)
+    .innerJoin(users, eq(users.id, emailTokens.userId))
+    .where(eq(emailTokens.tokenHash, hashToken(token)))
+    .get();
   const now = ctx.clock.now();
   if (!row || row.kind !== kind || !row.active) throw badRequest('This link is not valid.', { token: 'This link is not valid. Ask your administrator for a new one.' });
-  if (row.used_at !== null) throw badRequest('This link was already used.', { token: 'This link was already used. Ask your administrator for a new one.' });
-  if (now.getTime() > row.expires_at) throw badRequest('This link has expired.', { token: 'This link has expired. Ask your administrator for a new one.' });
+  if (row.usedAt !== null) throw badRequest('This link was already used.', { token: 'This link was already used. Ask your administrator for a new one.' });
+  if (now.getTime() > row.expiresAt.getTime()) throw badRequest('This link has expired.', { token: 'This link has expired. Ask your administrator for a new one.' });
   assertPasswordAllowed(password, 'password', [row.email, row.name]);
   const hash = await hashPassword(password, ctx.config.bcryptCost);
-  sqlite
-    .transaction(() => {
+  db.transaction(
+    (tx) => {
       // Check again under the write lock: two tabs submitting the same link must not both win.
-      const used = sqlite.prepare('UPDATE email_tokens SET used_at = ? WHERE id = ? AND used_at IS NULL').run(now.getTime(), row.id);
+      const used = tx.update(emailTokens).set({ usedAt: now }).where(and(eq(emailTokens.id, row.id), isNull(emailTokens.usedAt))).run();
       if (used.changes !== 1) throw badRequest('This link was already used.', { token: 'This link was already used.' });
-      sqlite.prepare('UPDATE users SET password_hash = ?, session_version = session_version + 1, updated_at = ? WHERE id = ?').run(hash, now.getTime(), row.user_id);
-      revokeAllSessions(ctx, row.user_id);
-      appendAudit(sqlite, { at: now, actorId: row.user_id, action: kind === 'invite' ? 'invitation-accepted' : 'password-reset', entityType: 'user', entityId: row.user_id, unitId: null });
-    })
-    .immediate();
-  return { userId: row.user_id };
+      tx.update(users).set({ passwordHash: hash, sessionVersion: nextSessionVersion, updatedAt: now }).where(eq(users.id, row.userId)).run();
+      revokeAllSessions(ctx, row.userId);
+      appendAudit(sqlite, { at: now, actorId: row.userId, action: kind === 'invite' ? 'invitation-accepted' : 'password-reset', entityType: 'user', entityId: row.userId, unitId: null });
+    },
+    { behavior: 'immediate' },
+  );
+  return { userId: row.userId };
 }

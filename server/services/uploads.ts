@@ -1,74 +1,40 @@
-import type Database from 'better-sqlite3';
-import type { Request, RequestHandler } from 'express';
-import multer from 'multer';
 import { createHash, randomUUID } from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
+import { and, eq, inArray, isNull } from 'drizzle-orm';
 import { decodeCsvBytes, parseCsvLines } from '../../shared/uploads/csv-text';
 import { toCsv } from '../../shared/csv';
-import { checkReadingRow, checkRosterRow, MAX_UPLOAD_BYTES, MAX_UPLOAD_ROWS, missingColumns, READINGS_COLUMNS, READINGS_REQUIRED, ROSTER_COLUMNS, type ParsedReadingRow, type Row, type RosterRow } from '../../shared/uploads/csv-formats';
+import { checkReadingRow, checkRosterRow, MAX_UPLOAD_ROWS, missingColumns, READINGS_COLUMNS, READINGS_REQUIRED, ROSTER_COLUMNS, type ParsedReadingRow, type Row, type RosterRow } from '../../shared/uploads/csv-formats';
 import type { ImportResult, UploadPreview, UploadRowPreview } from '../../shared/types/admin';
+import type { Database_ } from '../../db/client';
+import { beds, infants, readings, uploads, userUnits, units, users } from '../../db/schema';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
-import { ApiError, badRequest, forbidden, notFound } from '../errors';
-import type { Database_ } from '../../db/client';
+import { badRequest, forbidden, notFound } from '../errors';
 import { accountFor, createUserRows } from './admin-users';
 import { mailLinkSafely, type IssuedLink } from './email-links';
 import { syncFlags } from './flags';
-import { and, eq, inArray } from 'drizzle-orm';
-import { beds, infants, readings, userUnits, units, users } from '../../db/schema';
-import { unsafeTextReason } from '../../shared/schemas/safe-text';
-import { multipartErrorsAs400 } from '../middleware/validate';
-
-const CSV_TYPES = new Set(['text/csv', 'application/csv', 'text/plain', 'application/vnd.ms-excel', 'text/comma-separated-values']);
 
 export function uploadsDir(ctx: AppContext): string {
   return path.join(ctx.config.dataDir, 'uploads');
 }
 
-/** The size limit in words, for the error that refuses a larger file. */
-export const UPLOAD_LIMIT_TEXT = `${MAX_UPLOAD_BYTES / (1024 * 1024)} MB (${MAX_UPLOAD_BYTES.toLocaleString('en-GB')} bytes)`;
-
-/** A file over the size limit is refused with the limit stated, not a bare "too large". */
-function statingSizeLimit(handler: RequestHandler): RequestHandler {
-  return (req, res, next) =>
-    handler(req, res, (err?: unknown) => {
-      if (err instanceof multer.MulterError && err.code === 'LIMIT_FILE_SIZE') {
-        next(new ApiError(413, 'payload-too-large', `The file is larger than the limit of ${UPLOAD_LIMIT_TEXT}.`, { file: `At most ${UPLOAD_LIMIT_TEXT} per file: split it into smaller files.` }));
-        return;
-      }
-      next(err);
-    });
+/** A file the upload route has written under the uploads folder. */
+export interface UploadedFile {
+  /** Where it is on disk. */
+  path: string;
+  /** Its name on the uploader's machine. */
+  originalName: string;
+  size: number;
 }
 
-/**
- * One CSV file in the field `file`, kept on disk under the data folder; size and type limited.
- * multipartErrorsAs400 stays the outermost wrapper: its mark is what lets the route take multipart.
- */
-export function csvUpload(ctx: AppContext) {
-  return multipartErrorsAs400(statingSizeLimit(multer({
-    storage: multer.diskStorage({
-      destination: (_req, _file, cb) => {
-        const dir = uploadsDir(ctx);
-        fs.mkdir(dir, { recursive: true }, (err) => cb(err, dir));
-      },
-      filename: (_req, _file, cb) => cb(null, `${randomUUID()}.csv`),
-    }),
-    limits: { fileSize: MAX_UPLOAD_BYTES, files: 1, fields: 5, parts: 8 },
-    fileFilter: (_req, file, cb) => {
-      const unsafeName = unsafeTextReason(file.originalname);
-      if (unsafeName) {
-        cb(badRequest('The file name cannot be stored.', { file: `File name: ${unsafeName}` }));
-        return;
-      }
-      if (!/\.csv$/i.test(file.originalname) || !CSV_TYPES.has(file.mimetype)) {
-        cb(badRequest('Only CSV files can be uploaded.', { file: 'Choose a .csv file (comma-separated text).' }));
-        return;
-      }
-      cb(null, true);
-    },
-  }).single('file')));
+/** Who uploads: the signed-in person and their units. */
+export interface Uploader {
+  userId: string;
+  unitIds: string[];
 }
+
+type UploadRow = typeof uploads.$inferSelect;
 
 function removeFile(file: string): void {
   fs.rm(file, { force: true }, () => {});
@@ -99,46 +65,35 @@ function readText(file: string, remove: boolean): string {
   return decoded.text;
 }
 
-function requireFile(req: Request): Express.Multer.File {
-  if (!req.file) throw badRequest('Choose a CSV file to upload.', { file: 'Choose a CSV file.' });
-  return req.file;
-}
-
 function sha256(file: string): string {
   return createHash('sha256').update(fs.readFileSync(file)).digest('hex');
-}
-
-interface UploadRow {
-  id: string;
-  kind: 'roster' | 'readings';
-  unit_id: string | null;
-  filename: string;
-  stored_name: string;
-  sha256: string;
-  row_count: number;
-  status: 'previewed' | 'imported' | 'rejected';
-  uploaded_by: string;
 }
 
 /**
  * Keep a newly uploaded file as an upload row, unless the same content was uploaded before
  * (same kind, same unit): then the new copy is dropped and the earlier upload answers, so a
- * re-upload writes nothing.
+ * re-upload writes nothing. The row is stored by `saveUploadRow` once the file's header passed.
  */
-function registerUpload(ctx: AppContext, req: Request, kind: 'roster' | 'readings', unitId: string | null): { upload: UploadRow; text: string } {
-  const file = requireFile(req);
-  const { sqlite } = ctx.database;
+function registerUpload(ctx: AppContext, file: UploadedFile, uploader: Uploader, kind: 'roster' | 'readings', unitId: string | null): { upload: UploadRow; text: string } {
   const hash = sha256(file.path);
   const text = readText(file.path, true);
-  const earlier = sqlite
-    .prepare("SELECT * FROM uploads WHERE kind = ? AND sha256 = ? AND COALESCE(unit_id, '') = ? ORDER BY CASE status WHEN 'imported' THEN 0 ELSE 1 END, created_at LIMIT 1")
-    .get(kind, hash, unitId ?? '') as UploadRow | undefined;
+  const same = ctx.database.db
+    .select()
+    .from(uploads)
+    .where(and(eq(uploads.kind, kind), eq(uploads.sha256, hash), unitId === null ? isNull(uploads.unitId) : eq(uploads.unitId, unitId)))
+    .orderBy(uploads.createdAt)
+    .all();
+  // The imported one answers if there is one, else the first.
+  const earlier = same.find((u) => u.status === 'imported') ?? same[0];
   if (earlier) {
     removeFile(file.path);
     return { upload: earlier, text };
   }
   return {
-    upload: { id: randomUUID(), kind, unit_id: unitId, filename: path.basename(file.originalname).slice(0, 200), stored_name: path.basename(file.path), sha256: hash, row_count: 0, status: 'previewed', uploaded_by: req.auth!.userId },
+    upload: {
+      id: randomUUID(), kind, unitId, filename: path.basename(file.originalName).slice(0, 200), storedName: path.basename(file.path), sha256: hash, sizeBytes: file.size,
+      rowCount: 0, status: 'previewed', uploadedBy: uploader.userId, createdAt: ctx.clock.now(), importedAt: null,
+    },
     text,
   };
 }
@@ -159,13 +114,11 @@ function checkHeader(parsed: ParsedFile, required: readonly string[], filePath?:
   }
 }
 
-function saveUploadRow(ctx: AppContext, upload: UploadRow, rowCount: number, sizeBytes: number): void {
-  const { sqlite } = ctx.database;
-  if (sqlite.prepare('SELECT 1 FROM uploads WHERE id = ?').get(upload.id)) return;
-  sqlite
-    .prepare('INSERT INTO uploads (id, kind, unit_id, filename, stored_name, sha256, size_bytes, row_count, status, uploaded_by, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)')
-    .run(upload.id, upload.kind, upload.unit_id, upload.filename, upload.stored_name, upload.sha256, sizeBytes, rowCount, 'previewed', upload.uploaded_by, ctx.clock.now().getTime());
-  upload.row_count = rowCount;
+function saveUploadRow(ctx: AppContext, upload: UploadRow, rowCount: number): void {
+  const { db } = ctx.database;
+  if (db.select({ id: uploads.id }).from(uploads).where(eq(uploads.id, upload.id)).get()) return;
+  upload.rowCount = rowCount;
+  db.insert(uploads).values(upload).run();
 }
 
 function previewOf(upload: UploadRow, rows: UploadRowPreview[]): UploadPreview {
@@ -185,8 +138,7 @@ function previewOf(upload: UploadRow, rows: UploadRowPreview[]): UploadPreview {
 // --------------------------------------------------------------------------------------------
 
 function checkRoster(database: Database_, parsed: ParsedFile, adminUnits: string[]): Array<UploadRowPreview & { value?: RosterRow & { unitId: string } }> {
-  const { sqlite } = database;
-  const units = sqlite.prepare('SELECT id, name FROM units').all() as Array<{ id: string; name: string }>;
+  const unitList = database.db.select({ id: units.id, name: units.name }).from(units).all();
   const seen = new Set<string>();
   return parsed.rows.map(({ line, values }) => {
     const parseError = parsed.parseErrors.get(line);
@@ -194,7 +146,7 @@ function checkRoster(database: Database_, parsed: ParsedFile, adminUnits: string
     if (parseError) errors.unshift(parseError);
     let unitId: string | undefined;
     if (value) {
-      const unit = units.find((u) => u.id === value.unit || u.name.toLowerCase() === value.unit.toLowerCase());
+      const unit = unitList.find((u) => u.id === value.unit || u.name.toLowerCase() === value.unit.toLowerCase());
       if (!unit) errors.push(`unit: no unit called "${value.unit}"`);
       else if (!adminUnits.includes(unit.id)) errors.push(`unit: "${unit.name}" is not one of your units`);
       else unitId = unit.id;
@@ -213,52 +165,60 @@ function checkRoster(database: Database_, parsed: ParsedFile, adminUnits: string
 
 const strip = <T extends { value?: unknown }>(rows: T[]): UploadRowPreview[] => rows.map(({ value: _v, ...r }) => r as unknown as UploadRowPreview);
 
-export function previewRoster(ctx: AppContext, req: Request): UploadPreview {
-  const file = requireFile(req);
-  const { upload, text } = registerUpload(ctx, req, 'roster', null);
+export function previewRoster(ctx: AppContext, file: UploadedFile, uploader: Uploader): UploadPreview {
+  const { upload, text } = registerUpload(ctx, file, uploader, 'roster', null);
   const parsed = parseCsv(text);
-  checkHeader(parsed, ROSTER_COLUMNS, upload.stored_name === path.basename(file.path) ? file.path : undefined);
-  const rows = checkRoster(ctx.database, parsed, req.auth!.unitIds);
-  saveUploadRow(ctx, upload, rows.length, file.size);
+  checkHeader(parsed, ROSTER_COLUMNS, upload.storedName === path.basename(file.path) ? file.path : undefined);
+  const rows = checkRoster(ctx.database, parsed, uploader.unitIds);
+  saveUploadRow(ctx, upload, rows.length);
   return previewOf(upload, strip(rows));
 }
 
 function loadUpload(ctx: AppContext, uploadId: string, kind: 'roster' | 'readings'): { upload: UploadRow; text: string } {
-  const upload = ctx.database.sqlite.prepare('SELECT * FROM uploads WHERE id = ? AND kind = ?').get(uploadId, kind) as UploadRow | undefined;
+  const upload = ctx.database.db.select().from(uploads).where(and(eq(uploads.id, uploadId), eq(uploads.kind, kind))).get();
   if (!upload) throw notFound('That upload');
-  const file = path.join(uploadsDir(ctx), upload.stored_name);
+  const file = path.join(uploadsDir(ctx), upload.storedName);
   if (!fs.existsSync(file)) throw notFound('That uploaded file');
   return { upload, text: readText(file, false) };
 }
 
+/** Whether the upload was imported meanwhile: checked again inside the write lock. */
+function importedMeanwhile(ctx: AppContext, uploadId: string): boolean {
+  return ctx.database.db.select({ status: uploads.status }).from(uploads).where(eq(uploads.id, uploadId)).get()?.status === 'imported';
+}
+
+function markImported(ctx: AppContext, uploadId: string, rowCount: number, now: Date): void {
+  ctx.database.db.update(uploads).set({ status: 'imported', importedAt: now, rowCount }).where(eq(uploads.id, uploadId)).run();
+}
+
 /** Create and invite every new person in one transaction; e-mail the invitations after it commits. */
-export async function importRoster(ctx: AppContext, uploadId: string, auth: { userId: string; unitIds: string[] }): Promise<ImportResult> {
-  const { sqlite } = ctx.database;
+export async function importRoster(ctx: AppContext, uploadId: string, auth: Uploader): Promise<ImportResult> {
+  const { db, sqlite } = ctx.database;
   const { upload, text } = loadUpload(ctx, uploadId, 'roster');
-  if (upload.status === 'imported') return { created: 0, skipped: upload.row_count, alreadyImported: true };
+  if (upload.status === 'imported') return { created: 0, skipped: upload.rowCount, alreadyImported: true };
   const parsed = parseCsv(text);
   checkHeader(parsed, ROSTER_COLUMNS);
   const links: IssuedLink[] = [];
-  const result = sqlite
-    .transaction(() => {
+  const result = db.transaction(
+    () => {
       // Checked again inside the write lock, so two admins importing the same file create nobody twice.
-      const fresh = sqlite.prepare('SELECT status FROM uploads WHERE id = ?').get(upload.id) as { status: string };
-      if (fresh.status === 'imported') return { created: 0, skipped: upload.row_count, alreadyImported: true };
+      if (importedMeanwhile(ctx, upload.id)) return { created: 0, skipped: upload.rowCount, alreadyImported: true };
       const rows = checkRoster(ctx.database, parsed, auth.unitIds);
       const bad = rows.filter((r) => r.action === 'error');
       if (bad.length) throw badRequest('Some rows have errors; nothing was imported.', { file: `${bad.length} row${bad.length > 1 ? 's have' : ' has'} errors (first: line ${bad[0]!.line}). Fix the file and upload it again.` });
       let created = 0;
       for (const r of rows) {
         if (r.action !== 'create' || !r.value) continue;
-        const { link } = createUserRows(ctx, sqlite, { name: r.value.name, email: r.value.email, role: r.value.role, unitIds: [r.value.unitId] }, auth.userId);
+        const { link } = createUserRows(ctx, { name: r.value.name, email: r.value.email, role: r.value.role, unitIds: [r.value.unitId] }, auth.userId);
         links.push(link);
         created += 1;
       }
-      sqlite.prepare("UPDATE uploads SET status = 'imported', imported_at = ?, row_count = ? WHERE id = ?").run(ctx.clock.now().getTime(), rows.length, upload.id);
+      markImported(ctx, upload.id, rows.length, ctx.clock.now());
       appendAudit(sqlite, { at: ctx.clock.now(), actorId: auth.userId, action: 'roster-imported', entityType: 'upload', entityId: upload.id, unitId: null, after: { created, skipped: rows.length - created, sha256: upload.sha256 } });
       return { created, skipped: rows.length - created, alreadyImported: false };
-    })
-    .immediate();
+    },
+    { behavior: 'immediate' },
+  );
   for (const link of links) await mailLinkSafely(ctx, link);
   return result;
 }
@@ -278,7 +238,7 @@ export function importedReadingId(infantId: string, r: ParsedReadingRow): string
 type CheckedReading = UploadRowPreview & { value?: ParsedReadingRow & { infantId: string; id: string; takenById: string | null } };
 
 function checkReadings(ctx: AppContext, parsed: ParsedFile, unitId: string): CheckedReading[] {
-  const { db, sqlite } = ctx.database;
+  const { db } = ctx.database;
   const unit = db.select({ timeZone: units.timeZone }).from(units).where(eq(units.id, unitId)).get();
   if (!unit) throw notFound('That unit');
   const admitted = db
@@ -299,7 +259,7 @@ function checkReadings(ctx: AppContext, parsed: ParsedFile, unitId: string): Che
   );
   const now = ctx.clock.now().getTime();
   const seen = new Set<string>();
-  return parsed.rows.map(({ line, values }) => {
+  const checked: CheckedReading[] = parsed.rows.map(({ line, values }) => {
     const { value, errors } = checkReadingRow(values, unit.timeZone);
     const parseError = parsed.parseErrors.get(line);
     if (parseError) errors.unshift(parseError);
@@ -323,9 +283,20 @@ function checkReadings(ctx: AppContext, parsed: ParsedFile, unitId: string): Che
     const id = importedReadingId(infantId, value);
     if (seen.has(id)) return { line, values, errors: [], action: 'skip' as const, note: 'Same reading earlier in this file' };
     seen.add(id);
-    if (sqlite.prepare('SELECT 1 FROM readings WHERE id = ?').get(id)) return { line, values, errors: [], action: 'skip' as const, note: 'Already charted' };
     return { line, values, errors: [], action: 'create' as const, ...(value.unusual.length ? { unusual: value.unusual } : {}), value: { ...value, infantId, id, takenById } };
   });
+  const charted = chartedAlready(ctx, checked.flatMap((r) => (r.value ? [r.value.id] : [])));
+  return checked.map((r) => (r.value && charted.has(r.value.id) ? { line: r.line, values: r.values, errors: [], action: 'skip' as const, note: 'Already charted' } : r));
+}
+
+/** Which of these reading ids are stored already (an earlier import of the same rows). */
+function chartedAlready(ctx: AppContext, ids: string[]): Set<string> {
+  const found = new Set<string>();
+  for (let i = 0; i < ids.length; i += 500) {
+    const some = ids.slice(i, i + 500);
+    for (const r of ctx.database.db.select({ id: readings.id }).from(readings).where(inArray(readings.id, some)).all()) found.add(r.id);
+  }
+  return found;
 }
 
 function readingsPreview(upload: UploadRow, rows: CheckedReading[]): UploadPreview {
@@ -333,21 +304,20 @@ function readingsPreview(upload: UploadRow, rows: CheckedReading[]): UploadPrevi
   return { ...preview, toConfirm: preview.rows.filter((r) => r.action === 'create' && r.unusual?.length).map((r) => r.line) };
 }
 
-export function previewReadings(ctx: AppContext, req: Request, unitId: string): UploadPreview {
-  const file = requireFile(req);
-  if (!req.auth!.unitIds.includes(unitId)) {
+export function previewReadings(ctx: AppContext, file: UploadedFile, unitId: string, uploader: Uploader): UploadPreview {
+  if (!uploader.unitIds.includes(unitId)) {
     removeFile(file.path);
     throw forbidden('This unit is not one of yours.');
   }
-  if (!ctx.database.sqlite.prepare('SELECT 1 FROM units WHERE id = ?').get(unitId)) {
+  if (!ctx.database.db.select({ id: units.id }).from(units).where(eq(units.id, unitId)).get()) {
     removeFile(file.path);
     throw notFound('That unit');
   }
-  const { upload, text } = registerUpload(ctx, req, 'readings', unitId);
+  const { upload, text } = registerUpload(ctx, file, uploader, 'readings', unitId);
   const parsed = parseCsv(text);
-  checkHeader(parsed, READINGS_REQUIRED, upload.stored_name === path.basename(file.path) ? file.path : undefined);
+  checkHeader(parsed, READINGS_REQUIRED, upload.storedName === path.basename(file.path) ? file.path : undefined);
   const rows = checkReadings(ctx, parsed, unitId);
-  saveUploadRow(ctx, upload, rows.length, file.size);
+  saveUploadRow(ctx, upload, rows.length);
   return readingsPreview(upload, rows);
 }
 
@@ -357,19 +327,18 @@ export function previewReadings(ctx: AppContext, req: Request, unitId: string): 
  * recorded by the charge nurse who imports it and credited to the nurse the file names in
  * `taken_by`; a row that names nobody is credited to no nurse.
  */
-export function importReadings(ctx: AppContext, uploadId: string, auth: { userId: string; unitIds: string[] }, confirmedLines: readonly number[] = []): ImportResult {
+export function importReadings(ctx: AppContext, uploadId: string, auth: Uploader, confirmedLines: readonly number[] = []): ImportResult {
   const { db, sqlite } = ctx.database;
   const { upload, text } = loadUpload(ctx, uploadId, 'readings');
-  if (!upload.unit_id || !auth.unitIds.includes(upload.unit_id)) throw forbidden('This upload is for a unit you are not part of.');
-  if (upload.status === 'imported') return { created: 0, skipped: upload.row_count, alreadyImported: true };
+  if (!upload.unitId || !auth.unitIds.includes(upload.unitId)) throw forbidden('This upload is for a unit you are not part of.');
+  if (upload.status === 'imported') return { created: 0, skipped: upload.rowCount, alreadyImported: true };
   const parsed = parseCsv(text);
   checkHeader(parsed, READINGS_REQUIRED);
-  const unitId = upload.unit_id;
+  const unitId = upload.unitId;
   const confirmed = new Set(confirmedLines);
-  return sqlite
-    .transaction(() => {
-      const fresh = sqlite.prepare('SELECT status FROM uploads WHERE id = ?').get(upload.id) as { status: string };
-      if (fresh.status === 'imported') return { created: 0, skipped: upload.row_count, alreadyImported: true };
+  return db.transaction(
+    (tx) => {
+      if (importedMeanwhile(ctx, upload.id)) return { created: 0, skipped: upload.rowCount, alreadyImported: true };
       const rows = checkReadings(ctx, parsed, unitId);
       const bad = rows.filter((r) => r.action === 'error');
       if (bad.length) throw badRequest('Some rows have errors; nothing was imported.', { file: `${bad.length} row${bad.length > 1 ? 's have' : ' has'} errors (first: line ${bad[0]!.line}: ${bad[0]!.errors[0]}).` });
@@ -385,7 +354,7 @@ export function importReadings(ctx: AppContext, uploadId: string, auth: { userId
       for (const r of rows) {
         if (r.action !== 'create' || !r.value) continue;
         const v = r.value;
-        db.insert(readings)
+        tx.insert(readings)
           .values({
             id: v.id, infantId: v.infantId, unitId, takenAt: v.takenAt, recordedAt: now, recordedBy: auth.userId, takenBy: v.takenById, uploadId: upload.id,
             probeCenti: v.probeCenti, remoteCenti: v.remoteCenti, remoteSite: v.remoteSite, airCenti: v.airCenti, setCenti: v.setCenti, controlMode: v.controlMode,
@@ -398,18 +367,19 @@ export function importReadings(ctx: AppContext, uploadId: string, auth: { userId
       const confirmedUsed = rows.filter((r) => r.action === 'create' && r.unusual?.length).map((r) => r.line);
       appendAudit(sqlite, { at: now, actorId: auth.userId, action: 'readings-imported', entityType: 'upload', entityId: upload.id, unitId, after: { created: ids.length, readingIds: ids, sha256: upload.sha256, confirmedLines: confirmedUsed } });
       for (const infantId of infantsTouched) syncFlags(sqlite, infantId, now, auth.userId);
-      sqlite.prepare("UPDATE uploads SET status = 'imported', imported_at = ?, row_count = ? WHERE id = ?").run(now.getTime(), rows.length, upload.id);
+      markImported(ctx, upload.id, rows.length, now);
       return { created: ids.length, skipped: rows.length - ids.length, alreadyImported: false };
-    })
-    .immediate();
+    },
+    { behavior: 'immediate' },
+  );
 }
 
 /** Every refused row of a previewed readings file as CSV: line, field, reason and the row as it was. */
 export function readingsErrorsCsv(ctx: AppContext, uploadId: string, auth: { unitIds: string[] }): { filename: string; csv: string } {
   const { upload, text } = loadUpload(ctx, uploadId, 'readings');
-  if (!upload.unit_id || !auth.unitIds.includes(upload.unit_id)) throw forbidden('This upload is for a unit you are not part of.');
+  if (!upload.unitId || !auth.unitIds.includes(upload.unitId)) throw forbidden('This upload is for a unit you are not part of.');
   const parsed = parseCsv(text);
-  const rows = checkReadings(ctx, parsed, upload.unit_id);
+  const rows = checkReadings(ctx, parsed, upload.unitId);
   const out: Array<[number, string, string, string]> = [];
   for (const r of rows) {
     for (const e of r.errors) {
