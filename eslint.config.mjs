@@ -49,6 +49,11 @@ export default defineConfig([
       ],
     },
   },
+  // One import alias on the client: `@/` (the server keeps relative imports: plain tsc builds it).
+  {
+    files: ['app/**/*.{ts,tsx}', 'components/**/*.{ts,tsx}'],
+    rules: { 'no-restricted-imports': ['error', { patterns: [{ group: ['../*'], message: 'Import through the @/ alias.' }] }] },
+  },
   // Node: the server, the database, the scripts, the bench, the tests and the config files.
   {
     files: ['server/**', 'db/**', 'scripts/**', 'bench/**', 'tests/**', '*.config.*', '*.js', '*.mjs', 'drizzle.config.ts'],
