@@ -50,7 +50,10 @@ function routesFromAppFolder(): string[] {
       const full = path.join(dir, entry.name);
       if (entry.isDirectory()) walk(full);
       else if (/\.tsx?$/.test(entry.name) && !/^_layout\.|^\+html\.|^\+not-found\./.test(entry.name) && !/\.(web|native|ios|android)\.tsx?$/.test(entry.name)) {
-        const rel = path.relative(root, full).replace(/\.tsx?$/, '').split(path.sep);
+        const rel = path
+          .relative(root, full)
+          .replace(/\.tsx?$/, '')
+          .split(path.sep);
         const segments = rel.filter((s) => !/^\(.*\)$/.test(s) && s !== 'index');
         out.push(`/${segments.join('/')}`);
       }
@@ -125,7 +128,8 @@ async function settle(page: Page): Promise<void> {
 /** Visible controls smaller than 44x44 CSS px. */
 async function smallTargets(page: Page): Promise<{ what: string; size: string }[]> {
   return page.evaluate(() => {
-    const selector = 'a[href], button, input:not([type="hidden"]), textarea, select, [role="button"], [role="link"], [role="radio"], [role="checkbox"], [role="switch"], [role="tab"]';
+    const selector =
+      'a[href], button, input:not([type="hidden"]), textarea, select, [role="button"], [role="link"], [role="radio"], [role="checkbox"], [role="switch"], [role="tab"]';
     const out: { what: string; size: string }[] = [];
     for (const el of document.querySelectorAll<HTMLElement>(selector)) {
       if (el.offsetParent === null || el.getAttribute('aria-hidden') === 'true') continue;
@@ -148,7 +152,11 @@ async function runAxe(page: Page): Promise<AxeResult> {
   const loaded = await page.evaluate(() => typeof (window as unknown as { axe?: unknown }).axe !== 'undefined');
   if (!loaded) await page.addScriptTag({ path: AXE });
   return page.evaluate(
-    (tags) => (window as unknown as { axe: { run: (ctx: Document, opts: object) => Promise<AxeResult> } }).axe.run(document, { runOnly: { type: 'tag', values: tags }, resultTypes: ['violations'] }),
+    (tags) =>
+      (window as unknown as { axe: { run: (ctx: Document, opts: object) => Promise<AxeResult> } }).axe.run(document, {
+        runOnly: { type: 'tag', values: tags },
+        resultTypes: ['violations'],
+      }),
     TAGS,
   );
 }
@@ -194,7 +202,10 @@ describe('accessibility (axe, WCAG 2.2 A and AA)', () => {
           try {
             await page.goto(`${BASE_URL}${screen.path}`);
             if (screen.path === '/sign-in' || screen.name === 'not-found') {
-              await page.getByText(/Sign in|This page is not here/).first().waitFor();
+              await page
+                .getByText(/Sign in|This page is not here/)
+                .first()
+                .waitFor();
               await page.waitForTimeout(300);
             } else {
               await settle(page);
@@ -212,7 +223,10 @@ describe('accessibility (axe, WCAG 2.2 A and AA)', () => {
               // The page's colour scheme follows once the app has re-rendered (a night-shift board is dark already).
               const followed = await page
                 .waitForFunction(() => getComputedStyle(document.documentElement).colorScheme === 'dark', undefined, { timeout: 5000 })
-                .then(() => true, () => false);
+                .then(
+                  () => true,
+                  () => false,
+                );
               if (!followed) record('theme-not-followed', 'serious', 'the screen stayed light when the system asked for dark');
               await page.waitForTimeout(150);
             }
@@ -272,12 +286,18 @@ describe('accessibility (axe, WCAG 2.2 A and AA)', () => {
   });
 
   it('reports the screens checked and finds no violations', () => {
-    const lines = violations.map((v) => `  - [${v.impact}] ${v.id} on ${v.screen} (${v.size}, ${v.scheme}): ${v.help}\n      targets: ${v.targets.slice(0, 4).join(' ')}${v.targets.length > 4 ? ` (+${v.targets.length - 4} more)` : ''}\n      ${v.summary}`);
+    const lines = violations.map(
+      (v) =>
+        `  - [${v.impact}] ${v.id} on ${v.screen} (${v.size}, ${v.scheme}): ${v.help}\n      targets: ${v.targets.slice(0, 4).join(' ')}${v.targets.length > 4 ? ` (+${v.targets.length - 4} more)` : ''}\n      ${v.summary}`,
+    );
     const screens = new Set([...checked].map((c) => c.split('@')[0]));
     console.log(`a11y: ${screens.size} screens checked (${checked.size} screen x size x theme runs), ${violations.length} violations`);
     if (plan.skipped.length) console.log(`a11y: not checked (no sample parameters): ${plan.skipped.join(', ')}`);
     if (lines.length) console.log(lines.join('\n'));
-    fs.writeFileSync(path.join(process.env.E2E_ARTIFACTS ?? path.join('tests', 'e2e', 'artifacts'), 'a11y-report.json'), JSON.stringify({ checked: [...checked], violations }, null, 2));
+    fs.writeFileSync(
+      path.join(process.env.E2E_ARTIFACTS ?? path.join('tests', 'e2e', 'artifacts'), 'a11y-report.json'),
+      JSON.stringify({ checked: [...checked], violations }, null, 2),
+    );
     // No violations means nothing if nothing was looked at: every screen, at both sizes, in both themes.
     assert.deepEqual(plan.skipped, [], 'every route under app/ is opened with sample parameters');
     assert.ok(screens.size >= SCREENS_AT_LEAST, `${screens.size} screens checked, expected at least ${SCREENS_AT_LEAST}`);

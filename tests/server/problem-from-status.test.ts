@@ -75,10 +75,20 @@ describe('problemFromStatus on the real server’s answers', () => {
     expect(read(await request(env.app).get('/api/no-such-thing').set('Authorization', `Bearer ${nurse}`))).toMatchObject({ kind: 'not-found' });
 
     const admin = await env.signIn(DEMO.admin);
-    const taken = read(await request(env.app).post('/api/admin/users').set('Authorization', `Bearer ${admin}`).send({ name: 'Nia Again', email: DEMO.nurse, role: 'nurse', unitIds: ['unit-north'] }));
+    const taken = read(
+      await request(env.app)
+        .post('/api/admin/users')
+        .set('Authorization', `Bearer ${admin}`)
+        .send({ name: 'Nia Again', email: DEMO.nurse, role: 'nurse', unitIds: ['unit-north'] }),
+    );
     expect(taken.kind).toBe('conflict');
 
-    const invalid = read(await request(env.app).post('/api/admin/users').set('Authorization', `Bearer ${admin}`).send({ name: 'No Address', email: 'not-an-address', role: 'nurse', unitIds: ['unit-north'] }));
+    const invalid = read(
+      await request(env.app)
+        .post('/api/admin/users')
+        .set('Authorization', `Bearer ${admin}`)
+        .send({ name: 'No Address', email: 'not-an-address', role: 'nurse', unitIds: ['unit-north'] }),
+    );
     expect(invalid.kind).toBe('invalid');
     expect(invalid.kind === 'invalid' ? Object.keys(invalid.fields) : []).toContain('email');
 

@@ -157,11 +157,25 @@ function addFarUnit(env: TestEnv) {
   sqlite.prepare("INSERT INTO users (id, email, name, role, created_at, updated_at) VALUES ('u-far', 'far.nurse@warmfold.test', 'Far Nurse', 'nurse', ?, ?)").run(now, now);
   sqlite.prepare("INSERT INTO user_units (user_id, unit_id) VALUES ('u-far', 'unit-far')").run();
   sqlite
-    .prepare("INSERT INTO infants (id, unit_id, bed_id, display_name, birth_at, gestation_weeks, gestation_days, birth_weight_grams, weight_grams, heat_source, admitted_at) VALUES ('inf-far', 'unit-far', 'bed-far', 'Baby Faraway', ?, 34, 0, 2000, 2000, 'incubator', ?)")
+    .prepare(
+      "INSERT INTO infants (id, unit_id, bed_id, display_name, birth_at, gestation_weeks, gestation_days, birth_weight_grams, weight_grams, heat_source, admitted_at) VALUES ('inf-far', 'unit-far', 'bed-far', 'Baby Faraway', ?, 34, 0, 2000, 2000, 'incubator', ?)",
+    )
     .run(now - 86_400_000, now - 86_400_000);
-  sqlite.prepare("INSERT INTO readings (id, infant_id, unit_id, taken_at, recorded_at, recorded_by, probe_centi, remote_centi, remote_site) VALUES ('rd-far', 'inf-far', 'unit-far', ?, ?, 'u-far', 3650, 3720, 'axilla')").run(now - 3_600_000, now - 3_600_000);
-  sqlite.prepare("INSERT INTO flags (id, infant_id, unit_id, key, kind, raised_at, raised_by_reading_id, created_at) VALUES ('fl-far', 'inf-far', 'unit-far', 'gap:rd-far', 'gap', ?, 'rd-far', ?)").run(now - 3_600_000, now);
-  sqlite.prepare("INSERT INTO skin_to_skin_sessions (id, infant_id, unit_id, started_at, started_by, reference_centi, limit_centi) VALUES ('s2s-far', 'inf-far', 'unit-far', ?, 'u-far', 3680, 50)").run(now - 600_000);
+  sqlite
+    .prepare(
+      "INSERT INTO readings (id, infant_id, unit_id, taken_at, recorded_at, recorded_by, probe_centi, remote_centi, remote_site) VALUES ('rd-far', 'inf-far', 'unit-far', ?, ?, 'u-far', 3650, 3720, 'axilla')",
+    )
+    .run(now - 3_600_000, now - 3_600_000);
+  sqlite
+    .prepare(
+      "INSERT INTO flags (id, infant_id, unit_id, key, kind, raised_at, raised_by_reading_id, created_at) VALUES ('fl-far', 'inf-far', 'unit-far', 'gap:rd-far', 'gap', ?, 'rd-far', ?)",
+    )
+    .run(now - 3_600_000, now);
+  sqlite
+    .prepare(
+      "INSERT INTO skin_to_skin_sessions (id, infant_id, unit_id, started_at, started_by, reference_centi, limit_centi) VALUES ('s2s-far', 'inf-far', 'unit-far', ?, 'u-far', 3680, 50)",
+    )
+    .run(now - 600_000);
   sqlite.prepare("INSERT INTO escalations (id, flag_id, unit_id, escalated_at) VALUES ('esc-far', 'fl-far', 'unit-far', ?)").run(now);
 }
 
