@@ -45,7 +45,14 @@ config.resolver.resolveRequest = (context, moduleName, platform) => {
   if (platform === 'web' && moduleName === 'expo-router' && !IN_NODE_MODULES.test(context.originModulePath)) {
     return { type: 'sourceFile', filePath: ROUTER_SLIM };
   }
-  if (platform === 'web' && !onServer(context) && REACT_NATIVE.test(moduleName) && context.originModulePath && wantsSlimReactNative(context.originModulePath) && context.originModulePath !== RN_SLIM) {
+  if (
+    platform === 'web' &&
+    !onServer(context) &&
+    REACT_NATIVE.test(moduleName) &&
+    context.originModulePath &&
+    wantsSlimReactNative(context.originModulePath) &&
+    context.originModulePath !== RN_SLIM
+  ) {
     return { type: 'sourceFile', filePath: RN_SLIM };
   }
   const resolved = upstream ? upstream(context, moduleName, platform) : context.resolveRequest(context, moduleName, platform);

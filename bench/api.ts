@@ -81,7 +81,10 @@ export async function benchReads(
   opts: LoadOptions,
 ): Promise<LoadFigures[]> {
   // One plain request first: a 401 or 500 would otherwise show up only as a silent zero.
-  for (const [path, token] of [[targets.boardPath, targets.chargeToken], [targets.flowsheetPath, targets.nurseToken]] as const) {
+  for (const [path, token] of [
+    [targets.boardPath, targets.chargeToken],
+    [targets.flowsheetPath, targets.nurseToken],
+  ] as const) {
     const res = await fetch(`${base}${path}`, { headers: { authorization: `Bearer ${token}` } });
     if (!res.ok) throw new Error(`GET ${path} answered ${res.status}: ${(await res.text()).slice(0, 300)}`);
   }

@@ -75,7 +75,11 @@ export async function benchAuth(base: string, opts: { email: string; password: s
   const signer = async () => {
     while (!stop) {
       const r = await timed(() =>
-        fetch(`${base}/api/auth/sign-in`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: opts.email, password: opts.password }) }),
+        fetch(`${base}/api/auth/sign-in`, {
+          method: 'POST',
+          headers: { 'content-type': 'application/json' },
+          body: JSON.stringify({ email: opts.email, password: opts.password }),
+        }),
       );
       signIns += 1;
       if (r.status !== 200) signInFailures += 1;

@@ -27,17 +27,23 @@ async function main() {
   await new Promise((resolve) => server.once('listening', resolve));
   const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
   const nurse = DEMO_ACCOUNTS.find((a) => a.role === 'nurse')!;
-  const res = await fetch(`${base}/api/auth/sign-in`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: nurse.email, password: DEMO_PASSWORD }) });
+  const res = await fetch(`${base}/api/auth/sign-in`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json' },
+    body: JSON.stringify({ email: nurse.email, password: DEMO_PASSWORD }),
+  });
   const { token } = (await res.json()) as { token: string };
-  const infants = (database.sqlite.prepare("SELECT DISTINCT infant_id AS id FROM assignments WHERE nurse_id = ?").all(nurse.id) as { id: string }[]).map((r) => r.id);
+  const infants = (database.sqlite.prepare('SELECT DISTINCT infant_id AS id FROM assignments WHERE nurse_id = ?').all(nurse.id) as { id: string }[]).map((r) => r.id);
 
   // The ledger's CPU cost alone: 5,000 rows in one transaction (one fsync), with and without it.
   const cpu = () => {
     const insert = database.sqlite.prepare("INSERT INTO beds (id, unit_id, label, sort_order, active) VALUES (?, 'unit-north', ?, 0, 1)");
     const start = performance.now();
-    database.sqlite.transaction(() => {
-      for (let i = 0; i < 5000; i++) insert.run(`bench-${process.hrtime.bigint()}-${i}`, `B${process.hrtime.bigint()}-${i}`);
-    }).immediate();
+    database.sqlite
+      .transaction(() => {
+        for (let i = 0; i < 5000; i++) insert.run(`bench-${process.hrtime.bigint()}-${i}`, `B${process.hrtime.bigint()}-${i}`);
+      })
+      .immediate();
     return ((performance.now() - start) * 1000) / 5000;
   };
   const cpuWith = cpu();
@@ -51,10 +57,13 @@ async function main() {
   const without = await benchWrites(base, infants, token, { connections: 10, seconds });
   const cpuWithout = cpu();
 
-  const line = (name: string, w: typeof withLedger) => `${name.padEnd(16)} ${w.commitsPerSec.toFixed(0).padStart(6)} commits/s   p50 ${w.p50} ms   p99 ${w.p99} ms   non-2xx ${w.non2xx + w.errors}`;
+  const line = (name: string, w: typeof withLedger) =>
+    `${name.padEnd(16)} ${w.commitsPerSec.toFixed(0).padStart(6)} commits/s   p50 ${w.p50} ms   p99 ${w.p99} ms   non-2xx ${w.non2xx + w.errors}`;
   process.stdout.write(`${line('with the ledger', withLedger)}\n${line('without it', without)}\n`);
   process.stdout.write(`one insert in a transaction: ${cpuWith.toFixed(1)} µs with the ledger, ${cpuWithout.toFixed(1)} µs without\n`);
-  process.stdout.write(`audit:verify after the first round: ${report.ok ? 'intact' : 'BROKEN'}, ${report.events} events and ${report.rowsChecked} rows in ${verifyMs.toFixed(0)} ms\n`);
+  process.stdout.write(
+    `audit:verify after the first round: ${report.ok ? 'intact' : 'BROKEN'}, ${report.events} events and ${report.rowsChecked} rows in ${verifyMs.toFixed(0)} ms\n`,
+  );
   server.close();
   database.close();
   fs.rmSync(dir, { recursive: true, force: true });

@@ -30,8 +30,34 @@ const skip = new Set((argv.find((a) => a.startsWith('--skip='))?.slice(7) ?? '')
 const log = (line: string) => process.stdout.write(`${line}\n`);
 
 const SETTINGS = smoke
-  ? { infants: 12, days: 2, nurseInfants: 4, connections: 50, seconds: 2, warmup: 1, readRounds: 1, writeSeconds: 2, vitalsRuns: 1, rulesRounds: 3, authSeconds: 2, resetRounds: 10 }
-  : { infants: 60, days: 14, nurseInfants: 6, connections: 50, seconds: 20, warmup: 5, readRounds: 4, writeSeconds: 20, vitalsRuns: 5, rulesRounds: 10, authSeconds: 10, resetRounds: 30 };
+  ? {
+      infants: 12,
+      days: 2,
+      nurseInfants: 4,
+      connections: 50,
+      seconds: 2,
+      warmup: 1,
+      readRounds: 1,
+      writeSeconds: 2,
+      vitalsRuns: 1,
+      rulesRounds: 3,
+      authSeconds: 2,
+      resetRounds: 10,
+    }
+  : {
+      infants: 60,
+      days: 14,
+      nurseInfants: 6,
+      connections: 50,
+      seconds: 20,
+      warmup: 5,
+      readRounds: 4,
+      writeSeconds: 20,
+      vitalsRuns: 5,
+      rulesRounds: 10,
+      authSeconds: 10,
+      resetRounds: 30,
+    };
 // Ten nurses saving at once is a busy unit; more connections only queue behind the one writer.
 const WRITE_CONNECTIONS = 10;
 
@@ -101,7 +127,9 @@ async function main(): Promise<number> {
           const waited = performance.now();
           await untilBuildCompressed(server.base, webDir);
           log(`Server finished compressing the web build (${((performance.now() - waited) / 1000).toFixed(1)} s after start-up)`);
-          log(`Reads: ${SETTINGS.warmup} s warm-up, then ${SETTINGS.seconds} s at ${SETTINGS.connections} connections each, in ${SETTINGS.readRounds} round(s) that take the routes in turn`);
+          log(
+            `Reads: ${SETTINGS.warmup} s warm-up, then ${SETTINGS.seconds} s at ${SETTINGS.connections} connections each, in ${SETTINGS.readRounds} round(s) that take the routes in turn`,
+          );
           api = await benchReads(
             server.base,
             { boardPath: `/api/units/${seed.unitId}/board`, flowsheetPath: `/api/infants/${flowsheetInfant}/flowsheet?hours=72`, chargeToken, nurseToken },
@@ -112,10 +140,22 @@ async function main(): Promise<number> {
           const exe = chromiumPath();
           if (!exe) notes.push('Core Web Vitals skipped: no Chromium (set CHROMIUM_PATH).');
           else {
-            log(`Core Web Vitals: ${SETTINGS.vitalsRuns} run(s), ${MOBILE.width}x${MOBILE.height} DPR ${MOBILE.deviceScaleFactor}, ${MOBILE.latencyMs} ms RTT, 1.6 Mbps, CPU x${MOBILE.cpuSlowdown}`);
-            const name = (await (await fetch(`${server.base}/api/infants/${flowsheetInfant}`, { headers: { authorization: `Bearer ${nurseToken}` } })).json()) as { infant: { displayName: string } };
+            log(
+              `Core Web Vitals: ${SETTINGS.vitalsRuns} run(s), ${MOBILE.width}x${MOBILE.height} DPR ${MOBILE.deviceScaleFactor}, ${MOBILE.latencyMs} ms RTT, 1.6 Mbps, CPU x${MOBILE.cpuSlowdown}`,
+            );
+            const name = (await (await fetch(`${server.base}/api/infants/${flowsheetInfant}`, { headers: { authorization: `Bearer ${nurseToken}` } })).json()) as {
+              infant: { displayName: string };
+            };
             const runs = await benchVitals(
-              { base: server.base, runs: SETTINGS.vitalsRuns, email: NURSE_EMAIL, password: BENCH_PASSWORD, infantId: flowsheetInfant, infantName: name.infant.displayName, executablePath: exe },
+              {
+                base: server.base,
+                runs: SETTINGS.vitalsRuns,
+                email: NURSE_EMAIL,
+                password: BENCH_PASSWORD,
+                infantId: flowsheetInfant,
+                infantName: name.infant.displayName,
+                executablePath: exe,
+              },
               log,
             );
             vitals = summariseVitals(runs);

@@ -33,7 +33,28 @@ export interface SeededUnit {
   seconds: number;
 }
 
-const SURNAMES = ['Alder', 'Bramble', 'Corrie', 'Dapple', 'Eskdale', 'Fallow', 'Gorsey', 'Heron', 'Inchmoor', 'Jessamy', 'Kilnsey', 'Larchfield', 'Mossop', 'Nettlebed', 'Oakhanger', 'Pennock', 'Quarrie', 'Rushmere', 'Sallow', 'Tansy'];
+const SURNAMES = [
+  'Alder',
+  'Bramble',
+  'Corrie',
+  'Dapple',
+  'Eskdale',
+  'Fallow',
+  'Gorsey',
+  'Heron',
+  'Inchmoor',
+  'Jessamy',
+  'Kilnsey',
+  'Larchfield',
+  'Mossop',
+  'Nettlebed',
+  'Oakhanger',
+  'Pennock',
+  'Quarrie',
+  'Rushmere',
+  'Sallow',
+  'Tansy',
+];
 const TIMES = { dayShiftStart: '07:00', nightShiftStart: '19:00', timeZone: 'Europe/London' };
 
 /** A small seeded generator, so every run builds the same unit. */
@@ -91,9 +112,7 @@ export async function seedLargeUnit(file: string, size: SeedSize, now = new Date
         control_mode, heater_output_pct, heart_rate, heat_signs, entered_unit)
        VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, '[]', 'C')`,
     );
-    const assign = sqlite.prepare(
-      'INSERT INTO assignments (id, unit_id, infant_id, nurse_id, shift_date, shift, created_by, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?)',
-    );
+    const assign = sqlite.prepare('INSERT INTO assignments (id, unit_id, infant_id, nurse_id, shift_date, shift, created_by, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?)');
     const current = shiftAt(new Date(t0), TIMES);
 
     for (let i = 0; i < size.infants; i++) {
@@ -104,7 +123,19 @@ export async function seedLargeUnit(file: string, size: SeedSize, now = new Date
       const weight = 900 + Math.round(rand() * 2400);
       const airServo = i % 3 === 2;
       const set = airServo ? 3320 : 3650;
-      infant.run(id, UNIT_ID, `bed-${pad(i + 1)}`, `Baby ${SURNAMES[i % SURNAMES.length]} ${Math.floor(i / SURNAMES.length) + 1}`, admitted - 86_400_000, gaWeeks, Math.floor(rand() * 7), weight, weight, airServo ? 'incubator' : 'radiant-warmer', admitted);
+      infant.run(
+        id,
+        UNIT_ID,
+        `bed-${pad(i + 1)}`,
+        `Baby ${SURNAMES[i % SURNAMES.length]} ${Math.floor(i / SURNAMES.length) + 1}`,
+        admitted - 86_400_000,
+        gaWeeks,
+        Math.floor(rand() * 7),
+        weight,
+        weight,
+        airServo ? 'incubator' : 'radiant-warmer',
+        admitted,
+      );
       const nurse = i < size.nurseInfants ? 'u-nurse' : nurses[1 + (i % (nurses.length - 1))]!;
       assign.run(randomUUID(), UNIT_ID, id, nurse, current.shiftDate, current.shift, 'u-charge', current.startsAt.getTime() - 30 * 60_000);
 
@@ -121,8 +152,20 @@ export async function seedLargeUnit(file: string, size: SeedSize, now = new Date
         const gap = remoteHour && rand() < 0.04;
         const probe = gap ? remote + 60 + Math.round(rand() * 30) : remote - 10 - Math.round(rand() * 20);
         reading.run(
-          randomUUID(), id, UNIT_ID, taken, taken + 60_000, nurse, probe, remoteHour ? remote : null, remoteHour ? 'axilla' : null,
-          airServo ? set : 3150 + Math.round(rand() * 60), set, airServo ? 'air-servo' : 'skin-servo', 30 + Math.round(rand() * 25), 130 + Math.round(rand() * 30),
+          randomUUID(),
+          id,
+          UNIT_ID,
+          taken,
+          taken + 60_000,
+          nurse,
+          probe,
+          remoteHour ? remote : null,
+          remoteHour ? 'axilla' : null,
+          airServo ? set : 3150 + Math.round(rand() * 60),
+          set,
+          airServo ? 'air-servo' : 'skin-servo',
+          30 + Math.round(rand() * 25),
+          130 + Math.round(rand() * 30),
         );
         readingCount += 1;
       }
@@ -143,7 +186,17 @@ export async function seedLargeUnit(file: string, size: SeedSize, now = new Date
       if (gaps.length === 0) break;
       for (const g of gaps) {
         action.run(randomUUID(), g.id, g.infant_id, UNIT_ID, 'checked-probe-contact', null, g.raised_at + 5 * 60_000, 'u-nurse', g.raised_at + 5 * 60_000);
-        action.run(randomUUID(), g.id, g.infant_id, UNIT_ID, 'moved-probe', 'Moved to the flank under a new cover.', g.raised_at + 10 * 60_000, 'u-nurse', g.raised_at + 10 * 60_000);
+        action.run(
+          randomUUID(),
+          g.id,
+          g.infant_id,
+          UNIT_ID,
+          'moved-probe',
+          'Moved to the flank under a new cover.',
+          g.raised_at + 10 * 60_000,
+          'u-nurse',
+          g.raised_at + 10 * 60_000,
+        );
       }
     }
   });

@@ -184,7 +184,13 @@ async function oneRun(browser: Browser, opts: VitalsOptions, iife: string): Prom
     await page.getByRole('button', { name: 'Save reading' }).click();
     // An unusual pre-filled value asks for a confirmation first; that is one more interaction.
     const confirm = page.getByRole('button', { name: 'Confirm and save' });
-    if (await confirm.waitFor({ state: 'visible', timeout: 1500 }).then(() => true, () => false)) await confirm.click();
+    if (
+      await confirm.waitFor({ state: 'visible', timeout: 1500 }).then(
+        () => true,
+        () => false,
+      )
+    )
+      await confirm.click();
     await page.waitForURL((url) => !url.pathname.endsWith('/record'));
     await page.getByRole('button', { name: 'Record', exact: true }).waitFor();
     await page.waitForTimeout(300);
@@ -264,7 +270,11 @@ export async function benchVitals(opts: VitalsOptions, log: (line: string) => vo
       log(
         `  vitals run ${i + 1}/${opts.runs}: LCP sign-in ${fmt(run.signIn.lcp)}, my infants ${fmt(run.myInfants.lcp)}, flowsheet ${fmt(run.flowsheet.lcp)}; INP ${fmt(run.inp)}${run.inpWhat ? ` (${run.inpWhat})` : ''}`,
       );
-      for (const [label, sample] of [['sign-in', run.signIn], ['my infants', run.myInfants], ['flowsheet', run.flowsheet]] as const) {
+      for (const [label, sample] of [
+        ['sign-in', run.signIn],
+        ['my infants', run.myInfants],
+        ['flowsheet', run.flowsheet],
+      ] as const) {
         if (sample.lcpWhat) log(`    LCP ${label}: ${sample.lcpWhat}`);
       }
       runs.push(run);

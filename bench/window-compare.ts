@@ -37,8 +37,7 @@ export function checkRestartPoints(
       .prepare('SELECT f.key, f.raised_at, r.closed_at, r.closed_by_reading_id FROM flags f LEFT JOIN flag_resolutions r ON r.flag_id = f.id WHERE f.infant_id = ? ORDER BY f.key')
       .all(infantId);
   // The views read these: the next-due instants and the open flags' current state.
-  const storedClocks = (infantId: string) =>
-    sqlite.prepare('SELECT remote_due_at, manual_since, manual_due_at, open_flags FROM infant_clocks WHERE infant_id = ?').get(infantId);
+  const storedClocks = (infantId: string) => sqlite.prepare('SELECT remote_due_at, manual_since, manual_due_at, open_flags FROM infant_clocks WHERE infant_id = ?').get(infantId);
   const policy = policyForUnit(loadUnitRow(sqlite, seed.unitId)!);
   const view = (r: Pick<SyncResult, 'evaluation' | 'raised' | 'closed'>, fromMs: number) => ({
     open: JSON.stringify(r.evaluation.openFlags),
@@ -80,7 +79,10 @@ export function checkRestartPoints(
     const va = view(a, fromMs);
     const vb = view(b, fromMs);
     for (const k of Object.keys(va) as (keyof typeof va)[]) {
-      if (va[k] !== vb[k]) throw new Error(`${label} ${infantId} at ${now.toISOString()}: ${k} differs (window from ${a.windowFrom === null ? 'admission' : new Date(a.windowFrom).toISOString()})\n windowed: ${String(va[k])}\n whole:    ${String(vb[k])}`);
+      if (va[k] !== vb[k])
+        throw new Error(
+          `${label} ${infantId} at ${now.toISOString()}: ${k} differs (window from ${a.windowFrom === null ? 'admission' : new Date(a.windowFrom).toISOString()})\n windowed: ${String(va[k])}\n whole:    ${String(vb[k])}`,
+        );
     }
     if (aStored.replace(/"closed_by_reading_id":null/g, '') !== bStored.replace(/"closed_by_reading_id":null/g, '') && aStored !== bStored) {
       throw new Error(`${label} ${infantId}: stored flags differ\n windowed: ${aStored}\n whole:    ${bStored}`);

@@ -34,11 +34,11 @@ const { values } = parseArgs({
 });
 
 const email = emailSchema.safeParse(values.email ?? '');
-if (!email.success) fail('--email: the administrator\'s work e-mail address.');
+if (!email.success) fail("--email: the administrator's work e-mail address.");
 const name = (values.name ?? '').trim();
 const unitName = (values.unit ?? '').trim();
 const hospital = (values.hospital ?? '').trim();
-if (!name || !unitName || !hospital) fail('Give --name (the administrator), --unit (the unit\'s name) and --hospital.');
+if (!name || !unitName || !hospital) fail("Give --name (the administrator), --unit (the unit's name) and --hospital.");
 const timeZone = values['time-zone']!;
 try {
   new Intl.DateTimeFormat('en-GB', { timeZone }).format(0);
@@ -62,11 +62,31 @@ const unitId = randomUUID();
 const userId = randomUUID();
 const link = writeTx(database.sqlite, () => {
   database.db.insert(units).values({ id: unitId, name: unitName, hospitalName: hospital, timeZone, createdAt: now }).run();
-  appendAudit(database.sqlite, { at: now, actorId: null, action: 'unit-created', entityType: 'unit', entityId: unitId, unitId, after: { name: unitName, hospitalName: hospital, timeZone } });
-  for (let i = 1; i <= bedCount; i++) database.db.insert(beds).values({ id: randomUUID(), unitId, label: `Bed ${i}`, sortOrder: i }).run();
+  appendAudit(database.sqlite, {
+    at: now,
+    actorId: null,
+    action: 'unit-created',
+    entityType: 'unit',
+    entityId: unitId,
+    unitId,
+    after: { name: unitName, hospitalName: hospital, timeZone },
+  });
+  for (let i = 1; i <= bedCount; i++)
+    database.db
+      .insert(beds)
+      .values({ id: randomUUID(), unitId, label: `Bed ${i}`, sortOrder: i })
+      .run();
   database.db.insert(users).values({ id: userId, email: email.data, name, role: 'admin', createdAt: now, updatedAt: now }).run();
   database.db.insert(userUnits).values({ userId, unitId }).run();
-  appendAudit(database.sqlite, { at: now, actorId: null, action: 'user-created', entityType: 'user', entityId: userId, unitId, after: { email: email.data, name, role: 'admin', unitIds: [unitId] } });
+  appendAudit(database.sqlite, {
+    at: now,
+    actorId: null,
+    action: 'user-created',
+    entityType: 'user',
+    entityId: userId,
+    unitId,
+    after: { email: email.data, name, role: 'admin', unitIds: [unitId] },
+  });
   return issueLink(ctx, userId, 'invite', null);
 });
 database.close();

@@ -20,7 +20,9 @@ try {
     uploadsDir: path.join(config.dataDir, 'uploads'),
     checkpointFile: checkpointSettings(config.dataDir).file,
   });
-  process.stdout.write(`Restored ${path.resolve(from)} into ${config.dataDir}. The files it replaced are in ${result.setAside}.\nNext: npm run audit:verify, then start Warmfold.\n`);
+  process.stdout.write(
+    `Restored ${path.resolve(from)} into ${config.dataDir}. The files it replaced are in ${result.setAside}.\nNext: npm run audit:verify, then start Warmfold.\n`,
+  );
 } catch (err) {
   process.stderr.write(`Restore failed: ${err instanceof Error ? err.message : String(err)}\n`);
   process.exit(1);

@@ -14,10 +14,7 @@ async function main(): Promise<void> {
   for (const d of fs.readdirSync(dist)) if (/^workbox-v/.test(d)) fs.rmSync(path.join(dist, d), { recursive: true, force: true });
   const workboxDir = await copyWorkboxLibraries(dist);
   const pages = htmlRoutes(dist).map((r) => [r.pattern.source, '/' + path.relative(dist, r.file).split(path.sep).join('/')]);
-  const template = fs
-    .readFileSync(path.join(__dirname, 'sw-template.js'), 'utf8')
-    .replaceAll('__WORKBOX_DIR__', workboxDir)
-    .replace('__PAGE_ROUTES__', JSON.stringify(pages));
+  const template = fs.readFileSync(path.join(__dirname, 'sw-template.js'), 'utf8').replaceAll('__WORKBOX_DIR__', workboxDir).replace('__PAGE_ROUTES__', JSON.stringify(pages));
   const src = path.join(dist, 'sw.src.js');
   fs.writeFileSync(src, template);
   try {

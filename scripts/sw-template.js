@@ -50,8 +50,7 @@ routing.registerRoute(
 // API reads: the network first, the last answer when there is no connection. Sign-in, sign-out,
 // the session check and every other /api/auth answer are never stored; writes are never stored.
 routing.registerRoute(
-  ({ url, request }) =>
-    url.origin === self.location.origin && request.method === 'GET' && url.pathname.startsWith('/api/') && !url.pathname.startsWith('/api/auth'),
+  ({ url, request }) => url.origin === self.location.origin && request.method === 'GET' && url.pathname.startsWith('/api/') && !url.pathname.startsWith('/api/auth'),
   new strategies.NetworkFirst({
     cacheName: API_CACHE,
     networkTimeoutSeconds: 8,

@@ -1,15 +1,6 @@
 /** The one error shape every API failure answers with. */
 export type ApiErrorCode =
-  | 'bad-request'
-  | 'invalid'
-  | 'unauthorized'
-  | 'forbidden'
-  | 'not-found'
-  | 'conflict'
-  | 'payload-too-large'
-  | 'unsupported-media-type'
-  | 'too-many-requests'
-  | 'server-error';
+  'bad-request' | 'invalid' | 'unauthorized' | 'forbidden' | 'not-found' | 'conflict' | 'payload-too-large' | 'unsupported-media-type' | 'too-many-requests' | 'server-error';
 
 export interface ApiErrorBody {
   error: {

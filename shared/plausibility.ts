@@ -21,7 +21,12 @@ export interface UsualRange {
 
 export const USUAL_RANGES = {
   /** Skin probe (servo sensor on the skin). */
-  skin: { min: 3400, max: 3800, source: 'common practice: around the normal abdominal skin 36.0–36.5 °C of Gomella, Neonatology 7th ed. 2013, widened by 2 °C below and 1.5 °C above: skin reads below core, so a probe above 38.0 °C is confirmed first' },
+  skin: {
+    min: 3400,
+    max: 3800,
+    source:
+      'common practice: around the normal abdominal skin 36.0–36.5 °C of Gomella, Neonatology 7th ed. 2013, widened by 2 °C below and 1.5 °C above: skin reads below core, so a probe above 38.0 °C is confirmed first',
+  },
   /** Remote site (axillary or rectal): a body temperature. */
   remote: { min: 3400, max: 3950, source: 'from memory: around the WHO 1997 normal range of 36.5–37.5 °C, widened for illness' },
   /** Air temperature in the incubator or under the warmer. */
@@ -31,7 +36,7 @@ export const USUAL_RANGES = {
   /** Set point when the heater follows the air (air servo) or runs by hand: an air temperature. */
   airSet: { min: 2500, max: 4000, source: 'common practice: the same as the air range' },
   /** Heart rate per minute. */
-  heartRate: { min: 80, max: 220, source: 'from memory: a newborn\'s usual 100–180/min widened for crying and sleep' },
+  heartRate: { min: 80, max: 220, source: "from memory: a newborn's usual 100–180/min widened for crying and sleep" },
 } as const satisfies Record<string, UsualRange>;
 
 export type UsualField = 'probe' | 'remote' | 'air' | 'set' | 'heartRate';
@@ -52,7 +57,13 @@ export function usualRangeOf(field: UsualField, controlMode: ControlMode | null 
   }
 }
 
-const LABELS: Record<UsualField, string> = { probe: 'Probe temperature', remote: 'Remote-site temperature', air: 'Air temperature', set: 'Set temperature', heartRate: 'Heart rate' };
+const LABELS: Record<UsualField, string> = {
+  probe: 'Probe temperature',
+  remote: 'Remote-site temperature',
+  air: 'Air temperature',
+  set: 'Set temperature',
+  heartRate: 'Heart rate',
+};
 
 function shown(field: UsualField, value: number, unit: 'C' | 'F', withUnit = true): string {
   if (field === 'heartRate') return withUnit ? `${value}/min` : String(value);
@@ -76,7 +87,13 @@ export function unusualValues(
   unit: 'C' | 'F' = 'C',
 ): { field: UsualField; reason: string }[] {
   const out: { field: UsualField; reason: string }[] = [];
-  const values: [UsualField, number | null | undefined][] = [['probe', r.probeCenti], ['remote', r.remoteCenti], ['air', r.airCenti], ['set', r.setCenti], ['heartRate', r.heartRate]];
+  const values: [UsualField, number | null | undefined][] = [
+    ['probe', r.probeCenti],
+    ['remote', r.remoteCenti],
+    ['air', r.airCenti],
+    ['set', r.setCenti],
+    ['heartRate', r.heartRate],
+  ];
   for (const [field, value] of values) {
     const reason = unusualReason(field, value, { unit, controlMode: r.controlMode });
     if (reason) out.push({ field, reason });

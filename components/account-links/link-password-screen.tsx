@@ -60,10 +60,19 @@ export function LinkPasswordScreen({ kind, token }: { kind: 'invite' | 'reset'; 
           ) : (
             <>
               <Text tone="muted">
-                {kind === 'invite' ? 'Choose the password for your new account.' : 'Choose a new password. Other signed-in devices will be signed out.'} Use at least {PASSWORD_MIN_LENGTH}{' '}
-                characters; a few unrelated words work well.
+                {kind === 'invite' ? 'Choose the password for your new account.' : 'Choose a new password. Other signed-in devices will be signed out.'} Use at least{' '}
+                {PASSWORD_MIN_LENGTH} characters; a few unrelated words work well.
               </Text>
-              <TextField control={control} name="password" label="New password" secureTextEntry autoComplete="new-password" textContentType="newPassword" serverError={fields.password} onSubmitEditing={() => void onSubmit()} />
+              <TextField
+                control={control}
+                name="password"
+                label="New password"
+                secureTextEntry
+                autoComplete="new-password"
+                textContentType="newPassword"
+                serverError={fields.password}
+                onSubmitEditing={() => void onSubmit()}
+              />
               {formError ? (
                 <Text tone="danger" role="alert">
                   {formError}

@@ -7,7 +7,15 @@ import type { AdminUnit, AdminUser } from '@/shared/types/admin';
 import { problemOf } from '@/components/api/client';
 import { lazyZodResolver } from '@/components/forms/lazy-resolver';
 import { FormRootError } from '@/components/forms/form-root-error';
-import { useAdminUnitsQuery, useAdminUsersQuery, useCreateUserMutation, useDigestSendMutation, useMembershipMutation, useUpdateUserMutation, useUserActionMutation } from '@/components/queries/admin';
+import {
+  useAdminUnitsQuery,
+  useAdminUsersQuery,
+  useCreateUserMutation,
+  useDigestSendMutation,
+  useMembershipMutation,
+  useUpdateUserMutation,
+  useUserActionMutation,
+} from '@/components/queries/admin';
 import { useUser } from '@/components/auth/auth-provider';
 import { formatDayTime } from '@/components/ui/format-time';
 import { useTheme } from '@/components/theme/theme-provider';
@@ -52,7 +60,9 @@ export function AdminHomeScreen() {
         ) : !users.data ? (
           <LoadingState />
         ) : users.data.length === 0 ? (
-          <Text tone="muted" role="status">No one matches “{q.trim()}”.</Text>
+          <Text tone="muted" role="status">
+            No one matches “{q.trim()}”.
+          </Text>
         ) : (
           users.data.map((u) => <UserRow key={u.id} user={u} units={units.data ?? []} onConfirm={setPending} />)
         )}
@@ -62,10 +72,15 @@ export function AdminHomeScreen() {
         <Text variant="title" role="heading" aria-level={2}>
           Import a roster
         </Text>
-        <Text tone="muted">A CSV file with the columns name, email, role (nurse, charge, educator, admin) and unit (its name or id). You see every row checked before anyone is created; each new person gets an invitation.</Text>
+        <Text tone="muted">
+          A CSV file with the columns name, email, role (nurse, charge, educator, admin) and unit (its name or id). You see every row checked before anyone is created; each new
+          person gets an invitation.
+        </Text>
         <UploadPanel label="Roster CSV" previewPath="/admin/roster/preview" importPath={(id) => `/admin/roster/${id}/import`} />
       </Card>
-      {units.data?.map((u) => <UnitSettingsCard key={u.id} unit={u} />)}
+      {units.data?.map((u) => (
+        <UnitSettingsCard key={u.id} unit={u} />
+      ))}
       <CreateUnitCard />
       <AuditLogCard units={units.data ?? []} />
       <Card>
@@ -75,7 +90,11 @@ export function AdminHomeScreen() {
         <Text tone="muted">Sent to each educator every Monday at 07:00 unit time: the week&apos;s figures and the review items still open.</Text>
         <Button label="Send the digest now" icon="bell" variant="secondary" busy={digest.isPending} onPress={() => digest.mutate()} />
         {digest.data ? <Text role="status">Sent {digest.data.sent} e-mails.</Text> : null}
-        {digest.error ? <Text tone="danger" role="alert">{problemOf(digest.error).message}</Text> : null}
+        {digest.error ? (
+          <Text tone="danger" role="alert">
+            {problemOf(digest.error).message}
+          </Text>
+        ) : null}
       </Card>
       <DemoMailboxLink />
     </Screen>
@@ -117,8 +136,16 @@ function InviteForm({ units }: { units: AdminUnit[] }) {
       <Segmented label="Unit" value={unitId} onChange={setUnitId} options={units.map((u) => ({ value: u.id, label: u.name }))} />
       <FormRootError control={control} />
       <Button label="Send invitation" icon="plus" onPress={() => void onSubmit()} busy={formState.isSubmitting} />
-      {done ? <Text tone="ok" role="status">{done}</Text> : null}
-      {formError ? <Text tone="danger" role="alert">{formError}</Text> : null}
+      {done ? (
+        <Text tone="ok" role="status">
+          {done}
+        </Text>
+      ) : null}
+      {formError ? (
+        <Text tone="danger" role="alert">
+          {formError}
+        </Text>
+      ) : null}
     </View>
   );
 }
@@ -133,7 +160,10 @@ function UserRow({ user, units, onConfirm }: { user: AdminUser; units: AdminUnit
   const deactivate = () =>
     onConfirm({
       title: `Deactivate ${user.name}?`,
-      lines: [`${user.name} (${user.email}) is signed out at once and cannot sign in until an administrator reactivates the account.`, 'Everything they charted stays in the record.'],
+      lines: [
+        `${user.name} (${user.email}) is signed out at once and cannot sign in until an administrator reactivates the account.`,
+        'Everything they charted stays in the record.',
+      ],
       confirmLabel: `Deactivate ${user.name}`,
       danger: true,
       run: () => action.mutateAsync({ id: user.id, action: 'deactivate' }),
@@ -142,13 +172,19 @@ function UserRow({ user, units, onConfirm }: { user: AdminUser; units: AdminUnit
     <View style={styles.userRow} accessibilityLabel={`${user.name}, ${ROLE_LABELS[user.role]}`}>
       <View style={styles.userHead}>
         <Text variant="bodyStrong">{user.name}</Text>
-        <StatusBadge tone={tone} icon={user.status === 'active' ? 'check' : user.status === 'invited' ? 'clock' : 'out'} label={user.status === 'active' ? 'Active' : user.status === 'invited' ? 'Invited' : 'Deactivated'} />
+        <StatusBadge
+          tone={tone}
+          icon={user.status === 'active' ? 'check' : user.status === 'invited' ? 'clock' : 'out'}
+          label={user.status === 'active' ? 'Active' : user.status === 'invited' ? 'Invited' : 'Deactivated'}
+        />
       </View>
       <Text tone="muted" variant="caption">
         {user.email} · {ROLE_LABELS[user.role]} · {unitNames || 'no unit'}
       </Text>
       <Text tone="muted" variant="caption">
-        {user.lastSignInAt ? `Last signed in ${formatDayTime(user.lastSignInAt, units.find((u) => user.unitIds.includes(u.id))?.timeZone ?? units[0]?.timeZone ?? 'UTC', me.clock)}` : 'Never signed in'}
+        {user.lastSignInAt
+          ? `Last signed in ${formatDayTime(user.lastSignInAt, units.find((u) => user.unitIds.includes(u.id))?.timeZone ?? units[0]?.timeZone ?? 'UTC', me.clock)}`
+          : 'Never signed in'}
       </Text>
       {!user.manageable ? (
         <Text tone="muted" variant="caption">
@@ -158,7 +194,9 @@ function UserRow({ user, units, onConfirm }: { user: AdminUser; units: AdminUnit
         <View style={styles.actions}>
           <Button compact variant="quiet" label={editing ? 'Close' : 'Change role'} onPress={() => setEditing(!editing)} />
           {user.status === 'invited' ? <Button compact variant="quiet" label="Send invitation again" onPress={() => action.mutate({ id: user.id, action: 'invitation' })} /> : null}
-          {user.status === 'active' ? <Button compact variant="quiet" label="Send password reset" onPress={() => action.mutate({ id: user.id, action: 'password-reset' })} /> : null}
+          {user.status === 'active' ? (
+            <Button compact variant="quiet" label="Send password reset" onPress={() => action.mutate({ id: user.id, action: 'password-reset' })} />
+          ) : null}
           {user.active ? (
             <Button compact variant="quiet" label="Deactivate…" onPress={deactivate} />
           ) : (
@@ -168,14 +206,27 @@ function UserRow({ user, units, onConfirm }: { user: AdminUser; units: AdminUnit
       )}
       {user.manageable && user.id !== me.id ? <Memberships user={user} units={units} unitName={unitName} onConfirm={onConfirm} /> : null}
       {editing && user.manageable ? <AccessEditor user={user} unitName={unitName} onConfirm={onConfirm} onDone={() => setEditing(false)} /> : null}
-      {action.isSuccess && action.variables?.id === user.id && action.variables.action !== 'deactivate' ? <Text tone="ok" role="status" variant="caption">Done.</Text> : null}
-      {action.error && action.variables?.action !== 'deactivate' ? <Text tone="danger" role="alert" variant="caption">{problemOf(action.error).message}</Text> : null}
+      {action.isSuccess && action.variables?.id === user.id && action.variables.action !== 'deactivate' ? (
+        <Text tone="ok" role="status" variant="caption">
+          Done.
+        </Text>
+      ) : null}
+      {action.error && action.variables?.action !== 'deactivate' ? (
+        <Text tone="danger" role="alert" variant="caption">
+          {problemOf(action.error).message}
+        </Text>
+      ) : null}
     </View>
   );
 }
 
 /** The lines a confirmation shows for a change of role or units. */
-export function describeAccessChange(name: string, before: { role: Role; unitIds: string[] }, after: { role: Role; unitIds: string[] }, unitName: (id: string) => string): string[] {
+export function describeAccessChange(
+  name: string,
+  before: { role: Role; unitIds: string[] },
+  after: { role: Role; unitIds: string[] },
+  unitName: (id: string) => string,
+): string[] {
   const lines: string[] = [];
   if (before.role !== after.role) lines.push(`Role: ${ROLE_LABELS[before.role]} → ${ROLE_LABELS[after.role]}.`);
   const removed = before.unitIds.filter((u) => !after.unitIds.includes(u));
@@ -199,7 +250,14 @@ function Memberships({ user, units, unitName, onConfirm }: { user: AdminUser; un
       title: op === 'remove' ? `Remove ${user.name} from ${unitName(unitId)}?` : `Add ${user.name} to ${unitName(unitId)}?`,
       lines: [
         ...describeAccessChange(user.name, user, { role: user.role, unitIds: op === 'add' ? [...user.unitIds, unitId] : user.unitIds.filter((u) => u !== unitId) }, unitName),
-        ...(op === 'remove' ? [`${user.name} keeps ${user.unitIds.filter((u) => u !== unitId).map(unitName).join(' and ')}.`] : [`${user.name} keeps ${user.unitIds.map(unitName).join(' and ')}.`]),
+        ...(op === 'remove'
+          ? [
+              `${user.name} keeps ${user.unitIds
+                .filter((u) => u !== unitId)
+                .map(unitName)
+                .join(' and ')}.`,
+            ]
+          : [`${user.name} keeps ${user.unitIds.map(unitName).join(' and ')}.`]),
       ],
       confirmLabel: op === 'remove' ? `Remove from ${unitName(unitId)}` : `Add to ${unitName(unitId)}`,
       danger: op === 'remove',
@@ -221,7 +279,17 @@ function Memberships({ user, units, unitName, onConfirm }: { user: AdminUser; un
 }
 
 /** The role as a draft; saving asks for confirmation first. */
-function AccessEditor({ user, unitName, onConfirm, onDone }: { user: AdminUser; unitName: (id: string) => string; onConfirm: (change: PendingChange) => void; onDone: () => void }) {
+function AccessEditor({
+  user,
+  unitName,
+  onConfirm,
+  onDone,
+}: {
+  user: AdminUser;
+  unitName: (id: string) => string;
+  onConfirm: (change: PendingChange) => void;
+  onDone: () => void;
+}) {
   const update = useUpdateUserMutation();
   const [role, setRole] = useState<Role>(user.role);
   const [hint, setHint] = useState<string | null>(null);
@@ -245,7 +313,11 @@ function AccessEditor({ user, unitName, onConfirm, onDone }: { user: AdminUser; 
     <View style={styles.form}>
       <Segmented label="Role" value={role} onChange={setRole} options={ROLES.map((r) => ({ value: r, label: ROLE_LABELS[r] }))} />
       <Button compact label="Review the change…" onPress={review} />
-      {hint ? <Text tone="warning" role="status" variant="caption">{hint}</Text> : null}
+      {hint ? (
+        <Text tone="warning" role="status" variant="caption">
+          {hint}
+        </Text>
+      ) : null}
     </View>
   );
 }

@@ -75,7 +75,9 @@ export function AuditLogCard({ units }: { units: AdminUnit[] }) {
       <Text variant="title" role="heading" aria-level={2}>
         Audit log
       </Text>
-      <Text tone="muted">Every change in your units: who made it, when, and the values before and after. Passwords and link tokens are never shown. Dates are whole days in UTC.</Text>
+      <Text tone="muted">
+        Every change in your units: who made it, when, and the values before and after. Passwords and link tokens are never shown. Dates are whole days in UTC.
+      </Text>
       <View style={styles.filters}>
         <View style={styles.cell}>
           <TextField control={control} name="person" label="Changed by" hint="Part of a name or e-mail; empty for anyone" autoCapitalize="none" serverError={fieldErrors.person} />
@@ -107,7 +109,13 @@ export function AuditLogCard({ units }: { units: AdminUnit[] }) {
       )}
       <View style={styles.pager}>
         <Button compact variant="quiet" label="Newer" disabled={cursors.length === 0} onPress={() => setCursors((c) => c.slice(0, -1))} />
-        <Button compact variant="quiet" label="Older" disabled={!page.data?.nextCursor} onPress={() => page.data?.nextCursor && setCursors((c) => [...c, page.data!.nextCursor!])} />
+        <Button
+          compact
+          variant="quiet"
+          label="Older"
+          disabled={!page.data?.nextCursor}
+          onPress={() => page.data?.nextCursor && setCursors((c) => [...c, page.data!.nextCursor!])}
+        />
       </View>
     </Card>
   );

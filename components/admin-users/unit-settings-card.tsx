@@ -147,21 +147,39 @@ function BedRow({ bed, first, last }: { bed: AdminBed; first: boolean; last: boo
         <Text variant="bodyStrong" style={styles.bedLabel}>
           {bed.label}
         </Text>
-        {!bed.active ? <Text tone="muted" variant="caption">out of use</Text> : null}
+        {!bed.active ? (
+          <Text tone="muted" variant="caption">
+            out of use
+          </Text>
+        ) : null}
         <Button compact variant="quiet" label={`Move ${bed.label} up`} disabled={first} onPress={() => void run({ move: 'up' }, `Bed ${bed.label} moved up.`)} />
         <Button compact variant="quiet" label={`Move ${bed.label} down`} disabled={last} onPress={() => void run({ move: 'down' }, `Bed ${bed.label} moved down.`)} />
         <Button compact variant="quiet" label={renaming ? 'Cancel' : `Rename ${bed.label}`} onPress={() => setRenaming(!renaming)} />
-        <Button compact variant="quiet" label={bed.active ? `Take ${bed.label} out of use` : `Put ${bed.label} back in use`} onPress={() => void run({ active: !bed.active }, bed.active ? `Bed ${bed.label} is out of use.` : `Bed ${bed.label} is back in use.`)} />
+        <Button
+          compact
+          variant="quiet"
+          label={bed.active ? `Take ${bed.label} out of use` : `Put ${bed.label} back in use`}
+          onPress={() => void run({ active: !bed.active }, bed.active ? `Bed ${bed.label} is out of use.` : `Bed ${bed.label} is back in use.`)}
+        />
       </View>
       {renaming ? (
         <View style={styles.row}>
           <View style={styles.grow}>
             <TextField control={form.control} name="label" label={`New label for ${bed.label}`} autoCapitalize="characters" />
           </View>
-          <Button compact label="Save label" onPress={() => void run({ label: form.getValues('label').trim() }, `Bed renamed to ${form.getValues('label').trim()}.`)} busy={update.isPending} />
+          <Button
+            compact
+            label="Save label"
+            onPress={() => void run({ label: form.getValues('label').trim() }, `Bed renamed to ${form.getValues('label').trim()}.`)}
+            busy={update.isPending}
+          />
         </View>
       ) : null}
-      {message ? <Text role="status" variant="caption">{message}</Text> : null}
+      {message ? (
+        <Text role="status" variant="caption">
+          {message}
+        </Text>
+      ) : null}
     </View>
   );
 }

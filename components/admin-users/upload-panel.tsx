@@ -53,7 +53,14 @@ export function UploadPanel({ label, previewPath, importPath }: { label: string;
   return (
     <View style={styles.wrap}>
       <FilePicker label={label} onPick={(f) => void pick(f)} />
-      <View role="progressbar" aria-label={`${label} progress`} aria-valuemin={0} aria-valuemax={100} aria-valuenow={Math.round(progress * 100)} style={[styles.track, { backgroundColor: theme.colors.surfaceSunken }]}>
+      <View
+        role="progressbar"
+        aria-label={`${label} progress`}
+        aria-valuemin={0}
+        aria-valuemax={100}
+        aria-valuenow={Math.round(progress * 100)}
+        style={[styles.track, { backgroundColor: theme.colors.surfaceSunken }]}
+      >
         <View style={[styles.bar, { width: `${progress * 100}%`, backgroundColor: theme.colors.primary }]} />
       </View>
       {error ? (
@@ -76,10 +83,18 @@ export function UploadPanel({ label, previewPath, importPath }: { label: string;
               </Text>
             ))}
           {stage === 'previewed' ? (
-            <Button label={result.errorCount ? 'Fix the errors, then upload again' : `Import ${result.toCreate} rows`} disabled={result.errorCount > 0 || result.toCreate === 0} onPress={() => void runImport()} />
+            <Button
+              label={result.errorCount ? 'Fix the errors, then upload again' : `Import ${result.toCreate} rows`}
+              disabled={result.errorCount > 0 || result.toCreate === 0}
+              onPress={() => void runImport()}
+            />
           ) : null}
           {stage === 'importing' ? <Text role="status">Importing…</Text> : null}
-          {message ? <Text tone="ok" role="status">{message}</Text> : null}
+          {message ? (
+            <Text tone="ok" role="status">
+              {message}
+            </Text>
+          ) : null}
         </View>
       ) : null}
     </View>

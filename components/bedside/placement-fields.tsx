@@ -36,7 +36,12 @@ export function PlacementChoices({ value, onChange }: { value: PlacementChoice; 
   return (
     <View style={styles.group} role="group" aria-label="Probe placement">
       <Segmented label="Probe site" value={value.probeSite} options={SITE_OPTIONS} onChange={(probeSite) => onChange({ ...value, probeSite })} />
-      <Segmented label="Heat-reflecting cover over the probe" value={value.probeCovered} options={COVER_OPTIONS} onChange={(probeCovered) => onChange({ ...value, probeCovered })} />
+      <Segmented
+        label="Heat-reflecting cover over the probe"
+        value={value.probeCovered}
+        options={COVER_OPTIONS}
+        onChange={(probeCovered) => onChange({ ...value, probeCovered })}
+      />
       <Segmented label="Infant's position" value={value.position} options={POSITION_OPTIONS} onChange={(position) => onChange({ ...value, position })} />
     </View>
   );
@@ -65,9 +70,7 @@ export function AxillaProbeNote({ probeSite }: { probeSite: ProbeSite | null | u
   return (
     <View role="status" style={styles.note}>
       <StatusBadge tone="neutral" icon="thermometer" label="Probe on the axilla" />
-      <Text variant="caption">
-        {note} (Common practice.)
-      </Text>
+      <Text variant="caption">{note} (Common practice.)</Text>
     </View>
   );
 }
@@ -106,7 +109,15 @@ export function WeightHumidityFields({ control, serverFields = {} }: { control: 
         <TextField control={control} name="weight" label="Current weight (g)" suffix="g" inputMode="numeric" keyboardType="number-pad" serverError={serverFields.weightGrams} />
       </View>
       <View style={styles.cell}>
-        <TextField control={control} name="humidity" label="Incubator humidity (%)" suffix="%" inputMode="numeric" keyboardType="number-pad" serverError={serverFields.humidityPct} />
+        <TextField
+          control={control}
+          name="humidity"
+          label="Incubator humidity (%)"
+          suffix="%"
+          inputMode="numeric"
+          keyboardType="number-pad"
+          serverError={serverFields.humidityPct}
+        />
       </View>
     </View>
   );

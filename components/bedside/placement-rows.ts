@@ -8,11 +8,9 @@ import { placementShort } from './placement-values';
  */
 export function readingExtras(r: FlowsheetReading): string[] {
   const placement = placementShort({ probeSite: r.probeSite ?? null, probeCovered: r.probeCovered ?? null, position: r.position ?? null });
-  return [
-    placement ? `probe ${placement}` : null,
-    r.weightGrams != null ? `weight ${r.weightGrams} g` : null,
-    r.humidityPct != null ? `humidity ${r.humidityPct} %` : null,
-  ].filter((x): x is string => x !== null);
+  return [placement ? `probe ${placement}` : null, r.weightGrams != null ? `weight ${r.weightGrams} g` : null, r.humidityPct != null ? `humidity ${r.humidityPct} %` : null].filter(
+    (x): x is string => x !== null,
+  );
 }
 
 const POSITION_SHORT: Record<InfantPosition, string> = { supine: 'Supine', prone: 'Prone', side: 'Side' };

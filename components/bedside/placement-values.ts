@@ -1,11 +1,5 @@
 import type { CreateReadingInput } from '@/shared/schemas/bedside';
-import {
-  INFANT_POSITION_LABELS,
-  PROBE_COVER_LABELS,
-  PROBE_SITE_LABELS,
-  type InfantPosition,
-  type ProbeSite,
-} from '@/shared/vocabulary';
+import { INFANT_POSITION_LABELS, PROBE_COVER_LABELS, PROBE_SITE_LABELS, type InfantPosition, type ProbeSite } from '@/shared/vocabulary';
 
 /**
  * The reading form's placement settings (probe site, heat-reflecting cover, the infant's

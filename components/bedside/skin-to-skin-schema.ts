@@ -15,7 +15,8 @@ export function startSessionFormSchema(unit: TempUnit) {
       const n = parseNumber(v.reference);
       const centi = centiOf(v.reference, unit);
       if (n === null) ctx.addIssue({ code: 'custom', path: ['reference'], message: 'Enter the reference temperature.' });
-      else if (n === 'invalid' || centi === null) ctx.addIssue({ code: 'custom', path: ['reference'], message: `Reference temperature must be a number, like ${unit === 'C' ? '36.8' : '98.2'}.` });
+      else if (n === 'invalid' || centi === null)
+        ctx.addIssue({ code: 'custom', path: ['reference'], message: `Reference temperature must be a number, like ${unit === 'C' ? '36.8' : '98.2'}.` });
       else {
         const check = checkPlausibility('remote', centi, unit);
         if (check.result === 'refuse') ctx.addIssue({ code: 'custom', path: ['reference'], message: check.reason });

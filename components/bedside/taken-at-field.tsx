@@ -46,7 +46,15 @@ export function TakenAtField<T extends FieldValues>({ control, timeZone, now, la
         // Today is kept as "today", so a form left open past midnight still means the day it is saved.
         onChange={(key) => day.onChange(key === today ? '' : key)}
       />
-      <TextField control={control} name={'time' as Path<T>} label={label} placeholder={placeholder} hint={`HH:MM, ${timeZone} time`} inputMode="numeric" serverError={serverError} />
+      <TextField
+        control={control}
+        name={'time' as Path<T>}
+        label={label}
+        placeholder={placeholder}
+        hint={`HH:MM, ${timeZone} time`}
+        inputMode="numeric"
+        serverError={serverError}
+      />
       <Text variant="caption" tone={taken.kind === 'at' && isFuture(values, at, timeZone) ? 'danger' : 'muted'} aria-live="polite">
         {taken.kind === 'now' ? 'Taken: now, when you save.' : taken.kind === 'at' ? `Taken: ${formatDayAndTime(taken.at, timeZone, '24h', at)}` : ' '}
       </Text>

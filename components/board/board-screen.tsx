@@ -121,7 +121,12 @@ function BoardBody({ query }: { query: ReturnType<typeof useBoardQuery> }) {
       {filtersOpen ? (
         <View style={[styles.filters, wide && styles.filtersWide]}>
           <Segmented label="Show" value={status} onChange={setStatus} options={STATUS_OPTIONS} />
-          <Segmented label="Nurse" value={nurseId} onChange={setNurseId} options={[{ value: 'all', label: 'Everyone' }, ...board.nurses.map((n) => ({ value: n.id, label: n.name }))]} />
+          <Segmented
+            label="Nurse"
+            value={nurseId}
+            onChange={setNurseId}
+            options={[{ value: 'all', label: 'Everyone' }, ...board.nurses.map((n) => ({ value: n.id, label: n.name }))]}
+          />
         </View>
       ) : null}
     </View>
@@ -153,7 +158,9 @@ function BoardBody({ query }: { query: ReturnType<typeof useBoardQuery> }) {
       ) : null}
 
       <Sheet title={managed ? `Bed ${managed.label}${managed.infant ? ` · ${managed.infant.displayName}` : ' · empty'}` : ''} open={!!managed} onClose={() => setManaging(null)}>
-        {managed ? <BedManagePanel key={managed.bedId} board={board} bed={managed} warming={warmingOf.get(managed.bedId)} tempUnit={user.tempUnit} onClose={() => setManaging(null)} /> : null}
+        {managed ? (
+          <BedManagePanel key={managed.bedId} board={board} bed={managed} warming={warmingOf.get(managed.bedId)} tempUnit={user.tempUnit} onClose={() => setManaging(null)} />
+        ) : null}
       </Sheet>
       <Sheet title="Shift change: each nurse's beds" open={shiftChange} onClose={() => setShiftChange(false)} wide>
         {shiftChange ? <BulkAssign board={board} onDone={() => setShiftChange(false)} /> : null}

@@ -7,7 +7,11 @@ import type { FieldValues, Path, UseFormSetFocus } from 'react-hook-form';
  * form's own checks does: the nurse sees what to put right without hunting below the fold.
  * `order` pairs the server's field names with the form's, top of the form first.
  */
-export function useFocusServerError<T extends FieldValues>(serverFields: Record<string, string> | undefined, setFocus: UseFormSetFocus<T>, order: ReadonlyArray<readonly [server: string, field: Path<T>]>): void {
+export function useFocusServerError<T extends FieldValues>(
+  serverFields: Record<string, string> | undefined,
+  setFocus: UseFormSetFocus<T>,
+  order: ReadonlyArray<readonly [server: string, field: Path<T>]>,
+): void {
   const first = order.find(([server]) => serverFields?.[server]);
   // Keyed on the field and its message, so a new answer focuses again and a re-render does not.
   const key = first ? `${first[0]}\u0000${serverFields?.[first[0]] ?? ''}` : '';

@@ -27,13 +27,11 @@ export function HandoverActions({ infantIds }: { infantIds: string[] }) {
   const [error, setError] = useState<string | null>(null);
   return (
     <div data-noprint="">
-    <View style={styles.row}>
-      <Button label="Print" icon="print" onPress={() => window.print()} />
-      {infantIds.length === 1 ? (
-        <Button label="Download CSV" variant="secondary" onPress={() => downloadCsv(infantIds[0]!).catch((e: Error) => setError(e.message))} />
-      ) : null}
-      {error ? <Text tone="danger">{error}</Text> : null}
-    </View>
+      <View style={styles.row}>
+        <Button label="Print" icon="print" onPress={() => window.print()} />
+        {infantIds.length === 1 ? <Button label="Download CSV" variant="secondary" onPress={() => downloadCsv(infantIds[0]!).catch((e: Error) => setError(e.message))} /> : null}
+        {error ? <Text tone="danger">{error}</Text> : null}
+      </View>
     </div>
   );
 }

@@ -59,7 +59,13 @@ function HandoverBody({
   const printedAt = new Date().toISOString();
   const printed = `printed at ${formatDayTime(printedAt, zone, user.clock).replace(/^(.*), (.*)$/, '$2 on $1')} by ${user.name}`;
   return (
-    <Screen title={title} subtitle="The last 12 hours" actions={<HandoverActions infantIds={infants.map((h) => h.infant.id)} />} refreshing={query.isRefetching} onRefresh={() => void query.refetch()}>
+    <Screen
+      title={title}
+      subtitle="The last 12 hours"
+      actions={<HandoverActions infantIds={infants.map((h) => h.infant.id)} />}
+      refreshing={query.isRefetching}
+      onRefresh={() => void query.refetch()}
+    >
       <PrintStyle />
       {choice}
       {infants.length === 0 ? <EmptyState title="Nothing to hand over" message={emptyMessage} /> : null}

@@ -29,12 +29,7 @@ export function MailboxScreen() {
   }
   if (!query.data) return <LoadingState label="Opening the mailbox…" />;
   return (
-    <Screen
-      title="Mailbox"
-      subtitle="The demo's mail to you, and the invitations you sent, newest first"
-      refreshing={query.isRefetching}
-      onRefresh={() => void query.refetch()}
-    >
+    <Screen title="Mailbox" subtitle="The demo's mail to you, and the invitations you sent, newest first" refreshing={query.isRefetching} onRefresh={() => void query.refetch()}>
       {query.data.length === 0 ? <EmptyState title="No mail yet" message="Escalations, reset links and invitations you send appear here." /> : null}
       {query.data.map((m) => (
         <Card key={m.id} role="article" aria-label={`Mail: ${m.subject}`}>

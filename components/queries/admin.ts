@@ -34,7 +34,11 @@ export function useAuditPageQuery(filters: AuditFilters, cursor: number | null) 
   if (filters.from) params.set('from', filters.from);
   if (filters.to) params.set('to', filters.to);
   if (cursor) params.set('cursor', String(cursor));
-  return useQuery({ queryKey: [...adminKeys.audit(filters), cursor], queryFn: ({ signal }) => api<AuditPage>(`/admin/audit?${params.toString()}`, { signal }), placeholderData: (previous) => previous });
+  return useQuery({
+    queryKey: [...adminKeys.audit(filters), cursor],
+    queryFn: ({ signal }) => api<AuditPage>(`/admin/audit?${params.toString()}`, { signal }),
+    placeholderData: (previous) => previous,
+  });
 }
 
 /** Add or remove one unit membership. Invalidates the user list and the audit log. */
@@ -42,7 +46,9 @@ export function useMembershipMutation() {
   const client = useQueryClient();
   return useMutation({
     mutationFn: ({ userId, unitId, op }: { userId: string; unitId: string; op: 'add' | 'remove' }) =>
-      op === 'add' ? api<{ unitIds: string[] }>(`/admin/users/${userId}/units`, { method: 'POST', body: { unitId } }) : api<{ unitIds: string[] }>(`/admin/users/${userId}/units/${unitId}`, { method: 'DELETE' }),
+      op === 'add'
+        ? api<{ unitIds: string[] }>(`/admin/users/${userId}/units`, { method: 'POST', body: { unitId } })
+        : api<{ unitIds: string[] }>(`/admin/users/${userId}/units/${unitId}`, { method: 'DELETE' }),
     onSuccess: () => client.invalidateQueries({ queryKey: [ADMIN_RQKEY_ROOT] }),
   });
 }
@@ -138,8 +144,7 @@ export function useDigestSendMutation() {
 /** Ask for a reset link; the answer is the same whether or not the address has an account. */
 export function useRequestResetMutation() {
   return useMutation({
-    mutationFn: (input: RequestResetInput) =>
-      api<{ message: string }>('/auth/password-reset/request', { method: 'POST', body: input, skipUnauthorizedHandler: true }),
+    mutationFn: (input: RequestResetInput) => api<{ message: string }>('/auth/password-reset/request', { method: 'POST', body: input, skipUnauthorizedHandler: true }),
   });
 }
 

@@ -75,7 +75,10 @@ export function useDischargeInfantMutation() {
   const invalidate = useInvalidateUnit();
   return useMutation({
     mutationFn: ({ infantId, ...input }: DischargeInfantInput & { infantId: string }) =>
-      api<{ closedFlags: number; closed: { id: string; kind: string }[]; discharge: { at: string; reason: string; destination: string | null } }>(`/infants/${enc(infantId)}/discharge`, { method: 'POST', body: input }),
+      api<{ closedFlags: number; closed: { id: string; kind: string }[]; discharge: { at: string; reason: string; destination: string | null } }>(
+        `/infants/${enc(infantId)}/discharge`,
+        { method: 'POST', body: input },
+      ),
     onSuccess: invalidate,
   });
 }

@@ -154,7 +154,8 @@ export function useUndoActionMutation(infantId: string) {
 export function useFlagHistory(flagId: string | null, enabled: boolean) {
   return useQuery({
     queryKey: ['flag-history', flagId],
-    queryFn: () => api<{ flagId: string; events: { id: string; event: string; at: string; by: { id: string; name: string } | null; text: string }[] }>(`/flags/${enc(flagId!)}/history`),
+    queryFn: () =>
+      api<{ flagId: string; events: { id: string; event: string; at: string; by: { id: string; name: string } | null; text: string }[] }>(`/flags/${enc(flagId!)}/history`),
     enabled: enabled && flagId !== null,
   });
 }

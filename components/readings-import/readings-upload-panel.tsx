@@ -102,7 +102,13 @@ export function ReadingsUploadPanel({ unitId }: { unitId: string }) {
           ) : null}
           {!message ? (
             <Button
-              label={result.errorCount ? 'Fix the errors, then upload again' : unconfirmed ? `Confirm ${unconfirmed} more row${unconfirmed > 1 ? 's' : ''} to import` : `Import ${result.toCreate} rows`}
+              label={
+                result.errorCount
+                  ? 'Fix the errors, then upload again'
+                  : unconfirmed
+                    ? `Confirm ${unconfirmed} more row${unconfirmed > 1 ? 's' : ''} to import`
+                    : `Import ${result.toCreate} rows`
+              }
               disabled={result.errorCount > 0 || result.toCreate === 0 || unconfirmed > 0 || importer.isPending}
               onPress={() => void runImport()}
             />

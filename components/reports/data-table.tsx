@@ -10,11 +10,28 @@ const COLUMN_MIN = 96;
  * natural width (columns × 96 px) it scrolls sideways inside its card instead of squeezing
  * or cutting the last columns off.
  */
-export function DataTable({ label, header, rows, highlight, empty = 'No data in this range.' }: { label: string; header: string[]; rows: ReactNode[][]; highlight?: (i: number) => string | undefined; empty?: string }) {
+export function DataTable({
+  label,
+  header,
+  rows,
+  highlight,
+  empty = 'No data in this range.',
+}: {
+  label: string;
+  header: string[];
+  rows: ReactNode[][];
+  highlight?: (i: number) => string | undefined;
+  empty?: string;
+}) {
   const theme = useTheme();
   return (
     // Focusable, so a keyboard user can scroll it sideways too (axe: scrollable-region-focusable).
-    <ScrollView horizontal tabIndex={0} accessibilityLabel={`${label} (scrolls sideways on a narrow screen)`} contentContainerStyle={[styles.content, { minWidth: header.length * COLUMN_MIN }]}>
+    <ScrollView
+      horizontal
+      tabIndex={0}
+      accessibilityLabel={`${label} (scrolls sideways on a narrow screen)`}
+      contentContainerStyle={[styles.content, { minWidth: header.length * COLUMN_MIN }]}
+    >
       <View role="table" aria-label={label} style={styles.table}>
         <View role="row" style={[styles.tr, { borderBottomColor: theme.colors.border }]}>
           {header.map((h) => (

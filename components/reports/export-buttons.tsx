@@ -60,10 +60,21 @@ export function ExportButtons({ scope, label = 'Export' }: { scope: ExportScope;
       <Text variant="label">{label}</Text>
       <View style={styles.row}>
         {(Object.keys(LABELS) as Kind[]).map((kind) => (
-          <Button key={kind} label={busy === kind ? 'Preparing…' : LABELS[kind]} icon="list" variant="secondary" disabled={!paths[kind] || busy !== null} onPress={() => void download(kind)} />
+          <Button
+            key={kind}
+            label={busy === kind ? 'Preparing…' : LABELS[kind]}
+            icon="list"
+            variant="secondary"
+            disabled={!paths[kind] || busy !== null}
+            onPress={() => void download(kind)}
+          />
         ))}
       </View>
-      {!paths.readings ? <Text variant="caption" tone="muted">Choose one unit and a date range to export readings{scope.infantId ? '' : ' and FHIR'}.</Text> : null}
+      {!paths.readings ? (
+        <Text variant="caption" tone="muted">
+          Choose one unit and a date range to export readings{scope.infantId ? '' : ' and FHIR'}.
+        </Text>
+      ) : null}
       {message ? (
         <Text variant="caption" tone={message.tone} role="status">
           {message.text}

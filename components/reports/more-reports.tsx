@@ -17,7 +17,15 @@ import { DataTable } from './data-table';
 const FIGURE_HEADER = ['Period', 'Checks', 'On time', 'Flags', 'Gap flags / 100 checks', 'Median to first action', 'Median to resolution'];
 
 function figureRow(p: PeriodFigures) {
-  return [p.label, String(p.checks), formatPercent(p.onTimeRate), String(p.flags), p.gapPer100 === null ? '—' : p.gapPer100.toFixed(1), formatMinutes(p.medianMinutesToAction), formatMinutes(p.medianMinutesToResolution)];
+  return [
+    p.label,
+    String(p.checks),
+    formatPercent(p.onTimeRate),
+    String(p.flags),
+    p.gapPer100 === null ? '—' : p.gapPer100.toFixed(1),
+    formatMinutes(p.medianMinutesToAction),
+    formatMinutes(p.medianMinutesToResolution),
+  ];
 }
 
 function Section({ title, children }: { title: string; children: React.ReactNode }) {
@@ -43,7 +51,15 @@ export function TrendsCard({ unitId, from, to }: { unitId: string; from: string;
   const query = useReportPartQuery<TrendResponse>('/reports/trends', { unitId, from, to, by }, true);
   return (
     <Section title="Trends">
-      <Segmented label="By" value={by} onChange={setBy} options={[{ value: 'week', label: 'Week (Mon–Sun)' }, { value: 'month', label: 'Month' }]} />
+      <Segmented
+        label="By"
+        value={by}
+        onChange={setBy}
+        options={[
+          { value: 'week', label: 'Week (Mon–Sun)' },
+          { value: 'month', label: 'Month' },
+        ]}
+      />
       <Loading query={query} label="Working out the trends…">
         {(d) => <DataTable label={`Trends by ${by}`} header={FIGURE_HEADER} rows={d.periods.map(figureRow)} />}
       </Loading>
@@ -84,10 +100,20 @@ export function NurseSummaryCard({ unitId, from, to }: { unitId: string; from: s
             <DataTable
               label="Flags and reviews by nurse"
               header={['Nurse', 'Flags', 'Noted', 'Read by the nurse', 'No teaching point', 'To review', 'Median to first action']}
-              rows={d.nurses.map((n) => [n.nurse.name, String(n.flags), String(n.noted), String(n.acknowledged), String(n.noTeachingPoint), String(n.unreviewed), formatMinutes(n.medianMinutesToAction)])}
+              rows={d.nurses.map((n) => [
+                n.nurse.name,
+                String(n.flags),
+                String(n.noted),
+                String(n.acknowledged),
+                String(n.noTeachingPoint),
+                String(n.unreviewed),
+                formatMinutes(n.medianMinutesToAction),
+              ])}
               empty="No flags in this range."
             />
-            {d.withoutNurse ? <Text variant="caption" tone="muted">{`${d.withoutNurse} flag${d.withoutNurse === 1 ? '' : 's'} from imported readings that named no nurse.`}</Text> : null}
+            {d.withoutNurse ? (
+              <Text variant="caption" tone="muted">{`${d.withoutNurse} flag${d.withoutNurse === 1 ? '' : 's'} from imported readings that named no nurse.`}</Text>
+            ) : null}
           </>
         )}
       </Loading>
@@ -101,7 +127,16 @@ interface MeasureAnswer {
     met: number;
     rate: number | null;
     byMonth: { month: string; eligible: number; met: number; rate: number | null }[];
-    missed: { infantId: string; displayName: string; hospitalNumber: string | null; birthAt: string; gestationWeeks: number; gestationDays: number; first: { takenAt: string; centi: number; site: string; minutesAfterBirth: number } | null; reasons: string[] }[];
+    missed: {
+      infantId: string;
+      displayName: string;
+      hospitalNumber: string | null;
+      birthAt: string;
+      gestationWeeks: number;
+      gestationDays: number;
+      first: { takenAt: string; centi: number; site: string; minutesAfterBirth: number } | null;
+      reasons: string[];
+    }[];
   };
 }
 
@@ -121,13 +156,19 @@ export function AdmissionMeasureCard({ unitId, from, to, timeZone }: { unitId: s
   return (
     <Section title="Temperature on admission, born before 32 weeks">
       <Text variant="caption" tone="muted">
-        The share whose first axillary or rectal temperature (never the skin probe) was {temp(NORMAL_MIN_CENTI, user.tempUnit)} to {temp(NORMAL_MAX_CENTI, user.tempUnit)} and taken within one hour of birth (UK National Neonatal Audit Programme measure), by month of admission.
+        The share whose first axillary or rectal temperature (never the skin probe) was {temp(NORMAL_MIN_CENTI, user.tempUnit)} to {temp(NORMAL_MAX_CENTI, user.tempUnit)} and taken
+        within one hour of birth (UK National Neonatal Audit Programme measure), by month of admission.
       </Text>
       <Loading query={query} label="Working out the admission measure…">
         {({ measure: m }) => (
           <View style={styles.stack}>
             <Text variant="bodyStrong">{`${formatPercent(m.rate)} (${m.met} of ${m.eligible})`}</Text>
-            <DataTable label="Admission measure by month" header={['Month', 'Infants', 'Met', 'Share']} rows={m.byMonth.map((r) => [r.month, String(r.eligible), String(r.met), formatPercent(r.rate)])} empty="No infant born before 32 weeks was admitted in this range." />
+            <DataTable
+              label="Admission measure by month"
+              header={['Month', 'Infants', 'Met', 'Share']}
+              rows={m.byMonth.map((r) => [r.month, String(r.eligible), String(r.met), formatPercent(r.rate)])}
+              empty="No infant born before 32 weeks was admitted in this range."
+            />
             {m.missed.length ? (
               <DataTable
                 label="Infants that missed the measure"

@@ -14,7 +14,12 @@ export function OnTimeChart({ title, rows }: { title: string; rows: (OnTimeRow &
   const [width, setWidth] = useState(340);
   const data = rows.map((r) => ({ x: r.label, y: r.rate === null ? 0 : Math.round(r.rate * 1000) / 10 }));
   return (
-    <View onLayout={(e: LayoutChangeEvent) => setWidth(Math.max(280, e.nativeEvent.layout.width))} accessibilityElementsHidden importantForAccessibility="no-hide-descendants" aria-hidden>
+    <View
+      onLayout={(e: LayoutChangeEvent) => setWidth(Math.max(280, e.nativeEvent.layout.width))}
+      accessibilityElementsHidden
+      importantForAccessibility="no-hide-descendants"
+      aria-hidden
+    >
       <Text variant="label">{title}</Text>
       {data.length === 0 ? (
         <Text tone="muted">No remote-site checks in this range.</Text>

@@ -14,8 +14,17 @@ export function OnTimePlot({ data, width, height }: OnTimePlotProps) {
   return (
     <VictoryChart width={width} height={height} domain={{ y: [0, 100] }} domainPadding={{ x: 30 }} padding={{ top: 16, bottom: 40, left: 48, right: 16 }}>
       <VictoryAxis style={{ tickLabels: { fill: colors.textMuted, fontSize: 11 }, axis: { stroke: colors.border } }} />
-      <VictoryAxis dependentAxis tickFormat={(t: number) => `${t}%`} style={{ tickLabels: { fill: colors.textMuted, fontSize: 11 }, grid: { stroke: colors.border, strokeDasharray: '2,4' }, axis: { stroke: colors.border } }} />
-      <VictoryBar data={data} style={{ data: { fill: colors.primary } }} barWidth={Math.min(36, (width - 80) / Math.max(1, data.length) - 6)} labels={({ datum }: { datum: { y: number } }) => `${datum.y}%`} />
+      <VictoryAxis
+        dependentAxis
+        tickFormat={(t: number) => `${t}%`}
+        style={{ tickLabels: { fill: colors.textMuted, fontSize: 11 }, grid: { stroke: colors.border, strokeDasharray: '2,4' }, axis: { stroke: colors.border } }}
+      />
+      <VictoryBar
+        data={data}
+        style={{ data: { fill: colors.primary } }}
+        barWidth={Math.min(36, (width - 80) / Math.max(1, data.length) - 6)}
+        labels={({ datum }: { datum: { y: number } }) => `${datum.y}%`}
+      />
     </VictoryChart>
   );
 }

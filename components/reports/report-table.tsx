@@ -15,9 +15,19 @@ export function ReportTableCard({ table, fileSuffix }: { table: Table; fileSuffi
         <Text variant="title" role="heading" aria-level={2} style={styles.title}>
           {table.title}
         </Text>
-        <Button label={`CSV: ${table.title}`} icon="list" variant="quiet" compact onPress={() => saveTextFile(`${table.name}-${fileSuffix}.csv`, toCsv(table.header, table.rows))} />
+        <Button
+          label={`CSV: ${table.title}`}
+          icon="list"
+          variant="quiet"
+          compact
+          onPress={() => saveTextFile(`${table.name}-${fileSuffix}.csv`, toCsv(table.header, table.rows))}
+        />
       </View>
-      <DataTable label={table.title} header={table.header.map((h) => h.replace(/_/g, ' '))} rows={table.rows.map((row) => row.map((cell) => (cell === null ? '—' : String(cell))))} />
+      <DataTable
+        label={table.title}
+        header={table.header.map((h) => h.replace(/_/g, ' '))}
+        rows={table.rows.map((row) => row.map((cell) => (cell === null ? '—' : String(cell))))}
+      />
     </Card>
   );
 }

@@ -35,7 +35,12 @@ function AdmissionMeasureScreen() {
     <Screen title="Admission temperature" subtitle="Infants born before 32 weeks" wide>
       <Card>
         {user.units.length > 1 ? <Segmented label="Unit" value={unitId} onChange={setUnitId} options={user.units.map((u) => ({ value: u.id, label: u.name }))} /> : null}
-        <DateRange from={range.from} to={range.to} onChange={setRange} error={!datesOk ? 'Use dates as YYYY-MM-DD.' : valid ? undefined : 'The end date must not be before the start date.'} />
+        <DateRange
+          from={range.from}
+          to={range.to}
+          onChange={setRange}
+          error={!datesOk ? 'Use dates as YYYY-MM-DD.' : valid ? undefined : 'The end date must not be before the start date.'}
+        />
       </Card>
       {unitId && valid ? <AdmissionMeasureCard unitId={unitId} from={range.from} to={range.to} timeZone={timeZone} /> : null}
     </Screen>
@@ -73,10 +78,26 @@ function EducatorReports() {
       ) : (
         <>
           <View style={styles.figures}>
-            <Figure label="On-time remote-site checks" value={formatPercent(data.report.onTime.overall.rate)} detail={`${data.report.onTime.overall.onTime} of ${data.report.onTime.overall.checks}`} />
-            <Figure label="Gap flags per 100 checks" value={data.report.gapRate.per100 === null ? '—' : data.report.gapRate.per100.toFixed(1)} detail={`${data.report.gapRate.gapFlags} gap flags`} />
-            <Figure label="Flag to first action (median / 90th)" value={`${formatMinutes(data.report.responseTimes[0]!.toFirstAction.medianMinutes)} / ${formatMinutes(data.report.responseTimes[0]!.toFirstAction.p90Minutes)}`} detail="median: mean of the two middle values for an even count; 90th: nearest rank" />
-            <Figure label="Skin-to-skin time with a deviation" value={formatPercent(data.report.skinToSkin.share)} detail={`${Math.round(data.report.skinToSkin.sessionMinutes)} min of sessions`} />
+            <Figure
+              label="On-time remote-site checks"
+              value={formatPercent(data.report.onTime.overall.rate)}
+              detail={`${data.report.onTime.overall.onTime} of ${data.report.onTime.overall.checks}`}
+            />
+            <Figure
+              label="Gap flags per 100 checks"
+              value={data.report.gapRate.per100 === null ? '—' : data.report.gapRate.per100.toFixed(1)}
+              detail={`${data.report.gapRate.gapFlags} gap flags`}
+            />
+            <Figure
+              label="Flag to first action (median / 90th)"
+              value={`${formatMinutes(data.report.responseTimes[0]!.toFirstAction.medianMinutes)} / ${formatMinutes(data.report.responseTimes[0]!.toFirstAction.p90Minutes)}`}
+              detail="median: mean of the two middle values for an even count; 90th: nearest rank"
+            />
+            <Figure
+              label="Skin-to-skin time with a deviation"
+              value={formatPercent(data.report.skinToSkin.share)}
+              detail={`${Math.round(data.report.skinToSkin.sessionMinutes)} min of sessions`}
+            />
           </View>
           <Card>
             <OnTimeChart title="On time by shift" rows={data.report.onTime.byShift.map((r) => ({ ...r, label: r.shift === 'day' ? 'Day' : 'Night' }))} />

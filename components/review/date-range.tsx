@@ -6,17 +6,35 @@ import { Text } from '@/components/ui/text';
 /** Two local dates as YYYY-MM-DD; an empty field means no limit. */
 export function DateRange({ from, to, onChange, error }: { from: string; to: string; onChange: (next: { from: string; to: string }) => void; error?: string }) {
   const theme = useTheme();
-  const input = [styles.input, theme.type.body, { color: theme.colors.text, backgroundColor: theme.colors.surfaceSunken, borderColor: error ? theme.colors.danger : theme.colors.border }];
+  const input = [
+    styles.input,
+    theme.type.body,
+    { color: theme.colors.text, backgroundColor: theme.colors.surfaceSunken, borderColor: error ? theme.colors.danger : theme.colors.border },
+  ];
   return (
     <View style={styles.wrap}>
       <View style={styles.row}>
         <View style={styles.field}>
           <Text variant="label">From</Text>
-          <TextInput accessibilityLabel="From date" placeholder="YYYY-MM-DD" placeholderTextColor={theme.colors.textMuted} value={from} onChangeText={(v) => onChange({ from: v, to })} style={input} />
+          <TextInput
+            accessibilityLabel="From date"
+            placeholder="YYYY-MM-DD"
+            placeholderTextColor={theme.colors.textMuted}
+            value={from}
+            onChangeText={(v) => onChange({ from: v, to })}
+            style={input}
+          />
         </View>
         <View style={styles.field}>
           <Text variant="label">To</Text>
-          <TextInput accessibilityLabel="To date" placeholder="YYYY-MM-DD" placeholderTextColor={theme.colors.textMuted} value={to} onChangeText={(v) => onChange({ from, to: v })} style={input} />
+          <TextInput
+            accessibilityLabel="To date"
+            placeholder="YYYY-MM-DD"
+            placeholderTextColor={theme.colors.textMuted}
+            value={to}
+            onChangeText={(v) => onChange({ from, to: v })}
+            style={input}
+          />
         </View>
       </View>
       {error ? (

@@ -97,7 +97,11 @@ function ReviewItemView({ data }: { data: ReviewItemDetail }) {
           Teaching notes
         </Text>
         <View style={styles.state}>
-          <StatusBadge tone={item.reviewState === 'unreviewed' ? 'warning' : 'ok'} icon={item.reviewState === 'unreviewed' ? 'clock' : 'check'} label={`Review: ${REVIEW_STATE_WORDS[item.reviewState]}`} />
+          <StatusBadge
+            tone={item.reviewState === 'unreviewed' ? 'warning' : 'ok'}
+            icon={item.reviewState === 'unreviewed' ? 'clock' : 'check'}
+            label={`Review: ${REVIEW_STATE_WORDS[item.reviewState]}`}
+          />
           <Text variant="caption" tone="muted">
             The review status is the educator&apos;s; the flag itself is {item.withdrawn ? 'withdrawn' : item.closedAt ? 'closed' : 'still open'}.
           </Text>
@@ -157,7 +161,11 @@ function NoteView({ note, when }: { note: ReviewNote; when: (iso: string) => str
       )}
       {note.versions.length > 1 ? (
         <Text variant="caption" tone="muted">
-          Earlier: {note.versions.slice(0, -1).map((v) => `“${v.note}” (${when(v.at)})`).join('; ')}
+          Earlier:{' '}
+          {note.versions
+            .slice(0, -1)
+            .map((v) => `“${v.note}” (${when(v.at)})`)
+            .join('; ')}
         </Text>
       ) : null}
       {!note.withdrawn && !editing ? (
@@ -166,7 +174,9 @@ function NoteView({ note, when }: { note: ReviewNote; when: (iso: string) => str
           <Button label="Withdraw" icon="out" variant="quiet" compact busy={action.isPending} onPress={() => void run(reviewPaths.withdraw(note.id), {})} />
         </View>
       ) : null}
-      {editing ? <AmendForm initial={note.note} busy={action.isPending} onSave={(text) => void run(reviewPaths.amend(note.id), { note: text })} onCancel={() => setEditing(false)} /> : null}
+      {editing ? (
+        <AmendForm initial={note.note} busy={action.isPending} onSave={(text) => void run(reviewPaths.amend(note.id), { note: text })} onCancel={() => setEditing(false)} />
+      ) : null}
       {error ? (
         <Text variant="caption" tone="danger" role="alert">
           {error}
@@ -180,7 +190,15 @@ function AmendForm({ initial, busy, onSave, onCancel }: { initial: string; busy:
   const { control, handleSubmit } = useForm<TeachingNoteInput>({ resolver: teachingNoteResolver, defaultValues: { note: initial } });
   return (
     <View style={styles.form}>
-      <TextField control={control} name="note" label="Amended note" hint="The earlier text stays in the record; the nurse is asked to read the new one." multiline numberOfLines={4} style={styles.multiline} />
+      <TextField
+        control={control}
+        name="note"
+        label="Amended note"
+        hint="The earlier text stays in the record; the nurse is asked to read the new one."
+        multiline
+        numberOfLines={4}
+        style={styles.multiline}
+      />
       <View style={styles.buttons}>
         <Button label="Save the amended note" icon="check" busy={busy} onPress={() => void handleSubmit(({ note }) => onSave(note))()} />
         <Button label="Cancel" icon="back" variant="quiet" onPress={onCancel} />

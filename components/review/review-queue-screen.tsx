@@ -72,13 +72,46 @@ export function ReviewQueueScreen() {
     >
       <Card>
         {data && data.units.length > 1 ? (
-          <Segmented label="Unit" value={unitId} onChange={setUnitId} options={[{ value: 'all', label: 'All units' }, ...data.units.map((u) => ({ value: u.id, label: u.name }))]} />
+          <Segmented
+            label="Unit"
+            value={unitId}
+            onChange={setUnitId}
+            options={[{ value: 'all', label: 'All units' }, ...data.units.map((u) => ({ value: u.id, label: u.name }))]}
+          />
         ) : null}
-        <Segmented label="Shift" value={shift} onChange={setShift} options={[{ value: 'all', label: 'Both shifts' }, { value: 'day', label: 'Day' }, { value: 'night', label: 'Night' }]} />
-        <Segmented label="Kind" value={kind} onChange={setKind} options={[{ value: 'all', label: 'All kinds' }, ...REVIEW_KINDS.map((k) => ({ value: k, label: REVIEW_KIND_LABELS[k] }))]} />
-        <Segmented label="Review status" value={status} onChange={setStatus} options={[{ value: 'unreviewed', label: 'To review' }, { value: 'reviewed', label: 'Reviewed' }, { value: 'all', label: 'All' }]} />
+        <Segmented
+          label="Shift"
+          value={shift}
+          onChange={setShift}
+          options={[
+            { value: 'all', label: 'Both shifts' },
+            { value: 'day', label: 'Day' },
+            { value: 'night', label: 'Night' },
+          ]}
+        />
+        <Segmented
+          label="Kind"
+          value={kind}
+          onChange={setKind}
+          options={[{ value: 'all', label: 'All kinds' }, ...REVIEW_KINDS.map((k) => ({ value: k, label: REVIEW_KIND_LABELS[k] }))]}
+        />
+        <Segmented
+          label="Review status"
+          value={status}
+          onChange={setStatus}
+          options={[
+            { value: 'unreviewed', label: 'To review' },
+            { value: 'reviewed', label: 'Reviewed' },
+            { value: 'all', label: 'All' },
+          ]}
+        />
         {data && data.nurses.length ? (
-          <Segmented label="Nurse" value={nurseId} onChange={setNurseId} options={[{ value: 'all', label: 'Any nurse' }, ...data.nurses.map((n) => ({ value: n.id, label: n.name }))]} />
+          <Segmented
+            label="Nurse"
+            value={nurseId}
+            onChange={setNurseId}
+            options={[{ value: 'all', label: 'Any nurse' }, ...data.nurses.map((n) => ({ value: n.id, label: n.name }))]}
+          />
         ) : null}
         <DateRange from={range.from} to={range.to} onChange={setRange} error={rangeError ?? fieldError} />
         <SearchField value={search} onChange={setSearch} />
@@ -184,8 +217,8 @@ function QueueRow({ item }: { item: ReviewQueueItem }) {
       <Text style={item.withdrawn ? styles.struck : undefined}>{item.summary}</Text>
       {item.withdrawn ? <Text variant="caption">Withdrawn: the check was on time or the reading was corrected; not a late check.</Text> : null}
       <Text tone="muted" variant="caption">
-        Raised {when(item.raisedAt)} · {item.nurse ? item.nurse.name : item.importedBy ? `imported by ${item.importedBy.name}, no nurse named` : 'nurse unknown'} · first action {minutesText(item.minutesToFirstAction)} · resolved{' '}
-        {item.closedAt ? `after ${minutesText(item.minutesToResolution)}` : 'not yet'}
+        Raised {when(item.raisedAt)} · {item.nurse ? item.nurse.name : item.importedBy ? `imported by ${item.importedBy.name}, no nurse named` : 'nurse unknown'} · first action{' '}
+        {minutesText(item.minutesToFirstAction)} · resolved {item.closedAt ? `after ${minutesText(item.minutesToResolution)}` : 'not yet'}
       </Text>
     </Pressable>
   );

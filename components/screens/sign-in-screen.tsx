@@ -31,11 +31,7 @@ export function SignInScreen() {
       await signIn(values);
     } catch (err) {
       const problem = problemOf(err);
-      setFormError(
-        problem.kind === 'unauthorized'
-          ? 'That e-mail and password do not match an active account. Check both and try again.'
-          : problem.message,
-      );
+      setFormError(problem.kind === 'unauthorized' ? 'That e-mail and password do not match an active account. Check both and try again.' : problem.message);
     }
   });
 

@@ -21,7 +21,11 @@ export function ThemeProvider({ children, initial = 'system' }: { children: Reac
   // Not useColorScheme(): react-native-web's reads the media query in its first render, which
   // differs from the statically rendered (light) HTML on a dark device. React does not patch
   // mismatched attributes when hydrating, so the page would keep the light colours.
-  const system = useSyncExternalStore(subscribeScheme, () => Appearance.getColorScheme(), () => 'light' as const);
+  const system = useSyncExternalStore(
+    subscribeScheme,
+    () => Appearance.getColorScheme(),
+    () => 'light' as const,
+  );
   const [choice, setChoice] = useState<ThemeChoice>(initial);
   const [nightScreen, setNightScreen] = useState(false);
   const value = useMemo(() => {

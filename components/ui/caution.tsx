@@ -3,8 +3,7 @@ import { useTheme } from '@/components/theme/theme-provider';
 import { Text } from './text';
 
 /** Shown beside every clinical prompt. */
-export const CAUTION_TEXT =
-  'Warmfold supports your judgment. Follow unit policy, the device instructions and licensed practice; it never controls a device.';
+export const CAUTION_TEXT = 'Warmfold supports your judgment. Follow unit policy, the device instructions and licensed practice; it never controls a device.';
 
 export function Caution() {
   const { colors } = useTheme();

@@ -17,7 +17,12 @@ export function Sheet({ title, open, onClose, children, wide = false }: { title:
     <Modal visible={open} transparent animationType="none" onRequestClose={onClose}>
       <View style={styles.backdrop}>
         {open ? (
-          <View role="dialog" aria-modal aria-labelledby={titleId} style={[styles.panel, wide && styles.wide, { backgroundColor: theme.colors.surface, borderColor: theme.colors.border }]}>
+          <View
+            role="dialog"
+            aria-modal
+            aria-labelledby={titleId}
+            style={[styles.panel, wide && styles.wide, { backgroundColor: theme.colors.surface, borderColor: theme.colors.border }]}
+          >
             <View style={styles.header}>
               <Text variant="title" role="heading" aria-level={2} nativeID={titleId} id={titleId} style={styles.title}>
                 {title}

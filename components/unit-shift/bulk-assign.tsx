@@ -38,7 +38,15 @@ export function BulkAssign({ board, onDone }: { board: BoardResponse; onDone: ()
   const labelOf = (infantId: string) => occupied.find((b) => b.infant?.id === infantId)?.label ?? '';
   return (
     <View style={styles.body}>
-      <Segmented label="For" value={shift} onChange={setShift} options={[{ value: 'next', label: 'Next shift' }, { value: 'current', label: 'This shift' }]} />
+      <Segmented
+        label="For"
+        value={shift}
+        onChange={setShift}
+        options={[
+          { value: 'next', label: 'Next shift' },
+          { value: 'current', label: 'This shift' },
+        ]}
+      />
       <Segmented label="Nurse" value={nurseId} onChange={setNurseId} options={board.nurses.map((n) => ({ value: n.id, label: n.name }))} />
       <Text variant="label" tone="muted">
         Tap the beds for {nameOf.get(nurseId) ?? 'this nurse'}; tap again to take one back.
@@ -69,7 +77,11 @@ export function BulkAssign({ board, onDone }: { board: BoardResponse; onDone: ()
         <View role="list" aria-label="Assignments to make">
           {groups.map((g) => (
             <Text key={g.nurseId} role="listitem">
-              {nameOf.get(g.nurseId)}: {g.infantIds.map(labelOf).sort((a, b) => a.localeCompare(b, undefined, { numeric: true })).join(', ')}
+              {nameOf.get(g.nurseId)}:{' '}
+              {g.infantIds
+                .map(labelOf)
+                .sort((a, b) => a.localeCompare(b, undefined, { numeric: true }))
+                .join(', ')}
             </Text>
           ))}
         </View>

@@ -48,7 +48,14 @@ export function HandoverPlanField({ infantId, canWrite }: { infantId: string; ca
               {field ?? problem.message}
             </Text>
           ) : null}
-          <Button label="Save plan" compact variant="secondary" disabled={draft === null || draft === saved} busy={write.isPending} onPress={() => write.mutate(text, { onSuccess: () => setDraft(null) })} />
+          <Button
+            label="Save plan"
+            compact
+            variant="secondary"
+            disabled={draft === null || draft === saved}
+            busy={write.isPending}
+            onPress={() => write.mutate(text, { onSuccess: () => setDraft(null) })}
+          />
         </View>
       ) : null}
       {canWrite ? <PrintOnly>{shown}</PrintOnly> : shown}

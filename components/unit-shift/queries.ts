@@ -70,6 +70,7 @@ export function useBulkAssignMutation(unitId: string) {
   const client = useQueryClient();
   return useMutation({
     mutationFn: (input: BulkAssignInput) => api<{ assignments: { id: string }[] }>(`/units/${enc(unitId)}/assignments/bulk`, { method: 'POST', body: input }),
-    onSuccess: () => Promise.all([client.invalidateQueries({ queryKey: ['board'] }), client.invalidateQueries({ queryKey: ['infants'] }), client.invalidateQueries({ queryKey: ['handover'] })]),
+    onSuccess: () =>
+      Promise.all([client.invalidateQueries({ queryKey: ['board'] }), client.invalidateQueries({ queryKey: ['infants'] }), client.invalidateQueries({ queryKey: ['handover'] })]),
   });
 }

@@ -24,7 +24,21 @@ export function nextCheckWords(h: HandoverInfant, nowMs: number, timeZone: strin
  * concerns most severe first, the next check and the remote site charted last, and whether a plan
  * was written. The per-infant pages follow.
  */
-export function UnitSummary({ handovers, plans, tempUnit, timeZone, clock, nowMs }: { handovers: HandoverInfant[]; plans: HandoverPlan[]; tempUnit: TempUnit; timeZone: string; clock: ClockSetting; nowMs: number }) {
+export function UnitSummary({
+  handovers,
+  plans,
+  tempUnit,
+  timeZone,
+  clock,
+  nowMs,
+}: {
+  handovers: HandoverInfant[];
+  plans: HandoverPlan[];
+  tempUnit: TempUnit;
+  timeZone: string;
+  clock: ClockSetting;
+  nowMs: number;
+}) {
   const { colors } = useTheme();
   const planned = new Set(plans.map((p) => p.infantId));
   return (

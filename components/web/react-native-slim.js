@@ -51,12 +51,38 @@ exports.useLocaleContext = require('react-native-web/dist/exports/useLocaleConte
 exports.useWindowDimensions = require('react-native-web/dist/exports/useWindowDimensions').default;
 
 /** Not in the first page's build: see the comment at the top. */
-const LEFT_OUT = ['Animated', 'Clipboard', 'LayoutAnimation', 'PanResponder', 'Share', 'Vibration', 'Button', 'CheckBox', 'FlatList', 'ImageBackground', 'InputAccessoryView', 'Picker', 'ProgressBar', 'SectionList', 'Switch', 'Touchable', 'TouchableHighlight', 'TouchableNativeFeedback', 'TouchableOpacity', 'TouchableWithoutFeedback', 'VirtualizedList', 'YellowBox', 'LogBox'];
+const LEFT_OUT = [
+  'Animated',
+  'Clipboard',
+  'LayoutAnimation',
+  'PanResponder',
+  'Share',
+  'Vibration',
+  'Button',
+  'CheckBox',
+  'FlatList',
+  'ImageBackground',
+  'InputAccessoryView',
+  'Picker',
+  'ProgressBar',
+  'SectionList',
+  'Switch',
+  'Touchable',
+  'TouchableHighlight',
+  'TouchableNativeFeedback',
+  'TouchableOpacity',
+  'TouchableWithoutFeedback',
+  'VirtualizedList',
+  'YellowBox',
+  'LogBox',
+];
 for (const name of LEFT_OUT) {
   Object.defineProperty(exports, name, {
     enumerable: false,
     get() {
-      throw new Error(`react-native's ${name} is left out of Warmfold's first-page web build (components/web/react-native-slim.js); import it from a lazily loaded module, or take it off the list.`);
+      throw new Error(
+        `react-native's ${name} is left out of Warmfold's first-page web build (components/web/react-native-slim.js); import it from a lazily loaded module, or take it off the list.`,
+      );
     },
   });
 }

@@ -173,7 +173,15 @@ export function responseTimes(flags: readonly FlagTimes[], kind = 'all'): Respon
 
 /** One row for all flags, then one per kind present (in the order given). */
 export function responseTimesByKind(flags: readonly FlagTimes[], kinds: readonly string[]): ResponseTimesRow[] {
-  return [responseTimes(flags, 'all'), ...kinds.map((k) => responseTimes(flags.filter((f) => f.kind === k), k))];
+  return [
+    responseTimes(flags, 'all'),
+    ...kinds.map((k) =>
+      responseTimes(
+        flags.filter((f) => f.kind === k),
+        k,
+      ),
+    ),
+  ];
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -286,7 +294,10 @@ export function reportTables(report: UnitReport): ReportTable[] {
       name: 'on-time-by-shift',
       title: 'On-time remote-site checks by shift',
       header: ['shift', 'checks', 'on_time', 'on_time_pct'],
-      rows: [...report.onTime.byShift.map((r) => [r.shift, r.checks, r.onTime, pct(r.rate)]), ['all', report.onTime.overall.checks, report.onTime.overall.onTime, pct(report.onTime.overall.rate)]],
+      rows: [
+        ...report.onTime.byShift.map((r) => [r.shift, r.checks, r.onTime, pct(r.rate)]),
+        ['all', report.onTime.overall.checks, report.onTime.overall.onTime, pct(report.onTime.overall.rate)],
+      ],
     },
     {
       name: 'on-time-by-day',

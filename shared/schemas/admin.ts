@@ -46,7 +46,8 @@ export const timeZoneSchema = z
  */
 export function unitSettingsConflicts(v: { checkIntervalMinutes: number; dueSoonMinutes: number; dayShiftStart: string; nightShiftStart: string }): Record<string, string> {
   const fields: Record<string, string> = {};
-  if (v.dueSoonMinutes >= v.checkIntervalMinutes) fields.dueSoonMinutes = `The due-soon window (${v.dueSoonMinutes} min) must be shorter than the check interval (${v.checkIntervalMinutes} min).`;
+  if (v.dueSoonMinutes >= v.checkIntervalMinutes)
+    fields.dueSoonMinutes = `The due-soon window (${v.dueSoonMinutes} min) must be shorter than the check interval (${v.checkIntervalMinutes} min).`;
   if (v.dayShiftStart >= v.nightShiftStart) fields.nightShiftStart = `The night shift (${v.nightShiftStart}) must start later in the day than the day shift (${v.dayShiftStart}).`;
   return fields;
 }
@@ -67,7 +68,10 @@ export const unitSettingsSchema = z
      * after a first action before a recheck counts. Kept in the unit's settings versions.
      */
     escalationDelays: z
-      .partialRecord(z.enum(SEVERITY_CLASSES as [SeverityClass, ...SeverityClass[]], { error: 'Unknown kind of flag.' }), z.number({ error: 'Enter minutes.' }).int('Whole minutes.').min(0).max(240, 'At most 4 hours.').nullable())
+      .partialRecord(
+        z.enum(SEVERITY_CLASSES as [SeverityClass, ...SeverityClass[]], { error: 'Unknown kind of flag.' }),
+        z.number({ error: 'Enter minutes.' }).int('Whole minutes.').min(0).max(240, 'At most 4 hours.').nullable(),
+      )
       .optional(),
     recheckSettleMinutes: z.number({ error: 'Enter minutes.' }).int('Whole minutes.').min(0).max(30, 'At most the 30-minute recheck time.').optional(),
     /** Where escalations go when no charge nurse is assigned on the shift; null removes it. */
@@ -77,7 +81,10 @@ export const unitSettingsSchema = z
   .refine((v) => Object.keys(v).length > 0, { message: 'Change at least one setting.', path: ['_'] });
 export type UnitSettingsInput = z.infer<typeof unitSettingsSchema>;
 
-const bedLabel = safeText({ error: 'Enter a bed label.' }).min(1, 'Enter a bed label.').max(20, 'At most 20 characters.').regex(/^[\w -]+$/, 'Letters, digits, spaces and dashes only.');
+const bedLabel = safeText({ error: 'Enter a bed label.' })
+  .min(1, 'Enter a bed label.')
+  .max(20, 'At most 20 characters.')
+  .regex(/^[\w -]+$/, 'Letters, digits, spaces and dashes only.');
 
 export const createBedSchema = z.strictObject({ label: bedLabel });
 export type CreateBedInput = z.infer<typeof createBedSchema>;

@@ -29,9 +29,18 @@ const isoInstant = z.iso.datetime({ offset: true, error: 'Must be a date and tim
  * one): more is refused, field by field. The readings import keeps its own rule (two decimals,
  * shared/uploads/csv-formats.ts): it reads other devices' exports.
  */
-function oneDecimalTemperatures(v: { unit?: string; probe?: number | null; remote?: number | null; air?: number | null; set?: number | null }, ctx: z.RefinementCtx, prefix: string[] = []): void {
+function oneDecimalTemperatures(
+  v: { unit?: string; probe?: number | null; remote?: number | null; air?: number | null; set?: number | null },
+  ctx: z.RefinementCtx,
+  prefix: string[] = [],
+): void {
   if (v.unit !== 'C' && v.unit !== 'F') return;
-  for (const [field, label] of [['probe', 'Probe temperature'], ['remote', 'Remote-site temperature'], ['air', 'Air temperature'], ['set', 'Set temperature']] as const) {
+  for (const [field, label] of [
+    ['probe', 'Probe temperature'],
+    ['remote', 'Remote-site temperature'],
+    ['air', 'Air temperature'],
+    ['set', 'Set temperature'],
+  ] as const) {
     const value = v[field];
     if (typeof value === 'number' && Number.isFinite(value) && !hasOneDecimalAtMost(value)) {
       ctx.addIssue({ code: 'custom', path: [...prefix, field], message: oneDecimalMessage(label, v.unit) });
@@ -141,7 +150,11 @@ export type StartSessionInput = z.input<typeof startSessionSchema>;
 export const endSessionSchema = z.strictObject({ endedAt: isoInstant.optional() });
 
 export const flowsheetQuerySchema = z.strictObject({
-  hours: z.coerce.number().int().refine((h) => [12, 24, 72].includes(h), 'Choose 12, 24 or 72 hours.').default(24),
+  hours: z.coerce
+    .number()
+    .int()
+    .refine((h) => [12, 24, 72].includes(h), 'Choose 12, 24 or 72 hours.')
+    .default(24),
 });
 
 export const infantListQuerySchema = z.strictObject({

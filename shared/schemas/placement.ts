@@ -1,15 +1,6 @@
 import { z } from 'zod';
 import { remoteSiteConflict } from '../thermal/placement';
-import {
-  HUMIDITY_PCT_MAX,
-  HUMIDITY_PCT_MIN,
-  INFANT_POSITIONS,
-  PROBE_SITES,
-  WEIGHT_GRAMS_MAX,
-  WEIGHT_GRAMS_MIN,
-  type ProbeSite,
-  type RemoteSite,
-} from '../vocabulary';
+import { HUMIDITY_PCT_MAX, HUMIDITY_PCT_MIN, INFANT_POSITIONS, PROBE_SITES, WEIGHT_GRAMS_MAX, WEIGHT_GRAMS_MIN, type ProbeSite, type RemoteSite } from '../vocabulary';
 
 /**
  * The probe's place (site, heat-reflecting cover, the infant's position), the current weight and

@@ -17,7 +17,6 @@ function rangeOk(v: { from?: string; to?: string }) {
 }
 const RANGE_MESSAGE = { message: 'The end date must not be before the start date.', path: ['to'] };
 
-
 export const reviewQueueQuerySchema = z
   .strictObject({
     unitId: id.optional(),
@@ -32,7 +31,11 @@ export const reviewQueueQuerySchema = z
     /** Search: part of the infant's name, the bed label or the hospital number. */
     q: safeText({ error: 'Search for an infant or a bed.' }).max(60, 'Search with at most 60 characters.').optional(),
     /** Where the previous page ended (its `nextCursor`). */
-    cursor: z.string().max(200).regex(/^[A-Za-z0-9_-]+$/, 'That page marker is not valid.').optional(),
+    cursor: z
+      .string()
+      .max(200)
+      .regex(/^[A-Za-z0-9_-]+$/, 'That page marker is not valid.')
+      .optional(),
     /** A page is capped, so one request can never pull the whole history. */
     limit: z.coerce.number({ error: 'Limit must be a number.' }).int('Use a whole number.').min(1, 'At least 1.').max(REVIEW_PAGE_MAX, `At most ${REVIEW_PAGE_MAX}.`).default(200),
   })
@@ -40,9 +43,7 @@ export const reviewQueueQuerySchema = z
 export type ReviewQueueQuery = z.infer<typeof reviewQueueQuerySchema>;
 
 export const teachingNoteSchema = z.strictObject({
-  note: safeNote('Write a teaching note.')
-    .min(3, 'Write a teaching note of a few words at least.')
-    .max(TEACHING_NOTE_MAX, `Keep the note under ${TEACHING_NOTE_MAX} characters.`),
+  note: safeNote('Write a teaching note.').min(3, 'Write a teaching note of a few words at least.').max(TEACHING_NOTE_MAX, `Keep the note under ${TEACHING_NOTE_MAX} characters.`),
 });
 export type TeachingNoteInput = z.infer<typeof teachingNoteSchema>;
 

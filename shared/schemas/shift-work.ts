@@ -16,7 +16,12 @@ export interface HandoverPlan {
   writtenAt: string;
 }
 
-const id = (what: string) => z.string({ error: `Choose ${what}.` }).trim().min(1, `Choose ${what}.`).max(100);
+const id = (what: string) =>
+  z
+    .string({ error: `Choose ${what}.` })
+    .trim()
+    .min(1, `Choose ${what}.`)
+    .max(100);
 
 /** Shift change: each nurse's infants in one step (one row per nurse). */
 export const bulkAssignSchema = z

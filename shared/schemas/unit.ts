@@ -12,7 +12,12 @@ export { CONTROL_MODE_LABELS, CONTROL_MODES, HEAT_SOURCE_LABELS, HEAT_SOURCES, I
 
 const heatSource = z.enum(HEAT_SOURCES, { error: 'Choose a heat source.' });
 const controlMode = z.enum(CONTROL_MODES, { error: 'Choose skin servo, air servo or manual.' });
-const id = (what: string) => z.string({ error: `Choose ${what}.` }).trim().min(1, `Choose ${what}.`).max(100);
+const id = (what: string) =>
+  z
+    .string({ error: `Choose ${what}.` })
+    .trim()
+    .min(1, `Choose ${what}.`)
+    .max(100);
 
 /** The hospital's number for the infant: letters, digits, '-' and '/', as printed on the wristband. */
 const hospitalNumber = z
@@ -43,9 +48,7 @@ export const admitInfantSchema = z
     heatSource,
     controlMode,
     /** The set temperature as typed, in `tempUnit`. */
-    setTemperature: z.coerce
-      .number({ error: 'Set temperature must be a number.' })
-      .refine(Number.isFinite, 'Set temperature must be a number.'),
+    setTemperature: z.coerce.number({ error: 'Set temperature must be a number.' }).refine(Number.isFinite, 'Set temperature must be a number.'),
     tempUnit: z.enum(['C', 'F'], { error: 'Choose °C or °F.' }).default('C'),
     hospitalNumber: hospitalNumber.optional(),
     sex: sex.optional(),
@@ -66,9 +69,15 @@ export const admitFormSchema = z.object({
   displayName: safeText().min(1, 'Enter a display name.').max(60, 'Keep the display name under 60 characters.'),
   birthDate: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use YYYY-MM-DD.'),
   birthTime: z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Use HH:MM (24-hour).'),
-  gestationWeeks: z.string().regex(/^\d{2}$/, 'Weeks: 22 to 44.').refine((v) => Number(v) >= 22 && Number(v) <= 44, 'Weeks: 22 to 44.'),
+  gestationWeeks: z
+    .string()
+    .regex(/^\d{2}$/, 'Weeks: 22 to 44.')
+    .refine((v) => Number(v) >= 22 && Number(v) <= 44, 'Weeks: 22 to 44.'),
   gestationDays: z.string().regex(/^[0-6]$/, 'Days: 0 to 6.'),
-  birthWeightGrams: z.string().regex(/^\d{3,4}$/, 'Weight in grams, 300 to 6500.').refine((v) => Number(v) >= 300 && Number(v) <= 6500, 'Weight in grams, 300 to 6500.'),
+  birthWeightGrams: z
+    .string()
+    .regex(/^\d{3,4}$/, 'Weight in grams, 300 to 6500.')
+    .refine((v) => Number(v) >= 300 && Number(v) <= 6500, 'Weight in grams, 300 to 6500.'),
   heatSource,
   controlMode,
   setTemperature: z.string().regex(/^\d{2,3}([.,]\d{1,2})?$/, 'Enter a temperature such as 36.5.'),

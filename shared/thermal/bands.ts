@@ -12,12 +12,7 @@
 
 import { requireInteger } from './errors';
 
-export type TemperatureBand =
-  | 'severe-hypothermia'
-  | 'moderate-hypothermia'
-  | 'cold-stress'
-  | 'normal'
-  | 'hyperthermia';
+export type TemperatureBand = 'severe-hypothermia' | 'moderate-hypothermia' | 'cold-stress' | 'normal' | 'hyperthermia';
 
 export interface BandInfo {
   readonly band: TemperatureBand;
@@ -61,9 +56,10 @@ export const TEMPERATURE_BANDS: readonly BandInfo[] = [
   { band: 'hyperthermia', label: 'Hyperthermia', minCenti: NORMAL_MAX_CENTI + 1, maxCenti: null },
 ];
 
-export const BAND_LABELS: Readonly<Record<TemperatureBand, string>> = Object.fromEntries(
-  TEMPERATURE_BANDS.map((info) => [info.band, info.label]),
-) as Record<TemperatureBand, string>;
+export const BAND_LABELS: Readonly<Record<TemperatureBand, string>> = Object.fromEntries(TEMPERATURE_BANDS.map((info) => [info.band, info.label])) as Record<
+  TemperatureBand,
+  string
+>;
 
 export function temperatureBand(centi: number): TemperatureBand {
   const value = requireInteger(centi, 'centi');
@@ -74,10 +70,7 @@ export function temperatureBand(centi: number): TemperatureBand {
   return 'hyperthermia';
 }
 
-export type ColdBand = Extract<
-  TemperatureBand,
-  'cold-stress' | 'moderate-hypothermia' | 'severe-hypothermia'
->;
+export type ColdBand = Extract<TemperatureBand, 'cold-stress' | 'moderate-hypothermia' | 'severe-hypothermia'>;
 
 export function isColdBand(band: TemperatureBand): band is ColdBand {
   return band === 'cold-stress' || band === 'moderate-hypothermia' || band === 'severe-hypothermia';

@@ -14,13 +14,7 @@ import { requireFinite, requireInteger, requireTime, ThermalInputError } from '.
 import { FEVER_MIN_CENTI, temperatureBand, isColdBand, worseColdBand, type ColdBand, type TemperatureBand } from './bands';
 import { assessGapCenti, type GapDirection } from './gap';
 import { heatStressPrompt, type HeatStressReason, type HeatStressSign } from './heat-stress';
-import {
-  isControlMode,
-  ManualModeTracker,
-  resolveManualPolicy,
-  type ControlMode,
-  type ManualModeReason,
-} from './manual-mode';
+import { isControlMode, ManualModeTracker, resolveManualPolicy, type ControlMode, type ManualModeReason } from './manual-mode';
 import { resolvePolicy, type UnitPolicy } from './policy';
 import { checkStatus, MINUTE_MS, type CheckStatusResult } from './schedule';
 import { validateSession } from './skin-to-skin';
@@ -79,14 +73,7 @@ export interface InfantState {
   readonly admittedAt?: Date | null;
 }
 
-export type FlagKind =
-  | 'gap'
-  | 'overdue-check'
-  | 'heat-stress'
-  | 'cold-stress'
-  | 'manual-mode'
-  | 'skin-to-skin-deviation'
-  | 'fever';
+export type FlagKind = 'gap' | 'overdue-check' | 'heat-stress' | 'cold-stress' | 'manual-mode' | 'skin-to-skin-deviation' | 'fever';
 
 export type FlagStatus = 'open' | 'closed';
 
@@ -286,8 +273,7 @@ const TEMPERATURE_KEYS = ['probeCenti', 'remoteCenti', 'airCenti', 'setCenti'] a
 const NUMBER_KEYS = ['heaterOutputPct', 'heartRate'] as const;
 
 const isTime = (value: unknown): value is Date => value instanceof Date && !Number.isNaN(value.getTime());
-const isAbsentOr = (value: unknown, test: (v: unknown) => boolean): boolean =>
-  value === null || value === undefined || test(value);
+const isAbsentOr = (value: unknown, test: (v: unknown) => boolean): boolean => value === null || value === undefined || test(value);
 const isFiniteNumber = (value: unknown): boolean => typeof value === 'number' && Number.isFinite(value);
 
 /**
@@ -361,23 +347,14 @@ function currentVersions(readings: readonly ReadingInput[], nowMs: number): Curr
     const { ms, recordedMs } = stamps[index];
     const entry: CurrentReading = { reading, rootId: rootOf(reading.id), ms, recordedMs };
     const other = tips.get(entry.rootId);
-    if (
-      other === undefined ||
-      entry.recordedMs > other.recordedMs ||
-      (entry.recordedMs === other.recordedMs && bySeqThenId(other.reading, entry.reading) < 0)
-    ) {
+    if (other === undefined || entry.recordedMs > other.recordedMs || (entry.recordedMs === other.recordedMs && bySeqThenId(other.reading, entry.reading) < 0)) {
       tips.set(entry.rootId, entry);
     }
   });
 
   return [...tips.values()]
     .filter((entry) => !entry.reading.enteredInError && entry.ms <= nowMs)
-    .sort(
-      (a, b) =>
-        a.ms - b.ms ||
-        a.recordedMs - b.recordedMs ||
-        bySeqThenId(a.reading, b.reading),
-    );
+    .sort((a, b) => a.ms - b.ms || a.recordedMs - b.recordedMs || bySeqThenId(a.reading, b.reading));
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -410,13 +387,7 @@ class FlagBook {
   readonly drafts: Draft[] = [];
   private readonly keyUses = new Map<string, number>();
 
-  open<K extends FlagKind>(
-    kind: K,
-    baseKey: string,
-    raisedMs: number,
-    raisedByReadingId: string | null,
-    detail: FlagDetailByKind[K],
-  ): Draft<K> {
+  open<K extends FlagKind>(kind: K, baseKey: string, raisedMs: number, raisedByReadingId: string | null, detail: FlagDetailByKind[K]): Draft<K> {
     // Keys are unique by construction; the suffix is a guard so a key never names two flags.
     const uses = this.keyUses.get(baseKey) ?? 0;
     this.keyUses.set(baseKey, uses + 1);
@@ -447,8 +418,7 @@ function addUnique<T>(list: T[], items: readonly T[], same: (a: T, b: T) => bool
   return result;
 }
 
-const sameHeatReason = (a: HeatStressReason, b: HeatStressReason): boolean =>
-  a.kind === b.kind && (a.kind !== 'sign' || (b.kind === 'sign' && a.sign === b.sign));
+const sameHeatReason = (a: HeatStressReason, b: HeatStressReason): boolean => a.kind === b.kind && (a.kind !== 'sign' || (b.kind === 'sign' && a.sign === b.sign));
 
 // ---------------------------------------------------------------------------------------------
 // The evaluation
@@ -507,12 +477,7 @@ function intervalAtFn(base: UnitPolicy, versions: readonly PolicyVersion[]): (ms
   };
 }
 
-export function evaluateInfant(
-  state: InfantState,
-  now: Date,
-  policyInput: Partial<UnitPolicy> = {},
-  versions: readonly PolicyVersion[] = [],
-): InfantEvaluation {
+export function evaluateInfant(state: InfantState, now: Date, policyInput: Partial<UnitPolicy> = {}, versions: readonly PolicyVersion[] = []): InfantEvaluation {
   const nowMs = requireTime(now, 'now');
   const policy = resolvePolicy(policyInput);
   const intervalMinutesAt = intervalAtFn(policy, versions);
@@ -528,12 +493,8 @@ export function evaluateInfant(
   const book = new FlagBook();
 
   // Check schedule: the clock runs from admission until the first remote-site check.
-  const admittedMs =
-    state.admittedAt === null || state.admittedAt === undefined
-      ? null
-      : requireTime(state.admittedAt, 'admittedAt');
-  let scheduleFrom: ScheduleStart | null =
-    admittedMs !== null && admittedMs <= nowMs ? { ms: admittedMs, reading: null } : null;
+  const admittedMs = state.admittedAt === null || state.admittedAt === undefined ? null : requireTime(state.admittedAt, 'admittedAt');
+  let scheduleFrom: ScheduleStart | null = admittedMs !== null && admittedMs <= nowMs ? { ms: admittedMs, reading: null } : null;
   let lastRemote: CurrentReading | null = null;
 
   /** An overdue flag for the check due one interval after `start`, late as of `lateAtMs`. */
@@ -584,17 +545,11 @@ export function evaluateInfant(
       const highAt = manual.highOutputLimitAt;
       const cause = highAt !== null && highAt === from ? manual.highOutputSince : manual.checkClockFrom;
       const causeId = cause?.reading.id ?? null;
-      manualFlag.open = book.open(
-        'manual-mode',
-        `manual:${causeId === null ? 'unknown' : rootById.get(causeId) ?? causeId}`,
-        from,
-        causeId,
-        {
-          reasons: manual.reasonsAt(ms),
-          manualSince: manual.manualSince === null ? null : new Date(manual.manualSince.ms),
-          highOutputSince: manual.highOutputSince === null ? null : new Date(manual.highOutputSince.ms),
-        },
-      );
+      manualFlag.open = book.open('manual-mode', `manual:${causeId === null ? 'unknown' : (rootById.get(causeId) ?? causeId)}`, from, causeId, {
+        reasons: manual.reasonsAt(ms),
+        manualSince: manual.manualSince === null ? null : new Date(manual.manualSince.ms),
+        highOutputSince: manual.highOutputSince === null ? null : new Date(manual.highOutputSince.ms),
+      });
     } else if (manualFlag.open !== null) {
       const flag = manualFlag.open;
       const reasons = addUnique(flag.detail.reasons, manual.reasonsAt(ms), (a, b) => a === b);
@@ -744,12 +699,7 @@ export function evaluateInfant(
 
   const flags = book.drafts
     .map((draft) => finishFlag(draft, actions, policy))
-    .sort(
-      (a, b) =>
-        a.raisedAt.getTime() - b.raisedAt.getTime() ||
-        KIND_ORDER[a.kind] - KIND_ORDER[b.kind] ||
-        compareIds(a.key, b.key),
-    );
+    .sort((a, b) => a.raisedAt.getTime() - b.raisedAt.getTime() || KIND_ORDER[a.kind] - KIND_ORDER[b.kind] || compareIds(a.key, b.key));
 
   const remote = lastRemote as CurrentReading | null;
   return {
@@ -798,10 +748,8 @@ function finishFlag(draft: Draft, actions: Map<string, ActionTimes>, policy: Uni
     status: open ? 'open' : 'closed',
     closedAt: open ? null : new Date(draft.closedMs as number),
     closedByReadingId: draft.closedByReadingId,
-    recheckDueAt:
-      open && times !== undefined ? new Date(times.last + policy.recheckMinutes * MINUTE_MS) : null,
-    recheckCountsFrom:
-      open && times !== undefined ? new Date(times.first + policy.recheckSettleMinutes * MINUTE_MS) : null,
+    recheckDueAt: open && times !== undefined ? new Date(times.last + policy.recheckMinutes * MINUTE_MS) : null,
+    recheckCountsFrom: open && times !== undefined ? new Date(times.first + policy.recheckSettleMinutes * MINUTE_MS) : null,
     severity: severityOf(draft.kind, draft.detail),
     severitySince: new Date(draft.severityMs),
   } as EvaluatedFlag;
@@ -846,11 +794,7 @@ export interface FlagEscalation {
  * escalated to the nurse in charge. A flag with an action is being worked (its recheck is
  * tracked by recheckDueAt); a closed flag never escalates.
  */
-export function flagEscalation(
-  flag: EvaluatedFlag,
-  now: Date,
-  policyInput: Partial<UnitPolicy> = {},
-): FlagEscalation {
+export function flagEscalation(flag: EvaluatedFlag, now: Date, policyInput: Partial<UnitPolicy> = {}): FlagEscalation {
   const nowMs = requireTime(now, 'now');
   const policy = resolvePolicy(policyInput);
   if (flag.status !== 'open' || flag.recheckDueAt !== null) return { escalateAt: null, escalated: false };

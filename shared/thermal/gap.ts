@@ -48,11 +48,7 @@ function directionOf(sign: number): GapDirection {
  * and do not exceed; 1.0 °F apart always does. Throws ThermalInputError with field 'probe' or
  * 'remote' for a bad value or unit.
  */
-export function assessGap(
-  probe: TemperatureEntry,
-  remote: TemperatureEntry,
-  limitCenti: number = DEFAULT_GAP_LIMIT_CENTI,
-): GapAssessment {
+export function assessGap(probe: TemperatureEntry, remote: TemperatureEntry, limitCenti: number = DEFAULT_GAP_LIMIT_CENTI): GapAssessment {
   const limit = requireLimit(limitCenti);
   const probeC = exactCelsius(probe?.value, probe?.unit, 'probe');
   const remoteC = exactCelsius(remote?.value, remote?.unit, 'remote');
@@ -67,11 +63,7 @@ export function assessGap(
 }
 
 /** The same rule on stored values (integer hundredths of °C). */
-export function assessGapCenti(
-  probeCenti: number,
-  remoteCenti: number,
-  limitCenti: number = DEFAULT_GAP_LIMIT_CENTI,
-): GapAssessment {
+export function assessGapCenti(probeCenti: number, remoteCenti: number, limitCenti: number = DEFAULT_GAP_LIMIT_CENTI): GapAssessment {
   const limit = requireLimit(limitCenti);
   const diff = requireInteger(probeCenti, 'probeCenti') - requireInteger(remoteCenti, 'remoteCenti');
   const gapCenti = Math.abs(diff);

@@ -28,13 +28,12 @@ export const HEAT_STRESS_SIGNS: readonly HeatStressSignInfo[] = [
   { sign: 'fast-breathing', label: 'Fast breathing (over 60 a minute)' },
 ];
 
-export const HEAT_STRESS_SIGN_LABELS: Readonly<Record<HeatStressSign, string>> = Object.fromEntries(
-  HEAT_STRESS_SIGNS.map((info) => [info.sign, info.label]),
-) as Record<HeatStressSign, string>;
+export const HEAT_STRESS_SIGN_LABELS: Readonly<Record<HeatStressSign, string>> = Object.fromEntries(HEAT_STRESS_SIGNS.map((info) => [info.sign, info.label])) as Record<
+  HeatStressSign,
+  string
+>;
 
-const SIGN_ORDER: ReadonlyMap<HeatStressSign, number> = new Map(
-  HEAT_STRESS_SIGNS.map((info, index) => [info.sign, index]),
-);
+const SIGN_ORDER: ReadonlyMap<HeatStressSign, number> = new Map(HEAT_STRESS_SIGNS.map((info, index) => [info.sign, index]));
 
 export function isHeatStressSign(value: unknown): value is HeatStressSign {
   return typeof value === 'string' && SIGN_ORDER.has(value as HeatStressSign);
@@ -49,10 +48,7 @@ export const HEART_RATE_HIGH_ABOVE = 160;
  * - `{ kind: 'remote-above-normal' }` for a remote-site temperature above 37.50 °C;
  * - `{ kind: 'heart-rate-high' }` for a heart rate above 160/min.
  */
-export type HeatStressReason =
-  | { readonly kind: 'sign'; readonly sign: HeatStressSign }
-  | { readonly kind: 'remote-above-normal' }
-  | { readonly kind: 'heart-rate-high' };
+export type HeatStressReason = { readonly kind: 'sign'; readonly sign: HeatStressSign } | { readonly kind: 'remote-above-normal' } | { readonly kind: 'heart-rate-high' };
 
 export interface HeatStressInput {
   /** Remote-site temperature in hundredths of °C, if one was taken. */
@@ -91,12 +87,7 @@ export function heatStressPrompt(input: HeatStressInput): HeatStressPrompt {
     }
     seen.add(sign);
   }
-  const reasons: HeatStressReason[] =
-    seen.size === 0
-      ? []
-      : [...seen]
-          .sort((a, b) => (SIGN_ORDER.get(a) ?? 0) - (SIGN_ORDER.get(b) ?? 0))
-          .map((sign) => ({ kind: 'sign', sign }));
+  const reasons: HeatStressReason[] = seen.size === 0 ? [] : [...seen].sort((a, b) => (SIGN_ORDER.get(a) ?? 0) - (SIGN_ORDER.get(b) ?? 0)).map((sign) => ({ kind: 'sign', sign }));
   if (input.remoteCenti !== undefined && input.remoteCenti !== null) {
     if (requireInteger(input.remoteCenti, 'remoteCenti') > NORMAL_MAX_CENTI) {
       reasons.push({ kind: 'remote-above-normal' });

@@ -85,11 +85,7 @@ function describeRange(field: PlausibilityField, range: Range, unit: 'C' | 'F'):
  * 'ok', 'confirm' (possible but unusual: ask the nurse) or 'refuse' (impossible: an entry
  * error). Temperatures are hundredths of °C; `unit` only chooses the unit of the message.
  */
-export function checkPlausibility(
-  field: PlausibilityField,
-  value: number,
-  unit: 'C' | 'F' = 'C',
-): PlausibilityCheck {
+export function checkPlausibility(field: PlausibilityField, value: number, unit: 'C' | 'F' = 'C'): PlausibilityCheck {
   const label = FIELD_LABELS[field];
   if (label === undefined) {
     return { result: 'refuse', reason: `Unknown field: ${String(field)}` };
@@ -102,9 +98,7 @@ export function checkPlausibility(
   if ((isTemperature || field === 'heartRate') && !Number.isInteger(value)) {
     return {
       result: 'refuse',
-      reason: isTemperature
-        ? `${label} must be whole hundredths of a degree`
-        : `${label} must be a whole number`,
+      reason: isTemperature ? `${label} must be whole hundredths of a degree` : `${label} must be a whole number`,
     };
   }
   const shown = `${label} ${describe(field, value, unit)}`;

@@ -74,12 +74,8 @@ export function resolveManualPolicy(policy: ManualModePolicy = {}): ResolvedManu
   }
   return {
     highOutputPct,
-    highOutputMs:
-      requireMinutes(policy.highOutputMinutes ?? DEFAULT_HIGH_OUTPUT_MINUTES, 'highOutputMinutes', false) *
-      MINUTE_MS,
-    checkMs:
-      requireMinutes(policy.manualCheckMinutes ?? DEFAULT_MANUAL_CHECK_MINUTES, 'manualCheckMinutes', false) *
-      MINUTE_MS,
+    highOutputMs: requireMinutes(policy.highOutputMinutes ?? DEFAULT_HIGH_OUTPUT_MINUTES, 'highOutputMinutes', false) * MINUTE_MS,
+    checkMs: requireMinutes(policy.manualCheckMinutes ?? DEFAULT_MANUAL_CHECK_MINUTES, 'manualCheckMinutes', false) * MINUTE_MS,
   };
 }
 
@@ -191,11 +187,7 @@ function validateReading(reading: ManualModeReading, index: number): number {
  * Whether manual mode needs a warning at `now`, from the readings taken up to `now` (any order;
  * sorted here by takenAt, ties kept in the given order; readings after `now` are ignored).
  */
-export function manualModeWarning(
-  readings: readonly ManualModeReading[],
-  now: Date,
-  policy: ManualModePolicy = {},
-): ManualModeWarning {
+export function manualModeWarning(readings: readonly ManualModeReading[], now: Date, policy: ManualModePolicy = {}): ManualModeWarning {
   const nowMs = requireTime(now, 'now');
   const tracker = new ManualModeTracker(resolveManualPolicy(policy));
   const stamped = readings

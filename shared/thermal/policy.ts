@@ -79,9 +79,7 @@ export const DEFAULT_POLICY: Readonly<UnitPolicy> = Object.freeze({
  * Every clinical prompt carries this (or words to the same effect): the product does the
  * arithmetic and the clock-watching, the nurse decides.
  */
-export const CLINICAL_PROMPT_CAVEAT =
-  'This prompt supports your judgment. ' +
-  "It does not replace your unit's policy, the device's instructions or licensed practice.";
+export const CLINICAL_PROMPT_CAVEAT = 'This prompt supports your judgment. ' + "It does not replace your unit's policy, the device's instructions or licensed practice.";
 
 const TIME_OF_DAY = /^([01]\d|2[0-3]):([0-5]\d)$/;
 
@@ -125,9 +123,7 @@ export function isValidTimeZone(timeZone: unknown): boolean {
 
 /** The defaults overlaid with a unit's settings, checked. Undefined settings keep the default. */
 export function resolvePolicy(partial: Partial<UnitPolicy> = {}): UnitPolicy {
-  const overrides = Object.fromEntries(
-    Object.entries(partial ?? {}).filter(([key, value]) => value !== undefined && key in DEFAULT_POLICY),
-  ) as Partial<UnitPolicy>;
+  const overrides = Object.fromEntries(Object.entries(partial ?? {}).filter(([key, value]) => value !== undefined && key in DEFAULT_POLICY)) as Partial<UnitPolicy>;
   const policy: UnitPolicy = { ...DEFAULT_POLICY, ...overrides };
   checkMinutes(policy, 'checkIntervalMinutes', false);
   checkMinutes(policy, 'dueSoonMinutes', true);

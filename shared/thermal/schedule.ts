@@ -32,17 +32,8 @@ export interface CheckStatusResult {
 }
 
 export function requireMinutes(value: unknown, field: string, allowZero: boolean): number {
-  if (
-    typeof value !== 'number' ||
-    !Number.isFinite(value) ||
-    value < 0 ||
-    (!allowZero && value === 0)
-  ) {
-    throw new ThermalInputError(
-      field,
-      'invalid-policy',
-      `${field} must be a ${allowZero ? 'non-negative' : 'positive'} number of minutes`,
-    );
+  if (typeof value !== 'number' || !Number.isFinite(value) || value < 0 || (!allowZero && value === 0)) {
+    throw new ThermalInputError(field, 'invalid-policy', `${field} must be a ${allowZero ? 'non-negative' : 'positive'} number of minutes`);
   }
   return value;
 }
@@ -66,17 +57,9 @@ export function dueStatus(dueAt: Date | null, now: Date, dueSoonMinutes: number)
  * - 'due-soon' dueAt − dueSoon ≤ now ≤ dueAt (both ends included);
  * - 'overdue'  now > dueAt, with minutesLate = whole minutes past dueAt.
  */
-export function checkStatus(
-  lastRemoteCheckAt: Date | null,
-  now: Date,
-  policy: CheckSchedulePolicy = {},
-): CheckStatusResult {
+export function checkStatus(lastRemoteCheckAt: Date | null, now: Date, policy: CheckSchedulePolicy = {}): CheckStatusResult {
   const nowMs = requireTime(now, 'now');
-  const interval = requireMinutes(
-    policy.intervalMinutes ?? DEFAULT_CHECK_INTERVAL_MINUTES,
-    'intervalMinutes',
-    false,
-  );
+  const interval = requireMinutes(policy.intervalMinutes ?? DEFAULT_CHECK_INTERVAL_MINUTES, 'intervalMinutes', false);
   const dueSoon = requireMinutes(policy.dueSoonMinutes ?? DEFAULT_DUE_SOON_MINUTES, 'dueSoonMinutes', true);
   if (lastRemoteCheckAt === null || lastRemoteCheckAt === undefined) {
     return { status: 'never', dueAt: null, minutesLate: 0 };

@@ -21,15 +21,7 @@ export const SEVERITY_RANK: Readonly<Record<Severity, number>> = { critical: 3, 
 
 /** What a flag is, for severity and escalation: its kind, or its band for cold stress. */
 export type SeverityClass =
-  | 'severe-hypothermia'
-  | 'moderate-hypothermia'
-  | 'cold-stress'
-  | 'fever'
-  | 'heat-stress'
-  | 'manual-mode'
-  | 'skin-to-skin-deviation'
-  | 'gap'
-  | 'overdue-check';
+  'severe-hypothermia' | 'moderate-hypothermia' | 'cold-stress' | 'fever' | 'heat-stress' | 'manual-mode' | 'skin-to-skin-deviation' | 'gap' | 'overdue-check';
 
 export interface SeverityRule {
   readonly severity: Severity;
@@ -92,10 +84,7 @@ export function severityOf(kind: string, detail: unknown): Severity {
  * Minutes after reaching its severity that an open flag of this class escalates, or null for
  * never: the unit's own number for the class when it set one, else the table's default.
  */
-export function escalationDelayOf(
-  cls: SeverityClass,
-  policy: { escalationDelayMinutes: number; escalationDelays?: Partial<Record<SeverityClass, number | null>> },
-): number | null {
+export function escalationDelayOf(cls: SeverityClass, policy: { escalationDelayMinutes: number; escalationDelays?: Partial<Record<SeverityClass, number | null>> }): number | null {
   const own = policy.escalationDelays?.[cls];
   if (own !== undefined) return own;
   const fallback = SEVERITY_TABLE[cls].defaultDelay;

@@ -42,24 +42,20 @@ export interface SkinToSkinDeviation {
   readonly exceeds: boolean;
 }
 
-export function validateSession(session: SkinToSkinSession, field = 'session'): {
+export function validateSession(
+  session: SkinToSkinSession,
+  field = 'session',
+): {
   startMs: number;
   endMs: number | null;
 } {
   requireInteger(session?.referenceCenti, `${field}.referenceCenti`);
   const limit = requireInteger(session.limitCenti, `${field}.limitCenti`);
   if (limit <= 0) {
-    throw new ThermalInputError(
-      `${field}.limitCenti`,
-      'out-of-range',
-      'The deviation limit must be above zero',
-    );
+    throw new ThermalInputError(`${field}.limitCenti`, 'out-of-range', 'The deviation limit must be above zero');
   }
   const startMs = requireTime(session.startedAt, `${field}.startedAt`);
-  const endMs =
-    session.endedAt === null || session.endedAt === undefined
-      ? null
-      : requireTime(session.endedAt, `${field}.endedAt`);
+  const endMs = session.endedAt === null || session.endedAt === undefined ? null : requireTime(session.endedAt, `${field}.endedAt`);
   if (endMs !== null && endMs < startMs) {
     throw new ThermalInputError(`${field}.endedAt`, 'out-of-range', 'A session cannot end before it starts');
   }
@@ -77,10 +73,7 @@ export function skinToSkinTemperature(reading: SkinToSkinReading): number | null
   return null;
 }
 
-export function skinToSkinDeviation(
-  session: SkinToSkinSession,
-  reading: SkinToSkinReading,
-): SkinToSkinDeviation {
+export function skinToSkinDeviation(session: SkinToSkinSession, reading: SkinToSkinReading): SkinToSkinDeviation {
   const { startMs, endMs } = validateSession(session);
   const takenMs = requireTime(reading?.takenAt, 'takenAt');
   const inSession = takenMs >= startMs && (endMs === null || takenMs < endMs);

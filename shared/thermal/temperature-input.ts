@@ -4,14 +4,7 @@
  */
 
 import { ThermalInputError } from './errors';
-import {
-  compare,
-  decimalOf,
-  fahrenheitRationalToCelsius,
-  formatTenths,
-  tenthsOf,
-  type Rational,
-} from './exact';
+import { compare, decimalOf, fahrenheitRationalToCelsius, formatTenths, tenthsOf, type Rational } from './exact';
 import { HARD_LIMITS } from './limits';
 
 export type TempUnitCode = 'C' | 'F';
@@ -45,11 +38,7 @@ export function exactCelsius(value: unknown, unit: unknown, field: string): Rati
   const typed = decimalOf(value);
   const celsius = checkedUnit === 'C' ? typed : fahrenheitRationalToCelsius(typed);
   if (compare(celsius, MIN_CELSIUS) < 0 || compare(celsius, MAX_CELSIUS) > 0) {
-    throw new ThermalInputError(
-      field,
-      'out-of-range',
-      `${field} must be between ${rangeText(checkedUnit)}`,
-    );
+    throw new ThermalInputError(field, 'out-of-range', `${field} must be between ${rangeText(checkedUnit)}`);
   }
   return celsius;
 }

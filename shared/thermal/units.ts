@@ -8,16 +8,7 @@
  */
 
 import { ThermalInputError } from './errors';
-import {
-  celsiusRationalToFahrenheit,
-  decimalOf,
-  fahrenheitRationalToCelsius,
-  formatTenths,
-  roundHalfAway,
-  roundHalfAwayBig,
-  tenthsOf,
-  type Rational,
-} from './exact';
+import { celsiusRationalToFahrenheit, decimalOf, fahrenheitRationalToCelsius, formatTenths, roundHalfAway, roundHalfAwayBig, tenthsOf, type Rational } from './exact';
 import { exactCelsius, requireUnit } from './temperature-input';
 
 export type TempUnit = 'C' | 'F';
@@ -37,11 +28,7 @@ export function toCentiCelsius(value: number, unit: TempUnit, field = 'temperatu
 
 function requireCenti(centi: unknown, field: string): number {
   if (typeof centi !== 'number' || !Number.isSafeInteger(centi)) {
-    throw new ThermalInputError(
-      field,
-      'invalid-temperature',
-      `${field} must be whole hundredths of a degree Celsius`,
-    );
+    throw new ThermalInputError(field, 'invalid-temperature', `${field} must be whole hundredths of a degree Celsius`);
   }
   return centi;
 }

@@ -97,7 +97,7 @@ const TIME = /^(\d{4})-(\d{2})-(\d{2})[T ](\d{2}):(\d{2})(?::(\d{2})(?:\.(\d{1,3
  */
 export function parseRowTime(text: string, timeZone: string): { at: Date } | { error: string } {
   const m = TIME.exec(text.trim());
-  if (!m) return { error: 'use a date and time such as 2026-11-16T08:00 (the unit\'s time) or 2026-11-16T08:00:00Z' };
+  if (!m) return { error: "use a date and time such as 2026-11-16T08:00 (the unit's time) or 2026-11-16T08:00:00Z" };
   const [y, mo, d, h, mi, s] = m.slice(1, 7).map((v) => Number(v ?? '0')) as [number, number, number, number, number, number];
   const ms = Number((m[7] ?? '0').padEnd(3, '0'));
   const zone = m[8];

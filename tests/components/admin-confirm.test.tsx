@@ -22,7 +22,9 @@ describe('describeAccessChange', () => {
   });
 
   it('says nothing when nothing changes (unit order does not matter)', () => {
-    expect(describeAccessChange('Kofi Mensah', { role: 'nurse', unitIds: ['unit-north', 'unit-south'] }, { role: 'nurse', unitIds: ['unit-south', 'unit-north'] }, unitName)).toEqual([]);
+    expect(
+      describeAccessChange('Kofi Mensah', { role: 'nurse', unitIds: ['unit-north', 'unit-south'] }, { role: 'nurse', unitIds: ['unit-south', 'unit-north'] }, unitName),
+    ).toEqual([]);
   });
 });
 

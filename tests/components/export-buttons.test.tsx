@@ -56,8 +56,12 @@ describe('export buttons', () => {
     share.mockRestore();
   });
 
-  it('without a date range, one infant\'s FHIR is the whole record and the readings button waits for a range', () => {
-    expect(exportPaths({ unitId: 'unit-north', infantId: 'inf 1' })).toEqual({ readings: null, flags: '/exports/flags.csv?status=all&unitId=unit-north&infantId=inf+1', fhir: '/exports/infants/inf%201/fhir' });
+  it("without a date range, one infant's FHIR is the whole record and the readings button waits for a range", () => {
+    expect(exportPaths({ unitId: 'unit-north', infantId: 'inf 1' })).toEqual({
+      readings: null,
+      flags: '/exports/flags.csv?status=all&unitId=unit-north&infantId=inf+1',
+      fhir: '/exports/infants/inf%201/fhir',
+    });
     renderButtons({ unitId: 'unit-north', infantId: 'inf-1' });
     expect(screen.getByRole('button', { name: /Readings CSV/ })).toBeDisabled();
     expect(screen.getByRole('button', { name: /FHIR R4/ })).toBeEnabled();

@@ -21,7 +21,8 @@ after(async () => {
   await browser.close();
 });
 
-const focused = (page: Page) => page.evaluate(() => ({ label: document.activeElement?.getAttribute('aria-label') ?? '', inDialog: !!document.activeElement?.closest('[role="dialog"]') }));
+const focused = (page: Page) =>
+  page.evaluate(() => ({ label: document.activeElement?.getAttribute('aria-label') ?? '', inDialog: !!document.activeElement?.closest('[role="dialog"]') }));
 
 async function kofiActive(): Promise<boolean> {
   const token = await apiToken(ACCOUNTS.admin);
@@ -72,7 +73,10 @@ describe('admin confirmations', () => {
     await dialog.getByText('Role: Bedside nurse → Charge nurse.').waitFor();
     await dialog.getByRole('button', { name: 'Cancel' }).click();
     await dialog.waitFor({ state: 'detached' });
-    await row.getByText(/Bedside nurse/).first().waitFor();
+    await row
+      .getByText(/Bedside nurse/)
+      .first()
+      .waitFor();
     await page.context().close();
   });
 });

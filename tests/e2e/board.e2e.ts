@@ -86,7 +86,7 @@ describe('the charge nurse at the unit board (1440x900)', () => {
     await page.context().close();
   });
 
-  it("hands the whole unit over: the charge nurse chooses \"Whole unit\" and sees every admitted infant by bed", async () => {
+  it('hands the whole unit over: the charge nurse chooses "Whole unit" and sees every admitted infant by bed', async () => {
     const page = await newPage(browser, WIDE);
     await signIn(page, ACCOUNTS.charge);
     await page.waitForURL((url) => url.pathname === '/board');

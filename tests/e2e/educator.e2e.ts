@@ -28,7 +28,10 @@ async function api<T>(token: string, path: string, body?: object): Promise<T> {
 describe('the educator’s loop', () => {
   it('the nurse marks a teaching note read on her phone; the educator sees that she did, and when', async () => {
     const educator = await apiToken(ACCOUNTS.educator);
-    const queue = await api<{ items: { flagId: string; kind: string; nurse: { id: string; name: string } | null; withdrawn?: boolean }[] }>(educator, '/review/queue?kind=gap&status=all&limit=200');
+    const queue = await api<{ items: { flagId: string; kind: string; nurse: { id: string; name: string } | null; withdrawn?: boolean }[] }>(
+      educator,
+      '/review/queue?kind=gap&status=all&limit=200',
+    );
     const item = queue.items.find((i) => i.nurse?.name === 'Nia Okafor' && !i.withdrawn);
     assert.ok(item, 'a gap flag of the demo nurse');
     const note = `Good catch; move the probe to the flank when she is prone (${Date.now()}).`;
@@ -40,7 +43,10 @@ describe('the educator’s loop', () => {
     await phone.getByRole('heading', { name: 'Notes from your educator' }).waitFor({ timeout: 30_000 });
     await phone.getByText(note).waitFor();
     await phone.getByRole('button', { name: 'Mark as read' }).first().click();
-    await phone.getByText(/^You marked this read, /).first().waitFor();
+    await phone
+      .getByText(/^You marked this read, /)
+      .first()
+      .waitFor();
     await shot(phone, 'nurse-note-marked-read-phone');
     await phone.context().close();
 
@@ -73,8 +79,12 @@ describe('the educator’s loop', () => {
     // Reports on the phone: trends, the comparison, by nurse and the admission measure, the median said as such.
     await page.goto(`${BASE_URL}/reports`);
     await page.getByRole('heading', { name: 'Reports', level: 1 }).waitFor();
-    await page.getByText(/mean of the two middle values/).first().waitFor({ timeout: 30_000 });
-    for (const name of ['Trends', 'This range against the one before', 'By nurse', 'Temperature on admission, born before 32 weeks']) await page.getByRole('heading', { name }).waitFor({ timeout: 30_000 });
+    await page
+      .getByText(/mean of the two middle values/)
+      .first()
+      .waitFor({ timeout: 30_000 });
+    for (const name of ['Trends', 'This range against the one before', 'By nurse', 'Temperature on admission, born before 32 weeks'])
+      await page.getByRole('heading', { name }).waitFor({ timeout: 30_000 });
     await page.getByRole('table', { name: 'Flags and reviews by nurse' }).getByRole('cell', { name: 'Nia Okafor' }).waitFor();
     await shot(page, 'reports-more-phone');
     await page.context().close();
@@ -87,7 +97,10 @@ describe('the educator’s loop', () => {
     await page.getByRole('link', { name: 'Audit' }).first().click();
     await page.getByRole('heading', { name: 'Admission temperature', level: 1 }).waitFor();
     await page.getByRole('heading', { name: 'Temperature on admission, born before 32 weeks' }).waitFor();
-    await page.getByText(/ of \d+\)$/).first().waitFor({ timeout: 30_000 });
+    await page
+      .getByText(/ of \d+\)$/)
+      .first()
+      .waitFor({ timeout: 30_000 });
     await shot(page, 'charge-admission-measure-phone');
     await page.context().close();
   });

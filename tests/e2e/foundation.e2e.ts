@@ -33,7 +33,10 @@ describe('foundation', () => {
         await page.getByRole('heading', { name: home.heading, level: 1 }).first().waitFor();
         // The shell: bottom tabs on a phone, a side rail on a wide screen; both are navigation.
         await page.getByRole('navigation', { name: 'Main' }).waitFor();
-        const fontFamily = await page.getByRole('heading', { level: 1 }).first().evaluate((el) => getComputedStyle(el).fontFamily);
+        const fontFamily = await page
+          .getByRole('heading', { level: 1 })
+          .first()
+          .evaluate((el) => getComputedStyle(el).fontFamily);
         assert.match(fontFamily, /Inter/);
         const fontsReady = await page.evaluate(async () => {
           await document.fonts.ready;

@@ -19,13 +19,19 @@ describe('the printed unit handover', () => {
     const page = await newPage(browser, WIDE);
     await signIn(page, ACCOUNTS.charge);
     await page.goto(`${BASE_URL}/handover`);
-    await page.getByRole('radio', { name: /Whole unit|Unit/ }).first().click();
+    await page
+      .getByRole('radio', { name: /Whole unit|Unit/ })
+      .first()
+      .click();
     await page.getByRole('table', { name: /Unit summary/ }).waitFor();
     // A plan written on the handover screen is printed on the infant's page.
     const plan = page.getByRole('textbox', { name: 'Plan for the next shift' }).first();
     await plan.fill('Recheck the probe contact at 02:00; wean the set temperature if the remote site stays above 37.2.');
     await page.getByRole('button', { name: 'Save plan' }).first().click();
-    await page.getByText(/Written by Marta Lindqvist/).first().waitFor({ state: 'attached' });
+    await page
+      .getByText(/Written by Marta Lindqvist/)
+      .first()
+      .waitFor({ state: 'attached' });
 
     await page.emulateMedia({ media: 'print' });
     const pdf = await page.pdf({ format: 'A4', printBackground: false });
@@ -46,7 +52,10 @@ describe('the printed unit handover', () => {
       assert.match(p, /N\d\d · Baby /, `page ${i + 2} names the bed and the infant`);
       assert.match(p, /printed at \d{1,2}:\d\d.* by Marta Lindqvist/i, `page ${i + 2} says when and by whom it was printed`);
     }
-    assert.ok(pages.some((p) => /Recheck the probe contact at 02:00/.test(p)), 'the plan is printed');
+    assert.ok(
+      pages.some((p) => /Recheck the probe contact at 02:00/.test(p)),
+      'the plan is printed',
+    );
     await page.context().close();
   });
 });

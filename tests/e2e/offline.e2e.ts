@@ -47,10 +47,15 @@ describe('an installed app with no connection', () => {
     await page.getByRole('button', { name: 'Record', exact: true }).waitFor();
     const before = (await readingsOf(infantId)).length;
     // The flowsheet reads the record form's defaults ahead, so the form opens offline too.
-    await page.waitForFunction(async (id) => (await (await caches.open('warmfold-api')).keys()).some((r) => new URL(r.url).pathname === `/api/infants/${id}`), infantId, { timeout: 15_000 });
+    await page.waitForFunction(async (id) => (await (await caches.open('warmfold-api')).keys()).some((r) => new URL(r.url).pathname === `/api/infants/${id}`), infantId, {
+      timeout: 15_000,
+    });
     // The stored answers never include the session check (/api/auth is never kept).
     const kept = await page.evaluate(async () => (await (await caches.open('warmfold-api')).keys()).map((r) => new URL(r.url).pathname));
-    assert.ok(kept.some((p) => p.startsWith('/api/infants')), `API answers kept: ${kept.join(', ')}`);
+    assert.ok(
+      kept.some((p) => p.startsWith('/api/infants')),
+      `API answers kept: ${kept.join(', ')}`,
+    );
     assert.ok(!kept.some((p) => p.startsWith('/api/auth')), `no /api/auth answer kept: ${kept.join(', ')}`);
     await page.close();
 

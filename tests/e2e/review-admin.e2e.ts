@@ -70,7 +70,7 @@ describe('review queue and administration', () => {
     await page.context().close();
   });
 
-  it('the admin invites a user; the caught e-mail\'s link sets a password; the new user signs in', async () => {
+  it("the admin invites a user; the caught e-mail's link sets a password; the new user signs in", async () => {
     const email = `rowan.ashby.${Date.now()}@warmfold.test`;
     const page = await newPage(browser, WIDE);
     await signIn(page, ACCOUNTS.admin);
@@ -78,7 +78,10 @@ describe('review queue and administration', () => {
     await page.getByLabel('Full name').fill('Rowan Ashby');
     await page.getByLabel('Work e-mail').fill(email);
     await page.getByRole('button', { name: 'Send invitation' }).click();
-    await page.getByRole('status').filter({ hasText: `Invitation sent to ${email}` }).waitFor();
+    await page
+      .getByRole('status')
+      .filter({ hasText: `Invitation sent to ${email}` })
+      .waitFor();
     await shot(page, 'admin-invited');
     await page.context().close();
 

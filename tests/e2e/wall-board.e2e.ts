@@ -45,7 +45,10 @@ async function tileBoxes(page: Page, viewport: { width: number; height: number }
     boxes.push({ label: (await tiles.nth(i).getAttribute('data-testid'))!.slice(4), ...box });
   }
   for (const b of boxes) {
-    assert.ok(b.y >= 0 && b.y + b.height <= viewport.height + 0.5, `bed ${b.label} is inside the screen's height (${Math.round(b.y)}–${Math.round(b.y + b.height)} of ${viewport.height})`);
+    assert.ok(
+      b.y >= 0 && b.y + b.height <= viewport.height + 0.5,
+      `bed ${b.label} is inside the screen's height (${Math.round(b.y)}–${Math.round(b.y + b.height)} of ${viewport.height})`,
+    );
     assert.ok(b.x >= 0 && b.x + b.width <= viewport.width + 0.5, `bed ${b.label} is inside the screen's width`);
   }
   return boxes;
@@ -65,9 +68,16 @@ for (const viewport of [
       assert.equal(boxes.length, 14);
       // Reading order (rows top to bottom, left to right) is the server's order of urgency.
       const reading = [...boxes].sort((a, b) => (Math.abs(a.y - b.y) < 4 ? a.x - b.x : a.y - b.y)).map((b) => b.label);
-      assert.deepEqual(reading, api.map((b) => b.label));
+      assert.deepEqual(
+        reading,
+        api.map((b) => b.label),
+      );
       const tiers = api.map((b) => b.tier);
-      assert.deepEqual(tiers, [...tiers].sort((a, b) => a - b), 'tiers never go back up');
+      assert.deepEqual(
+        tiers,
+        [...tiers].sort((a, b) => a - b),
+        'tiers never go back up',
+      );
       // Filters fold away behind one control.
       assert.equal(await page.getByRole('radio', { name: 'Needs attention' }).count(), 0);
       await page.getByRole('button', { name: /^Filters/ }).waitFor();
@@ -80,7 +90,10 @@ for (const viewport of [
       for (const text of await page.getByTestId('bed-countdown').allInnerTexts()) {
         assert.doesNotMatch(text, /\d:\d\d/, `countdown "${text}"`);
       }
-      const overdue = await page.getByTestId('bed-countdown').filter({ hasText: /Overdue/ }).allInnerTexts();
+      const overdue = await page
+        .getByTestId('bed-countdown')
+        .filter({ hasText: /Overdue/ })
+        .allInnerTexts();
       assert.ok(overdue.length > 0 && overdue.every((t) => /^Overdue by \d+ (min|h)/.test(t)), `overdue countdowns: ${overdue.join(' | ')}`);
       if (viewport.width === 1920) {
         const size = (testId: string) => page.getByTestId(testId).evaluateAll((els) => els.map((e) => parseFloat(getComputedStyle(e).fontSize)));
@@ -127,7 +140,10 @@ describe('admitting and warming from the board', () => {
     await dialog.getByRole('button', { name: 'Warm N13 for an admission' }).click();
     await dialog.getByRole('radio', { name: 'Radiant warmer' }).first().click();
     await dialog.getByRole('radio', { name: 'Skin servo' }).first().click();
-    await dialog.getByLabel(/^Set temperature/).first().fill('36.5');
+    await dialog
+      .getByLabel(/^Set temperature/)
+      .first()
+      .fill('36.5');
     await dialog.getByLabel(/^Expected infant/).fill('Twin 2 from delivery suite');
     await dialog.getByRole('button', { name: 'Warm N13' }).click();
     const tile = page.getByTestId('bed-N13');

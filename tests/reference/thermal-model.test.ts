@@ -3,17 +3,7 @@
  * it), so that the property and scenario tests compare the product with something that was
  * itself checked.
  */
-import {
-  bandOf,
-  centiFrom,
-  clockStatus,
-  evaluateModel,
-  fahrenheitFromCenti,
-  lateChecks,
-  MODEL_DEFAULTS,
-  type ModelHistory,
-  type ModelReading,
-} from './thermal-model';
+import { bandOf, centiFrom, clockStatus, evaluateModel, fahrenheitFromCenti, lateChecks, MODEL_DEFAULTS, type ModelHistory, type ModelReading } from './thermal-model';
 
 const T0 = Date.parse('2026-11-16T08:00:00Z');
 const MIN = 60_000;
@@ -174,7 +164,13 @@ describe('check clocks', () => {
 
   it('a recheck is due 30 min after the last action on an open flag (common practice)', () => {
     const first = rd(0, { probe: 3700, remote: 3620 });
-    const h = history({ readings: [first], actions: [{ flagKey: `gap:${first.id}`, at: m(5) }, { flagKey: `gap:${first.id}`, at: m(12) }] });
+    const h = history({
+      readings: [first],
+      actions: [
+        { flagKey: `gap:${first.id}`, at: m(5) },
+        { flagKey: `gap:${first.id}`, at: m(12) },
+      ],
+    });
     expect(evaluateModel(h, m(20)).clocks).toMatchObject({ recheckDueAt: m(42), nextDueAt: m(42) });
   });
 

@@ -28,7 +28,13 @@ describe('My infants by urgency', () => {
       infant('N01', { dueIn: 200 }),
       infant('N02', { flags: [{ kind: 'cold-stress', severity: 'caution' }], dueIn: 200 }),
       infant('N03', { flags: [{ kind: 'gap', severity: 'urgent' }], dueIn: 200 }),
-      infant('N04', { flags: [{ kind: 'gap', severity: 'urgent' }, { kind: 'fever', severity: 'critical' }], dueIn: 200 }),
+      infant('N04', {
+        flags: [
+          { kind: 'gap', severity: 'urgent' },
+          { kind: 'fever', severity: 'critical' },
+        ],
+        dueIn: 200,
+      }),
     ];
     expect(beds(byUrgency(list))).toEqual(['N04', 'N03', 'N02', 'N01']);
   });
@@ -51,7 +57,10 @@ describe('My infants by urgency', () => {
   });
 
   it('reads the stored severity, not the kind: a cold-stress flag stored as critical comes first', () => {
-    const list = [infant('N01', { flags: [{ kind: 'gap', severity: 'urgent' }] }), infant('N02', { flags: [{ kind: 'cold-stress', severity: 'critical', detail: { band: 'severe-hypothermia' } }] })];
+    const list = [
+      infant('N01', { flags: [{ kind: 'gap', severity: 'urgent' }] }),
+      infant('N02', { flags: [{ kind: 'cold-stress', severity: 'critical', detail: { band: 'severe-hypothermia' } }] }),
+    ];
     expect(beds(byUrgency(list))).toEqual(['N02', 'N01']);
   });
 });

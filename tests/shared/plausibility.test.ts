@@ -27,7 +27,7 @@ describe('usual ranges', () => {
     expect(unusualReason('set', 3200, { controlMode: 'skin-servo' })).toBe('Set temperature 32.0 °C is outside the usual 34.0–38.0 °C for skin servo: confirm it is correct');
   });
 
-  it('says the reason in the nurse\'s unit: 31.2 °C is 88.2 °F (NIST SP 811: °F = 9/5 °C + 32)', () => {
+  it("says the reason in the nurse's unit: 31.2 °C is 88.2 °F (NIST SP 811: °F = 9/5 °C + 32)", () => {
     expect(unusualReason('remote', 3120, { unit: 'F' })).toBe('Remote-site temperature 88.2 °F is outside the usual 93.2–103.1 °F: confirm it is correct');
     expect(unusualValues({ remoteCenti: 3120, heartRate: 245, probeCenti: 3660 }).map((u) => u.field)).toEqual(['remote', 'heartRate']);
     expect(unusualValues({ remoteCenti: 3650, heartRate: 150 })).toEqual([]);
@@ -41,7 +41,7 @@ describe('reading a CSV file', () => {
     expect(detectDelimiter('"a;b;c",time,probe')).toBe(',');
   });
 
-  it('keeps each row on its line: an unclosed quote is that line\'s error only', () => {
+  it("keeps each row on its line: an unclosed quote is that line's error only", () => {
     const parsed = parseCsvLines('a,b\r\n"1,2\r\n3,4\r\n\r\n5');
     expect(parsed.rows.map((r) => [r.line, r.values.a, r.error ?? ''])).toEqual([
       [2, expect.any(String), expect.stringMatching(/not closed/)],
@@ -50,7 +50,7 @@ describe('reading a CSV file', () => {
     ]);
   });
 
-  it('reads times: an offset is an instant, a wall-clock time is the unit\'s, skipped and repeated times are refused', () => {
+  it("reads times: an offset is an instant, a wall-clock time is the unit's, skipped and repeated times are refused", () => {
     expect(parseRowTime('2026-11-16T08:00:00Z', 'Europe/London')).toEqual({ at: new Date('2026-11-16T08:00:00Z') });
     expect(parseRowTime('2026-11-16T09:00+01:00', 'Europe/London')).toEqual({ at: new Date('2026-11-16T08:00:00Z') });
     // NZDT is UTC+13 in December: 08:30 local on 4 Dec is 19:30 UTC on 3 Dec.

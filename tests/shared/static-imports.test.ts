@@ -38,7 +38,9 @@ export function staticImports(file: string): string[] {
 }
 
 function routeFiles(dir: string): string[] {
-  return fs.readdirSync(dir, { withFileTypes: true }).flatMap((d) => (d.isDirectory() ? routeFiles(path.join(dir, d.name)) : /\.tsx?$/.test(d.name) ? [path.join(dir, d.name)] : []));
+  return fs
+    .readdirSync(dir, { withFileTypes: true })
+    .flatMap((d) => (d.isDirectory() ? routeFiles(path.join(dir, d.name)) : /\.tsx?$/.test(d.name) ? [path.join(dir, d.name)] : []));
 }
 
 /** Every package and app file reached from the routes without an `import()`, with one chain that reaches it. */
@@ -98,7 +100,10 @@ describe('the screens’ static imports', () => {
 
   it('sees through a type-only import but not a value import', () => {
     const tmp = path.join(root, 'tests', 'shared', '.static-imports-fixture.ts');
-    fs.writeFileSync(tmp, "import type { A } from 'zod';\nimport { type B, c } from 'left';\nimport { type D } from 'right';\nexport { e } from 'both';\nconst f = () => import('lazy');\n");
+    fs.writeFileSync(
+      tmp,
+      "import type { A } from 'zod';\nimport { type B, c } from 'left';\nimport { type D } from 'right';\nexport { e } from 'both';\nconst f = () => import('lazy');\n",
+    );
     try {
       expect(staticImports(tmp)).toEqual(['left', 'both']);
     } finally {

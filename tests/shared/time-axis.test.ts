@@ -5,7 +5,7 @@
 import { timeAxis } from '@/components/bedside/time-axis';
 
 describe('timeAxis', () => {
-  it('finds the unit\'s midnight inside a 24-hour window and names the day on the ticks after it', () => {
+  it("finds the unit's midnight inside a 24-hour window and names the day on the ticks after it", () => {
     const to = new Date('2026-11-16T10:00:00Z');
     const from = new Date('2026-11-15T10:00:00Z');
     const axis = timeAxis(from, to, 'Europe/London', '24h');
@@ -15,7 +15,7 @@ describe('timeAxis', () => {
     expect(ticks.map((t, i) => axis.label(t, i, ticks))).toEqual(['12:00\nYesterday', '18:00', '00:00\nToday', '06:00']);
   });
 
-  it('puts the midnight where the unit\'s zone has it (05:00 UTC for New York), with dates further back', () => {
+  it("puts the midnight where the unit's zone has it (05:00 UTC for New York), with dates further back", () => {
     const to = new Date('2026-11-16T15:00:00Z');
     const from = new Date(to.getTime() - 72 * 3_600_000);
     const axis = timeAxis(from, to, 'America/New_York', '12h');

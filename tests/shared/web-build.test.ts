@@ -26,7 +26,9 @@ describe('metro.config.js', () => {
 
   it('inlines requires in the web build only, keeping Expo’s other transform options', async () => {
     const { transformer } = require('../../metro.config.js') as {
-      transformer: { getTransformOptions: (entries: string[], options: { platform: string | null }, deps: () => Promise<string[]>) => Promise<{ transform?: Record<string, unknown> }> };
+      transformer: {
+        getTransformOptions: (entries: string[], options: { platform: string | null }, deps: () => Promise<string[]>) => Promise<{ transform?: Record<string, unknown> }>;
+      };
     };
     const noDeps = async () => [];
     const web = await transformer.getTransformOptions(['index.js'], { platform: 'web' }, noDeps);
@@ -53,10 +55,13 @@ describe('metro.config.js', () => {
 
   it('the slim module exports every name the screens import from expo-router', () => {
     const slimExports = new Set(
-      [...fs.readFileSync(path.join(root, 'components', 'web', 'expo-router-slim.ts'), 'utf8').matchAll(/export \{([^}]+)\}/g)].flatMap((m) => m[1]!.split(',').map((n) => n.trim())),
+      [...fs.readFileSync(path.join(root, 'components', 'web', 'expo-router-slim.ts'), 'utf8').matchAll(/export \{([^}]+)\}/g)].flatMap((m) =>
+        m[1]!.split(',').map((n) => n.trim()),
+      ),
     );
     const used = new Set<string>();
-    const walk = (dir: string): string[] => fs.readdirSync(dir, { withFileTypes: true }).flatMap((d) => (d.isDirectory() ? walk(path.join(dir, d.name)) : /\.tsx?$/.test(d.name) ? [path.join(dir, d.name)] : []));
+    const walk = (dir: string): string[] =>
+      fs.readdirSync(dir, { withFileTypes: true }).flatMap((d) => (d.isDirectory() ? walk(path.join(dir, d.name)) : /\.tsx?$/.test(d.name) ? [path.join(dir, d.name)] : []));
     for (const file of [...walk(path.join(root, 'app')), ...walk(path.join(root, 'components'))]) {
       const source = ts.createSourceFile(file, fs.readFileSync(file, 'utf8'), ts.ScriptTarget.Latest);
       for (const node of source.statements) {
@@ -140,7 +145,11 @@ describe('metro.config.js', () => {
 
     it('goes to the app and Expo in the browser build; the charts and the server render get the whole library', () => {
       const ask = (origin: string, environment?: string) =>
-        config.resolver.resolveRequest({ ...contextAnswering(rnwIndex), originModulePath: origin, customResolverOptions: environment ? { environment } : {} }, 'react-native-web/dist/index', 'web').filePath;
+        config.resolver.resolveRequest(
+          { ...contextAnswering(rnwIndex), originModulePath: origin, customResolverOptions: environment ? { environment } : {} },
+          'react-native-web/dist/index',
+          'web',
+        ).filePath;
       expect(ask(path.join(root, 'components', 'ui', 'button.tsx'))).toBe(slimFile);
       expect(ask(path.join(root, 'node_modules', 'expo-router', 'build', 'ExpoRoot.js'))).toBe(slimFile);
       expect(ask(path.join(root, 'node_modules', 'victory-native', 'lib', 'index.js'))).toBe(rnwIndex);
@@ -148,7 +157,8 @@ describe('metro.config.js', () => {
     });
 
     it('no screen imports a left-out name from react-native', () => {
-      const walk = (dir: string): string[] => fs.readdirSync(dir, { withFileTypes: true }).flatMap((d) => (d.isDirectory() ? walk(path.join(dir, d.name)) : /\.tsx?$/.test(d.name) ? [path.join(dir, d.name)] : []));
+      const walk = (dir: string): string[] =>
+        fs.readdirSync(dir, { withFileTypes: true }).flatMap((d) => (d.isDirectory() ? walk(path.join(dir, d.name)) : /\.tsx?$/.test(d.name) ? [path.join(dir, d.name)] : []));
       const offenders: string[] = [];
       for (const file of [...walk(path.join(root, 'app')), ...walk(path.join(root, 'components'))]) {
         // Native-only files: a .native file, or one with a .web twin that the web build takes instead.
@@ -157,7 +167,9 @@ describe('metro.config.js', () => {
         for (const node of source.statements) {
           if (!ts.isImportDeclaration(node) || (node.moduleSpecifier as ts.StringLiteral).text !== 'react-native') continue;
           const bindings = node.importClause?.namedBindings;
-          if (bindings && ts.isNamedImports(bindings)) for (const e of bindings.elements) if (!e.isTypeOnly && leftOut.includes((e.propertyName ?? e.name).text)) offenders.push(`${path.relative(root, file)}: ${e.name.text}`);
+          if (bindings && ts.isNamedImports(bindings))
+            for (const e of bindings.elements)
+              if (!e.isTypeOnly && leftOut.includes((e.propertyName ?? e.name).text)) offenders.push(`${path.relative(root, file)}: ${e.name.text}`);
         }
       }
       expect(offenders).toEqual([]);

@@ -59,7 +59,9 @@ describe('web fonts', () => {
     const written = charactersWritten();
     expect(written.size).toBeGreaterThan(80);
     // Layout characters (new lines, tabs) are never drawn.
-    const missing = [...written].filter(([ch]) => !/[\n\r\t]/.test(ch) && !covered(ch.codePointAt(0)!)).map(([ch, file]) => `U+${ch.codePointAt(0)!.toString(16).toUpperCase().padStart(4, '0')} ${ch} (${file})`);
+    const missing = [...written]
+      .filter(([ch]) => !/[\n\r\t]/.test(ch) && !covered(ch.codePointAt(0)!))
+      .map(([ch, file]) => `U+${ch.codePointAt(0)!.toString(16).toUpperCase().padStart(4, '0')} ${ch} (${file})`);
     expect(missing).toEqual([]);
   });
 

@@ -18,9 +18,7 @@ describe('remote-site temperature bands (WHO 1997 via Miller 2011; NHS GG&C)', (
 
   it('the band table covers every hundredth once, coldest first', () => {
     for (let centi = 2000; centi <= 4500; centi += 1) {
-      const matching = TEMPERATURE_BANDS.filter(
-        (info) => (info.minCenti === null || centi >= info.minCenti) && (info.maxCenti === null || centi <= info.maxCenti),
-      );
+      const matching = TEMPERATURE_BANDS.filter((info) => (info.minCenti === null || centi >= info.minCenti) && (info.maxCenti === null || centi <= info.maxCenti));
       expect(matching.map((info) => info.band)).toEqual([temperatureBand(centi)]);
     }
   });

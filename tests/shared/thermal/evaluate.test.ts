@@ -34,8 +34,7 @@ function evaluate(state: Partial<InfantState>, nowMinutes: number) {
   return evaluateInfant({ readings: [], actions: [], sessions: [], ...state }, at(nowMinutes), DEFAULT_POLICY);
 }
 
-const ofKind = <K extends FlagKind>(flags: EvaluatedFlag[], kind: K) =>
-  flags.filter((flag): flag is Extract<EvaluatedFlag, { kind: K }> => flag.kind === kind);
+const ofKind = <K extends FlagKind>(flags: EvaluatedFlag[], kind: K) => flags.filter((flag): flag is Extract<EvaluatedFlag, { kind: K }> => flag.kind === kind);
 
 describe('gap flag: raised over 0.5 °C, closed by a recheck after an action (common practice)', () => {
   const raising = check('r1', 0, 3720, 3660); // 0.6 °C, remote in the normal band
@@ -103,9 +102,7 @@ describe('gap flag: raised over 0.5 °C, closed by a recheck after an action (co
   it('a recheck before the settle time after the action does not count (common practice: recheck 15–30 min after a change)', () => {
     const readings = [raising, check('r2', 21, 3680, 3660), check('r3', 34, 3680, 3660), check('r4', 35, 3670, 3660)];
     const early = evaluate({ readings: readings.slice(0, 3), actions: [action('a1', 'gap:r1', 20)] }, 34);
-    expect(ofKind(early.flags, 'gap')).toEqual([
-      expect.objectContaining({ status: 'open', recheckCountsFrom: at(35), recheckDueAt: at(50) }),
-    ]);
+    expect(ofKind(early.flags, 'gap')).toEqual([expect.objectContaining({ status: 'open', recheckCountsFrom: at(35), recheckDueAt: at(50) })]);
     const settled = evaluate({ readings, actions: [action('a1', 'gap:r1', 20)] }, 40);
     expect(ofKind(settled.flags, 'gap')).toEqual([expect.objectContaining({ status: 'closed', closedByReadingId: 'r4' })]);
   });
@@ -113,16 +110,11 @@ describe('gap flag: raised over 0.5 °C, closed by a recheck after an action (co
   it('a recheck still over the limit keeps it open, one flag only, with the worst gap', () => {
     const readings = [raising, check('r2', 30, 3740, 3660)];
     const { flags } = evaluate({ readings, actions: [action('a1', 'gap:r1', 5)] }, 40);
-    expect(ofKind(flags, 'gap')).toEqual([
-      expect.objectContaining({ key: 'gap:r1', status: 'open', detail: expect.objectContaining({ gapCenti: 60, worstGapCenti: 80 }) }),
-    ]);
+    expect(ofKind(flags, 'gap')).toEqual([expect.objectContaining({ key: 'gap:r1', status: 'open', detail: expect.objectContaining({ gapCenti: 60, worstGapCenti: 80 }) })]);
   });
 
   it('an action on another flag does not close it', () => {
-    const { openFlags } = evaluate(
-      { readings: [raising, check('r2', 30, 3680, 3660)], actions: [action('a1', 'gap:other', 5)] },
-      40,
-    );
+    const { openFlags } = evaluate({ readings: [raising, check('r2', 30, 3680, 3660)], actions: [action('a1', 'gap:other', 5)] }, 40);
     expect(openFlags.map((flag) => flag.key)).toEqual(['gap:r1']);
   });
 
@@ -164,18 +156,12 @@ describe('corrections: a new row replaces an old one (common practice)', () => {
     const correction = check('c1', 0, 3730, 3660, { replacesId: 'r1', recordedAt: at(3) });
     const readings = [raising, correction, check('r2', 30, 3680, 3660)];
     const { flags } = evaluate({ readings, actions: [action('a1', 'gap:r1', 5)] }, 40);
-    expect(ofKind(flags, 'gap')).toEqual([
-      expect.objectContaining({ key: 'gap:r1', raisedByReadingId: 'c1', status: 'closed', closedByReadingId: 'r2' }),
-    ]);
+    expect(ofKind(flags, 'gap')).toEqual([expect.objectContaining({ key: 'gap:r1', raisedByReadingId: 'c1', status: 'closed', closedByReadingId: 'r2' })]);
     expect(ofKind(flags, 'gap')[0].detail).toMatchObject({ gapCenti: 70 });
   });
 
   it('follows a chain of corrections to the latest version', () => {
-    const rows = [
-      raising,
-      check('c1', 0, 3700, 3670, { replacesId: 'r1', recordedAt: at(3) }),
-      check('c2', 0, 3700, 3600, { replacesId: 'c1', recordedAt: at(4) }),
-    ];
+    const rows = [raising, check('c1', 0, 3700, 3670, { replacesId: 'r1', recordedAt: at(3) }), check('c2', 0, 3700, 3600, { replacesId: 'c1', recordedAt: at(4) })];
     expect(currentReadings(rows).map((row) => row.id)).toEqual(['c2']);
     expect(evaluate({ readings: rows }, 5).openFlags.map((flag) => flag.key)).toEqual(['gap:r1', 'cold:r1']);
   });
@@ -241,13 +227,9 @@ describe('overdue check: due 2 hours after the last remote-site check (common pr
   it('counts from admission until the first check', () => {
     expect(evaluate({ admittedAt: at(0) }, 100).nextCheck).toEqual({ status: 'ok', dueAt: at(120), minutesLate: 0 });
     const late = evaluate({ admittedAt: at(0) }, 121);
-    expect(late.openFlags).toEqual([
-      expect.objectContaining({ key: 'overdue:admission', raisedAt: at(120), raisedByReadingId: null }),
-    ]);
+    expect(late.openFlags).toEqual([expect.objectContaining({ key: 'overdue:admission', raisedAt: at(120), raisedByReadingId: null })]);
     const checkedLate = evaluate({ admittedAt: at(0), readings: [check('r1', 130, 3680, 3670)] }, 140);
-    expect(checkedLate.flags).toEqual([
-      expect.objectContaining({ key: 'overdue:admission', status: 'closed', closedAt: at(130), closedByReadingId: 'r1' }),
-    ]);
+    expect(checkedLate.flags).toEqual([expect.objectContaining({ key: 'overdue:admission', status: 'closed', closedAt: at(130), closedByReadingId: 'r1' })]);
   });
 
   it('with neither a check nor an admission time: never, no flag', () => {
@@ -283,21 +265,14 @@ describe('heat stress (NHS GG&C signs; WHO 1997 via Miller 2011 band; Duquesne h
 
   it('a heart rate over 160 opens it', () => {
     const { openFlags } = evaluate({ readings: [reading('h1', 0, { heartRate: 161 })] }, 5);
-    expect(openFlags).toEqual([
-      expect.objectContaining({ key: 'heat-stress:h1', detail: { reasons: [{ kind: 'heart-rate-high' }] } }),
-    ]);
+    expect(openFlags).toEqual([expect.objectContaining({ key: 'heat-stress:h1', detail: { reasons: [{ kind: 'heart-rate-high' }] } })]);
     expect(evaluate({ readings: [reading('h1', 0, { heartRate: 160 })] }, 5).flags).toEqual([]);
   });
 });
 
 describe('cold stress (WHO 1997 via Miller 2011)', () => {
   it('opens below 36.5, keeps the worst band, closes in the normal band', () => {
-    const readings = [
-      check('r1', 0, 3650, 3640),
-      check('r2', 30, 3620, 3590),
-      check('r3', 60, 3650, 3620),
-      check('r4', 90, 3660, 3650),
-    ];
+    const readings = [check('r1', 0, 3650, 3640), check('r2', 30, 3620, 3590), check('r3', 60, 3650, 3620), check('r4', 90, 3660, 3650)];
     const { flags } = evaluate({ readings }, 100);
     expect(ofKind(flags, 'cold-stress')).toEqual([
       expect.objectContaining({
@@ -347,23 +322,15 @@ describe('manual mode (ECRI: check every 15 min; high output 80 % / 15 min from 
   });
 
   it('closes at the reading that leaves manual', () => {
-    const readings = [
-      manual('m1', 0, 90, 3700),
-      manual('m2', 10, 90, 3710),
-      check('s1', 20, 3700, 3700, { heaterOutputPct: 40 }),
-    ];
+    const readings = [manual('m1', 0, 90, 3700), manual('m2', 10, 90, 3710), check('s1', 20, 3700, 3700, { heaterOutputPct: 40 })];
     const { flags } = evaluate({ readings }, 30);
-    expect(ofKind(flags, 'manual-mode')).toEqual([
-      expect.objectContaining({ raisedAt: at(15), status: 'closed', closedAt: at(20), closedByReadingId: 's1' }),
-    ]);
+    expect(ofKind(flags, 'manual-mode')).toEqual([expect.objectContaining({ raisedAt: at(15), status: 'closed', closedAt: at(20), closedByReadingId: 's1' })]);
   });
 
   it('closes when output drops below the threshold; a missed check then opens its own flag', () => {
     const readings = [manual('m1', 0, 90, 3700), manual('m2', 10, 90, 3700), manual('m3', 16, 50, null)];
     const { flags } = evaluate({ readings }, 40);
-    expect(
-      ofKind(flags, 'manual-mode').map((flag) => [flag.key, flag.status, flag.raisedAt, flag.closedAt, flag.detail.reasons]),
-    ).toEqual([
+    expect(ofKind(flags, 'manual-mode').map((flag) => [flag.key, flag.status, flag.raisedAt, flag.closedAt, flag.detail.reasons])).toEqual([
       ['manual:m1', 'closed', at(15), at(16), ['high-output-too-long']],
       // The last remote-site check was m2 at 10 minutes: the check was due by 25.
       ['manual:m2', 'open', at(25), null, ['no-check-in-manual']],
@@ -412,17 +379,13 @@ describe('skin-to-skin deviation (common practice)', () => {
   it('a 1.0 °C limit allows 1.0 exactly, flags beyond', () => {
     const wide = { ...session, limitCenti: 100 };
     expect(ofKind(evaluate({ readings: [check('r1', 10, 3550, 3550)], sessions: [wide] }, 20).flags, 'skin-to-skin-deviation')).toEqual([]);
-    expect(
-      ofKind(evaluate({ readings: [check('r1', 10, 3549, 3549)], sessions: [wide] }, 20).openFlags, 'skin-to-skin-deviation'),
-    ).toHaveLength(1);
+    expect(ofKind(evaluate({ readings: [check('r1', 10, 3549, 3549)], sessions: [wide] }, 20).openFlags, 'skin-to-skin-deviation')).toHaveLength(1);
   });
 
   it('an ongoing session keeps its flag open', () => {
     const ongoing = { ...session, endedAt: null };
     const { openFlags } = evaluate({ readings: [reading('p1', 10, { probeCenti: 3580 })], sessions: [ongoing] }, 300);
-    expect(ofKind(openFlags, 'skin-to-skin-deviation')).toEqual([
-      expect.objectContaining({ key: 's2s:s1:p1', detail: expect.objectContaining({ deviationCenti: -70 }) }),
-    ]);
+    expect(ofKind(openFlags, 'skin-to-skin-deviation')).toEqual([expect.objectContaining({ key: 's2s:s1:p1', detail: expect.objectContaining({ deviationCenti: -70 }) })]);
   });
 });
 
@@ -452,9 +415,7 @@ describe('evaluation as a whole (common practice)', () => {
     const readings = [check('r1', 0, 3720, 3660), check('r2', 30, 3680, 3660)];
     const actions = [action('a1', 'gap:r1', 5)];
     expect(evaluate({ readings, actions }, 20).openFlags.map((flag) => flag.key)).toEqual(['gap:r1']);
-    expect(evaluate({ readings, actions: [action('a1', 'gap:r1', 50)] }, 40).openFlags.map((flag) => flag.key)).toEqual([
-      'gap:r1',
-    ]);
+    expect(evaluate({ readings, actions: [action('a1', 'gap:r1', 50)] }, 40).openFlags.map((flag) => flag.key)).toEqual(['gap:r1']);
   });
 
   it('is deterministic whatever the input order', () => {
@@ -474,9 +435,7 @@ describe('evaluation as a whole (common practice)', () => {
   });
 
   it('refuses an invalid reading, naming it', () => {
-    expect(() => evaluate({ readings: [reading('r1', 0, { remoteCenti: 36.5 })] }, 5)).toThrow(
-      expect.objectContaining({ field: 'readings[0].remoteCenti' }),
-    );
+    expect(() => evaluate({ readings: [reading('r1', 0, { remoteCenti: 36.5 })] }, 5)).toThrow(expect.objectContaining({ field: 'readings[0].remoteCenti' }));
   });
 });
 
@@ -549,12 +508,8 @@ describe('evaluation invariants (fast-check; common practice)', () => {
       }),
     );
     // Actions on whatever gap flags the readings might raise.
-    const actions = chart.actionMinutes.map((minute, i) =>
-      action(`a${i}`, `gap:r${i % Math.max(1, readings.length)}`, minute),
-    );
-    const sessions: SessionInput[] = [
-      { id: 's1', startedAt: at(100), endedAt: at(200), referenceCenti: 3650, limitCenti: 50 },
-    ];
+    const actions = chart.actionMinutes.map((minute, i) => action(`a${i}`, `gap:r${i % Math.max(1, readings.length)}`, minute));
+    const sessions: SessionInput[] = [{ id: 's1', startedAt: at(100), endedAt: at(200), referenceCenti: 3650, limitCenti: 50 }];
     return { readings, actions, sessions, admittedAt: at(0) };
   }
 
@@ -592,9 +547,7 @@ describe('evaluation invariants (fast-check; common practice)', () => {
           const j = x % (i + 1);
           [shuffled[i], shuffled[j]] = [shuffled[j], shuffled[i]];
         }
-        expect(evaluateInfant({ ...state, readings: shuffled }, at(chart.now))).toEqual(
-          evaluateInfant(state, at(chart.now)),
-        );
+        expect(evaluateInfant({ ...state, readings: shuffled }, at(chart.now))).toEqual(evaluateInfant(state, at(chart.now)));
       }),
       { numRuns: 200 },
     );

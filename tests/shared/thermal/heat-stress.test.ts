@@ -1,30 +1,15 @@
-import {
-  HEAT_STRESS_CHECKLIST,
-  HEAT_STRESS_SIGNS,
-  heatStressPrompt,
-  ThermalInputError,
-  type HeatStressSign,
-} from '../../../shared/thermal';
+import { HEAT_STRESS_CHECKLIST, HEAT_STRESS_SIGNS, heatStressPrompt, ThermalInputError, type HeatStressSign } from '../../../shared/thermal';
 
 describe('heat-stress prompt', () => {
-  it.each(HEAT_STRESS_SIGNS.map((info) => [info.sign, info.label]))(
-    'the sign %s (%s) raises it on its own (NHS GG&C, Thermal care of the neonate; common practice)',
-    (sign) => {
-      expect(heatStressPrompt({ signs: [sign as HeatStressSign] })).toEqual({
-        raised: true,
-        reasons: [{ kind: 'sign', sign }],
-      });
-    },
-  );
+  it.each(HEAT_STRESS_SIGNS.map((info) => [info.sign, info.label]))('the sign %s (%s) raises it on its own (NHS GG&C, Thermal care of the neonate; common practice)', (sign) => {
+    expect(heatStressPrompt({ signs: [sign as HeatStressSign] })).toEqual({
+      raised: true,
+      reasons: [{ kind: 'sign', sign }],
+    });
+  });
 
   it('lists five signs with plain-English labels (NHS GG&C; common practice)', () => {
-    expect(HEAT_STRESS_SIGNS.map((info) => info.sign)).toEqual([
-      'red-skin',
-      'warm-to-touch',
-      'sweating',
-      'irritability',
-      'fast-breathing',
-    ]);
+    expect(HEAT_STRESS_SIGNS.map((info) => info.sign)).toEqual(['red-skin', 'warm-to-touch', 'sweating', 'irritability', 'fast-breathing']);
     expect(HEAT_STRESS_SIGNS[0].label).toBe('Red or flushed skin');
   });
 
@@ -49,9 +34,7 @@ describe('heat-stress prompt', () => {
   });
 
   it('gives every reason once, signs first in list order (common practice)', () => {
-    expect(
-      heatStressPrompt({ remoteCenti: 3800, heartRate: 175, signs: ['sweating', 'red-skin', 'sweating'] }).reasons,
-    ).toEqual([
+    expect(heatStressPrompt({ remoteCenti: 3800, heartRate: 175, signs: ['sweating', 'red-skin', 'sweating'] }).reasons).toEqual([
       { kind: 'sign', sign: 'red-skin' },
       { kind: 'sign', sign: 'sweating' },
       { kind: 'remote-above-normal' },

@@ -1,11 +1,4 @@
-import {
-  checkPlausibility,
-  HARD_LIMITS,
-  isThermalInputError,
-  PLAUSIBLE,
-  ThermalInputError,
-  toCentiCelsius,
-} from '../../../shared/thermal';
+import { checkPlausibility, HARD_LIMITS, isThermalInputError, PLAUSIBLE, ThermalInputError, toCentiCelsius } from '../../../shared/thermal';
 
 describe('hard limits: refuse what cannot be a reading (common practice)', () => {
   it('temperatures 20.00–45.00 °C, heart rate 30–300, heater output 0–100 %', () => {
@@ -65,12 +58,8 @@ describe('plausible ranges: confirm the unusual (from memory)', () => {
   });
 
   it('says why, in the unit the nurse uses', () => {
-    expect(checkPlausibility('remote', 3390).reason).toBe(
-      'Remote-site temperature 33.9 °C is outside the usual 34.0–39.5 °C: confirm it is correct',
-    );
-    expect(checkPlausibility('remote', 3390, 'F').reason).toBe(
-      'Remote-site temperature 93.0 °F is outside the usual 93.2–103.1 °F: confirm it is correct',
-    );
+    expect(checkPlausibility('remote', 3390).reason).toBe('Remote-site temperature 33.9 °C is outside the usual 34.0–39.5 °C: confirm it is correct');
+    expect(checkPlausibility('remote', 3390, 'F').reason).toBe('Remote-site temperature 93.0 °F is outside the usual 93.2–103.1 °F: confirm it is correct');
     expect(checkPlausibility('remote', 3650)).toEqual({ result: 'ok', reason: '' });
   });
 });

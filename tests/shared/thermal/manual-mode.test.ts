@@ -27,9 +27,7 @@ describe('manual-mode warning', () => {
   });
 
   it('80 % counts as high; 79 % does not (from memory)', () => {
-    expect(manualModeWarning([manual(0, 80, 3700), manual(10, 80, 3700)], at(16)).reasons).toEqual([
-      'high-output-too-long',
-    ]);
+    expect(manualModeWarning([manual(0, 80, 3700), manual(10, 80, 3700)], at(16)).reasons).toEqual(['high-output-too-long']);
     expect(manualModeWarning([manual(0, 79, 3700), manual(10, 79, 3700)], at(16)).warning).toBe(false);
   });
 
@@ -58,10 +56,7 @@ describe('manual-mode warning', () => {
   });
 
   it('the check clock starts when manual mode is charted, not at an earlier servo check (ECRI)', () => {
-    const readings: ManualModeReading[] = [
-      { takenAt: at(-60), controlMode: 'skin-servo', heaterOutputPct: 30, remoteCenti: 3700 },
-      manual(0, 40),
-    ];
+    const readings: ManualModeReading[] = [{ takenAt: at(-60), controlMode: 'skin-servo', heaterOutputPct: 30, remoteCenti: 3700 }, manual(0, 40)];
     expect(manualModeWarning(readings, at(10)).warning).toBe(false);
     expect(manualModeWarning(readings, at(16)).reasons).toEqual(['no-check-in-manual']);
   });
@@ -84,21 +79,14 @@ describe('manual-mode warning', () => {
   });
 
   it('leaving manual ends the warning and a new run starts a new clock (ECRI)', () => {
-    const readings: ManualModeReading[] = [
-      manual(0, 90, 3700),
-      { takenAt: at(20), controlMode: 'skin-servo', heaterOutputPct: 90, remoteCenti: 3700 },
-      manual(30, 90, 3700),
-    ];
+    const readings: ManualModeReading[] = [manual(0, 90, 3700), { takenAt: at(20), controlMode: 'skin-servo', heaterOutputPct: 90, remoteCenti: 3700 }, manual(30, 90, 3700)];
     expect(manualModeWarning(readings, at(25)).warning).toBe(false);
     const later = manualModeWarning(readings, at(40));
     expect(later).toMatchObject({ warning: false, manualSince: at(30), highOutputSince: at(30) });
   });
 
   it('a reading with no mode or no output charted keeps the last one (common practice)', () => {
-    const readings: ManualModeReading[] = [
-      manual(0, 90, 3700),
-      { takenAt: at(10), controlMode: null, heaterOutputPct: null, remoteCenti: 3690 },
-    ];
+    const readings: ManualModeReading[] = [manual(0, 90, 3700), { takenAt: at(10), controlMode: null, heaterOutputPct: null, remoteCenti: 3690 }];
     expect(manualModeWarning(readings, at(16))).toMatchObject({
       warning: true,
       reasons: ['high-output-too-long'],
@@ -118,11 +106,7 @@ describe('manual-mode warning', () => {
   });
 
   it('refuses an invalid date or mode (common practice: a 400 naming the field)', () => {
-    expect(() => manualModeWarning([{ takenAt: new Date(NaN), controlMode: 'manual' }], at(0))).toThrow(
-      ThermalInputError,
-    );
-    expect(() =>
-      manualModeWarning([{ takenAt: at(0), controlMode: 'fixed' as never }], at(1)),
-    ).toThrow(ThermalInputError);
+    expect(() => manualModeWarning([{ takenAt: new Date(NaN), controlMode: 'manual' }], at(0))).toThrow(ThermalInputError);
+    expect(() => manualModeWarning([{ takenAt: at(0), controlMode: 'fixed' as never }], at(1))).toThrow(ThermalInputError);
   });
 });

@@ -14,10 +14,8 @@ import { readingAfter } from './reading-fixture';
 const t0 = new Date('2026-05-01T08:00:00Z');
 const at = (minutes: number) => new Date(t0.getTime() + minutes * 60_000);
 
-const reading = (id: string, minutes: number, values: Partial<ReadingInput> = {}): ReadingInput =>
-  readingAfter(t0, id, minutes, { controlMode: 'skin-servo', ...values });
-const remote = (id: string, minutes: number, remoteCenti: number, extra: Partial<ReadingInput> = {}) =>
-  reading(id, minutes, { remoteCenti, remoteSite: 'axilla', ...extra });
+const reading = (id: string, minutes: number, values: Partial<ReadingInput> = {}): ReadingInput => readingAfter(t0, id, minutes, { controlMode: 'skin-servo', ...values });
+const remote = (id: string, minutes: number, remoteCenti: number, extra: Partial<ReadingInput> = {}) => reading(id, minutes, { remoteCenti, remoteSite: 'axilla', ...extra });
 
 function evaluate(state: Partial<InfantState>, nowMinutes: number, policy = {}) {
   return evaluateInfant({ readings: [], actions: [], sessions: [], ...state }, at(nowMinutes), policy);
@@ -85,14 +83,9 @@ describe('skin-to-skin: a probe-only reading never closes a deviation seen on th
 
 describe('manual-mode check clock (ECRI: check the infant at least every 15 minutes in manual)', () => {
   it('runs from the last temperature of any kind while manual, and is absent in servo', () => {
-    const readings = [
-      remote('r1', 0, 3680, { controlMode: 'manual', heaterOutputPct: 40 }),
-      reading('p1', 10, { probeCenti: 3660, controlMode: null }),
-    ];
+    const readings = [remote('r1', 0, 3680, { controlMode: 'manual', heaterOutputPct: 40 }), reading('p1', 10, { probeCenti: 3660, controlMode: null })];
     const { manualCheck, nextCheck } = evaluate({ readings }, 20);
-    expect(manualCheck).toEqual(
-      expect.objectContaining({ since: at(0), dueAt: at(25), outputPct: 40, limitMinutes: 15, status: 'due-soon' }),
-    );
+    expect(manualCheck).toEqual(expect.objectContaining({ since: at(0), dueAt: at(25), outputPct: 40, limitMinutes: 15, status: 'due-soon' }));
     expect(nextCheck.dueAt).toEqual(at(120)); // the remote-site clock keeps its own two hours (common practice)
     const late = evaluate({ readings }, 26);
     expect(late.manualCheck?.status).toBe('overdue');
