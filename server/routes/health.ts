@@ -1,12 +1,13 @@
 import type { AppContext } from '../context';
 import { allow, secureRouter } from '../middleware/access';
+import { checkDatabase } from '../services/health';
 
 export function healthRouter(ctx: AppContext) {
   const router = secureRouter();
   router.get('/health', allow(ctx, 'public'), (_req, res) => {
-    const row = ctx.database.sqlite.prepare('SELECT 1 AS ok').get() as { ok: number };
+    checkDatabase(ctx.database);
     // `mode` lets the app show the demo's mailbox link only where a mailbox exists.
-    res.json({ status: row.ok === 1 ? 'ok' : 'degraded', time: ctx.clock.now().toISOString(), mode: ctx.config.mode });
+    res.json({ status: 'ok', time: ctx.clock.now().toISOString(), mode: ctx.config.mode });
   });
   /** A bare route for the benchmark's baseline: no database, no auth. */
   router.get('/ping', allow(ctx, 'public'), (_req, res) => {
