@@ -133,7 +133,7 @@ describe('metro.config.js', () => {
     const slimFile = path.join(root, 'components', 'web', 'react-native-slim.js');
     const rnwIndex = path.join(root, 'node_modules', 'react-native-web', 'dist', 'index.js');
     const slimText = fs.readFileSync(slimFile, 'utf8');
-    const leftOut = JSON.parse(/const LEFT_OUT = (\[[^\]]*\]);/.exec(slimText)![1]!.replace(/'/g, '"')) as string[];
+    const leftOut = [.../const LEFT_OUT = \[([^\]]*)\];/.exec(slimText)![1]!.matchAll(/'(\w+)'/g)].map((m) => m[1]!);
     const named = [...slimText.matchAll(/^exports\.(\w+) = require\('react-native-web\/dist\/exports\/(\w+)'\)\.default;$/gm)].map((m) => [m[1]!, m[2]!] as const);
     const upstream = [...fs.readFileSync(rnwIndex, 'utf8').matchAll(/export \{ default as (\w+) \} from '\.\/exports\/(\w+)';/g)].map((m) => [m[1]!, m[2]!] as const);
 
