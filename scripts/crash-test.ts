@@ -5,12 +5,15 @@
  * hold, and `PRAGMA integrity_check` must say ok. (After SQLite's own crash-testing practice.)
  */
 import Database from 'better-sqlite3';
+import { and, count, eq, notExists } from 'drizzle-orm';
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { randomUUID } from 'node:crypto';
 import fs from 'node:fs';
 import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
+import { drizzleOf } from '../db/client';
+import { auditEvents, readings } from '../db/schema';
 import { checkpointSettings, defaultKeyFile } from '../server/checkpoints';
 import { verifyRecord } from '../server/record-verify';
 
@@ -112,18 +115,26 @@ async function main() {
 
   const db = new Database(path.join(dataDir, 'warmfold.db'), { readonly: true });
   const integrity = db.pragma('integrity_check', { simple: true });
-  const found = db.prepare('SELECT COUNT(*) AS n FROM readings WHERE id = ?');
-  const audited = db.prepare("SELECT COUNT(*) AS n FROM audit_events WHERE entity_type = 'reading' AND entity_id = ? AND action = 'reading-create'");
+  const d = drizzleOf(db);
+  const tally = (ids: Array<string | null>) => {
+    const counts = new Map<string, number>();
+    for (const id of ids) if (id !== null) counts.set(id, (counts.get(id) ?? 0) + 1);
+    return counts;
+  };
+  const stored = tally(d.select({ id: readings.id }).from(readings).all().map((r) => r.id));
+  const readingEvent = and(eq(auditEvents.entityType, 'reading'), eq(auditEvents.action, 'reading-create'));
+  const audited = tally(d.select({ id: auditEvents.entityId }).from(auditEvents).where(readingEvent).all().map((e) => e.id));
   let missing = 0;
   let duplicated = 0;
   let unaudited = 0;
   for (const id of acknowledged) {
-    const n = (found.get(id) as { n: number }).n;
+    const n = stored.get(id) ?? 0;
     if (n === 0) missing += 1;
     if (n > 1) duplicated += 1;
-    if ((audited.get(id) as { n: number }).n !== 1) unaudited += 1;
+    if ((audited.get(id) ?? 0) !== 1) unaudited += 1;
   }
-  const orphans = (db.prepare("SELECT COUNT(*) AS n FROM readings r WHERE NOT EXISTS (SELECT 1 FROM audit_events a WHERE a.entity_type = 'reading' AND a.entity_id = r.id)").get() as { n: number }).n;
+  const anyEvent = d.select({ id: auditEvents.id }).from(auditEvents).where(and(eq(auditEvents.entityType, 'reading'), eq(auditEvents.entityId, readings.id)));
+  const orphans = d.select({ n: count() }).from(readings).where(notExists(anyEvent)).get()?.n ?? 0;
   // The whole record: every link, every chained row against its event, and the signed checkpoints
   // the server wrote at each start (and at the last, clean shutdown).
   const chain = verifyRecord(db, { checkpoints: checkpointSettings(dataDir) });
