@@ -16,7 +16,7 @@ export function readingExtras(r: FlowsheetReading): string[] {
 const POSITION_SHORT: Record<InfantPosition, string> = { supine: 'Supine', prone: 'Prone', side: 'Side' };
 
 /** The wide grid's extra rows. */
-export const PLACEMENT_GRID_ROWS: Array<[string, (r: FlowsheetReading) => string]> = [
+export const PLACEMENT_GRID_ROWS: [string, (r: FlowsheetReading) => string][] = [
   ['Probe site', (r) => (r.probeSite ? PROBE_SITE_LABELS[r.probeSite] : '—') + (r.probeCovered == null ? '' : r.probeCovered ? ', covered' : ', not covered')],
   ['Position', (r) => (r.position ? POSITION_SHORT[r.position] : '—')],
   ['Weight', (r) => (r.weightGrams == null ? '—' : `${r.weightGrams} g`)],

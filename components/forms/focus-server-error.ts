@@ -10,7 +10,7 @@ import type { FieldValues, Path, UseFormSetFocus } from 'react-hook-form';
 export function useFocusServerError<T extends FieldValues>(
   serverFields: Record<string, string> | undefined,
   setFocus: UseFormSetFocus<T>,
-  order: ReadonlyArray<readonly [server: string, field: Path<T>]>,
+  order: readonly (readonly [server: string, field: Path<T>])[],
 ): void {
   const first = order.find(([server]) => serverFields?.[server]);
   // Keyed on the field and its message, so a new answer focuses again and a re-render does not.

@@ -45,7 +45,7 @@ export const readingExtraFields = {
 export function refineRemoteSite(
   v: { probeSite?: ProbeSite | null; remoteSite?: RemoteSite | null; remote?: number | null },
   ctx: z.RefinementCtx,
-  prefix: Array<string | number> = [],
+  prefix: (string | number)[] = [],
 ): void {
   const conflict = remoteSiteConflict(v.probeSite, v.remoteSite, v.remote != null);
   if (conflict) ctx.addIssue({ code: 'custom', path: [...prefix, 'remoteSite'], message: conflict });

@@ -18,7 +18,7 @@ export interface NextCheck {
 export interface EscalationSent {
   id: string;
   sentAt: string;
-  to: Array<{ userId: string | null; name: string | null; email: string }>;
+  to: { userId: string | null; name: string | null; email: string }[];
   how: 'email';
   acknowledgedAt: string | null;
   acknowledgedBy: { id: string; name: string } | null;
