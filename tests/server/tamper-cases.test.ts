@@ -111,7 +111,8 @@ describe('a database the app wrote', () => {
     const row = sqlite.prepare('SELECT probe_centi, remote_centi FROM readings WHERE id = ?').get(appReadingId);
     // 36.8 °C typed by the nurse is stored as 3680 hundredths (the product's unit convention).
     expect(row).toEqual({ probe_centi: 3680, remote_centi: 3670 });
-    expect(JSON.parse(events[0]!.after)).toEqual({ v: 1, row: expect.stringMatching(/^[0-9a-f]{64}$/) });
+    // Version 2 of the readings table: the probe placement, weight and humidity columns were added.
+    expect(JSON.parse(events[0]!.after)).toEqual({ v: 2, row: expect.stringMatching(/^[0-9a-f]{64}$/) });
   });
 
   it('follows a row whose key the app changes: the old key is recorded as gone, the new one as written', () => {
