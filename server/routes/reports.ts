@@ -14,14 +14,12 @@ import {
   type UnitRangeQuery,
 } from '../../shared/schemas/review';
 import { admissionMeasure } from '../services/admission-measure';
-import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { notFound } from '../errors';
 import { allow, assertUnit, secureRouter } from '../middleware/access';
 import { valid, validate } from '../middleware/validate';
-import { flagsCsv, infantFhirBundle, readingsCsv, unitFhirBundle } from '../services/exports';
+import { flagsCsvExport, infantFhirBundle, readingsCsv, unitFhirBundle } from '../services/exports';
 import { comparePeriods, unitReport, unitTrends } from '../services/reports';
-import { loadReviews, reviewQueue } from '../services/review';
 
 const tableParams = z.object({ table: z.enum(REPORT_TABLE_NAMES as [string, ...string[]], { error: 'No such report table.' }) });
 
@@ -94,13 +92,7 @@ export function reportsRouter(ctx: AppContext) {
   router.get('/exports/flags.csv', allow(ctx, 'review:work'), validate('query', reviewQueueQuerySchema), (req, res) => {
     const query = valid<ReviewQueueQuery>(req, 'query');
     if (query.unitId) assertUnit(req, query.unitId);
-    // Every matching flag, never one page of them.
-    const { items } = reviewQueue(ctx, req.auth!.unitIds, { ...query, cursor: undefined, limit: 'all' });
-    const { sqlite } = ctx.database;
-    sqlite
-      .transaction(() => appendAudit(sqlite, { at: ctx.clock.now(), actorId: req.auth!.userId, action: 'export-flags-csv', entityType: 'flag', entityId: null, unitId: query.unitId ?? null, after: { ...query, rows: items.length, infantIds: [...new Set(items.map((i) => i.infantId))] } }))
-      .immediate();
-    sendCsv(res, `flags-${suffixOf(query)}.csv`, flagsCsv(items, loadReviews(sqlite, items.map((i) => i.flagId))));
+    sendCsv(res, `flags-${suffixOf(query)}.csv`, flagsCsvExport(ctx, req.auth!.unitIds, query, req.auth!.userId));
   });
 
   router.get('/exports/infants/:infantId/fhir', allow(ctx, 'review:work'), (req, res) => {

@@ -5,13 +5,14 @@ import { writeTx } from '../../db/client';
 import { infants, readings, users } from '../../db/schema';
 import { toCsv } from '../../shared/csv';
 import type { ReviewNote, ReviewQueueItem } from '../../shared/types/review';
-import type { UnitRangeQuery } from '../../shared/schemas/review';
+import type { ReviewQueueQuery, UnitRangeQuery } from '../../shared/schemas/review';
 import { appendAudit, type AuditInput } from '../audit';
 import type { AppContext } from '../context';
 import { badRequest, forbidden, notFound } from '../errors';
 import { bedAtLookup } from './bed-stays';
 import { fhirBundle, infantsWithReadings } from './fhir';
 import { unitWindow } from './reports';
+import { loadReviews, reviewQueue } from './review';
 
 export { LOINC, SNOMED, UCUM, WARMFOLD_CODES } from './fhir';
 
@@ -81,6 +82,14 @@ export function flagsCsv(items: ReviewQueueItem[], notes: ReviewNote[]): string 
       (byFlag.get(i.flagId) ?? []).map((n) => `${n.createdAt.slice(0, 10)} ${n.reviewer.name}: ${n.note}${n.version > 1 ? ` (amended, version ${n.version})` : ''}${n.withdrawn ? ' (withdrawn)' : ''}`).join('\n') || null,
     ]),
   );
+}
+
+/** Every flag of the queue's filters (never one page of them) with its teaching notes, as CSV; an audited export. */
+export function flagsCsvExport(ctx: AppContext, unitIds: string[], query: ReviewQueueQuery, actorId: string): string {
+  const { items } = reviewQueue(ctx, unitIds, { ...query, cursor: undefined, limit: 'all' });
+  const after = { ...query, rows: items.length, infantIds: [...new Set(items.map((i) => i.infantId))] };
+  audit(ctx, { actorId, action: 'export-flags-csv', entityType: 'flag', entityId: null, unitId: query.unitId ?? null, after });
+  return flagsCsv(items, loadReviews(ctx.database.sqlite, items.map((i) => i.flagId)));
 }
 
 /** One infant's whole record as a FHIR R4 collection Bundle; an audited export. */
