@@ -1,8 +1,9 @@
 /**
  * Warmfold's fixed lists, their labels and the limits the forms quote. Plain values, no zod:
  * screens import them from here so that showing a label does not pull in the validation
- * library (the web build loads zod only when a form first validates). shared/schemas re-exports
- * each of them, so the server and the schemas keep one source.
+ * library (the web build loads zod only when a form first validates). The schemas, the server,
+ * the rules and the screens all take their lists, labels and limits from here; limits on charted
+ * values are in shared/thermal/limits.ts and usual ranges in shared/plausibility.ts.
  */
 
 import type { FlagKind } from './thermal/evaluate';

@@ -2,17 +2,16 @@ import { z } from 'zod';
 import { safeNote, safeText } from './safe-text';
 import { hasOneDecimalAtMost, oneDecimalMessage } from '../chart-time';
 import { HARD_LIMITS } from '../thermal/limits';
-import { ACTION_KINDS, CONTROL_MODES, HEAT_SIGNS, HEAT_SOURCES, REMOTE_SITES } from '../vocabulary';
+import { ACTION_KINDS, CONTROL_MODES, HEAT_SIGNS, REMOTE_SITES } from '../vocabulary';
 import { probeSiteSchema, readingExtraFields, refineRemoteSite } from './placement';
 
-export { ACTION_KINDS, ACTION_LABELS, FUTURE_TOLERANCE_MINUTES, LATE_ENTRY_MINUTES, type ActionKind } from '../vocabulary';
+export { ACTION_KINDS } from '../vocabulary';
 
 /** Values arrive as the nurse typed them, in her unit; the server converts to hundredths of °C. */
 export const tempUnitSchema = z.enum(['C', 'F'], { error: 'Choose °C or °F.' });
 export const remoteSiteSchema = z.enum(REMOTE_SITES, { error: 'Choose axilla, rectal or other.' });
 export const controlModeSchema = z.enum(CONTROL_MODES, { error: 'Choose skin servo, air servo or manual.' });
 export const heatSignSchema = z.enum(HEAT_SIGNS);
-export const heatSourceSchema = z.enum(HEAT_SOURCES, { error: 'Choose a heat source.' });
 
 const temperature = (label: string) =>
   z

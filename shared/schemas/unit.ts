@@ -8,7 +8,7 @@ import { infantPositionSchema, placementFields, probeSiteSchema } from './placem
  * acknowledgements. The same schemas check the forms on the client and the bodies on the server.
  */
 
-export { CONTROL_MODE_LABELS, CONTROL_MODES, HEAT_SOURCE_LABELS, HEAT_SOURCES, INFANT_SEX_LABELS, INFANT_SEXES } from '../vocabulary';
+export { CONTROL_MODES, HEAT_SOURCES, INFANT_SEXES } from '../vocabulary';
 
 const heatSource = z.enum(HEAT_SOURCES, { error: 'Choose a heat source.' });
 const controlMode = z.enum(CONTROL_MODES, { error: 'Choose skin servo, air servo or manual.' });

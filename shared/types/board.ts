@@ -5,7 +5,6 @@ import type { CheckClocks, CurrentPlacement, EscalationSent, InfantSummary } fro
 
 /** 0 needs attention now (a critical or urgent flag, an overdue clock), 1 due soon or a caution, 2 the rest, 3 empty bed. */
 export type UrgencyTier = 0 | 1 | 2 | 3;
-export const URGENCY_LABELS: Record<UrgencyTier, string> = { 0: 'Needs attention', 1: 'Check due soon', 2: 'Settled', 3: 'Empty bed' };
 
 export interface BoardEscalation {
   id: string;
