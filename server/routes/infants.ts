@@ -240,11 +240,8 @@ export function infantsRouter(ctx: AppContext) {
     const input = valid<PlacementChange>(req, 'body');
     const infant = loadInfantFor(sqlite, req, infantId);
     const now = ctx.clock.now();
-    const result = writeTx(sqlite, () => {
-      const known = prepared(sqlite, 'SELECT 1 FROM placement_changes WHERE id = ?').get(input.id);
-      if (!known) requireAdmitted(loadInfantFor(sqlite, req, infantId));
-      return recordPlacementChange(sqlite, infant, input, req.auth!.userId, now);
-    });
+    // A retry answers with the stored change; a new one needs the infant still admitted.
+    const result = writeTx(sqlite, () => recordPlacementChange(sqlite, infant, input, req.auth!.userId, now, () => requireAdmitted(loadInfantFor(sqlite, req, infantId))));
     res.status(result.created ? 201 : 200).json({ created: result.created, placement: storedPlacement(sqlite, infantId) });
   });
 

@@ -147,6 +147,8 @@ export function recordPlacementChange(
   input: PlacementChange,
   actorId: string,
   now: Date,
+  /** Checks before a new change is stored (not for a retry of a stored one). */
+  beforeNew: () => void = () => {},
 ): { created: boolean } {
   const db = drizzleOf(sqlite);
   const at = input.at ? new Date(input.at) : now;
@@ -161,6 +163,7 @@ export function recordPlacementChange(
     if (!same) throw conflict('A different placement change was already saved with this id.', { id: 'This id belongs to another change.' });
     return { created: false };
   }
+  beforeNew();
   if (at.getTime() > now.getTime() + 2 * 60_000) throw badRequest('The time is in the future.', { at: 'The time cannot be in the future.' });
   if (at.getTime() < infant.admitted_at - 60 * 60_000) throw badRequest('The time is before the infant was admitted.', { at: 'The time is before admission.' });
   const row = {
