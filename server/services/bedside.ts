@@ -402,6 +402,11 @@ export function dischargeOf(sqlite: Database.Database, infantId: string): Flowsh
  * How long a flowsheet may be served again when nothing was written, as for the board
  * (BOARD_MAX_AGE_MS): the rules move with the clock alone, so an unchanged chart is rebuilt at
  * least this often; a write anywhere in the chart's tables rebuilds it on the next request.
+ *
+ * Kept for the bench budget "72-h flowsheet req/s vs baseline >= 50 %": a build per request
+ * measured 7.0 % of the baseline, the cached flowsheet 45 % in the same conditions (2 shared
+ * cores, load around 13). A nurse's screen polls every 30 s; the bench's 50 connections are the
+ * ward's screens and tabs at once.
  */
 export const FLOWSHEET_MAX_AGE_MS = 1000;
 
