@@ -20,6 +20,7 @@ import { CLINICAL_PROMPT_CAVEAT } from '@/shared/thermal/policy';
 import type { Flowsheet, FlowsheetFlag } from '@/shared/types/bedside';
 import { actionWords, clockTime, duration, FLAG_LABELS, temp, tempDelta } from './format';
 import { openRecordForm } from './open-record-form';
+import { ProbeMoveForm } from './probe-move-form';
 import { escalationLines, flagLook } from '@/components/board/flag-look';
 
 /** What a nurse can record against each kind of flag, in the order she would usually try them. */
@@ -60,6 +61,8 @@ export function FlagCard({ flag, sheet, canChart, now }: { flag: FlowsheetFlag; 
   const kinds = FLAG_ACTIONS[flag.kind];
   const done = new Set(flag.actions.map((a) => a.kind));
   const [noting, setNoting] = useState(false);
+  // Moving the probe asks where to first (probe-move-form.tsx).
+  const [moving, setMoving] = useState(false);
   const recheckMs = flag.recheckDueAt ? Date.parse(flag.recheckDueAt) - now.getTime() : null;
   const { tone } = flagTone(flag.kind);
   const look = flagLook(flag);
@@ -136,7 +139,7 @@ export function FlagCard({ flag, sheet, canChart, now }: { flag: FlowsheetFlag; 
                     label={ACTION_LABELS[kind]}
                     icon={done.has(kind) ? 'check' : undefined}
                     busy={mutation.isPending && mutation.variables?.body.kind === kind}
-                    onPress={() => mutation.mutate({ flagId: flag.id!, body: { id: globalThis.crypto.randomUUID(), kind } })}
+                    onPress={() => (kind === 'moved-probe' ? setMoving(!moving) : mutation.mutate({ flagId: flag.id!, body: { id: globalThis.crypto.randomUUID(), kind } }))}
                   />
                   ),
                 )
@@ -144,6 +147,7 @@ export function FlagCard({ flag, sheet, canChart, now }: { flag: FlowsheetFlag; 
             <Button compact label={flag.kind === 'overdue-check' ? 'Record the check' : 'Record recheck'} icon="thermometer" onPress={openRecord} />
           </View>
           {noting && flag.id ? <OtherActionForm flagId={flag.id} infantId={sheet.infant.id} onDone={() => setNoting(false)} /> : null}
+          {moving && flag.id ? <ProbeMoveForm flagId={flag.id} infantId={sheet.infant.id} onDone={() => setMoving(false)} /> : null}
         </View>
       ) : null}
       {mutation.isError || undo.isError ? (
