@@ -157,6 +157,7 @@ export function bedsideRouter(ctx: AppContext) {
         before: readingJson(original),
         after: { ...row!, requestHash: undefined },
       });
+      refreshPlacement(sqlite, original.infant_id, original.unit_id, now);
       return { created: true, sync: syncFlags(sqlite, original.infant_id, now, auth.userId) };
     });
     escalateAfterWrite(ctx, now, result.sync);
