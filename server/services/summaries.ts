@@ -19,7 +19,7 @@ import {
 import { dueStatus, needsAttention, worseSeverity, type EvaluatedFlag, type InfantEvaluation, type Severity } from '../../shared/thermal';
 import { shiftAt } from '../../shared/shifts';
 import type { CheckClocks, ClockStatus, EscalationSent, FlowsheetFlag, InfantSummary, NextCheck, OpenFlagSummary, RecheckClock } from '../../shared/types/bedside';
-import { dbOf, type ClockRow, type StoredLatest, type StoredOpenFlag } from './flag-lifecycle';
+import type { ClockRow, StoredLatest, StoredOpenFlag } from './flag-lifecycle';
 import { syncFlags } from './flags';
 import { storedPlacements } from './placement';
 import { jsonList, perConnection } from './prepared-queries';
@@ -149,16 +149,7 @@ const summaryQueries = perConnection((db) => ({
     .where(and(inArray(assignments.infantId, jsonList('ids')), gte(assignments.shiftDate, sql.placeholder('since'))))
     .orderBy(asc(assignments.createdAt), asc(assignments.id))
     .prepare(),
-}));
-
-/**
- * Escalations that actually went out, by flag id: the latest, with the ones before it (a flag
- * escalates again when it worsens) in `earlier`, oldest first.
- */
-export function sentEscalations(sqlite: Database.Database, flagIds: string[]): Map<string, EscalationSent> {
-  const out = new Map<string, EscalationSent>();
-  if (flagIds.length === 0) return out;
-  const rows = dbOf(sqlite)
+  sentEscalations: db
     .select({
       id: escalations.id,
       flagId: escalations.flagId,
@@ -171,9 +162,19 @@ export function sentEscalations(sqlite: Database.Database, flagIds: string[]): M
     })
     .from(escalations)
     .leftJoin(users, eq(users.id, escalations.acknowledgedBy))
-    .where(and(inArray(escalations.flagId, flagIds), isNotNull(escalations.mailedAt)))
+    .where(and(inArray(escalations.flagId, jsonList('ids')), isNotNull(escalations.mailedAt)))
     .orderBy(asc(escalations.escalatedAt), asc(escalations.mailedAt))
-    .all();
+    .prepare(),
+}));
+
+/**
+ * Escalations that actually went out, by flag id: the latest, with the ones before it (a flag
+ * escalates again when it worsens) in `earlier`, oldest first.
+ */
+export function sentEscalations(sqlite: Database.Database, flagIds: string[]): Map<string, EscalationSent> {
+  const out = new Map<string, EscalationSent>();
+  if (flagIds.length === 0) return out;
+  const rows = summaryQueries(sqlite).sentEscalations.all({ ids: JSON.stringify(flagIds) });
   for (const r of rows) {
     const { earlier: prior = [], ...before } = out.get(r.flagId) ?? {};
     out.set(r.flagId, {
