@@ -32,8 +32,9 @@ export function TakenAtField<T extends FieldValues>({ control, timeZone, now, la
   const at = now();
   const today = localDayKey(at, timeZone);
   const keys = Array.from({ length: DAYS_BACK + 1 }, (_, i) => shiftDayKey(today, -i));
-  if (alsoDay && !keys.includes(alsoDay)) keys.push(alsoDay);
   const chosen = (day.value as string | undefined)?.trim() || today;
+  // The reading's own day, or a day kept in a draft, stays on offer however far back it is.
+  for (const extra of [alsoDay, chosen]) if (extra && !keys.includes(extra)) keys.push(extra);
   const values = { time: time ?? '', day: chosen === today ? '' : chosen };
   const taken = takenAtOf(values, at, timeZone);
 

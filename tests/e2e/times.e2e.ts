@@ -14,11 +14,20 @@ after(async () => {
 const INFANT = 'inf-fernhollow';
 
 /** The infant's readings as the server has them (the widest window). */
-async function readings(token: string): Promise<Array<{ takenAt: string; probeCenti: number | null }>> {
+interface Reading {
+  id: string;
+  rootId?: string;
+  takenAt: string;
+  probeCenti: number | null;
+}
+async function readings(token: string): Promise<Reading[]> {
   const res = await fetch(`${BASE_URL}/api/infants/${INFANT}/flowsheet?hours=72`, { headers: { Authorization: `Bearer ${token}` } });
   assert.equal(res.status, 200);
-  return ((await res.json()) as { readings: Array<{ takenAt: string; probeCenti: number | null }> }).readings;
+  return ((await res.json()) as { readings: Reading[] }).readings;
 }
+
+/** An instant as HH:MM on the unit's wall clock. */
+const hhmmIn = (zone: string, at: number) => new Intl.DateTimeFormat('en-GB', { timeZone: zone, hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).format(new Date(at));
 
 /** Hours and minutes on the unit's wall clock, `minutesAhead` from now. */
 function wallClock(timeZone: string, minutesAhead: number): { hhmm: string; sameDay: boolean } {
@@ -103,10 +112,30 @@ describe('date-aware times on a phone', () => {
     const hoursAgo = (Date.now() - Date.parse(saved.takenAt)) / 3_600_000;
     // Yesterday at the time that was half an hour ahead today: about 23.5 hours ago, on the unit's clock.
     assert.ok(hoursAgo > 23 && hoursAgo < 24, `saved ${hoursAgo.toFixed(2)} h ago`);
-    assert.equal(wallClock(zone, -Math.round((Date.now() - Date.parse(saved.takenAt)) / 60_000)).hhmm, future);
-    // The flowsheet dates it.
-    await page.getByText(new RegExp(`Yesterday, ${future}`)).first().waitFor();
-    await shot(page, 'times-3-dated-on-flowsheet');
+    assert.equal(hhmmIn(zone, Date.parse(saved.takenAt)), future);
+
+    // Corrected, it keeps its day: the header and the day choice say yesterday, and a new minute stays on it.
+    await page.goto(`${BASE_URL}/infants/${INFANT}/correct/${saved.id}`);
+    await page.getByText(`Correcting the reading of Yesterday, ${future}`).waitFor();
+    await page.getByRole('radio', { name: 'Yesterday', checked: true }).waitFor();
+    await page.getByLabel('What was wrong').fill('Charted a minute late.');
+    const minuteEarlier = Date.parse(saved.takenAt) - 60_000;
+    await page.getByLabel(/^Time taken/).fill(hhmmIn(zone, minuteEarlier));
+    await page.getByText(`Taken: Yesterday, ${hhmmIn(zone, minuteEarlier)}`).waitFor();
+    await shot(page, 'times-3-correction-keeps-day');
+    await page.getByRole('button', { name: 'Save correction' }).click();
+    await page.getByRole('heading', { name: /Baby Fernhollow/, level: 1 }).waitFor();
+    const corrected = (await readings(token)).find((r) => r.rootId === saved.id || r.id === saved.id);
+    assert.ok(corrected, 'the corrected reading is on the chart');
+    assert.equal(corrected.takenAt, new Date(minuteEarlier).toISOString());
+
+    // A 24-hour window always holds a midnight: the trend chart names the day under its ticks.
+    const legend = page.getByText(/^Lines: probe/);
+    await legend.scrollIntoViewIfNeeded();
+    const dayTick = page.locator('svg tspan', { hasText: /^(Today|Yesterday)$/ }).first();
+    await dayTick.waitFor();
+    await dayTick.scrollIntoViewIfNeeded();
+    await shot(page, 'times-4-chart-days');
     await context.close();
   });
 });
