@@ -21,7 +21,7 @@ async function setTempUnit(email: string, tempUnit: 'C' | 'F') {
   assert.equal(res.status, 200);
 }
 
-/** Record probe and remote site the routine way: Record, digits, Tab, digits, Enter. */
+/** Record probe and remote site the routine way: Record, digits, Tab, digits (then Save). */
 async function record(page: Page, probe: string, remote: string) {
   await page.getByRole('button', { name: 'Record', exact: true }).click();
   const probeField = page.getByLabel(/^Probe temperature/);
@@ -42,7 +42,8 @@ async function gapStory(page: Page, unit: 'C' | 'F', infant: string, bed: string
   await record(page, probe, remote);
   await page.getByText(/A gap flag will be raised/).waitFor();
   await shot(page, `bedside-${tag}-2-gap-preview`);
-  await page.keyboard.press('Enter');
+  // Enter in the remote-site field moves on to the air temperature; Save is in the footer.
+  await page.getByRole('button', { name: 'Save reading' }).click();
 
   const flag = page.getByRole('region', { name: 'Gap flag' });
   await flag.waitFor();
@@ -62,7 +63,7 @@ async function gapStory(page: Page, unit: 'C' | 'F', infant: string, bed: string
   await record(page, recheckProbe, recheckRemote);
   await page.getByText(/within the .* limit/).waitFor();
   await shot(page, `bedside-${tag}-5-recheck`);
-  await page.keyboard.press('Enter');
+  await page.getByRole('button', { name: 'Save reading' }).click();
   // A recheck taken seconds after the actions does not close the flag: it counts only once the
   // reading has settled, 15 minutes after the first action by default (common practice: 15–30
   // minutes after moving the probe). The closing recheck is covered by the API tests on a set clock.
@@ -111,7 +112,7 @@ describe('bedside charting on a phone', () => {
     assert.deepEqual(reads, ['/api/infants/mine', '/api/infants']);
   });
 
-  it('a routine check from the opened infant takes 3 key presses besides the digits', async () => {
+  it('a probe and remote-site check from the opened infant takes 3 presses besides the digits: Record, Tab, Save', async () => {
     await setTempUnit(ACCOUNTS.nurse, 'C');
     const page = await newPage(browser, PHONE);
     await signIn(page, ACCOUNTS.nurse);
@@ -136,7 +137,9 @@ describe('bedside charting on a phone', () => {
     await press('Tab');
     await digits('36.6');
     await shot(page, 'bedside-routine-1-typed');
-    await press('Enter');
+    // Save stays in reach in the form's footer (Enter here would move on to the air temperature).
+    presses += 1;
+    await page.getByRole('button', { name: 'Save reading' }).click();
 
     await page.getByRole('heading', { name: /Baby Glimmerton B/, level: 1 }).waitFor();
     const newest = page.getByText(/^Probe 36\.8\s°C · Remote 36\.6\s°C/).first();
@@ -195,8 +198,27 @@ describe('bedside charting on a phone', () => {
     assert.match(text, /with Mother · reference 36\.8\s°C · deviation limit 1\.0\s°C/);
     await session.scrollIntoViewIfNeeded();
     await shot(page, 'bedside-skin-to-skin-2-running');
+    // Ending asks first; Cancel keeps it running.
     await session.getByRole('button', { name: 'End session' }).click();
+    const ask = page.getByRole('dialog', { name: 'End the skin-to-skin session?' });
+    await ask.waitFor();
+    assert.match(await ask.innerText(), /with Mother/);
+    await shot(page, 'bedside-skin-to-skin-3-confirm-end');
+    await ask.getByRole('button', { name: 'Cancel' }).click();
+    await ask.waitFor({ state: 'detached' });
+    await session.waitFor();
+    await session.getByRole('button', { name: 'End session' }).click();
+    await page.getByRole('dialog', { name: 'End the skin-to-skin session?' }).getByRole('button', { name: 'End session' }).click();
     await page.getByRole('button', { name: 'Start skin-to-skin' }).waitFor();
+    // The ended session stays in the flowsheet's history.
+    const history = page.getByRole('region', { name: 'Skin-to-skin sessions' });
+    await history.waitFor();
+    const past = await history.innerText();
+    assert.match(past, /With Mother · reference 36\.8\s°C · deviation limit 1\.0\s°C/);
+    assert.match(past, /Started by Nia Okafor/);
+    assert.doesNotMatch(past, /still running/);
+    await history.scrollIntoViewIfNeeded();
+    await shot(page, 'bedside-skin-to-skin-4-history');
   });
 
   it('my infants, the flowsheet and the record form on a wide screen', async () => {
@@ -211,6 +233,15 @@ describe('bedside charting on a phone', () => {
     await shot(page, 'bedside-wide-2-flowsheet');
     await page.getByRole('table', { name: 'Readings' }).scrollIntoViewIfNeeded();
     await shot(page, 'bedside-wide-3-grid');
+    // The grid pages through the whole window, ten readings a page.
+    await page.getByRole('radio', { name: '72 h' }).click();
+    const pages = page.getByRole('group', { name: 'Pages of readings' });
+    const total = Number(/of (\d+)/.exec(await pages.innerText())?.[1]);
+    assert.ok(total > 10, `the demo's 72 hours hold ${total} readings`);
+    assert.match(await pages.innerText(), new RegExp(`Readings 1–10 of ${total}`));
+    await pages.getByRole('button', { name: 'Older' }).click();
+    await pages.getByText(new RegExp(`Readings 11–${Math.min(20, total)} of ${total}`)).waitFor();
+    await shot(page, 'bedside-wide-3b-grid-older');
     await page.getByRole('button', { name: 'Record', exact: true }).click();
     await page.getByLabel(/^Probe temperature/).waitFor();
     await shot(page, 'bedside-wide-4-record');
