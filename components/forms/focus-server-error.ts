@@ -14,7 +14,7 @@ export function useFocusServerError<T extends FieldValues>(
 ): void {
   const first = order.find(([server]) => serverFields?.[server]);
   // Keyed on the field and its message, so a new answer focuses again and a re-render does not.
-  const key = first ? `${first[0]}\u0000${serverFields?.[first[0]] ?? ''}` : '';
+  const key = first ? `${first[0]}: ${serverFields?.[first[0]] ?? ''}` : '';
   useEffect(() => {
     if (first) setFocus(first[1]);
     // eslint-disable-next-line react-hooks/exhaustive-deps
