@@ -2,7 +2,8 @@
 import { checkpointSettings, retireCheckpoints, writeCheckpoint } from '../server/checkpoints';
 import { loadConfig } from '../server/config';
 import { openDatabase } from './client';
-import { resetDatabase, seedDemo, DEMO_ACCOUNTS, DEMO_PASSWORD } from './seed';
+import { resetDatabase, DEMO_ACCOUNTS, DEMO_PASSWORD } from './seed';
+import { seedDemo } from '../server/demo-seed';
 
 async function main() {
   const config = loadConfig();

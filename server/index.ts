@@ -1,6 +1,7 @@
 import type { AddressInfo } from 'node:net';
 import { openDatabase } from '../db/client';
-import { seedDemo, isEmpty } from '../db/seed';
+import { isEmpty } from '../db/seed';
+import { seedDemo } from './demo-seed';
 import { createApp } from './app';
 import { systemClock } from './clock';
 import { ConfigError, loadConfig } from './config';

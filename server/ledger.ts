@@ -16,10 +16,10 @@
  */
 import { createHash } from 'node:crypto';
 import type Database from 'better-sqlite3';
-import { and, eq, getTableName, gt, is, sql, type SQL } from 'drizzle-orm';
-import { SQLiteTable } from 'drizzle-orm/sqlite-core';
+import { and, eq, gt, sql, type SQL } from 'drizzle-orm';
 import { drizzleOf } from '../db/client';
-import * as schema from '../db/schema';
+import { auditEvents } from '../db/schema';
+import { SCHEMA_TABLES } from '../db/tables';
 import { appendAudit, auditHash, GENESIS_HASH, headHash } from './audit';
 import { CHAINED, type ChainedTable } from './ledger-tables';
 
@@ -57,12 +57,6 @@ function canonicalExpr(table: ChainedTable, version: number): SQL<string> {
 }
 // sql fragment: rowid is SQLite's own row number, not a declared column: the order rows were written in.
 const rowid = sql<number>`rowid`;
-
-const SCHEMA_TABLES = new Map<string, SQLiteTable>(
-  (Object.values(schema) as unknown[])
-    .filter((t): t is SQLiteTable => is(t, SQLiteTable))
-    .map((t) => [getTableName(t), t]),
-);
 
 export interface ChainedRow {
   key: string;
@@ -183,9 +177,9 @@ export function installLedger(sqlite: Database.Database, now = new Date()): void
 export function coveredTables(sqlite: Database.Database): Set<string> {
   const covered = new Set<string>();
   const markers = drizzleOf(sqlite)
-    .select({ after: schema.auditEvents.after })
-    .from(schema.auditEvents)
-    .where(and(eq(schema.auditEvents.entityType, LEDGER_MARKER.entityType), eq(schema.auditEvents.entityId, LEDGER_MARKER.entityId), eq(schema.auditEvents.action, LEDGER_MARKER.action)))
+    .select({ after: auditEvents.after })
+    .from(auditEvents)
+    .where(and(eq(auditEvents.entityType, LEDGER_MARKER.entityType), eq(auditEvents.entityId, LEDGER_MARKER.entityId), eq(auditEvents.action, LEDGER_MARKER.action)))
     .all();
   for (const m of markers) {
     const tables = (JSON.parse(m.after ?? '{}') as { tables?: Record<string, number> }).tables ?? {};
@@ -198,10 +192,10 @@ function baseline(sqlite: Database.Database, versions: Map<string, number>, now:
   const covered = coveredTables(sqlite);
   const counts: Record<string, number> = {};
   const db = drizzleOf(sqlite);
-  let pending: Array<typeof schema.auditEvents.$inferInsert> = [];
+  let pending: Array<typeof auditEvents.$inferInsert> = [];
   // Several events to a statement; their ids keep the order of the array, which is the chain's.
   const flush = () => {
-    if (pending.length) db.insert(schema.auditEvents).values(pending).run();
+    if (pending.length) db.insert(auditEvents).values(pending).run();
     pending = [];
   };
   let prev = headHash(sqlite);

@@ -10,7 +10,8 @@ import os from 'node:os';
 import path from 'node:path';
 import request from 'supertest';
 import { openDatabase } from '../../db/client';
-import { DEMO_PASSWORD, seedDemo } from '../../db/seed';
+import { DEMO_PASSWORD } from '../../db/seed';
+import { seedDemo } from '../../server/demo-seed';
 import { ConfigError, loadConfig } from '../../server/config';
 import { DEMO } from './helpers';
 

@@ -16,7 +16,7 @@ import { drizzle } from 'drizzle-orm/better-sqlite3';
 import { migrate } from 'drizzle-orm/better-sqlite3/migrator';
 import { migrationsFolder, openDatabase } from '../../db/client';
 import * as schema from '../../db/schema';
-import { seedDemo } from '../../db/seed';
+import { seedDemo } from '../../server/demo-seed';
 import { auditHash, GENESIS_HASH } from '../../server/audit';
 import { checkpointJob, checkpointSettings, startCheckpointing, writeCheckpoint, type CheckpointSettings } from '../../server/checkpoints';
 import { batchedWrite } from '../../server/write-batch';
