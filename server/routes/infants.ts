@@ -38,7 +38,7 @@ import { escalateAfterWrite } from '../services/escalations';
 import { recordPlacementChange, refreshPlacement, storedPlacement } from '../services/placement';
 import { placementChangeSchema, type PlacementChange } from '../../shared/schemas/placement';
 import { remoteSiteConflict } from '../../shared/thermal/placement';
-import { currentFlagIds, loadUnitRow, primeRuleReadings, syncFlags, type UnitRow } from '../services/flags';
+import { currentFlagIds, loadUnitRow, primeRuleReadings, syncFlags } from '../services/flags';
 import { nextCheckJson, openFlagJson, summarizeInfants } from '../services/summaries';
 
 type IdParams = { id: string };
@@ -55,7 +55,7 @@ export function infantsRouter(ctx: AppContext) {
     for (const unitId of auth.unitIds) {
       const unit = loadUnitRow(sqlite, unitId);
       if (!unit) continue;
-      const slot = shiftAt(now, { dayShiftStart: unit.day_shift_start, nightShiftStart: unit.night_shift_start, timeZone: unit.time_zone });
+      const slot = shiftAt(now, { dayShiftStart: unit.dayShiftStart, nightShiftStart: unit.nightShiftStart, timeZone: unit.timeZone });
       const rows = prepared(
     sqlite,
           `SELECT a.infant_id, a.nurse_id FROM assignments a JOIN infants i ON i.id = a.infant_id LEFT JOIN beds b ON b.id = i.bed_id
@@ -95,7 +95,7 @@ export function infantsRouter(ctx: AppContext) {
     const { id } = req.params as IdParams;
     const infant = loadInfantFor(sqlite, req, id);
     const now = ctx.clock.now();
-    const unit = loadUnitRow(sqlite, infant.unit_id)! as UnitRow & { name: string };
+    const unit = loadUnitRow(sqlite, infant.unit_id)!;
     primeRuleReadings(sqlite, id);
     writeTx(sqlite, () => {
       // Only time has passed: the rules need only run from now (syncFlags widens this as needed).
@@ -113,7 +113,7 @@ export function infantsRouter(ctx: AppContext) {
       birthWeightGrams: infant.birth_weight_grams,
       admittedAt: new Date(infant.admitted_at).toISOString(),
       unitName: unit.name,
-      timeZone: unit.time_zone,
+      timeZone: unit.timeZone,
       defaults: {
         controlMode: summary!.controlMode,
         setCenti: summary!.setCenti,

@@ -112,7 +112,7 @@ export function admissionMeasure(ctx: AppContext, query: UnitRangeQuery, actorId
     const r = firstOf.get(i.id);
     const first = r && r.centi !== null ? { takenAt: r.takenAt, centi: r.centi } : null;
     const verdict = judgeFirstTemperature(i.birthAt, first);
-    const month = monthOf(i.admittedAt, w.unit.time_zone);
+    const month = monthOf(i.admittedAt, w.unit.timeZone);
     const m = months.get(month) ?? [0, 0];
     m[0] += 1;
     if (verdict.met) {

@@ -189,7 +189,7 @@ export function dischargeInfant(
 export function shiftSlot(ctx: AppContext, unitId: string, which: 'current' | 'next'): ShiftSlot {
   const unit = loadUnitRow(ctx.database.sqlite, unitId);
   if (!unit) throw notFound('That unit');
-  const times = { dayShiftStart: unit.day_shift_start, nightShiftStart: unit.night_shift_start, timeZone: unit.time_zone };
+  const times = { dayShiftStart: unit.dayShiftStart, nightShiftStart: unit.nightShiftStart, timeZone: unit.timeZone };
   const current = shiftAt(ctx.clock.now(), times);
   return which === 'next' ? nextShift(current, times) : current;
 }

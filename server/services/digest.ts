@@ -5,8 +5,8 @@ import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { unitReport } from './reports';
 import { and, asc, eq } from 'drizzle-orm';
-import { userUnits, users } from '../../db/schema';
-import { dbOf } from './flag-lifecycle';
+import { drizzleOf, writeTx } from '../../db/client';
+import { settings, units as unitsTable, userUnits, users } from '../../db/schema';
 import { localDateOf, reviewQueue } from './review';
 
 /** "16 Nov, 08:40" (or "16 Nov, 8:40 am") in the unit's zone, on the reader's clock: never UTC. */
@@ -35,19 +35,20 @@ export interface DigestResult {
  */
 export async function sendWeeklyDigests(ctx: AppContext, now: Date, options: { unitIds?: string[]; force?: boolean; actorId?: string | null } = {}): Promise<DigestResult> {
   const { sqlite } = ctx.database;
-  const units = sqlite.prepare('SELECT id, name, time_zone FROM units ORDER BY name').all() as Array<{ id: string; name: string; time_zone: string }>;
+  const db = drizzleOf(sqlite);
+  const units = db.select({ id: unitsTable.id, name: unitsTable.name, timeZone: unitsTable.timeZone }).from(unitsTable).orderBy(asc(unitsTable.name)).all();
   const result: DigestResult = { sent: 0, units: [] };
   for (const unit of units) {
     if (options.unitIds && !options.unitIds.includes(unit.id)) continue;
-    const today = localDateOf(now, unit.time_zone);
+    const today = localDateOf(now, unit.timeZone);
     const key = `digest:${unit.id}`;
     if (!options.force) {
-      const local = new TZDate(now.getTime(), unit.time_zone);
+      const local = new TZDate(now.getTime(), unit.timeZone);
       if (local.getDay() !== DIGEST_WEEKDAY || local.getHours() !== DIGEST_HOUR) continue;
-      const last = sqlite.prepare('SELECT value FROM app_settings WHERE key = ?').get(key) as { value: string } | undefined;
+      const last = db.select({ value: settings.value }).from(settings).where(eq(settings.key, key)).get();
       if (last?.value === today) continue;
     }
-    const educators = dbOf(sqlite)
+    const educators = db
       .select({ email: users.email, name: users.name, tempUnit: users.tempUnit, clock: users.clock })
       .from(users)
       .innerJoin(userUnits, eq(userUnits.userId, users.id))
@@ -64,7 +65,7 @@ export async function sendWeeklyDigests(ctx: AppContext, now: Date, options: { u
     const itemLines = (tempUnit: 'C' | 'F', clock: '12h' | '24h') =>
       openIn(tempUnit)
         .slice(0, 20)
-        .map((i) => `  ${digestTime(i.raisedAt, unit.time_zone, clock)} · ${REVIEW_KIND_LABELS[i.kind]} · ${i.infantName} · ${i.shift} shift · ${i.nurse?.name ?? 'nurse unknown'} · ${i.summary}`);
+        .map((i) => `  ${digestTime(i.raisedAt, unit.timeZone, clock)} · ${REVIEW_KIND_LABELS[i.kind]} · ${i.infantName} · ${i.shift} shift · ${i.nurse?.name ?? 'nurse unknown'} · ${i.summary}`);
     const lines = (tempUnit: 'C' | 'F', clock: '12h' | '24h') => [
       `Weekly digest for ${unit.name}, ${from} to ${to}.`,
       '',
@@ -75,7 +76,7 @@ export async function sendWeeklyDigests(ctx: AppContext, now: Date, options: { u
       `Flag to resolution: median ${formatMinutes(all.toResolution.medianMinutes)}, 90th percentile ${formatMinutes(all.toResolution.p90Minutes)}`,
       `Skin-to-skin time with a deviation: ${formatPercent(report.skinToSkin.share)}`,
       '',
-      `Review items not yet reviewed: ${open.length} (times in the unit's time zone, ${unit.time_zone})`,
+      `Review items not yet reviewed: ${open.length} (times in the unit's time zone, ${unit.timeZone})`,
       ...itemLines(tempUnit, clock),
       open.length > 20 ? `  …and ${open.length - 20} more.` : '',
       '',
@@ -90,13 +91,16 @@ export async function sendWeeklyDigests(ctx: AppContext, now: Date, options: { u
         ctx.log(`digest to ${educator.email} failed: ${String(err)}`);
       }
     }
-    sqlite
-      .transaction(() => {
-        // A send-now by an admin does not stand in for the Monday run.
-        if (!options.force) sqlite.prepare('INSERT INTO app_settings (key, value, updated_at) VALUES (?, ?, ?) ON CONFLICT(key) DO UPDATE SET value = excluded.value, updated_at = excluded.updated_at').run(key, today, now.getTime());
-        appendAudit(sqlite, { at: now, actorId: options.actorId ?? null, action: 'digest-sent', entityType: 'unit', entityId: unit.id, unitId: unit.id, after: { from, to, educators: educators.length, openItems: open.length } });
-      })
-      .immediate();
+    writeTx(sqlite, () => {
+      // A send-now by an admin does not stand in for the Monday run.
+      if (!options.force) {
+        db.insert(settings)
+          .values({ key, value: today, updatedAt: now })
+          .onConflictDoUpdate({ target: settings.key, set: { value: today, updatedAt: now } })
+          .run();
+      }
+      appendAudit(sqlite, { at: now, actorId: options.actorId ?? null, action: 'digest-sent', entityType: 'unit', entityId: unit.id, unitId: unit.id, after: { from, to, educators: educators.length, openItems: open.length } });
+    });
     result.units.push(unit.id);
   }
   return result;

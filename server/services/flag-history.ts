@@ -4,7 +4,7 @@
  * as a new row (see ruleKeyOf in flags.ts) shows the whole chain, oldest first.
  */
 import type Database from 'better-sqlite3';
-import { asc, eq, inArray, sql } from 'drizzle-orm';
+import { and, asc, eq, inArray, sql } from 'drizzle-orm';
 import { flagEvents, flags, users } from '../../db/schema';
 import { BAND_LABELS } from '../../shared/thermal/bands';
 import { SEVERITY_WORDS, type Severity } from '../../shared/thermal/severity';
@@ -75,9 +75,9 @@ function chainOf(sqlite: Database.Database, flagId: string): string[] {
   const links = db
     .select({ flagId: flagEvents.flagId, detail: flagEvents.detail })
     .from(flagEvents)
-    .where(eq(flagEvents.infantId, flag.infantId))
+    // A reopening names the row before it.
+    .where(and(eq(flagEvents.infantId, flag.infantId), eq(flagEvents.event, 'reopened')))
     .all()
-    .filter((e) => e.detail.includes('previousFlagId'))
     .map((e) => ({ next: e.flagId, previous: (JSON.parse(e.detail) as { previousFlagId?: string }).previousFlagId }))
     .filter((l): l is { next: string; previous: string } => typeof l.previous === 'string');
   let first = flagId;
@@ -95,6 +95,9 @@ function chainOf(sqlite: Database.Database, flagId: string): string[] {
   return chain;
 }
 
+// sql fragment: rowid (the order rows were stored in) breaks ties of created_at; the schema has no column for it.
+const eventOrder = sql`${flagEvents}.rowid`;
+
 export function flagHistory(sqlite: Database.Database, flagId: string): FlagHistoryEvent[] {
   const ids = chainOf(sqlite, flagId);
   if (ids.length === 0) return [];
@@ -104,7 +107,7 @@ export function flagHistory(sqlite: Database.Database, flagId: string): FlagHist
     .leftJoin(users, eq(users.id, flagEvents.actorId))
     .where(inArray(flagEvents.flagId, ids))
     // Events written in one transaction keep the order they were written in.
-    .orderBy(asc(flagEvents.createdAt), asc(sql`flag_events.rowid`))
+    .orderBy(asc(flagEvents.createdAt), asc(eventOrder))
     .all();
   return rows.map((r) => ({
     id: r.id,

@@ -7,22 +7,13 @@
 import type Database from 'better-sqlite3';
 import { randomUUID } from 'node:crypto';
 import { and, asc, desc, eq, gt, isNotNull, lte, sql } from 'drizzle-orm';
-import { drizzle } from 'drizzle-orm/better-sqlite3';
-import * as schema from '../../db/schema';
 import { flagEvents, infantClocks, readings, unitPolicyVersions } from '../../db/schema';
-import type { Db } from '../../db/client';
+import { drizzleOf, type Db } from '../../db/client';
 import { resolvePolicy, type InfantEvaluation, type PolicyVersion, type Severity, type UnitPolicy } from '../../shared/thermal';
 
-const handles = new WeakMap<Database.Database, Db>();
-
-/** A Drizzle handle on a connection (one per connection, made once). */
+/** The Drizzle handle on a connection (db/client.ts: one per connection, shared with the rest of the server). */
 export function dbOf(sqlite: Database.Database): Db {
-  let db = handles.get(sqlite);
-  if (!db) {
-    db = drizzle(sqlite, { schema });
-    handles.set(sqlite, db);
-  }
-  return db;
+  return drizzleOf(sqlite);
 }
 
 export type FlagEventKind = (typeof flagEvents.$inferInsert)['event'];
@@ -62,6 +53,9 @@ export function appendFlagEvent(db: Db, e: FlagEventInput): string {
   return id;
 }
 
+// sql fragment: rowid (the order rows were stored in) breaks ties of created_at; the schema has no column for it.
+const versionOrder = sql`${unitPolicyVersions}.rowid`;
+
 export interface StoredPolicyVersion extends PolicyVersion {
   readonly id: string;
 }
@@ -73,7 +67,7 @@ export function loadPolicyVersions(db: Db, unitId: string): StoredPolicyVersion[
     .from(unitPolicyVersions)
     .where(eq(unitPolicyVersions.unitId, unitId))
     // Versions made at the same instant keep the order they were made in (the last one wins).
-    .orderBy(asc(unitPolicyVersions.effectiveFrom), asc(unitPolicyVersions.createdAt), asc(sql`rowid`))
+    .orderBy(asc(unitPolicyVersions.effectiveFrom), asc(unitPolicyVersions.createdAt), asc(versionOrder))
     .all()
     .map((v) => ({ id: v.id, effectiveFrom: v.effectiveFrom, policy: JSON.parse(v.settings) as Partial<UnitPolicy> }));
 }

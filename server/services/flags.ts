@@ -1,6 +1,8 @@
-import { prepared } from '../../db/client';
 import type Database from 'better-sqlite3';
 import { randomUUID } from 'node:crypto';
+import { and, asc, desc, eq, gt, gte, inArray, isNotNull, isNull, lt, lte, min, ne, or, sql } from 'drizzle-orm';
+import { alias } from 'drizzle-orm/sqlite-core';
+import { actions, actionUndos, flagEvents, flagResolutions, flags, infants, readings, skinToSkinSessions, units } from '../../db/schema';
 import { evaluateInfant, resolvePolicy, severityOf, SEVERITY_RANK, type EvaluatedFlag, type HeatStressSign, type Severity, type UnitPolicy } from '../../shared/thermal';
 import { appendAudit } from '../audit';
 import {
@@ -14,46 +16,27 @@ import {
   type StoredOpenFlag,
   type StoredPolicyVersion,
 } from './flag-lifecycle';
+import { perConnection } from './prepared-queries';
 
-interface ReadingRow {
-  id: string;
-  taken_at: number;
-  recorded_at: number;
-  probe_centi: number | null;
-  remote_centi: number | null;
-  remote_site: 'axilla' | 'rectal' | 'other' | null;
-  air_centi: number | null;
-  set_centi: number | null;
-  control_mode: 'skin-servo' | 'air-servo' | 'manual' | null;
-  heater_output_pct: number | null;
-  heart_rate: number | null;
-  heat_signs: string;
-  replaces_id: string | null;
-  entered_in_error: number;
-}
+/** A unit's row, as the schema types it. */
+export type UnitRow = typeof units.$inferSelect;
 
-export interface UnitRow {
-  id: string;
-  time_zone: string;
-  check_interval_minutes: number;
-  due_soon_minutes: number;
-  gap_limit_centi: number;
-  escalation_delay_minutes: number;
-  high_output_pct: number;
-  day_shift_start: string;
-  night_shift_start: string;
-}
+/** The unit row's clinical settings (the rest of the policy lives only in settings versions). */
+export type UnitSettingsRow = Pick<
+  UnitRow,
+  'timeZone' | 'checkIntervalMinutes' | 'dueSoonMinutes' | 'gapLimitCenti' | 'escalationDelayMinutes' | 'highOutputPct' | 'dayShiftStart' | 'nightShiftStart'
+>;
 
-export function policyForUnit(unit: UnitRow): UnitPolicy {
+export function policyForUnit(unit: UnitSettingsRow): UnitPolicy {
   return resolvePolicy({
-    checkIntervalMinutes: unit.check_interval_minutes,
-    dueSoonMinutes: unit.due_soon_minutes,
-    gapLimitCenti: unit.gap_limit_centi,
-    escalationDelayMinutes: unit.escalation_delay_minutes,
-    highOutputPct: unit.high_output_pct,
-    dayShiftStart: unit.day_shift_start,
-    nightShiftStart: unit.night_shift_start,
-    timeZone: unit.time_zone,
+    checkIntervalMinutes: unit.checkIntervalMinutes,
+    dueSoonMinutes: unit.dueSoonMinutes,
+    gapLimitCenti: unit.gapLimitCenti,
+    escalationDelayMinutes: unit.escalationDelayMinutes,
+    highOutputPct: unit.highOutputPct,
+    dayShiftStart: unit.dayShiftStart,
+    nightShiftStart: unit.nightShiftStart,
+    timeZone: unit.timeZone,
   });
 }
 
@@ -62,13 +45,174 @@ export function policyForUnit(unit: UnitRow): UnitPolicy {
  * Settings a unit row has no column for (per-kind escalation delays, settle time) live only in
  * versions.
  */
-export function policyAt(unit: UnitRow, versions: readonly StoredPolicyVersion[], ms: number): { policy: UnitPolicy; versionId: string | null } {
+export function policyAt(unit: UnitSettingsRow, versions: readonly StoredPolicyVersion[], ms: number): { policy: UnitPolicy; versionId: string | null } {
   const v = versionAt(versions, ms);
   return v ? { policy: resolvePolicy(v.policy), versionId: v.id } : { policy: policyForUnit(unit), versionId: null };
 }
 
+// sql fragment: rowid (the order rows were stored in) breaks ties of taken and recorded times; the schema has no column for it.
+const readingOrder = sql<number>`${readings}.rowid`;
+
+/** The columns the rules read: never every column (notes and reasons are dead weight here). */
+const ruleColumns = {
+  rowid: readingOrder,
+  id: readings.id,
+  takenAt: readings.takenAt,
+  recordedAt: readings.recordedAt,
+  probeCenti: readings.probeCenti,
+  remoteCenti: readings.remoteCenti,
+  remoteSite: readings.remoteSite,
+  airCenti: readings.airCenti,
+  setCenti: readings.setCenti,
+  controlMode: readings.controlMode,
+  heaterOutputPct: readings.heaterOutputPct,
+  heartRate: readings.heartRate,
+  heatSigns: readings.heatSigns,
+  replacesId: readings.replacesId,
+  enteredInError: readings.enteredInError,
+};
+
+type ReadingRow = Pick<
+  typeof readings.$inferSelect,
+  'id' | 'takenAt' | 'recordedAt' | 'probeCenti' | 'remoteCenti' | 'remoteSite' | 'airCenti' | 'setCenti' | 'controlMode' | 'heaterOutputPct' | 'heartRate' | 'heatSigns' | 'replacesId' | 'enteredInError'
+> & { rowid: number };
+
+const y = alias(readings, 'y');
+const x = alias(readings, 'x');
+
+/**
+ * The reads of every write's sync (syncFlags and its restart point), prepared once per
+ * connection: a reading POST runs each of them. Instants bound to placeholders are passed as
+ * milliseconds (a placeholder skips the column's Date mapping).
+ */
+const flagQueries = perConnection((db) => ({
+  unit: db.select().from(units).where(eq(units.id, sql.placeholder('id'))).prepare(),
+  infant: db
+    .select({ unitId: infants.unitId, status: infants.status, admittedAt: infants.admittedAt })
+    .from(infants)
+    .where(eq(infants.id, sql.placeholder('id')))
+    .prepare(),
+  flagKeys: db.select({ id: flags.id, key: flags.key }).from(flags).where(eq(flags.infantId, sql.placeholder('infantId'))).prepare(),
+  readings: db
+    .select(ruleColumns)
+    .from(readings)
+    .where(eq(readings.infantId, sql.placeholder('infantId')))
+    .orderBy(asc(readings.takenAt), asc(readings.recordedAt), asc(readingOrder))
+    .prepare(),
+  readingsSince: db
+    .select(ruleColumns)
+    .from(readings)
+    .where(and(eq(readings.infantId, sql.placeholder('infantId')), gte(readings.takenAt, sql.placeholder('since'))))
+    .orderBy(asc(readings.takenAt), asc(readings.recordedAt), asc(readingOrder))
+    .prepare(),
+  readingsAfterRow: db
+    .select(ruleColumns)
+    .from(readings)
+    .where(and(eq(readings.infantId, sql.placeholder('infantId')), gt(readingOrder, sql.placeholder('after'))))
+    .prepare(),
+  actions: db
+    .select({ id: actions.id, flagKey: flags.key, kind: actions.kind, at: actions.at })
+    .from(actions)
+    .innerJoin(flags, eq(flags.id, actions.flagId))
+    // An undone action (entered in error) does not count for the rules.
+    .leftJoin(actionUndos, eq(actionUndos.actionId, actions.id))
+    .where(and(eq(actions.infantId, sql.placeholder('infantId')), isNull(actionUndos.id)))
+    .orderBy(asc(actions.at))
+    .prepare(),
+  sessions: db
+    .select({
+      id: skinToSkinSessions.id,
+      startedAt: skinToSkinSessions.startedAt,
+      endedAt: skinToSkinSessions.endedAt,
+      referenceCenti: skinToSkinSessions.referenceCenti,
+      limitCenti: skinToSkinSessions.limitCenti,
+    })
+    .from(skinToSkinSessions)
+    .where(eq(skinToSkinSessions.infantId, sql.placeholder('infantId')))
+    .orderBy(asc(skinToSkinSessions.startedAt))
+    .prepare(),
+  /** The earliest taken time of any version in a correction chain (the corrected and the correcting row). */
+  firstCorrection: db
+    .select({ corrected: min(x.takenAt), correcting: min(y.takenAt) })
+    .from(y)
+    .innerJoin(x, eq(x.id, y.replacesId))
+    .where(and(eq(y.infantId, sql.placeholder('infantId')), isNotNull(y.replacesId)))
+    .prepare(),
+  /** The latest current, servo-mode remote-site check at or before `before`: a restart point candidate. */
+  restartCandidate: db
+    .select({ id: readings.id, takenAt: readings.takenAt })
+    .from(readings)
+    // A row that a later version replaced is not current.
+    .leftJoin(y, eq(y.replacesId, readings.id))
+    .where(
+      and(
+        eq(readings.infantId, sql.placeholder('infantId')),
+        lte(readings.takenAt, sql.placeholder('before')),
+        gte(readings.takenAt, sql.placeholder('admittedAt')),
+        lte(readings.takenAt, readings.recordedAt),
+        isNotNull(readings.remoteCenti),
+        inArray(readings.controlMode, ['skin-servo', 'air-servo']),
+        eq(readings.enteredInError, false),
+        // '' when nothing is excluded: no reading has an empty id.
+        ne(readings.id, sql.placeholder('exclude')),
+        isNull(readings.replacesId),
+        isNull(y.id),
+      ),
+    )
+    .orderBy(desc(readings.takenAt))
+    .limit(1)
+    .prepare(),
+  /** The earliest raising of a flag raised before `at` and still open at it (closed by `id` excepted). */
+  openBlocker: db
+    .select({ at: min(flags.raisedAt) })
+    .from(flags)
+    .leftJoin(flagResolutions, eq(flagResolutions.flagId, flags.id))
+    .where(
+      and(
+        eq(flags.infantId, sql.placeholder('infantId')),
+        lt(flags.raisedAt, sql.placeholder('at')),
+        or(
+          isNull(flagResolutions.flagId),
+          gt(flagResolutions.closedAt, sql.placeholder('at')),
+          and(
+            eq(flagResolutions.closedAt, sql.placeholder('at')),
+            or(isNull(flagResolutions.closedByReadingId), ne(flagResolutions.closedByReadingId, sql.placeholder('id'))),
+          ),
+        ),
+      ),
+    )
+    .prepare(),
+  sameTime: db
+    .select({ id: readings.id })
+    .from(readings)
+    .where(and(eq(readings.infantId, sql.placeholder('infantId')), eq(readings.takenAt, sql.placeholder('at')), ne(readings.id, sql.placeholder('id'))))
+    .limit(1)
+    .prepare(),
+  storedFlags: db
+    .select({
+      id: flags.id,
+      key: flags.key,
+      kind: flags.kind,
+      raisedAt: flags.raisedAt,
+      raisedByReadingId: flags.raisedByReadingId,
+      detail: flags.detail,
+      severity: flags.severity,
+      resolved: flagResolutions.flagId,
+      how: flagResolutions.how,
+    })
+    .from(flags)
+    .leftJoin(flagResolutions, eq(flagResolutions.flagId, flags.id))
+    .where(eq(flags.infantId, sql.placeholder('infantId')))
+    .prepare(),
+  withdrawnFlags: db
+    .selectDistinct({ flagId: flagEvents.flagId })
+    .from(flagEvents)
+    .where(and(eq(flagEvents.infantId, sql.placeholder('infantId')), eq(flagEvents.event, 'withdrawn')))
+    .prepare(),
+}));
+
 export function loadUnitRow(sqlite: Database.Database, unitId: string): UnitRow | undefined {
-  return prepared(sqlite, 'SELECT * FROM units WHERE id = ?').get(unitId) as UnitRow | undefined;
+  return flagQueries(sqlite).unit.get({ id: unitId });
 }
 
 /**
@@ -88,7 +232,7 @@ function reopeningOf(storedKey: string): number {
 
 /** Each rule key's current stored row id (the latest reopening): for answers naming flag ids. */
 export function currentFlagIds(sqlite: Database.Database, infantId: string): Map<string, string> {
-  const rows = prepared(sqlite, 'SELECT id, key FROM flags WHERE infant_id = ?').all(infantId) as Array<{ id: string; key: string }>;
+  const rows = flagQueries(sqlite).flagKeys.all({ infantId });
   const best = new Map<string, { id: string; n: number }>();
   for (const r of rows) {
     const k = ruleKeyOf(r.key);
@@ -103,51 +247,26 @@ export function currentFlagIds(sqlite: Database.Database, infantId: string): Map
 const NO_SIGNS: HeatStressSign[] = Object.freeze([]) as unknown as HeatStressSign[];
 
 /** Turn stored rows into the rules' input. Every version is passed; the rules pick the current ones. */
-export function toRuleReading(r: ReadingRow & { rowid_?: number }) {
+export function toRuleReading(r: Omit<ReadingRow, 'rowid'> & { rowid?: number }) {
   return {
     id: r.id,
     // Readings with equal taken and recorded times keep the order they were stored in.
-    seq: r.rowid_,
-    takenAt: new Date(r.taken_at),
-    recordedAt: new Date(r.recorded_at),
-    probeCenti: r.probe_centi,
-    remoteCenti: r.remote_centi,
-    remoteSite: r.remote_site,
-    airCenti: r.air_centi,
-    setCenti: r.set_centi,
-    controlMode: r.control_mode,
-    heaterOutputPct: r.heater_output_pct,
-    heartRate: r.heart_rate,
+    seq: r.rowid,
+    takenAt: r.takenAt,
+    recordedAt: r.recordedAt,
+    probeCenti: r.probeCenti,
+    remoteCenti: r.remoteCenti,
+    remoteSite: r.remoteSite,
+    airCenti: r.airCenti,
+    setCenti: r.setCenti,
+    controlMode: r.controlMode,
+    heaterOutputPct: r.heaterOutputPct,
+    heartRate: r.heartRate,
     // Almost every row has no heat signs; parsing '[]' thousands of times per board build shows in a profile.
-    heatSigns: r.heat_signs === '[]' ? NO_SIGNS : (JSON.parse(r.heat_signs) as HeatStressSign[]),
-    replacesId: r.replaces_id,
-    enteredInError: r.entered_in_error === 1,
+    heatSigns: r.heatSigns === '[]' ? NO_SIGNS : (JSON.parse(r.heatSigns) as HeatStressSign[]),
+    replacesId: r.replacesId,
+    enteredInError: r.enteredInError,
   };
-}
-
-/**
- * toRuleReading for a row read with `.raw()`: `values[at...]` are the RULE_COLUMNS in their order.
- * Building the object here is cheaper than better-sqlite3 building a keyed row for each of
- * thousands of readings (most of a board build was that).
- */
-export function ruleReadingFromValues(values: unknown[], at = 0) {
-  const v = (column: (typeof RULE_COLUMN_LIST)[number]) => values[at + AT[column]] as never;
-  return toRuleReading({
-    id: v('id'),
-    taken_at: v('taken_at'),
-    recorded_at: v('recorded_at'),
-    probe_centi: v('probe_centi'),
-    remote_centi: v('remote_centi'),
-    remote_site: v('remote_site'),
-    air_centi: v('air_centi'),
-    set_centi: v('set_centi'),
-    control_mode: v('control_mode'),
-    heater_output_pct: v('heater_output_pct'),
-    heart_rate: v('heart_rate'),
-    heat_signs: v('heat_signs'),
-    replaces_id: v('replaces_id'),
-    entered_in_error: v('entered_in_error'),
-  });
 }
 
 export interface InfantState {
@@ -157,34 +276,10 @@ export interface InfantState {
   admittedAt?: Date;
 }
 
-/** The columns the rules read: never `SELECT *` (notes and reasons are dead weight here). */
-const RULE_COLUMN_LIST = [
-  'id',
-  'taken_at',
-  'recorded_at',
-  'probe_centi',
-  'remote_centi',
-  'remote_site',
-  'air_centi',
-  'set_centi',
-  'control_mode',
-  'heater_output_pct',
-  'heart_rate',
-  'heat_signs',
-  'replaces_id',
-  'entered_in_error',
-] as const satisfies ReadonlyArray<keyof ReadingRow>;
-export const RULE_COLUMNS = RULE_COLUMN_LIST.join(', ');
-/** Each rule column's place in RULE_COLUMNS, for rows read with `.raw()`. */
-const AT = Object.fromEntries(RULE_COLUMN_LIST.map((c, i) => [c, i])) as Record<(typeof RULE_COLUMN_LIST)[number], number>;
-
 export function loadInfantState(sqlite: Database.Database, infantId: string, since?: number): InfantState {
-  const readings = (
-    since === undefined
-      ? prepared(sqlite, `SELECT rowid AS rowid_, ${RULE_COLUMNS} FROM readings WHERE infant_id = ? ORDER BY taken_at, recorded_at, rowid`).all(infantId)
-      : prepared(sqlite, `SELECT rowid AS rowid_, ${RULE_COLUMNS} FROM readings WHERE infant_id = ? AND taken_at >= ? ORDER BY taken_at, recorded_at, rowid`).all(infantId, since)
-  ) as ReadingRow[];
-  return loadStateWith(sqlite, infantId, readings.map(toRuleReading));
+  const q = flagQueries(sqlite);
+  const rows: ReadingRow[] = since === undefined ? q.readings.all({ infantId }) : q.readingsSince.all({ infantId, since });
+  return loadStateWith(sqlite, infantId, rows.map(toRuleReading));
 }
 
 type RuleReading = ReturnType<typeof toRuleReading>;
@@ -217,7 +312,7 @@ export function primeRuleReadings(sqlite: Database.Database, infantId: string): 
     cache = new Map();
     ruleReadingCaches.set(sqlite, cache);
   }
-  const dataVersion = prepared(sqlite, 'PRAGMA data_version').pluck().get() as number;
+  const dataVersion = dataVersionOf(sqlite);
   const now = Date.now();
   let entry = cache.get(infantId);
   if (entry && entry.dataVersion !== dataVersion) entry = undefined;
@@ -229,11 +324,14 @@ export function primeRuleReadings(sqlite: Database.Database, infantId: string): 
   cache.set(infantId, { dataVersion, maxRowid, readings, usedAt: now });
 }
 
+/** SQLite's count of commits by other connections (better-sqlite3's pragma call, not SQL text). */
+function dataVersionOf(sqlite: Database.Database): number {
+  return Number(sqlite.pragma('data_version', { simple: true }));
+}
+
 function newRows(sqlite: Database.Database, infantId: string, afterRowid: number): CachedReading[] {
-  const rows = prepared(sqlite, `SELECT rowid AS rowid_, ${RULE_COLUMNS} FROM readings WHERE infant_id = ? AND rowid > ?`).all(infantId, afterRowid) as Array<
-    ReadingRow & { rowid_: number }
-  >;
-  return rows.map((r) => ({ ...toRuleReading(r), rowid: r.rowid_, takenMs: r.taken_at, recordedMs: r.recorded_at }));
+  const rows = flagQueries(sqlite).readingsAfterRow.all({ infantId, after: afterRowid });
+  return rows.map((r) => ({ ...toRuleReading(r), rowid: r.rowid, takenMs: r.takenAt.getTime(), recordedMs: r.recordedAt.getTime() }));
 }
 
 /** The order of the query's ORDER BY taken_at, recorded_at. */
@@ -251,7 +349,7 @@ function mergeInOrder(sorted: CachedReading[], added: CachedReading[]): CachedRe
 /** The rules' readings from `since` (all when undefined), from the primed cache when it is valid. */
 function ruleReadings(sqlite: Database.Database, infantId: string, since: number | undefined): RuleReading[] | null {
   const entry = ruleReadingCaches.get(sqlite)?.get(infantId);
-  if (!entry || entry.dataVersion !== (prepared(sqlite, 'PRAGMA data_version').pluck().get() as number)) return null;
+  if (!entry || entry.dataVersion !== dataVersionOf(sqlite)) return null;
   entry.usedAt = Date.now();
   const all = mergeInOrder(entry.readings, newRows(sqlite, infantId, entry.maxRowid));
   if (since === undefined) return all === entry.readings ? all.slice() : all;
@@ -267,22 +365,13 @@ function ruleReadings(sqlite: Database.Database, infantId: string, since: number
 }
 
 function loadStateWith(sqlite: Database.Database, infantId: string, readings: RuleReading[]): InfantState {
-  const infant = prepared(sqlite, 'SELECT admitted_at FROM infants WHERE id = ?').get(infantId) as { admitted_at: number } | undefined;
-  const actions = prepared(sqlite, 'SELECT a.id, f.key AS flag_key, a.kind, a.at FROM actions a JOIN flags f ON f.id = a.flag_id WHERE a.infant_id = ? AND NOT EXISTS (SELECT 1 FROM action_undos u WHERE u.action_id = a.id) ORDER BY a.at')
-    .all(infantId) as Array<{ id: string; flag_key: string; kind: string; at: number }>;
-  const sessions = prepared(sqlite, 'SELECT id, started_at, ended_at, reference_centi, limit_centi FROM skin_to_skin_sessions WHERE infant_id = ? ORDER BY started_at')
-    .all(infantId) as Array<{ id: string; started_at: number; ended_at: number | null; reference_centi: number; limit_centi: number }>;
+  const q = flagQueries(sqlite);
+  const infant = q.infant.get({ id: infantId });
   return {
     readings,
-    actions: actions.map((a) => ({ id: a.id, flagKey: ruleKeyOf(a.flag_key), kind: a.kind, at: new Date(a.at) })),
-    sessions: sessions.map((s) => ({
-      id: s.id,
-      startedAt: new Date(s.started_at),
-      endedAt: s.ended_at === null ? null : new Date(s.ended_at),
-      referenceCenti: s.reference_centi,
-      limitCenti: s.limit_centi,
-    })),
-    admittedAt: infant ? new Date(infant.admitted_at) : undefined,
+    actions: q.actions.all({ infantId }).map((a) => ({ id: a.id, flagKey: ruleKeyOf(a.flagKey), kind: a.kind, at: a.at })),
+    sessions: q.sessions.all({ infantId }),
+    admittedAt: infant?.admittedAt,
   };
 }
 
@@ -328,42 +417,25 @@ export interface SyncWindow {
  * Null when there is none: evaluate the whole stay, as before.
  */
 function restartPoint(sqlite: Database.Database, infantId: string, admittedAt: number, window: SyncWindow): number | null {
-  const firstCorrection = prepared(
-    sqlite,
-    `SELECT MIN(MIN(y.taken_at, x.taken_at)) AS at FROM readings y JOIN readings x ON x.id = y.replaces_id
-      WHERE y.infant_id = ? AND y.replaces_id IS NOT NULL`,
-  ).get(infantId) as { at: number | null };
-  let before = Math.min(window.from, firstCorrection.at === null ? Number.POSITIVE_INFINITY : firstCorrection.at - 1);
-  const candidate = prepared(
-    sqlite,
-    `SELECT r.id, r.taken_at FROM readings r
-      WHERE r.infant_id = @infantId AND r.taken_at <= @before AND r.taken_at >= @admittedAt AND r.taken_at <= r.recorded_at
-        AND r.remote_centi IS NOT NULL AND r.control_mode IN ('skin-servo', 'air-servo') AND r.entered_in_error = 0
-        AND r.id IS NOT @exclude AND r.replaces_id IS NULL
-        AND NOT EXISTS (SELECT 1 FROM readings y WHERE y.replaces_id = r.id)
-      ORDER BY r.taken_at DESC LIMIT 1`,
-  );
-  const blocker = prepared(
-    sqlite,
-    `SELECT MIN(f.raised_at) AS at FROM flags f LEFT JOIN flag_resolutions x ON x.flag_id = f.id
-      WHERE f.infant_id = @infantId AND f.raised_at < @at
-        AND (x.flag_id IS NULL OR x.closed_at > @at OR (x.closed_at = @at AND x.closed_by_reading_id IS NOT @id))`,
-  );
-  const sameTime = prepared(sqlite, 'SELECT 1 FROM readings WHERE infant_id = ? AND taken_at = ? AND id <> ? LIMIT 1');
+  const q = flagQueries(sqlite);
+  const corrections = q.firstCorrection.get({ infantId });
+  const firstCorrection = Math.min(corrections?.corrected?.getTime() ?? Infinity, corrections?.correcting?.getTime() ?? Infinity);
+  let before = Math.min(window.from, firstCorrection - 1);
   // A few steps back past flags that were still open; a chart with flags open for most of the
   // stay is rare and is simply evaluated whole.
   for (let step = 0; step < 4; step++) {
-    const r = candidate.get({ infantId, before, admittedAt, exclude: window.excludeReadingId ?? null }) as { id: string; taken_at: number } | undefined;
+    const r = q.restartCandidate.get({ infantId, before, admittedAt, exclude: window.excludeReadingId ?? '' });
     if (!r) return null;
-    const open = blocker.get({ infantId, at: r.taken_at, id: r.id }) as { at: number | null };
-    if (open.at === null) {
-      if (!sameTime.get(infantId, r.taken_at, r.id)) return r.taken_at;
+    const at = r.takenAt.getTime();
+    const open = q.openBlocker.get({ infantId, at, id: r.id })?.at ?? null;
+    if (open === null) {
+      if (!q.sameTime.get({ infantId, at, id: r.id })) return at;
       // Another reading shares R's time (two saves in the same millisecond): try the one before.
-      before = r.taken_at - 1;
+      before = at - 1;
       continue;
     }
     // The reading that raised the oldest such flag may itself be the restart point.
-    before = open.at;
+    before = open.getTime();
   }
   return null;
 }
@@ -378,12 +450,12 @@ function restartPoint(sqlite: Database.Database, infantId: string, admittedAt: n
  * few readings' work instead of the whole stay's, with the same flags from the window on.
  */
 export function syncFlags(sqlite: Database.Database, infantId: string, now: Date, actorId: string | null, window?: SyncWindow): SyncResult {
-  const infant = prepared(sqlite, 'SELECT unit_id, status, admitted_at FROM infants WHERE id = ?').get(infantId) as
-    | { unit_id: string; status: string; admitted_at: number }
-    | undefined;
+  const q = flagQueries(sqlite);
+  const infant = q.infant.get({ id: infantId });
   if (!infant) throw new Error(`No infant ${infantId}`);
-  const unit = prepared(sqlite, 'SELECT * FROM units WHERE id = ?').get(infant.unit_id) as UnitRow;
-  const windowFrom = window ? restartPoint(sqlite, infantId, infant.admitted_at, { ...window, from: Math.min(window.from, now.getTime()) }) : null;
+  const unit = q.unit.get({ id: infant.unitId });
+  if (!unit) throw new Error(`No unit ${infant.unitId}`);
+  const windowFrom = window ? restartPoint(sqlite, infantId, infant.admittedAt.getTime(), { ...window, from: Math.min(window.from, now.getTime()) }) : null;
   let state: InfantState;
   const since = windowFrom ?? undefined;
   const cached = ruleReadings(sqlite, infantId, since);
@@ -396,31 +468,17 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
     state = { ...full, admittedAt: undefined };
   }
   const db = dbOf(sqlite);
-  const versions = loadPolicyVersions(db, infant.unit_id);
+  const versions = loadPolicyVersions(db, infant.unitId);
   const { policy, versionId } = policyAt(unit, versions, now.getTime());
   const evaluation = evaluateInfant(state, now, policy, versions);
-  const stored = prepared(
-    sqlite,
-    `SELECT f.id, f.key, f.kind, f.raised_at, f.raised_by_reading_id, f.detail, f.severity, r.flag_id AS resolved, r.how,
-            EXISTS (SELECT 1 FROM flag_events e WHERE e.flag_id = f.id AND e.event = 'withdrawn') AS withdrawn_event
-       FROM flags f LEFT JOIN flag_resolutions r ON r.flag_id = f.id WHERE f.infant_id = ?`,
-  ).all(infantId) as Array<{
-    id: string;
-    key: string;
-    kind: string;
-    raised_at: number;
-    raised_by_reading_id: string | null;
-    detail: string;
-    severity: Severity | null;
-    resolved: string | null;
-    how: string | null;
-    withdrawn_event: number;
-  }>;
+  const withdrawnIds = new Set(q.withdrawnFlags.all({ infantId }).map((w) => w.flagId));
+  // Each stored flag with its resolution, and whether a withdrawn event followed its closing.
+  const stored = q.storedFlags.all({ infantId }).map((f) => ({ ...f, withdrawn: withdrawnIds.has(f.id) }));
   const previous = readClocks(db, infantId);
   const lastSeverity = new Map((previous ? (JSON.parse(previous.openFlags) as StoredOpenFlag[]) : []).map((f) => [f.flagId, f.severity]));
   const openNow: StoredOpenFlag[] = [];
   const event = (flagId: string, e: Omit<Parameters<typeof appendFlagEvent>[1], 'flagId' | 'infantId' | 'unitId' | 'now'>) =>
-    appendFlagEvent(db, { flagId, infantId, unitId: infant.unit_id, now, actorId, ...e });
+    appendFlagEvent(db, { flagId, infantId, unitId: infant.unitId, now, actorId, ...e });
   // Each rule key's current row: the latest reopening of it.
   const byKey = new Map<string, (typeof stored)[number]>();
   for (const row of stored) {
@@ -433,15 +491,10 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
   const raised: string[] = [];
   const closed: string[] = [];
   const worsened: string[] = [];
-  const insertFlag = prepared(
-    sqlite,
-    'INSERT INTO flags (id, infant_id, unit_id, key, kind, raised_at, raised_by_reading_id, detail, severity, policy_version_id, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)',
-  );
-  const insertResolution = prepared(sqlite, 'INSERT INTO flag_resolutions (flag_id, closed_at, closed_by_reading_id, how, created_at) VALUES (?, ?, ?, ?, ?)');
 
   const close = (flagId: string, at: Date, readingId: string | null, how: string, key: string, reason?: string) => {
-    insertResolution.run(flagId, at.getTime(), readingId, how, now.getTime());
-    appendAudit(sqlite, { at: now, actorId, action: 'flag-closed', entityType: 'flag', entityId: flagId, unitId: infant.unit_id, after: { key, closedAt: at.toISOString(), closedByReadingId: readingId, how, reason } });
+    db.insert(flagResolutions).values({ flagId, closedAt: at, closedByReadingId: readingId, how, createdAt: now }).run();
+    appendAudit(sqlite, { at: now, actorId, action: 'flag-closed', entityType: 'flag', entityId: flagId, unitId: infant.unitId, after: { key, closedAt: at.toISOString(), closedByReadingId: readingId, how, reason } });
     if (how === 'withdrawn') event(flagId, { event: 'withdrawn', at, readingId, detail: { reason, readingId } });
     else event(flagId, { event: 'closed', at, readingId, detail: { how } });
     closed.push(flagId);
@@ -458,9 +511,9 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
       row?.resolved &&
       infant.status !== 'discharged' &&
       row.how !== 'discharged' &&
-      (row.how === 'withdrawn' || row.withdrawn_event === 1 || flag.status === 'open')
+      (row.how === 'withdrawn' || row.withdrawn || flag.status === 'open')
     ) {
-      reopenedFrom = { id: row.id, key: row.key, how: row.withdrawn_event === 1 ? 'withdrawn' : row.how };
+      reopenedFrom = { id: row.id, key: row.key, how: row.withdrawn ? 'withdrawn' : row.how };
       row = undefined;
     }
     if (!row) {
@@ -470,16 +523,30 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
       const severity = flag.severity;
       const detail = JSON.stringify(flag.detail ?? {});
       const storedKey = reopenedFrom ? `${flag.key}#${reopeningOf(reopenedFrom.key) + 1}` : flag.key;
-      insertFlag.run(id, infantId, infant.unit_id, storedKey, flag.kind, flag.raisedAt.getTime(), flag.raisedByReadingId, detail, severity, raisedUnder, now.getTime());
-      appendAudit(sqlite, { at: now, actorId, action: 'flag-raised', entityType: 'flag', entityId: id, unitId: infant.unit_id, after: serializeFlag(flag) });
+      db.insert(flags)
+        .values({
+          id,
+          infantId,
+          unitId: infant.unitId,
+          key: storedKey,
+          kind: flag.kind,
+          raisedAt: flag.raisedAt,
+          raisedByReadingId: flag.raisedByReadingId,
+          detail,
+          severity,
+          policyVersionId: raisedUnder,
+          createdAt: now,
+        })
+        .run();
+      appendAudit(sqlite, { at: now, actorId, action: 'flag-raised', entityType: 'flag', entityId: id, unitId: infant.unitId, after: serializeFlag(flag) });
       if (reopenedFrom) {
         event(id, { event: 'reopened', at: now, readingId: flag.raisedByReadingId, severity, policyVersionId: raisedUnder, detail: { previousFlagId: reopenedFrom.id, was: reopenedFrom.how } });
-        appendAudit(sqlite, { at: now, actorId, action: 'flag-reopened', entityType: 'flag', entityId: id, unitId: infant.unit_id, after: { key: storedKey, previousFlagId: reopenedFrom.id, was: reopenedFrom.how } });
+        appendAudit(sqlite, { at: now, actorId, action: 'flag-reopened', entityType: 'flag', entityId: id, unitId: infant.unitId, after: { key: storedKey, previousFlagId: reopenedFrom.id, was: reopenedFrom.how } });
       } else {
         event(id, { event: 'raised', at: flag.raisedAt, readingId: flag.raisedByReadingId, severity, policyVersionId: raisedUnder, detail: flag.detail });
       }
       raised.push(id);
-      row = { id, key: storedKey, kind: flag.kind, raised_at: flag.raisedAt.getTime(), raised_by_reading_id: flag.raisedByReadingId, detail, severity, resolved: null, how: null, withdrawn_event: 0 };
+      row = { id, key: storedKey, kind: flag.kind, raisedAt: flag.raisedAt, raisedByReadingId: flag.raisedByReadingId, detail, severity, resolved: null, how: null, withdrawn: false };
       lastSeverity.set(id, severity);
     }
     if (flag.status === 'closed' && !row.resolved) {
@@ -513,14 +580,14 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
     if (row.resolved) {
       // Closed, but the rules no longer see it at all: the reading that raised it was corrected
       // away, so it should never have been raised. The closing stays; the flag is withdrawn.
-      if (row.how !== 'withdrawn' && row.how !== 'discharged' && row.withdrawn_event === 0 && (windowFrom === null || row.raised_at >= windowFrom)) {
-        const shownBy = row.raised_by_reading_id ? latestVersionOf(sqlite, row.raised_by_reading_id) : null;
+      if (row.how !== 'withdrawn' && row.how !== 'discharged' && !row.withdrawn && (windowFrom === null || row.raisedAt.getTime() >= windowFrom)) {
+        const shownBy = row.raisedByReadingId ? latestVersionOf(sqlite, row.raisedByReadingId) : null;
         event(row.id, { event: 'withdrawn', at: now, readingId: shownBy, detail: { reason: 'reading-corrected', readingId: shownBy } });
-        appendAudit(sqlite, { at: now, actorId, action: 'flag-withdrawn', entityType: 'flag', entityId: row.id, unitId: infant.unit_id, after: { key: row.key, reason: 'reading-corrected', readingId: shownBy } });
+        appendAudit(sqlite, { at: now, actorId, action: 'flag-withdrawn', entityType: 'flag', entityId: row.id, unitId: infant.unitId, after: { key: row.key, reason: 'reading-corrected', readingId: shownBy } });
       }
       continue;
     }
-    if (windowFrom !== null && row.raised_at < windowFrom) {
+    if (windowFrom !== null && row.raisedAt.getTime() < windowFrom) {
       // Raised before the window: still open as far as the rules can tell; keep showing it.
       const kept = previous ? (JSON.parse(previous.openFlags) as StoredOpenFlag[]).find((f) => f.flagId === row.id) : undefined;
       if (kept) openNow.push(kept);
@@ -529,24 +596,24 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
     if (infant.status === 'discharged') close(row.id, now, null, 'discharged', row.key);
     else if (row.kind === 'overdue-check') {
       // A check charted late whose taken time was on time: the flag should never have been raised.
-      const due = row.raised_at;
-      const from = row.raised_by_reading_id
-        ? (prepared(sqlite, 'SELECT taken_at FROM readings WHERE id = ?').get(row.raised_by_reading_id) as { taken_at: number } | undefined)?.taken_at ?? infant.admitted_at
-        : infant.admitted_at;
-      const shownBy = onTimeCheckFor(db, infantId, from, due);
+      const due = row.raisedAt.getTime();
+      const ranFrom = row.raisedByReadingId
+        ? db.select({ takenAt: readings.takenAt }).from(readings).where(eq(readings.id, row.raisedByReadingId)).get()?.takenAt
+        : undefined;
+      const shownBy = onTimeCheckFor(db, infantId, (ranFrom ?? infant.admittedAt).getTime(), due);
       close(row.id, now, shownBy, 'withdrawn', row.key, shownBy ? 'late-entry-on-time' : 'reading-corrected');
     } else close(row.id, now, null, 'withdrawn', row.key, 'reading-corrected');
   }
-  writeClocks(db, { infantId, unitId: infant.unit_id, now, policy, policyVersionId: versionId, evaluation, openFlags: openNow, previous, windowed: windowFrom !== null });
+  writeClocks(db, { infantId, unitId: infant.unitId, now, policy, policyVersionId: versionId, evaluation, openFlags: openNow, previous, windowed: windowFrom !== null });
   return { raised, closed, worsened, evaluation, windowFrom };
 }
 
 /** The latest version of a reading's correction chain (itself when never corrected). */
 function latestVersionOf(sqlite: Database.Database, readingId: string): string {
-  const next = prepared(sqlite, 'SELECT id FROM readings WHERE replaces_id = ?');
+  const db = dbOf(sqlite);
   let id = readingId;
   for (let i = 0; i < 100; i++) {
-    const row = next.get(id) as { id: string } | undefined;
+    const row = db.select({ id: readings.id }).from(readings).where(eq(readings.replacesId, id)).get();
     if (!row) break;
     id = row.id;
   }

@@ -20,7 +20,7 @@ import type { AppContext } from '../context';
 import { notFound } from '../errors';
 import { resolvePolicy } from '../../shared/thermal';
 import { dbOf, loadPolicyVersions, policyChangesBetween, versionAt } from './flag-lifecycle';
-import { policyForUnit, type UnitRow } from './flags';
+import { loadUnitRow, policyForUnit, type UnitRow } from './flags';
 
 const MINUTE = 60_000;
 
@@ -28,7 +28,7 @@ const MINUTE = 60_000;
 export const REPORT_KINDS: readonly string[] = [...new Set<string>([...REVIEW_KINDS, 'cold-stress', 'fever'])];
 
 export interface UnitWindow {
-  unit: UnitRow & { name: string };
+  unit: UnitRow;
   fromMs: number;
   toMs: number;
 }
@@ -41,7 +41,7 @@ export function localMidnight(date: string, timeZone: string): number {
 
 /** [from 00:00, the day after `to` 00:00) in the unit's zone. */
 export function unitWindow(sqlite: Database.Database, query: UnitRangeQuery): UnitWindow {
-  const unit = sqlite.prepare('SELECT * FROM units WHERE id = ?').get(query.unitId) as (UnitRow & { name: string }) | undefined;
+  const unit = loadUnitRow(sqlite, query.unitId);
   if (!unit) throw notFound('That unit');
   const [y, m, d] = query.to.split('-').map(Number);
   const next = new Date(Date.UTC(y!, m! - 1, d! + 1)).toISOString().slice(0, 10);
@@ -49,10 +49,10 @@ export function unitWindow(sqlite: Database.Database, query: UnitRangeQuery): Un
   // zone never moves the range of an earlier report.
   const versions = loadPolicyVersions(dbOf(sqlite), unit.id);
   const midnight = (date: string) => {
-    const guess = localMidnight(date, unit.time_zone);
+    const guess = localMidnight(date, unit.timeZone);
     const v = versionAt(versions, guess);
-    const zone = v ? resolvePolicy(v.policy).timeZone : unit.time_zone;
-    return zone === unit.time_zone ? guess : localMidnight(date, zone);
+    const zone = v ? resolvePolicy(v.policy).timeZone : unit.timeZone;
+    return zone === unit.timeZone ? guess : localMidnight(date, zone);
   };
   return { unit, fromMs: midnight(query.from), toMs: midnight(next) };
 }
@@ -151,7 +151,7 @@ export function unitReport(ctx: AppContext, query: UnitRangeQuery, actorId: stri
     unitId: w.unit.id,
     from: query.from,
     to: query.to,
-    onTime: onTimeReport(checks, { dayShiftStart: w.unit.day_shift_start, nightShiftStart: w.unit.night_shift_start, timeZone: w.unit.time_zone }),
+    onTime: onTimeReport(checks, { dayShiftStart: w.unit.dayShiftStart, nightShiftStart: w.unit.nightShiftStart, timeZone: w.unit.timeZone }),
     gapRate: gapFlagsPer100(flags.filter((f) => f.kind === 'gap').length, checks.length),
     responseTimes: responseTimesByKind(flags, REPORT_KINDS),
     skinToSkin: skinToSkinDeviationShare(skinToSkinSessions(sqlite, w), new Date(w.fromMs), new Date(Math.max(end, w.fromMs))),
@@ -175,7 +175,7 @@ export function periodFigures(ctx: AppContext, unitId: string, period: DatePerio
   const w = unitWindow(sqlite, { unitId, from: period.from, to: period.to });
   const checks = remoteChecks(sqlite, w);
   const flags = flagTimes(sqlite, w);
-  const on = onTimeReport(checks, { dayShiftStart: w.unit.day_shift_start, nightShiftStart: w.unit.night_shift_start, timeZone: w.unit.time_zone }).overall;
+  const on = onTimeReport(checks, { dayShiftStart: w.unit.dayShiftStart, nightShiftStart: w.unit.nightShiftStart, timeZone: w.unit.timeZone }).overall;
   const gap = gapFlagsPer100(flags.filter((f) => f.kind === 'gap').length, checks.length);
   const all = responseTimes(flags);
   return {
