@@ -1,12 +1,10 @@
 import type { RequestHandler } from 'express';
 import { admitInfantSchema, assignNurseSchema, type AdmitInfant } from '../../shared/schemas/unit';
 import type { AppContext } from '../context';
-import { notFound } from '../errors';
 import { allow, assertUnit, secureRouter } from '../middleware/access';
 import { valid, validate } from '../middleware/validate';
 import { admitInfant, assignNurse, listAssignableNurses } from '../services/admissions';
-import { auditRead } from '../read-audit';
-import { boardBody, boardInfantIds } from '../services/board-cache';
+import { readBoard } from '../services/board-cache';
 
 type UnitParams = { unitId: string };
 
@@ -22,11 +20,7 @@ export function unitBoardRouter(ctx: AppContext) {
   const { sqlite } = ctx.database;
 
   router.get('/units/:unitId/board', allow(ctx, 'chart:read'), unitMember, async (req, res) => {
-    const { unitId } = req.params as UnitParams;
-    const now = ctx.clock.now();
-    const body = boardBody(sqlite, unitId, now);
-    if (body === null) throw notFound('That unit');
-    await auditRead(sqlite, { at: now, actorId: req.auth!.userId, action: 'board-read', entityType: 'unit', entityId: unitId, unitId, after: { infantIds: boardInfantIds(body) } });
+    const body = await readBoard(sqlite, (req.params as UnitParams).unitId, req.auth!.userId, ctx.clock.now());
     body.send(req, res);
   });
 

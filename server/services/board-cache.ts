@@ -3,6 +3,8 @@ import { integer, sqliteTable } from 'drizzle-orm/sqlite-core';
 import { drizzleOf } from '../../db/client';
 import type { BoardResponse } from '../../shared/types/board';
 import { CompressedJson } from '../compressed-body';
+import { notFound } from '../errors';
+import { auditRead } from '../read-audit';
 import { buildBoard } from './board';
 
 /**
@@ -44,7 +46,7 @@ const caches = new WeakMap<Database.Database, Map<string, Cached>>();
 const boardInfants = new WeakMap<CompressedJson, readonly string[]>();
 
 /** The ids of the infants a board from boardBody shows, in bed order. */
-export function boardInfantIds(body: CompressedJson): readonly string[] {
+function boardInfantIds(body: CompressedJson): readonly string[] {
   return boardInfants.get(body) ?? [];
 }
 const versions = new WeakMap<Database.Database, () => string>();
@@ -90,7 +92,7 @@ export function chartDataVersion(sqlite: Database.Database): string {
  * were computed for, so a cached answer is one consistent picture at most a second old; the
  * board screen corrects its clock by it. Null when the unit does not exist.
  */
-export function boardBody(sqlite: Database.Database, unitId: string, now: Date): CompressedJson | null {
+function boardBody(sqlite: Database.Database, unitId: string, now: Date): CompressedJson | null {
   let boards = caches.get(sqlite);
   if (!boards) {
     boards = new Map();
@@ -108,5 +110,13 @@ export function boardBody(sqlite: Database.Database, unitId: string, now: Date):
   const body = new CompressedJson(JSON.stringify(board satisfies BoardResponse));
   boardInfants.set(body, board.beds.flatMap((b) => (b.infant ? [b.infant.id] : [])));
   boards.set(unitId, { version, builtAt: now.getTime(), body });
+  return body;
+}
+
+/** A unit's board for a reader, the read audited (the infants it shows) before it is answered; 404 for no such unit. */
+export async function readBoard(sqlite: Database.Database, unitId: string, actorId: string, now: Date): Promise<CompressedJson> {
+  const body = boardBody(sqlite, unitId, now);
+  if (body === null) throw notFound('That unit');
+  await auditRead(sqlite, { at: now, actorId, action: 'board-read', entityType: 'unit', entityId: unitId, unitId, after: { infantIds: boardInfantIds(body) } });
   return body;
 }
