@@ -169,7 +169,7 @@ export function chainHead(sqlite: Database.Database): { headId: number; headHash
 export function writeCheckpoint(sqlite: Database.Database, settings: CheckpointSettings, reason: string, now = new Date()): Checkpoint | null {
   if (!settings.key) return null;
   // One read transaction, so the head, the count and the first event belong together.
-  const head = sqlite.transaction(() => chainHead(sqlite))();
+  const head = drizzleOf(sqlite).transaction(() => chainHead(sqlite));
   if (!head) return null;
   const { last, endsWithNewline } = tail(settings.file);
   if (last && last.headId === head.headId && last.headHash === head.headHash && last.firstHash === head.firstHash) return null;

@@ -75,6 +75,7 @@ const ROW_PAGE = 2_000;
 export function* chainedRows(sqlite: Database.Database, name: string, table: ChainedTable, versions: readonly number[]): Generator<ChainedRow> {
   const from = SCHEMA_TABLES.get(name);
   if (!from) throw new Error(`the chained table ${name} is not in db/schema.ts`);
+  // sql fragments: the registry names its columns by their SQL names, so they are selected by name.
   const fields: Record<string, SQL> = { rid: rowid, key: keyExpr(table), unit: table.unit ? sql<string | null>`${sql.identifier(table.unit)}` : sql<null>`NULL` };
   for (const v of versions) fields[`c${v}`] = canonicalExpr(table, v);
   const db = drizzleOf(sqlite);
@@ -170,7 +171,7 @@ export function installLedger(sqlite: Database.Database, now = new Date()): void
     for (const op of OPS) sqlite.exec(triggerSql(name, table, version, op));
   }
   installed.set(sqlite, names);
-  sqlite.transaction(() => baseline(sqlite, versions, now)).immediate();
+  drizzleOf(sqlite).transaction(() => baseline(sqlite, versions, now), { behavior: 'immediate' });
 }
 
 /** Tables some `ledger-installed` event already covers. */

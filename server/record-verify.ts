@@ -64,7 +64,7 @@ const rowKey = (table: string, key: string) => `${table}\u0000${key}`;
 export function verifyRecord(sqlite: Database.Database, options: { checkpoints?: CheckpointSettings } = {}): RecordReport {
   // One read transaction: one snapshot of the events and the rows, even beside a running server
   // (a row committed between reading the events and reading the rows would look unrecorded).
-  return sqlite.transaction(() => verifySnapshot(sqlite, options))();
+  return drizzleOf(sqlite).transaction(() => verifySnapshot(sqlite, options));
 }
 
 function verifySnapshot(sqlite: Database.Database, options: { checkpoints?: CheckpointSettings }): RecordReport {

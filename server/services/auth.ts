@@ -31,6 +31,10 @@ export function timingDummy(cost: number): Promise<string> {
   return hash;
 }
 
+// sql fragment: an increment in place, so a concurrent change cannot be lost (Drizzle has no column arithmetic).
+/** `users.session_version + 1`: bumping it ends every token issued before. */
+export const nextSessionVersion = sql<number>`${users.sessionVersion} + 1`;
+
 export function loadSessionUser(ctx: AppContext, userId: string): SessionUser | null {
   const { db } = ctx.database;
   const user = db.select().from(users).where(eq(users.id, userId)).get();
@@ -126,6 +130,7 @@ function prepareSession(db: Db) {
       email: users.email,
       active: users.active,
       userVersion: users.sessionVersion,
+      // sql fragment: only wraps the subquery above as a scalar column.
       unitIds: sql<string | null>`${unitList}`,
     })
     .from(authSessions)
