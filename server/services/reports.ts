@@ -1,5 +1,9 @@
 import { TZDate } from '@date-fns/tz';
 import type Database from 'better-sqlite3';
+import { and, asc, eq, gt, gte, inArray, isNotNull, isNull, lt, min, ne, notExists, or, sql } from 'drizzle-orm';
+import { alias } from 'drizzle-orm/sqlite-core';
+import { drizzleOf } from '../../db/client';
+import { actions, flagEvents, flagResolutions, flags as flagsTable, infants, readings, skinToSkinSessions as sessionsTable } from '../../db/schema';
 import {
   gapFlagsPer100,
   onTimeReport,
@@ -26,6 +30,9 @@ const MINUTE = 60_000;
 
 /** The flag kinds a report counts: the review queue's, plus cold stress and fever. */
 export const REPORT_KINDS: readonly string[] = [...new Set<string>([...REVIEW_KINDS, 'cold-stress', 'fever'])];
+
+/** The stored flag kinds a report counts. */
+const COUNTED_KINDS = flagsTable.kind.enumValues.filter((k) => REPORT_KINDS.includes(k));
 
 export interface UnitWindow {
   unit: UnitRow;
@@ -62,14 +69,24 @@ export function unitWindow(sqlite: Database.Database, query: UnitRangeQuery): Un
  * the infant's previous current check (or admission) plus the unit's check interval.
  */
 export function remoteChecks(sqlite: Database.Database, w: UnitWindow): RemoteCheck[] {
-  const rows = sqlite
-    .prepare(
-      `SELECT r.infant_id, r.taken_at, i.admitted_at FROM readings r JOIN infants i ON i.id = r.infant_id
-        WHERE r.unit_id = ? AND r.remote_centi IS NOT NULL AND r.entered_in_error = 0 AND r.taken_at < ?
-          AND NOT EXISTS (SELECT 1 FROM readings c WHERE c.replaces_id = r.id)
-        ORDER BY r.infant_id, r.taken_at`,
+  const correction = alias(readings, 'correction');
+  const rows = drizzleOf(sqlite)
+    .select({ infantId: readings.infantId, takenAt: readings.takenAt, admittedAt: infants.admittedAt })
+    .from(readings)
+    .innerJoin(infants, eq(infants.id, readings.infantId))
+    // Current versions only: a reading no later row corrects.
+    .leftJoin(correction, eq(correction.replacesId, readings.id))
+    .where(
+      and(
+        eq(readings.unitId, w.unit.id),
+        isNotNull(readings.remoteCenti),
+        eq(readings.enteredInError, false),
+        lt(readings.takenAt, new Date(w.toMs)),
+        isNull(correction.id),
+      ),
     )
-    .all(w.unit.id, w.toMs) as Array<{ infant_id: string; taken_at: number; admitted_at: number }>;
+    .orderBy(asc(readings.infantId), asc(readings.takenAt))
+    .all();
   // Each check is judged by the settings in force at the check before it (its due time) and
   // counted in the shift of the settings in force when it was taken: a change never rewrites
   // an earlier judgement.
@@ -83,60 +100,78 @@ export function remoteChecks(sqlite: Database.Database, w: UnitWindow): RemoteCh
   let infant = '';
   let previous = 0;
   for (const r of rows) {
-    if (r.infant_id !== infant) {
-      infant = r.infant_id;
-      previous = r.admitted_at;
+    const takenMs = r.takenAt.getTime();
+    if (r.infantId !== infant) {
+      infant = r.infantId;
+      previous = r.admittedAt.getTime();
     }
-    if (r.taken_at >= w.fromMs) {
-      const then = at(r.taken_at);
+    if (takenMs >= w.fromMs) {
+      const then = at(takenMs);
       checks.push({
-        takenAt: new Date(r.taken_at),
+        takenAt: r.takenAt,
         dueAt: new Date(previous + at(previous).checkIntervalMinutes * MINUTE),
         times: { dayShiftStart: then.dayShiftStart, nightShiftStart: then.nightShiftStart, timeZone: then.timeZone },
       });
     }
-    previous = r.taken_at;
+    previous = takenMs;
   }
   return checks;
 }
 
 export function flagTimes(sqlite: Database.Database, w: UnitWindow): FlagTimes[] {
-  const rows = sqlite
-    .prepare(
-      `SELECT f.kind, f.raised_at, (SELECT MIN(a.at) FROM actions a WHERE a.flag_id = f.id) AS first_action_at, fr.closed_at
-         FROM flags f LEFT JOIN flag_resolutions fr ON fr.flag_id = f.id
-        WHERE f.unit_id = ? AND f.raised_at >= ? AND f.raised_at < ? AND f.kind IN (${REPORT_KINDS.map((k) => `'${k}'`).join(', ')})
-          AND (fr.how IS NULL OR fr.how <> 'withdrawn')
-          AND NOT EXISTS (SELECT 1 FROM flag_events e WHERE e.flag_id = f.id AND e.event = 'withdrawn')
-          -- a flag reopened later is counted once, as its continuing row
-          AND NOT EXISTS (SELECT 1 FROM flag_events e WHERE e.infant_id = f.infant_id AND e.event = 'reopened' AND json_extract(e.detail, '$.previousFlagId') = f.id)`,
+  const db = drizzleOf(sqlite);
+  const firstActions = db.select({ flagId: actions.flagId, at: min(actions.at).as('first_action_at') }).from(actions).groupBy(actions.flagId).as('first_actions');
+  const withdrawn = db
+    .select({ id: flagEvents.id })
+    .from(flagEvents)
+    .where(and(eq(flagEvents.flagId, flagsTable.id), eq(flagEvents.event, 'withdrawn')));
+  // A flag reopened later is counted once, as its continuing row.
+  const reopened = db
+    .select({ id: flagEvents.id })
+    .from(flagEvents)
+    // sql fragment: the reopened event names the row before it inside its JSON detail, and Drizzle has no JSON path operator for SQLite.
+    .where(and(eq(flagEvents.infantId, flagsTable.infantId), eq(flagEvents.event, 'reopened'), eq(sql`json_extract(${flagEvents.detail}, '$.previousFlagId')`, flagsTable.id)));
+  return db
+    .select({ kind: flagsTable.kind, raisedAt: flagsTable.raisedAt, firstActionAt: firstActions.at, closedAt: flagResolutions.closedAt })
+    .from(flagsTable)
+    .leftJoin(flagResolutions, eq(flagResolutions.flagId, flagsTable.id))
+    .leftJoin(firstActions, eq(firstActions.flagId, flagsTable.id))
+    .where(
+      and(
+        eq(flagsTable.unitId, w.unit.id),
+        gte(flagsTable.raisedAt, new Date(w.fromMs)),
+        lt(flagsTable.raisedAt, new Date(w.toMs)),
+        inArray(flagsTable.kind, COUNTED_KINDS),
+        or(isNull(flagResolutions.how), ne(flagResolutions.how, 'withdrawn')),
+        notExists(withdrawn),
+        notExists(reopened),
+      ),
     )
-    .all(w.unit.id, w.fromMs, w.toMs) as Array<{ kind: string; raised_at: number; first_action_at: number | null; closed_at: number | null }>;
-  return rows.map((r) => ({
-    kind: r.kind,
-    raisedAt: new Date(r.raised_at),
-    firstActionAt: r.first_action_at === null ? null : new Date(r.first_action_at),
-    closedAt: r.closed_at === null ? null : new Date(r.closed_at),
-  }));
+    .all();
 }
 
 function skinToSkinSessions(sqlite: Database.Database, w: UnitWindow): SkinToSkinSession[] {
-  const sessions = sqlite
-    .prepare('SELECT id, started_at, ended_at FROM skin_to_skin_sessions WHERE unit_id = ? AND started_at < ? AND (ended_at IS NULL OR ended_at > ?)')
-    .all(w.unit.id, w.toMs, w.fromMs) as Array<{ id: string; started_at: number; ended_at: number | null }>;
-  const deviations = sqlite
-    .prepare(
-      `SELECT f.detail, f.raised_at, fr.closed_at FROM flags f LEFT JOIN flag_resolutions fr ON fr.flag_id = f.id
-        WHERE f.unit_id = ? AND f.kind = 'skin-to-skin-deviation' AND f.raised_at < ?`,
+  const db = drizzleOf(sqlite);
+  const sessions = db
+    .select({ id: sessionsTable.id, start: sessionsTable.startedAt, end: sessionsTable.endedAt })
+    .from(sessionsTable)
+    .where(
+      and(
+        eq(sessionsTable.unitId, w.unit.id),
+        lt(sessionsTable.startedAt, new Date(w.toMs)),
+        or(isNull(sessionsTable.endedAt), gt(sessionsTable.endedAt, new Date(w.fromMs))),
+      ),
     )
-    .all(w.unit.id, w.toMs) as Array<{ detail: string; raised_at: number; closed_at: number | null }>;
+    .all();
+  const deviations = db
+    .select({ detail: flagsTable.detail, start: flagsTable.raisedAt, end: flagResolutions.closedAt })
+    .from(flagsTable)
+    .leftJoin(flagResolutions, eq(flagResolutions.flagId, flagsTable.id))
+    .where(and(eq(flagsTable.unitId, w.unit.id), eq(flagsTable.kind, 'skin-to-skin-deviation'), lt(flagsTable.raisedAt, new Date(w.toMs))))
+    .all();
   return sessions.map((s) => ({
-    id: s.id,
-    start: new Date(s.started_at),
-    end: s.ended_at === null ? null : new Date(s.ended_at),
-    deviations: deviations
-      .filter((d) => (JSON.parse(d.detail) as { sessionId?: string }).sessionId === s.id)
-      .map((d) => ({ start: new Date(d.raised_at), end: d.closed_at === null ? null : new Date(d.closed_at) })),
+    ...s,
+    deviations: deviations.filter((d) => (JSON.parse(d.detail) as { sessionId?: string }).sessionId === s.id).map((d) => ({ start: d.start, end: d.end })),
   }));
 }
 
