@@ -8,7 +8,7 @@ import type { AppContext } from '../context';
 import { badRequest, conflict, forbidden, notFound } from '../errors';
 import { nextSessionVersion, revokeAllSessions } from './auth';
 import { recordUnitSettingsChange } from './flag-lifecycle';
-import { loadUnitRow, policyForUnit } from './flags';
+import { policyForUnit } from './flags';
 
 type Admin = { userId: string; unitIds: string[] };
 
@@ -95,10 +95,9 @@ export function updateUnitSettings(ctx: AppContext, unitId: string, input: UnitS
   db.transaction(
     (tx) => {
       const before = unitSettingsOf(ctx, unitId);
-      const policyBefore = policyForUnit(loadUnitRow(sqlite, unitId)!);
       if (changed) tx.update(units).set(columns).where(eq(units.id, unitId)).run();
-      const policyAfter = policyForUnit(loadUnitRow(sqlite, unitId)!);
-      recordUnitSettingsChange(sqlite, unitId, policyBefore, policyAfter, admin.userId, ctx.clock.now(), { escalationDelays, recheckSettleMinutes });
+      const after = unitSettingsOf(ctx, unitId);
+      recordUnitSettingsChange(sqlite, unitId, policyForUnit(before), policyForUnit(after), admin.userId, ctx.clock.now(), { escalationDelays, recheckSettleMinutes });
       appendAudit(sqlite, { at: ctx.clock.now(), actorId: admin.userId, action: 'unit-settings', entityType: 'unit', entityId: unitId, unitId, before, after: input });
     },
     { behavior: 'immediate' },
