@@ -221,6 +221,45 @@ describe('bedside charting on a phone', () => {
     await shot(page, 'bedside-skin-to-skin-4-history');
   });
 
+  it('on a flag card a repeated tap stores one action, Undo takes it back, and something else needs its note', async () => {
+    const page = await newPage(browser, PHONE);
+    await signIn(page, ACCOUNTS.nurse);
+    await page.goto(`${BASE_URL}/infants/inf-ashgrove`);
+    const flag = page.getByRole('region', { name: 'Gap flag' });
+    await flag.waitFor();
+    const done = flag.getByRole('listitem').filter({ hasText: /^✓ Checked the heat-reflecting cover/ });
+    const before = await done.count();
+    const posted = () => page.waitForResponse((r) => r.request().method() === 'POST' && /\/api\/flags\/[^/]+\/actions$/.test(new URL(r.url()).pathname));
+    const cover = flag.getByRole('button', { name: 'Checked the heat-reflecting cover' });
+    let answer = posted();
+    await cover.click();
+    assert.equal((await answer).status(), 201);
+    await done.nth(before).waitFor();
+    // The same tap again a moment later: the server answers with the stored action, nothing new.
+    answer = posted();
+    await cover.click();
+    assert.equal((await answer).status(), 200);
+    await page.waitForLoadState('networkidle');
+    assert.equal(await done.count(), before + 1);
+
+    await done.nth(before).getByRole('button', { name: 'Undo' }).click();
+    await page.waitForFunction((n) => [...document.querySelectorAll('[role="listitem"]')].filter((e) => e.textContent?.startsWith('✓ Checked the heat-reflecting cover')).length === n, before);
+    await flag.getByRole('button', { name: 'Show history' }).click();
+    await flag.getByRole('list', { name: 'History' }).getByText(/Action undone \(entered in error\): Checked the heat-reflecting cover/).first().waitFor();
+
+    await flag.getByRole('button', { name: 'Something else (see note)' }).click();
+    const note = flag.getByLabel('What did you do?');
+    await note.waitFor();
+    await flag.getByRole('button', { name: 'Save action' }).click();
+    await flag.getByText('Say what you did.').waitFor();
+    await note.fill('Moved the cot away from the window.');
+    await flag.getByRole('button', { name: 'Save action' }).click();
+    await flag.getByText(/^✓ Something else: Moved the cot away from the window\./).waitFor();
+    await flag.scrollIntoViewIfNeeded();
+    await shot(page, 'bedside-flag-something-else');
+    await page.context().close();
+  });
+
   it('my infants, the flowsheet and the record form on a wide screen', async () => {
     const page = await newPage(browser, WIDE);
     await signIn(page, ACCOUNTS.nurse);
