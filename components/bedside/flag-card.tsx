@@ -12,7 +12,7 @@ import { StatusBadge, type StatusTone } from '@/components/ui/status-badge';
 import type { IconName } from '@/components/ui/icon';
 import { Text } from '@/components/ui/text';
 import { TextField } from '@/components/ui/text-field';
-import { ACTION_LABELS, type ActionKind } from '@/shared/vocabulary';
+import { ACTION_LABELS, FLAG_CLOSED_HOW_LABELS, type ActionKind } from '@/shared/vocabulary';
 import { BAND_LABELS } from '@/shared/thermal/bands';
 import type { FlagKind } from '@/shared/thermal/evaluate';
 import { HEAT_STRESS_CHECKLIST, HEAT_STRESS_SIGN_LABELS, type HeatStressReason } from '@/shared/thermal/heat-stress';
@@ -299,7 +299,7 @@ export function ClosedFlags({ sheet }: { sheet: Flowsheet }) {
               {FLAG_LABELS[f.kind]} withdrawn{f.closedAt ? ` ${clockTime(f.closedAt, tz, user.clock)}` : ''}: {f.withdrawn?.reason === 'late-entry-on-time' ? 'the check was charted late but taken on time' : 'a correction showed it should not have been raised'}
             </Text>
           ) : (
-            <StatusBadge tone="ok" icon="check" label={`${FLAG_LABELS[f.kind]} closed${f.closedAt ? ` ${clockTime(f.closedAt, tz, user.clock)}` : ''}`} />
+            <StatusBadge tone="ok" icon="check" label={`${FLAG_LABELS[f.kind]} closed${f.closedAt ? ` ${clockTime(f.closedAt, tz, user.clock)}` : ''}${f.how && FLAG_CLOSED_HOW_LABELS[f.how] ? ` ${FLAG_CLOSED_HOW_LABELS[f.how]}` : ''}`} />
           )}
           <Text variant="caption" tone="muted">
             Raised {clockTime(f.raisedAt, tz, user.clock)} · {f.actions.map(actionWords).join(', ') || 'no actions recorded'}
