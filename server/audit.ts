@@ -1,8 +1,9 @@
 import { createHash } from 'node:crypto';
 import type Database from 'better-sqlite3';
 import { desc, gt, sql } from 'drizzle-orm';
-import { drizzleOf, type Db } from '../db/client';
+import { drizzleOf } from '../db/client';
 import { auditEvents } from '../db/schema';
+import { perConnection } from './services/prepared-queries';
 
 export const GENESIS_HASH = '0'.repeat(64);
 
@@ -28,40 +29,29 @@ export function auditHash(prevHash: string, e: { at: number; actorId: string | n
 /** An audit event as stored. */
 export type AuditEventRow = typeof auditEvents.$inferSelect;
 
-function prepareAppend(db: Db) {
-  return {
-    head: db.select({ hash: auditEvents.hash }).from(auditEvents).orderBy(desc(auditEvents.id)).limit(1).prepare(),
-    insert: db
-      .insert(auditEvents)
-      .values({
-        at: sql.placeholder('at'),
-        actorId: sql.placeholder('actorId'),
-        action: sql.placeholder('action'),
-        entityType: sql.placeholder('entityType'),
-        entityId: sql.placeholder('entityId'),
-        unitId: sql.placeholder('unitId'),
-        before: sql.placeholder('before'),
-        after: sql.placeholder('after'),
-        prevHash: sql.placeholder('prevHash'),
-        hash: sql.placeholder('hash'),
-      })
-      .prepare(),
-  };
-}
-
 // Prepared once per connection: every write and every chart read appends (bench: durable writes ≥ 200/s, board and flowsheet ≥ 50 % of /api/ping).
-const appendStatements = new WeakMap<Db, ReturnType<typeof prepareAppend>>();
-
-function appendStatementsOf(sqlite: Database.Database) {
-  const db = drizzleOf(sqlite);
-  let st = appendStatements.get(db);
-  if (!st) appendStatements.set(db, (st = prepareAppend(db)));
-  return st;
-}
+const appendStatements = perConnection((db) => ({
+  head: db.select({ hash: auditEvents.hash }).from(auditEvents).orderBy(desc(auditEvents.id)).limit(1).prepare(),
+  insert: db
+    .insert(auditEvents)
+    .values({
+      at: sql.placeholder('at'),
+      actorId: sql.placeholder('actorId'),
+      action: sql.placeholder('action'),
+      entityType: sql.placeholder('entityType'),
+      entityId: sql.placeholder('entityId'),
+      unitId: sql.placeholder('unitId'),
+      before: sql.placeholder('before'),
+      after: sql.placeholder('after'),
+      prevHash: sql.placeholder('prevHash'),
+      hash: sql.placeholder('hash'),
+    })
+    .prepare(),
+}));
 
 /** The hash of the chain's last event (the genesis hash when there is none). */
 export function headHash(sqlite: Database.Database): string {
-  return appendStatementsOf(sqlite).head.get()?.hash ?? GENESIS_HASH;
+  return appendStatements(sqlite).head.get()?.hash ?? GENESIS_HASH;
 }
 
 /**
@@ -69,7 +59,7 @@ export function headHash(sqlite: Database.Database): string {
  * so the change and its audit event are stored together or not at all.
  */
 export function appendAudit(sqlite: Database.Database, input: AuditInput): void {
-  const st = appendStatementsOf(sqlite);
+  const st = appendStatements(sqlite);
   const prevHash = st.head.get()?.hash ?? GENESIS_HASH;
   const row = {
     at: input.at.getTime(),

@@ -1,11 +1,11 @@
 import { eq, sql } from 'drizzle-orm';
-import type { Db } from '../../db/client';
 import { beds, escalations, flags, infants, readings, reviews, skinToSkinSessions, units } from '../../db/schema';
 import { Router, type NextFunction, type Request, type RequestHandler, type Response } from 'express';
 import { can, type Permission } from '../../shared/roles';
 import type { AppContext } from '../context';
 import { forbidden, notFound, unauthorized } from '../errors';
 import { assertManageable } from '../services/admin-users';
+import { perConnection } from '../services/prepared-queries';
 import { verifyToken } from '../services/auth';
 import { bodyTypeCheck } from './validate';
 
@@ -46,20 +46,14 @@ const ENTITY_BY_PATH: Array<[RegExp, UnitScoped, string]> = [
   [/\/reviews\/:id(\/|$)/, 'reviews', 'review'],
 ];
 
-function prepareUnitOf(db: Db, name: UnitScoped) {
-  const table = UNIT_SCOPED[name];
-  return db.select({ unitId: table.unitId }).from(table).where(eq(table.id, sql.placeholder('id'))).prepare();
-}
-
-// Prepared once per connection and table: the unit of a record named in the path is read before every such request (bench: 72-h flowsheet ≥ 50 % of /api/ping).
-const unitQueries = new WeakMap<Db, Map<UnitScoped, ReturnType<typeof prepareUnitOf>>>();
-function unitOf(db: Db, name: UnitScoped, id: string): { unitId: string } | undefined {
-  let byTable = unitQueries.get(db);
-  if (!byTable) unitQueries.set(db, (byTable = new Map()));
-  let query = byTable.get(name);
-  if (!query) byTable.set(name, (query = prepareUnitOf(db, name)));
-  return query.get({ id });
-}
+// Prepared once per connection: the unit of a record named in the path is read before every such request (bench: 72-h flowsheet ≥ 50 % of /api/ping).
+const unitQueries = perConnection((db) => {
+  const unitOf = (name: UnitScoped) => {
+    const table = UNIT_SCOPED[name];
+    return db.select({ unitId: table.unitId }).from(table).where(eq(table.id, sql.placeholder('id'))).prepare();
+  };
+  return new Map((Object.keys(UNIT_SCOPED) as UnitScoped[]).map((name) => [name, unitOf(name)]));
+});
 
 /**
  * Resolve the unit a route's record belongs to from its path parameters and refuse another
@@ -69,7 +63,7 @@ function unitOf(db: Db, name: UnitScoped, id: string): { unitId: string } | unde
 export function checkUnitScope(ctx: AppContext, req: Request): void {
   const auth = req.auth!;
   const params = (req.params ?? {}) as Record<string, string>;
-  const { db } = ctx.database;
+  const { db, sqlite } = ctx.database;
   const assertMember = (unitId: string) => {
     if (auth.unitIds.includes(unitId)) return;
     if (!db.select({ id: units.id }).from(units).where(eq(units.id, unitId)).get()) throw notFound('That unit');
@@ -78,16 +72,16 @@ export function checkUnitScope(ctx: AppContext, req: Request): void {
   if (typeof params.unitId === 'string') return assertMember(params.unitId);
   const pattern = `${req.baseUrl}${(req.route as { path?: string } | undefined)?.path ?? ''}`;
   if (typeof params.id === 'string' && /\/units\/:id(\/|$)/.test(pattern)) return assertMember(params.id);
-  if (typeof params.flagId === 'string') return assertRowUnit(db, auth.unitIds, 'flags', params.flagId, 'flag');
+  if (typeof params.flagId === 'string') return assertRowUnit(sqlite, auth.unitIds, 'flags', params.flagId, 'flag');
   if (typeof params.id !== 'string') return;
   // A person is changed only by an administrator of every unit they work in (see assertManageable).
   if (/\/users\/:id(\/|$)/.test(pattern)) return assertManageable(ctx.database, params.id, auth.unitIds);
   const entry = ENTITY_BY_PATH.find(([re]) => re.test(pattern));
-  if (entry) assertRowUnit(db, auth.unitIds, entry[1], params.id, entry[2]);
+  if (entry) assertRowUnit(sqlite, auth.unitIds, entry[1], params.id, entry[2]);
 }
 
-function assertRowUnit(db: Db, unitIds: string[], table: UnitScoped, id: string, what: string): void {
-  const row = unitOf(db, table, id);
+function assertRowUnit(sqlite: AppContext['database']['sqlite'], unitIds: string[], table: UnitScoped, id: string, what: string): void {
+  const row = unitQueries(sqlite).get(table)!.get({ id });
   if (!row) throw notFound(`That ${what}`);
   if (!unitIds.includes(row.unitId)) throw forbidden('This record belongs to a unit you are not part of.');
 }

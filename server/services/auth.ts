@@ -1,7 +1,6 @@
 import { and, eq, gt, sql } from 'drizzle-orm';
 import jwt from 'jsonwebtoken';
 import { createSecretKey, randomUUID, type KeyObject } from 'node:crypto';
-import type { Db } from '../../db/client';
 import { authSessions, units as unitsTable, userUnits, users } from '../../db/schema';
 import type { PreferencesInput, SessionUser } from '../../shared/schemas/auth';
 import { appendAudit } from '../audit';
@@ -11,6 +10,7 @@ import { ApiError, badRequest, unauthorized } from '../errors';
 import type { AuthContext } from '../types';
 import { hashPassword, verifyPassword } from './password-hash';
 import { assertPasswordAllowed } from './passwords';
+import { perConnection } from './prepared-queries';
 import { deviceFromCookies, issueDeviceCookie, passwordCheckBudget, recordAttempt, signInBudget } from './sign-in-throttle';
 
 export { hashPassword, verifyPassword } from './password-hash';
@@ -114,7 +114,8 @@ function secretKey(secret: string): KeyObject {
   return key;
 }
 
-function prepareSession(db: Db) {
+// Prepared once per connection: the session, its user and their units are read on every signed-in request (bench: unit board and 72-h flowsheet ≥ 50 % of /api/ping).
+const sessionQuery = perConnection((db) => {
   // sql fragment: group_concat has no Drizzle helper; the user's units come in the same query as the session.
   const unitList = db.select({ ids: sql<string>`group_concat(${userUnits.unitId}, char(31))` }).from(userUnits).where(eq(userUnits.userId, users.id));
   return db
@@ -137,15 +138,7 @@ function prepareSession(db: Db) {
     .innerJoin(users, eq(users.id, authSessions.userId))
     .where(eq(authSessions.id, sql.placeholder('id')))
     .prepare();
-}
-
-// Prepared once per connection: the session, its user and their units are read on every signed-in request (bench: unit board and 72-h flowsheet ≥ 50 % of /api/ping).
-const sessionQueries = new WeakMap<Db, ReturnType<typeof prepareSession>>();
-function sessionQuery(db: Db) {
-  let query = sessionQueries.get(db);
-  if (!query) sessionQueries.set(db, (query = prepareSession(db)));
-  return query;
-}
+});
 
 /**
  * Tokens whose signature this app has already checked, with their claims: a phone sends the same
@@ -185,7 +178,7 @@ export function verifyToken(ctx: AppContext, token: string): AuthContext {
   }
   const now = ctx.clock.now();
   const { db } = ctx.database;
-  const row = sessionQuery(db).get({ id: claims.jti });
+  const row = sessionQuery(ctx.database.sqlite).get({ id: claims.jti });
   if (!row || row.userId !== claims.sub || row.revokedAt !== null) throw unauthorized('Your session has ended. Please sign in again.');
   if (now.getTime() > row.expiresAt.getTime()) throw unauthorized('Your session reached its 12-hour limit. Please sign in again.');
   const idle = now.getTime() - row.lastSeenAt.getTime();
