@@ -9,7 +9,7 @@
  */
 import { randomUUID } from 'node:crypto';
 import type Database from 'better-sqlite3';
-import { insertReading } from '../server/services/bedside';
+import { insertReading, type NewReading } from '../server/services/bedside';
 import { loadInfantState, loadUnitRow, policyForUnit, primeRuleReadings, syncFlags, type SyncResult, type SyncWindow } from '../server/services/flags';
 import { evaluateInfant } from '../shared/thermal';
 
@@ -108,7 +108,7 @@ export function checkRestartPoints(
     const kind = rand();
     const remote = 3700 + Math.round((rand() - 0.5) * 60);
     const manual = kind > 0.9;
-    const row = {
+    const row: NewReading = {
       id: randomUUID(),
       infantId,
       unitId: seed.unitId,

@@ -3,23 +3,19 @@ import type { AppContext } from '../context';
 import { allow, assertUnit, secureRouter } from '../middleware/access';
 import { valid, validate } from '../middleware/validate';
 import { auditListRead, auditRead } from '../read-audit';
-import { loadInfant } from '../services/admissions';
+import { loadInfantFor } from '../services/infants';
 import { bulkAssign, currentPlan, unitPlans, writePlan } from '../services/shift-work';
 
 /** Shift change: the handover plan per infant and the assignment of every nurse's infants in one step. */
 export function shiftWorkRouter(ctx: AppContext) {
   const router = secureRouter();
 
-  const infantFor = (req: Parameters<typeof assertUnit>[0]) => {
-    const infant = loadInfant(ctx, (req.params as { id: string }).id);
-    assertUnit(req, infant.unit_id);
-    return infant;
-  };
+  const infantFor = (req: Parameters<typeof assertUnit>[0]) => loadInfantFor(ctx.database.sqlite, req.auth!, (req.params as { id: string }).id);
 
   router.get('/infants/:id/handover-plan', allow(ctx, 'chart:read'), async (req, res) => {
     const infant = infantFor(req);
     const plan = currentPlan(ctx, infant);
-    if (plan) await auditRead(ctx.database.sqlite, { at: ctx.clock.now(), actorId: req.auth!.userId, action: 'chart-read', entityType: 'infant', entityId: infant.id, unitId: infant.unit_id, after: { view: 'handover-plan' } });
+    if (plan) await auditRead(ctx.database.sqlite, { at: ctx.clock.now(), actorId: req.auth!.userId, action: 'chart-read', entityType: 'infant', entityId: infant.id, unitId: infant.unitId, after: { view: 'handover-plan' } });
     res.json({ plan });
   });
 

@@ -1,45 +1,36 @@
 import { randomUUID } from 'node:crypto';
-import { and, asc, eq, isNull } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray, isNotNull, isNull, sql } from 'drizzle-orm';
 import { writeTx } from '../../db/client';
-import type { AdmitInfant, AssignNurseInput, UpdateInfantInput } from '../../shared/schemas/unit';
+import type { z } from 'zod';
+import type { AdmitInfant, AssignNurseInput, updateInfantSchema, DischargeInfant } from '../../shared/schemas/unit';
 import { nextShift, shiftAt, type ShiftSlot } from '../../shared/shifts';
 import { toCentiCelsius } from '../../shared/thermal';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { badRequest, conflict, notFound } from '../errors';
-import { flagResolutions, flags, infants, readings } from '../../db/schema';
-import type { DischargeInfant } from '../../shared/schemas/unit';
+import { assignments, beds, flagResolutions, flags, infants, readings, userUnits, users } from '../../db/schema';
 import { appendFlagEvent } from './flag-lifecycle';
 import { refreshPlacement } from './placement';
 import { recordBedStay } from './bed-stays';
 import { endWarmingOnAdmission } from './bed-warming';
 import { loadUnitRow, syncFlags } from './flags';
-
-export interface InfantRow {
-  id: string;
-  unit_id: string;
-  bed_id: string | null;
-  display_name: string;
-  heat_source: string;
-  weight_grams: number;
-  status: 'admitted' | 'discharged';
-}
-
-export function loadInfant(ctx: AppContext, infantId: string): InfantRow {
-  const row = ctx.database.sqlite
-    .prepare('SELECT id, unit_id, bed_id, display_name, heat_source, weight_grams, status FROM infants WHERE id = ?')
-    .get(infantId) as InfantRow | undefined;
-  if (!row) throw notFound('That infant');
-  return row;
-}
+import type { Infant } from './infants';
 
 /** A bed that is active, in the unit and has no admitted infant on it; otherwise a 400 or 409 naming `bedId`. */
 function requireEmptyBed(ctx: AppContext, unitId: string, bedId: string): { id: string; label: string } {
-  const { sqlite } = ctx.database;
-  const bed = sqlite.prepare('SELECT id, label FROM beds WHERE id = ? AND unit_id = ? AND active = 1').get(bedId, unitId) as { id: string; label: string } | undefined;
+  const { db } = ctx.database;
+  const bed = db
+    .select({ id: beds.id, label: beds.label })
+    .from(beds)
+    .where(and(eq(beds.id, bedId), eq(beds.unitId, unitId), eq(beds.active, true)))
+    .get();
   if (!bed) throw badRequest('Choose a bed in this unit.', { bedId: 'This bed is not in this unit.' });
-  const occupant = sqlite.prepare("SELECT display_name FROM infants WHERE bed_id = ? AND status = 'admitted'").get(bedId) as { display_name: string } | undefined;
-  if (occupant) throw conflict(`Bed ${bed.label} is taken.`, { bedId: `Bed ${bed.label} already has ${occupant.display_name}.` });
+  const occupant = db
+    .select({ displayName: infants.displayName })
+    .from(infants)
+    .where(and(eq(infants.bedId, bedId), eq(infants.status, 'admitted')))
+    .get();
+  if (occupant) throw conflict(`Bed ${bed.label} is taken.`, { bedId: `Bed ${bed.label} already has ${occupant.displayName}.` });
   return bed;
 }
 
@@ -56,9 +47,20 @@ export function admitInfant(ctx: AppContext, unitId: string, input: AdmitInfant,
     ctx.database.db
       .insert(infants)
       .values({
-        id, unitId, bedId: bed.id, displayName: input.displayName, birthAt: new Date(Date.parse(input.birthAt)), gestationWeeks: input.gestationWeeks, gestationDays: input.gestationDays,
-        birthWeightGrams: input.birthWeightGrams, weightGrams: input.birthWeightGrams, heatSource: input.heatSource, status: 'admitted', admittedAt: now,
-        hospitalNumber: input.hospitalNumber ?? null, sex: input.sex ?? null,
+        id,
+        unitId,
+        bedId: bed.id,
+        displayName: input.displayName,
+        birthAt: new Date(Date.parse(input.birthAt)),
+        gestationWeeks: input.gestationWeeks,
+        gestationDays: input.gestationDays,
+        birthWeightGrams: input.birthWeightGrams,
+        weightGrams: input.birthWeightGrams,
+        heatSource: input.heatSource,
+        status: 'admitted',
+        admittedAt: now,
+        hospitalNumber: input.hospitalNumber ?? null,
+        sex: input.sex ?? null,
       })
       .run();
     recordBedStay(ctx.database.db, { id: randomUUID(), infantId: id, unitId, bedId: bed.id, event: 'admitted', at: now, recordedBy: actorId });
@@ -70,9 +72,20 @@ export function admitInfant(ctx: AppContext, unitId: string, input: AdmitInfant,
     ctx.database.db
       .insert(readings)
       .values({
-        id: readingId, infantId: id, unitId, takenAt: now, recordedAt: now, recordedBy: actorId, setCenti, controlMode: input.controlMode, heatSigns: '[]',
-        note: 'Settings on admission.', enteredUnit: input.tempUnit,
-        probeSite: input.probeSite ?? null, probeCovered: input.probeCovered ?? null, infantPosition: input.position ?? null,
+        id: readingId,
+        infantId: id,
+        unitId,
+        takenAt: now,
+        recordedAt: now,
+        recordedBy: actorId,
+        setCenti,
+        controlMode: input.controlMode,
+        heatSigns: '[]',
+        note: 'Settings on admission.',
+        enteredUnit: input.tempUnit,
+        probeSite: input.probeSite ?? null,
+        probeCovered: input.probeCovered ?? null,
+        infantPosition: input.position ?? null,
       })
       .run();
     refreshPlacement(sqlite, id, unitId, now);
@@ -90,37 +103,52 @@ export function admitInfant(ctx: AppContext, unitId: string, input: AdmitInfant,
   });
 }
 
-export function moveInfant(ctx: AppContext, infant: InfantRow, bedId: string, actorId: string): { bedId: string; bedLabel: string } {
+export function moveInfant(ctx: AppContext, infant: Infant, bedId: string, actorId: string): { bedId: string; bedLabel: string } {
   const { sqlite } = ctx.database;
   const now = ctx.clock.now();
   if (infant.status !== 'admitted') throw conflict('This infant has been discharged.');
   return writeTx(sqlite, () => {
-    const bed = requireEmptyBed(ctx, infant.unit_id, bedId);
-    sqlite.prepare('UPDATE infants SET bed_id = ? WHERE id = ?').run(bed.id, infant.id);
-    recordBedStay(ctx.database.db, { id: randomUUID(), infantId: infant.id, unitId: infant.unit_id, bedId: bed.id, event: 'moved', at: now, recordedBy: actorId });
-    appendAudit(sqlite, { at: now, actorId, action: 'infant-moved', entityType: 'infant', entityId: infant.id, unitId: infant.unit_id, before: { bedId: infant.bed_id }, after: { bedId: bed.id } });
+    const bed = requireEmptyBed(ctx, infant.unitId, bedId);
+    ctx.database.db.update(infants).set({ bedId: bed.id }).where(eq(infants.id, infant.id)).run();
+    recordBedStay(ctx.database.db, { id: randomUUID(), infantId: infant.id, unitId: infant.unitId, bedId: bed.id, event: 'moved', at: now, recordedBy: actorId });
+    appendAudit(sqlite, {
+      at: now,
+      actorId,
+      action: 'infant-moved',
+      entityType: 'infant',
+      entityId: infant.id,
+      unitId: infant.unitId,
+      before: { bedId: infant.bedId },
+      after: { bedId: bed.id },
+    });
     return { bedId: bed.id, bedLabel: bed.label };
   });
 }
 
-export function updateInfant(ctx: AppContext, infant: InfantRow, input: UpdateInfantInput & { weightGrams?: number }, actorId: string): void {
+export function updateInfant(
+  ctx: AppContext,
+  infant: Infant,
+  input: z.output<typeof updateInfantSchema>,
+  actorId: string,
+): { id: string; heatSource: Infant['heatSource']; weightGrams: number } {
   const { sqlite } = ctx.database;
   const now = ctx.clock.now();
   if (infant.status !== 'admitted') throw conflict('This infant has been discharged.');
-  const after = { heatSource: input.heatSource ?? infant.heat_source, weightGrams: input.weightGrams ?? infant.weight_grams };
+  const after = { heatSource: input.heatSource ?? infant.heatSource, weightGrams: input.weightGrams ?? infant.weightGrams };
   writeTx(sqlite, () => {
-    sqlite.prepare('UPDATE infants SET heat_source = ?, weight_grams = ? WHERE id = ?').run(after.heatSource, after.weightGrams, infant.id);
+    ctx.database.db.update(infants).set(after).where(eq(infants.id, infant.id)).run();
     appendAudit(sqlite, {
       at: now,
       actorId,
       action: 'infant-updated',
       entityType: 'infant',
       entityId: infant.id,
-      unitId: infant.unit_id,
-      before: { heatSource: infant.heat_source, weightGrams: infant.weight_grams },
+      unitId: infant.unitId,
+      before: { heatSource: infant.heatSource, weightGrams: infant.weightGrams },
       after,
     });
   });
+  return { id: infant.id, ...after };
 }
 
 /**
@@ -131,10 +159,10 @@ export function updateInfant(ctx: AppContext, infant: InfantRow, input: UpdateIn
  */
 export function dischargeInfant(
   ctx: AppContext,
-  infant: InfantRow,
+  infant: Infant,
   input: DischargeInfant,
   actorId: string,
-): { closedFlags: number; closed: Array<{ id: string; kind: string }>; discharge: { at: string; reason: string; destination: string | null } } {
+): { closedFlags: number; closed: { id: string; kind: string }[]; discharge: { at: string; reason: string; destination: string | null } } {
   const { sqlite, db } = ctx.database;
   const now = ctx.clock.now();
   if (infant.status !== 'admitted') throw conflict('This infant has already been discharged.');
@@ -146,7 +174,7 @@ export function dischargeInfant(
       .set({ status: 'discharged', dischargedAt: now, bedId: null, dischargeReason: input.reason, dischargeDestination: destination, dischargeNote: input.note?.trim() || null })
       .where(eq(infants.id, infant.id))
       .run();
-    recordBedStay(ctx.database.db, { id: randomUUID(), infantId: infant.id, unitId: infant.unit_id, bedId: null, event: 'discharged', at: now, recordedBy: actorId });
+    recordBedStay(ctx.database.db, { id: randomUUID(), infantId: infant.id, unitId: infant.unitId, bedId: null, event: 'discharged', at: now, recordedBy: actorId });
     const open = db
       .select({ id: flags.id, key: flags.key, kind: flags.kind })
       .from(flags)
@@ -159,14 +187,22 @@ export function dischargeInfant(
       appendFlagEvent(db, {
         flagId: f.id,
         infantId: infant.id,
-        unitId: infant.unit_id,
+        unitId: infant.unitId,
         event: 'closed',
         at: now,
         actorId,
         detail: { how: 'discharged', reason: 'discharged', dischargeReason: input.reason },
         now,
       });
-      appendAudit(sqlite, { at: now, actorId, action: 'flag-closed', entityType: 'flag', entityId: f.id, unitId: infant.unit_id, after: { key: f.key, how: 'discharged', reason: 'discharged' } });
+      appendAudit(sqlite, {
+        at: now,
+        actorId,
+        action: 'flag-closed',
+        entityType: 'flag',
+        entityId: f.id,
+        unitId: infant.unitId,
+        after: { key: f.key, how: 'discharged', reason: 'discharged' },
+      });
     }
     appendAudit(sqlite, {
       at: now,
@@ -174,8 +210,8 @@ export function dischargeInfant(
       action: 'infant-discharged',
       entityType: 'infant',
       entityId: infant.id,
-      unitId: infant.unit_id,
-      before: { status: 'admitted', bedId: infant.bed_id },
+      unitId: infant.unitId,
+      before: { status: 'admitted', bedId: infant.bedId },
       after: { status: 'discharged', reason: input.reason, destination, note: input.note ?? null, closedFlagIds: open.map((f) => f.id) },
     });
     return {
@@ -194,13 +230,19 @@ export function shiftSlot(ctx: AppContext, unitId: string, which: 'current' | 'n
   return which === 'next' ? nextShift(current, times) : current;
 }
 
-export function listAssignableNurses(ctx: AppContext, unitId: string): Array<{ id: string; name: string; role: string }> {
-  return ctx.database.sqlite
-    .prepare(
-      `SELECT u.id, u.name, u.role FROM users u JOIN user_units m ON m.user_id = u.id
-        WHERE m.unit_id = ? AND u.active = 1 AND u.password_hash IS NOT NULL AND u.role IN ('nurse', 'charge') ORDER BY u.name`,
-    )
-    .all(unitId) as Array<{ id: string; name: string; role: string }>;
+/** Who can be assigned infants in the unit: its active nurses and charge nurses who have signed in (a password set). */
+function assignable(unitId: string) {
+  return and(eq(userUnits.unitId, unitId), eq(users.active, true), isNotNull(users.passwordHash), inArray(users.role, ['nurse', 'charge']));
+}
+
+export function listAssignableNurses(ctx: AppContext, unitId: string): { id: string; name: string; role: string }[] {
+  return ctx.database.db
+    .select({ id: users.id, name: users.name, role: users.role })
+    .from(users)
+    .innerJoin(userUnits, eq(userUnits.userId, users.id))
+    .where(assignable(unitId))
+    .orderBy(asc(users.name))
+    .all();
 }
 
 /** A new assignment row for the shift; the latest row for (infant, shift) is the one that counts. */
@@ -209,22 +251,32 @@ export function assignNurse(ctx: AppContext, unitId: string, input: Required<Ass
   const now = ctx.clock.now();
   const slot = shiftSlot(ctx, unitId, input.shift);
   return writeTx(sqlite, () => {
-    const infant = sqlite.prepare("SELECT id FROM infants WHERE id = ? AND unit_id = ? AND status = 'admitted'").get(input.infantId, unitId);
+    const { db } = ctx.database;
+    const infant = db
+      .select({ id: infants.id })
+      .from(infants)
+      .where(and(eq(infants.id, input.infantId), eq(infants.unitId, unitId), eq(infants.status, 'admitted')))
+      .get();
     if (!infant) throw badRequest('Choose an infant admitted to this unit.', { infantId: 'No infant with this id is admitted to this unit.' });
-    const nurse = sqlite
-      .prepare(
-        `SELECT u.id, u.name FROM users u JOIN user_units m ON m.user_id = u.id
-          WHERE u.id = ? AND m.unit_id = ? AND u.active = 1 AND u.password_hash IS NOT NULL AND u.role IN ('nurse', 'charge')`,
-      )
-      .get(input.nurseId, unitId) as { id: string; name: string } | undefined;
+    const nurse = db
+      .select({ id: users.id, name: users.name })
+      .from(users)
+      .innerJoin(userUnits, eq(userUnits.userId, users.id))
+      .where(and(eq(users.id, input.nurseId), assignable(unitId)))
+      .get();
     if (!nurse) throw badRequest('Choose a nurse of this unit.', { nurseId: 'This person is not a nurse of this unit.' });
-    const before = sqlite
-      .prepare('SELECT nurse_id FROM assignments WHERE infant_id = ? AND shift_date = ? AND shift = ? ORDER BY created_at DESC, rowid DESC LIMIT 1')
-      .get(input.infantId, slot.shiftDate, slot.shift) as { nurse_id: string } | undefined;
+    const before = db
+      .select({ nurseId: assignments.nurseId })
+      .from(assignments)
+      .where(and(eq(assignments.infantId, input.infantId), eq(assignments.shiftDate, slot.shiftDate), eq(assignments.shift, slot.shift)))
+      // sql fragment: the insertion order breaks a tie of created_at (two rows in one millisecond), and rowid is not a schema column.
+      .orderBy(desc(assignments.createdAt), desc(sql`${assignments}.rowid`))
+      .limit(1)
+      .get();
     const id = randomUUID();
-    sqlite
-      .prepare('INSERT INTO assignments (id, unit_id, infant_id, nurse_id, shift_date, shift, created_by, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?)')
-      .run(id, unitId, input.infantId, nurse.id, slot.shiftDate, slot.shift, actorId, now.getTime());
+    db.insert(assignments)
+      .values({ id, unitId, infantId: input.infantId, nurseId: nurse.id, shiftDate: slot.shiftDate, shift: slot.shift, createdBy: actorId, createdAt: now })
+      .run();
     appendAudit(sqlite, {
       at: now,
       actorId,
@@ -232,7 +284,7 @@ export function assignNurse(ctx: AppContext, unitId: string, input: Required<Ass
       entityType: 'assignment',
       entityId: id,
       unitId,
-      before: before ? { nurseId: before.nurse_id } : null,
+      before: before ? { nurseId: before.nurseId } : null,
       after: { infantId: input.infantId, nurseId: nurse.id, shiftDate: slot.shiftDate, shift: slot.shift },
     });
     return {

@@ -7,7 +7,7 @@
  * charted by clinical time; the prompt is shared/thermal/placement.ts's on the result.
  */
 import type Database from 'better-sqlite3';
-import { and, eq, inArray, isNotNull, isNull, notExists, or, sql } from 'drizzle-orm';
+import { and, eq, inArray, isNotNull, isNull, notExists, or } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/sqlite-core';
 import { drizzleOf } from '../../db/client';
 import { actions, actionUndos, infantPlacements, placementChanges, readings } from '../../db/schema';
@@ -16,6 +16,7 @@ import { placementPrompt, placementPromptWords, type Placement } from '../../sha
 import type { CurrentPlacement } from '../../shared/types/bedside';
 import { appendAudit } from '../audit';
 import { badRequest, conflict } from '../errors';
+import type { Infant } from './infants';
 
 interface Charted extends Placement {
   at: number;
@@ -35,12 +36,18 @@ function chartedPlacements(sqlite: Database.Database, infantId: string): Charted
         eq(readings.infantId, infantId),
         eq(readings.enteredInError, false),
         or(isNotNull(readings.probeSite), isNotNull(readings.probeCovered), isNotNull(readings.infantPosition)),
-        notExists(db.select({ one: sql`1` }).from(newer).where(eq(newer.replacesId, readings.id))),
+        notExists(db.select({ id: newer.id }).from(newer).where(eq(newer.replacesId, readings.id))),
       ),
     )
     .all();
   const fromChanges = db
-    .select({ at: placementChanges.at, written: placementChanges.createdAt, probeSite: placementChanges.probeSite, probeCovered: placementChanges.probeCovered, position: placementChanges.infantPosition })
+    .select({
+      at: placementChanges.at,
+      written: placementChanges.createdAt,
+      probeSite: placementChanges.probeSite,
+      probeCovered: placementChanges.probeCovered,
+      position: placementChanges.infantPosition,
+    })
     .from(placementChanges)
     .where(eq(placementChanges.infantId, infantId))
     .all();
@@ -143,7 +150,7 @@ export function storedPlacement(sqlite: Database.Database, infantId: string): Cu
  */
 export function recordPlacementChange(
   sqlite: Database.Database,
-  infant: { id: string; unit_id: string; admitted_at: number },
+  infant: Pick<Infant, 'id' | 'unitId' | 'admittedAt'>,
   input: PlacementChange,
   actorId: string,
   now: Date,
@@ -165,11 +172,11 @@ export function recordPlacementChange(
   }
   beforeNew();
   if (at.getTime() > now.getTime() + 2 * 60_000) throw badRequest('The time is in the future.', { at: 'The time cannot be in the future.' });
-  if (at.getTime() < infant.admitted_at - 60 * 60_000) throw badRequest('The time is before the infant was admitted.', { at: 'The time is before admission.' });
+  if (at.getTime() < infant.admittedAt.getTime() - 60 * 60_000) throw badRequest('The time is before the infant was admitted.', { at: 'The time is before admission.' });
   const row = {
     id: input.id,
     infantId: infant.id,
-    unitId: infant.unit_id,
+    unitId: infant.unitId,
     at,
     probeSite: input.probeSite ?? null,
     probeCovered: input.probeCovered ?? null,
@@ -184,9 +191,9 @@ export function recordPlacementChange(
     action: 'placement-change',
     entityType: 'placement-change',
     entityId: row.id,
-    unitId: infant.unit_id,
+    unitId: infant.unitId,
     after: { infantId: infant.id, at: at.toISOString(), probeSite: row.probeSite, probeCovered: row.probeCovered, position: row.infantPosition },
   });
-  refreshPlacement(sqlite, infant.id, infant.unit_id, now);
+  refreshPlacement(sqlite, infant.id, infant.unitId, now);
   return { created: true };
 }

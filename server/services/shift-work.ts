@@ -5,7 +5,8 @@ import { handoverPlans, infants, users } from '../../db/schema';
 import type { BulkAssign, HandoverPlan } from '../../shared/schemas/shift-work';
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
-import { assignNurse, shiftSlot, type InfantRow } from './admissions';
+import { assignNurse, shiftSlot } from './admissions';
+import type { Infant } from './infants';
 
 type Db = AppContext['database']['db'];
 
@@ -16,6 +17,7 @@ function latestPlan(db: Db, infantId: string, shiftDate: string, shift: 'day' | 
     .from(handoverPlans)
     .leftJoin(users, eq(users.id, handoverPlans.writtenBy))
     .where(and(eq(handoverPlans.infantId, infantId), eq(handoverPlans.shiftDate, shiftDate), eq(handoverPlans.shift, shift)))
+    // sql fragment: the insertion order breaks a tie of created_at (two versions in one millisecond), and rowid is not a schema column.
     .orderBy(desc(handoverPlans.createdAt), desc(sql`${handoverPlans}.rowid`))
     .limit(1)
     .get();
@@ -23,8 +25,8 @@ function latestPlan(db: Db, infantId: string, shiftDate: string, shift: 'day' | 
 }
 
 /** The current shift's plan for one infant. */
-export function currentPlan(ctx: AppContext, infant: InfantRow): HandoverPlan | null {
-  const slot = shiftSlot(ctx, infant.unit_id, 'current');
+export function currentPlan(ctx: AppContext, infant: Infant): HandoverPlan | null {
+  const slot = shiftSlot(ctx, infant.unitId, 'current');
   return latestPlan(ctx.database.db, infant.id, slot.shiftDate, slot.shift);
 }
 
@@ -36,13 +38,13 @@ export function unitPlans(ctx: AppContext, unitId: string): HandoverPlan[] {
 }
 
 /** A new version of the infant's plan for the current shift (earlier versions stay). */
-export function writePlan(ctx: AppContext, infant: InfantRow, plan: string, actorId: string): HandoverPlan {
+export function writePlan(ctx: AppContext, infant: Infant, plan: string, actorId: string): HandoverPlan {
   const now = ctx.clock.now();
-  const slot = shiftSlot(ctx, infant.unit_id, 'current');
+  const slot = shiftSlot(ctx, infant.unitId, 'current');
   return writeTx(ctx.database.sqlite, () => {
     const id = randomUUID();
-    ctx.database.db.insert(handoverPlans).values({ id, unitId: infant.unit_id, infantId: infant.id, shiftDate: slot.shiftDate, shift: slot.shift, plan, writtenBy: actorId, createdAt: now }).run();
-    appendAudit(ctx.database.sqlite, { at: now, actorId, action: 'handover-plan-written', entityType: 'infant', entityId: infant.id, unitId: infant.unit_id, after: { planId: id, shiftDate: slot.shiftDate, shift: slot.shift } });
+    ctx.database.db.insert(handoverPlans).values({ id, unitId: infant.unitId, infantId: infant.id, shiftDate: slot.shiftDate, shift: slot.shift, plan, writtenBy: actorId, createdAt: now }).run();
+    appendAudit(ctx.database.sqlite, { at: now, actorId, action: 'handover-plan-written', entityType: 'infant', entityId: infant.id, unitId: infant.unitId, after: { planId: id, shiftDate: slot.shiftDate, shift: slot.shift } });
     return latestPlan(ctx.database.db, infant.id, slot.shiftDate, slot.shift)!;
   });
 }
