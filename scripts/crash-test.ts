@@ -72,7 +72,7 @@ async function main() {
     body: JSON.stringify({ email: 'nia.okafor@warmfold.test', password: 'warm-hands-at-night' }),
   });
   const { token } = (await signIn.json()) as { token: string };
-  const infants = ((await (await fetch(`${base}/api/infants/mine`, { headers: { Authorization: `Bearer ${token}` } })).json()) as { infants: Array<{ id: string }> }).infants.map((i) => i.id);
+  const infants = ((await (await fetch(`${base}/api/infants/mine`, { headers: { Authorization: `Bearer ${token}` } })).json()) as { infants: { id: string }[] }).infants.map((i) => i.id);
   if (infants.length === 0) throw new Error('no infants to chart');
 
   const acknowledged = new Set<string>();
@@ -116,7 +116,7 @@ async function main() {
   const db = new Database(path.join(dataDir, 'warmfold.db'), { readonly: true });
   const integrity = db.pragma('integrity_check', { simple: true });
   const d = drizzleOf(db);
-  const tally = (ids: Array<string | null>) => {
+  const tally = (ids: (string | null)[]) => {
     const counts = new Map<string, number>();
     for (const id of ids) if (id !== null) counts.set(id, (counts.get(id) ?? 0) + 1);
     return counts;

@@ -82,7 +82,7 @@ export async function seedDemo(database: Database_, { now, bcryptCost }: SeedOpt
   // Every infant's history also holds one caught gap around 03:00 in the last night shift, so
   // the educator's review of night shifts has something to open whatever hour the demo is laid down.
   const nightGapAt = lastLocalHour(t0 - 3 * 60 * 60_000, 'Europe/London', 3);
-  const pendingActions: Array<{ infant: string; unit: string; readingId: string; by: string; at: number; at2: number }> = [];
+  const pendingActions: { infant: string; unit: string; readingId: string; by: string; at: number; at2: number }[] = [];
   // An infant's readings go in together: each statement that writes a chained table compiles its
   // triggers, so one insert of many rows costs about what one insert of a single row does.
   let charting: NewReading[] = [];

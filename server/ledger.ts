@@ -193,7 +193,7 @@ function baseline(sqlite: Database.Database, versions: Map<string, number>, now:
   const covered = coveredTables(sqlite);
   const counts: Record<string, number> = {};
   const db = drizzleOf(sqlite);
-  let pending: Array<typeof auditEvents.$inferInsert> = [];
+  let pending: typeof auditEvents.$inferInsert[] = [];
   // Several events to a statement; their ids keep the order of the array, which is the chain's.
   const flush = () => {
     if (pending.length) db.insert(auditEvents).values(pending).run();

@@ -46,7 +46,7 @@ export interface RecordReport {
   rowsChecked: number;
   findings: Finding[];
   /** `ledger-installed` events: from when each chained table is covered, and how many rows were only baselined. */
-  baselines: Array<{ eventId: number; at: number; tables: Record<string, number> }>;
+  baselines: { eventId: number; at: number; tables: Record<string, number> }[];
   checkpoints: { file: string | null; status: 'checked' | 'no-file' | 'no-key' | 'not-asked'; keySource: string | null; lines: number; last: Checkpoint | null; unreadable: number[] };
   /** Events after the last valid checkpoint: consistent with the chain, but no signature vouches for them. */
   unvouched: { fromId: number; toId: number; events: number; fromAt: number; toAt: number } | null;

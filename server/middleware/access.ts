@@ -36,7 +36,7 @@ const UNIT_SCOPED = { infants, readings, flags, skinToSkinSessions, escalations,
 type UnitScoped = keyof typeof UNIT_SCOPED;
 
 /** Which table a path's `:id` names, by the path it sits under. */
-const ENTITY_BY_PATH: Array<[RegExp, UnitScoped, string]> = [
+const ENTITY_BY_PATH: [RegExp, UnitScoped, string][] = [
   [/\/infants\/:id(\/|$)/, 'infants', 'infant'],
   [/\/readings\/:id(\/|$)/, 'readings', 'reading'],
   [/\/flags\/:id(\/|$)/, 'flags', 'flag'],

@@ -41,7 +41,7 @@ function removeFile(file: string): void {
 }
 
 interface ParsedFile {
-  rows: Array<{ line: number; values: Row }>;
+  rows: { line: number; values: Row }[];
   header: string[];
   /** A row that could not be read (an unclosed quote, a wrong number of cells), by line. */
   parseErrors: Map<number, string>;
@@ -137,7 +137,7 @@ function previewOf(upload: UploadRow, rows: UploadRowPreview[]): UploadPreview {
 // Roster
 // --------------------------------------------------------------------------------------------
 
-function checkRoster(database: Database_, parsed: ParsedFile, adminUnits: string[]): Array<UploadRowPreview & { value?: RosterRow & { unitId: string } }> {
+function checkRoster(database: Database_, parsed: ParsedFile, adminUnits: string[]): (UploadRowPreview & { value?: RosterRow & { unitId: string } })[] {
   const unitList = database.db.select({ id: units.id, name: units.name }).from(units).all();
   const seen = new Set<string>();
   return parsed.rows.map(({ line, values }) => {
@@ -380,7 +380,7 @@ export function readingsErrorsCsv(ctx: AppContext, uploadId: string, auth: { uni
   if (!upload.unitId || !auth.unitIds.includes(upload.unitId)) throw forbidden('This upload is for a unit you are not part of.');
   const parsed = parseCsv(text);
   const rows = checkReadings(ctx, parsed, upload.unitId);
-  const out: Array<[number, string, string, string]> = [];
+  const out: [number, string, string, string][] = [];
   for (const r of rows) {
     for (const e of r.errors) {
       const colon = e.indexOf(': ');
