@@ -101,12 +101,24 @@ export function ReadingPlacementPrompt({ control }: { control: Control<ReadingFo
   );
 }
 
-/** Current weight and incubator humidity: optional measurements, never prefilled. */
+/**
+ * Current weight and incubator humidity: optional measurements, never prefilled. Each on its own
+ * row on a phone, side by side where both fit at a usable width (the reading form is 560 px at most).
+ */
 export function WeightHumidityFields({ control, serverFields = {} }: { control: Control<ReadingFormValues>; serverFields?: Record<string, string> }) {
   return (
     <View style={styles.row}>
       <View style={styles.cell}>
-        <TextField control={control} name="weight" label="Current weight (g)" suffix="g" inputMode="numeric" keyboardType="number-pad" serverError={serverFields.weightGrams} />
+        <TextField
+          control={control}
+          name="weight"
+          label="Current weight (g)"
+          suffix="g"
+          inputMode="numeric"
+          keyboardType="number-pad"
+          serverError={serverFields.weightGrams}
+          style={styles.input}
+        />
       </View>
       <View style={styles.cell}>
         <TextField
@@ -117,6 +129,7 @@ export function WeightHumidityFields({ control, serverFields = {} }: { control: 
           inputMode="numeric"
           keyboardType="number-pad"
           serverError={serverFields.humidityPct}
+          style={styles.input}
         />
       </View>
     </View>
@@ -129,5 +142,8 @@ const styles = StyleSheet.create({
   group: { gap: 10 },
   note: { gap: 4 },
   row: { flexDirection: 'row', flexWrap: 'wrap', gap: 12 },
-  cell: { flexGrow: 1, flexBasis: 160 },
+  // Two cells of 240 and the gap need 492 px: they wrap below that (a phone), and each may
+  // shrink below its input's own width (a browser's input is about 180 px wide unless told otherwise).
+  cell: { flexGrow: 1, flexShrink: 1, flexBasis: 240, minWidth: 0 },
+  input: { minWidth: 0 },
 });

@@ -1,6 +1,6 @@
 import { useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
 import { useForm, useFormState, useWatch, type Control } from 'react-hook-form';
-import { Platform, Pressable, StyleSheet, View, type TextInput, type ViewStyle } from 'react-native';
+import { Platform, Pressable, StyleSheet, View, type TextInput } from 'react-native';
 import type { CreateReadingInput } from '@/shared/schemas/bedside';
 import { BAND_LABELS, temperatureBand } from '@/shared/thermal/bands';
 import { assessGapCenti } from '@/shared/thermal/gap';
@@ -42,6 +42,12 @@ export interface ReadingFormProps {
   initialValues?: Partial<ReadingFormValues>;
   /** Called with every change of the values (keeps the draft; does not redraw the form). */
   onValuesChange?: (values: ReadingFormValues) => void;
+  /**
+   * Where the fields and the Save footer go. The record screen scrolls the fields and puts the
+   * footer below the scrolling area, so Save is always on screen and no field is ever behind it.
+   * Without it the footer simply follows the fields.
+   */
+  frame?: (fields: ReactNode, footer: ReactNode) => ReactNode;
 }
 
 /**
@@ -49,9 +55,24 @@ export interface ReadingFormProps {
  * air temperature (the air set temperature in air servo), heater output and heart rate. Enter (the
  * keypad's Next) moves to the next field and saves from the last; each field is one tap without
  * it. The settings (mode, set temperature, remote site) come forward from the last reading and
- * are shown; measurements are never filled in. Save stays on screen in a footer.
+ * are shown; measurements are never filled in. Save is in a footer the host keeps on screen (`frame`).
  */
-export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () => new Date(), makeId = () => globalThis.crypto.randomUUID(), busy, serverFields = {}, serverMessage, onSubmit, onCancel, initialValues, onValuesChange }: ReadingFormProps) {
+export function ReadingForm({
+  unit,
+  timeZone,
+  gapLimitCenti,
+  defaults,
+  now = () => new Date(),
+  makeId = () => globalThis.crypto.randomUUID(),
+  busy,
+  serverFields = {},
+  serverMessage,
+  onSubmit,
+  onCancel,
+  initialValues,
+  onValuesChange,
+  frame,
+}: ReadingFormProps) {
   const theme = useTheme();
   const resolver = useMemo(() => lazyZodResolver<ReadingFormValues>((m) => m.readingFormResolverSchema(unit, timeZone, now)), [unit, timeZone, now]);
   useEffect(() => resolver.preload(), [resolver]);
@@ -147,7 +168,7 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
     />
   );
 
-  return (
+  const fields = (
     <View style={styles.form}>
       <TextField
         control={control}
@@ -173,12 +194,7 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
       />
       <Watch control={control} name="remoteSite">
         {(remoteSite) => (
-          <Segmented
-            label="Remote site"
-            value={remoteSite}
-            options={REMOTE_SITE_OPTIONS}
-            onChange={(site) => setValue('remoteSite', site, { shouldValidate: false })}
-          />
+          <Segmented label="Remote site" value={remoteSite} options={REMOTE_SITE_OPTIONS} onChange={(site) => setValue('remoteSite', site, { shouldValidate: false })} />
         )}
       </Watch>
       <FieldError control={control} name="remoteSite" fallback={serverFields.remoteSite} />
@@ -258,32 +274,48 @@ export function ReadingForm({ unit, timeZone, gapLimitCenti, defaults, now = () 
       <WeightHumidityFields control={control} serverFields={serverFields} />
       <TakenAtField control={control} timeZone={timeZone} now={now} label="Time taken (leave empty for now)" placeholder="Now" serverError={serverFields.takenAt} />
       <WatchAll control={control}>
-        {(values) => (isLate(values, now(), timeZone) ? <TextField control={control} name="lateReason" label="Why is this charted late?" serverError={serverFields.lateReason} /> : null)}
+        {(values) =>
+          isLate(values, now(), timeZone) ? <TextField control={control} name="lateReason" label="Why is this charted late?" serverError={serverFields.lateReason} /> : null
+        }
       </WatchAll>
       <TextField control={control} name="note" label="Note" multiline serverError={serverFields.note} />
+    </View>
+  );
 
-      {/* Save in reach whatever is filled: the footer sticks to the bottom of the screen while the form runs past it. */}
-      <View style={[styles.footer, STICKY, { backgroundColor: theme.colors.background, borderTopColor: theme.colors.border }]}>
-        {confirming || serverConfirm ? (
-          <Card style={{ borderColor: theme.colors.warning, backgroundColor: theme.colors.warningSoft }} role="alert">
-            <StatusBadge tone="warning" icon="alert" label="Confirm unusual values" />
-            {(confirming ?? Object.entries(serverFields).filter(([k]) => k !== 'confirmedImplausible').map(([, v]) => v)).map((r) => (
-              <Text key={r}>{r}</Text>
-            ))}
-            <Button label="Confirm and save" variant="danger" onPress={() => void submit(true)()} busy={busy} />
-          </Card>
-        ) : null}
-        <View style={styles.actions}>
-          <Button label="Save reading" icon="check" style={styles.save} onPress={() => void submit(false)()} busy={busy} />
-          {onCancel ? <Button label="Cancel" variant="quiet" onPress={onCancel} /> : null}
-        </View>
-        <FormRootError control={control} />
-        {serverMessage && !serverConfirm ? (
-          <Text tone="danger" role="alert">
-            {serverMessage}
-          </Text>
-        ) : null}
+  const footer = (
+    <View style={styles.footer}>
+      {confirming || serverConfirm ? (
+        <Card style={{ borderColor: theme.colors.warning, backgroundColor: theme.colors.warningSoft }} role="alert">
+          <StatusBadge tone="warning" icon="alert" label="Confirm unusual values" />
+          {(
+            confirming ??
+            Object.entries(serverFields)
+              .filter(([k]) => k !== 'confirmedImplausible')
+              .map(([, v]) => v)
+          ).map((r) => (
+            <Text key={r}>{r}</Text>
+          ))}
+          <Button label="Confirm and save" variant="danger" onPress={() => void submit(true)()} busy={busy} />
+        </Card>
+      ) : null}
+      <View style={styles.actions}>
+        <Button label="Save reading" icon="check" style={styles.save} onPress={() => void submit(false)()} busy={busy} />
+        {onCancel ? <Button label="Cancel" variant="quiet" onPress={onCancel} /> : null}
       </View>
+      <FormRootError control={control} />
+      {serverMessage && !serverConfirm ? (
+        <Text tone="danger" role="alert">
+          {serverMessage}
+        </Text>
+      ) : null}
+    </View>
+  );
+
+  if (frame) return <>{frame(fields, footer)}</>;
+  return (
+    <View style={styles.form}>
+      {fields}
+      <View style={[styles.after, { borderTopColor: theme.colors.border }]}>{footer}</View>
     </View>
   );
 }
@@ -318,15 +350,20 @@ function focusField(input: TextInput | null) {
   if (Platform.OS === 'web') (input as unknown as { scrollIntoView?: (o: object) => void } | null)?.scrollIntoView?.({ block: 'center' });
 }
 
-/** react-native-web passes `position: sticky` to the page; native keeps the footer after the fields. */
-const STICKY = (Platform.OS === 'web' ? { position: 'sticky', bottom: 0, zIndex: 2 } : {}) as ViewStyle;
-
 /**
  * Re-renders only its children when one field changes. Watching every value at the top of the
  * form re-rendered all its fields on each keystroke: about 100 ms a key on a throttled phone,
  * the slowest interaction in recording a reading (INP).
  */
-function Watch<K extends keyof ReadingFormValues>({ control, name, children }: { control: Control<ReadingFormValues>; name: K; children: (value: ReadingFormValues[K]) => ReactNode }) {
+function Watch<K extends keyof ReadingFormValues>({
+  control,
+  name,
+  children,
+}: {
+  control: Control<ReadingFormValues>;
+  name: K;
+  children: (value: ReadingFormValues[K]) => ReactNode;
+}) {
   const value = useWatch({ control, name }) as ReadingFormValues[K];
   return <>{children(value)}</>;
 }
@@ -367,7 +404,11 @@ export function Preview({ values, unit, gapLimitCenti }: { values: ReadingFormVa
         )
       ) : null}
       {band ? (
-        <StatusBadge tone={band === 'normal' ? 'ok' : band === 'hyperthermia' ? 'heat' : 'warning'} icon={band === 'normal' ? 'check' : band === 'hyperthermia' ? 'flame' : 'snow'} label={`Remote site: ${BAND_LABELS[band]}`} />
+        <StatusBadge
+          tone={band === 'normal' ? 'ok' : band === 'hyperthermia' ? 'heat' : 'warning'}
+          icon={band === 'normal' ? 'check' : band === 'hyperthermia' ? 'flame' : 'snow'}
+          label={`Remote site: ${BAND_LABELS[band]}`}
+        />
       ) : null}
       {heat.raised ? (
         <View style={{ gap: 4 }}>
@@ -391,7 +432,8 @@ const styles = StyleSheet.create({
   form: { gap: 14, width: '100%', maxWidth: 560 },
   actions: { flexDirection: 'row', gap: 12, flexWrap: 'wrap' },
   save: { flexGrow: 1 },
-  footer: { gap: 8, paddingVertical: 10, borderTopWidth: StyleSheet.hairlineWidth },
+  footer: { gap: 8, width: '100%', maxWidth: 560 },
+  after: { paddingVertical: 10, borderTopWidth: StyleSheet.hairlineWidth },
   wrap: { gap: 6 },
   chips: { flexDirection: 'row', flexWrap: 'wrap', gap: 8 },
   chip: { minHeight: TOUCH_TARGET, paddingHorizontal: 12, borderRadius: 10, borderWidth: 2, justifyContent: 'center' },

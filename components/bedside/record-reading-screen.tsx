@@ -8,6 +8,7 @@ import { useCreateReadingMutation, useFlowsheetQuery, useInfantQuery } from '@/c
 import { useQueryClient } from '@tanstack/react-query';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
+import { useTheme } from '@/components/theme/theme-provider';
 import { Screen } from '@/components/ui/screen';
 import { ErrorState, LoadingState } from '@/components/ui/state-view';
 import { Text } from '@/components/ui/text';
@@ -34,6 +35,7 @@ export function RecordReadingScreen({ infantId }: { infantId: string }) {
 
 function RecordReading({ infantId }: { infantId: string }) {
   const user = useUser();
+  const theme = useTheme();
   const router = useRouter();
   const queryClient = useQueryClient();
   const infant = useInfantQuery(infantId);
@@ -125,54 +127,66 @@ function RecordReading({ infantId }: { infantId: string }) {
   if (!d) return <LoadingState label="Opening the record form…" />;
   const problem = mutation.isError ? problemOf(mutation.error) : null;
   const shownProblem = problem && problem.kind !== 'unauthorized' ? problem : null;
+  const title = `Record: ${d.infant.bedLabel ?? ''} ${d.infant.displayName}`;
   return (
-    <Screen title={`Record: ${d.infant.bedLabel ?? ''} ${d.infant.displayName}`} subtitle={`Temperatures in °${user.tempUnit}`}>
-      {restored ? (
-        <Card role="status" style={styles.draft}>
-          <Text variant="bodyStrong">{`Draft kept from ${draftTime(restored.updatedAt, d.timeZone, user.clock)}`}</Text>
-          <Text variant="caption" tone="muted">
-            Your values as you left them. Check them, then save, or discard the draft.
-          </Text>
-          <View style={styles.draftActions}>
-            <Button label="Discard draft" variant="secondary" compact onPress={discard} />
+    <ReadingForm
+      key={formKey}
+      unit={user.tempUnit}
+      timeZone={d.timeZone}
+      gapLimitCenti={sheet.data?.policy.gapLimitCenti ?? 50}
+      defaults={{
+        controlMode: d.defaults.controlMode,
+        set: d.defaults.setCenti === null ? '' : fromCentiCelsius(d.defaults.setCenti, user.tempUnit).toFixed(1),
+        remoteSite: d.defaults.remoteSite,
+        placement: d.defaults.placement ?? null,
+      }}
+      makeId={() => readingId}
+      initialValues={restored?.values}
+      onValuesChange={keep}
+      busy={mutation.isPending || held !== null}
+      serverFields={fields}
+      serverMessage={shownProblem?.message}
+      onCancel={() => router.back()}
+      onSubmit={save}
+      // The fields scroll; Save's footer sits below the scrolling area, so it stays on screen
+      // whatever is filled and never covers a field (a sticky footer over the page hid the ones
+      // behind it).
+      frame={(form, footer) => (
+        <View style={styles.frame}>
+          <Screen title={title} subtitle={`Temperatures in °${user.tempUnit}`}>
+            {restored ? (
+              <Card role="status" style={styles.draft}>
+                <Text variant="bodyStrong">{`Draft kept from ${draftTime(restored.updatedAt, d.timeZone, user.clock)}`}</Text>
+                <Text variant="caption" tone="muted">
+                  Your values as you left them. Check them, then save, or discard the draft.
+                </Text>
+                <View style={styles.draftActions}>
+                  <Button label="Discard draft" variant="secondary" compact onPress={discard} />
+                </View>
+              </Card>
+            ) : null}
+            {form}
+            {held ? (
+              <Text role="status" tone="warning" style={styles.below}>
+                Not saved yet: sign in again and it is sent.
+              </Text>
+            ) : null}
+            {/* Below the form, so the fields never move while she types the first value. */}
+            {!restored && hasDraft ? (
+              <View style={[styles.draftActions, styles.below]}>
+                <Text variant="caption" tone="muted" role="status">
+                  Kept on this device as a draft until you save.
+                </Text>
+                <Button label="Discard draft" variant="quiet" compact onPress={discard} />
+              </View>
+            ) : null}
+          </Screen>
+          <View style={[styles.footerBar, { backgroundColor: theme.colors.background, borderTopColor: theme.colors.border }]}>
+            <View style={styles.footerColumn}>{footer}</View>
           </View>
-        </Card>
-      ) : null}
-      <ReadingForm
-        key={formKey}
-        unit={user.tempUnit}
-        timeZone={d.timeZone}
-        gapLimitCenti={sheet.data?.policy.gapLimitCenti ?? 50}
-        defaults={{
-          controlMode: d.defaults.controlMode,
-          set: d.defaults.setCenti === null ? '' : fromCentiCelsius(d.defaults.setCenti, user.tempUnit).toFixed(1),
-          remoteSite: d.defaults.remoteSite,
-          placement: d.defaults.placement ?? null,
-        }}
-        makeId={() => readingId}
-        initialValues={restored?.values}
-        onValuesChange={keep}
-        busy={mutation.isPending || held !== null}
-        serverFields={fields}
-        serverMessage={shownProblem?.message}
-        onCancel={() => router.back()}
-        onSubmit={save}
-      />
-      {held ? (
-        <Text role="status" tone="warning" style={styles.below}>
-          Not saved yet: sign in again and it is sent.
-        </Text>
-      ) : null}
-      {/* Below the form, so the fields never move while she types the first value. */}
-      {!restored && hasDraft ? (
-        <View style={[styles.draftActions, styles.below]}>
-          <Text variant="caption" tone="muted" role="status">
-            Kept on this device as a draft until you save.
-          </Text>
-          <Button label="Discard draft" variant="quiet" compact onPress={discard} />
         </View>
-      ) : null}
-    </Screen>
+      )}
+    />
   );
 }
 
@@ -184,6 +198,10 @@ function draftTime(iso: string, timeZone: string, clock: '24h' | '12h'): string 
 }
 
 const styles = StyleSheet.create({
+  frame: { flex: 1 },
+  // Lined up with the Screen's column (960 px at most, 16 px in from its sides).
+  footerBar: { borderTopWidth: StyleSheet.hairlineWidth, paddingVertical: 10 },
+  footerColumn: { width: '100%', maxWidth: 960, alignSelf: 'center', paddingHorizontal: 16 },
   draft: { gap: 6, marginBottom: 12 },
   draftActions: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: 8 },
   below: { marginTop: 12 },
