@@ -4,11 +4,11 @@ import { allow, assertUnit, secureRouter } from '../middleware/access';
 import { valid, validate } from '../middleware/validate';
 import { acknowledgeEscalation } from '../services/escalations';
 
-/** Acknowledging escalations. (The demo's mailbox lives in routes/mailbox.ts.) */
+/** Acknowledging escalations, mounted at /api/escalations. (The demo's mailbox lives in routes/mailbox.ts.) */
 export function escalationsRouter(ctx: AppContext) {
   const router = secureRouter();
 
-  router.post('/escalations/:id/acknowledge', allow(ctx, 'unit:manage'), validate('body', acknowledgeEscalationSchema), (req, res) => {
+  router.post('/:id/acknowledge', allow(ctx, 'unit:manage'), validate('body', acknowledgeEscalationSchema), (req, res) => {
     const { note } = valid<AcknowledgeEscalationInput>(req, 'body');
     const auth = req.auth!;
     const result = acknowledgeEscalation(ctx, (req.params as { id: string }).id, auth, note || null, (unitId) => assertUnit(req, unitId));

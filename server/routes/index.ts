@@ -12,8 +12,8 @@ import { handoverRouter } from './handover';
 import { healthRouter } from './health';
 import { infantsRouter } from './infants';
 import { mailboxRouter } from './mailbox';
-import { reportsRouter } from './reports';
-import { reviewRouter } from './review';
+import { exportsRouter, reportsRouter } from './reports';
+import { reviewRouter, reviewsRouter } from './review';
 import { unitBoardRouter } from './unit-board';
 import { uploadsRouter } from './uploads';
 
@@ -28,14 +28,16 @@ export function apiRouters(ctx: AppContext): [string, Router][] {
     ['/', admissionsRouter(ctx)],
     ['/', bedWarmingRouter(ctx)],
     ['/', shiftWorkRouter(ctx)],
-    ['/', escalationsRouter(ctx)],
+    ['/escalations', escalationsRouter(ctx)],
     ['/', handoverRouter(ctx)],
     ['/auth', accountLinksRouter(ctx)],
-    ['/', reviewRouter(ctx)],
-    ['/', reportsRouter(ctx)],
+    ['/review', reviewRouter(ctx)],
+    ['/reviews', reviewsRouter(ctx)],
+    ['/reports', reportsRouter(ctx)],
+    ['/exports', exportsRouter(ctx)],
     ['/', adminRouter(ctx)],
     ['/', uploadsRouter(ctx)],
     // The demo's mailbox only: production has no mail catcher, and /api/mailbox answers 404 there.
-    ...(ctx.config.mode === 'demo' ? ([['/', mailboxRouter(ctx)]] as [string, Router][]) : []),
+    ...(ctx.config.mode === 'demo' ? ([['/mailbox', mailboxRouter(ctx)]] as [string, Router][]) : []),
   ];
 }

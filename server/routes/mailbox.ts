@@ -37,7 +37,7 @@ export function mailboxView(row: typeof caughtMail.$inferSelect, reader: { userI
  */
 export function mailboxRouter(ctx: AppContext) {
   const router = secureRouter();
-  router.get('/mailbox', allow(ctx, 'signed-in'), (req, res) => {
+  router.get('', allow(ctx, 'signed-in'), (req, res) => {
     const auth = req.auth!;
     // The LIKE narrows the rows (it may also match a longer address); mailboxView decides exactly.
     const rows = ctx.database.db

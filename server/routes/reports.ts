@@ -38,36 +38,36 @@ function sendFhir(res: import('express').Response, name: string, bundle: unknown
 
 const suffixOf = (q: { infantId?: string; from?: string; to?: string }) => `${q.infantId ? `${q.infantId}-` : ''}${q.from ?? 'all'}-${q.to ?? 'all'}`;
 
-/** Reports and exports: the educator's. */
+/** Reports, mounted at /api/reports: the educator's. (The route '' is /api/reports itself.) */
 export function reportsRouter(ctx: AppContext) {
   const router = secureRouter();
 
-  router.get('/reports', allow(ctx, 'review:work'), validate('query', unitRangeQuerySchema), (req, res) => {
+  router.get('', allow(ctx, 'review:work'), validate('query', unitRangeQuerySchema), (req, res) => {
     const query = valid<UnitRangeQuery>(req, 'query');
     assertUnit(req, query.unitId);
     const report = unitReport(ctx, query, req.auth!.userId);
     res.json({ report, tables: reportTables(report) });
   });
 
-  router.get('/reports/trends', allow(ctx, 'review:work'), validate('query', trendQuerySchema), (req, res) => {
+  router.get('/trends', allow(ctx, 'review:work'), validate('query', trendQuerySchema), (req, res) => {
     const query = valid<TrendQuery>(req, 'query');
     assertUnit(req, query.unitId);
     res.json(unitTrends(ctx, query, req.auth!.userId));
   });
 
-  router.get('/reports/compare', allow(ctx, 'review:work'), validate('query', compareQuerySchema), (req, res) => {
+  router.get('/compare', allow(ctx, 'review:work'), validate('query', compareQuerySchema), (req, res) => {
     const query = valid<CompareQuery>(req, 'query');
     assertUnit(req, query.unitId);
     res.json(comparePeriods(ctx, query, req.auth!.userId));
   });
 
-  router.get('/reports/admission-measure', allow(ctx, 'measure:read'), validate('query', unitRangeQuerySchema), (req, res) => {
+  router.get('/admission-measure', allow(ctx, 'measure:read'), validate('query', unitRangeQuerySchema), (req, res) => {
     const query = valid<UnitRangeQuery>(req, 'query');
     assertUnit(req, query.unitId);
     res.json({ measure: admissionMeasure(ctx, query, req.auth!.userId) });
   });
 
-  router.get('/reports/tables/:table.csv', allow(ctx, 'review:work'), validate('params', tableParams), validate('query', unitRangeQuerySchema), (req, res) => {
+  router.get('/tables/:table.csv', allow(ctx, 'review:work'), validate('params', tableParams), validate('query', unitRangeQuerySchema), (req, res) => {
     const query = valid<UnitRangeQuery>(req, 'query');
     const { table } = valid<{ table: string }>(req, 'params');
     assertUnit(req, query.unitId);
@@ -76,26 +76,33 @@ export function reportsRouter(ctx: AppContext) {
     sendCsv(res, `${table}-${query.from}-${query.to}.csv`, toCsv(found.header, found.rows));
   });
 
-  router.get('/exports/readings.csv', allow(ctx, 'review:work'), validate('query', exportRangeQuerySchema), (req, res) => {
+  return router;
+}
+
+/** Exports, mounted at /api/exports: readings and flags as CSV, FHIR bundles. The educator's. */
+export function exportsRouter(ctx: AppContext) {
+  const router = secureRouter();
+
+  router.get('/readings.csv', allow(ctx, 'review:work'), validate('query', exportRangeQuerySchema), (req, res) => {
     const query = valid<ExportRangeQuery>(req, 'query');
     assertUnit(req, query.unitId);
     sendCsv(res, `readings-${suffixOf(query)}.csv`, readingsCsv(ctx, query, req.auth!.userId));
   });
 
-  router.get('/exports/fhir', allow(ctx, 'review:work'), validate('query', exportRangeQuerySchema), (req, res) => {
+  router.get('/fhir', allow(ctx, 'review:work'), validate('query', exportRangeQuerySchema), (req, res) => {
     const query = valid<ExportRangeQuery>(req, 'query');
     assertUnit(req, query.unitId);
     sendFhir(res, `fhir-${suffixOf(query)}.json`, unitFhirBundle(ctx, query, req.auth!.userId));
   });
 
   /** Flags of the review queue's kinds, with the queue's filters (a date range among them). */
-  router.get('/exports/flags.csv', allow(ctx, 'review:work'), validate('query', reviewQueueQuerySchema), (req, res) => {
+  router.get('/flags.csv', allow(ctx, 'review:work'), validate('query', reviewQueueQuerySchema), (req, res) => {
     const query = valid<ReviewQueueQuery>(req, 'query');
     if (query.unitId) assertUnit(req, query.unitId);
     sendCsv(res, `flags-${suffixOf(query)}.csv`, flagsCsvExport(ctx, req.auth!.unitIds, query, req.auth!.userId));
   });
 
-  router.get('/exports/infants/:infantId/fhir', allow(ctx, 'review:work'), (req, res) => {
+  router.get('/infants/:infantId/fhir', allow(ctx, 'review:work'), (req, res) => {
     const { infantId } = req.params as { infantId: string };
     sendFhir(res, `fhir-${infantId}.json`, infantFhirBundle(ctx, infantId, req.auth!));
   });
