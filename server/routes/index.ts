@@ -6,7 +6,7 @@ import { adminRouter } from './admin';
 import { authRouter } from './auth';
 import { bedWarmingRouter } from './bed-warming';
 import { shiftWorkRouter } from './shift-work';
-import { bedsideRouter } from './bedside';
+import { flagsRouter, readingsRouter, skinToSkinRouter } from './bedside';
 import { escalationsRouter } from './escalations';
 import { handoverRouter } from './handover';
 import { healthRouter } from './health';
@@ -23,7 +23,9 @@ export function apiRouters(ctx: AppContext): [string, Router][] {
     ['/', healthRouter(ctx)],
     ['/auth', authRouter(ctx)],
     ['/infants', infantsRouter(ctx)],
-    ['/', bedsideRouter(ctx)],
+    ['/readings', readingsRouter(ctx)],
+    ['/flags', flagsRouter(ctx)],
+    ['/skin-to-skin', skinToSkinRouter(ctx)],
     ['/', unitBoardRouter(ctx)],
     ['/', admissionsRouter(ctx)],
     ['/', bedWarmingRouter(ctx)],
