@@ -1,4 +1,24 @@
-import { auditQuerySchema, createBedSchema, createUnitSchema, createUserSchema, membershipSchema, unitSettingsConflicts, unitSettingsSchema, updateBedSchema, updateUserSchema, userSearchSchema, type AuditQuery, type CreateBedInput, type CreateUnitInput, type CreateUserInput, type MembershipInput, type UnitSettingsInput, type UpdateBedInput, type UpdateUserInput, type UserSearch } from '../../shared/schemas/admin';
+import {
+  auditQuerySchema,
+  createBedSchema,
+  createUnitSchema,
+  createUserSchema,
+  membershipSchema,
+  unitSettingsConflicts,
+  unitSettingsSchema,
+  updateBedSchema,
+  updateUserSchema,
+  userSearchSchema,
+  type AuditQuery,
+  type CreateBedInput,
+  type CreateUnitInput,
+  type CreateUserInput,
+  type MembershipInput,
+  type UnitSettingsInput,
+  type UpdateBedInput,
+  type UpdateUserInput,
+  type UserSearch,
+} from '../../shared/schemas/admin';
 import type { AppContext } from '../context';
 import { badRequest, zodFields } from '../errors';
 import { allow, assertUnit, secureRouter } from '../middleware/access';
@@ -11,67 +31,67 @@ import { mailLinkSafely } from '../services/email-links';
 /** The settings checked across fields; one left out of a change is taken as stored. */
 type CrossChecked = 'checkIntervalMinutes' | 'dueSoonMinutes' | 'dayShiftStart' | 'nightShiftStart';
 
-/** Users, invitations, units, beds and settings: the administrator's. Admins never chart. */
+/** Users, invitations, units, beds, settings and the digest, mounted at /api/admin: the administrator's. Admins never chart. */
 export function adminRouter(ctx: AppContext) {
   const router = secureRouter();
   const id = (req: { params: unknown }, name = 'id') => (req.params as Record<string, string>)[name]!;
 
-  router.get('/admin/users', allow(ctx, 'admin:manage'), validate('query', userSearchSchema), (req, res) => {
+  router.get('/users', allow(ctx, 'admin:manage'), validate('query', userSearchSchema), (req, res) => {
     res.json({ users: listUsers(ctx, req.auth!.unitIds, valid<UserSearch>(req, 'query').q) });
   });
 
   /** One unit membership added or removed; the person's other units stay as they are. */
-  router.post('/admin/users/:id/units', allow(ctx, 'admin:manage'), validate('body', membershipSchema), (req, res) => {
+  router.post('/users/:id/units', allow(ctx, 'admin:manage'), validate('body', membershipSchema), (req, res) => {
     res.status(201).json({ unitIds: addMembership(ctx, id(req), valid<MembershipInput>(req, 'body').unitId, req.auth!) });
   });
 
-  router.delete('/admin/users/:id/units/:unit', allow(ctx, 'admin:manage'), (req, res) => {
+  router.delete('/users/:id/units/:unit', allow(ctx, 'admin:manage'), (req, res) => {
     res.json({ unitIds: removeMembership(ctx, id(req), id(req, 'unit'), req.auth!) });
   });
 
   /** Who changed what in the administrator's units, newest first, by cursor. */
-  router.get('/admin/audit', allow(ctx, 'admin:manage'), validate('query', auditQuerySchema), (req, res) => {
+  router.get('/audit', allow(ctx, 'admin:manage'), validate('query', auditQuerySchema), (req, res) => {
     res.json(auditLog(ctx, valid<AuditQuery>(req, 'query'), req.auth!));
   });
 
-  router.post('/admin/units', allow(ctx, 'admin:manage'), validate('body', createUnitSchema), (req, res) => {
+  router.post('/units', allow(ctx, 'admin:manage'), validate('body', createUnitSchema), (req, res) => {
     const { id: unitId } = createUnit(ctx, valid<CreateUnitInput>(req, 'body'), req.auth!);
     res.status(201).json({ unit: listUnits(ctx, [unitId])[0] });
   });
 
-  router.post('/admin/users', allow(ctx, 'admin:manage'), validate('body', createUserSchema), async (req, res) => {
+  router.post('/users', allow(ctx, 'admin:manage'), validate('body', createUserSchema), async (req, res) => {
     const { user, link } = createUser(ctx, valid<CreateUserInput>(req, 'body'), req.auth!);
     const mailed = await mailLinkSafely(ctx, link);
     res.status(201).json({ user, mailed });
   });
 
-  router.patch('/admin/users/:id', allow(ctx, 'admin:manage'), validate('body', updateUserSchema), (req, res) => {
+  router.patch('/users/:id', allow(ctx, 'admin:manage'), validate('body', updateUserSchema), (req, res) => {
     res.json({ user: updateUser(ctx, id(req), valid<UpdateUserInput>(req, 'body'), req.auth!) });
   });
 
-  router.post('/admin/users/:id/deactivate', allow(ctx, 'admin:manage'), (req, res) => {
+  router.post('/users/:id/deactivate', allow(ctx, 'admin:manage'), (req, res) => {
     res.json({ user: setUserActive(ctx, id(req), false, req.auth!) });
   });
 
-  router.post('/admin/users/:id/reactivate', allow(ctx, 'admin:manage'), (req, res) => {
+  router.post('/users/:id/reactivate', allow(ctx, 'admin:manage'), (req, res) => {
     res.json({ user: setUserActive(ctx, id(req), true, req.auth!) });
   });
 
-  router.post('/admin/users/:id/invitation', allow(ctx, 'admin:manage'), async (req, res) => {
+  router.post('/users/:id/invitation', allow(ctx, 'admin:manage'), async (req, res) => {
     const link = sendLinkFor(ctx, id(req), 'invite', req.auth!);
     res.status(202).json({ mailed: await mailLinkSafely(ctx, link), expiresAt: link.expiresAt.toISOString() });
   });
 
-  router.post('/admin/users/:id/password-reset', allow(ctx, 'admin:manage'), async (req, res) => {
+  router.post('/users/:id/password-reset', allow(ctx, 'admin:manage'), async (req, res) => {
     const link = sendLinkFor(ctx, id(req), 'reset', req.auth!);
     res.status(202).json({ mailed: await mailLinkSafely(ctx, link), expiresAt: link.expiresAt.toISOString() });
   });
 
-  router.get('/admin/units', allow(ctx, 'admin:manage'), (req, res) => {
+  router.get('/units', allow(ctx, 'admin:manage'), (req, res) => {
     res.json({ units: listUnits(ctx, req.auth!.unitIds) });
   });
 
-  router.patch('/admin/units/:id', allow(ctx, 'admin:manage'), (req, res) => {
+  router.patch('/units/:id', allow(ctx, 'admin:manage'), (req, res) => {
     const unitId = id(req);
     const stored = unitSettingsOf(ctx, unitId);
     assertUnit(req, unitId);
@@ -100,7 +120,7 @@ export function adminRouter(ctx: AppContext) {
     res.json({ unit: listUnits(ctx, [unitId])[0] });
   });
 
-  router.post('/admin/units/:id/beds', allow(ctx, 'admin:manage'), (req, res) => {
+  router.post('/units/:id/beds', allow(ctx, 'admin:manage'), (req, res) => {
     const unitId = id(req);
     unitSettingsOf(ctx, unitId);
     assertUnit(req, unitId);
@@ -117,12 +137,12 @@ export function adminRouter(ctx: AppContext) {
   });
 
   /** Rename a bed, take it out of use or back, or move it up or down the unit's order. */
-  router.patch('/admin/beds/:id', allow(ctx, 'admin:manage'), validate('body', updateBedSchema), (req, res) => {
+  router.patch('/beds/:id', allow(ctx, 'admin:manage'), validate('body', updateBedSchema), (req, res) => {
     res.json({ bed: updateBed(ctx, id(req), valid<UpdateBedInput>(req, 'body'), req.auth!) });
   });
 
   /** The weekly digest, now, to the educators of the admin's units. */
-  router.post('/admin/digest/send', allow(ctx, 'admin:manage'), async (req, res) => {
+  router.post('/digest/send', allow(ctx, 'admin:manage'), async (req, res) => {
     const result = await sendWeeklyDigests(ctx, ctx.clock.now(), { unitIds: req.auth!.unitIds, force: true, actorId: req.auth!.userId });
     res.json(result);
   });

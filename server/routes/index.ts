@@ -15,7 +15,7 @@ import { mailboxRouter } from './mailbox';
 import { exportsRouter, reportsRouter } from './reports';
 import { reviewRouter, reviewsRouter } from './review';
 import { unitBoardRouter } from './unit-board';
-import { uploadsRouter } from './uploads';
+import { readingsImportRouter, rosterUploadsRouter } from './uploads';
 
 /** Every API router and where it is mounted under /api. Add new resources here. */
 export function apiRouters(ctx: AppContext): [string, Router][] {
@@ -37,8 +37,9 @@ export function apiRouters(ctx: AppContext): [string, Router][] {
     ['/reviews', reviewsRouter(ctx)],
     ['/reports', reportsRouter(ctx)],
     ['/exports', exportsRouter(ctx)],
-    ['/', adminRouter(ctx)],
-    ['/', uploadsRouter(ctx)],
+    ['/admin', adminRouter(ctx)],
+    ['/admin', rosterUploadsRouter(ctx)],
+    ['/readings-import', readingsImportRouter(ctx)],
     // The demo's mailbox only: production has no mail catcher, and /api/mailbox answers 404 there.
     ...(ctx.config.mode === 'demo' ? ([['/mailbox', mailboxRouter(ctx)]] as [string, Router][]) : []),
   ];

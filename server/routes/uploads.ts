@@ -23,7 +23,11 @@ function statingSizeLimit(handler: RequestHandler): RequestHandler {
   return (req, res, next) =>
     handler(req, res, (err?: unknown) => {
       if (err instanceof multer.MulterError && err.code === 'LIMIT_FILE_SIZE') {
-        next(new ApiError(413, 'payload-too-large', `The file is larger than the limit of ${UPLOAD_LIMIT_TEXT}.`, { file: `At most ${UPLOAD_LIMIT_TEXT} per file: split it into smaller files.` }));
+        next(
+          new ApiError(413, 'payload-too-large', `The file is larger than the limit of ${UPLOAD_LIMIT_TEXT}.`, {
+            file: `At most ${UPLOAD_LIMIT_TEXT} per file: split it into smaller files.`,
+          }),
+        );
         return;
       }
       next(err);
@@ -35,28 +39,32 @@ function statingSizeLimit(handler: RequestHandler): RequestHandler {
  * multipartErrorsAs400 stays the outermost wrapper: its mark is what lets the route take multipart.
  */
 export function csvUpload(ctx: AppContext) {
-  return multipartErrorsAs400(statingSizeLimit(multer({
-    storage: multer.diskStorage({
-      destination: (_req, _file, cb) => {
-        const dir = uploadsDir(ctx);
-        fs.mkdir(dir, { recursive: true }, (err) => cb(err, dir));
-      },
-      filename: (_req, _file, cb) => cb(null, `${randomUUID()}.csv`),
-    }),
-    limits: { fileSize: MAX_UPLOAD_BYTES, files: 1, fields: 5, parts: 8 },
-    fileFilter: (_req, file, cb) => {
-      const unsafeName = unsafeTextReason(file.originalname);
-      if (unsafeName) {
-        cb(badRequest('The file name cannot be stored.', { file: `File name: ${unsafeName}` }));
-        return;
-      }
-      if (!/\.csv$/i.test(file.originalname) || !CSV_TYPES.has(file.mimetype)) {
-        cb(badRequest('Only CSV files can be uploaded.', { file: 'Choose a .csv file (comma-separated text).' }));
-        return;
-      }
-      cb(null, true);
-    },
-  }).single('file')));
+  return multipartErrorsAs400(
+    statingSizeLimit(
+      multer({
+        storage: multer.diskStorage({
+          destination: (_req, _file, cb) => {
+            const dir = uploadsDir(ctx);
+            fs.mkdir(dir, { recursive: true }, (err) => cb(err, dir));
+          },
+          filename: (_req, _file, cb) => cb(null, `${randomUUID()}.csv`),
+        }),
+        limits: { fileSize: MAX_UPLOAD_BYTES, files: 1, fields: 5, parts: 8 },
+        fileFilter: (_req, file, cb) => {
+          const unsafeName = unsafeTextReason(file.originalname);
+          if (unsafeName) {
+            cb(badRequest('The file name cannot be stored.', { file: `File name: ${unsafeName}` }));
+            return;
+          }
+          if (!/\.csv$/i.test(file.originalname) || !CSV_TYPES.has(file.mimetype)) {
+            cb(badRequest('Only CSV files can be uploaded.', { file: 'Choose a .csv file (comma-separated text).' }));
+            return;
+          }
+          cb(null, true);
+        },
+      }).single('file'),
+    ),
+  );
 }
 
 /** The file multer stored, as the service takes it. */
@@ -65,32 +73,41 @@ function uploadedFile(req: Request): UploadedFile {
   return { path: req.file.path, originalName: req.file.originalname, size: req.file.size };
 }
 
-/** Roster (admin) and readings (charge nurse) CSV uploads: preview first, then import. */
-export function uploadsRouter(ctx: AppContext) {
+const uploadId = (req: { params: unknown }) => (req.params as { uploadId: string }).uploadId;
+
+/** The administrator's roster CSV upload, mounted at /api/admin beside the admin routes: preview first, then import. */
+export function rosterUploadsRouter(ctx: AppContext) {
   const router = secureRouter();
   const upload = csvUpload(ctx);
-  const uploadId = (req: { params: unknown }) => (req.params as { uploadId: string }).uploadId;
 
-  router.post('/admin/roster/preview', allow(ctx, 'admin:manage'), upload, (req, res) => {
+  router.post('/roster/preview', allow(ctx, 'admin:manage'), upload, (req, res) => {
     res.status(201).json(previewRoster(ctx, uploadedFile(req), req.auth!));
   });
 
-  router.post('/admin/roster/:uploadId/import', allow(ctx, 'admin:manage'), async (req, res) => {
+  router.post('/roster/:uploadId/import', allow(ctx, 'admin:manage'), async (req, res) => {
     res.json(await importRoster(ctx, uploadId(req), req.auth!));
   });
 
-  router.post('/readings-import/preview', allow(ctx, 'readings:import'), validate('query', readingsImportQuerySchema), upload, (req, res) => {
+  return router;
+}
+
+/** The charge nurse's readings CSV upload, mounted at /api/readings-import: preview first, then import. */
+export function readingsImportRouter(ctx: AppContext) {
+  const router = secureRouter();
+  const upload = csvUpload(ctx);
+
+  router.post('/preview', allow(ctx, 'readings:import'), validate('query', readingsImportQuerySchema), upload, (req, res) => {
     res.status(201).json(previewReadings(ctx, uploadedFile(req), valid<{ unitId: string }>(req, 'query').unitId, req.auth!));
   });
 
-  router.get('/readings-import/:uploadId/errors.csv', allow(ctx, 'readings:import'), (req, res) => {
+  router.get('/:uploadId/errors.csv', allow(ctx, 'readings:import'), (req, res) => {
     const { filename, csv } = readingsErrorsCsv(ctx, uploadId(req), req.auth!);
     res.set('Content-Type', 'text/csv; charset=utf-8');
     res.set('Content-Disposition', `attachment; filename="${filename.replace(/[^\w.-]/g, '_')}"`);
     res.send(CSV_BOM + csv);
   });
 
-  router.post('/readings-import/:uploadId/import', allow(ctx, 'readings:import'), validate('body', readingsImportBodySchema), (req, res) => {
+  router.post('/:uploadId/import', allow(ctx, 'readings:import'), validate('body', readingsImportBodySchema), (req, res) => {
     const { confirmedLines } = valid<ReadingsImportBody>(req, 'body');
     res.json(importReadings(ctx, uploadId(req), req.auth!, confirmedLines));
   });
