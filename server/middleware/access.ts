@@ -1,6 +1,6 @@
 import { eq, sql } from 'drizzle-orm';
 import { beds, escalations, flags, infants, readings, reviews, skinToSkinSessions, units } from '../../db/schema';
-import { Router, type NextFunction, type Request, type RequestHandler, type Response } from 'express';
+import { Router, type NextFunction, type Request, type RequestHandler, type Response, type RouterOptions } from 'express';
 import { can, type Permission } from '../../shared/roles';
 import type { AppContext } from '../context';
 import { forbidden, notFound, unauthorized } from '../errors';
@@ -98,8 +98,8 @@ const METHODS = ['get', 'post', 'put', 'patch', 'delete'] as const;
  * An Express router whose routes must each begin with an `allow(...)` handler. Forgetting the
  * access rule throws when the app is built, so a route can never be open by accident.
  */
-export function secureRouter(): Router {
-  const router = Router();
+export function secureRouter(options?: RouterOptions): Router {
+  const router = Router(options);
   for (const method of METHODS) {
     const original = router[method].bind(router) as (path: string, ...handlers: RequestHandler[]) => Router;
     (router as unknown as Record<string, unknown>)[method] = (path: string, ...handlers: RequestHandler[]) => {

@@ -8,23 +8,23 @@ import { loadInfantFor } from '../services/infants';
 
 type InfantParams = { id: string };
 
-/** Moving, changing and discharging an admitted infant: the charge nurse's work. */
+/** Moving, changing and discharging an admitted infant, mounted at /api/infants: the charge nurse's work. */
 export function admissionsRouter(ctx: AppContext) {
   const router = secureRouter();
   const { sqlite } = ctx.database;
 
-  router.post('/infants/:id/move', allow(ctx, 'unit:manage'), validate('body', moveInfantSchema), (req, res) => {
+  router.post('/:id/move', allow(ctx, 'unit:manage'), validate('body', moveInfantSchema), (req, res) => {
     const infant = loadInfantFor(sqlite, req.auth!, (req.params as InfantParams).id);
     const { bedId } = valid<MoveInfantInput>(req, 'body');
     res.json({ infant: { id: infant.id, ...moveInfant(ctx, infant, bedId, req.auth!.userId) } });
   });
 
-  router.patch('/infants/:id', allow(ctx, 'unit:manage'), validate('body', updateInfantSchema), (req, res) => {
+  router.patch('/:id', allow(ctx, 'unit:manage'), validate('body', updateInfantSchema), (req, res) => {
     const infant = loadInfantFor(sqlite, req.auth!, (req.params as InfantParams).id);
     res.json({ infant: updateInfant(ctx, infant, valid<z.output<typeof updateInfantSchema>>(req, 'body'), req.auth!.userId) });
   });
 
-  router.post('/infants/:id/discharge', allow(ctx, 'unit:manage'), validate('body', dischargeInfantSchema), (req, res) => {
+  router.post('/:id/discharge', allow(ctx, 'unit:manage'), validate('body', dischargeInfantSchema), (req, res) => {
     const infant = loadInfantFor(sqlite, req.auth!, (req.params as InfantParams).id);
     const result = dischargeInfant(ctx, infant, valid<DischargeInfant>(req, 'body'), req.auth!.userId);
     res.json({ infant: { id: infant.id, status: 'discharged' }, ...result });

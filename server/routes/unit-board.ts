@@ -14,26 +14,26 @@ const unitMember: RequestHandler = (req, _res, next) => {
   next();
 };
 
-/** The charge nurse's unit: the board, admissions and assignments. */
+/** The charge nurse's unit, mounted at /api/units/:unitId: the board, admissions and assignments. */
 export function unitBoardRouter(ctx: AppContext) {
-  const router = secureRouter();
+  const router = secureRouter({ mergeParams: true });
   const { sqlite } = ctx.database;
 
-  router.get('/units/:unitId/board', allow(ctx, 'chart:read'), unitMember, async (req, res) => {
+  router.get('/board', allow(ctx, 'chart:read'), unitMember, async (req, res) => {
     const body = await readBoard(sqlite, (req.params as UnitParams).unitId, req.auth!.userId, ctx.clock.now());
     body.send(req, res);
   });
 
-  router.get('/units/:unitId/nurses', allow(ctx, 'unit:manage'), unitMember, (req, res) => {
+  router.get('/nurses', allow(ctx, 'unit:manage'), unitMember, (req, res) => {
     res.json({ nurses: listAssignableNurses(ctx, (req.params as UnitParams).unitId) });
   });
 
-  router.post('/units/:unitId/assignments', allow(ctx, 'unit:manage'), unitMember, validate('body', assignNurseSchema), (req, res) => {
+  router.post('/assignments', allow(ctx, 'unit:manage'), unitMember, validate('body', assignNurseSchema), (req, res) => {
     const input = valid<{ infantId: string; nurseId: string; shift: 'current' | 'next' }>(req, 'body');
     res.status(201).json({ assignment: assignNurse(ctx, (req.params as UnitParams).unitId, input, req.auth!.userId) });
   });
 
-  router.post('/units/:unitId/infants', allow(ctx, 'unit:manage'), unitMember, validate('body', admitInfantSchema), (req, res) => {
+  router.post('/infants', allow(ctx, 'unit:manage'), unitMember, validate('body', admitInfantSchema), (req, res) => {
     const input = valid<AdmitInfant>(req, 'body');
     const { id } = admitInfant(ctx, (req.params as UnitParams).unitId, input, req.auth!.userId);
     res.status(201).json({ infant: { id, bedId: input.bedId, displayName: input.displayName } });
