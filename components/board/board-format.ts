@@ -8,13 +8,21 @@ export function minutesWords(totalSeconds: number): string {
   return m < 60 ? `${m} min` : `${Math.floor(m / 60)} h ${String(m % 60).padStart(2, '0')} min`;
 }
 
+/** The same span held together on one line (no-break spaces): a narrow tile breaks before it, never inside it. */
+function unbroken(words: string): string {
+  return words.replace(/ /g, '\u00a0');
+}
+
 /** The countdown to the next check at `nowMs`, in words ("Overdue by 55 min"). */
 export function countdown(dueAt: string | null, nowMs: number, dueSoonMinutes: number): { text: string; tone: StatusTone; icon: IconName } {
   if (!dueAt) return { text: 'No check yet', tone: 'neutral', icon: 'clock' };
   const left = (Date.parse(dueAt) - nowMs) / 1000;
-  if (left < 0) return { text: `Overdue by ${minutesWords(-left)}`, tone: 'danger', icon: 'alert' };
-  if (left <= dueSoonMinutes * 60) return { text: `Due in ${minutesWords(left)}`, tone: 'warning', icon: 'clock' };
-  return { text: `Check in ${minutesWords(left)}`, tone: 'ok', icon: 'check' };
+  // Late: whole minutes gone by ("under 1 min" in the first minute, never "by 0 min").
+  if (left < 0) return { text: left > -60 ? 'Overdue by under 1 min' : `Overdue by ${unbroken(minutesWords(-left))}`, tone: 'danger', icon: 'alert' };
+  // To come: minutes started count, so the last seconds read "Due in 1 min", never "Due in 0 min".
+  const ahead = Math.ceil(left / 60) * 60;
+  if (left <= dueSoonMinutes * 60) return { text: `Due in ${unbroken(minutesWords(ahead))}`, tone: 'warning', icon: 'clock' };
+  return { text: `Check in ${unbroken(minutesWords(ahead))}`, tone: 'ok', icon: 'check' };
 }
 
 /** "4 min ago", "2 h 10 min ago". */

@@ -41,18 +41,34 @@ export function matchesFilters(bed: BoardBed, status: StatusFilter, nurseId: str
 
 const GAP = 12;
 
+export interface WallGrid {
+  columns: number;
+  tileWidth: number;
+  /** The height of an occupied bed's tile (every one the same). */
+  tileHeight: number;
+  scale: WallScale;
+}
+
 /**
- * The wall grid: as many columns as fit at the scale's narrowest tile, and tiles as tall as the
- * rows left below the grid's top allow, so the whole unit is on one screen. Every tile has the same
- * size (the last row's tiles do not stretch).
+ * The wall grid: as many columns as fit at the scale's narrowest tile, and occupied beds' tiles as
+ * tall as the rows left below the grid's top allow, so the whole unit is on one screen. Empty beds
+ * (last in the board's order) need less room: they follow at their own height (`emptyHeight`, the
+ * tallest one as drawn), first in the cells the last row of occupied beds leaves free, so a unit
+ * with empty beds gives its infants taller tiles. Every occupied tile has the same size, and every
+ * empty one the same width (the last row's tiles do not stretch).
  */
-export function wallGrid(count: number, width: number, height: number, windowWidth: number): { columns: number; tileWidth: number; tileHeight: number; scale: WallScale } {
+export function wallGrid({ occupied, empty }: { occupied: number; empty: number }, width: number, height: number, windowWidth: number, emptyHeight: number): WallGrid {
   const scale: WallScale = windowWidth >= 1800 ? 'large' : 'medium';
   const minWidth = scale === 'large' ? 300 : 212;
-  const columns = Math.max(1, Math.min(count, Math.floor((width + GAP) / (minWidth + GAP))));
-  const rows = Math.max(1, Math.ceil(count / columns));
+  const count = occupied + empty;
+  const columns = Math.max(1, Math.min(Math.max(count, 1), Math.floor((width + GAP) / (minWidth + GAP))));
   const tileWidth = Math.floor((width - GAP * (columns - 1)) / columns);
-  const tileHeight = Math.max(scale === 'large' ? 240 : 180, Math.floor((height - GAP * (rows - 1)) / rows));
+  const occupiedRows = Math.ceil(occupied / columns);
+  const freeCells = occupied % columns === 0 ? 0 : columns - (occupied % columns);
+  const emptyRows = Math.ceil(Math.max(0, empty - freeCells) / columns);
+  const forOccupied = height - emptyRows * (emptyHeight + GAP);
+  const rows = Math.max(1, occupiedRows);
+  const tileHeight = Math.max(scale === 'large' ? 240 : 180, Math.floor((forOccupied - GAP * (rows - 1)) / rows));
   return { columns, tileWidth, tileHeight, scale };
 }
 
@@ -76,23 +92,37 @@ function BoardBody({ query }: { query: ReturnType<typeof useBoardQuery> }) {
   const [managing, setManaging] = useState<string | null>(null);
   const [shiftChange, setShiftChange] = useState(false);
   const acknowledge = useAcknowledgeEscalationMutation();
+  // The escalations being acknowledged: one, or every one a tile tells in the same words.
+  const [acknowledging, setAcknowledging] = useState<string[]>([]);
+  const acknowledgeAll = async (ids: string[]) => {
+    setAcknowledging(ids);
+    try {
+      for (const escalationId of ids) await acknowledge.mutateAsync({ escalationId });
+    } catch {
+      // The mutation keeps the error; the line above the beds says it.
+    } finally {
+      setAcknowledging([]);
+    }
+  };
   const warmings = useWarmingsQuery(user.unitIds[0] ?? null);
   const nowMs = useNow(query.data?.serverTime);
   const canManage = can(user.role, 'unit:manage');
   const router = useRouter();
   const gridRef = useRef<View>(null);
-  const [area, setArea] = useState<{ top: number; width: number } | null>(null);
+  const [area, setArea] = useState<{ top: number; width: number; emptyHeight: number } | null>(null);
 
-  // Where the grid starts and how wide it is (the web only; a phone lists the beds in one column).
-  // Measured after every render, as anything above the grid may move it; setArea keeps the old
-  // object when nothing moved, so React stops there.
+  // Where the grid starts, how wide it is and how tall its tallest empty bed is drawn (the web
+  // only; a phone lists the beds in one column). Measured after every render, as anything above
+  // the grid may move it; setArea keeps the old object when nothing moved, so React stops there.
   // eslint-disable-next-line react-hooks/exhaustive-deps
   useLayoutEffect(() => {
     if (Platform.OS !== 'web' || !wide || !gridRef.current) return;
     const el = gridRef.current as unknown as HTMLElement;
     const r = el.getBoundingClientRect();
-    const next = { top: Math.round(r.top + window.scrollY), width: Math.round(r.width) };
-    setArea((a) => (a && a.top === next.top && a.width === next.width ? a : next));
+    let emptyHeight = 0;
+    for (const tile of Array.from(el.querySelectorAll<HTMLElement>('[data-empty-bed]'))) emptyHeight = Math.max(emptyHeight, Math.ceil(tile.getBoundingClientRect().height));
+    const next = { top: Math.round(r.top + window.scrollY), width: Math.round(r.width), emptyHeight };
+    setArea((a) => (a && a.top === next.top && a.width === next.width && a.emptyHeight === next.emptyHeight ? a : next));
   });
 
   if (user.unitIds.length === 0) return <EmptyState title="No unit" message="You are not a member of any unit yet." />;
@@ -104,14 +134,16 @@ function BoardBody({ query }: { query: ReturnType<typeof useBoardQuery> }) {
   const managed = managing ? board.beds.find((b) => b.bedId === managing) : undefined;
   const attention = board.beds.filter((b) => b.tier === 0).length;
   const warmingOf = new Map((warmings.data ?? []).map((w) => [w.bedId, w]));
-  const grid = wide && area ? wallGrid(beds.length, area.width, height - area.top - 16, width) : null;
+  const occupied = beds.filter((b) => b.infant !== null).length;
+  const grid = wide && area ? wallGrid({ occupied, empty: beds.length - occupied }, area.width, height - area.top - 8, width, area.emptyHeight) : null;
   const filtered = status !== 'all' || nurseId !== 'all';
   const filterSummary = `${STATUS_OPTIONS.find((o) => o.value === status)!.label} · ${nurseId === 'all' ? 'everyone' : (board.nurses.find((n) => n.id === nurseId)?.name ?? 'one nurse')}`;
 
   const filters = (
     <View style={styles.filterBox}>
       <Button
-        label={`Filters: ${filterSummary}`}
+        // Unfiltered, one word: the board's heading row stays one line on a 1440-wide wall.
+        label={filtered ? `Filters: ${filterSummary}` : 'Filters'}
         icon="list"
         variant={filtered ? 'primary' : 'quiet'}
         compact
@@ -180,12 +212,12 @@ function BoardBody({ query }: { query: ReturnType<typeof useBoardQuery> }) {
               clock={user.clock}
               dueSoonMinutes={board.unit.dueSoonMinutes}
               canManage={canManage}
-              acknowledging={acknowledge.isPending ? (acknowledge.variables?.escalationId ?? null) : null}
+              acknowledging={acknowledging}
               onManage={(b) => setManaging(b.bedId)}
-              onAcknowledge={(escalationId) => acknowledge.mutate({ escalationId })}
+              onAcknowledge={(ids) => void acknowledgeAll(ids)}
               warming={warmingOf.get(bed.bedId)}
               width={grid ? grid.tileWidth : '100%'}
-              height={grid ? grid.tileHeight : undefined}
+              height={grid && bed.infant ? grid.tileHeight : undefined}
               scale={grid ? grid.scale : 'phone'}
             />
           ))}

@@ -19,11 +19,14 @@ const KIND_LOOK: Record<FlagKind, { label: string; icon: IconName }> = {
 /** Colour follows severity (shared/thermal/severity.ts), never the view: critical and urgent red, a caution amber. */
 const SEVERITY_TONE: Record<Severity, StatusTone> = { critical: 'danger', urgent: 'danger', caution: 'warning' };
 
-/** What a flag badge shows: the severity's word, the kind (or band) and direction, its icon and colour. */
-export function flagLook(flag: { kind: FlagKind; severity?: Severity; detail?: Record<string, unknown> }): { tone: StatusTone; icon: IconName; label: string } {
+/**
+ * What a flag badge shows: the severity's word, the kind (or band) and direction, its icon and
+ * colour. `short` (a wall tile, read from across the room) leaves out a threshold the word implies.
+ */
+export function flagLook(flag: { kind: FlagKind; severity?: Severity; detail?: Record<string, unknown> }, short = false): { tone: StatusTone; icon: IconName; label: string } {
   const severity = flag.severity ?? 'urgent';
   const d = flag.detail ?? {};
-  let what = KIND_LOOK[flag.kind].label;
+  let what = short && flag.kind === 'fever' ? 'Fever' : KIND_LOOK[flag.kind].label;
   if (flag.kind === 'cold-stress' && typeof d.band === 'string' && d.band in BAND_LABELS) what = BAND_LABELS[d.band as keyof typeof BAND_LABELS];
   if (flag.kind === 'gap' && d.direction === 'probe-lower') what = `${what}: probe lower`;
   if (flag.kind === 'gap' && d.direction === 'probe-higher') what = `${what}: remote site lower`;

@@ -33,7 +33,7 @@ describe('the charge nurse at the unit board (1440x900)', () => {
     const tile = page.getByTestId('bed-N02');
     await tile.getByText('Baby Brightwater').waitFor();
     // The countdown says how late in words, never a clock-like time.
-    const overdue = await tile.getByText(/^Overdue by \d+ (min|h)/).textContent();
+    const overdue = await tile.getByText(/^Overdue by\s\d+\s(min|h)/).textContent();
     assert.doesNotMatch(overdue ?? '', /\d:\d\d/);
     await shot(page, 'board-charge-wide');
 

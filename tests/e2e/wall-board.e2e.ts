@@ -1,6 +1,8 @@
 import assert from 'node:assert/strict';
 import { after, before, describe, it } from 'node:test';
 import type { Browser, Page } from 'playwright-core';
+import { randomUUID } from 'node:crypto';
+import { admitCrowdedInfant } from './crowded-bed';
 import { ACCOUNTS, apiToken, BASE_URL, launch, newPage, PHONE, shot, signIn } from './support';
 
 // The charge nurse's wall board, read from across the room. Sizes: WCAG 2.2 and common practice
@@ -9,15 +11,25 @@ import { ACCOUNTS, apiToken, BASE_URL, launch, newPage, PHONE, shot, signIn } fr
 let browser: Browser;
 before(async () => {
   browser = await launch();
+  // N12 holds an infant with five open flags (crowded-bed.ts), escalated: the fullest tile a
+  // unit shows. The server escalates once a minute; wait for it so every size sees the worst case.
+  await admitCrowdedInfant();
+  const deadline = Date.now() + 75_000;
+  while (!(await apiBoard()).find((b) => b.label === 'N12')!.escalations.some((e) => e.sentAt)) {
+    assert.ok(Date.now() < deadline, 'the escalations of N12 went out within the minute');
+    await new Promise((r) => setTimeout(r, 2_000));
+  }
 });
 after(async () => {
   await browser.close();
 });
 
 interface ApiBed {
+  bedId: string;
   label: string;
   tier: number;
-  infant: { displayName: string } | null;
+  infant: { displayName: string; openFlags: { key: string; severity: string }[] } | null;
+  escalations: { id: string; sentAt: string | null; acknowledgedAt: string | null }[];
 }
 
 async function apiBoard(): Promise<ApiBed[]> {
@@ -54,12 +66,62 @@ async function tileBoxes(page: Page, viewport: { width: number; height: number }
   return boxes;
 }
 
+/**
+ * Text a tile cuts: every line of text (each line box of each text node, as the browser laid it
+ * out) must lie inside its tile's border box, and every element holding text inside its width.
+ * A fixed-height tile that clips a line in half, or hides a line below its edge, is reported.
+ */
+async function cutText(page: Page): Promise<string[]> {
+  return page.evaluate(() => {
+    const problems: string[] = [];
+    for (const tile of Array.from(document.querySelectorAll<HTMLElement>('[role="listitem"][data-testid^="bed-"]'))) {
+      const t = tile.getBoundingClientRect();
+      const cs = getComputedStyle(tile);
+      const top = t.top + parseFloat(cs.borderTopWidth) - 0.5;
+      const bottom = t.bottom - parseFloat(cs.borderBottomWidth) + 0.5;
+      const left = t.left + parseFloat(cs.borderLeftWidth) - 0.5;
+      const right = t.right - parseFloat(cs.borderRightWidth) + 0.5;
+      const walker = document.createTreeWalker(tile, NodeFilter.SHOW_TEXT);
+      for (let node = walker.nextNode(); node; node = walker.nextNode()) {
+        const text = node.textContent?.trim();
+        if (!text) continue;
+        const range = document.createRange();
+        range.selectNodeContents(node);
+        for (const line of Array.from(range.getClientRects())) {
+          if (line.height === 0) continue;
+          if (line.top < top || line.bottom > bottom) problems.push(`${tile.dataset.testid}: "${text.slice(0, 50)}" is cut at the tile's top or bottom`);
+        }
+        const holder = node.parentElement!.getBoundingClientRect();
+        if (holder.left < left || holder.right > right) problems.push(`${tile.dataset.testid}: "${text.slice(0, 50)}" runs past the tile's side`);
+      }
+    }
+    return problems;
+  });
+}
+
+/** The crowded bed's flags: the most severe shown, the rest counted in words, as many in all as the server holds open. */
+async function checkCrowdedTile(page: Page, api: ApiBed[], atLeastOneShown: boolean) {
+  const n12 = api.find((b) => b.label === 'N12')!;
+  const open = n12.infant!.openFlags;
+  assert.ok(open.length >= 5, `the crowded infant has five or more open flags (${open.length})`);
+  const tile = page.getByTestId('bed-N12');
+  const shown = await tile.getByTestId('bed-flag').allInnerTexts();
+  const more = (await tile.getByTestId('bed-more-flags').innerText()).trim();
+  const m = /^\+(\d+) more flags?$/.exec(more);
+  assert.ok(m, `"${more}" says in words how many flags are left out`);
+  assert.equal(shown.length + Number(m[1]), open.length, `${shown.length} shown and ${m[1]} left out make the ${open.length} open flags`);
+  if (atLeastOneShown) assert.ok(shown.length >= 1, 'the most severe flag is shown');
+  // The fever is critical (38.0 °C and over, Bedside Clinical Guidelines Partnership): it comes first.
+  assert.ok(open.some((f) => f.severity === 'critical'));
+  if (shown.length) assert.match(shown[0]!, /^Critical: Fever/);
+}
+
 for (const viewport of [
   { width: 1440, height: 900 },
   { width: 1920, height: 1080 },
 ]) {
   describe(`the wall board at ${viewport.width}x${viewport.height}`, () => {
-    it('shows every bed of the 14-bed unit without scrolling, most urgent first', async () => {
+    it('shows every bed of the 14-bed unit without scrolling, most urgent first, and no tile cuts its text', async () => {
       const page = await newPage(browser, viewport);
       await openBoard(page);
       const api = await apiBoard();
@@ -81,11 +143,22 @@ for (const viewport of [
       // Filters fold away behind one control.
       assert.equal(await page.getByRole('radio', { name: 'Needs attention' }).count(), 0);
       await page.getByRole('button', { name: /^Filters/ }).waitFor();
-      // The last row's tiles are as tall as the others (no stretching).
-      const heights = new Set(boxes.map((b) => Math.round(b.height)));
-      assert.equal(heights.size, 1, `one tile height, got ${[...heights].join(', ')}`);
-      const widths = new Set(boxes.map((b) => Math.round(b.width)));
-      assert.equal(widths.size, 1, `one tile width, got ${[...widths].join(', ')}`);
+      // Every infant's tile has one size, and every empty bed's one width (no stretching); empty
+      // beds are shorter, so the infants get the room.
+      const occupied = new Set(api.filter((b) => b.infant).map((b) => b.label));
+      const sizes = (list: typeof boxes, key: 'height' | 'width') => new Set(list.map((b) => Math.round(b[key])));
+      const infants = boxes.filter((b) => occupied.has(b.label));
+      const empties = boxes.filter((b) => !occupied.has(b.label));
+      assert.equal(sizes(infants, 'height').size, 1, `one height for the infants' tiles, got ${[...sizes(infants, 'height')].join(', ')}`);
+      assert.equal(sizes(boxes, 'width').size, 1, `one tile width, got ${[...sizes(boxes, 'width')].join(', ')}`);
+      if (empties.length)
+        assert.ok(
+          empties.every((e) => e.height <= infants[0]!.height),
+          "an empty bed is never taller than an infant's",
+        );
+      // Nothing is cut in half or hidden past a tile's edge.
+      assert.deepEqual(await cutText(page), []);
+      await checkCrowdedTile(page, api, true);
       // Countdowns are words, never a clock-like time.
       for (const text of await page.getByTestId('bed-countdown').allInnerTexts()) {
         assert.doesNotMatch(text, /\d:\d\d/, `countdown "${text}"`);
@@ -94,20 +167,40 @@ for (const viewport of [
         .getByTestId('bed-countdown')
         .filter({ hasText: /Overdue/ })
         .allInnerTexts();
-      assert.ok(overdue.length > 0 && overdue.every((t) => /^Overdue by \d+ (min|h)/.test(t)), `overdue countdowns: ${overdue.join(' | ')}`);
+      assert.ok(overdue.length > 0 && overdue.every((t) => /^Overdue by\s\d+\s(min|h)/.test(t)), `overdue countdowns: ${overdue.join(' | ')}`);
+      // An infant with no nurse assigned is marked (N12 was admitted with none).
+      await page
+        .getByTestId('bed-N12')
+        .getByText(/^No nurse/)
+        .waitFor();
       if (viewport.width === 1920) {
         const size = (testId: string) => page.getByTestId(testId).evaluateAll((els) => els.map((e) => parseFloat(getComputedStyle(e).fontSize)));
         for (const px of await size('bed-label')) assert.ok(px >= 32, `bed label ${px} px`);
         for (const px of await size('bed-countdown')) assert.ok(px >= 32, `countdown ${px} px`);
         const flags = await size('bed-flag');
         assert.ok(flags.length > 0, 'the demo shows flag words');
-        for (const px of flags) assert.ok(px >= 20, `flag words ${px} px`);
+        for (const px of [...flags, ...(await size('bed-more-flags'))]) assert.ok(px >= 20, `flag words ${px} px`);
       }
       await shot(page, `wall-board-${viewport.width}x${viewport.height}`);
       await page.context().close();
     });
   });
 }
+
+describe('acknowledging from the wall', () => {
+  it('one tap acknowledges every escalation a tile tells in the same words', async () => {
+    const page = await newPage(browser, { width: 1440, height: 900 });
+    await openBoard(page);
+    const before = (await apiBoard()).find((b) => b.label === 'N12')!.escalations.filter((e) => e.sentAt && !e.acknowledgedAt);
+    assert.ok(before.length >= 2, `N12 has several escalations to acknowledge (${before.length})`);
+    const tile = page.getByTestId('bed-N12');
+    await tile.getByRole('button', { name: /^Acknowledge all \d+$/ }).click();
+    await tile.getByRole('button', { name: /^Acknowledge/ }).waitFor({ state: 'detached' });
+    const after = (await apiBoard()).find((b) => b.label === 'N12')!.escalations;
+    for (const e of before) assert.ok(after.find((a) => a.id === e.id)?.acknowledgedAt, `escalation ${e.id} acknowledged`);
+    await page.context().close();
+  });
+});
 
 describe('admitting and warming from the board', () => {
   it('on a phone the beds come first; Admit opens in view with focus inside and gives it back on close', async () => {
@@ -167,7 +260,52 @@ describe('admitting and warming from the board', () => {
     await admitDialog.waitFor({ state: 'detached' });
     const admitted = page.getByTestId('bed-N13');
     await admitted.getByText('Baby Tamsworth').waitFor();
-    await admitted.getByText('No nurse assigned').waitFor();
+    await admitted.getByText(/^No nurse/).waitFor();
     await page.context().close();
+  });
+});
+
+describe('a full unit on the wall', () => {
+  it('fourteen infants at 1440x900 and 1920x1080: every bed in one screen, no text cut, the crowded bed counts what it leaves out', async () => {
+    const token = await apiToken(ACCOUNTS.charge);
+    for (const bed of (await apiBoard()).filter((b) => !b.infant)) {
+      const res = await fetch(`${BASE_URL}/api/units/unit-north/infants`, {
+        method: 'POST',
+        headers: { Authorization: `Bearer ${token}`, 'Content-Type': 'application/json' },
+        body: JSON.stringify({
+          bedId: bed.bedId,
+          displayName: `Baby ${bed.label} ${randomUUID().slice(0, 4)}`,
+          birthAt: new Date(Date.now() - 6 * 3_600_000).toISOString(),
+          gestationWeeks: 36,
+          gestationDays: 1,
+          birthWeightGrams: 2650,
+          heatSource: 'incubator',
+          controlMode: 'air-servo',
+          setTemperature: 32.5,
+          tempUnit: 'C',
+        }),
+      });
+      assert.equal(res.status, 201, `admitted to ${bed.label}`);
+    }
+    const api = await apiBoard();
+    assert.ok(
+      api.every((b) => b.infant),
+      'every bed holds an infant',
+    );
+    for (const viewport of [
+      { width: 1440, height: 900 },
+      { width: 1920, height: 1080 },
+    ]) {
+      const page = await newPage(browser, viewport);
+      await openBoard(page);
+      await page.getByTestId('bed-N14').getByTestId('bed-countdown').waitFor();
+      const boxes = await tileBoxes(page, viewport);
+      assert.equal(boxes.length, 14);
+      assert.equal(new Set(boxes.map((b) => Math.round(b.height))).size, 1, 'one tile height');
+      assert.deepEqual(await cutText(page), []);
+      await checkCrowdedTile(page, api, false);
+      await shot(page, `wall-board-full-${viewport.width}x${viewport.height}`);
+      await page.context().close();
+    }
   });
 });
