@@ -5,14 +5,7 @@
  * audit_events) are append-only: triggers in the migrations refuse UPDATE and DELETE.
  */
 import { sql } from 'drizzle-orm';
-import {
-  index,
-  integer,
-  primaryKey,
-  sqliteTable,
-  text,
-  uniqueIndex,
-} from 'drizzle-orm/sqlite-core';
+import { index, integer, primaryKey, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
 
 const instant = (name: string) => integer(name, { mode: 'timestamp_ms' });
 const flag = (name: string) => integer(name, { mode: 'boolean' });
@@ -78,9 +71,15 @@ export const users = sqliteTable('users', {
   name: text('name').notNull(),
   role: text('role', { enum: ['nurse', 'charge', 'educator', 'admin'] }).notNull(),
   passwordHash: text('password_hash'),
-  tempUnit: text('temp_unit', { enum: ['C', 'F'] }).notNull().default('C'),
-  clock: text('clock', { enum: ['24h', '12h'] }).notNull().default('24h'),
-  theme: text('theme', { enum: ['system', 'light', 'dark'] }).notNull().default('system'),
+  tempUnit: text('temp_unit', { enum: ['C', 'F'] })
+    .notNull()
+    .default('C'),
+  clock: text('clock', { enum: ['24h', '12h'] })
+    .notNull()
+    .default('24h'),
+  theme: text('theme', { enum: ['system', 'light', 'dark'] })
+    .notNull()
+    .default('system'),
   active: flag('active').notNull().default(true),
   /** Bumped by a password change, role or unit change, or deactivation: older tokens stop working. */
   sessionVersion: integer('session_version').notNull().default(1),
@@ -126,15 +125,13 @@ export const signInAttempts = sqliteTable(
     at: instant('at').notNull(),
     succeeded: flag('succeeded').notNull(),
     /** What was tried: a sign-in, the current-password check of a password change, or a reset request. */
-    kind: text('kind', { enum: ['sign-in', 'password-check', 'reset-request'] }).notNull().default('sign-in'),
+    kind: text('kind', { enum: ['sign-in', 'password-check', 'reset-request'] })
+      .notNull()
+      .default('sign-in'),
     /** The device cookie's id when the browser had signed in to this account before (its own budget). */
     device: text('device'),
   },
-  (t) => [
-    index('sign_in_attempts_email_at').on(t.email, t.at),
-    index('sign_in_attempts_address_at').on(t.address, t.at),
-    index('sign_in_attempts_device_at').on(t.device, t.at),
-  ],
+  (t) => [index('sign_in_attempts_email_at').on(t.email, t.at), index('sign_in_attempts_address_at').on(t.address, t.at), index('sign_in_attempts_device_at').on(t.device, t.at)],
 );
 
 /** Single-use links sent by e-mail: invitations and password resets. Only a hash of the token is kept. */
@@ -163,7 +160,9 @@ export const infants = sqliteTable(
     birthWeightGrams: integer('birth_weight_grams').notNull(),
     weightGrams: integer('weight_grams').notNull(),
     heatSource: text('heat_source', { enum: ['radiant-warmer', 'incubator', 'convertible'] }).notNull(),
-    status: text('status', { enum: ['admitted', 'discharged'] }).notNull().default('admitted'),
+    status: text('status', { enum: ['admitted', 'discharged'] })
+      .notNull()
+      .default('admitted'),
     admittedAt: instant('admitted_at').notNull(),
     dischargedAt: instant('discharged_at'),
     /** The hospital's number for the infant (medical record number); null only on rows older than the field. */
@@ -266,7 +265,9 @@ export const readings = sqliteTable(
     heatSigns: text('heat_signs').notNull().default('[]'),
     note: text('note'),
     /** The unit the nurse typed in, kept so the record shows what was entered. */
-    enteredUnit: text('entered_unit', { enum: ['C', 'F'] }).notNull().default('C'),
+    enteredUnit: text('entered_unit', { enum: ['C', 'F'] })
+      .notNull()
+      .default('C'),
     lateReason: text('late_reason'),
     sessionId: text('session_id').references(() => skinToSkinSessions.id),
     replacesId: text('replaces_id'),
@@ -287,11 +288,7 @@ export const readings = sqliteTable(
     weightGrams: integer('weight_grams'),
     humidityPct: integer('humidity_pct'),
   },
-  (t) => [
-    index('readings_infant_taken').on(t.infantId, t.takenAt),
-    index('readings_unit_taken').on(t.unitId, t.takenAt),
-    uniqueIndex('readings_replaces').on(t.replacesId),
-  ],
+  (t) => [index('readings_infant_taken').on(t.infantId, t.takenAt), index('readings_unit_taken').on(t.unitId, t.takenAt), uniqueIndex('readings_replaces').on(t.replacesId)],
 );
 
 /** A flag as raised by the rules; its closing is a row in flag_resolutions. */

@@ -72,7 +72,9 @@ async function main() {
     body: JSON.stringify({ email: 'nia.okafor@warmfold.test', password: 'warm-hands-at-night' }),
   });
   const { token } = (await signIn.json()) as { token: string };
-  const infants = ((await (await fetch(`${base}/api/infants/mine`, { headers: { Authorization: `Bearer ${token}` } })).json()) as { infants: { id: string }[] }).infants.map((i) => i.id);
+  const infants = ((await (await fetch(`${base}/api/infants/mine`, { headers: { Authorization: `Bearer ${token}` } })).json()) as { infants: { id: string }[] }).infants.map(
+    (i) => i.id,
+  );
   if (infants.length === 0) throw new Error('no infants to chart');
 
   const acknowledged = new Set<string>();
@@ -121,9 +123,22 @@ async function main() {
     for (const id of ids) if (id !== null) counts.set(id, (counts.get(id) ?? 0) + 1);
     return counts;
   };
-  const stored = tally(d.select({ id: readings.id }).from(readings).all().map((r) => r.id));
+  const stored = tally(
+    d
+      .select({ id: readings.id })
+      .from(readings)
+      .all()
+      .map((r) => r.id),
+  );
   const readingEvent = and(eq(auditEvents.entityType, 'reading'), eq(auditEvents.action, 'reading-create'));
-  const audited = tally(d.select({ id: auditEvents.entityId }).from(auditEvents).where(readingEvent).all().map((e) => e.id));
+  const audited = tally(
+    d
+      .select({ id: auditEvents.entityId })
+      .from(auditEvents)
+      .where(readingEvent)
+      .all()
+      .map((e) => e.id),
+  );
   let missing = 0;
   let duplicated = 0;
   let unaudited = 0;
@@ -133,7 +148,10 @@ async function main() {
     if (n > 1) duplicated += 1;
     if ((audited.get(id) ?? 0) !== 1) unaudited += 1;
   }
-  const anyEvent = d.select({ id: auditEvents.id }).from(auditEvents).where(and(eq(auditEvents.entityType, 'reading'), eq(auditEvents.entityId, readings.id)));
+  const anyEvent = d
+    .select({ id: auditEvents.id })
+    .from(auditEvents)
+    .where(and(eq(auditEvents.entityType, 'reading'), eq(auditEvents.entityId, readings.id)));
   const orphans = d.select({ n: count() }).from(readings).where(notExists(anyEvent)).get()?.n ?? 0;
   // The whole record: every link, every chained row against its event, and the signed checkpoints
   // the server wrote at each start (and at the last, clean shutdown).

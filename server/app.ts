@@ -70,7 +70,7 @@ export function createApp({ db, mailer, clock, config, log = (line) => process.s
   const api = express.Router();
   api.use(
     cors({
-      origin: (origin, cb) => cb(null, !origin || config.corsOrigins.includes(origin) ? origin ?? false : false),
+      origin: (origin, cb) => cb(null, !origin || config.corsOrigins.includes(origin) ? (origin ?? false) : false),
       credentials: false,
     }),
   );

@@ -21,7 +21,10 @@ export interface AuditInput {
 const json = (v: unknown) => (v === undefined || v === null ? null : JSON.stringify(v));
 
 /** The hash covers every field of the event and the previous hash, in a fixed order. */
-export function auditHash(prevHash: string, e: { at: number; actorId: string | null; action: string; entityType: string; entityId: string | null; unitId: string | null; before: string | null; after: string | null }): string {
+export function auditHash(
+  prevHash: string,
+  e: { at: number; actorId: string | null; action: string; entityType: string; entityId: string | null; unitId: string | null; before: string | null; after: string | null },
+): string {
   const canonical = JSON.stringify([prevHash, e.at, e.actorId, e.action, e.entityType, e.entityId, e.unitId, e.before, e.after]);
   return createHash('sha256').update(canonical).digest('hex');
 }

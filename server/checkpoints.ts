@@ -220,17 +220,29 @@ export function checkpointJob(settings: CheckpointSettings, mailTo: string[] = [
  * At start-up: find (or, in the demo, generate) the key, say where it is, sign the head as it is
  * now, and hand back the scheduler's job and the shutdown checkpoint.
  */
-export function startCheckpointing(sqlite: Database.Database, dataDir: string, log: (line: string) => void, production = false, env: Env = process.env): { settings: CheckpointSettings; job: Job; atShutdown(): void } {
+export function startCheckpointing(
+  sqlite: Database.Database,
+  dataDir: string,
+  log: (line: string) => void,
+  production = false,
+  env: Env = process.env,
+): { settings: CheckpointSettings; job: Job; atShutdown(): void } {
   // In production the key is named explicitly: one generated beside the data folder is a demo convenience.
   if (production && !env.AUDIT_KEY && !env.AUDIT_KEY_FILE) {
     throw new ConfigError('production', ['AUDIT_KEY (32+ characters) or AUDIT_KEY_FILE: the key that signs the audit checkpoints, kept outside the data folder and its backups']);
   }
   const settings = checkpointSettings(dataDir, env, true);
   const key = settings.key!;
-  if (key.generated) log(`Audit checkpoints: generated a signing key in ${key.source} (beside the data folder, not in it). Fine for the demo; in production set AUDIT_KEY or AUDIT_KEY_FILE to a key kept elsewhere.`);
+  if (key.generated)
+    log(
+      `Audit checkpoints: generated a signing key in ${key.source} (beside the data folder, not in it). Fine for the demo; in production set AUDIT_KEY or AUDIT_KEY_FILE to a key kept elsewhere.`,
+    );
   else log(`Audit checkpoints: signed with the key from ${key.source}, written to ${settings.file}.`);
   writeCheckpoint(sqlite, settings, 'start');
-  const mailTo = (env.AUDIT_CHECKPOINT_MAILTO ?? '').split(',').map((s) => s.trim()).filter(Boolean);
+  const mailTo = (env.AUDIT_CHECKPOINT_MAILTO ?? '')
+    .split(',')
+    .map((s) => s.trim())
+    .filter(Boolean);
   return {
     settings,
     job: checkpointJob(settings, mailTo),

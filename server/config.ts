@@ -4,9 +4,7 @@ import net from 'node:net';
 import path from 'node:path';
 import { z } from 'zod';
 
-const bool = z
-  .enum(['true', 'false', '1', '0', 'yes', 'no'])
-  .transform((v) => v === 'true' || v === '1' || v === 'yes');
+const bool = z.enum(['true', 'false', '1', '0', 'yes', 'no']).transform((v) => v === 'true' || v === '1' || v === 'yes');
 
 /** The demo (invented unit, published passwords, a mail catcher) or a real deployment. */
 export type Mode = 'demo' | 'production';
@@ -84,7 +82,10 @@ const PROXY_NAMES = new Set(['loopback', 'linklocal', 'uniquelocal']);
 
 /** TRUST_PROXY's entries: names, addresses or CIDR ranges only (never `true` or a hop count, which would let any client choose its address). */
 function parseTrustProxy(value: string): { list: false | string[]; problems: string[] } {
-  const entries = value.split(',').map((s) => s.trim()).filter(Boolean);
+  const entries = value
+    .split(',')
+    .map((s) => s.trim())
+    .filter(Boolean);
   if (entries.length === 0) return { list: false, problems: [] };
   const problems: string[] = [];
   for (const entry of entries) {
@@ -103,7 +104,10 @@ function parseTls(certFile: string | undefined, keyFile: string | undefined): { 
   const problems: string[] = [];
   if (!certFile) problems.push('TLS_CERT_FILE: set it with TLS_KEY_FILE (the certificate in PEM, with its chain), or unset both for HTTP');
   if (!keyFile) problems.push('TLS_KEY_FILE: set it with TLS_CERT_FILE (the private key in PEM), or unset both for HTTP');
-  for (const [name, file] of [['TLS_CERT_FILE', certFile], ['TLS_KEY_FILE', keyFile]] as const) {
+  for (const [name, file] of [
+    ['TLS_CERT_FILE', certFile],
+    ['TLS_KEY_FILE', keyFile],
+  ] as const) {
     if (file && !fs.existsSync(file)) problems.push(`${name}: no file at ${file}`);
   }
   return problems.length ? { tls: null, problems } : { tls: { certFile: path.resolve(certFile!), keyFile: path.resolve(keyFile!) }, problems };
@@ -130,10 +134,13 @@ export type Environment = Readonly<Record<string, string | undefined>>;
 
 function productionProblems(env: Environment, e: z.infer<typeof envSchema>): string[] {
   const problems: string[] = [];
-  if (!e.JWT_SECRET) problems.push('JWT_SECRET: a secret of at least 32 characters kept outside the data folder (for example the output of `openssl rand -base64 48`); production never uses a generated one');
-  if (e.SMTP_FAKE === true) problems.push('SMTP_FAKE: the local mail catcher is the demo\'s; set SMTP_FAKE=false (or leave it unset) and point SMTP_HOST at your mail relay');
-  if (!env.SMTP_HOST) problems.push('SMTP_HOST: your mail relay\'s host name (with SMTP_PORT, and SMTP_USER and SMTP_PASS if it asks for them)');
-  if (e.SEED_DEMO === true) problems.push('SEED_DEMO: the demo accounts\' password is published; set SEED_DEMO=false (or leave it unset)');
+  if (!e.JWT_SECRET)
+    problems.push(
+      'JWT_SECRET: a secret of at least 32 characters kept outside the data folder (for example the output of `openssl rand -base64 48`); production never uses a generated one',
+    );
+  if (e.SMTP_FAKE === true) problems.push("SMTP_FAKE: the local mail catcher is the demo's; set SMTP_FAKE=false (or leave it unset) and point SMTP_HOST at your mail relay");
+  if (!env.SMTP_HOST) problems.push("SMTP_HOST: your mail relay's host name (with SMTP_PORT, and SMTP_USER and SMTP_PASS if it asks for them)");
+  if (e.SEED_DEMO === true) problems.push("SEED_DEMO: the demo accounts' password is published; set SEED_DEMO=false (or leave it unset)");
   if (!e.PUBLIC_URL) problems.push('PUBLIC_URL: the address staff open, such as https://warmfold.example-hospital.org (used in e-mailed links)');
   return problems;
 }
@@ -147,7 +154,10 @@ export function loadConfig(env: Environment = process.env): AppConfig {
   const mode = modeOf(env);
   const parsed = envSchema.safeParse(env);
   if (!parsed.success) {
-    throw new ConfigError(mode, parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`));
+    throw new ConfigError(
+      mode,
+      parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`),
+    );
   }
   const e = parsed.data;
   const trust = parseTrustProxy(e.TRUST_PROXY);
@@ -166,7 +176,9 @@ export function loadConfig(env: Environment = process.env): AppConfig {
     jwtSecretGenerated: !e.JWT_SECRET,
     smtp: { host: e.SMTP_HOST, port: e.SMTP_PORT, fake: e.SMTP_FAKE ?? demo, user: e.SMTP_USER, pass: e.SMTP_PASS, from: e.MAIL_FROM },
     publicUrl: (e.PUBLIC_URL ?? `${tls.tls ? 'https' : 'http'}://localhost:${e.PORT}`).replace(/\/$/, ''),
-    corsOrigins: e.CORS_ORIGINS.split(',').map((s) => s.trim()).filter(Boolean),
+    corsOrigins: e.CORS_ORIGINS.split(',')
+      .map((s) => s.trim())
+      .filter(Boolean),
     webDir: path.resolve(e.WEB_DIR),
     seedDemo: e.SEED_DEMO ?? demo,
     logRequests: e.LOG_REQUESTS,

@@ -42,18 +42,186 @@ interface DemoInfant {
 }
 
 const INFANTS: DemoInfant[] = [
-  { id: 'inf-ashgrove', unit: 'unit-north', bed: 'N01', name: 'Baby Ashgrove', gaWeeks: 31, gaDays: 2, ageDays: 4, birthWeight: 1620, weight: 1580, heatSource: 'radiant-warmer', mode: 'skin-servo', nurse: 'u-nurse', scenario: 'gap-open' },
-  { id: 'inf-brightwater', unit: 'unit-north', bed: 'N02', name: 'Baby Brightwater', gaWeeks: 28, gaDays: 5, ageDays: 9, birthWeight: 1110, weight: 1060, heatSource: 'incubator', mode: 'air-servo', nurse: 'u-nurse', scenario: 'overdue' },
-  { id: 'inf-cinderford', unit: 'unit-north', bed: 'N03', name: 'Baby Cinderford', gaWeeks: 36, gaDays: 1, ageDays: 3, birthWeight: 2540, weight: 2480, heatSource: 'radiant-warmer', mode: 'skin-servo', nurse: 'u-nurse', scenario: 'heat-stress' },
-  { id: 'inf-dunmere', unit: 'unit-north', bed: 'N04', name: 'Baby Dunmere', gaWeeks: 33, gaDays: 4, ageDays: 12, birthWeight: 1890, weight: 1960, heatSource: 'incubator', mode: 'skin-servo', nurse: 'u-nurse', scenario: 'skin-to-skin' },
-  { id: 'inf-elderbrook', unit: 'unit-north', bed: 'N05', name: 'Baby Elderbrook', gaWeeks: 38, gaDays: 0, ageDays: 1, birthWeight: 3150, weight: 3120, heatSource: 'radiant-warmer', mode: 'skin-servo', nurse: 'u-nurse-2', scenario: 'manual' },
-  { id: 'inf-fernhollow', unit: 'unit-north', bed: 'N06', name: 'Baby Fernhollow', gaWeeks: 30, gaDays: 6, ageDays: 20, birthWeight: 1450, weight: 1700, heatSource: 'incubator', mode: 'air-servo', nurse: 'u-nurse-2', scenario: 'due-soon' },
-  { id: 'inf-glimmerton', unit: 'unit-north', bed: 'N07', name: 'Baby Glimmerton A', gaWeeks: 34, gaDays: 3, ageDays: 6, birthWeight: 2010, weight: 1985, heatSource: 'convertible', mode: 'skin-servo', nurse: 'u-nurse-4', scenario: 'steady' },
-  { id: 'inf-glimmerton-b', unit: 'unit-north', bed: 'N08', name: 'Baby Glimmerton B', gaWeeks: 34, gaDays: 3, ageDays: 6, birthWeight: 1890, weight: 1870, heatSource: 'convertible', mode: 'skin-servo', nurse: 'u-nurse-4', scenario: 'steady' },
-  { id: 'inf-hartsease', unit: 'unit-south', bed: 'S01', name: 'Baby Hartsease', gaWeeks: 35, gaDays: 0, ageDays: 5, birthWeight: 2300, weight: 2260, heatSource: 'incubator', mode: 'air-servo', nurse: 'u-nurse-3', scenario: 'cold' },
-  { id: 'inf-ivybridge', unit: 'unit-south', bed: 'S02', name: 'Baby Ivystone', gaWeeks: 37, gaDays: 2, ageDays: 2, birthWeight: 2890, weight: 2850, heatSource: 'radiant-warmer', mode: 'skin-servo', nurse: 'u-nurse-3', scenario: 'steady' },
-  { id: 'inf-juniper', unit: 'unit-south', bed: 'S03', name: 'Baby Juniperdale', gaWeeks: 32, gaDays: 1, ageDays: 15, birthWeight: 1700, weight: 1820, heatSource: 'incubator', mode: 'skin-servo', nurse: 'u-nurse-3', scenario: 'steady' },
-  { id: 'inf-kestrel', unit: 'unit-south', bed: 'S04', name: 'Baby Kestrelmoor', gaWeeks: 29, gaDays: 4, ageDays: 25, birthWeight: 1240, weight: 1510, heatSource: 'incubator', mode: 'air-servo', nurse: 'u-nurse-3', scenario: 'due-soon' },
+  {
+    id: 'inf-ashgrove',
+    unit: 'unit-north',
+    bed: 'N01',
+    name: 'Baby Ashgrove',
+    gaWeeks: 31,
+    gaDays: 2,
+    ageDays: 4,
+    birthWeight: 1620,
+    weight: 1580,
+    heatSource: 'radiant-warmer',
+    mode: 'skin-servo',
+    nurse: 'u-nurse',
+    scenario: 'gap-open',
+  },
+  {
+    id: 'inf-brightwater',
+    unit: 'unit-north',
+    bed: 'N02',
+    name: 'Baby Brightwater',
+    gaWeeks: 28,
+    gaDays: 5,
+    ageDays: 9,
+    birthWeight: 1110,
+    weight: 1060,
+    heatSource: 'incubator',
+    mode: 'air-servo',
+    nurse: 'u-nurse',
+    scenario: 'overdue',
+  },
+  {
+    id: 'inf-cinderford',
+    unit: 'unit-north',
+    bed: 'N03',
+    name: 'Baby Cinderford',
+    gaWeeks: 36,
+    gaDays: 1,
+    ageDays: 3,
+    birthWeight: 2540,
+    weight: 2480,
+    heatSource: 'radiant-warmer',
+    mode: 'skin-servo',
+    nurse: 'u-nurse',
+    scenario: 'heat-stress',
+  },
+  {
+    id: 'inf-dunmere',
+    unit: 'unit-north',
+    bed: 'N04',
+    name: 'Baby Dunmere',
+    gaWeeks: 33,
+    gaDays: 4,
+    ageDays: 12,
+    birthWeight: 1890,
+    weight: 1960,
+    heatSource: 'incubator',
+    mode: 'skin-servo',
+    nurse: 'u-nurse',
+    scenario: 'skin-to-skin',
+  },
+  {
+    id: 'inf-elderbrook',
+    unit: 'unit-north',
+    bed: 'N05',
+    name: 'Baby Elderbrook',
+    gaWeeks: 38,
+    gaDays: 0,
+    ageDays: 1,
+    birthWeight: 3150,
+    weight: 3120,
+    heatSource: 'radiant-warmer',
+    mode: 'skin-servo',
+    nurse: 'u-nurse-2',
+    scenario: 'manual',
+  },
+  {
+    id: 'inf-fernhollow',
+    unit: 'unit-north',
+    bed: 'N06',
+    name: 'Baby Fernhollow',
+    gaWeeks: 30,
+    gaDays: 6,
+    ageDays: 20,
+    birthWeight: 1450,
+    weight: 1700,
+    heatSource: 'incubator',
+    mode: 'air-servo',
+    nurse: 'u-nurse-2',
+    scenario: 'due-soon',
+  },
+  {
+    id: 'inf-glimmerton',
+    unit: 'unit-north',
+    bed: 'N07',
+    name: 'Baby Glimmerton A',
+    gaWeeks: 34,
+    gaDays: 3,
+    ageDays: 6,
+    birthWeight: 2010,
+    weight: 1985,
+    heatSource: 'convertible',
+    mode: 'skin-servo',
+    nurse: 'u-nurse-4',
+    scenario: 'steady',
+  },
+  {
+    id: 'inf-glimmerton-b',
+    unit: 'unit-north',
+    bed: 'N08',
+    name: 'Baby Glimmerton B',
+    gaWeeks: 34,
+    gaDays: 3,
+    ageDays: 6,
+    birthWeight: 1890,
+    weight: 1870,
+    heatSource: 'convertible',
+    mode: 'skin-servo',
+    nurse: 'u-nurse-4',
+    scenario: 'steady',
+  },
+  {
+    id: 'inf-hartsease',
+    unit: 'unit-south',
+    bed: 'S01',
+    name: 'Baby Hartsease',
+    gaWeeks: 35,
+    gaDays: 0,
+    ageDays: 5,
+    birthWeight: 2300,
+    weight: 2260,
+    heatSource: 'incubator',
+    mode: 'air-servo',
+    nurse: 'u-nurse-3',
+    scenario: 'cold',
+  },
+  {
+    id: 'inf-ivybridge',
+    unit: 'unit-south',
+    bed: 'S02',
+    name: 'Baby Ivystone',
+    gaWeeks: 37,
+    gaDays: 2,
+    ageDays: 2,
+    birthWeight: 2890,
+    weight: 2850,
+    heatSource: 'radiant-warmer',
+    mode: 'skin-servo',
+    nurse: 'u-nurse-3',
+    scenario: 'steady',
+  },
+  {
+    id: 'inf-juniper',
+    unit: 'unit-south',
+    bed: 'S03',
+    name: 'Baby Juniperdale',
+    gaWeeks: 32,
+    gaDays: 1,
+    ageDays: 15,
+    birthWeight: 1700,
+    weight: 1820,
+    heatSource: 'incubator',
+    mode: 'skin-servo',
+    nurse: 'u-nurse-3',
+    scenario: 'steady',
+  },
+  {
+    id: 'inf-kestrel',
+    unit: 'unit-south',
+    bed: 'S04',
+    name: 'Baby Kestrelmoor',
+    gaWeeks: 29,
+    gaDays: 4,
+    ageDays: 25,
+    birthWeight: 1240,
+    weight: 1510,
+    heatSource: 'incubator',
+    mode: 'air-servo',
+    nurse: 'u-nurse-3',
+    scenario: 'due-soon',
+  },
 ];
 
 /** A small seeded generator, so the demo looks the same on every machine. */
@@ -88,7 +256,10 @@ export async function seedDemo(database: Database_, { now, bcryptCost }: SeedOpt
   let charting: NewReading[] = [];
   const addReading = (r: NewReading) => charting.push(r);
   const chartAll = () => {
-    for (let i = 0; i < charting.length; i += 250) db.insert(readings).values(charting.slice(i, i + 250)).run();
+    for (let i = 0; i < charting.length; i += 250)
+      db.insert(readings)
+        .values(charting.slice(i, i + 250))
+        .run();
     charting = [];
   };
 
@@ -96,14 +267,33 @@ export async function seedDemo(database: Database_, { now, bcryptCost }: SeedOpt
     (tx) => {
       for (const id of ['unit-north', 'unit-south'] as const) {
         const name = id === 'unit-north' ? 'Neonatal Unit North' : 'Special Care South';
-        tx.insert(units).values({ id, name, hospitalName: 'Larkspur Vale Hospital', timeZone: 'Europe/London', createdAt: at(60 * 24 * 30) }).run();
+        tx.insert(units)
+          .values({ id, name, hospitalName: 'Larkspur Vale Hospital', timeZone: 'Europe/London', createdAt: at(60 * 24 * 30) })
+          .run();
       }
-      for (let i = 1; i <= 14; i++) tx.insert(beds).values({ id: `bed-N${pad(i)}`, unitId: 'unit-north', label: `N${pad(i)}`, sortOrder: i, active: true }).run();
-      for (let i = 1; i <= 10; i++) tx.insert(beds).values({ id: `bed-S${pad(i)}`, unitId: 'unit-south', label: `S${pad(i)}`, sortOrder: i, active: true }).run();
+      for (let i = 1; i <= 14; i++)
+        tx.insert(beds)
+          .values({ id: `bed-N${pad(i)}`, unitId: 'unit-north', label: `N${pad(i)}`, sortOrder: i, active: true })
+          .run();
+      for (let i = 1; i <= 10; i++)
+        tx.insert(beds)
+          .values({ id: `bed-S${pad(i)}`, unitId: 'unit-south', label: `S${pad(i)}`, sortOrder: i, active: true })
+          .run();
 
       for (const a of [...DEMO_ACCOUNTS, ...OTHER_STAFF]) {
         tx.insert(users)
-          .values({ id: a.id, email: a.email, name: a.name, role: a.role, passwordHash: hash, tempUnit: 'C', active: true, sessionVersion: 1, createdAt: at(60 * 24 * 30), updatedAt: at(60 * 24 * 30) })
+          .values({
+            id: a.id,
+            email: a.email,
+            name: a.name,
+            role: a.role,
+            passwordHash: hash,
+            tempUnit: 'C',
+            active: true,
+            sessionVersion: 1,
+            createdAt: at(60 * 24 * 30),
+            updatedAt: at(60 * 24 * 30),
+          })
           .run();
         for (const u of a.units) tx.insert(userUnits).values({ userId: a.id, unitId: u }).run();
       }
@@ -119,25 +309,53 @@ export async function seedDemo(database: Database_, { now, bcryptCost }: SeedOpt
         const hospitalNumber = `LV${String(204100 + INFANTS.indexOf(inf) * 7).padStart(7, '0')}`;
         tx.insert(infants)
           .values({
-            id: inf.id, unitId: inf.unit, bedId: `bed-${inf.bed}`, displayName: inf.name, birthAt: at(ageMin), gestationWeeks: inf.gaWeeks, gestationDays: inf.gaDays,
-            birthWeightGrams: inf.birthWeight, weightGrams: inf.weight, heatSource: inf.heatSource, status: 'admitted', admittedAt: new Date(admitted), hospitalNumber,
+            id: inf.id,
+            unitId: inf.unit,
+            bedId: `bed-${inf.bed}`,
+            displayName: inf.name,
+            birthAt: at(ageMin),
+            gestationWeeks: inf.gaWeeks,
+            gestationDays: inf.gaDays,
+            birthWeightGrams: inf.birthWeight,
+            weightGrams: inf.weight,
+            heatSource: inf.heatSource,
+            status: 'admitted',
+            admittedAt: new Date(admitted),
+            hospitalNumber,
             sex: INFANTS.indexOf(inf) % 2 ? 'male' : 'female',
           })
           .run();
-        tx.insert(bedStays).values({ id: `stay-${inf.id}-admitted`, infantId: inf.id, unitId: inf.unit, bedId: `bed-${inf.bed}`, event: 'admitted', at: new Date(admitted), recordedBy: null }).run();
+        tx.insert(bedStays)
+          .values({ id: `stay-${inf.id}-admitted`, infantId: inf.id, unitId: inf.unit, bedId: `bed-${inf.bed}`, event: 'admitted', at: new Date(admitted), recordedBy: null })
+          .run();
         const charge = inf.unit === 'unit-north' ? 'u-charge' : 'u-charge-2';
         for (const shift of [previous, current]) {
           tx.insert(assignments)
-            .values({ id: randomUUID(), unitId: inf.unit, infantId: inf.id, nurseId: inf.nurse, shiftDate: shift.shiftDate, shift: shift.shift, createdBy: charge, createdAt: new Date(shift.startsAt.getTime() - 30 * 60_000) })
+            .values({
+              id: randomUUID(),
+              unitId: inf.unit,
+              infantId: inf.id,
+              nurseId: inf.nurse,
+              shiftDate: shift.shiftDate,
+              shift: shift.shift,
+              createdBy: charge,
+              createdAt: new Date(shift.startsAt.getTime() - 30 * 60_000),
+            })
             .run();
         }
 
         const set = inf.mode === 'air-servo' ? 3320 : 3650;
         const base = 3680 + Math.round((rand() - 0.5) * 30);
         // The last routine remote check, in minutes before now, shapes each scenario.
-        const lastCheck =
-          inf.scenario === 'overdue' ? 170 : inf.scenario === 'due-soon' ? 110 : inf.scenario === 'gap-open' ? 35 : inf.scenario === 'heat-stress' ? 20 : 50;
-        const charted = (m: number) => ({ infantId: inf.id, unitId: inf.unit, takenAt: at(m), recordedAt: new Date(min(m) + 60_000), recordedBy: inf.nurse, enteredUnit: 'C' as const });
+        const lastCheck = inf.scenario === 'overdue' ? 170 : inf.scenario === 'due-soon' ? 110 : inf.scenario === 'gap-open' ? 35 : inf.scenario === 'heat-stress' ? 20 : 50;
+        const charted = (m: number) => ({
+          infantId: inf.id,
+          unitId: inf.unit,
+          takenAt: at(m),
+          recordedAt: new Date(min(m) + 60_000),
+          recordedBy: inf.nurse,
+          enteredUnit: 'C' as const,
+        });
         let m = Math.floor((admitted - t0) / -60_000) - 5;
         let checkNo = 0;
         let nightGapDone = false;
@@ -156,42 +374,125 @@ export async function seedDemo(database: Database_, { now, bcryptCost }: SeedOpt
           const id = randomUUID();
           // The generator is drawn in this order (air, output, heart rate): the demo stays the same everywhere.
           addReading({
-            id, ...charted(m), probeCenti: probe, remoteCenti: remote, remoteSite: 'axilla', airCenti: inf.mode === 'air-servo' ? set : 3150 + Math.round(rand() * 60), setCenti: set,
-            controlMode: inf.mode, heaterOutputPct: 30 + Math.round(rand() * 25), heartRate: 135 + Math.round(rand() * 20), heatSigns: '[]', note: null, lateReason: null, sessionId: null,
+            id,
+            ...charted(m),
+            probeCenti: probe,
+            remoteCenti: remote,
+            remoteSite: 'axilla',
+            airCenti: inf.mode === 'air-servo' ? set : 3150 + Math.round(rand() * 60),
+            setCenti: set,
+            controlMode: inf.mode,
+            heaterOutputPct: 30 + Math.round(rand() * 25),
+            heartRate: 135 + Math.round(rand() * 20),
+            heatSigns: '[]',
+            note: null,
+            lateReason: null,
+            sessionId: null,
           });
           if (historicGap) {
             // A caught gap: two actions, then a recheck within the limit.
             pendingActions.push({ infant: inf.id, unit: inf.unit, readingId: id, by: inf.nurse, at: min(m - 6), at2: min(m - 12) });
             addReading({
-              id: randomUUID(), ...charted(m - 30), probeCenti: remote - 15, remoteCenti: remote, remoteSite: 'axilla', airCenti: 3150, setCenti: set, controlMode: inf.mode,
-              heaterOutputPct: 35, heartRate: 142, heatSigns: '[]', note: 'Recheck after moving the probe.', lateReason: null, sessionId: null,
+              id: randomUUID(),
+              ...charted(m - 30),
+              probeCenti: remote - 15,
+              remoteCenti: remote,
+              remoteSite: 'axilla',
+              airCenti: 3150,
+              setCenti: set,
+              controlMode: inf.mode,
+              heaterOutputPct: 35,
+              heartRate: 142,
+              heatSigns: '[]',
+              note: 'Recheck after moving the probe.',
+              lateReason: null,
+              sessionId: null,
             });
           }
           // Hourly probe-only observation between remote checks.
           if (m - 60 > lastCheck) {
             addReading({
-              id: randomUUID(), ...charted(m - 60), probeCenti: base - 20 + Math.round((rand() - 0.5) * 20), remoteCenti: null, remoteSite: null, airCenti: inf.mode === 'air-servo' ? set : 3150,
-              setCenti: set, controlMode: inf.mode, heaterOutputPct: 30 + Math.round(rand() * 25), heartRate: 130 + Math.round(rand() * 25), heatSigns: '[]', note: null, lateReason: null, sessionId: null,
+              id: randomUUID(),
+              ...charted(m - 60),
+              probeCenti: base - 20 + Math.round((rand() - 0.5) * 20),
+              remoteCenti: null,
+              remoteSite: null,
+              airCenti: inf.mode === 'air-servo' ? set : 3150,
+              setCenti: set,
+              controlMode: inf.mode,
+              heaterOutputPct: 30 + Math.round(rand() * 25),
+              heartRate: 130 + Math.round(rand() * 25),
+              heatSigns: '[]',
+              note: null,
+              lateReason: null,
+              sessionId: null,
             });
           }
           m -= late ? 135 : 110 + Math.round(rand() * 8);
         }
-        seedScenario(inf, { add: (mins, values) => addReading({ id: randomUUID(), ...charted(mins), probeCenti: null, remoteCenti: null, remoteSite: null, airCenti: inf.mode === 'air-servo' ? set : 3150, setCenti: set, controlMode: inf.mode, heaterOutputPct: 40, heartRate: 146, heatSigns: '[]', note: null, lateReason: null, sessionId: null, ...values }), startSession: (mins) => {
-          const session = randomUUID();
-          tx.insert(skinToSkinSessions).values({ id: session, infantId: inf.id, unitId: inf.unit, startedAt: at(mins), startedBy: inf.nurse, referenceCenti: 3680, limitCenti: 50, carer: 'Parent' }).run();
-          return session;
-        }, base });
+        seedScenario(inf, {
+          add: (mins, values) =>
+            addReading({
+              id: randomUUID(),
+              ...charted(mins),
+              probeCenti: null,
+              remoteCenti: null,
+              remoteSite: null,
+              airCenti: inf.mode === 'air-servo' ? set : 3150,
+              setCenti: set,
+              controlMode: inf.mode,
+              heaterOutputPct: 40,
+              heartRate: 146,
+              heatSigns: '[]',
+              note: null,
+              lateReason: null,
+              sessionId: null,
+              ...values,
+            }),
+          startSession: (mins) => {
+            const session = randomUUID();
+            tx.insert(skinToSkinSessions)
+              .values({ id: session, infantId: inf.id, unitId: inf.unit, startedAt: at(mins), startedBy: inf.nurse, referenceCenti: 3680, limitCenti: 50, carer: 'Parent' })
+              .run();
+            return session;
+          },
+          base,
+        });
         chartAll();
       }
 
       for (const p of pendingActions) {
         syncFlags(sqlite, p.infant, new Date(p.at + 60_000), p.by);
-        const flag = tx.select({ id: flags.id }).from(flags).where(and(eq(flags.infantId, p.infant), eq(flags.raisedByReadingId, p.readingId))).get();
+        const flag = tx
+          .select({ id: flags.id })
+          .from(flags)
+          .where(and(eq(flags.infantId, p.infant), eq(flags.raisedByReadingId, p.readingId)))
+          .get();
         if (!flag) continue;
         tx.insert(actions)
           .values([
-            { id: randomUUID(), flagId: flag.id, infantId: p.infant, unitId: p.unit, kind: 'checked-probe-contact', note: null, at: new Date(p.at), recordedBy: p.by, createdAt: new Date(p.at) },
-            { id: randomUUID(), flagId: flag.id, infantId: p.infant, unitId: p.unit, kind: 'moved-probe', note: 'Moved to the left flank under a new cover.', at: new Date(p.at2), recordedBy: p.by, createdAt: new Date(p.at2) },
+            {
+              id: randomUUID(),
+              flagId: flag.id,
+              infantId: p.infant,
+              unitId: p.unit,
+              kind: 'checked-probe-contact',
+              note: null,
+              at: new Date(p.at),
+              recordedBy: p.by,
+              createdAt: new Date(p.at),
+            },
+            {
+              id: randomUUID(),
+              flagId: flag.id,
+              infantId: p.infant,
+              unitId: p.unit,
+              kind: 'moved-probe',
+              note: 'Moved to the left flank under a new cover.',
+              at: new Date(p.at2),
+              recordedBy: p.by,
+              createdAt: new Date(p.at2),
+            },
           ])
           .run();
       }
@@ -231,7 +532,15 @@ function seedScenario(inf: DemoInfant, { add, startSession, base }: ScenarioTool
       break;
     case 'heat-stress':
       add(140, { probeCenti: 3660, remoteCenti: 3700, remoteSite: 'axilla' });
-      add(20, { probeCenti: 3720, remoteCenti: 3790, remoteSite: 'axilla', heaterOutputPct: 70, heartRate: 172, heatSigns: JSON.stringify(['red-skin', 'sweating']), note: 'Flushed and damp.' });
+      add(20, {
+        probeCenti: 3720,
+        remoteCenti: 3790,
+        remoteSite: 'axilla',
+        heaterOutputPct: 70,
+        heartRate: 172,
+        heatSigns: JSON.stringify(['red-skin', 'sweating']),
+        note: 'Flushed and damp.',
+      });
       break;
     case 'skin-to-skin': {
       add(50, { probeCenti: 3670, remoteCenti: 3680, remoteSite: 'axilla' });

@@ -49,11 +49,18 @@ export function canonicalSql(table: ChainedTable, version: number, prefix = ''):
 }
 
 // sql fragments: SQLite's CAST and json_array are the encoding every row hash was made over (Drizzle has no json_array).
-const keyExpr = (table: ChainedTable): SQL<string> => sql<string>`${sql.join(table.key.map((k) => sql`CAST(${sql.identifier(k)} AS TEXT)`), sql` || ':' || `)}`;
+const keyExpr = (table: ChainedTable): SQL<string> =>
+  sql<string>`${sql.join(
+    table.key.map((k) => sql`CAST(${sql.identifier(k)} AS TEXT)`),
+    sql` || ':' || `,
+  )}`;
 function canonicalExpr(table: ChainedTable, version: number): SQL<string> {
   const columns = table.versions[version - 1];
   if (!columns) throw new Error(`no canonical version ${version}`);
-  return sql<string>`json_array(${sql.join(columns.map((c) => sql.identifier(c)), sql`, `)})`;
+  return sql<string>`json_array(${sql.join(
+    columns.map((c) => sql.identifier(c)),
+    sql`, `,
+  )})`;
 }
 // sql fragment: rowid is SQLite's own row number, not a declared column: the order rows were written in.
 const rowid = sql<number>`rowid`;
@@ -145,7 +152,16 @@ export function rowEventAfter(table: string, version: number, canonical: string,
 function registerFunctions(sqlite: Database.Database): void {
   sqlite.function('warmfold_row_event', { deterministic: true }, (prev, at, action, table, entityId, unitId, version, canonical) => {
     const after = rowEventAfter(String(table), Number(version), String(canonical), action === 'row-delete');
-    const e = { at: Number(at), actorId: null, action: String(action), entityType: String(table), entityId: entityId as string | null, unitId: unitId as string | null, before: null, after };
+    const e = {
+      at: Number(at),
+      actorId: null,
+      action: String(action),
+      entityType: String(table),
+      entityId: entityId as string | null,
+      unitId: unitId as string | null,
+      before: null,
+      after,
+    };
     return `${auditHash(String(prev), e)} ${after}`;
   });
 }
@@ -193,7 +209,7 @@ function baseline(sqlite: Database.Database, versions: Map<string, number>, now:
   const covered = coveredTables(sqlite);
   const counts: Record<string, number> = {};
   const db = drizzleOf(sqlite);
-  let pending: typeof auditEvents.$inferInsert[] = [];
+  let pending: (typeof auditEvents.$inferInsert)[] = [];
   // Several events to a statement; their ids keep the order of the array, which is the chain's.
   const flush = () => {
     if (pending.length) db.insert(auditEvents).values(pending).run();

@@ -10,9 +10,7 @@ import type { AppConfig } from './config';
  * HTTP otherwise (localhost, or behind a TLS proxy).
  */
 export function listen(app: RequestListener, config: Pick<AppConfig, 'port' | 'host' | 'tls'>, onListening: (server: http.Server, scheme: 'http' | 'https') => void): http.Server {
-  const server = config.tls
-    ? https.createServer({ cert: fs.readFileSync(config.tls.certFile), key: fs.readFileSync(config.tls.keyFile) }, app)
-    : http.createServer(app);
+  const server = config.tls ? https.createServer({ cert: fs.readFileSync(config.tls.certFile), key: fs.readFileSync(config.tls.keyFile) }, app) : http.createServer(app);
   const scheme = config.tls ? 'https' : 'http';
   server.listen(config.port, config.host, () => onListening(server, scheme));
   return server;

@@ -12,7 +12,15 @@ export function demoAccountsIn(database: Database_): string[] {
   return database.db
     .select({ email: users.email })
     .from(users)
-    .where(or(inArray(users.email, DEMO_ACCOUNTS.map((a) => a.email)), like(users.email, `%@${DEMO_EMAIL_DOMAIN}`)))
+    .where(
+      or(
+        inArray(
+          users.email,
+          DEMO_ACCOUNTS.map((a) => a.email),
+        ),
+        like(users.email, `%@${DEMO_EMAIL_DOMAIN}`),
+      ),
+    )
     .orderBy(users.email)
     .all()
     .map((r) => r.email);

@@ -47,7 +47,14 @@ export interface RecordReport {
   findings: Finding[];
   /** `ledger-installed` events: from when each chained table is covered, and how many rows were only baselined. */
   baselines: { eventId: number; at: number; tables: Record<string, number> }[];
-  checkpoints: { file: string | null; status: 'checked' | 'no-file' | 'no-key' | 'not-asked'; keySource: string | null; lines: number; last: Checkpoint | null; unreadable: number[] };
+  checkpoints: {
+    file: string | null;
+    status: 'checked' | 'no-file' | 'no-key' | 'not-asked';
+    keySource: string | null;
+    lines: number;
+    last: Checkpoint | null;
+    unreadable: number[];
+  };
   /** Events after the last valid checkpoint: consistent with the chain, but no signature vouches for them. */
   unvouched: { fromId: number; toId: number; events: number; fromAt: number; toAt: number } | null;
 }
@@ -133,7 +140,13 @@ function verifySnapshot(sqlite: Database.Database, options: { checkpoints?: Chec
       const event = rowEvents.get(id);
       rowEvents.delete(id);
       if (!event) {
-        unrecorded.push({ kind: 'row-unrecorded', eventId: null, table: name, key, message: `${name} row ${key} has no audit event: it was inserted without one, or its event was removed` });
+        unrecorded.push({
+          kind: 'row-unrecorded',
+          eventId: null,
+          table: name,
+          key,
+          message: `${name} row ${key} has no audit event: it was inserted without one, or its event was removed`,
+        });
         continue;
       }
       if (event.action === 'row-delete') {
@@ -142,7 +155,13 @@ function verifySnapshot(sqlite: Database.Database, options: { checkpoints?: Chec
       }
       const canonical = row.canonical.get(event.v);
       if (canonical === undefined || event.hash === null || rowHash(name, event.v, canonical) !== event.hash) {
-        findings.push({ kind: 'row-edited', eventId: event.id, table: name, key, message: `${name} row ${key} differs from what event ${event.id} recorded: it was edited outside the app` });
+        findings.push({
+          kind: 'row-edited',
+          eventId: event.id,
+          table: name,
+          key,
+          message: `${name} row ${key} differs from what event ${event.id} recorded: it was edited outside the app`,
+        });
       }
     }
   }
@@ -192,19 +211,35 @@ function verifySnapshot(sqlite: Database.Database, options: { checkpoints?: Chec
       checkpoints.last = c;
       if (!replacedReported && (!first || first.id !== c.firstId || first.hash !== c.firstHash)) {
         replacedReported = true;
-        findings.push({ kind: 'chain-replaced', eventId: first?.id ?? null, message: `the chain does not start with the event the checkpoint of ${c.at} signed (event ${c.firstId}): the whole chain was replaced or recomputed` });
+        findings.push({
+          kind: 'chain-replaced',
+          eventId: first?.id ?? null,
+          message: `the chain does not start with the event the checkpoint of ${c.at} signed (event ${c.firstId}): the whole chain was replaced or recomputed`,
+        });
       }
       const seen = seenAt.get(c.headId);
       if (!seen) {
         if (c.headId > lastId) {
-          findings.push({ kind: 'tail-cut', eventId: lastId + 1, message: `the checkpoint of ${c.at} signed event ${c.headId}, but the chain ends at event ${lastId}: the end of the chain was cut` });
+          findings.push({
+            kind: 'tail-cut',
+            eventId: lastId + 1,
+            message: `the checkpoint of ${c.at} signed event ${c.headId}, but the chain ends at event ${lastId}: the end of the chain was cut`,
+          });
         } else {
           findings.push({ kind: 'checkpoint-mismatch', eventId: c.headId, message: `event ${c.headId}, signed by the checkpoint of ${c.at}, is missing` });
         }
       } else if (seen.hash !== c.headHash) {
-        findings.push({ kind: 'checkpoint-mismatch', eventId: c.headId, message: `event ${c.headId} is not the one the checkpoint of ${c.at} signed: the chain was recomputed at or before it` });
+        findings.push({
+          kind: 'checkpoint-mismatch',
+          eventId: c.headId,
+          message: `event ${c.headId} is not the one the checkpoint of ${c.at} signed: the chain was recomputed at or before it`,
+        });
       } else if (seen.ordinal !== c.count) {
-        findings.push({ kind: 'checkpoint-mismatch', eventId: c.headId, message: `the checkpoint of ${c.at} counted ${c.count} events up to event ${c.headId}, the chain now has ${seen.ordinal}: events were removed or added before it` });
+        findings.push({
+          kind: 'checkpoint-mismatch',
+          eventId: c.headId,
+          message: `the checkpoint of ${c.at} counted ${c.count} events up to event ${c.headId}, the chain now has ${seen.ordinal}: events were removed or added before it`,
+        });
       }
     }
   }
@@ -212,7 +247,11 @@ function verifySnapshot(sqlite: Database.Database, options: { checkpoints?: Chec
   let unvouched: RecordReport['unvouched'] = null;
   if (last && (vouchedTo === null || last.id > vouchedTo)) {
     const fromId = vouchedTo === null ? first!.id : vouchedTo + 1;
-    const w = db.select({ n: countOf(), fromAt: min(auditEvents.at), toAt: max(auditEvents.at) }).from(auditEvents).where(gte(auditEvents.id, fromId)).get();
+    const w = db
+      .select({ n: countOf(), fromAt: min(auditEvents.at), toAt: max(auditEvents.at) })
+      .from(auditEvents)
+      .where(gte(auditEvents.id, fromId))
+      .get();
     if (w && w.n > 0 && w.fromAt && w.toAt) unvouched = { fromId, toId: last.id, events: w.n, fromAt: w.fromAt.getTime(), toAt: w.toAt.getTime() };
   }
 
@@ -244,7 +283,14 @@ export function describeRecordReport(report: RecordReport, file: string): string
   if (report.ok) out.push(`Record intact: ${report.events} audit events and ${report.rowsChecked} chained rows checked in ${file}.`);
   else {
     const firstFinding = report.findings[0]!;
-    const where = firstFinding.eventId !== null && firstFinding.kind.startsWith('event') ? `event ${firstFinding.eventId}` : firstFinding.table ? `${firstFinding.table} row ${firstFinding.key}` : firstFinding.eventId !== null ? `event ${firstFinding.eventId}` : 'the checkpoints';
+    const where =
+      firstFinding.eventId !== null && firstFinding.kind.startsWith('event')
+        ? `event ${firstFinding.eventId}`
+        : firstFinding.table
+          ? `${firstFinding.table} row ${firstFinding.key}`
+          : firstFinding.eventId !== null
+            ? `event ${firstFinding.eventId}`
+            : 'the checkpoints';
     out.push(`Record BROKEN at ${where}: ${firstFinding.message}.`);
     out.push(`${report.findings.length} problem(s) found (${report.events} events and ${report.rowsChecked} chained rows read):`);
     for (const f of report.findings.slice(0, 50)) out.push(`  - [${f.kind}] ${f.message}`);
@@ -252,7 +298,13 @@ export function describeRecordReport(report: RecordReport, file: string): string
   }
   for (const b of report.baselines) {
     const rows = Object.values(b.tables).reduce((a, n) => a + n, 0);
-    if (rows > 0) out.push(`Baseline: event ${b.eventId} (${iso(b.at)}) took ${rows} rows already present (${Object.entries(b.tables).filter(([, n]) => n > 0).map(([t, n]) => `${t} ${n}`).join(', ')}) into the ledger; their content is vouched for from then on, not before.`);
+    if (rows > 0)
+      out.push(
+        `Baseline: event ${b.eventId} (${iso(b.at)}) took ${rows} rows already present (${Object.entries(b.tables)
+          .filter(([, n]) => n > 0)
+          .map(([t, n]) => `${t} ${n}`)
+          .join(', ')}) into the ledger; their content is vouched for from then on, not before.`,
+      );
   }
   const c = report.checkpoints;
   if (c.status === 'checked' && c.last) out.push(`Signed checkpoints: ${c.lines} in ${c.file}; the last (${c.last.at}) vouches for events up to ${c.last.headId}.`);
@@ -261,7 +313,9 @@ export function describeRecordReport(report: RecordReport, file: string): string
   else if (c.status === 'no-file') out.push(`No signed checkpoints in ${c.file}: a chain recomputed as a whole, or cut short together with its rows, would not be found.`);
   if (report.unvouched) {
     const u = report.unvouched;
-    out.push(`Not vouched for by a signature: events ${u.fromId}–${u.toId} (${u.events}, written ${iso(u.fromAt)} to ${iso(u.toAt)}) came after the last checkpoint; they are checked against each other only.`);
+    out.push(
+      `Not vouched for by a signature: events ${u.fromId}–${u.toId} (${u.events}, written ${iso(u.fromAt)} to ${iso(u.toAt)}) came after the last checkpoint; they are checked against each other only.`,
+    );
   }
   return out;
 }

@@ -68,8 +68,8 @@ export function htmlRoutes(webDir: string): HtmlRoute[] {
         let dynamic = 0;
         const src = segs
           .map((seg) => {
-            if (/^\[\.\.\..+\]$/.test(seg)) return (dynamic += 10), '.+';
-            if (/^\[.+\]$/.test(seg)) return (dynamic += 1), '[^/]+';
+            if (/^\[\.\.\..+\]$/.test(seg)) return ((dynamic += 10), '.+');
+            if (/^\[.+\]$/.test(seg)) return ((dynamic += 1), '[^/]+');
             return seg.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
           })
           .join('/');

@@ -1,10 +1,10 @@
 import { useQueryClient } from '@tanstack/react-query';
 import { createContext, useCallback, useContext, useEffect, useMemo, useState, type ReactNode } from 'react';
 import type { SessionUser, SignInInput } from '@/shared/schemas/auth';
-import { api, configureApi } from '../api/client';
-import { forgetEarlyReads } from '../api/early-requests';
-import { storage } from '../api/storage';
-import { afterNextPaint } from '../ui/after-next-paint';
+import { api, configureApi } from '@/components/api/client';
+import { forgetEarlyReads } from '@/components/api/early-requests';
+import { storage } from '@/components/api/storage';
+import { afterNextPaint } from '@/components/ui/after-next-paint';
 import { TOKEN_KEY, USER_KEY } from './session-keys';
 import { clearPatientData } from '@/components/offline/service-worker';
 import { forgetDeviceData } from '@/components/offline/device-data';

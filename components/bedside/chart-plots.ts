@@ -9,4 +9,4 @@
  * `import type`): one static import anywhere puts victory back into the first load.
  */
 export { TrendPlot } from './trend-plot';
-export { OnTimePlot } from '../reports/on-time-plot';
+export { OnTimePlot } from '@/components/reports/on-time-plot';

@@ -51,7 +51,19 @@ export interface CorrectReadingFormProps {
 }
 
 /** A correction never edits the reading: it saves a new version with the reason, who and when. */
-export function CorrectReadingForm({ reading, unit, timeZone, clock, now = () => new Date(), makeId = () => globalThis.crypto.randomUUID(), busy, serverFields = {}, serverMessage, onSubmit, onCancel }: CorrectReadingFormProps) {
+export function CorrectReadingForm({
+  reading,
+  unit,
+  timeZone,
+  clock,
+  now = () => new Date(),
+  makeId = () => globalThis.crypto.randomUUID(),
+  busy,
+  serverFields = {},
+  serverMessage,
+  onSubmit,
+  onCancel,
+}: CorrectReadingFormProps) {
   const resolver = useMemo(() => lazyZodResolver<CorrectReadingFormValues>((m) => m.correctReadingFormSchema(unit, timeZone, now)), [unit, timeZone, now]);
   useEffect(() => resolver.preload(), [resolver]);
   // The reading's own day and time: kept unless she changes them.
@@ -130,12 +142,7 @@ export function CorrectReadingForm({ reading, unit, timeZone, clock, now = () =>
         <>
           <TextField control={control} name="probe" label={`Probe temperature (${u})`} suffix={u} inputMode="decimal" keyboardType="decimal-pad" serverError={f('probe')} />
           <TextField control={control} name="remote" label={`Remote-site temperature (${u})`} suffix={u} inputMode="decimal" keyboardType="decimal-pad" serverError={f('remote')} />
-          <Segmented
-            label="Remote site"
-            value={remoteSite}
-            options={REMOTE_SITE_OPTIONS}
-            onChange={(site) => setValue('remoteSite', site)}
-          />
+          <Segmented label="Remote site" value={remoteSite} options={REMOTE_SITE_OPTIONS} onChange={(site) => setValue('remoteSite', site)} />
           <TextField control={control} name="set" label={`Set temperature (${u})`} suffix={u} inputMode="decimal" keyboardType="decimal-pad" serverError={f('set')} />
           <TextField control={control} name="air" label={`Air temperature (${u})`} suffix={u} inputMode="decimal" keyboardType="decimal-pad" serverError={f('air')} />
           <TextField control={control} name="heartRate" label="Heart rate (/min)" suffix="/min" inputMode="numeric" keyboardType="number-pad" serverError={f('heartRate')} />

@@ -34,7 +34,6 @@ export const FLAG_ACTIONS: Record<FlagKind, ActionKind[]> = {
   'overdue-check': ['other'],
 };
 
-
 export function flagTone(kind: FlagKind): { tone: StatusTone; icon: IconName } {
   if (kind === 'heat-stress') return { tone: 'heat', icon: 'flame' };
   if (kind === 'cold-stress') return { tone: 'warning', icon: 'snow' };
@@ -70,23 +69,29 @@ export function FlagCard({ flag, sheet, canChart, now }: { flag: FlowsheetFlag; 
   const told = escalationLines(flag.escalation, tz, user.clock);
   const openRecord = () => openRecordForm(router, sheet.infant.id);
   return (
-    <Card style={[styles.card, { borderColor: colors[tone === 'together' ? 'together' : tone === 'heat' ? 'heat' : tone === 'warning' ? 'warning' : 'danger'] }]} role="region" aria-label={FLAG_LABELS[flag.kind]}>
+    <Card
+      style={[styles.card, { borderColor: colors[tone === 'together' ? 'together' : tone === 'heat' ? 'heat' : tone === 'warning' ? 'warning' : 'danger'] }]}
+      role="region"
+      aria-label={FLAG_LABELS[flag.kind]}
+    >
       <StatusBadge tone={look.tone} icon={look.icon} label={look.label} large />
       {told.map((line, i) => (
         <Text key={i} variant="bodyStrong">
           {line}
         </Text>
       ))}
-      {flag.kind === 'fever' ? (
-        <Text tone="danger">A newborn with a fever may have an infection: tell the medical team per unit policy; do not only cool the infant.</Text>
-      ) : null}
+      {flag.kind === 'fever' ? <Text tone="danger">A newborn with a fever may have an infection: tell the medical team per unit policy; do not only cool the infant.</Text> : null}
       {flag.kind === 'cold-stress' && flag.severity !== 'caution' ? <Text tone="danger">Tell the medical team per unit policy.</Text> : null}
       <Text>
         Raised {clockTime(flag.raisedAt, tz, user.clock)} ({duration(now.getTime() - Date.parse(flag.raisedAt))} ago)
       </Text>
       <FlagDetail flag={flag} unit={unit} tz={tz} clock={user.clock} />
       {recheckMs !== null ? (
-        <StatusBadge tone={recheckMs < 0 ? 'danger' : 'warning'} icon="clock" label={recheckMs < 0 ? `Recheck overdue by ${duration(-recheckMs)}` : `Recheck due in ${duration(recheckMs)}`} />
+        <StatusBadge
+          tone={recheckMs < 0 ? 'danger' : 'warning'}
+          icon="clock"
+          label={recheckMs < 0 ? `Recheck overdue by ${duration(-recheckMs)}` : `Recheck due in ${duration(recheckMs)}`}
+        />
       ) : null}
       {flag.recheck?.countsFrom && Date.parse(flag.recheck.countsFrom) > now.getTime() ? (
         <Text variant="caption">A recheck counts from {clockTime(flag.recheck.countsFrom, tz, user.clock)}, once the reading has settled.</Text>
@@ -132,15 +137,15 @@ export function FlagCard({ flag, sheet, canChart, now }: { flag: FlowsheetFlag; 
                     // Something else: its note says what, so it opens a note field first.
                     <Button key={kind} compact variant="secondary" label={ACTION_LABELS[kind]} aria-expanded={noting} onPress={() => setNoting(!noting)} />
                   ) : (
-                  <Button
-                    key={kind}
-                    compact
-                    variant={done.has(kind) ? 'quiet' : 'secondary'}
-                    label={ACTION_LABELS[kind]}
-                    icon={done.has(kind) ? 'check' : undefined}
-                    busy={mutation.isPending && mutation.variables?.body.kind === kind}
-                    onPress={() => (kind === 'moved-probe' ? setMoving(!moving) : mutation.mutate({ flagId: flag.id!, body: { id: globalThis.crypto.randomUUID(), kind } }))}
-                  />
+                    <Button
+                      key={kind}
+                      compact
+                      variant={done.has(kind) ? 'quiet' : 'secondary'}
+                      label={ACTION_LABELS[kind]}
+                      icon={done.has(kind) ? 'check' : undefined}
+                      busy={mutation.isPending && mutation.variables?.body.kind === kind}
+                      onPress={() => (kind === 'moved-probe' ? setMoving(!moving) : mutation.mutate({ flagId: flag.id!, body: { id: globalThis.crypto.randomUUID(), kind } }))}
+                    />
                   ),
                 )
               : null}
@@ -296,10 +301,15 @@ export function ClosedFlags({ sheet }: { sheet: Flowsheet }) {
           {f.status === 'withdrawn' ? (
             // Withdrawn: it should not have been raised (a late entry or correction showed it); never a late check.
             <Text variant="caption" style={styles.struck}>
-              {FLAG_LABELS[f.kind]} withdrawn{f.closedAt ? ` ${clockTime(f.closedAt, tz, user.clock)}` : ''}: {f.withdrawn?.reason === 'late-entry-on-time' ? 'the check was charted late but taken on time' : 'a correction showed it should not have been raised'}
+              {FLAG_LABELS[f.kind]} withdrawn{f.closedAt ? ` ${clockTime(f.closedAt, tz, user.clock)}` : ''}:{' '}
+              {f.withdrawn?.reason === 'late-entry-on-time' ? 'the check was charted late but taken on time' : 'a correction showed it should not have been raised'}
             </Text>
           ) : (
-            <StatusBadge tone="ok" icon="check" label={`${FLAG_LABELS[f.kind]} closed${f.closedAt ? ` ${clockTime(f.closedAt, tz, user.clock)}` : ''}${f.how && FLAG_CLOSED_HOW_LABELS[f.how] ? ` ${FLAG_CLOSED_HOW_LABELS[f.how]}` : ''}`} />
+            <StatusBadge
+              tone="ok"
+              icon="check"
+              label={`${FLAG_LABELS[f.kind]} closed${f.closedAt ? ` ${clockTime(f.closedAt, tz, user.clock)}` : ''}${f.how && FLAG_CLOSED_HOW_LABELS[f.how] ? ` ${FLAG_CLOSED_HOW_LABELS[f.how]}` : ''}`}
+            />
           )}
           <Text variant="caption" tone="muted">
             Raised {clockTime(f.raisedAt, tz, user.clock)} · {f.actions.map(actionWords).join(', ') || 'no actions recorded'}

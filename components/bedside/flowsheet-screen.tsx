@@ -83,10 +83,18 @@ function FlowsheetBody({ sheet, hours, setHours, canChart }: { sheet: Flowsheet;
         <CheckClockBadges checks={sheet.checks} next={sheet.nextCheck} now={now} />
         {openFlags.length === 0 ? <StatusBadge tone="ok" icon="check" label="No open flags" /> : null}
         {/* On a phone the chart is below the readings: one tap brings it up. */}
-        {!wide && Platform.OS === 'web' ? <Button compact variant="secondary" label="Chart" accessibilityLabel="Chart: jump to the trend chart" onPress={() => jumpTo(trend.current)} /> : null}
+        {!wide && Platform.OS === 'web' ? (
+          <Button compact variant="secondary" label="Chart" accessibilityLabel="Chart: jump to the trend chart" onPress={() => jumpTo(trend.current)} />
+        ) : null}
       </View>
       <StayEndCard discharge={sheet.discharge} timeZone={sheet.infant.timeZone} clock={user.clock} />
-      <CurrentPlacementCard infantId={sheet.infant.id} placement={sheet.infant.placement} timeZone={sheet.infant.timeZone} clock={user.clock} canChart={canChart && !sheet.discharge} />
+      <CurrentPlacementCard
+        infantId={sheet.infant.id}
+        placement={sheet.infant.placement}
+        timeZone={sheet.infant.timeZone}
+        clock={user.clock}
+        canChart={canChart && !sheet.discharge}
+      />
       <PendingReadingCards infantId={sheet.infant.id} timeZone={sheet.infant.timeZone} />
       <View style={[styles.columns, wide && styles.columnsWide]}>
         {openFlags.map((f) => (
@@ -191,9 +199,15 @@ function ReadingCard({ reading: r, sheet, canChart, now }: { reading: FlowsheetR
           .filter(Boolean)
           .join(' · ')}
       </Text>
-      {r.heatSigns.length ? <Text variant="caption">Heat-stress signs: {r.heatSigns.map((sign) => HEAT_STRESS_SIGN_LABELS[sign as HeatStressSign] ?? 'another sign').join(', ')}</Text> : null}
+      {r.heatSigns.length ? (
+        <Text variant="caption">Heat-stress signs: {r.heatSigns.map((sign) => HEAT_STRESS_SIGN_LABELS[sign as HeatStressSign] ?? 'another sign').join(', ')}</Text>
+      ) : null}
       {r.note ? <Text variant="caption">{r.note}</Text> : null}
-      {r.lateReason ? <Text variant="caption" tone="muted">Charted late: {r.lateReason}</Text> : null}
+      {r.lateReason ? (
+        <Text variant="caption" tone="muted">
+          Charted late: {r.lateReason}
+        </Text>
+      ) : null}
       <View style={styles.badges}>
         {canChart ? <Button compact variant="secondary" label="Correct" accessibilityLabel={`Correct the reading of ${when}`} onPress={() => correct(r)} /> : null}
         {r.corrected ? <Button compact variant="quiet" label={open ? 'Hide history' : `History (${r.history.length + 1} versions)`} onPress={() => setOpen(!open)} /> : null}
@@ -212,8 +226,9 @@ function Versions({ reading: r, sheet }: { reading: FlowsheetReading; sheet: Flo
     <View role="list" style={styles.versions} aria-label="Versions">
       {versions.map((v, i) => (
         <Text key={v.id} role="listitem" variant="caption">
-          {i === versions.length - 1 ? 'Now' : `Version ${i + 1}`}: {v.enteredInError ? 'removed' : `probe ${temp(v.probeCenti, user.tempUnit)}, remote ${temp(v.remoteCenti, user.tempUnit)}, set ${temp(v.setCenti, user.tempUnit)}`} · {v.recordedBy.name},{' '}
-          {dayTime(v.recordedAt, tz, user.clock)}
+          {i === versions.length - 1 ? 'Now' : `Version ${i + 1}`}:{' '}
+          {v.enteredInError ? 'removed' : `probe ${temp(v.probeCenti, user.tempUnit)}, remote ${temp(v.remoteCenti, user.tempUnit)}, set ${temp(v.setCenti, user.tempUnit)}`} ·{' '}
+          {v.recordedBy.name}, {dayTime(v.recordedAt, tz, user.clock)}
           {v.correctionReason ? ` · ${CORRECTION_REASON_LABELS[v.correctionReason]}: ${v.correctionNote ?? ''}` : ' · first entry'}
         </Text>
       ))}
@@ -250,7 +265,7 @@ function ReadingGrid({ sheet, canChart }: { sheet: Flowsheet; canChart: boolean 
   const cols = sheet.readings.slice(shown * GRID_PAGE, shown * GRID_PAGE + GRID_PAGE);
   const first = shown * GRID_PAGE + 1;
   const last = shown * GRID_PAGE + cols.length;
-  const rows: Array<[string, (r: FlowsheetReading) => string]> = [
+  const rows: [string, (r: FlowsheetReading) => string][] = [
     ['Probe', (r) => temp(r.probeCenti, user.tempUnit)],
     ['Remote site', (r) => temp(r.remoteCenti, user.tempUnit)],
     ['Site', (r) => (r.remoteSite ? SITE_LABELS[r.remoteSite] : '—')],
@@ -310,12 +325,7 @@ function ReadingGrid({ sheet, canChart }: { sheet: Flowsheet; canChart: boolean 
             </Text>
             {cols.map((r) => (
               <View key={r.id} role="cell" style={styles.gridCell}>
-                <Pressable
-                  role="button"
-                  aria-label={`Correct the reading of ${formatWhen(r.takenAt, tz, user.clock, now)}`}
-                  onPress={() => correct(r)}
-                  style={styles.gridLink}
-                >
+                <Pressable role="button" aria-label={`Correct the reading of ${formatWhen(r.takenAt, tz, user.clock, now)}`} onPress={() => correct(r)} style={styles.gridLink}>
                   <Text variant="caption" tone="primary" style={styles.underline}>
                     Correct
                   </Text>

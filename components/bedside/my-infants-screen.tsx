@@ -63,7 +63,14 @@ export function InfantRow({ infant, wide = false }: { infant: InfantSummary; wid
   const who = `${infant.bedLabel ?? 'No bed'}, ${infant.displayName}`;
   return (
     <View role="listitem" style={wide ? styles.itemWide : undefined}>
-      <Card style={[styles.row, { borderColor: infant.attention?.needsAttention ?? infant.openFlags.length ? theme.colors.danger : infant.openFlags.length ? theme.colors.warning : theme.colors.border }]}>
+      <Card
+        style={[
+          styles.row,
+          {
+            borderColor: (infant.attention?.needsAttention ?? infant.openFlags.length) ? theme.colors.danger : infant.openFlags.length ? theme.colors.warning : theme.colors.border,
+          },
+        ]}
+      >
         <Pressable
           role="link"
           // An <a href> on the web: Enter, middle click and screen readers treat it as the link it is.
@@ -108,7 +115,15 @@ export function InfantRow({ infant, wide = false }: { infant: InfantSummary; wid
         </Pressable>
         {/* The routine check in one tap from the list: the record form opens with the probe field ready. */}
         {canChart ? (
-          <Button label="Record check" icon="thermometer" variant="secondary" compact accessibilityLabel={`Record check for ${who}`} style={styles.record} onPress={() => openRecordForm(router, infant.id)} />
+          <Button
+            label="Record check"
+            icon="thermometer"
+            variant="secondary"
+            compact
+            accessibilityLabel={`Record check for ${who}`}
+            style={styles.record}
+            onPress={() => openRecordForm(router, infant.id)}
+          />
         ) : null}
       </Card>
     </View>

@@ -127,7 +127,10 @@ export function implausibleReasons(v: ReadingFormValues, unit: TempUnit): string
 }
 
 /** The API body for the form's values. */
-export function toCreateReading(v: ReadingFormValues, opts: { id: string; unit: TempUnit; now: Date; timeZone: string; confirmed: boolean }): CreateReadingInput & { takenAt: string } {
+export function toCreateReading(
+  v: ReadingFormValues,
+  opts: { id: string; unit: TempUnit; now: Date; timeZone: string; confirmed: boolean },
+): CreateReadingInput & { takenAt: string } {
   const num = (s: string) => {
     const n = parseNumber(s);
     return typeof n === 'number' ? n : null;

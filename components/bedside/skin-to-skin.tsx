@@ -141,10 +141,7 @@ function StartSessionForm({ sheet, onDone }: { sheet: Flowsheet; onDone: () => v
   const limit = useWatch({ control, name: 'limit' });
   const problem = mutation.isError ? problemOf(mutation.error) : null;
   const submit = handleSubmit((v) =>
-    mutation.mutate(
-      { id, unit, reference: parseNumber(v.reference) as number, limitCenti: Number(v.limit) as 50 | 100, carer: v.carer.trim() || null },
-      { onSuccess: onDone },
-    ),
+    mutation.mutate({ id, unit, reference: parseNumber(v.reference) as number, limitCenti: Number(v.limit) as 50 | 100, carer: v.carer.trim() || null }, { onSuccess: onDone }),
   );
   return (
     <Card role="region" aria-label="Start a skin-to-skin session">
@@ -167,7 +164,13 @@ function StartSessionForm({ sheet, onDone }: { sheet: Flowsheet; onDone: () => v
         keyboardType="decimal-pad"
         serverError={problem && 'fields' in problem ? problem.fields?.reference : undefined}
       />
-      <TextField control={control} name="carer" label="Carer (optional)" placeholder="For example: mother" serverError={problem && 'fields' in problem ? problem.fields?.carer : undefined} />
+      <TextField
+        control={control}
+        name="carer"
+        label="Carer (optional)"
+        placeholder="For example: mother"
+        serverError={problem && 'fields' in problem ? problem.fields?.carer : undefined}
+      />
       <View style={styles.row}>
         <FormRootError control={control} />
         <Button label="Start session" icon="hands" busy={mutation.isPending} onPress={() => void submit()} />

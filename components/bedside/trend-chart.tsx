@@ -30,7 +30,8 @@ export function TrendChart({ sheet, unit, clock }: { sheet: Flowsheet; unit: Tem
         </DeferredChart>
       </View>
       <Text variant="caption" tone="muted">
-        Lines: probe (solid, round points), remote site (diamonds), set temperature (dashed); a dotted upright line marks midnight. Shaded: the normal band {temp(NORMAL_MIN_CENTI, unit)}–{temp(NORMAL_MAX_CENTI, unit)}. Red triangles: gap flags.
+        Lines: probe (solid, round points), remote site (diamonds), set temperature (dashed); a dotted upright line marks midnight. Shaded: the normal band{' '}
+        {temp(NORMAL_MIN_CENTI, unit)}–{temp(NORMAL_MAX_CENTI, unit)}. Red triangles: gap flags.
       </Text>
       <Text variant="caption" accessibilityLiveRegion="polite">
         {latest

@@ -24,8 +24,7 @@ export function TrendPlot({ sheet, unit, clock, width, height }: TrendPlotProps)
   const v = (centi: number) => fromCentiCelsius(centi, unit);
   const tz = sheet.infant.timeZone;
   const rows = [...sheet.readings].reverse();
-  const series = (pick: (r: (typeof rows)[number]) => number | null) =>
-    rows.filter((r) => pick(r) !== null).map((r) => ({ x: new Date(r.takenAt), y: v(pick(r)!) }));
+  const series = (pick: (r: (typeof rows)[number]) => number | null) => rows.filter((r) => pick(r) !== null).map((r) => ({ x: new Date(r.takenAt), y: v(pick(r)!) }));
   const probe = series((r) => r.probeCenti);
   const remote = series((r) => r.remoteCenti);
   const set = series((r) => r.setCenti);
@@ -41,7 +40,13 @@ export function TrendPlot({ sheet, unit, clock, width, height }: TrendPlotProps)
   const axis = timeAxis(from, to, tz, clock);
 
   return (
-    <VictoryChart width={width} height={height} scale={{ x: 'time' }} domain={{ x: [from, to], y: [lo, hi] }} padding={{ top: 12, bottom: axis.crossesMidnight ? 50 : 36, left: 48, right: 16 }}>
+    <VictoryChart
+      width={width}
+      height={height}
+      scale={{ x: 'time' }}
+      domain={{ x: [from, to], y: [lo, hi] }}
+      padding={{ top: 12, bottom: axis.crossesMidnight ? 50 : 36, left: 48, right: 16 }}
+    >
       <VictoryArea
         data={[
           { x: from, y: v(NORMAL_MAX_CENTI), y0: v(NORMAL_MIN_CENTI) },
@@ -59,8 +64,22 @@ export function TrendPlot({ sheet, unit, clock, width, height }: TrendPlotProps)
           style={{ data: { stroke: colors.textMuted, strokeDasharray: '2,4', strokeWidth: 1 } }}
         />
       ))}
-      <VictoryAxis tickFormat={(d: Date, i: number, ticks: Date[]) => axis.label(new Date(d), i, ticks.map((t) => new Date(t)))} tickCount={4} style={{ tickLabels: { fill: colors.textMuted, fontSize: 11 }, axis: { stroke: colors.border } }} />
-      <VictoryAxis dependentAxis tickFormat={(d: number) => d.toFixed(1)} style={{ tickLabels: { fill: colors.textMuted, fontSize: 11 }, axis: { stroke: colors.border }, grid: { stroke: colors.border, opacity: 0.2 } }} />
+      <VictoryAxis
+        tickFormat={(d: Date, i: number, ticks: Date[]) =>
+          axis.label(
+            new Date(d),
+            i,
+            ticks.map((t) => new Date(t)),
+          )
+        }
+        tickCount={4}
+        style={{ tickLabels: { fill: colors.textMuted, fontSize: 11 }, axis: { stroke: colors.border } }}
+      />
+      <VictoryAxis
+        dependentAxis
+        tickFormat={(d: number) => d.toFixed(1)}
+        style={{ tickLabels: { fill: colors.textMuted, fontSize: 11 }, axis: { stroke: colors.border }, grid: { stroke: colors.border, opacity: 0.2 } }}
+      />
       {set.length > 1 ? <VictoryLine data={set} style={{ data: { stroke: colors.seriesSet, strokeDasharray: '4,4', strokeWidth: 1.5 } }} /> : null}
       {probe.length > 1 ? <VictoryLine data={probe} style={{ data: { stroke: colors.seriesProbe, strokeWidth: 2 } }} /> : null}
       <VictoryScatter data={probe} size={3} style={{ data: { fill: colors.seriesProbe } }} />

@@ -16,7 +16,7 @@ import { PrintPage, PrintPageStyle } from '@/components/unit-shift/print-page';
 import { useUnitPlansQuery } from '@/components/unit-shift/queries';
 import { UnitSummary } from '@/components/unit-shift/unit-summary';
 import { NoPrint } from './no-print';
-import { PrintStyle } from './print-style';
+import { PrintStyle, usePrintTime } from './print-style';
 
 /** The unit zone is not in the handover answer; the demo units share one, and the device's is the fallback. */
 
@@ -37,6 +37,7 @@ function HandoverBody({
 }) {
   const user = useUser();
   const plans = useUnitPlansQuery(summary ? (user.unitIds[0] ?? null) : null);
+  const printedAtMs = usePrintTime();
   if (query.error && !query.data) {
     return (
       <Screen title={title}>
@@ -56,7 +57,7 @@ function HandoverBody({
   const { infants } = query.data;
   const zone = infants[0]?.timeZone ?? Intl.DateTimeFormat().resolvedOptions().timeZone;
   // On every printed page: when and by whom it was printed.
-  const printedAt = new Date().toISOString();
+  const printedAt = new Date(printedAtMs).toISOString();
   const printed = `printed at ${formatDayTime(printedAt, zone, user.clock).replace(/^(.*), (.*)$/, '$2 on $1')} by ${user.name}`;
   return (
     <Screen

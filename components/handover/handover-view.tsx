@@ -8,9 +8,9 @@ import { CONTROL_MODE_LABELS, FLAG_CLOSED_HOW_LABELS, HEAT_SOURCE_LABELS } from 
 import { HEAT_STRESS_SIGN_LABELS, type HeatStressSign } from '@/shared/thermal/heat-stress';
 import { formatTemperature, type TempUnit } from '@/shared/thermal/units';
 import type { HandoverInfant, HandoverReading } from '@/shared/types/board';
-import { escalationLine, flagLook } from '../board/flag-look';
-import { actionWords } from '../bedside/format';
-import { placementWords } from '../bedside/placement-values';
+import { escalationLine, flagLook } from '@/components/board/flag-look';
+import { actionWords } from '@/components/bedside/format';
+import { placementWords } from '@/components/bedside/placement-values';
 
 const TABLE_BREAKPOINT = 720;
 
@@ -30,7 +30,8 @@ export function HandoverView({ handover, tempUnit, timeZone, clock }: { handover
           {infant.bedLabel ?? '—'} · {infant.displayName}
         </Text>
         <Text tone="muted">
-          {infant.gestationWeeks}+{infant.gestationDays} weeks at birth · {infant.weightGrams} g · {HEAT_SOURCE_LABELS[infant.heatSource]} · nurse {handover.nurse?.name ?? 'unassigned'}
+          {infant.gestationWeeks}+{infant.gestationDays} weeks at birth · {infant.weightGrams} g · {HEAT_SOURCE_LABELS[infant.heatSource]} · nurse{' '}
+          {handover.nurse?.name ?? 'unassigned'}
         </Text>
         <Text variant="caption" tone="muted">
           {when(handover.from, timeZone, clock)} to {when(handover.to, timeZone, clock)} ({timeZone})
@@ -38,10 +39,13 @@ export function HandoverView({ handover, tempUnit, timeZone, clock }: { handover
       </View>
 
       <View data-print-block style={styles.section}>
-        <Text variant="title" aria-level={3}>Settings now</Text>
+        <Text variant="title" aria-level={3}>
+          Settings now
+        </Text>
         <Text>
           {settings.controlMode ? CONTROL_MODE_LABELS[settings.controlMode] : 'Mode not charted'} · set {t(settings.setCenti, tempUnit)}
-          {settings.heaterOutputPct !== null ? ` · heater ${settings.heaterOutputPct} %` : ''} · probe {t(settings.probeCenti, tempUnit)} · remote site {t(settings.remoteCenti, tempUnit)}
+          {settings.heaterOutputPct !== null ? ` · heater ${settings.heaterOutputPct} %` : ''} · probe {t(settings.probeCenti, tempUnit)} · remote site{' '}
+          {t(settings.remoteCenti, tempUnit)}
         </Text>
         <Text>{placementWords(settings.placement) ?? 'Probe placement not charted'}</Text>
         {settings.placement?.prompt ? (
@@ -52,7 +56,9 @@ export function HandoverView({ handover, tempUnit, timeZone, clock }: { handover
       </View>
 
       <View style={styles.section}>
-        <Text variant="title" aria-level={3}>Outstanding</Text>
+        <Text variant="title" aria-level={3}>
+          Outstanding
+        </Text>
         <View style={styles.badges}>
           <StatusBadge
             tone={nextCheck.status === 'overdue' ? 'danger' : nextCheck.status === 'due-soon' ? 'warning' : 'ok'}
@@ -73,7 +79,12 @@ export function HandoverView({ handover, tempUnit, timeZone, clock }: { handover
             />
           ) : null}
           {(handover.checks?.rechecks ?? []).map((r) => (
-            <StatusBadge key={r.flagId} tone={r.status === 'overdue' ? 'danger' : 'warning'} icon="clock" label={`Recheck ${r.status === 'overdue' ? 'overdue since' : 'due'} ${when(r.dueAt!, timeZone, clock)}`} />
+            <StatusBadge
+              key={r.flagId}
+              tone={r.status === 'overdue' ? 'danger' : 'warning'}
+              icon="clock"
+              label={`Recheck ${r.status === 'overdue' ? 'overdue since' : 'due'} ${when(r.dueAt!, timeZone, clock)}`}
+            />
           ))}
           {open.map((f) => {
             const look = flagLook(f);
@@ -83,18 +94,28 @@ export function HandoverView({ handover, tempUnit, timeZone, clock }: { handover
       </View>
 
       <View style={styles.section}>
-        <Text variant="title" aria-level={3}>Readings ({handover.readings.length})</Text>
-        {handover.readings.length === 0 ? <Text tone="muted">No readings in the last 12 hours.</Text> : <ReadingsTable readings={handover.readings} tempUnit={tempUnit} timeZone={timeZone} clock={clock} />}
+        <Text variant="title" aria-level={3}>
+          Readings ({handover.readings.length})
+        </Text>
+        {handover.readings.length === 0 ? (
+          <Text tone="muted">No readings in the last 12 hours.</Text>
+        ) : (
+          <ReadingsTable readings={handover.readings} tempUnit={tempUnit} timeZone={timeZone} clock={clock} />
+        )}
       </View>
 
       <View style={styles.section}>
-        <Text variant="title" aria-level={3}>Flags and actions</Text>
+        <Text variant="title" aria-level={3}>
+          Flags and actions
+        </Text>
         {handover.flags.length === 0 ? <Text tone="muted">No flags in the last 12 hours.</Text> : null}
         {handover.flags.map((f) => (
           <View key={f.id} data-print-block style={styles.flag}>
             <Text variant="bodyStrong">
               {flagLook(f).label}: raised {when(f.raisedAt, timeZone, clock)}
-              {f.closedAt ? `, ${f.how === 'withdrawn' ? 'withdrawn' : 'closed'} ${when(f.closedAt, timeZone, clock)}${f.how && FLAG_CLOSED_HOW_LABELS[f.how] ? ` ${FLAG_CLOSED_HOW_LABELS[f.how]}` : ''}` : ', still open'}
+              {f.closedAt
+                ? `, ${f.how === 'withdrawn' ? 'withdrawn' : 'closed'} ${when(f.closedAt, timeZone, clock)}${f.how && FLAG_CLOSED_HOW_LABELS[f.how] ? ` ${FLAG_CLOSED_HOW_LABELS[f.how]}` : ''}`
+                : ', still open'}
             </Text>
             {escalationLine(f.escalation, timeZone, clock) ? <Text variant="caption">{escalationLine(f.escalation, timeZone, clock)}</Text> : null}
             {f.actions.map((a, i) => (
@@ -107,11 +128,14 @@ export function HandoverView({ handover, tempUnit, timeZone, clock }: { handover
       </View>
 
       <View style={styles.section}>
-        <Text variant="title" aria-level={3}>Skin-to-skin sessions</Text>
+        <Text variant="title" aria-level={3}>
+          Skin-to-skin sessions
+        </Text>
         {handover.sessions.length === 0 ? <Text tone="muted">None in the last 12 hours.</Text> : null}
         {handover.sessions.map((s) => (
           <Text key={s.id}>
-            {when(s.startedAt, timeZone, clock)} to {s.endedAt ? when(s.endedAt, timeZone, clock) : 'now'} · reference {t(s.referenceCenti, tempUnit)}, deviation limit {(s.limitCenti / 100).toFixed(1)} °C
+            {when(s.startedAt, timeZone, clock)} to {s.endedAt ? when(s.endedAt, timeZone, clock) : 'now'} · reference {t(s.referenceCenti, tempUnit)}, deviation limit{' '}
+            {(s.limitCenti / 100).toFixed(1)} °C
             {s.carer ? ` · with ${s.carer}` : ''}
           </Text>
         ))}

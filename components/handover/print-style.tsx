@@ -2,3 +2,8 @@
 export function PrintStyle() {
   return null;
 }
+
+/** When the handover is printed; on a device, when it was drawn. */
+export function usePrintTime(): number {
+  return Date.now();
+}

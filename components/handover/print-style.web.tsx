@@ -1,3 +1,4 @@
+import { useEffect, useState } from 'react';
 /**
  * A print stylesheet for the handover: A4 or Letter margins, no navigation or buttons, and every
  * scrolling area opened out so the whole handover prints, not just what is on screen.
@@ -19,4 +20,20 @@ const PRINT_CSS = `
 
 export function PrintStyle() {
   return <style media="print">{PRINT_CSS}</style>;
+}
+
+/**
+ * The time to print as "printed at": when the page was drawn, and again at the moment the browser
+ * prints (its beforeprint event), so a handover opened at
+ * the start of the shift and printed later says when it was printed.
+ */
+export function usePrintTime(): number {
+  const [at, setAt] = useState(() => Date.now());
+  useEffect(() => {
+    // beforeprint is a discrete event to React: the update is drawn before the browser lays out the paper.
+    const now = () => setAt(Date.now());
+    window.addEventListener('beforeprint', now);
+    return () => window.removeEventListener('beforeprint', now);
+  }, []);
+  return at;
 }

@@ -2,14 +2,14 @@ import { router, usePathname } from 'expo-router';
 import type { ReactNode } from 'react';
 import { Pressable, StyleSheet, View, useWindowDimensions } from 'react-native';
 import { ROLE_LABELS } from '@/shared/roles';
-import { useUser } from '../auth/auth-provider';
-import { TOUCH_TARGET, WIDE_BREAKPOINT } from '../theme/theme';
-import { useTheme } from '../theme/theme-provider';
-import { Icon } from '../ui/icon';
-import { Text } from '../ui/text';
+import { useUser } from '@/components/auth/auth-provider';
+import { TOUCH_TARGET, WIDE_BREAKPOINT } from '@/components/theme/theme';
+import { useTheme } from '@/components/theme/theme-provider';
+import { Icon } from '@/components/ui/icon';
+import { Text } from '@/components/ui/text';
 import { ConnectionBanner } from './connection-banner';
 import { SignOutDialog, useSignOut } from './sign-out';
-import { UpdateBanner } from '../offline/update-banner';
+import { UpdateBanner } from '@/components/offline/update-banner';
 import { navItemsFor, type NavItem } from './nav-items';
 
 /** Bottom tabs on a phone, a side rail from 1024 px. */

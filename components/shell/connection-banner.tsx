@@ -1,9 +1,9 @@
 import { onlineManager } from '@tanstack/react-query';
 import { useEffect, useState, useSyncExternalStore } from 'react';
 import { StyleSheet, View } from 'react-native';
-import { useTheme } from '../theme/theme-provider';
-import { Icon } from '../ui/icon';
-import { Text } from '../ui/text';
+import { useTheme } from '@/components/theme/theme-provider';
+import { Icon } from '@/components/ui/icon';
+import { Text } from '@/components/ui/text';
 
 export function useOnline(): boolean {
   return useSyncExternalStore(

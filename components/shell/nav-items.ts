@@ -1,5 +1,5 @@
 import type { Role } from '@/shared/roles';
-import type { IconName } from '../ui/icon';
+import type { IconName } from '@/components/ui/icon';
 
 export interface NavItem {
   href: '/infants' | '/board' | '/handover' | '/review' | '/reports' | '/admin' | '/settings';

@@ -1,10 +1,10 @@
 import { useId, useState, useSyncExternalStore } from 'react';
 import { Modal, ScrollView, StyleSheet, View } from 'react-native';
-import { useAuth } from '../auth/auth-provider';
-import { unsavedWork, type UnsavedWork } from '../offline/device-data';
-import { useTheme } from '../theme/theme-provider';
-import { Button } from '../ui/button';
-import { Text } from '../ui/text';
+import { useAuth } from '@/components/auth/auth-provider';
+import { unsavedWork, type UnsavedWork } from '@/components/offline/device-data';
+import { useTheme } from '@/components/theme/theme-provider';
+import { Button } from '@/components/ui/button';
+import { Text } from '@/components/ui/text';
 
 /**
  * Sign-out, asked for from the rail or Settings. With nothing unsaved on the device it signs out

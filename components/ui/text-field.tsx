@@ -1,8 +1,8 @@
 import { forwardRef, useCallback } from 'react';
 import { useController, type Control, type FieldValues, type Path } from 'react-hook-form';
 import { Platform, StyleSheet, TextInput, View, type TextInputProps } from 'react-native';
-import { TOUCH_TARGET } from '../theme/theme';
-import { useTheme } from '../theme/theme-provider';
+import { TOUCH_TARGET } from '@/components/theme/theme';
+import { useTheme } from '@/components/theme/theme-provider';
 import { Text } from './text';
 
 export interface TextFieldProps<T extends FieldValues> extends Omit<TextInputProps, 'value' | 'onChangeText' | 'onBlur'> {
@@ -16,10 +16,7 @@ export interface TextFieldProps<T extends FieldValues> extends Omit<TextInputPro
 }
 
 /** One labelled input bound to react-hook-form; its error is announced and tied to the field. */
-function TextFieldInner<T extends FieldValues>(
-  { control, name, label, hint, suffix, serverError, style, ...rest }: TextFieldProps<T>,
-  ref: React.ForwardedRef<TextInput>,
-) {
+function TextFieldInner<T extends FieldValues>({ control, name, label, hint, suffix, serverError, style, ...rest }: TextFieldProps<T>, ref: React.ForwardedRef<TextInput>) {
   const theme = useTheme();
   const { field, fieldState } = useController({ control, name });
   const error = fieldState.error?.message ?? serverError;
@@ -89,9 +86,7 @@ export function focusAndReveal(node: TextInput): void {
   if (Platform.OS === 'web') (node as unknown as { scrollIntoView?: (o: object) => void }).scrollIntoView?.({ block: 'center' });
 }
 
-export const TextField = forwardRef(TextFieldInner) as <T extends FieldValues>(
-  props: TextFieldProps<T> & { ref?: React.ForwardedRef<TextInput> },
-) => React.ReactElement;
+export const TextField = forwardRef(TextFieldInner) as <T extends FieldValues>(props: TextFieldProps<T> & { ref?: React.ForwardedRef<TextInput> }) => React.ReactElement;
 
 const styles = StyleSheet.create({
   wrap: { gap: 4 },

@@ -14,7 +14,10 @@ import { CONTROL_MODE_LABELS, CONTROL_MODES, HEAT_SOURCE_LABELS, HEAT_SOURCES } 
 import { useStartWarmingMutation, useStopWarmingMutation } from './queries';
 
 /** The admit form's heat source, mode and set temperature, taken from the bed's warming. */
-export function admitDefaultsFromWarming(w: BedWarming | undefined, tempUnit: TempUnit): { heatSource: BedWarming['heatSource']; controlMode: BedWarming['controlMode']; setTemperature: string } | null {
+export function admitDefaultsFromWarming(
+  w: BedWarming | undefined,
+  tempUnit: TempUnit,
+): { heatSource: BedWarming['heatSource']; controlMode: BedWarming['controlMode']; setTemperature: string } | null {
   return w ? { heatSource: w.heatSource, controlMode: w.controlMode, setTemperature: fromCentiCelsius(w.setCenti, tempUnit).toFixed(1) } : null;
 }
 
@@ -26,7 +29,8 @@ export function WarmingLine({ warming, tempUnit, timeZone, clock, nowMs }: { war
     <View style={styles.line}>
       <StatusBadge tone="warning" icon="thermometer" label={`Warming for an admission, ${minutes} min`} large />
       <Text variant="label">
-        Since {clockTime(warming.since, timeZone, clock)} · {HEAT_SOURCE_LABELS[warming.heatSource]}, {CONTROL_MODE_LABELS[warming.controlMode].toLowerCase()}, set {formatTemperature(warming.setCenti, tempUnit)}
+        Since {clockTime(warming.since, timeZone, clock)} · {HEAT_SOURCE_LABELS[warming.heatSource]}, {CONTROL_MODE_LABELS[warming.controlMode].toLowerCase()}, set{' '}
+        {formatTemperature(warming.setCenti, tempUnit)}
         {forWhom}
       </Text>
     </View>
@@ -52,7 +56,21 @@ function sinceInstant(hhmm: string): string | undefined {
 }
 
 /** The charge nurse marks this empty bed as warming for the next admission, or stops it. */
-export function WarmingForm({ unitId, bedId, bedLabel, warming, tempUnit, onDone }: { unitId: string; bedId: string; bedLabel: string; warming: BedWarming | undefined; tempUnit: TempUnit; onDone: () => void }) {
+export function WarmingForm({
+  unitId,
+  bedId,
+  bedLabel,
+  warming,
+  tempUnit,
+  onDone,
+}: {
+  unitId: string;
+  bedId: string;
+  bedLabel: string;
+  warming: BedWarming | undefined;
+  tempUnit: TempUnit;
+  onDone: () => void;
+}) {
   const start = useStartWarmingMutation(unitId, bedId);
   const stop = useStopWarmingMutation(unitId, bedId);
   const { control, handleSubmit } = useForm<WarmingFormValues>({
@@ -81,20 +99,30 @@ export function WarmingForm({ unitId, bedId, bedLabel, warming, tempUnit, onDone
   );
   return (
     <View style={styles.form} role="group" aria-label={`Warm bed ${bedLabel} for an admission`}>
-      <Text tone="muted">Warm the bed before the infant arrives. Follow the device's instructions and unit policy for pre-warming.</Text>
+      <Text tone="muted">Warm the bed before the infant arrives. Follow the device’s instructions and unit policy for pre-warming.</Text>
       <Controller
         control={control}
         name="heatSource"
-        render={({ field }) => <Segmented label="Heat source" value={field.value} onChange={field.onChange} options={HEAT_SOURCES.map((v) => ({ value: v, label: HEAT_SOURCE_LABELS[v] }))} />}
+        render={({ field }) => (
+          <Segmented label="Heat source" value={field.value} onChange={field.onChange} options={HEAT_SOURCES.map((v) => ({ value: v, label: HEAT_SOURCE_LABELS[v] }))} />
+        )}
       />
       <Controller
         control={control}
         name="controlMode"
-        render={({ field }) => <Segmented label="Control mode" value={field.value} onChange={field.onChange} options={CONTROL_MODES.map((v) => ({ value: v, label: CONTROL_MODE_LABELS[v] }))} />}
+        render={({ field }) => (
+          <Segmented label="Control mode" value={field.value} onChange={field.onChange} options={CONTROL_MODES.map((v) => ({ value: v, label: CONTROL_MODE_LABELS[v] }))} />
+        )}
       />
       <TextField control={control} name="setTemperature" label="Set temperature" suffix={`°${tempUnit}`} keyboardType="decimal-pad" serverError={fields.setTemperature} />
       <TextField control={control} name="sinceTime" label="Warming since" hint="HH:MM, 24-hour; leave empty for now." serverError={fields.since} />
-      <TextField control={control} name="expectedInfant" label="Expected infant" hint="A name or a short note, for example Twin 1 from delivery suite." serverError={fields.expectedInfant} />
+      <TextField
+        control={control}
+        name="expectedInfant"
+        label="Expected infant"
+        hint="A name or a short note, for example Twin 1 from delivery suite."
+        serverError={fields.expectedInfant}
+      />
       {problem ? (
         <Text tone="danger" role="alert">
           {problem.message}

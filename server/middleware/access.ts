@@ -50,7 +50,11 @@ const ENTITY_BY_PATH: [RegExp, UnitScoped, string][] = [
 const unitQueries = perConnection((db) => {
   const unitOf = (name: UnitScoped) => {
     const table = UNIT_SCOPED[name];
-    return db.select({ unitId: table.unitId }).from(table).where(eq(table.id, sql.placeholder('id'))).prepare();
+    return db
+      .select({ unitId: table.unitId })
+      .from(table)
+      .where(eq(table.id, sql.placeholder('id')))
+      .prepare();
   };
   return new Map((Object.keys(UNIT_SCOPED) as UnitScoped[]).map((name) => [name, unitOf(name)]));
 });

@@ -52,6 +52,10 @@ export function bodyTypeCheck(acceptsMultipart: boolean): RequestHandler {
     if (acceptsMultipart && req.is('multipart/form-data')) return next();
     const type = (req.headers['content-type'] ?? 'a body without a Content-Type').split(';')[0];
     const expected = acceptsMultipart ? 'a multipart/form-data upload' : 'a JSON body (Content-Type: application/json)';
-    next(new ApiError(415, 'unsupported-media-type', `This route takes ${expected}, not ${type}.`, { _: acceptsMultipart ? 'Send the file as a form upload.' : 'Send the body as JSON.' }));
+    next(
+      new ApiError(415, 'unsupported-media-type', `This route takes ${expected}, not ${type}.`, {
+        _: acceptsMultipart ? 'Send the file as a form upload.' : 'Send the body as JSON.',
+      }),
+    );
   };
 }

@@ -45,12 +45,23 @@ function changeMembership(ctx: AppContext, userId: string, unitId: string, admin
       } else {
         if (!before.includes(unitId)) throw notFound('That membership');
         if (before.length === 1) throw conflict('This is the only unit this person works in; deactivate the account instead.', { unitId: 'A person keeps at least one unit.' });
-        tx.delete(userUnits).where(and(eq(userUnits.userId, userId), eq(userUnits.unitId, unitId))).run();
+        tx.delete(userUnits)
+          .where(and(eq(userUnits.userId, userId), eq(userUnits.unitId, unitId)))
+          .run();
       }
       tx.update(users).set({ sessionVersion: nextSessionVersion, updatedAt: ctx.clock.now() }).where(eq(users.id, userId)).run();
       revokeAllSessions(ctx, userId);
       const after = membershipsOf(ctx, userId);
-      appendAudit(sqlite, { at: ctx.clock.now(), actorId: admin.userId, action: op === 'add' ? 'membership-added' : 'membership-removed', entityType: 'user', entityId: userId, unitId, before: { unitIds: before }, after: { unitIds: after } });
+      appendAudit(sqlite, {
+        at: ctx.clock.now(),
+        actorId: admin.userId,
+        action: op === 'add' ? 'membership-added' : 'membership-removed',
+        entityType: 'user',
+        entityId: userId,
+        unitId,
+        before: { unitIds: before },
+        after: { unitIds: after },
+      });
       return after;
     },
     { behavior: 'immediate' },
@@ -66,7 +77,8 @@ export function createUnit(ctx: AppContext, input: CreateUnitInput, admin: Admin
   const id = randomUUID();
   db.transaction(
     (tx) => {
-      if (tx.select({ id: units.id }).from(units).where(eq(units.name, input.name)).get()) throw conflict('A unit with that name exists.', { name: 'A unit with this name exists.' });
+      if (tx.select({ id: units.id }).from(units).where(eq(units.name, input.name)).get())
+        throw conflict('A unit with that name exists.', { name: 'A unit with this name exists.' });
       tx.insert(units).values({ id, name: input.name, hospitalName: input.hospitalName, timeZone: input.timeZone, createdAt: ctx.clock.now() }).run();
       tx.insert(userUnits).values({ userId: admin.userId, unitId: id }).run();
       appendAudit(sqlite, { at: ctx.clock.now(), actorId: admin.userId, action: 'unit-created', entityType: 'unit', entityId: id, unitId: id, after: input });
@@ -110,9 +122,22 @@ export function createBed(ctx: AppContext, unitId: string, label: string, admin:
   const id = randomUUID();
   db.transaction(
     (tx) => {
-      if (tx.select({ id: beds.id }).from(beds).where(and(eq(beds.unitId, unitId), eq(beds.label, label))).get()) throw conflict('That bed label is taken.', { label: 'This unit already has a bed with this label.' });
-      const last = tx.select({ n: max(beds.sortOrder) }).from(beds).where(eq(beds.unitId, unitId)).get();
-      tx.insert(beds).values({ id, unitId, label, sortOrder: (last?.n ?? 0) + 1, active: true }).run();
+      if (
+        tx
+          .select({ id: beds.id })
+          .from(beds)
+          .where(and(eq(beds.unitId, unitId), eq(beds.label, label)))
+          .get()
+      )
+        throw conflict('That bed label is taken.', { label: 'This unit already has a bed with this label.' });
+      const last = tx
+        .select({ n: max(beds.sortOrder) })
+        .from(beds)
+        .where(eq(beds.unitId, unitId))
+        .get();
+      tx.insert(beds)
+        .values({ id, unitId, label, sortOrder: (last?.n ?? 0) + 1, active: true })
+        .run();
       appendAudit(sqlite, { at: ctx.clock.now(), actorId: admin.userId, action: 'bed-created', entityType: 'bed', entityId: id, unitId, after: { label } });
     },
     { behavior: 'immediate' },
@@ -129,13 +154,26 @@ export function updateBed(ctx: AppContext, bedId: string, input: UpdateBedInput,
   const bed = db.select().from(beds).where(eq(beds.id, bedId)).get();
   if (!bed) throw notFound('That bed');
   if (!admin.unitIds.includes(bed.unitId)) throw forbidden('This record belongs to a unit you are not part of.');
-  if (input.active === false && db.select({ id: infants.id }).from(infants).where(and(eq(infants.bedId, bedId), eq(infants.status, 'admitted'))).get()) {
+  if (
+    input.active === false &&
+    db
+      .select({ id: infants.id })
+      .from(infants)
+      .where(and(eq(infants.bedId, bedId), eq(infants.status, 'admitted')))
+      .get()
+  ) {
     throw conflict('An infant is in this bed; move the infant first.', { active: 'An infant is in this bed.' });
   }
   return db.transaction(
     (tx) => {
       if (input.label !== undefined && input.label !== bed.label) {
-        if (tx.select({ id: beds.id }).from(beds).where(and(eq(beds.unitId, bed.unitId), eq(beds.label, input.label))).get()) {
+        if (
+          tx
+            .select({ id: beds.id })
+            .from(beds)
+            .where(and(eq(beds.unitId, bed.unitId), eq(beds.label, input.label)))
+            .get()
+        ) {
           throw conflict(`Bed ${input.label}: this unit already has a bed with this label.`, { label: 'This unit already has a bed with this label.' });
         }
       }
@@ -147,17 +185,30 @@ export function updateBed(ctx: AppContext, bedId: string, input: UpdateBedInput,
         const ordered = tx.select({ id: beds.id, sortOrder: beds.sortOrder }).from(beds).where(eq(beds.unitId, bed.unitId)).orderBy(beds.sortOrder, beds.label).all();
         const at = ordered.findIndex((b) => b.id === bedId);
         const to = input.move === 'up' ? at - 1 : at + 1;
-        if (to < 0 || to >= ordered.length) throw badRequest(`Bed ${bed.label} is already ${input.move === 'up' ? 'first' : 'last'}.`, { move: `Bed ${bed.label} is already ${input.move === 'up' ? 'first' : 'last'}.` });
+        if (to < 0 || to >= ordered.length)
+          throw badRequest(`Bed ${bed.label} is already ${input.move === 'up' ? 'first' : 'last'}.`, {
+            move: `Bed ${bed.label} is already ${input.move === 'up' ? 'first' : 'last'}.`,
+          });
         [ordered[at], ordered[to]] = [ordered[to]!, ordered[at]!];
         // Renumber the whole unit 1..n so equal or missing orders never leave a move without effect.
         ordered.forEach((b, i) => {
-          if (b.sortOrder !== i + 1) tx.update(beds).set({ sortOrder: i + 1 }).where(eq(beds.id, b.id)).run();
+          if (b.sortOrder !== i + 1)
+            tx.update(beds)
+              .set({ sortOrder: i + 1 })
+              .where(eq(beds.id, b.id))
+              .run();
         });
       }
       const after = tx.select().from(beds).where(eq(beds.id, bedId)).get()!;
       appendAudit(sqlite, {
-        at: ctx.clock.now(), actorId: admin.userId, action: 'bed-updated', entityType: 'bed', entityId: bedId, unitId: bed.unitId,
-        before: { label: bed.label, active: bed.active, sortOrder: bed.sortOrder }, after: { label: after.label, active: after.active, sortOrder: after.sortOrder },
+        at: ctx.clock.now(),
+        actorId: admin.userId,
+        action: 'bed-updated',
+        entityType: 'bed',
+        entityId: bedId,
+        unitId: bed.unitId,
+        before: { label: bed.label, active: bed.active, sortOrder: bed.sortOrder },
+        after: { label: after.label, active: after.active, sortOrder: after.sortOrder },
       });
       return { id: after.id, label: after.label, active: after.active };
     },
@@ -183,7 +234,11 @@ const SECRET_KEY = /password|token|secret|hash|jti|cookie/i;
 function redact(value: unknown): unknown {
   if (Array.isArray(value)) return value.map(redact);
   if (value && typeof value === 'object') {
-    return Object.fromEntries(Object.entries(value as Record<string, unknown>).filter(([k]) => !SECRET_KEY.test(k)).map(([k, v]) => [k, redact(v)]));
+    return Object.fromEntries(
+      Object.entries(value as Record<string, unknown>)
+        .filter(([k]) => !SECRET_KEY.test(k))
+        .map(([k, v]) => [k, redact(v)]),
+    );
   }
   return value;
 }
@@ -212,7 +267,19 @@ export function auditLog(ctx: AppContext, query: AuditQuery, admin: Admin): Audi
   const scope = or(inArray(auditEvents.unitId, admin.unitIds), and(eq(auditEvents.entityType, 'user'), inArray(auditEvents.entityId, manageable.length ? manageable : [''])));
   const limit = query.limit ?? 50;
   const rows = db
-    .select({ id: auditEvents.id, at: auditEvents.at, actorId: auditEvents.actorId, actorName: users.name, action: auditEvents.action, entityType: auditEvents.entityType, entityId: auditEvents.entityId, unitId: auditEvents.unitId, unitName: units.name, before: auditEvents.before, after: auditEvents.after })
+    .select({
+      id: auditEvents.id,
+      at: auditEvents.at,
+      actorId: auditEvents.actorId,
+      actorName: users.name,
+      action: auditEvents.action,
+      entityType: auditEvents.entityType,
+      entityId: auditEvents.entityId,
+      unitId: auditEvents.unitId,
+      unitName: units.name,
+      before: auditEvents.before,
+      after: auditEvents.after,
+    })
     .from(auditEvents)
     .leftJoin(users, eq(users.id, auditEvents.actorId))
     .leftJoin(units, eq(units.id, auditEvents.unitId))

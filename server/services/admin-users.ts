@@ -58,7 +58,10 @@ export function listUsers(ctx: AppContext, adminUnits: string[], search?: string
     .filter((r) => !needle || r.name.toLocaleLowerCase().includes(needle) || r.email.toLocaleLowerCase().includes(needle))
     .map((r) => toAdminUser(db, r, now, adminUnits))
     .filter((u) => u.unitIds.length === 0 || u.unitIds.some((id) => adminUnits.includes(id)));
-  const signIns = lastSignIns(ctx, listed.map((u) => u.id));
+  const signIns = lastSignIns(
+    ctx,
+    listed.map((u) => u.id),
+  );
   return listed.map((u) => ({ ...u, lastSignInAt: signIns.get(u.id) ?? null }));
 }
 
@@ -69,7 +72,14 @@ function assertUnits(adminUnits: string[], unitIds: string[]): void {
 
 function assertUnitsExist(db: Db, unitIds: string[]): void {
   if (unitIds.length === 0) return;
-  const known = new Set(db.select({ id: units.id }).from(units).where(inArray(units.id, unitIds)).all().map((u) => u.id));
+  const known = new Set(
+    db
+      .select({ id: units.id })
+      .from(units)
+      .where(inArray(units.id, unitIds))
+      .all()
+      .map((u) => u.id),
+  );
   for (const id of unitIds) {
     if (!known.has(id)) throw badRequest('Unknown unit.', { unitIds: `No unit ${id}.` });
   }
@@ -131,9 +141,19 @@ export function createUserRows(ctx: AppContext, input: CreateUserInput, actorId:
   const { db, sqlite } = ctx.database;
   const now = ctx.clock.now();
   const id = randomUUID();
-  db.insert(users).values({ id, email: input.email, name: input.name, role: input.role, passwordHash: null, active: true, sessionVersion: 1, createdAt: now, updatedAt: now }).run();
+  db.insert(users)
+    .values({ id, email: input.email, name: input.name, role: input.role, passwordHash: null, active: true, sessionVersion: 1, createdAt: now, updatedAt: now })
+    .run();
   for (const unitId of new Set(input.unitIds)) db.insert(userUnits).values({ userId: id, unitId }).run();
-  appendAudit(sqlite, { at: now, actorId, action: 'user-created', entityType: 'user', entityId: id, unitId: input.unitIds[0] ?? null, after: { email: input.email, name: input.name, role: input.role, unitIds: input.unitIds } });
+  appendAudit(sqlite, {
+    at: now,
+    actorId,
+    action: 'user-created',
+    entityType: 'user',
+    entityId: id,
+    unitId: input.unitIds[0] ?? null,
+    after: { email: input.email, name: input.name, role: input.role, unitIds: input.unitIds },
+  });
   const link = issueLink(ctx, id, 'invite', actorId);
   return { user: { id, name: input.name, email: input.email, role: input.role, active: true, passwordHash: null }, link };
 }
@@ -144,7 +164,8 @@ export function createUser(ctx: AppContext, input: CreateUserInput, admin: { use
   assertUnitsExist(db, input.unitIds);
   return db.transaction(
     (tx) => {
-      if (tx.select({ id: users.id }).from(users).where(eq(users.email, input.email)).get()) throw conflict('Someone already has that e-mail.', { email: 'An account with this e-mail exists.' });
+      if (tx.select({ id: users.id }).from(users).where(eq(users.email, input.email)).get())
+        throw conflict('Someone already has that e-mail.', { email: 'An account with this e-mail exists.' });
       const { user, link } = createUserRows(ctx, input, admin.userId);
       return { user: toAdminUser(db, user, ctx.clock.now(), admin.unitIds), link };
     },
@@ -180,7 +201,12 @@ export function updateUser(ctx: AppContext, userId: string, input: UpdateUserInp
         revokeAllSessions(ctx, userId);
       }
       appendAudit(sqlite, {
-        at: now, actorId: admin.userId, action: 'user-updated', entityType: 'user', entityId: userId, unitId: null,
+        at: now,
+        actorId: admin.userId,
+        action: 'user-updated',
+        entityType: 'user',
+        entityId: userId,
+        unitId: null,
         before: { name: before.name, role: before.role, unitIds: beforeUnits },
         after: { name: input.name ?? before.name, role: input.role ?? before.role, unitIds: unitsOf(tx, userId) },
       });
@@ -200,8 +226,21 @@ export function setUserActive(ctx: AppContext, userId: string, active: boolean, 
     (tx) => {
       tx.update(users).set({ active, sessionVersion: nextSessionVersion, updatedAt: now }).where(eq(users.id, userId)).run();
       revokeAllSessions(ctx, userId);
-      if (!active) tx.update(emailTokens).set({ usedAt: now }).where(and(eq(emailTokens.userId, userId), isNull(emailTokens.usedAt))).run();
-      appendAudit(sqlite, { at: now, actorId: admin.userId, action: active ? 'user-reactivated' : 'user-deactivated', entityType: 'user', entityId: userId, unitId: null, before: { active: before.active }, after: { active } });
+      if (!active)
+        tx.update(emailTokens)
+          .set({ usedAt: now })
+          .where(and(eq(emailTokens.userId, userId), isNull(emailTokens.usedAt)))
+          .run();
+      appendAudit(sqlite, {
+        at: now,
+        actorId: admin.userId,
+        action: active ? 'user-reactivated' : 'user-deactivated',
+        entityType: 'user',
+        entityId: userId,
+        unitId: null,
+        before: { active: before.active },
+        after: { active },
+      });
     },
     { behavior: 'immediate' },
   );
@@ -222,9 +261,16 @@ export function listUnits(ctx: AppContext, unitIds: string[]): AdminUnit[] {
   if (unitIds.length === 0) return [];
   const rows = db
     .select({
-      id: units.id, name: units.name, hospitalName: units.hospitalName, timeZone: units.timeZone, checkIntervalMinutes: units.checkIntervalMinutes,
-      dueSoonMinutes: units.dueSoonMinutes, gapLimitCenti: units.gapLimitCenti, escalationDelayMinutes: units.escalationDelayMinutes,
-      dayShiftStart: units.dayShiftStart, nightShiftStart: units.nightShiftStart,
+      id: units.id,
+      name: units.name,
+      hospitalName: units.hospitalName,
+      timeZone: units.timeZone,
+      checkIntervalMinutes: units.checkIntervalMinutes,
+      dueSoonMinutes: units.dueSoonMinutes,
+      gapLimitCenti: units.gapLimitCenti,
+      escalationDelayMinutes: units.escalationDelayMinutes,
+      dayShiftStart: units.dayShiftStart,
+      nightShiftStart: units.nightShiftStart,
     })
     .from(units)
     .where(inArray(units.id, unitIds))

@@ -79,7 +79,14 @@ export function admissionMeasure(ctx: AppContext, query: UnitRangeQuery, actorId
   const eligible = db
     .select()
     .from(infants)
-    .where(and(eq(infants.unitId, w.unit.id), gte(infants.admittedAt, new Date(w.fromMs)), lt(infants.admittedAt, new Date(w.toMs)), lt(infants.gestationWeeks, MEASURE_GESTATION_BELOW_WEEKS)))
+    .where(
+      and(
+        eq(infants.unitId, w.unit.id),
+        gte(infants.admittedAt, new Date(w.fromMs)),
+        lt(infants.admittedAt, new Date(w.toMs)),
+        lt(infants.gestationWeeks, MEASURE_GESTATION_BELOW_WEEKS),
+      ),
+    )
     .orderBy(asc(infants.admittedAt), asc(infants.id))
     .all();
   const replacement = alias(readings, 'replacement');
@@ -131,7 +138,12 @@ export function admissionMeasure(ctx: AppContext, query: UnitRangeQuery, actorId
         gestationDays: i.gestationDays,
         first:
           r && first
-            ? { takenAt: first.takenAt.toISOString(), centi: first.centi, site: r.site === 'rectal' ? 'rectal' : 'axilla', minutesAfterBirth: Math.round((first.takenAt.getTime() - i.birthAt.getTime()) / 60_000) }
+            ? {
+                takenAt: first.takenAt.toISOString(),
+                centi: first.centi,
+                site: r.site === 'rectal' ? 'rectal' : 'axilla',
+                minutesAfterBirth: Math.round((first.takenAt.getTime() - i.birthAt.getTime()) / 60_000),
+              }
             : null,
         met: false,
         reasons: verdict.reasons,
@@ -141,7 +153,15 @@ export function admissionMeasure(ctx: AppContext, query: UnitRangeQuery, actorId
   // The list names infants: the read is audited with them, as other list reads are.
   sqlite
     .transaction(() =>
-      appendAudit(sqlite, { at: ctx.clock.now(), actorId, action: 'report-read', entityType: 'unit', entityId: w.unit.id, unitId: w.unit.id, after: { ...query, view: 'admission-measure', infantIds: missed.map((m) => m.infantId) } }),
+      appendAudit(sqlite, {
+        at: ctx.clock.now(),
+        actorId,
+        action: 'report-read',
+        entityType: 'unit',
+        entityId: w.unit.id,
+        unitId: w.unit.id,
+        after: { ...query, view: 'admission-measure', infantIds: missed.map((m) => m.infantId) },
+      }),
     )
     .immediate();
   return {

@@ -37,15 +37,27 @@ export function currentWarming(db: Db, bedId: string): BedWarming | null {
 /** Every bed of the unit being warmed now, by bed. */
 export function unitWarmings(ctx: AppContext, unitId: string): BedWarming[] {
   const { db } = ctx.database;
-  const unitBeds = db.select({ id: beds.id }).from(beds).where(and(eq(beds.unitId, unitId), eq(beds.active, true))).all();
+  const unitBeds = db
+    .select({ id: beds.id })
+    .from(beds)
+    .where(and(eq(beds.unitId, unitId), eq(beds.active, true)))
+    .all();
   return unitBeds.map((b) => currentWarming(db, b.id)).filter((w): w is BedWarming => w !== null);
 }
 
 function requireEmptyBed(ctx: AppContext, unitId: string, bedId: string): { id: string; label: string } {
   const { db } = ctx.database;
-  const bed = db.select({ id: beds.id, label: beds.label, active: beds.active }).from(beds).where(and(eq(beds.id, bedId), eq(beds.unitId, unitId))).get();
+  const bed = db
+    .select({ id: beds.id, label: beds.label, active: beds.active })
+    .from(beds)
+    .where(and(eq(beds.id, bedId), eq(beds.unitId, unitId)))
+    .get();
   if (!bed || !bed.active) throw notFound('That bed');
-  const occupant = db.select({ name: infants.displayName }).from(infants).where(and(eq(infants.bedId, bedId), eq(infants.status, 'admitted'))).get();
+  const occupant = db
+    .select({ name: infants.displayName })
+    .from(infants)
+    .where(and(eq(infants.bedId, bedId), eq(infants.status, 'admitted')))
+    .get();
   if (occupant) throw conflict(`Bed ${bed.label} has ${occupant.name}: only an empty bed is warmed for an admission.`, { bedId: `Bed ${bed.label} is not empty.` });
   return bed;
 }
@@ -63,11 +75,29 @@ export function startWarming(ctx: AppContext, unitId: string, bedId: string, inp
     ctx.database.db
       .insert(bedWarmings)
       .values({
-        id, unitId, bedId: bed.id, event: 'started', heatSource: input.heatSource, controlMode: input.controlMode, setCenti, since,
-        expectedInfant: input.expectedInfant || null, enteredUnit: input.tempUnit, recordedBy: actorId, createdAt: now,
+        id,
+        unitId,
+        bedId: bed.id,
+        event: 'started',
+        heatSource: input.heatSource,
+        controlMode: input.controlMode,
+        setCenti,
+        since,
+        expectedInfant: input.expectedInfant || null,
+        enteredUnit: input.tempUnit,
+        recordedBy: actorId,
+        createdAt: now,
       })
       .run();
-    appendAudit(ctx.database.sqlite, { at: now, actorId, action: 'bed-warming-started', entityType: 'bed', entityId: bed.id, unitId, after: { warmingId: id, bedLabel: bed.label, ...input, setCenti } });
+    appendAudit(ctx.database.sqlite, {
+      at: now,
+      actorId,
+      action: 'bed-warming-started',
+      entityType: 'bed',
+      entityId: bed.id,
+      unitId,
+      after: { warmingId: id, bedLabel: bed.label, ...input, setCenti },
+    });
     return currentWarming(ctx.database.db, bed.id)!;
   });
 }
@@ -76,7 +106,11 @@ export function startWarming(ctx: AppContext, unitId: string, bedId: string, inp
 export function stopWarming(ctx: AppContext, unitId: string, bedId: string, actorId: string): void {
   const now = ctx.clock.now();
   writeTx(ctx.database.sqlite, () => {
-    const bed = ctx.database.db.select({ id: beds.id, label: beds.label }).from(beds).where(and(eq(beds.id, bedId), eq(beds.unitId, unitId))).get();
+    const bed = ctx.database.db
+      .select({ id: beds.id, label: beds.label })
+      .from(beds)
+      .where(and(eq(beds.id, bedId), eq(beds.unitId, unitId)))
+      .get();
     if (!bed) throw notFound('That bed');
     const warming = currentWarming(ctx.database.db, bed.id);
     if (!warming) throw conflict(`Bed ${bed.label} is not being warmed.`);

@@ -15,11 +15,25 @@ const boardGeneration = sqliteTable('board_generation', { n: integer('n').notNul
 
 /** Every table the board reads. A write to any of them makes every cached board stale. */
 const BOARD_TABLES = [
-  'units', 'beds', 'users', 'user_units', 'infants', 'assignments', 'readings', 'flags', 'flag_resolutions', 'actions', 'escalations', 'skin_to_skin_sessions',
+  'units',
+  'beds',
+  'users',
+  'user_units',
+  'infants',
+  'assignments',
+  'readings',
+  'flags',
+  'flag_resolutions',
+  'actions',
+  'escalations',
+  'skin_to_skin_sessions',
   // What the views read of the stored flag truth: the lifecycle, the check clocks, the settings versions.
-  'flag_events', 'infant_clocks', 'unit_policy_versions',
+  'flag_events',
+  'infant_clocks',
+  'unit_policy_versions',
   // The stored current placement (and the changes charted on their own).
-  'infant_placements', 'placement_changes',
+  'infant_placements',
+  'placement_changes',
 ];
 
 /**
@@ -108,7 +122,10 @@ function boardBody(sqlite: Database.Database, unitId: string, now: Date): Compre
     return null;
   }
   const body = new CompressedJson(JSON.stringify(board satisfies BoardResponse));
-  boardInfants.set(body, board.beds.flatMap((b) => (b.infant ? [b.infant.id] : [])));
+  boardInfants.set(
+    body,
+    board.beds.flatMap((b) => (b.infant ? [b.infant.id] : [])),
+  );
   boards.set(unitId, { version, builtAt: now.getTime(), body });
   return body;
 }

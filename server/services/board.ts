@@ -103,7 +103,13 @@ export function buildBoard(sqlite: Database.Database, unitId: string, now: Date)
   if (!unit) return null;
   const bedRows = q.beds.all({ unitId });
   const admitted = q.admitted.all({ unitId });
-  const summaries = new Map(summarizeInfants(sqlite, admitted.map((i) => i.id), now).map((s) => [s.id, s]));
+  const summaries = new Map(
+    summarizeInfants(
+      sqlite,
+      admitted.map((i) => i.id),
+      now,
+    ).map((s) => [s.id, s]),
+  );
   const open = q.escalations.all({ unitId });
   const nurses = q.nurses.all({ unitId }).map((n) => ({ id: n.id, name: n.name, role: n.role === 'charge' ? ('charge' as const) : ('nurse' as const) }));
 

@@ -11,7 +11,14 @@ import { localDateOf, reviewQueue } from './review';
 
 /** "16 Nov, 08:40" (or "16 Nov, 8:40 am") in the unit's zone, on the reader's clock: never UTC. */
 export function digestTime(iso: string, timeZone: string, clock: '12h' | '24h'): string {
-  return new Intl.DateTimeFormat('en-GB', { timeZone, day: 'numeric', month: 'short', hour: clock === '12h' ? 'numeric' : '2-digit', minute: '2-digit', hour12: clock === '12h' }).format(new Date(iso));
+  return new Intl.DateTimeFormat('en-GB', {
+    timeZone,
+    day: 'numeric',
+    month: 'short',
+    hour: clock === '12h' ? 'numeric' : '2-digit',
+    minute: '2-digit',
+    hour12: clock === '12h',
+  }).format(new Date(iso));
 }
 
 /** Monday 07:00 in each unit's own time zone. */
@@ -65,27 +72,35 @@ export async function sendWeeklyDigests(ctx: AppContext, now: Date, options: { u
     const itemLines = (tempUnit: 'C' | 'F', clock: '12h' | '24h') =>
       openIn(tempUnit)
         .slice(0, 20)
-        .map((i) => `  ${digestTime(i.raisedAt, unit.timeZone, clock)} · ${REVIEW_KIND_LABELS[i.kind]} · ${i.infantName} · ${i.shift} shift · ${i.nurse?.name ?? 'nurse unknown'} · ${i.summary}`);
-    const lines = (tempUnit: 'C' | 'F', clock: '12h' | '24h') => [
-      `Weekly digest for ${unit.name}, ${from} to ${to}.`,
-      '',
-      `On-time remote-site checks: ${formatPercent(report.onTime.overall.rate)} (${report.onTime.overall.onTime} of ${report.onTime.overall.checks})`,
-      ...report.onTime.byShift.map((s) => `  ${s.shift} shifts: ${formatPercent(s.rate)} (${s.onTime} of ${s.checks})`),
-      `Gap flags per 100 remote-site checks: ${report.gapRate.per100 === null ? '—' : report.gapRate.per100.toFixed(1)} (${report.gapRate.gapFlags} gap flags)`,
-      `Flag to first action: median ${formatMinutes(all.toFirstAction.medianMinutes)}, 90th percentile ${formatMinutes(all.toFirstAction.p90Minutes)}`,
-      `Flag to resolution: median ${formatMinutes(all.toResolution.medianMinutes)}, 90th percentile ${formatMinutes(all.toResolution.p90Minutes)}`,
-      `Skin-to-skin time with a deviation: ${formatPercent(report.skinToSkin.share)}`,
-      '',
-      `Review items not yet reviewed: ${open.length} (times in the unit's time zone, ${unit.timeZone})`,
-      ...itemLines(tempUnit, clock),
-      open.length > 20 ? `  …and ${open.length - 20} more.` : '',
-      '',
-      `Open the review queue: ${ctx.config.publicUrl}/review`,
-      'Medians are the middle value (for an even count, the mean of the two middle values); 90th percentiles are by nearest rank.',
-    ].filter((l, i, a) => !(l === '' && a[i - 1] === ''));
+        .map(
+          (i) =>
+            `  ${digestTime(i.raisedAt, unit.timeZone, clock)} · ${REVIEW_KIND_LABELS[i.kind]} · ${i.infantName} · ${i.shift} shift · ${i.nurse?.name ?? 'nurse unknown'} · ${i.summary}`,
+        );
+    const lines = (tempUnit: 'C' | 'F', clock: '12h' | '24h') =>
+      [
+        `Weekly digest for ${unit.name}, ${from} to ${to}.`,
+        '',
+        `On-time remote-site checks: ${formatPercent(report.onTime.overall.rate)} (${report.onTime.overall.onTime} of ${report.onTime.overall.checks})`,
+        ...report.onTime.byShift.map((s) => `  ${s.shift} shifts: ${formatPercent(s.rate)} (${s.onTime} of ${s.checks})`),
+        `Gap flags per 100 remote-site checks: ${report.gapRate.per100 === null ? '—' : report.gapRate.per100.toFixed(1)} (${report.gapRate.gapFlags} gap flags)`,
+        `Flag to first action: median ${formatMinutes(all.toFirstAction.medianMinutes)}, 90th percentile ${formatMinutes(all.toFirstAction.p90Minutes)}`,
+        `Flag to resolution: median ${formatMinutes(all.toResolution.medianMinutes)}, 90th percentile ${formatMinutes(all.toResolution.p90Minutes)}`,
+        `Skin-to-skin time with a deviation: ${formatPercent(report.skinToSkin.share)}`,
+        '',
+        `Review items not yet reviewed: ${open.length} (times in the unit's time zone, ${unit.timeZone})`,
+        ...itemLines(tempUnit, clock),
+        open.length > 20 ? `  …and ${open.length - 20} more.` : '',
+        '',
+        `Open the review queue: ${ctx.config.publicUrl}/review`,
+        'Medians are the middle value (for an even count, the mean of the two middle values); 90th percentiles are by nearest rank.',
+      ].filter((l, i, a) => !(l === '' && a[i - 1] === ''));
     for (const educator of educators) {
       try {
-        await ctx.mailer.send({ to: [educator.email], subject: `Warmfold weekly digest: ${unit.name}, week to ${to}`, text: [`Hello ${educator.name},`, '', ...lines(educator.tempUnit === 'F' ? 'F' : 'C', educator.clock === '12h' ? '12h' : '24h')].join('\n') });
+        await ctx.mailer.send({
+          to: [educator.email],
+          subject: `Warmfold weekly digest: ${unit.name}, week to ${to}`,
+          text: [`Hello ${educator.name},`, '', ...lines(educator.tempUnit === 'F' ? 'F' : 'C', educator.clock === '12h' ? '12h' : '24h')].join('\n'),
+        });
         result.sent += 1;
       } catch (err) {
         ctx.log(`digest to ${educator.email} failed: ${String(err)}`);
@@ -99,7 +114,15 @@ export async function sendWeeklyDigests(ctx: AppContext, now: Date, options: { u
           .onConflictDoUpdate({ target: settings.key, set: { value: today, updatedAt: now } })
           .run();
       }
-      appendAudit(sqlite, { at: now, actorId: options.actorId ?? null, action: 'digest-sent', entityType: 'unit', entityId: unit.id, unitId: unit.id, after: { from, to, educators: educators.length, openItems: open.length } });
+      appendAudit(sqlite, {
+        at: now,
+        actorId: options.actorId ?? null,
+        action: 'digest-sent',
+        entityType: 'unit',
+        entityId: unit.id,
+        unitId: unit.id,
+        after: { from, to, educators: educators.length, openItems: open.length },
+      });
     });
     result.units.push(unit.id);
   }

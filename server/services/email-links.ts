@@ -44,8 +44,18 @@ export function issueLink(ctx: AppContext, userId: string, kind: LinkKind, actor
     .set({ usedAt: now })
     .where(and(eq(emailTokens.userId, userId), eq(emailTokens.kind, kind), isNull(emailTokens.usedAt)))
     .run();
-  db.insert(emailTokens).values({ id: randomUUID(), userId, kind, tokenHash: hashToken(token), createdAt: now, expiresAt, usedAt: null }).run();
-  appendAudit(sqlite, { at: now, actorId, action: kind === 'invite' ? 'invitation-sent' : 'password-reset-sent', entityType: 'user', entityId: userId, unitId: null, after: { expiresAt: expiresAt.toISOString() } });
+  db.insert(emailTokens)
+    .values({ id: randomUUID(), userId, kind, tokenHash: hashToken(token), createdAt: now, expiresAt, usedAt: null })
+    .run();
+  appendAudit(sqlite, {
+    at: now,
+    actorId,
+    action: kind === 'invite' ? 'invitation-sent' : 'password-reset-sent',
+    entityType: 'user',
+    entityId: userId,
+    unitId: null,
+    after: { expiresAt: expiresAt.toISOString() },
+  });
   return { url: `${ctx.config.publicUrl}${LINK_PATH[kind]}?token=${encodeURIComponent(token)}`, expiresAt, to: user.email, name: user.name, kind, sentBy: actorId };
 }
 
@@ -111,7 +121,16 @@ export async function sendResetLink(ctx: AppContext, email: string): Promise<voi
 export async function useLink(ctx: AppContext, kind: LinkKind, token: string, password: string): Promise<{ userId: string }> {
   const { db, sqlite } = ctx.database;
   const row = db
-    .select({ id: emailTokens.id, userId: emailTokens.userId, kind: emailTokens.kind, expiresAt: emailTokens.expiresAt, usedAt: emailTokens.usedAt, email: users.email, name: users.name, active: users.active })
+    .select({
+      id: emailTokens.id,
+      userId: emailTokens.userId,
+      kind: emailTokens.kind,
+      expiresAt: emailTokens.expiresAt,
+      usedAt: emailTokens.usedAt,
+      email: users.email,
+      name: users.name,
+      active: users.active,
+    })
     .from(emailTokens)
     .innerJoin(users, eq(users.id, emailTokens.userId))
     .where(eq(emailTokens.tokenHash, hashToken(token)))
@@ -125,11 +144,22 @@ export async function useLink(ctx: AppContext, kind: LinkKind, token: string, pa
   db.transaction(
     (tx) => {
       // Check again under the write lock: two tabs submitting the same link must not both win.
-      const used = tx.update(emailTokens).set({ usedAt: now }).where(and(eq(emailTokens.id, row.id), isNull(emailTokens.usedAt))).run();
+      const used = tx
+        .update(emailTokens)
+        .set({ usedAt: now })
+        .where(and(eq(emailTokens.id, row.id), isNull(emailTokens.usedAt)))
+        .run();
       if (used.changes !== 1) throw badRequest('This link was already used.', { token: 'This link was already used.' });
       tx.update(users).set({ passwordHash: hash, sessionVersion: nextSessionVersion, updatedAt: now }).where(eq(users.id, row.userId)).run();
       revokeAllSessions(ctx, row.userId);
-      appendAudit(sqlite, { at: now, actorId: row.userId, action: kind === 'invite' ? 'invitation-accepted' : 'password-reset', entityType: 'user', entityId: row.userId, unitId: null });
+      appendAudit(sqlite, {
+        at: now,
+        actorId: row.userId,
+        action: kind === 'invite' ? 'invitation-accepted' : 'password-reset',
+        entityType: 'user',
+        entityId: row.userId,
+        unitId: null,
+      });
     },
     { behavior: 'immediate' },
   );

@@ -48,12 +48,21 @@ const WHAT: Record<SeverityClass, { subject: string; line: string }> = {
   gap: { subject: 'probe and remote site still apart', line: 'a gap flag (probe and remote-site temperatures more than the unit limit apart) is still unresolved' },
   'overdue-check': { subject: 'remote-site check overdue', line: 'the remote-site temperature check is overdue and has not been recorded' },
   'severe-hypothermia': { subject: 'severe hypothermia', line: 'a remote-site temperature below 32.0 °C (severe hypothermia) was charted; tell the medical team per unit policy' },
-  'moderate-hypothermia': { subject: 'moderate hypothermia', line: 'a remote-site temperature of 32.0–35.9 °C (moderate hypothermia) is still unresolved; tell the medical team per unit policy' },
+  'moderate-hypothermia': {
+    subject: 'moderate hypothermia',
+    line: 'a remote-site temperature of 32.0–35.9 °C (moderate hypothermia) is still unresolved; tell the medical team per unit policy',
+  },
   'cold-stress': { subject: 'cold stress', line: 'a remote-site temperature of 36.0–36.4 °C (cold stress) is still unresolved' },
-  fever: { subject: 'fever', line: 'a remote-site temperature of 38.0 °C or over (fever) was charted; in a newborn this may mean infection: tell the medical team per unit policy' },
+  fever: {
+    subject: 'fever',
+    line: 'a remote-site temperature of 38.0 °C or over (fever) was charted; in a newborn this may mean infection: tell the medical team per unit policy',
+  },
   'heat-stress': { subject: 'heat stress', line: 'a heat-stress prompt (signs, a remote site above the normal band or a fast heart rate) is still unresolved' },
   'manual-mode': { subject: 'manual mode beyond its limit', line: 'the heater is in manual mode beyond its limit (high output too long, or no check within 15 minutes)' },
-  'skin-to-skin-deviation': { subject: 'skin-to-skin temperature outside the limit', line: 'a temperature during skin-to-skin care is outside the session limit and still unresolved' },
+  'skin-to-skin-deviation': {
+    subject: 'skin-to-skin temperature outside the limit',
+    line: 'a temperature during skin-to-skin care is outside the session limit and still unresolved',
+  },
 };
 
 /**
@@ -166,11 +175,7 @@ export async function runEscalations(ctx: AppContext, now: Date, opts: { syncFir
       // "More than" the delay; a delay of zero escalates at once.
       if (delay === 0 ? waited < 0 : waited <= delay * 60_000) continue;
       const id = randomUUID();
-      const inserted = db
-        .insert(escalations)
-        .values({ id, flagId: c.flagId, unitId: c.unitId, escalatedAt: now, severity })
-        .onConflictDoNothing()
-        .run();
+      const inserted = db.insert(escalations).values({ id, flagId: c.flagId, unitId: c.unitId, escalatedAt: now, severity }).onConflictDoNothing().run();
       if (inserted.changes !== 1) continue;
       appendAudit(sqlite, {
         at: now,
@@ -179,7 +184,14 @@ export async function runEscalations(ctx: AppContext, now: Date, opts: { syncFir
         entityType: 'escalation',
         entityId: id,
         unitId: c.unitId,
-        after: { flagId: c.flagId, kind: c.kind, severity, infantId: c.infantId, raisedAt: c.raisedAt.toISOString(), ...(before.length ? { worsenedFrom: before[before.length - 1] } : {}) },
+        after: {
+          flagId: c.flagId,
+          kind: c.kind,
+          severity,
+          infantId: c.infantId,
+          raisedAt: c.raisedAt.toISOString(),
+          ...(before.length ? { worsenedFrom: before[before.length - 1] } : {}),
+        },
       });
       ids.push(id);
     }
@@ -248,8 +260,25 @@ export async function runEscalations(ctx: AppContext, now: Date, opts: { syncFir
     try {
       await ctx.mailer.send({ to: to.map((r) => r.email), ...escalationMail(p, now, ctx.config.publicUrl) });
       writeTx(sqlite, () => {
-        appendAudit(sqlite, { at: now, actorId: null, action: 'escalation-mailed', entityType: 'escalation', entityId: p.id, unitId: p.unit_id, after: { to: to.map((r) => r.email) } });
-        appendFlagEvent(db, { flagId: p.flag_id, infantId: p.infant_id, unitId: p.unit_id, event: 'escalated', at: now, severity: p.severity, detail: { escalationId: p.id, to, how: 'email' }, now });
+        appendAudit(sqlite, {
+          at: now,
+          actorId: null,
+          action: 'escalation-mailed',
+          entityType: 'escalation',
+          entityId: p.id,
+          unitId: p.unit_id,
+          after: { to: to.map((r) => r.email) },
+        });
+        appendFlagEvent(db, {
+          flagId: p.flag_id,
+          infantId: p.infant_id,
+          unitId: p.unit_id,
+          event: 'escalated',
+          at: now,
+          severity: p.severity,
+          detail: { escalationId: p.id, to, how: 'email' },
+          now,
+        });
       });
       mailed.push(p.id);
     } catch (err) {
@@ -279,15 +308,7 @@ export function escalationRecipients(ctx: AppContext, unitId: string, now: Date)
     .selectDistinct({ userId: users.id, name: users.name, email: users.email })
     .from(assignments)
     .innerJoin(users, eq(users.id, assignments.nurseId))
-    .where(
-      and(
-        eq(assignments.unitId, unitId),
-        eq(assignments.shiftDate, slot.shiftDate),
-        eq(assignments.shift, slot.shift),
-        eq(users.role, 'charge'),
-        eq(users.active, true),
-      ),
-    )
+    .where(and(eq(assignments.unitId, unitId), eq(assignments.shiftDate, slot.shiftDate), eq(assignments.shift, slot.shift), eq(users.role, 'charge'), eq(users.active, true)))
     .orderBy(asc(users.email))
     .all();
   if (onShift.length > 0) return onShift;
@@ -314,9 +335,7 @@ export function escalationMail(p: Pending, now: Date, publicUrl: string): { subj
     subject: `Warmfold escalation: bed ${bed}, ${what.subject}${p.previous ? ', worse' : ''}`,
     text: [
       `Bed ${bed}, ${p.display_name}: ${what.line}.`,
-      ...(p.previous
-        ? [`It has worsened since the escalation at ${localTime(p.previous.escalated_at, p.time_zone)} (then: ${SEVERITY_WORDS[p.previous.severity]}).`]
-        : []),
+      ...(p.previous ? [`It has worsened since the escalation at ${localTime(p.previous.escalated_at, p.time_zone)} (then: ${SEVERITY_WORDS[p.previous.severity]}).`] : []),
       `Severity: ${SEVERITY_WORDS[p.severity]}. Open since ${localTime(p.raised_at, p.time_zone)} (${p.time_zone}), ${minutes} minutes ago.`,
       '',
       `Please look at the board and acknowledge the escalation there: ${publicUrl}/board`,
@@ -346,7 +365,14 @@ export function acknowledgeEscalation(
   const db = dbOf(sqlite);
   return writeTx(sqlite, () => {
     const row = db
-      .select({ id: escalations.id, unitId: escalations.unitId, acknowledgedAt: escalations.acknowledgedAt, flagId: escalations.flagId, infantId: flags.infantId, severity: escalations.severity })
+      .select({
+        id: escalations.id,
+        unitId: escalations.unitId,
+        acknowledgedAt: escalations.acknowledgedAt,
+        flagId: escalations.flagId,
+        infantId: flags.infantId,
+        severity: escalations.severity,
+      })
       .from(escalations)
       .innerJoin(flags, eq(flags.id, escalations.flagId))
       .where(eq(escalations.id, escalationId))
@@ -366,7 +392,17 @@ export function acknowledgeEscalation(
       before: { acknowledgedAt: null },
       after: { acknowledgedAt: now.toISOString(), note },
     });
-    appendFlagEvent(db, { flagId: row.flagId, infantId: row.infantId, unitId: row.unitId, event: 'acknowledged', at: now, actorId: actor.userId, severity: row.severity, detail: { escalationId: row.id, note }, now });
+    appendFlagEvent(db, {
+      flagId: row.flagId,
+      infantId: row.infantId,
+      unitId: row.unitId,
+      event: 'acknowledged',
+      at: now,
+      actorId: actor.userId,
+      severity: row.severity,
+      detail: { escalationId: row.id, note },
+      now,
+    });
     return { id: row.id, acknowledgedAt: now.toISOString(), acknowledgedBy: actor.userId, note };
   });
 }

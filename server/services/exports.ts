@@ -56,16 +56,65 @@ export function readingsCsv(ctx: AppContext, query: UnitRangeQuery & { infantId?
     )
     .orderBy(asc(readings.takenAt), asc(readings.recordedAt), asc(readings.id))
     .all();
-  const bedAt = bedAtLookup(db, rows.map((x) => x.r.infantId));
-  audit(ctx, { actorId, action: 'export-readings-csv', entityType: query.infantId ? 'infant' : 'unit', entityId: query.infantId ?? w.unit.id, unitId: w.unit.id, after: { ...query, rows: rows.length, infantIds: [...new Set(rows.map((x) => x.r.infantId))] } });
+  const bedAt = bedAtLookup(
+    db,
+    rows.map((x) => x.r.infantId),
+  );
+  audit(ctx, {
+    actorId,
+    action: 'export-readings-csv',
+    entityType: query.infantId ? 'infant' : 'unit',
+    entityId: query.infantId ?? w.unit.id,
+    unitId: w.unit.id,
+    after: { ...query, rows: rows.length, infantIds: [...new Set(rows.map((x) => x.r.infantId))] },
+  });
   return toCsv(
-    ['reading_id', 'infant_id', 'infant', 'bed', 'taken_at', 'recorded_at', 'recorded_by', 'taken_by', 'source', 'probe_c', 'remote_c', 'remote_site', 'air_c', 'set_c', 'control_mode', 'heater_output_pct', 'heart_rate', 'note', 'replaces_id', 'correction_reason', 'entered_in_error'],
+    [
+      'reading_id',
+      'infant_id',
+      'infant',
+      'bed',
+      'taken_at',
+      'recorded_at',
+      'recorded_by',
+      'taken_by',
+      'source',
+      'probe_c',
+      'remote_c',
+      'remote_site',
+      'air_c',
+      'set_c',
+      'control_mode',
+      'heater_output_pct',
+      'heart_rate',
+      'note',
+      'replaces_id',
+      'correction_reason',
+      'entered_in_error',
+    ],
     rows.map(({ r, infant, recorder: by, taker: takenBy }) => [
-      r.id, r.infantId, infant, bedAt(r.infantId, r.takenAt), r.takenAt.toISOString(), r.recordedAt.toISOString(), by,
+      r.id,
+      r.infantId,
+      infant,
+      bedAt(r.infantId, r.takenAt),
+      r.takenAt.toISOString(),
+      r.recordedAt.toISOString(),
+      by,
       // A bedside row was taken by whoever charted it; an imported row only by the nurse the file named.
-      r.uploadId === null ? by : takenBy, r.uploadId === null ? 'bedside' : 'import',
-      c(r.probeCenti), c(r.remoteCenti), r.remoteSite, c(r.airCenti), c(r.setCenti),
-      r.controlMode, r.heaterOutputPct, r.heartRate, r.note, r.replacesId, r.correctionReason, r.enteredInError,
+      r.uploadId === null ? by : takenBy,
+      r.uploadId === null ? 'bedside' : 'import',
+      c(r.probeCenti),
+      c(r.remoteCenti),
+      r.remoteSite,
+      c(r.airCenti),
+      c(r.setCenti),
+      r.controlMode,
+      r.heaterOutputPct,
+      r.heartRate,
+      r.note,
+      r.replacesId,
+      r.correctionReason,
+      r.enteredInError,
     ]),
   );
 }
@@ -75,11 +124,45 @@ export function flagsCsv(items: ReviewQueueItem[], notes: ReviewNote[]): string 
   const byFlag = new Map<string, ReviewNote[]>();
   for (const n of notes) byFlag.set(n.flagId, [...(byFlag.get(n.flagId) ?? []), n]);
   return toCsv(
-    ['flag_id', 'kind', 'unit', 'infant', 'bed', 'raised_at', 'shift', 'shift_date', 'nurse', 'imported_by', 'summary', 'first_action_at', 'closed_at', 'minutes_to_first_action', 'minutes_to_resolution', 'teaching_note_count', 'teaching_notes'],
+    [
+      'flag_id',
+      'kind',
+      'unit',
+      'infant',
+      'bed',
+      'raised_at',
+      'shift',
+      'shift_date',
+      'nurse',
+      'imported_by',
+      'summary',
+      'first_action_at',
+      'closed_at',
+      'minutes_to_first_action',
+      'minutes_to_resolution',
+      'teaching_note_count',
+      'teaching_notes',
+    ],
     items.map((i) => [
-      i.flagId, i.kind, i.unitName, i.infantName, i.bedLabel, i.raisedAt, i.shift, i.shiftDate, i.nurse?.name ?? null, i.importedBy?.name ?? null, i.summary,
-      i.firstActionAt, i.closedAt, i.minutesToFirstAction, i.minutesToResolution, i.reviewCount,
-      (byFlag.get(i.flagId) ?? []).map((n) => `${n.createdAt.slice(0, 10)} ${n.reviewer.name}: ${n.note}${n.version > 1 ? ` (amended, version ${n.version})` : ''}${n.withdrawn ? ' (withdrawn)' : ''}`).join('\n') || null,
+      i.flagId,
+      i.kind,
+      i.unitName,
+      i.infantName,
+      i.bedLabel,
+      i.raisedAt,
+      i.shift,
+      i.shiftDate,
+      i.nurse?.name ?? null,
+      i.importedBy?.name ?? null,
+      i.summary,
+      i.firstActionAt,
+      i.closedAt,
+      i.minutesToFirstAction,
+      i.minutesToResolution,
+      i.reviewCount,
+      (byFlag.get(i.flagId) ?? [])
+        .map((n) => `${n.createdAt.slice(0, 10)} ${n.reviewer.name}: ${n.note}${n.version > 1 ? ` (amended, version ${n.version})` : ''}${n.withdrawn ? ' (withdrawn)' : ''}`)
+        .join('\n') || null,
     ]),
   );
 }
@@ -89,7 +172,13 @@ export function flagsCsvExport(ctx: AppContext, unitIds: string[], query: Review
   const { items } = reviewQueue(ctx, unitIds, { ...query, cursor: undefined, limit: 'all' });
   const after = { ...query, rows: items.length, infantIds: [...new Set(items.map((i) => i.infantId))] };
   audit(ctx, { actorId, action: 'export-flags-csv', entityType: 'flag', entityId: null, unitId: query.unitId ?? null, after });
-  return flagsCsv(items, loadReviews(ctx.database.sqlite, items.map((i) => i.flagId)));
+  return flagsCsv(
+    items,
+    loadReviews(
+      ctx.database.sqlite,
+      items.map((i) => i.flagId),
+    ),
+  );
 }
 
 /** One infant's whole record as a FHIR R4 collection Bundle; an audited export. */
@@ -109,6 +198,13 @@ export function unitFhirBundle(ctx: AppContext, query: UnitRangeQuery & { infant
   if (query.infantId) infantOfUnit(ctx, w.unit.id, query.infantId);
   const ids = query.infantId ? [query.infantId] : infantsWithReadings(db, w.unit.id, w);
   const { bundle, observations } = fhirBundle(db, ids, ctx.clock.now(), w);
-  audit(ctx, { actorId, action: 'export-fhir', entityType: query.infantId ? 'infant' : 'unit', entityId: query.infantId ?? w.unit.id, unitId: w.unit.id, after: { ...query, patients: ids.length, infantIds: ids, observations } });
+  audit(ctx, {
+    actorId,
+    action: 'export-fhir',
+    entityType: query.infantId ? 'infant' : 'unit',
+    entityId: query.infantId ?? w.unit.id,
+    unitId: w.unit.id,
+    after: { ...query, patients: ids.length, infantIds: ids, observations },
+  });
   return bundle;
 }

@@ -122,7 +122,11 @@ function encounterFor(db: Db, infant: typeof infants.$inferSelect, unitName: str
   stays.forEach((stay, i) => {
     if (!stay.label) return;
     const end = stays[i + 1]?.at;
-    locations.push({ location: { display: `${unitName}, bed ${stay.label}` }, status: end ? 'completed' : 'active', period: { start: stay.at.toISOString(), ...(end ? { end: end.toISOString() } : {}) } });
+    locations.push({
+      location: { display: `${unitName}, bed ${stay.label}` },
+      status: end ? 'completed' : 'active',
+      period: { start: stay.at.toISOString(), ...(end ? { end: end.toISOString() } : {}) },
+    });
   });
   return {
     resourceType: 'Encounter',

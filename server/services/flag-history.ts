@@ -50,7 +50,12 @@ function words(event: string, severity: Severity | null, d: Record<string, unkno
     case 'recheck':
       return 'Rechecked';
     case 'escalated': {
-      const to = Array.isArray(d.to) ? (d.to as Array<{ name?: string | null; email?: string }>).map((r) => r.name ?? r.email ?? '').filter(Boolean).join(', ') : '';
+      const to = Array.isArray(d.to)
+        ? (d.to as { name?: string | null; email?: string }[])
+            .map((r) => r.name ?? r.email ?? '')
+            .filter(Boolean)
+            .join(', ')
+        : '';
       // Each escalation names its severity: a flag that worsens escalates again.
       return `Escalated${sev}: told ${to || 'the unit address'} by e-mail`;
     }
@@ -102,7 +107,16 @@ export function flagHistory(sqlite: Database.Database, flagId: string): FlagHist
   const ids = chainOf(sqlite, flagId);
   if (ids.length === 0) return [];
   const rows = dbOf(sqlite)
-    .select({ id: flagEvents.id, flagId: flagEvents.flagId, event: flagEvents.event, at: flagEvents.at, severity: flagEvents.severity, detail: flagEvents.detail, actorId: flagEvents.actorId, name: users.name })
+    .select({
+      id: flagEvents.id,
+      flagId: flagEvents.flagId,
+      event: flagEvents.event,
+      at: flagEvents.at,
+      severity: flagEvents.severity,
+      detail: flagEvents.detail,
+      actorId: flagEvents.actorId,
+      name: users.name,
+    })
     .from(flagEvents)
     .leftJoin(users, eq(users.id, flagEvents.actorId))
     .where(inArray(flagEvents.flagId, ids))

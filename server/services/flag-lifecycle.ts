@@ -62,14 +62,16 @@ export interface StoredPolicyVersion extends PolicyVersion {
 
 /** The unit's settings versions, oldest first. */
 export function loadPolicyVersions(db: Db, unitId: string): StoredPolicyVersion[] {
-  return db
-    .select({ id: unitPolicyVersions.id, effectiveFrom: unitPolicyVersions.effectiveFrom, settings: unitPolicyVersions.settings })
-    .from(unitPolicyVersions)
-    .where(eq(unitPolicyVersions.unitId, unitId))
-    // Versions made at the same instant keep the order they were made in (the last one wins).
-    .orderBy(asc(unitPolicyVersions.effectiveFrom), asc(unitPolicyVersions.createdAt), asc(versionOrder))
-    .all()
-    .map((v) => ({ id: v.id, effectiveFrom: v.effectiveFrom, policy: JSON.parse(v.settings) as Partial<UnitPolicy> }));
+  return (
+    db
+      .select({ id: unitPolicyVersions.id, effectiveFrom: unitPolicyVersions.effectiveFrom, settings: unitPolicyVersions.settings })
+      .from(unitPolicyVersions)
+      .where(eq(unitPolicyVersions.unitId, unitId))
+      // Versions made at the same instant keep the order they were made in (the last one wins).
+      .orderBy(asc(unitPolicyVersions.effectiveFrom), asc(unitPolicyVersions.createdAt), asc(versionOrder))
+      .all()
+      .map((v) => ({ id: v.id, effectiveFrom: v.effectiveFrom, policy: JSON.parse(v.settings) as Partial<UnitPolicy> }))
+  );
 }
 
 /** The version in force at `ms`: the latest effective at or before it; null before the first. */
@@ -88,14 +90,7 @@ export function versionAt<V extends { effectiveFrom: Date }>(versions: readonly 
  * readings from before the unit's row was made, as an import does), so every earlier judgement
  * keeps the settings it was made under.
  */
-export function recordPolicyVersion(
-  db: Db,
-  unitId: string,
-  before: UnitPolicy,
-  after: UnitPolicy,
-  actorId: string | null,
-  effectiveFrom: Date,
-): string {
+export function recordPolicyVersion(db: Db, unitId: string, before: UnitPolicy, after: UnitPolicy, actorId: string | null, effectiveFrom: Date): string {
   const existing = db.select({ id: unitPolicyVersions.id }).from(unitPolicyVersions).where(eq(unitPolicyVersions.unitId, unitId)).limit(1).get();
   if (!existing) {
     db.insert(unitPolicyVersions)
@@ -111,15 +106,17 @@ export function recordPolicyVersion(
 
 /** Settings changes of a unit inside [from, to): for reports to mark. */
 export function policyChangesBetween(db: Db, unitId: string, from: Date, to: Date) {
-  return db
-    .select({ id: unitPolicyVersions.id, effectiveFrom: unitPolicyVersions.effectiveFrom, settings: unitPolicyVersions.settings, createdBy: unitPolicyVersions.createdBy })
-    .from(unitPolicyVersions)
-    .where(and(eq(unitPolicyVersions.unitId, unitId), gt(unitPolicyVersions.effectiveFrom, from), lte(unitPolicyVersions.effectiveFrom, to)))
-    .orderBy(asc(unitPolicyVersions.effectiveFrom))
-    .all()
-    // The first version only records the settings in force before the first change.
-    .filter((v) => v.createdBy !== null)
-    .map((v) => ({ id: v.id, effectiveFrom: v.effectiveFrom.toISOString(), settings: JSON.parse(v.settings) as UnitPolicy }));
+  return (
+    db
+      .select({ id: unitPolicyVersions.id, effectiveFrom: unitPolicyVersions.effectiveFrom, settings: unitPolicyVersions.settings, createdBy: unitPolicyVersions.createdBy })
+      .from(unitPolicyVersions)
+      .where(and(eq(unitPolicyVersions.unitId, unitId), gt(unitPolicyVersions.effectiveFrom, from), lte(unitPolicyVersions.effectiveFrom, to)))
+      .orderBy(asc(unitPolicyVersions.effectiveFrom))
+      .all()
+      // The first version only records the settings in force before the first change.
+      .filter((v) => v.createdBy !== null)
+      .map((v) => ({ id: v.id, effectiveFrom: v.effectiveFrom.toISOString(), settings: JSON.parse(v.settings) as UnitPolicy }))
+  );
 }
 
 /** An open flag as the last evaluation saw it (infant_clocks.open_flags). */
@@ -215,7 +212,7 @@ export function writeClocks(
     // Only a change is written: a write bumps the board's and flowsheet's caches.
     const { computedAt: _c, infantId: _i, ...old } = prev;
     const { computedAt: _n, ...fresh } = values;
-    const same = (Object.keys(fresh) as Array<keyof typeof fresh>).every((k) => {
+    const same = (Object.keys(fresh) as (keyof typeof fresh)[]).every((k) => {
       const x = fresh[k];
       const y = old[k];
       return x instanceof Date || y instanceof Date ? (x as Date | null)?.getTime() === (y as Date | null)?.getTime() : x === y;

@@ -5,17 +5,7 @@ import { alias } from 'drizzle-orm/sqlite-core';
 import { actions, actionUndos, flagEvents, flagResolutions, flags, infants, readings, skinToSkinSessions, units } from '../../db/schema';
 import { evaluateInfant, resolvePolicy, severityOf, SEVERITY_RANK, type EvaluatedFlag, type HeatStressSign, type Severity, type UnitPolicy } from '../../shared/thermal';
 import { appendAudit } from '../audit';
-import {
-  appendFlagEvent,
-  dbOf,
-  loadPolicyVersions,
-  onTimeCheckFor,
-  readClocks,
-  versionAt,
-  writeClocks,
-  type StoredOpenFlag,
-  type StoredPolicyVersion,
-} from './flag-lifecycle';
+import { appendFlagEvent, dbOf, loadPolicyVersions, onTimeCheckFor, readClocks, versionAt, writeClocks, type StoredOpenFlag, type StoredPolicyVersion } from './flag-lifecycle';
 import { perConnection } from './prepared-queries';
 
 /** A unit's row, as the schema types it. */
@@ -74,7 +64,20 @@ const ruleColumns = {
 
 type ReadingRow = Pick<
   typeof readings.$inferSelect,
-  'id' | 'takenAt' | 'recordedAt' | 'probeCenti' | 'remoteCenti' | 'remoteSite' | 'airCenti' | 'setCenti' | 'controlMode' | 'heaterOutputPct' | 'heartRate' | 'heatSigns' | 'replacesId' | 'enteredInError'
+  | 'id'
+  | 'takenAt'
+  | 'recordedAt'
+  | 'probeCenti'
+  | 'remoteCenti'
+  | 'remoteSite'
+  | 'airCenti'
+  | 'setCenti'
+  | 'controlMode'
+  | 'heaterOutputPct'
+  | 'heartRate'
+  | 'heatSigns'
+  | 'replacesId'
+  | 'enteredInError'
 > & { rowid: number };
 
 const y = alias(readings, 'y');
@@ -86,13 +89,21 @@ const x = alias(readings, 'x');
  * milliseconds (a placeholder skips the column's Date mapping).
  */
 const flagQueries = perConnection((db) => ({
-  unit: db.select().from(units).where(eq(units.id, sql.placeholder('id'))).prepare(),
+  unit: db
+    .select()
+    .from(units)
+    .where(eq(units.id, sql.placeholder('id')))
+    .prepare(),
   infant: db
     .select({ unitId: infants.unitId, status: infants.status, admittedAt: infants.admittedAt })
     .from(infants)
     .where(eq(infants.id, sql.placeholder('id')))
     .prepare(),
-  flagKeys: db.select({ id: flags.id, key: flags.key }).from(flags).where(eq(flags.infantId, sql.placeholder('infantId'))).prepare(),
+  flagKeys: db
+    .select({ id: flags.id, key: flags.key })
+    .from(flags)
+    .where(eq(flags.infantId, sql.placeholder('infantId')))
+    .prepare(),
   readings: db
     .select(ruleColumns)
     .from(readings)
@@ -174,10 +185,7 @@ const flagQueries = perConnection((db) => ({
         or(
           isNull(flagResolutions.flagId),
           gt(flagResolutions.closedAt, sql.placeholder('at')),
-          and(
-            eq(flagResolutions.closedAt, sql.placeholder('at')),
-            or(isNull(flagResolutions.closedByReadingId), ne(flagResolutions.closedByReadingId, sql.placeholder('id'))),
-          ),
+          and(eq(flagResolutions.closedAt, sql.placeholder('at')), or(isNull(flagResolutions.closedByReadingId), ne(flagResolutions.closedByReadingId, sql.placeholder('id')))),
         ),
       ),
     )
@@ -271,8 +279,8 @@ export function toRuleReading(r: Omit<ReadingRow, 'rowid'> & { rowid?: number })
 
 export interface InfantState {
   readings: ReturnType<typeof toRuleReading>[];
-  actions: Array<{ id: string; flagKey: string; kind: string; at: Date }>;
-  sessions: Array<{ id: string; startedAt: Date; endedAt: Date | null; referenceCenti: number; limitCenti: number }>;
+  actions: { id: string; flagKey: string; kind: string; at: Date }[];
+  sessions: { id: string; startedAt: Date; endedAt: Date | null; referenceCenti: number; limitCenti: number }[];
   admittedAt?: Date;
 }
 
@@ -494,7 +502,15 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
 
   const close = (flagId: string, at: Date, readingId: string | null, how: string, key: string, reason?: string) => {
     db.insert(flagResolutions).values({ flagId, closedAt: at, closedByReadingId: readingId, how, createdAt: now }).run();
-    appendAudit(sqlite, { at: now, actorId, action: 'flag-closed', entityType: 'flag', entityId: flagId, unitId: infant.unitId, after: { key, closedAt: at.toISOString(), closedByReadingId: readingId, how, reason } });
+    appendAudit(sqlite, {
+      at: now,
+      actorId,
+      action: 'flag-closed',
+      entityType: 'flag',
+      entityId: flagId,
+      unitId: infant.unitId,
+      after: { key, closedAt: at.toISOString(), closedByReadingId: readingId, how, reason },
+    });
     if (how === 'withdrawn') event(flagId, { event: 'withdrawn', at, readingId, detail: { reason, readingId } });
     else event(flagId, { event: 'closed', at, readingId, detail: { how } });
     closed.push(flagId);
@@ -507,12 +523,7 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
     // that closed it was corrected or entered in error): it is reopened as a new row continuing
     // the old one, with a `reopened` event naming it. A discharge is never undone here.
     let reopenedFrom: { id: string; key: string; how: string | null } | null = null;
-    if (
-      row?.resolved &&
-      infant.status !== 'discharged' &&
-      row.how !== 'discharged' &&
-      (row.how === 'withdrawn' || row.withdrawn || flag.status === 'open')
-    ) {
+    if (row?.resolved && infant.status !== 'discharged' && row.how !== 'discharged' && (row.how === 'withdrawn' || row.withdrawn || flag.status === 'open')) {
       reopenedFrom = { id: row.id, key: row.key, how: row.withdrawn ? 'withdrawn' : row.how };
       row = undefined;
     }
@@ -540,13 +551,39 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
         .run();
       appendAudit(sqlite, { at: now, actorId, action: 'flag-raised', entityType: 'flag', entityId: id, unitId: infant.unitId, after: serializeFlag(flag) });
       if (reopenedFrom) {
-        event(id, { event: 'reopened', at: now, readingId: flag.raisedByReadingId, severity, policyVersionId: raisedUnder, detail: { previousFlagId: reopenedFrom.id, was: reopenedFrom.how } });
-        appendAudit(sqlite, { at: now, actorId, action: 'flag-reopened', entityType: 'flag', entityId: id, unitId: infant.unitId, after: { key: storedKey, previousFlagId: reopenedFrom.id, was: reopenedFrom.how } });
+        event(id, {
+          event: 'reopened',
+          at: now,
+          readingId: flag.raisedByReadingId,
+          severity,
+          policyVersionId: raisedUnder,
+          detail: { previousFlagId: reopenedFrom.id, was: reopenedFrom.how },
+        });
+        appendAudit(sqlite, {
+          at: now,
+          actorId,
+          action: 'flag-reopened',
+          entityType: 'flag',
+          entityId: id,
+          unitId: infant.unitId,
+          after: { key: storedKey, previousFlagId: reopenedFrom.id, was: reopenedFrom.how },
+        });
       } else {
         event(id, { event: 'raised', at: flag.raisedAt, readingId: flag.raisedByReadingId, severity, policyVersionId: raisedUnder, detail: flag.detail });
       }
       raised.push(id);
-      row = { id, key: storedKey, kind: flag.kind, raisedAt: flag.raisedAt, raisedByReadingId: flag.raisedByReadingId, detail, severity, resolved: null, how: null, withdrawn: false };
+      row = {
+        id,
+        key: storedKey,
+        kind: flag.kind,
+        raisedAt: flag.raisedAt,
+        raisedByReadingId: flag.raisedByReadingId,
+        detail,
+        severity,
+        resolved: null,
+        how: null,
+        withdrawn: false,
+      };
       lastSeverity.set(id, severity);
     }
     if (flag.status === 'closed' && !row.resolved) {
@@ -583,7 +620,15 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
       if (row.how !== 'withdrawn' && row.how !== 'discharged' && !row.withdrawn && (windowFrom === null || row.raisedAt.getTime() >= windowFrom)) {
         const shownBy = row.raisedByReadingId ? latestVersionOf(sqlite, row.raisedByReadingId) : null;
         event(row.id, { event: 'withdrawn', at: now, readingId: shownBy, detail: { reason: 'reading-corrected', readingId: shownBy } });
-        appendAudit(sqlite, { at: now, actorId, action: 'flag-withdrawn', entityType: 'flag', entityId: row.id, unitId: infant.unitId, after: { key: row.key, reason: 'reading-corrected', readingId: shownBy } });
+        appendAudit(sqlite, {
+          at: now,
+          actorId,
+          action: 'flag-withdrawn',
+          entityType: 'flag',
+          entityId: row.id,
+          unitId: infant.unitId,
+          after: { key: row.key, reason: 'reading-corrected', readingId: shownBy },
+        });
       }
       continue;
     }
@@ -597,9 +642,7 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
     else if (row.kind === 'overdue-check') {
       // A check charted late whose taken time was on time: the flag should never have been raised.
       const due = row.raisedAt.getTime();
-      const ranFrom = row.raisedByReadingId
-        ? db.select({ takenAt: readings.takenAt }).from(readings).where(eq(readings.id, row.raisedByReadingId)).get()?.takenAt
-        : undefined;
+      const ranFrom = row.raisedByReadingId ? db.select({ takenAt: readings.takenAt }).from(readings).where(eq(readings.id, row.raisedByReadingId)).get()?.takenAt : undefined;
       const shownBy = onTimeCheckFor(db, infantId, (ranFrom ?? infant.admittedAt).getTime(), due);
       close(row.id, now, shownBy, 'withdrawn', row.key, shownBy ? 'late-entry-on-time' : 'reading-corrected');
     } else close(row.id, now, null, 'withdrawn', row.key, 'reading-corrected');

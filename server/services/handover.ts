@@ -279,8 +279,21 @@ export function handoverCsv(handover: HandoverInfant, unit: TempUnit, timeZone: 
     })),
     {
       columns: [
-        'taken_at_utc', 'taken_at_local', 'bed', 'infant', `probe_${unit}`, `remote_${unit}`, 'remote_site', `air_${unit}`, `set_${unit}`,
-        'control_mode', 'heater_output_pct', 'heart_rate', 'heat_signs', 'note', 'recorded_by',
+        'taken_at_utc',
+        'taken_at_local',
+        'bed',
+        'infant',
+        `probe_${unit}`,
+        `remote_${unit}`,
+        'remote_site',
+        `air_${unit}`,
+        `set_${unit}`,
+        'control_mode',
+        'heater_output_pct',
+        'heart_rate',
+        'heat_signs',
+        'note',
+        'recorded_by',
       ],
       // A cell that starts with = + - @ would run as a formula in a spreadsheet.
       escapeFormulae: true,

@@ -76,15 +76,7 @@ export function remoteChecks(sqlite: Database.Database, w: UnitWindow): RemoteCh
     .innerJoin(infants, eq(infants.id, readings.infantId))
     // Current versions only: a reading no later row corrects.
     .leftJoin(correction, eq(correction.replacesId, readings.id))
-    .where(
-      and(
-        eq(readings.unitId, w.unit.id),
-        isNotNull(readings.remoteCenti),
-        eq(readings.enteredInError, false),
-        lt(readings.takenAt, new Date(w.toMs)),
-        isNull(correction.id),
-      ),
-    )
+    .where(and(eq(readings.unitId, w.unit.id), isNotNull(readings.remoteCenti), eq(readings.enteredInError, false), lt(readings.takenAt, new Date(w.toMs)), isNull(correction.id)))
     .orderBy(asc(readings.infantId), asc(readings.takenAt))
     .all();
   // Each check is judged by the settings in force at the check before it (its due time) and
@@ -120,7 +112,11 @@ export function remoteChecks(sqlite: Database.Database, w: UnitWindow): RemoteCh
 
 export function flagTimes(sqlite: Database.Database, w: UnitWindow): FlagTimes[] {
   const db = drizzleOf(sqlite);
-  const firstActions = db.select({ flagId: actions.flagId, at: min(actions.at).as('first_action_at') }).from(actions).groupBy(actions.flagId).as('first_actions');
+  const firstActions = db
+    .select({ flagId: actions.flagId, at: min(actions.at).as('first_action_at') })
+    .from(actions)
+    .groupBy(actions.flagId)
+    .as('first_actions');
   const withdrawn = db
     .select({ id: flagEvents.id })
     .from(flagEvents)
@@ -156,11 +152,7 @@ function skinToSkinSessions(sqlite: Database.Database, w: UnitWindow): SkinToSki
     .select({ id: sessionsTable.id, start: sessionsTable.startedAt, end: sessionsTable.endedAt })
     .from(sessionsTable)
     .where(
-      and(
-        eq(sessionsTable.unitId, w.unit.id),
-        lt(sessionsTable.startedAt, new Date(w.toMs)),
-        or(isNull(sessionsTable.endedAt), gt(sessionsTable.endedAt, new Date(w.fromMs))),
-      ),
+      and(eq(sessionsTable.unitId, w.unit.id), lt(sessionsTable.startedAt, new Date(w.toMs)), or(isNull(sessionsTable.endedAt), gt(sessionsTable.endedAt, new Date(w.fromMs)))),
     )
     .all();
   const deviations = db

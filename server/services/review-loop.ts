@@ -139,8 +139,18 @@ function append(ctx: AppContext, actorId: string, values: Omit<typeof reviewEven
   const now = ctx.clock.now();
   sqlite
     .transaction(() => {
-      db.insert(reviewEvents).values({ ...values, id, actorId, createdAt: now }).run();
-      appendAudit(sqlite, { at: now, actorId, action, entityType: 'review', entityId: values.reviewId ?? id, unitId: values.unitId, after: { flagId: values.flagId, event: values.event, note: values.note ?? null, version: values.version ?? null } });
+      db.insert(reviewEvents)
+        .values({ ...values, id, actorId, createdAt: now })
+        .run();
+      appendAudit(sqlite, {
+        at: now,
+        actorId,
+        action,
+        entityType: 'review',
+        entityId: values.reviewId ?? id,
+        unitId: values.unitId,
+        after: { flagId: values.flagId, event: values.event, note: values.note ?? null, version: values.version ?? null },
+      });
     })
     .immediate();
 }

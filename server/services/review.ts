@@ -1,16 +1,15 @@
 import type Database from 'better-sqlite3';
 import { randomUUID } from 'node:crypto';
-import { REVIEW_KINDS, type ReviewKind, type ReviewQueueQuery } from '../../shared/schemas/review';
+import { REVIEW_KINDS, type ReviewKind, type ReviewQueueQuery, UnitRangeQuery } from '../../shared/schemas/review';
 import { shiftAt } from '../../shared/shifts';
 import { and, asc, between, desc, eq, inArray, min } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/sqlite-core';
 import type { Db } from '../../db/client';
 import { actions, assignments, beds, flagEvents, flagResolutions, flags as flagsTable, infants, readings, reviews, units, users } from '../../db/schema';
 import { median } from '../../shared/reports';
-import { FEVER_MIN_CENTI, NORMAL_MAX_CENTI } from '../../shared/thermal/bands';
+import { FEVER_MIN_CENTI, NORMAL_MAX_CENTI, BAND_LABELS } from '../../shared/thermal/bands';
 import { HEART_RATE_HIGH_ABOVE } from '../../shared/thermal/heat-stress';
 import { formatTemperature, HEAT_STRESS_SIGN_LABELS, type TempUnit } from '../../shared/thermal';
-import type { UnitRangeQuery } from '../../shared/schemas/review';
 import type { MyReviewNote, NurseSummaryResponse, NurseSummaryRow, PersonRef, ReviewItemDetail, ReviewNote, ReviewQueueItem, ReviewQueueResponse } from '../../shared/types/review';
 import { dbOf } from './flag-lifecycle';
 import { closeNoTeachingPoint, loadNotes, reviewStatuses, reviewStatusOf, UNREVIEWED, type ReviewStatusOf } from './review-loop';
@@ -18,7 +17,6 @@ import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { badRequest, forbidden, notFound } from '../errors';
 import { bedAtLookup } from './bed-stays';
-import { BAND_LABELS } from '../../shared/thermal/bands';
 
 const MINUTE = 60_000;
 
@@ -39,7 +37,11 @@ function loadFlagRows(db: Db, unitIds: string[], flagId?: string) {
   if (unitIds.length === 0) return [];
   const recorder = alias(users, 'recorder');
   const taker = alias(users, 'taker');
-  const firstActions = db.select({ flagId: actions.flagId, at: min(actions.at).as('first_action_at') }).from(actions).groupBy(actions.flagId).as('first_actions');
+  const firstActions = db
+    .select({ flagId: actions.flagId, at: min(actions.at).as('first_action_at') })
+    .from(actions)
+    .groupBy(actions.flagId)
+    .as('first_actions');
   const withdrawnLater = db.selectDistinct({ flagId: flagEvents.flagId }).from(flagEvents).where(eq(flagEvents.event, 'withdrawn')).as('withdrawn_later');
   const rows = db
     .select({
@@ -144,7 +146,7 @@ function summaryOf(kind: ReviewKind, detail: Record<string, unknown>, unit: Temp
     case 'manual-mode':
       return 'Manual mode at high heater output';
     case 'cold-stress':
-      return `${typeof detail.band === 'string' ? (BAND_LABELS as Record<string, string>)[detail.band] ?? 'Cold stress' : 'Cold stress'}: lowest remote site ${t(detail.lowestCenti)}`;
+      return `${typeof detail.band === 'string' ? ((BAND_LABELS as Record<string, string>)[detail.band] ?? 'Cold stress') : 'Cold stress'}: lowest remote site ${t(detail.lowestCenti)}`;
     case 'fever':
       return `Remote site ${t(detail.highestCenti)} (${t(FEVER_MIN_CENTI)} or over)`;
     case 'skin-to-skin-deviation':
@@ -223,7 +225,10 @@ export function reviewQueue(ctx: AppContext, unitIds: string[], query: Omit<Revi
   const unitList = unitIds.length ? db.select({ id: units.id, name: units.name }).from(units).where(inArray(units.id, unitIds)).orderBy(asc(units.name)).all() : [];
   const scope = query.unitId ? unitIds.filter((u) => u === query.unitId) : unitIds;
   const loaded = loadFlagRows(db, scope);
-  const bedAt = bedAtLookup(db, loaded.map((r) => r.infantId));
+  const bedAt = bedAtLookup(
+    db,
+    loaded.map((r) => r.infantId),
+  );
   for (const r of loaded) r.bedLabel = bedAt(r.infantId, r.raisedMs) ?? r.bedLabel;
   const statuses = reviewStatuses(db, scope);
   const statusOf = (flagId: string) => statuses.get(flagId) ?? UNREVIEWED;
@@ -338,10 +343,25 @@ export function reviewItemDetail(ctx: AppContext, flagId: string, auth: { userId
     .map((a) => ({ id: a.id, kind: a.kind, note: a.note, at: a.at.toISOString(), by: { id: a.byId, name: a.byName } }));
   sqlite
     .transaction(() =>
-      appendAudit(sqlite, { at: ctx.clock.now(), actorId: auth.userId, action: 'chart-read', entityType: 'flag', entityId: flagId, unitId: row.unitId, after: { view: 'review-item' } }),
+      appendAudit(sqlite, {
+        at: ctx.clock.now(),
+        actorId: auth.userId,
+        action: 'chart-read',
+        entityType: 'flag',
+        entityId: flagId,
+        unitId: row.unitId,
+        after: { view: 'review-item' },
+      }),
     )
     .immediate();
-  return { item, detail: JSON.parse(row.detail) as Record<string, unknown>, readings: around, actions: done, reviews: loadReviews(sqlite, [flagId]), noTeachingPoint: status.noTeachingPoint };
+  return {
+    item,
+    detail: JSON.parse(row.detail) as Record<string, unknown>,
+    readings: around,
+    actions: done,
+    reviews: loadReviews(sqlite, [flagId]),
+    noTeachingPoint: status.noTeachingPoint,
+  };
 }
 
 /** Append a teaching note (reviews are append-only: a second note is a new row). */
@@ -374,7 +394,18 @@ export function nurseConcerned(ctx: AppContext, flagId: string): string | null {
  */
 export function myReviewNotes(ctx: AppContext, auth: { userId: string; unitIds: string[] }): MyReviewNote[] {
   const { sqlite, db } = ctx.database;
-  const flagIds = auth.unitIds.length ? [...new Set(db.select({ flagId: reviews.flagId }).from(reviews).where(inArray(reviews.unitId, auth.unitIds)).all().map((r) => r.flagId))] : [];
+  const flagIds = auth.unitIds.length
+    ? [
+        ...new Set(
+          db
+            .select({ flagId: reviews.flagId })
+            .from(reviews)
+            .where(inArray(reviews.unitId, auth.unitIds))
+            .all()
+            .map((r) => r.flagId),
+        ),
+      ]
+    : [];
   const notes: MyReviewNote[] = [];
   for (const flagId of flagIds) {
     const unit = db.select({ unitId: flagsTable.unitId }).from(flagsTable).where(eq(flagsTable.id, flagId)).get();
@@ -388,7 +419,7 @@ export function myReviewNotes(ctx: AppContext, auth: { userId: string; unitIds: 
 }
 
 /** The infants (and their units) these flags are about, for the read's audit. */
-export function infantsOfFlags(ctx: AppContext, flagIds: string[]): Array<{ infantId: string; unitId: string }> {
+export function infantsOfFlags(ctx: AppContext, flagIds: string[]): { infantId: string; unitId: string }[] {
   if (flagIds.length === 0) return [];
   return ctx.database.db.select({ infantId: flagsTable.infantId, unitId: flagsTable.unitId }).from(flagsTable).where(inArray(flagsTable.id, flagIds)).all();
 }

@@ -33,7 +33,11 @@ export function currentPlan(ctx: AppContext, infant: Infant): HandoverPlan | nul
 /** The current shift's plans for every admitted infant of the unit that has one. */
 export function unitPlans(ctx: AppContext, unitId: string): HandoverPlan[] {
   const slot = shiftSlot(ctx, unitId, 'current');
-  const admitted = ctx.database.db.select({ id: infants.id }).from(infants).where(and(eq(infants.unitId, unitId), eq(infants.status, 'admitted'))).all();
+  const admitted = ctx.database.db
+    .select({ id: infants.id })
+    .from(infants)
+    .where(and(eq(infants.unitId, unitId), eq(infants.status, 'admitted')))
+    .all();
   return admitted.map((i) => latestPlan(ctx.database.db, i.id, slot.shiftDate, slot.shift)).filter((p): p is HandoverPlan => p !== null);
 }
 
@@ -43,8 +47,19 @@ export function writePlan(ctx: AppContext, infant: Infant, plan: string, actorId
   const slot = shiftSlot(ctx, infant.unitId, 'current');
   return writeTx(ctx.database.sqlite, () => {
     const id = randomUUID();
-    ctx.database.db.insert(handoverPlans).values({ id, unitId: infant.unitId, infantId: infant.id, shiftDate: slot.shiftDate, shift: slot.shift, plan, writtenBy: actorId, createdAt: now }).run();
-    appendAudit(ctx.database.sqlite, { at: now, actorId, action: 'handover-plan-written', entityType: 'infant', entityId: infant.id, unitId: infant.unitId, after: { planId: id, shiftDate: slot.shiftDate, shift: slot.shift } });
+    ctx.database.db
+      .insert(handoverPlans)
+      .values({ id, unitId: infant.unitId, infantId: infant.id, shiftDate: slot.shiftDate, shift: slot.shift, plan, writtenBy: actorId, createdAt: now })
+      .run();
+    appendAudit(ctx.database.sqlite, {
+      at: now,
+      actorId,
+      action: 'handover-plan-written',
+      entityType: 'infant',
+      entityId: infant.id,
+      unitId: infant.unitId,
+      after: { planId: id, shiftDate: slot.shiftDate, shift: slot.shift },
+    });
     return latestPlan(ctx.database.db, infant.id, slot.shiftDate, slot.shift)!;
   });
 }

@@ -55,7 +55,10 @@ export function deviceFromCookies(ctx: AppContext, cookieHeader: string | undefi
   for (const part of cookieHeader.split(';')) {
     const split = part.indexOf('=');
     if (split < 0 || part.slice(0, split).trim() !== name) continue;
-    const [id, sig] = part.slice(split + 1).trim().split('.');
+    const [id, sig] = part
+      .slice(split + 1)
+      .trim()
+      .split('.');
     if (!id || !sig) return null;
     const expected = Buffer.from(mac(ctx, `device|${email}|${id}`));
     const given = Buffer.from(sig);
@@ -70,7 +73,11 @@ function tally(ctx: AppContext, kind: Kind, since: number, where: 'email' | 'add
   if (failuresOnly) conditions.push(eq(signInAttempts.succeeded, false));
   // Failures from unknown devices only, for the account's shared budget.
   if (where !== 'device' && kind === 'sign-in') conditions.push(isNull(signInAttempts.device));
-  const row = ctx.database.db.select({ n: count(), oldest: min(signInAttempts.at) }).from(signInAttempts).where(and(...conditions)).get();
+  const row = ctx.database.db
+    .select({ n: count(), oldest: min(signInAttempts.at) })
+    .from(signInAttempts)
+    .where(and(...conditions))
+    .get();
   return { n: row?.n ?? 0, oldest: row?.oldest?.getTime() ?? null };
 }
 

@@ -1,21 +1,7 @@
 import { writeTx } from '../../db/client';
 import type Database from 'better-sqlite3';
 import { and, asc, eq, gte, inArray, isNotNull, isNull, or, sql } from 'drizzle-orm';
-import {
-  actions,
-  actionUndos,
-  assignments,
-  beds,
-  escalations,
-  flagEvents,
-  flagResolutions,
-  flags,
-  infantClocks,
-  infants,
-  skinToSkinSessions,
-  units,
-  users,
-} from '../../db/schema';
+import { actions, actionUndos, assignments, beds, escalations, flagEvents, flagResolutions, flags, infantClocks, infants, skinToSkinSessions, units, users } from '../../db/schema';
 import { dueStatus, needsAttention, worseSeverity, type EvaluatedFlag, type InfantEvaluation, type Severity } from '../../shared/thermal';
 import { shiftAt } from '../../shared/shifts';
 import type { CheckClocks, ClockStatus, EscalationSent, FlowsheetFlag, InfantSummary, NextCheck, OpenFlagSummary, RecheckClock } from '../../shared/types/bedside';
@@ -74,7 +60,7 @@ export function checkClocks(clock: ClockRow | undefined, open: OpenFlagSummary[]
         }
       : null;
   const rechecks = open.map((f) => f.recheck).filter((r): r is RecheckClock => r !== null && r !== undefined);
-  const candidates: Array<CheckClocks['next']> = [{ clock: 'remote', ...remote }];
+  const candidates: CheckClocks['next'][] = [{ clock: 'remote', ...remote }];
   if (manual) candidates.push({ clock: 'manual', status: manual.status, dueAt: manual.dueAt, minutesLate: manual.minutesLate });
   for (const r of rechecks) candidates.push({ clock: 'recheck', status: r.status, dueAt: r.dueAt, minutesLate: r.minutesLate });
   const next = candidates.reduce((a, b) => {
@@ -121,8 +107,16 @@ const summaryQueries = perConnection((db) => ({
     .leftJoin(beds, eq(beds.id, infants.bedId))
     .where(inArray(infants.id, jsonList('ids')))
     .prepare(),
-  clocks: db.select().from(infantClocks).where(inArray(infantClocks.infantId, jsonList('ids'))).prepare(),
-  units: db.select().from(units).where(inArray(units.id, jsonList('ids'))).prepare(),
+  clocks: db
+    .select()
+    .from(infantClocks)
+    .where(inArray(infantClocks.infantId, jsonList('ids')))
+    .prepare(),
+  units: db
+    .select()
+    .from(units)
+    .where(inArray(units.id, jsonList('ids')))
+    .prepare(),
   openFlags: db
     .select(storedFlagColumns)
     .from(flags)
@@ -200,12 +194,7 @@ function storedOpenFlags(sqlite: Database.Database, infantIds: string[]): Stored
  * The open flags of one infant as stored: the flag row, what the last evaluation found about it
  * (current severity and detail, the recheck clock) and its escalation if one went out.
  */
-export function openFlagsFromStore(
-  rows: StoredFlagRow[],
-  clock: ClockRow | undefined,
-  sent: Map<string, EscalationSent>,
-  now: Date,
-): OpenFlagSummary[] {
+export function openFlagsFromStore(rows: StoredFlagRow[], clock: ClockRow | undefined, sent: Map<string, EscalationSent>, now: Date): OpenFlagSummary[] {
   const current = new Map((clock ? (JSON.parse(clock.openFlags) as StoredOpenFlag[]) : []).map((f) => [f.flagId, f]));
   const dueSoon = clock?.dueSoonMinutes ?? 15;
   return rows.map((row) => {
@@ -289,7 +278,10 @@ export function summarizeInfants(sqlite: Database.Database, infantIds: string[],
   const unitById = new Map(unitRows.map((u) => [u.id, u]));
 
   const openRows = storedOpenFlags(sqlite, unique);
-  const sent = sentEscalations(sqlite, openRows.map((r) => r.id));
+  const sent = sentEscalations(
+    sqlite,
+    openRows.map((r) => r.id),
+  );
   const sessions = q.runningSessions.all({ ids });
   const assigned = q.assignments.all({ ids, since: new Date(now.getTime() - 2 * DAY_MS).toISOString().slice(0, 10) });
 
@@ -361,7 +353,11 @@ const flowsheetQueries = perConnection((db) => ({
     )
     .orderBy(asc(flags.raisedAt), asc(flags.key))
     .prepare(),
-  clock: db.select().from(infantClocks).where(eq(infantClocks.infantId, sql.placeholder('infantId'))).prepare(),
+  clock: db
+    .select()
+    .from(infantClocks)
+    .where(eq(infantClocks.infantId, sql.placeholder('infantId')))
+    .prepare(),
   actions: db
     .select({ id: actions.id, flagId: actions.flagId, kind: actions.kind, note: actions.note, at: actions.at, recordedBy: actions.recordedBy, name: users.name })
     .from(actions)
@@ -383,41 +379,50 @@ export function storedFlowsheetFlags(sqlite: Database.Database, infantId: string
   const rows = q.flags.all({ infantId, fromMs });
   const clock = q.clock.get({ infantId });
   const open = rows.filter((r) => r.closedAt === null);
-  const sent = sentEscalations(sqlite, rows.map((r) => r.id));
+  const sent = sentEscalations(
+    sqlite,
+    rows.map((r) => r.id),
+  );
   const openJson = new Map(openFlagsFromStore(open, clock, sent, now).map((f) => [f.id, f]));
   const ids = JSON.stringify(rows.map((r) => r.id));
   const acts = rows.length ? q.actions.all({ ids }) : [];
   const withdrawals = rows.length ? q.withdrawals.all({ ids }) : [];
   const withdrawnBy = new Map(withdrawals.map((w) => [w.flagId, w]));
-  return rows
-    .map((r): FlowsheetFlag => {
-      const live = openJson.get(r.id);
-      const w = withdrawnBy.get(r.id);
-      const why = w ? (JSON.parse(w.detail) as { reason?: string; readingId?: string | null }) : null;
-      return {
-        id: r.id,
-        key: r.key,
-        kind: r.kind,
-        // A flag closed before its raising reading was corrected away is withdrawn too (an event).
-        status: r.closedAt === null ? 'open' : r.how === 'withdrawn' || w ? 'withdrawn' : 'closed',
-        raisedAt: r.raisedAt.toISOString(),
-        raisedByReadingId: r.raisedByReadingId,
-        closedAt: iso(r.closedAt),
-        closedByReadingId: r.closedByReadingId,
-        recheckDueAt: live?.recheckDueAt ?? null,
-        recheck: live?.recheck ?? null,
-        severity: live?.severity ?? r.severity ?? 'urgent',
-        escalation: sent.get(r.id) ?? null,
-        escalated: sent.has(r.id),
-        detail: live ? live.detail : plainDetail(JSON.parse(r.detail)),
-        how: r.how ?? null,
-        withdrawn: w ? { reason: why?.reason ?? 'reading-corrected', readingId: why?.readingId ?? null, at: w.at.toISOString() } : null,
-        actions: acts
-          .filter((a) => a.flagId === r.id)
-          .map((a) => ({ id: a.id, flagId: a.flagId, kind: a.kind, note: a.note, at: a.at.toISOString(), recordedBy: { id: a.recordedBy, name: a.name } })),
-      };
-    })
-    .reverse()
-    // Open flags first in severity order, as on the board; then the rest, newest first (stable sort).
-    .sort((a, b) => (a.status === 'open' ? 0 : 1) - (b.status === 'open' ? 0 : 1) || (a.status === 'open' ? (SEVERITY_RANK[a.severity ?? 'urgent'] ?? 1) - (SEVERITY_RANK[b.severity ?? 'urgent'] ?? 1) : 0));
+  return (
+    rows
+      .map((r): FlowsheetFlag => {
+        const live = openJson.get(r.id);
+        const w = withdrawnBy.get(r.id);
+        const why = w ? (JSON.parse(w.detail) as { reason?: string; readingId?: string | null }) : null;
+        return {
+          id: r.id,
+          key: r.key,
+          kind: r.kind,
+          // A flag closed before its raising reading was corrected away is withdrawn too (an event).
+          status: r.closedAt === null ? 'open' : r.how === 'withdrawn' || w ? 'withdrawn' : 'closed',
+          raisedAt: r.raisedAt.toISOString(),
+          raisedByReadingId: r.raisedByReadingId,
+          closedAt: iso(r.closedAt),
+          closedByReadingId: r.closedByReadingId,
+          recheckDueAt: live?.recheckDueAt ?? null,
+          recheck: live?.recheck ?? null,
+          severity: live?.severity ?? r.severity ?? 'urgent',
+          escalation: sent.get(r.id) ?? null,
+          escalated: sent.has(r.id),
+          detail: live ? live.detail : plainDetail(JSON.parse(r.detail)),
+          how: r.how ?? null,
+          withdrawn: w ? { reason: why?.reason ?? 'reading-corrected', readingId: why?.readingId ?? null, at: w.at.toISOString() } : null,
+          actions: acts
+            .filter((a) => a.flagId === r.id)
+            .map((a) => ({ id: a.id, flagId: a.flagId, kind: a.kind, note: a.note, at: a.at.toISOString(), recordedBy: { id: a.recordedBy, name: a.name } })),
+        };
+      })
+      .reverse()
+      // Open flags first in severity order, as on the board; then the rest, newest first (stable sort).
+      .sort(
+        (a, b) =>
+          (a.status === 'open' ? 0 : 1) - (b.status === 'open' ? 0 : 1) ||
+          (a.status === 'open' ? (SEVERITY_RANK[a.severity ?? 'urgent'] ?? 1) - (SEVERITY_RANK[b.severity ?? 'urgent'] ?? 1) : 0),
+      )
+  );
 }

@@ -4,7 +4,18 @@ import path from 'node:path';
 import { and, eq, inArray, isNull } from 'drizzle-orm';
 import { decodeCsvBytes, parseCsvLines } from '../../shared/uploads/csv-text';
 import { toCsv } from '../../shared/csv';
-import { checkReadingRow, checkRosterRow, MAX_UPLOAD_ROWS, missingColumns, READINGS_COLUMNS, READINGS_REQUIRED, ROSTER_COLUMNS, type ParsedReadingRow, type Row, type RosterRow } from '../../shared/uploads/csv-formats';
+import {
+  checkReadingRow,
+  checkRosterRow,
+  MAX_UPLOAD_ROWS,
+  missingColumns,
+  READINGS_COLUMNS,
+  READINGS_REQUIRED,
+  ROSTER_COLUMNS,
+  type ParsedReadingRow,
+  type Row,
+  type RosterRow,
+} from '../../shared/uploads/csv-formats';
 import type { ImportResult, UploadPreview, UploadRowPreview } from '../../shared/types/admin';
 import type { Database_ } from '../../db/client';
 import { beds, infants, readings, uploads, userUnits, units, users } from '../../db/schema';
@@ -91,8 +102,18 @@ function registerUpload(ctx: AppContext, file: UploadedFile, uploader: Uploader,
   }
   return {
     upload: {
-      id: randomUUID(), kind, unitId, filename: path.basename(file.originalName).slice(0, 200), storedName: path.basename(file.path), sha256: hash, sizeBytes: file.size,
-      rowCount: 0, status: 'previewed', uploadedBy: uploader.userId, createdAt: ctx.clock.now(), importedAt: null,
+      id: randomUUID(),
+      kind,
+      unitId,
+      filename: path.basename(file.originalName).slice(0, 200),
+      storedName: path.basename(file.path),
+      sha256: hash,
+      sizeBytes: file.size,
+      rowCount: 0,
+      status: 'previewed',
+      uploadedBy: uploader.userId,
+      createdAt: ctx.clock.now(),
+      importedAt: null,
     },
     text,
   };
@@ -175,7 +196,11 @@ export function previewRoster(ctx: AppContext, file: UploadedFile, uploader: Upl
 }
 
 function loadUpload(ctx: AppContext, uploadId: string, kind: 'roster' | 'readings'): { upload: UploadRow; text: string } {
-  const upload = ctx.database.db.select().from(uploads).where(and(eq(uploads.id, uploadId), eq(uploads.kind, kind))).get();
+  const upload = ctx.database.db
+    .select()
+    .from(uploads)
+    .where(and(eq(uploads.id, uploadId), eq(uploads.kind, kind)))
+    .get();
   if (!upload) throw notFound('That upload');
   const file = path.join(uploadsDir(ctx), upload.storedName);
   if (!fs.existsSync(file)) throw notFound('That uploaded file');
@@ -205,7 +230,10 @@ export async function importRoster(ctx: AppContext, uploadId: string, auth: Uplo
       if (importedMeanwhile(ctx, upload.id)) return { created: 0, skipped: upload.rowCount, alreadyImported: true };
       const rows = checkRoster(ctx.database, parsed, auth.unitIds);
       const bad = rows.filter((r) => r.action === 'error');
-      if (bad.length) throw badRequest('Some rows have errors; nothing was imported.', { file: `${bad.length} row${bad.length > 1 ? 's have' : ' has'} errors (first: line ${bad[0]!.line}). Fix the file and upload it again.` });
+      if (bad.length)
+        throw badRequest('Some rows have errors; nothing was imported.', {
+          file: `${bad.length} row${bad.length > 1 ? 's have' : ' has'} errors (first: line ${bad[0]!.line}). Fix the file and upload it again.`,
+        });
       let created = 0;
       for (const r of rows) {
         if (r.action !== 'create' || !r.value) continue;
@@ -214,7 +242,15 @@ export async function importRoster(ctx: AppContext, uploadId: string, auth: Uplo
         created += 1;
       }
       markImported(ctx, upload.id, rows.length, ctx.clock.now());
-      appendAudit(sqlite, { at: ctx.clock.now(), actorId: auth.userId, action: 'roster-imported', entityType: 'upload', entityId: upload.id, unitId: null, after: { created, skipped: rows.length - created, sha256: upload.sha256 } });
+      appendAudit(sqlite, {
+        at: ctx.clock.now(),
+        actorId: auth.userId,
+        action: 'roster-imported',
+        entityType: 'upload',
+        entityId: upload.id,
+        unitId: null,
+        after: { created, skipped: rows.length - created, sha256: upload.sha256 },
+      });
       return { created, skipped: rows.length - created, alreadyImported: false };
     },
     { behavior: 'immediate' },
@@ -285,7 +321,10 @@ function checkReadings(ctx: AppContext, parsed: ParsedFile, unitId: string): Che
     seen.add(id);
     return { line, values, errors: [], action: 'create' as const, ...(value.unusual.length ? { unusual: value.unusual } : {}), value: { ...value, infantId, id, takenById } };
   });
-  const charted = chartedAlready(ctx, checked.flatMap((r) => (r.value ? [r.value.id] : [])));
+  const charted = chartedAlready(
+    ctx,
+    checked.flatMap((r) => (r.value ? [r.value.id] : [])),
+  );
   return checked.map((r) => (r.value && charted.has(r.value.id) ? { line: r.line, values: r.values, errors: [], action: 'skip' as const, note: 'Already charted' } : r));
 }
 
@@ -341,7 +380,10 @@ export function importReadings(ctx: AppContext, uploadId: string, auth: Uploader
       if (importedMeanwhile(ctx, upload.id)) return { created: 0, skipped: upload.rowCount, alreadyImported: true };
       const rows = checkReadings(ctx, parsed, unitId);
       const bad = rows.filter((r) => r.action === 'error');
-      if (bad.length) throw badRequest('Some rows have errors; nothing was imported.', { file: `${bad.length} row${bad.length > 1 ? 's have' : ' has'} errors (first: line ${bad[0]!.line}: ${bad[0]!.errors[0]}).` });
+      if (bad.length)
+        throw badRequest('Some rows have errors; nothing was imported.', {
+          file: `${bad.length} row${bad.length > 1 ? 's have' : ' has'} errors (first: line ${bad[0]!.line}: ${bad[0]!.errors[0]}).`,
+        });
       const unconfirmed = rows.filter((r) => r.action === 'create' && r.unusual?.length && !confirmed.has(r.line));
       if (unconfirmed.length) {
         throw badRequest('Confirm each unusual value first; nothing was imported.', {
@@ -356,16 +398,41 @@ export function importReadings(ctx: AppContext, uploadId: string, auth: Uploader
         const v = r.value;
         tx.insert(readings)
           .values({
-            id: v.id, infantId: v.infantId, unitId, takenAt: v.takenAt, recordedAt: now, recordedBy: auth.userId, takenBy: v.takenById, uploadId: upload.id,
-            probeCenti: v.probeCenti, remoteCenti: v.remoteCenti, remoteSite: v.remoteSite, airCenti: v.airCenti, setCenti: v.setCenti, controlMode: v.controlMode,
-            heaterOutputPct: v.heaterOutputPct, heartRate: v.heartRate, heatSigns: '[]', note: null, enteredUnit: v.unit, lateReason: `Imported from ${upload.filename}`,
+            id: v.id,
+            infantId: v.infantId,
+            unitId,
+            takenAt: v.takenAt,
+            recordedAt: now,
+            recordedBy: auth.userId,
+            takenBy: v.takenById,
+            uploadId: upload.id,
+            probeCenti: v.probeCenti,
+            remoteCenti: v.remoteCenti,
+            remoteSite: v.remoteSite,
+            airCenti: v.airCenti,
+            setCenti: v.setCenti,
+            controlMode: v.controlMode,
+            heaterOutputPct: v.heaterOutputPct,
+            heartRate: v.heartRate,
+            heatSigns: '[]',
+            note: null,
+            enteredUnit: v.unit,
+            lateReason: `Imported from ${upload.filename}`,
           })
           .run();
         infantsTouched.add(v.infantId);
         ids.push(v.id);
       }
       const confirmedUsed = rows.filter((r) => r.action === 'create' && r.unusual?.length).map((r) => r.line);
-      appendAudit(sqlite, { at: now, actorId: auth.userId, action: 'readings-imported', entityType: 'upload', entityId: upload.id, unitId, after: { created: ids.length, readingIds: ids, sha256: upload.sha256, confirmedLines: confirmedUsed } });
+      appendAudit(sqlite, {
+        at: now,
+        actorId: auth.userId,
+        action: 'readings-imported',
+        entityType: 'upload',
+        entityId: upload.id,
+        unitId,
+        after: { created: ids.length, readingIds: ids, sha256: upload.sha256, confirmedLines: confirmedUsed },
+      });
       for (const infantId of infantsTouched) syncFlags(sqlite, infantId, now, auth.userId);
       markImported(ctx, upload.id, rows.length, now);
       return { created: ids.length, skipped: rows.length - ids.length, alreadyImported: false };

@@ -22,8 +22,7 @@ export const PLACEMENT_PROMPTS = ['probe-under-prone-infant'] as const;
 export type PlacementPromptCode = (typeof PLACEMENT_PROMPTS)[number];
 
 export const PLACEMENT_PROMPT_WORDS: Record<PlacementPromptCode, string> = {
-  'probe-under-prone-infant':
-    'The probe is on the abdomen of an infant lying prone: it reads the mattress, not the infant. Move it to the back or flank.',
+  'probe-under-prone-infant': 'The probe is on the abdomen of an infant lying prone: it reads the mattress, not the infant. Move it to the back or flank.',
 };
 
 /** Where each rule comes from, shown with the prompt. */

@@ -32,7 +32,17 @@ const READING: ReadingVersion = {
 
 function renderForm(unit: 'C' | 'F' = 'C', reading: ReadingVersion = READING) {
   const onSubmit = jest.fn();
-  setup(<CorrectReadingForm reading={reading} unit={unit} timeZone="Europe/London" clock="24h" now={() => NOW} makeId={() => '5d2c7a43-4a55-4a8e-9f55-0d5b6e1d2c11'} onSubmit={onSubmit} />);
+  setup(
+    <CorrectReadingForm
+      reading={reading}
+      unit={unit}
+      timeZone="Europe/London"
+      clock="24h"
+      now={() => NOW}
+      makeId={() => '5d2c7a43-4a55-4a8e-9f55-0d5b6e1d2c11'}
+      onSubmit={onSubmit}
+    />,
+  );
   return { onSubmit };
 }
 
@@ -54,7 +64,12 @@ describe('CorrectReadingForm', () => {
     save();
     await waitFor(() => expect(onSubmit).toHaveBeenCalledTimes(1));
     const sent = onSubmit.mock.calls[0][0];
-    expect(sent).toMatchObject({ id: '5d2c7a43-4a55-4a8e-9f55-0d5b6e1d2c11', reason: 'corrected-value', note: 'Typed the probe wrong.', values: { unit: 'C', probe: 36.5, remote: 36.2, remoteSite: 'axilla', set: 36.5, heartRate: 150 } });
+    expect(sent).toMatchObject({
+      id: '5d2c7a43-4a55-4a8e-9f55-0d5b6e1d2c11',
+      reason: 'corrected-value',
+      note: 'Typed the probe wrong.',
+      values: { unit: 'C', probe: 36.5, remote: 36.2, remoteSite: 'axilla', set: 36.5, heartRate: 150 },
+    });
     // The time was not changed, so the reading keeps its own.
     expect(sent.values.takenAt).toBeUndefined();
   });
@@ -83,7 +98,7 @@ describe('CorrectReadingForm', () => {
   const LAST_NIGHT: ReadingVersion = { ...READING, id: 'r-2', takenAt: '2026-11-15T22:10:00.000Z', recordedAt: '2026-11-15T22:11:00.000Z' };
   const type = (label: RegExp | string, text: string) => fireEvent.changeText(screen.getByLabelText(label), text);
 
-  it('keeps the reading\'s day: a changed time stays on yesterday, not today', async () => {
+  it("keeps the reading's day: a changed time stays on yesterday, not today", async () => {
     const { onSubmit } = renderForm('C', LAST_NIGHT);
     expect(screen.getByText('Correcting the reading of Yesterday, 22:10')).toBeTruthy();
     expect(screen.getByRole('radio', { name: 'Yesterday', checked: true })).toBeTruthy();

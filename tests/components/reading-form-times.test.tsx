@@ -34,7 +34,7 @@ const chooseDay = (name: string) => fireEvent.press(screen.getByRole('radio', { 
 /** The label of the input focused last: the test renderer's TextInput records `this` on its focus mock. */
 function lastFocused(): string | undefined {
   const focus = TextInput.prototype.focus as unknown as jest.Mock;
-  const contexts = focus.mock.contexts as Array<{ props: { accessibilityLabel?: string } }>;
+  const contexts = focus.mock.contexts as { props: { accessibilityLabel?: string } }[];
   return contexts.at(-1)?.props.accessibilityLabel;
 }
 
@@ -92,7 +92,7 @@ describe('the day of a reading is named, never guessed', () => {
     expect(onSubmit).not.toHaveBeenCalled();
   });
 
-  it('keeps the server\'s 2-minute tolerance: 20:50 is taken at 20:48, 20:51 is refused', async () => {
+  it("keeps the server's 2-minute tolerance: 20:50 is taken at 20:48, 20:51 is refused", async () => {
     const { onSubmit } = renderForm();
     type(/^Probe temperature/, '36.8');
     type(/^Time taken/, '20:51');
@@ -104,7 +104,7 @@ describe('the day of a reading is named, never guessed', () => {
     expect(onSubmit.mock.calls[0][0]).toMatchObject({ takenAt: '2026-11-16T20:50:00.000Z', lateReason: null });
   });
 
-  it('uses the unit\'s zone, not the device\'s: 20:00 in New York is 01:00 UTC the next day', async () => {
+  it("uses the unit's zone, not the device's: 20:00 in New York is 01:00 UTC the next day", async () => {
     // 01:30 UTC on 17 Nov is 20:30 on 16 Nov in New York.
     const { onSubmit } = renderForm({ timeZone: 'America/New_York' }, new Date('2026-11-17T01:30:00Z'));
     type(/^Probe temperature/, '36.8');
@@ -172,7 +172,14 @@ describe('errors you can see', () => {
 
   it('focuses the field the server refused (its clock found the time in the future)', async () => {
     const { rerender, onSubmit } = renderForm();
-    const props = { unit: 'C' as const, timeZone: 'Europe/London', gapLimitCenti: 50, defaults: { controlMode: 'skin-servo' as const, set: '36.5', remoteSite: 'axilla' as const }, now: () => EVENING, onSubmit };
+    const props = {
+      unit: 'C' as const,
+      timeZone: 'Europe/London',
+      gapLimitCenti: 50,
+      defaults: { controlMode: 'skin-servo' as const, set: '36.5', remoteSite: 'axilla' as const },
+      now: () => EVENING,
+      onSubmit,
+    };
     (TextInput.prototype.focus as unknown as jest.Mock).mockClear();
     rerender(<ReadingForm {...props} serverFields={{ takenAt: 'The time cannot be in the future.' }} serverMessage="The time is in the future." />);
     expect(screen.getByText('The time cannot be in the future.')).toBeTruthy();

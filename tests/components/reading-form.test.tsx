@@ -138,7 +138,16 @@ describe('ReadingForm', () => {
     await user.type(screen.getByLabelText(/^Heart rate/), '142', { submitEditing: true });
     await waitFor(() => expect(onSubmit).toHaveBeenCalledTimes(1));
     // The settings came forward: mode, set temperature and remote site as last charted.
-    expect(onSubmit.mock.calls[0][0]).toMatchObject({ probe: 36.8, remote: 36.6, remoteSite: 'axilla', air: 31.8, heaterOutputPct: 40, heartRate: 142, set: 36.5, controlMode: 'skin-servo' });
+    expect(onSubmit.mock.calls[0][0]).toMatchObject({
+      probe: 36.8,
+      remote: 36.6,
+      remoteSite: 'axilla',
+      air: 31.8,
+      heaterOutputPct: 40,
+      heartRate: 142,
+      set: 36.5,
+      controlMode: 'skin-servo',
+    });
   });
 
   it('in air servo the air set temperature is the third field, carried forward and in the Enter order; air temperature is left with the other observations', async () => {
@@ -161,7 +170,9 @@ describe('ReadingForm', () => {
   it('shows the settings carried forward from the last reading, and never fills in a measurement', () => {
     setup({ defaults: { controlMode: 'skin-servo', set: '36.5', remoteSite: 'rectal' } });
     expect(screen.getByText('From the last reading: Skin servo, set 36.5 °C, remote site rectal. Change any that changed.')).toBeTruthy();
-    expect(screen.getByRole('radio', { name: 'Skin servo' }).props.accessibilityState?.checked ?? screen.getByRole('radio', { name: 'Skin servo' }).props['aria-checked']).toBe(true);
+    expect(screen.getByRole('radio', { name: 'Skin servo' }).props.accessibilityState?.checked ?? screen.getByRole('radio', { name: 'Skin servo' }).props['aria-checked']).toBe(
+      true,
+    );
     expect(screen.getByRole('radio', { name: 'Rectal' }).props.accessibilityState?.checked ?? screen.getByRole('radio', { name: 'Rectal' }).props['aria-checked']).toBe(true);
     expect(screen.getByLabelText(/^Set temperature/).props.value).toBe('36.5');
     for (const label of [/^Probe temperature/, /^Remote-site temperature/, /^Air temperature/, /^Heater output/, /^Heart rate/]) {

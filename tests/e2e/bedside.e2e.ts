@@ -157,7 +157,10 @@ describe('bedside charting on a phone', () => {
     await page.getByRole('radio', { name: 'Whole unit' }).click();
     await page.getByRole('link', { name: /^N08, Baby Glimmerton B/ }).click();
     await page.getByRole('heading', { name: /Baby Glimmerton B/, level: 1 }).waitFor();
-    await page.getByRole('button', { name: /^Correct the reading of/ }).first().click();
+    await page
+      .getByRole('button', { name: /^Correct the reading of/ })
+      .first()
+      .click();
     await page.getByRole('heading', { name: /^Correct:/, level: 1 }).waitFor();
     await page.getByRole('radio', { name: 'Corrected value' }).click();
     await page.getByLabel('What was wrong').fill('Typed the probe value wrong.');
@@ -166,7 +169,10 @@ describe('bedside charting on a phone', () => {
     await page.getByRole('button', { name: 'Save correction' }).click();
 
     await page.getByRole('heading', { name: /Baby Glimmerton B/, level: 1 }).waitFor();
-    await page.getByText(/^Corrected: corrected value/).first().waitFor();
+    await page
+      .getByText(/^Corrected: corrected value/)
+      .first()
+      .waitFor();
     const history = page.getByRole('region', { name: 'Corrected entries' });
     await history.waitFor();
     const text = await history.innerText();
@@ -243,9 +249,16 @@ describe('bedside charting on a phone', () => {
     assert.equal(await done.count(), before + 1);
 
     await done.nth(before).getByRole('button', { name: 'Undo' }).click();
-    await page.waitForFunction((n) => [...document.querySelectorAll('[role="listitem"]')].filter((e) => e.textContent?.startsWith('✓ Checked the heat-reflecting cover')).length === n, before);
+    await page.waitForFunction(
+      (n) => [...document.querySelectorAll('[role="listitem"]')].filter((e) => e.textContent?.startsWith('✓ Checked the heat-reflecting cover')).length === n,
+      before,
+    );
     await flag.getByRole('button', { name: 'Show history' }).click();
-    await flag.getByRole('list', { name: 'History' }).getByText(/Action undone \(entered in error\): Checked the heat-reflecting cover/).first().waitFor();
+    await flag
+      .getByRole('list', { name: 'History' })
+      .getByText(/Action undone \(entered in error\): Checked the heat-reflecting cover/)
+      .first()
+      .waitFor();
 
     await flag.getByRole('button', { name: 'Something else (see note)' }).click();
     const note = flag.getByLabel('What did you do?');

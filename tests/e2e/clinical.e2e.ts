@@ -71,7 +71,10 @@ describe('severe hypothermia charted on a phone reaches the charge nurse', () =>
     await first.waitFor();
     assert.equal(await first.getAttribute('data-testid'), 'bed-N12');
     const tile = wide.getByTestId('bed-N12');
-    await tile.getByText(/critical/i).first().waitFor();
+    await tile
+      .getByText(/critical/i)
+      .first()
+      .waitFor();
     // Zero delay for the most severe: escalated at once, at most one scheduler minute later.
     await tile.getByText(/Told .*Marta Lindqvist/).waitFor({ timeout: 75_000 });
     await shot(wide, 'clinical-2-board-escalated');
@@ -82,7 +85,10 @@ describe('severe hypothermia charted on a phone reaches the charge nurse', () =>
     // The nurse's card says whom it reached.
     await phone.reload();
     const reached = phone.getByRole('region', { name: /cold|hypothermia/i });
-    await reached.getByText(/Told .*Marta Lindqvist/).first().waitFor();
+    await reached
+      .getByText(/Told .*Marta Lindqvist/)
+      .first()
+      .waitFor();
     await shot(phone, 'clinical-4-card-says-whom');
 
     const board = await call('GET', '/units/unit-north/board', charge);
@@ -129,7 +135,11 @@ describe('undoing an action reopens the flag it let close', () => {
     await phone.waitForURL((url) => url.pathname === '/infants');
     await phone.getByRole('link', { name: /^N11, Baby Undermill/ }).click();
     await phone.getByRole('heading', { name: /Baby Undermill/, level: 1 }).waitFor();
-    await phone.getByRole('region', { name: 'Closed flags' }).getByText(/closed/).first().waitFor();
+    await phone
+      .getByRole('region', { name: 'Closed flags' })
+      .getByText(/closed/)
+      .first()
+      .waitFor();
     assert.equal(await phone.getByRole('region', { name: 'Gap flag' }).count(), 0, 'the gap is closed');
     await shot(phone, 'clinical-5-gap-closed');
 

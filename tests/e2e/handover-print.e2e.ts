@@ -4,7 +4,7 @@ import path from 'node:path';
 import { after, before, describe, it } from 'node:test';
 import type { Browser } from 'playwright-core';
 import { extractText } from 'unpdf';
-import { ACCOUNTS, ARTIFACTS, BASE_URL, launch, newPage, signIn, WIDE } from './support';
+import { ACCOUNTS, apiToken, ARTIFACTS, BASE_URL, launch, newPage, signIn, WIDE } from './support';
 
 let browser: Browser;
 before(async () => {
@@ -33,6 +33,14 @@ describe('the printed unit handover', () => {
       .first()
       .waitFor({ state: 'attached' });
 
+    // She prints it later in the shift: "printed at" is when it is printed, not when it was opened.
+    const token = await apiToken(ACCOUNTS.charge);
+    const board = (await (await fetch(`${BASE_URL}/api/units/unit-north/board`, { headers: { Authorization: `Bearer ${token}` } })).json()) as { unit: { timeZone: string } };
+    const printAt = new Date(Date.now() + (2 * 60 + 17) * 60_000);
+    await page.clock.setFixedTime(printAt);
+    // The unit's clock time, by the browser's own Intl (the demo users read a 24-hour clock).
+    const hhmm = new Intl.DateTimeFormat('en-GB', { hour: '2-digit', minute: '2-digit', hourCycle: 'h23', timeZone: board.unit.timeZone }).format(printAt);
+
     await page.emulateMedia({ media: 'print' });
     const pdf = await page.pdf({ format: 'A4', printBackground: false });
     fs.writeFileSync(path.join(ARTIFACTS, 'handover-unit.pdf'), pdf);
@@ -45,12 +53,12 @@ describe('the printed unit handover', () => {
     assert.match(pages[0]!, /Unit summary/);
     assert.match(pages[0]!, /N01/);
     assert.match(pages[0]!, /N08/);
-    assert.match(pages[0]!, /printed at \d{1,2}:\d\d.* by Marta Lindqvist/i);
+    assert.match(pages[0]!, new RegExp(`printed at ${hhmm}\\b.* by Marta Lindqvist`, 'i'));
     // The summary fits one page: the second page is an infant's.
     assert.doesNotMatch(pages[1]!, /Unit summary/);
     for (const [i, p] of pages.slice(1).entries()) {
       assert.match(p, /N\d\d · Baby /, `page ${i + 2} names the bed and the infant`);
-      assert.match(p, /printed at \d{1,2}:\d\d.* by Marta Lindqvist/i, `page ${i + 2} says when and by whom it was printed`);
+      assert.match(p, new RegExp(`printed at ${hhmm}\\b.* by Marta Lindqvist`, 'i'), `page ${i + 2} says when and by whom it was printed`);
     }
     assert.ok(
       pages.some((p) => /Recheck the probe contact at 02:00/.test(p)),

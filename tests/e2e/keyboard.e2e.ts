@@ -107,7 +107,11 @@ describe('keyboard alone (Chromium)', () => {
     const bedId = target.tile;
     assert.ok(bedId, 'the Acknowledge button sits in a bed tile');
     await page.keyboard.press('Enter');
-    await page.getByTestId(bedId).getByText(/acknowledged by Marta Lindqvist/).first().waitFor();
+    await page
+      .getByTestId(bedId)
+      .getByText(/acknowledged by Marta Lindqvist/)
+      .first()
+      .waitFor();
     await page.context().close();
   });
 
@@ -145,7 +149,10 @@ describe('keyboard alone (Chromium)', () => {
     // Enter moves through air, heater output and heart rate, and saves from the last.
     for (let i = 0; i < 4; i += 1) await page.keyboard.press('Enter');
     await page.waitForURL((url) => url.pathname === '/infants/inf-cinderford');
-    await page.getByText(/36\.8\s°C/).first().waitFor();
+    await page
+      .getByText(/36\.8\s°C/)
+      .first()
+      .waitFor();
     await shot(page, 'keyboard-record-saved');
     await page.context().close();
   });

@@ -37,7 +37,7 @@ describe('probe placement on a phone', () => {
     // The charge nurse admits an infant lying on its back with the probe on the abdomen, covered.
     const charge = await apiToken(ACCOUNTS.charge);
     const board = await call('GET', '/units/unit-north/board', charge);
-    const beds = (board.body?.beds ?? []) as Array<{ bedId: string; label: string; infant: unknown }>;
+    const beds = (board.body?.beds ?? []) as { bedId: string; label: string; infant: unknown }[];
     const bed = beds.find((b) => b.infant === null);
     assert.ok(bed, 'an empty bed in the North unit');
     const admitted = await call('POST', '/units/unit-north/infants', charge, {
@@ -86,7 +86,10 @@ describe('probe placement on a phone', () => {
     await page.getByRole('heading', { name: new RegExp(NAME), level: 1 }).waitFor();
     await placement.getByText(/reads the mattress, not the infant/).waitFor();
     await placement.getByText(/On the front \(prone\)/).waitFor();
-    await page.getByText(/probe Abdomen, covered · prone/).first().waitFor();
+    await page
+      .getByText(/probe Abdomen, covered · prone/)
+      .first()
+      .waitFor();
     await placement.scrollIntoViewIfNeeded();
     await shot(page, 'placement-2-flowsheet-prompt');
 
@@ -98,7 +101,7 @@ describe('probe placement on a phone', () => {
 
     // The board tile reads the same stored placement.
     const after = await call('GET', '/units/unit-north/board', charge);
-    const tile = ((after.body?.beds ?? []) as Array<{ bedId: string; infant: { placement?: { probeSite: string; prompt: unknown } } | null }>).find((b) => b.bedId === bed.bedId);
+    const tile = ((after.body?.beds ?? []) as { bedId: string; infant: { placement?: { probeSite: string; prompt: unknown } } | null }[]).find((b) => b.bedId === bed.bedId);
     assert.equal(tile?.infant?.placement?.probeSite, 'back-or-flank');
     assert.equal(tile?.infant?.placement?.prompt, null);
   });

@@ -95,13 +95,25 @@ describe('a full check in six taps on a phone', () => {
 
     await tap(page.getByRole('button', { name: 'Save reading' }));
     await page.waitForURL((url) => url.pathname === '/infants/inf-ashgrove');
-    await page.getByText(/^Probe 36\.8\s°C · Remote 36\.7\s°C/).first().waitFor();
+    await page
+      .getByText(/^Probe 36\.8\s°C · Remote 36\.7\s°C/)
+      .first()
+      .waitFor();
     await shot(page, 'six-taps-2-saved');
     assert.equal(taps(), 6, `a full check took ${taps()} taps`);
 
     const stored = await latestReading('inf-ashgrove');
     assert.deepEqual(
-      { probe: stored.probeCenti, remote: stored.remoteCenti, site: stored.remoteSite, air: stored.airCenti, output: stored.heaterOutputPct, hr: stored.heartRate, set: stored.setCenti, mode: stored.controlMode },
+      {
+        probe: stored.probeCenti,
+        remote: stored.remoteCenti,
+        site: stored.remoteSite,
+        air: stored.airCenti,
+        output: stored.heaterOutputPct,
+        hr: stored.heartRate,
+        set: stored.setCenti,
+        mode: stored.controlMode,
+      },
       { probe: 3680, remote: 3670, site: 'axilla', air: 3160, output: 35, hr: 142, set: 3650, mode: 'skin-servo' },
     );
     await page.context().close();
@@ -131,12 +143,23 @@ describe('a full check in six taps on a phone', () => {
     // A usual air set point asks for no confirmation: Save is the last tap.
     await tap(page.getByRole('button', { name: 'Save reading' }));
     await page.waitForURL((url) => url.pathname === '/infants/inf-brightwater');
-    await page.getByText(/^Probe 36\.9\s°C · Remote 36\.8\s°C/).first().waitFor();
+    await page
+      .getByText(/^Probe 36\.9\s°C · Remote 36\.8\s°C/)
+      .first()
+      .waitFor();
     assert.equal(taps(), 6, `a full air-servo check took ${taps()} taps`);
 
     const stored = await latestReading('inf-brightwater');
     assert.deepEqual(
-      { probe: stored.probeCenti, remote: stored.remoteCenti, set: stored.setCenti, output: stored.heaterOutputPct, hr: stored.heartRate, mode: stored.controlMode, air: stored.airCenti },
+      {
+        probe: stored.probeCenti,
+        remote: stored.remoteCenti,
+        set: stored.setCenti,
+        output: stored.heaterOutputPct,
+        hr: stored.heartRate,
+        mode: stored.controlMode,
+        air: stored.airCenti,
+      },
       { probe: 3690, remote: 3680, set: 3340, output: 28, hr: 150, mode: 'air-servo', air: null },
     );
     await page.context().close();
@@ -164,7 +187,10 @@ describe('a full check in six taps on a phone', () => {
     await page.keyboard.type('148');
     await page.keyboard.press('Enter');
     await page.waitForURL((url) => url.pathname === '/infants/inf-cinderford');
-    await page.getByText(/^Probe 37\.1\s°C · Remote 36\.9\s°C/).first().waitFor();
+    await page
+      .getByText(/^Probe 37\.1\s°C · Remote 36\.9\s°C/)
+      .first()
+      .waitFor();
     assert.equal(taps(), 1);
     const stored = await latestReading('inf-cinderford');
     assert.deepEqual({ air: stored.airCenti, output: stored.heaterOutputPct, hr: stored.heartRate }, { air: 3080, output: 20, hr: 148 });

@@ -42,7 +42,11 @@ describe('users and invitations', () => {
     expect(mail.text).toContain('http://localhost:8080/accept-invite?token=');
     const token = tokenFrom(mail.text);
     // Only a SHA-256 of the token is stored.
-    const stored = env.database.sqlite.prepare("SELECT token_hash, expires_at, created_at FROM email_tokens WHERE kind = 'invite' ORDER BY created_at DESC LIMIT 1").get() as { token_hash: string; expires_at: number; created_at: number };
+    const stored = env.database.sqlite.prepare("SELECT token_hash, expires_at, created_at FROM email_tokens WHERE kind = 'invite' ORDER BY created_at DESC LIMIT 1").get() as {
+      token_hash: string;
+      expires_at: number;
+      created_at: number;
+    };
     expect(stored.token_hash).toMatch(/^[0-9a-f]{64}$/);
     expect(stored.token_hash).not.toContain(token);
     expect(stored.expires_at - stored.created_at).toBe(72 * 3600_000);
@@ -184,7 +188,7 @@ describe('weekly digest', () => {
     expect((await as(educator, 'post', '/api/admin/digest/send')).status).toBe(403);
   });
 
-  it('the scheduled run sends only in the unit\'s Monday 07:00 hour, once', async () => {
+  it("the scheduled run sends only in the unit's Monday 07:00 hour, once", async () => {
     const ctx = env.app.context;
     // 16 Nov 2026 is a Monday; London is on GMT.
     expect((await sendWeeklyDigests(ctx, new Date('2026-11-16T10:00:00Z'))).units).toEqual([]);
@@ -200,7 +204,10 @@ describe('through the real local SMTP server', () => {
     const mailer = smtpMailer({ host: '127.0.0.1', port: smtp.port, from: 'Warmfold <warmfold@localhost>', markSender: true });
     const app = createApp({ db: env.database, mailer, clock: env.clock, config: env.config, log: () => {} });
     try {
-      const res = await request(app).post('/api/admin/users').set('Authorization', `Bearer ${admin}`).send({ name: 'Linnea Marsh', email: 'linnea.marsh@warmfold.test', role: 'educator', unitIds: ['unit-north'] });
+      const res = await request(app)
+        .post('/api/admin/users')
+        .set('Authorization', `Bearer ${admin}`)
+        .send({ name: 'Linnea Marsh', email: 'linnea.marsh@warmfold.test', role: 'educator', unitIds: ['unit-north'] });
       expect(res.status).toBe(201);
       expect(res.body.mailed).toBe(true);
       let caught: { to_addresses: string; subject: string; text_body: string } | undefined;

@@ -19,7 +19,9 @@ beforeAll(async () => {
   const { sqlite } = env.database;
   const hash = (sqlite.prepare("SELECT password_hash AS h FROM users WHERE id = 'u-admin'").get() as { h: string }).h;
   sqlite
-    .prepare("INSERT INTO users (id, email, name, role, password_hash, temp_unit, active, session_version, created_at, updated_at) VALUES ('u-admin-north', ?, 'Ines Varga', 'admin', ?, 'C', 1, 1, 0, 0)")
+    .prepare(
+      "INSERT INTO users (id, email, name, role, password_hash, temp_unit, active, session_version, created_at, updated_at) VALUES ('u-admin-north', ?, 'Ines Varga', 'admin', ?, 'C', 1, 1, 0, 0)",
+    )
     .run(NORTH_ADMIN, hash);
   sqlite.prepare("INSERT INTO user_units (user_id, unit_id) VALUES ('u-admin-north', 'unit-north')").run();
   [admin, northAdmin] = await Promise.all([env.signIn(DEMO.admin), env.signIn(NORTH_ADMIN)]);
@@ -30,9 +32,15 @@ const as = (token: string, method: 'get' | 'post' | 'patch' | 'delete', path: st
   const r = request(env.app)[method](path).set('Authorization', `Bearer ${token}`);
   return body ? r.send(body) : r;
 };
-const unitsOf = (id: string) => (env.database.sqlite.prepare('SELECT unit_id FROM user_units WHERE user_id = ? ORDER BY unit_id').all(id) as { unit_id: string }[]).map((r) => r.unit_id);
+const unitsOf = (id: string) =>
+  (env.database.sqlite.prepare('SELECT unit_id FROM user_units WHERE user_id = ? ORDER BY unit_id').all(id) as { unit_id: string }[]).map((r) => r.unit_id);
 const events = (action: string, entityId: string) =>
-  env.database.sqlite.prepare('SELECT actor_id, unit_id, before, after FROM audit_events WHERE action = ? AND entity_id = ? ORDER BY id').all(action, entityId) as { actor_id: string; unit_id: string | null; before: string | null; after: string | null }[];
+  env.database.sqlite.prepare('SELECT actor_id, unit_id, before, after FROM audit_events WHERE action = ? AND entity_id = ? ORDER BY id').all(action, entityId) as {
+    actor_id: string;
+    unit_id: string | null;
+    before: string | null;
+    after: string | null;
+  }[];
 const unitRow = (id: string) => env.database.sqlite.prepare('SELECT * FROM units WHERE id = ?').get(id);
 
 describe('memberships, one unit at a time', () => {
@@ -104,7 +112,13 @@ describe('unit settings checked together', () => {
   it('names every field at fault at once, and writes nothing', async () => {
     const before = unitRow('unit-north');
     // Due-soon 60 with a 30-minute interval, a night shift before the day shift, and a zone in lower case.
-    const res = await as(admin, 'patch', '/api/admin/units/unit-north', { checkIntervalMinutes: 30, dueSoonMinutes: 60, dayShiftStart: '20:00', nightShiftStart: '08:00', timeZone: 'europe/london' });
+    const res = await as(admin, 'patch', '/api/admin/units/unit-north', {
+      checkIntervalMinutes: 30,
+      dueSoonMinutes: 60,
+      dayShiftStart: '20:00',
+      nightShiftStart: '08:00',
+      timeZone: 'europe/london',
+    });
     expect(res.status).toBe(400);
     expect(Object.keys(res.body.error.fields).sort()).toEqual(['dueSoonMinutes', 'nightShiftStart', 'timeZone']);
     expect(res.body.error.fields.dueSoonMinutes).toMatch(/shorter than the check interval \(30 min\)/);
@@ -131,7 +145,8 @@ describe('unit settings checked together', () => {
 });
 
 describe('beds and units', () => {
-  const bedsOf = (unitId: string) => env.database.sqlite.prepare('SELECT id, label, active FROM beds WHERE unit_id = ? ORDER BY sort_order, label').all(unitId) as { id: string; label: string; active: number }[];
+  const bedsOf = (unitId: string) =>
+    env.database.sqlite.prepare('SELECT id, label, active FROM beds WHERE unit_id = ? ORDER BY sort_order, label').all(unitId) as { id: string; label: string; active: number }[];
 
   it('renames a bed, refusing a label another bed has', async () => {
     const [first, second] = bedsOf('unit-north');
@@ -162,7 +177,9 @@ describe('beds and units', () => {
     const occupied = env.database.sqlite.prepare("SELECT bed_id AS id FROM infants WHERE unit_id = 'unit-north' AND status = 'admitted' LIMIT 1").get() as { id: string };
     const res = await as(admin, 'patch', `/api/admin/beds/${occupied.id}`, { active: false });
     expect(res.status).toBe(409);
-    const empty = env.database.sqlite.prepare("SELECT id FROM beds WHERE unit_id = 'unit-north' AND id NOT IN (SELECT bed_id FROM infants WHERE status = 'admitted' AND bed_id IS NOT NULL) LIMIT 1").get() as { id: string };
+    const empty = env.database.sqlite
+      .prepare("SELECT id FROM beds WHERE unit_id = 'unit-north' AND id NOT IN (SELECT bed_id FROM infants WHERE status = 'admitted' AND bed_id IS NOT NULL) LIMIT 1")
+      .get() as { id: string };
     expect((await as(admin, 'patch', `/api/admin/beds/${empty.id}`, { active: false })).body.bed.active).toBe(false);
     expect((await as(admin, 'patch', `/api/admin/beds/${empty.id}`, { active: true })).body.bed.active).toBe(true);
   });
@@ -219,7 +236,9 @@ describe('audit-log viewer', () => {
     expect(second.body.events[0].id).toBeLessThan(first.body.events[1].id);
     const all = await as(admin, 'get', '/api/admin/audit?actorId=u-admin&limit=200');
     const added = all.body.events.find((e: { action: string }) => e.action === 'membership-added');
-    expect(added).toEqual(expect.objectContaining({ actorName: 'Tomás Vidal', entityId: 'u-nurse-2', before: { unitIds: expect.any(Array) }, after: { unitIds: expect.any(Array) } }));
+    expect(added).toEqual(
+      expect.objectContaining({ actorName: 'Tomás Vidal', entityId: 'u-nurse-2', before: { unitIds: expect.any(Array) }, after: { unitIds: expect.any(Array) } }),
+    );
     expect(all.body.events.every((e: { actorId: string }) => e.actorId === 'u-admin')).toBe(true);
     expect(all.body.events.some((e: { action: string }) => e.action.startsWith('row-'))).toBe(false);
   });

@@ -19,7 +19,9 @@ beforeAll(async () => {
   // A North-only administrator with the demo password (the hash is copied from a demo account).
   const hash = (sqlite.prepare("SELECT password_hash AS h FROM users WHERE id = 'u-admin'").get() as { h: string }).h;
   sqlite
-    .prepare("INSERT INTO users (id, email, name, role, password_hash, temp_unit, active, session_version, created_at, updated_at) VALUES ('u-admin-north', ?, 'Halvard Brenn', 'admin', ?, 'C', 1, 1, 0, 0)")
+    .prepare(
+      "INSERT INTO users (id, email, name, role, password_hash, temp_unit, active, session_version, created_at, updated_at) VALUES ('u-admin-north', ?, 'Halvard Brenn', 'admin', ?, 'C', 1, 1, 0, 0)",
+    )
     .run(NORTH_ADMIN, hash);
   sqlite.prepare("INSERT INTO user_units (user_id, unit_id) VALUES ('u-admin-north', 'unit-north')").run();
   [northAdmin, bothAdmin] = await Promise.all([env.signIn(NORTH_ADMIN), env.signIn(DEMO.admin)]);
@@ -31,10 +33,20 @@ const as = (token: string, method: 'get' | 'post' | 'patch', path: string, body?
   return body ? r.send(body) : r;
 };
 const userRow = (id: string) =>
-  env.database.sqlite.prepare('SELECT role, active, name, session_version FROM users WHERE id = ?').get(id) as { role: string; active: number; name: string; session_version: number };
-const unitsOf = (id: string) => (env.database.sqlite.prepare('SELECT unit_id FROM user_units WHERE user_id = ? ORDER BY unit_id').all(id) as { unit_id: string }[]).map((r) => r.unit_id);
+  env.database.sqlite.prepare('SELECT role, active, name, session_version FROM users WHERE id = ?').get(id) as {
+    role: string;
+    active: number;
+    name: string;
+    session_version: number;
+  };
+const unitsOf = (id: string) =>
+  (env.database.sqlite.prepare('SELECT unit_id FROM user_units WHERE user_id = ? ORDER BY unit_id').all(id) as { unit_id: string }[]).map((r) => r.unit_id);
 const events = (action: string, entityId: string) =>
-  env.database.sqlite.prepare('SELECT actor_id, before, after FROM audit_events WHERE action = ? AND entity_id = ? ORDER BY id').all(action, entityId) as { actor_id: string; before: string | null; after: string | null }[];
+  env.database.sqlite.prepare('SELECT actor_id, before, after FROM audit_events WHERE action = ? AND entity_id = ? ORDER BY id').all(action, entityId) as {
+    actor_id: string;
+    before: string | null;
+    after: string | null;
+  }[];
 const tokens = (userId: string) => (env.database.sqlite.prepare('SELECT COUNT(*) AS n FROM email_tokens WHERE user_id = ?').get(userId) as { n: number }).n;
 
 describe('a North-only administrator and a North+South educator', () => {
@@ -95,7 +107,12 @@ describe('a North-only administrator and a North+South educator', () => {
   });
 
   it('cannot place anyone in South, nor move a North nurse there', async () => {
-    const created = await as(northAdmin, 'post', '/api/admin/users', { name: 'Odile Marsh', email: 'odile.marsh@warmfold.test', role: 'nurse', unitIds: ['unit-north', 'unit-south'] });
+    const created = await as(northAdmin, 'post', '/api/admin/users', {
+      name: 'Odile Marsh',
+      email: 'odile.marsh@warmfold.test',
+      role: 'nurse',
+      unitIds: ['unit-north', 'unit-south'],
+    });
     expect(created.status).toBe(403);
     const moved = await as(northAdmin, 'patch', '/api/admin/users/u-nurse-2', { unitIds: ['unit-south'] });
     expect(moved.status).toBe(403);
@@ -103,7 +120,7 @@ describe('a North-only administrator and a North+South educator', () => {
   });
 });
 
-describe('changes inside the administrator\'s units are audited with before and after', () => {
+describe("changes inside the administrator's units are audited with before and after", () => {
   it('a role change of a North-only nurse', async () => {
     const res = await as(northAdmin, 'patch', '/api/admin/users/u-nurse-4', { role: 'charge' });
     expect(res.status).toBe(200);

@@ -37,7 +37,10 @@ const CASES: Case[] = [
   { id: 'm-e', weeks: 28, days: 2, birth: BIRTH, readings: [{ id: 'r-e1', at: min(20), probe: 3690 }] }, // probe only: none recorded
   { id: 'm-f', weeks: 32, days: 0, birth: BIRTH, readings: [{ id: 'r-f1', at: min(200), remote: 3500, site: 'axilla' }] }, // 32+0: not eligible
   {
-    id: 'm-g', weeks: 26, days: 5, birth: BIRTH,
+    id: 'm-g',
+    weeks: 26,
+    days: 5,
+    birth: BIRTH,
     readings: [
       { id: 'r-g1', at: min(10), remote: 3690, site: 'other' }, // neither axillary nor rectal: not the measure's
       { id: 'r-g2', at: min(50), remote: 3600, site: 'axilla' }, // the first that counts: too cold
@@ -46,14 +49,20 @@ const CASES: Case[] = [
   { id: 'm-h', weeks: 30, days: 4, birth: BIRTH, readings: [{ id: 'r-h1', at: min(60), remote: 3750, site: 'axilla' }] }, // 37.5 at 60 min: both bounds inclusive, met
   // February.
   {
-    id: 'm-i', weeks: 29, days: 0, birth: FEB_BIRTH,
+    id: 'm-i',
+    weeks: 29,
+    days: 0,
+    birth: FEB_BIRTH,
     readings: [
       { id: 'r-i1', at: min(30, FEB_BIRTH), remote: 3650, site: 'axilla' },
       { id: 'r-i2', at: min(30, FEB_BIRTH), remote: 3590, site: 'axilla', replaces: 'r-i1' }, // the correction stands: too cold
     ],
   },
   {
-    id: 'm-j', weeks: 24, days: 6, birth: FEB_BIRTH,
+    id: 'm-j',
+    weeks: 24,
+    days: 6,
+    birth: FEB_BIRTH,
     readings: [
       { id: 'r-j1', at: min(10, FEB_BIRTH), remote: 3660, site: 'axilla', error: true }, // entered in error
       { id: 'r-j2', at: min(90, FEB_BIRTH), remote: 3640, site: 'axilla' }, // too cold and too late
@@ -81,7 +90,8 @@ beforeAll(async () => {
 });
 afterAll(() => env.close());
 
-const measure = (token: string, q = 'unitId=unit-north&from=2027-01-01&to=2027-02-28') => request(env.app).get(`/api/reports/admission-measure?${q}`).set('Authorization', `Bearer ${token}`);
+const measure = (token: string, q = 'unitId=unit-north&from=2027-01-01&to=2027-02-28') =>
+  request(env.app).get(`/api/reports/admission-measure?${q}`).set('Authorization', `Bearer ${token}`);
 
 describe('admission-temperature measure (NNAP 2021 Measures Guide), hand-computed', () => {
   it('January 2 of 7 (A, H met), February 0 of 2; overall 2 of 9', async () => {
@@ -137,7 +147,18 @@ describe('admission data validated on admission', () => {
     request(env.app)
       .post('/api/units/unit-north/infants')
       .set('Authorization', `Bearer ${charge}`)
-      .send({ bedId: 'bed-N09', displayName: 'Baby Merrow', birthAt: '2027-06-01T08:00:00Z', gestationWeeks: 30, gestationDays: 2, birthWeightGrams: 1400, heatSource: 'incubator', controlMode: 'air-servo', setTemperature: 34, ...over });
+      .send({
+        bedId: 'bed-N09',
+        displayName: 'Baby Merrow',
+        birthAt: '2027-06-01T08:00:00Z',
+        gestationWeeks: 30,
+        gestationDays: 2,
+        birthWeightGrams: 1400,
+        heatSource: 'incubator',
+        controlMode: 'air-servo',
+        setTemperature: 34,
+        ...over,
+      });
 
   it('a birth in the future, after admission, or more than a year before is refused on birthAt', async () => {
     const future = await admit({ birthAt: '2027-06-01T12:00:00Z' });

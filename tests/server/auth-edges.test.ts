@@ -24,7 +24,14 @@ const signInAs = (email: string, password: string, cookie?: string) => {
   return r.send({ email, password });
 };
 /** The answer without what differs on every request. */
-const shape = (res: request.Response) => ({ status: res.status, body: res.body, retryAfter: res.headers['retry-after'] !== undefined, keys: Object.keys(res.headers).filter((k) => k !== 'date' && k !== 'content-length' && k !== 'etag').sort() });
+const shape = (res: request.Response) => ({
+  status: res.status,
+  body: res.body,
+  retryAfter: res.headers['retry-after'] !== undefined,
+  keys: Object.keys(res.headers)
+    .filter((k) => k !== 'date' && k !== 'content-length' && k !== 'etag')
+    .sort(),
+});
 
 describe('password-reset requests', () => {
   it('answer a known and an unknown address alike, and send the mail only after the answer', async () => {
@@ -63,7 +70,14 @@ describe('password-reset requests', () => {
 
   it('are throttled by client address across many e-mails', async () => {
     const statuses: number[] = [];
-    for (let i = 0; i < 11; i++) statuses.push((await request(env.app).post('/api/auth/password-reset/request').send({ email: `someone${i}@warmfold.test` })).status);
+    for (let i = 0; i < 11; i++)
+      statuses.push(
+        (
+          await request(env.app)
+            .post('/api/auth/password-reset/request')
+            .send({ email: `someone${i}@warmfold.test` })
+        ).status,
+      );
     expect(statuses.slice(0, 10).every((s) => s === 202)).toBe(true);
     expect(statuses[10]).toBe(429);
   });

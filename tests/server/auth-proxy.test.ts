@@ -20,8 +20,7 @@ async function envWith(trustProxy: false | string[]) {
   return env;
 }
 
-const lastAddress = (env: TestEnv) =>
-  (env.database.sqlite.prepare('SELECT address FROM sign_in_attempts ORDER BY id DESC LIMIT 1').get() as { address: string }).address;
+const lastAddress = (env: TestEnv) => (env.database.sqlite.prepare('SELECT address FROM sign_in_attempts ORDER BY id DESC LIMIT 1').get() as { address: string }).address;
 const tryWith = (env: TestEnv, forwardedFor: string, email = 'someone@warmfold.test') =>
   request(env.app).post('/api/auth/sign-in').set('X-Forwarded-For', forwardedFor).send({ email, password: 'not-the-password-at-all' });
 
@@ -51,7 +50,13 @@ it('the request log names the address the throttle used, never one the client ch
   const env = await envWith(false);
   for (const trustProxy of [false, ['loopback']] as const) {
     const lines: string[] = [];
-    const app = createApp({ db: env.database, mailer: env.mailer, clock: env.clock, config: { ...env.config, trustProxy: trustProxy === false ? false : [...trustProxy], logRequests: true }, log: (l) => lines.push(l) });
+    const app = createApp({
+      db: env.database,
+      mailer: env.mailer,
+      clock: env.clock,
+      config: { ...env.config, trustProxy: trustProxy === false ? false : [...trustProxy], logRequests: true },
+      log: (l) => lines.push(l),
+    });
     await request(app).get('/api/ping').set('X-Forwarded-For', '203.0.113.7');
     const line = lines.find((l) => l.includes('/api/ping'))!;
     if (trustProxy === false) {

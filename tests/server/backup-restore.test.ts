@@ -71,7 +71,10 @@ describe('npm run backup, then the documented restore', () => {
   it('copies the database, the uploads and the checkpoints elsewhere, and restores them whole', async () => {
     const admin = await env.signIn(DEMO.admin);
     const roster = 'name,email,role,unit\nWren Alder,wren.alder@warmfold.test,nurse,unit-north\n';
-    const preview = await request(env.app).post('/api/admin/roster/preview').set('Authorization', `Bearer ${admin}`).attach('file', Buffer.from(roster), { filename: 'roster.csv', contentType: 'text/csv' });
+    const preview = await request(env.app)
+      .post('/api/admin/roster/preview')
+      .set('Authorization', `Bearer ${admin}`)
+      .attach('file', Buffer.from(roster), { filename: 'roster.csv', contentType: 'text/csv' });
     expect(preview.status).toBe(201);
     const uploadsDir = path.join(env.dir, 'uploads');
     const uploaded = fs.readdirSync(uploadsDir);
@@ -85,7 +88,8 @@ describe('npm run backup, then the documented restore', () => {
     expect(path.dirname(folder!)).toBe(elsewhere);
     expect(mode(elsewhere)).toBe(0o700);
     expect(mode(folder!)).toBe(0o700);
-    for (const f of ['warmfold.db', 'manifest.json', 'audit-checkpoints.log', `uploads/${uploaded[0]}`]) expect({ f, mode: mode(path.join(folder!, f)) }).toEqual({ f, mode: 0o600 });
+    for (const f of ['warmfold.db', 'manifest.json', 'audit-checkpoints.log', `uploads/${uploaded[0]}`])
+      expect({ f, mode: mode(path.join(folder!, f)) }).toEqual({ f, mode: 0o600 });
     expect(fs.readFileSync(path.join(folder!, 'uploads', uploaded[0]!))).toEqual(fs.readFileSync(path.join(uploadsDir, uploaded[0]!)));
 
     // Work goes on after the backup, then the disk is lost: the reading below is what a restore gives up.

@@ -28,7 +28,7 @@ const warmBody = (over: Record<string, unknown> = {}) => ({
 });
 
 describe('warming an empty bed for the next admission', () => {
-  it('only the unit\'s charge nurse marks a bed, and only an empty one', async () => {
+  it("only the unit's charge nurse marks a bed, and only an empty one", async () => {
     expect((await request(env.app).post('/api/units/unit-north/beds/bed-N10/warming').set(auth('nurse')).send(warmBody())).status).toBe(403);
     expect((await request(env.app).post('/api/units/unit-north/beds/bed-N10/warming').set(auth('southCharge')).send(warmBody())).status).toBe(403);
     expect((await request(env.app).post('/api/units/unit-north/beds/bed-N10/warming').send(warmBody())).status).toBe(401);
@@ -48,21 +48,38 @@ describe('warming an empty bed for the next admission', () => {
     expect(res.status).toBe(400);
     expect(Object.keys(res.body.error.fields ?? {})).toEqual(expect.arrayContaining(['heatSource', 'expectedInfant', 'extra']));
     // 45 °C is above any incubator's or warmer's set range (IEC 60601-2-19/-2-21 cap air at 39 °C).
-    const hot = await request(env.app).post('/api/units/unit-north/beds/bed-N10/warming').set(auth('charge')).send(warmBody({ setTemperature: 45 }));
+    const hot = await request(env.app)
+      .post('/api/units/unit-north/beds/bed-N10/warming')
+      .set(auth('charge'))
+      .send(warmBody({ setTemperature: 45 }));
     expect(hot.status).toBe(400);
     expect(hot.body.error.fields).toHaveProperty('setTemperature');
     // A start in the future (the test clock is 10:00 UTC) is refused on its own field.
-    const future = await request(env.app).post('/api/units/unit-north/beds/bed-N10/warming').set(auth('charge')).send(warmBody({ since: '2026-11-16T12:00:00Z' }));
+    const future = await request(env.app)
+      .post('/api/units/unit-north/beds/bed-N10/warming')
+      .set(auth('charge'))
+      .send(warmBody({ since: '2026-11-16T12:00:00Z' }));
     expect(future.status).toBe(400);
     expect(future.body.error.fields).toHaveProperty('since');
     expect(count(env.database, 'bed_warmings')).toBe(before);
   });
 
-  it('the board\'s unit lists the warming bed with its settings; °F input is stored in °C', async () => {
+  it("the board's unit lists the warming bed with its settings; °F input is stored in °C", async () => {
     // 94.1 °F = 34.5 °C ((94.1 − 32) × 5/9 = 34.5; the Fahrenheit–Celsius conversion).
-    const res = await request(env.app).post('/api/units/unit-north/beds/bed-N10/warming').set(auth('charge')).send(warmBody({ setTemperature: 94.1, tempUnit: 'F' }));
+    const res = await request(env.app)
+      .post('/api/units/unit-north/beds/bed-N10/warming')
+      .set(auth('charge'))
+      .send(warmBody({ setTemperature: 94.1, tempUnit: 'F' }));
     expect(res.status).toBe(201);
-    expect(res.body.warming).toMatchObject({ bedId: 'bed-N10', heatSource: 'incubator', controlMode: 'air-servo', setCenti: 3450, since: '2026-11-16T09:40:00.000Z', expectedInfant: 'Twin 1 from delivery suite, 31 weeks', startedBy: 'Marta Lindqvist' });
+    expect(res.body.warming).toMatchObject({
+      bedId: 'bed-N10',
+      heatSource: 'incubator',
+      controlMode: 'air-servo',
+      setCenti: 3450,
+      since: '2026-11-16T09:40:00.000Z',
+      expectedInfant: 'Twin 1 from delivery suite, 31 weeks',
+      startedBy: 'Marta Lindqvist',
+    });
     const list = await request(env.app).get('/api/units/unit-north/warmings').set(auth('nurse'));
     expect(list.status).toBe(200);
     expect(list.body.warmings.map((w: { bedId: string }) => w.bedId)).toEqual(['bed-N10']);
@@ -76,8 +93,15 @@ describe('warming an empty bed for the next admission', () => {
 
   it('admission into the warmed bed ends the warming and names the infant', async () => {
     const admit = await request(env.app).post('/api/units/unit-north/infants').set(auth('charge')).send({
-      bedId: 'bed-N10', displayName: 'Baby Quenby', birthAt: '2026-11-16T08:10:00Z', gestationWeeks: 31, gestationDays: 0, birthWeightGrams: 1500,
-      heatSource: 'incubator', controlMode: 'air-servo', setTemperature: 34.5,
+      bedId: 'bed-N10',
+      displayName: 'Baby Quenby',
+      birthAt: '2026-11-16T08:10:00Z',
+      gestationWeeks: 31,
+      gestationDays: 0,
+      birthWeightGrams: 1500,
+      heatSource: 'incubator',
+      controlMode: 'air-servo',
+      setTemperature: 34.5,
     });
     expect(admit.status).toBe(201);
     expect((await request(env.app).get('/api/units/unit-north/warmings').set(auth('charge'))).body.warmings).toEqual([]);
@@ -86,7 +110,14 @@ describe('warming an empty bed for the next admission', () => {
   });
 
   it('a warming can be stopped, once', async () => {
-    expect((await request(env.app).post('/api/units/unit-north/beds/bed-N11/warming').set(auth('charge')).send(warmBody({ heatSource: 'radiant-warmer', controlMode: 'skin-servo', setTemperature: 36.5 }))).status).toBe(201);
+    expect(
+      (
+        await request(env.app)
+          .post('/api/units/unit-north/beds/bed-N11/warming')
+          .set(auth('charge'))
+          .send(warmBody({ heatSource: 'radiant-warmer', controlMode: 'skin-servo', setTemperature: 36.5 }))
+      ).status,
+    ).toBe(201);
     expect((await request(env.app).post('/api/units/unit-north/beds/bed-N11/warming/end').set(auth('charge')).send({})).status).toBe(200);
     expect((await request(env.app).post('/api/units/unit-north/beds/bed-N11/warming/end').set(auth('charge')).send({})).status).toBe(409);
     expect((await request(env.app).get('/api/units/unit-north/warmings').set(auth('charge'))).body.warmings).toEqual([]);

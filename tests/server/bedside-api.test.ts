@@ -279,7 +279,9 @@ describe('POST /api/readings/:id/corrections', () => {
     expect((await post(`/readings/${randomUUID()}/corrections`, body)).status).toBe(404);
     const south = env.database.sqlite.prepare("SELECT id FROM readings WHERE unit_id = 'unit-south' LIMIT 1").get() as { id: string };
     expect((await post(`/readings/${south.id}/corrections`, body)).status).toBe(403);
-    const north = env.database.sqlite.prepare("SELECT id FROM readings r WHERE unit_id = 'unit-north' AND NOT EXISTS (SELECT 1 FROM readings y WHERE y.replaces_id = r.id) LIMIT 1").get() as { id: string };
+    const north = env.database.sqlite
+      .prepare("SELECT id FROM readings r WHERE unit_id = 'unit-north' AND NOT EXISTS (SELECT 1 FROM readings y WHERE y.replaces_id = r.id) LIMIT 1")
+      .get() as { id: string };
     expect((await post(`/readings/${north.id}/corrections`, body, educator)).status).toBe(403);
     expect((await request(env.app).post(`/api/readings/${north.id}/corrections`).send(body)).status).toBe(401);
   });

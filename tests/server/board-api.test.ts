@@ -101,10 +101,16 @@ describe('POST /api/units/:unitId/infants (admit)', () => {
   });
 
   it('refuses a bed of another unit (400) and a taken bed (409)', async () => {
-    const south = await request(env.app).post('/api/units/unit-north/infants').set(auth('charge')).send(admitBody({ bedId: 'bed-S09' }));
+    const south = await request(env.app)
+      .post('/api/units/unit-north/infants')
+      .set(auth('charge'))
+      .send(admitBody({ bedId: 'bed-S09' }));
     expect(south.status).toBe(400);
     expect(south.body.error.fields).toHaveProperty('bedId');
-    const taken = await request(env.app).post('/api/units/unit-north/infants').set(auth('charge')).send(admitBody({ bedId: 'bed-N01' }));
+    const taken = await request(env.app)
+      .post('/api/units/unit-north/infants')
+      .set(auth('charge'))
+      .send(admitBody({ bedId: 'bed-N01' }));
     expect(taken.status).toBe(409);
     expect(taken.body.error.fields).toHaveProperty('bedId');
   });
@@ -157,7 +163,10 @@ describe('move, change and discharge', () => {
   it('discharges: the bed frees, open flags close as discharged, the record stays', async () => {
     expect((await request(env.app).post('/api/infants/inf-ashgrove/discharge').set(auth('nurse')).send({})).status).toBe(403);
     expect((await request(env.app).post('/api/infants/nope/discharge').set(auth('charge')).send({})).status).toBe(404);
-    const bad = await request(env.app).post('/api/infants/inf-ashgrove/discharge').set(auth('charge')).send({ reason: 'home', note: 'x'.repeat(400) });
+    const bad = await request(env.app)
+      .post('/api/infants/inf-ashgrove/discharge')
+      .set(auth('charge'))
+      .send({ reason: 'home', note: 'x'.repeat(400) });
     expect(bad.status).toBe(400);
     expect(bad.body.error.fields).toHaveProperty('note');
     const res = await request(env.app).post('/api/infants/inf-ashgrove/discharge').set(auth('charge')).send({ reason: 'home', note: 'Home with parents.' });
@@ -167,7 +176,9 @@ describe('move, change and discharge', () => {
       .prepare("SELECT COUNT(*) AS n FROM flags f LEFT JOIN flag_resolutions r ON r.flag_id = f.id WHERE f.infant_id = 'inf-ashgrove' AND r.flag_id IS NULL")
       .get() as { n: number };
     expect(open.n).toBe(0);
-    const how = env.database.sqlite.prepare("SELECT DISTINCT how FROM flag_resolutions r JOIN flags f ON f.id = r.flag_id WHERE f.infant_id = 'inf-ashgrove' AND r.how = 'discharged'").all();
+    const how = env.database.sqlite
+      .prepare("SELECT DISTINCT how FROM flag_resolutions r JOIN flags f ON f.id = r.flag_id WHERE f.infant_id = 'inf-ashgrove' AND r.how = 'discharged'")
+      .all();
     expect(how).toHaveLength(1);
     expect((await board()).beds.find((b) => b.label === 'N01')!.infant).toBeNull();
     const row = env.database.sqlite.prepare("SELECT status, bed_id FROM infants WHERE id = 'inf-ashgrove'").get() as { status: string; bed_id: string | null };
@@ -195,7 +206,9 @@ describe('nurses and assignments', () => {
     expect(south.status).toBe(400);
     expect(south.body.error.fields).toHaveProperty('nurseId');
     expect((await request(env.app).post('/api/units/unit-north/assignments').set(auth('nurse')).send({ infantId: 'inf-brightwater', nurseId: 'u-nurse-2' })).status).toBe(403);
-    expect((await request(env.app).post('/api/units/unit-north/assignments').set(auth('southCharge')).send({ infantId: 'inf-brightwater', nurseId: 'u-nurse-2' })).status).toBe(403);
+    expect((await request(env.app).post('/api/units/unit-north/assignments').set(auth('southCharge')).send({ infantId: 'inf-brightwater', nurseId: 'u-nurse-2' })).status).toBe(
+      403,
+    );
     expect(count(env.database, 'assignments')).toBe(before);
 
     env.clock.advanceMinutes(1);
@@ -243,7 +256,9 @@ describe('POST /api/escalations/:id/acknowledge', () => {
     expect(esc.note).toBe('Kofi is on his way.');
     const again = await request(env.app).post(`/api/escalations/${escalationId}/acknowledge`).set(auth('charge')).send({});
     expect(again.status).toBe(409);
-    const audit = env.database.sqlite.prepare("SELECT COUNT(*) AS n FROM audit_events WHERE action = 'escalation-acknowledged' AND entity_id = ?").get(escalationId) as { n: number };
+    const audit = env.database.sqlite.prepare("SELECT COUNT(*) AS n FROM audit_events WHERE action = 'escalation-acknowledged' AND entity_id = ?").get(escalationId) as {
+      n: number;
+    };
     expect(audit.n).toBe(1);
   });
 });

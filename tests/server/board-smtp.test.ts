@@ -21,7 +21,11 @@ afterAll(async () => {
 
 async function caught(expected: number): Promise<{ to_addresses: string; subject: string; text_body: string }[]> {
   for (let i = 0; i < 50; i++) {
-    const rows = env.database.sqlite.prepare('SELECT to_addresses, subject, text_body FROM caught_mail ORDER BY id').all() as { to_addresses: string; subject: string; text_body: string }[];
+    const rows = env.database.sqlite.prepare('SELECT to_addresses, subject, text_body FROM caught_mail ORDER BY id').all() as {
+      to_addresses: string;
+      subject: string;
+      text_body: string;
+    }[];
     if (rows.length >= expected) return rows;
     await new Promise((r) => setTimeout(r, 50));
   }

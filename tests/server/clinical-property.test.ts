@@ -38,12 +38,17 @@ type Step =
 
 interface Plan {
   mode: ControlMode;
-  steps: Array<{ wait: number; step: Step }>;
+  steps: { wait: number; step: Step }[];
 }
 
 // Temperatures typed in tenths of °C; mostly normal, with every band reachable (WHO 1997 bands).
 const tenths = (lo: number, hi: number) => fc.integer({ min: lo, max: hi }).map((n) => n / 10);
-const remote = fc.oneof({ weight: 6, arbitrary: tenths(365, 375) }, { weight: 2, arbitrary: tenths(358, 364) }, { weight: 1, arbitrary: tenths(310, 357) }, { weight: 1, arbitrary: tenths(376, 390) });
+const remote = fc.oneof(
+  { weight: 6, arbitrary: tenths(365, 375) },
+  { weight: 2, arbitrary: tenths(358, 364) },
+  { weight: 1, arbitrary: tenths(310, 357) },
+  { weight: 1, arbitrary: tenths(376, 390) },
+);
 const probe = fc.oneof({ weight: 5, arbitrary: tenths(360, 375) }, { weight: 1, arbitrary: tenths(345, 385) });
 const mode = fc.constantFrom<ControlMode>('skin-servo', 'air-servo', 'manual');
 
@@ -77,7 +82,11 @@ const step: fc.Arbitrary<Step> = fc.oneof(
 );
 
 // Waits: mostly minutes to a few hours, now and then a day (stays reach 30 days).
-const wait = fc.oneof({ weight: 8, arbitrary: fc.integer({ min: 1, max: 150 }) }, { weight: 2, arbitrary: fc.integer({ min: 150, max: 600 }) }, { weight: 1, arbitrary: fc.integer({ min: 600, max: 2 * 24 * 60 }) });
+const wait = fc.oneof(
+  { weight: 8, arbitrary: fc.integer({ min: 1, max: 150 }) },
+  { weight: 2, arbitrary: fc.integer({ min: 150, max: 600 }) },
+  { weight: 1, arbitrary: fc.integer({ min: 600, max: 2 * 24 * 60 }) },
+);
 
 const plan: fc.Arbitrary<Plan> = fc.record({
   mode,
@@ -163,7 +172,7 @@ async function runStay(p: Plan): Promise<void> {
 it('every view equals the reference model at random instants of random stays (WHO 1997 bands, ECRI manual-mode check, common-practice gap and check rules)', async () => {
   const seed = process.env.CLINICAL_SEED ? Number(process.env.CLINICAL_SEED) : Date.now() % 2_147_483_647;
   const numRuns = process.env.CLINICAL_RUNS ? Number(process.env.CLINICAL_RUNS) : 8;
-  // eslint-disable-next-line no-console
+
   console.log(`clinical property: seed ${seed}, ${numRuns} stays (replay with CLINICAL_SEED=${seed})`);
   await fc.assert(fc.asyncProperty(plan, runStay), { seed, numRuns, endOnFailure: true, verbose: 1 });
 }, 240_000);

@@ -225,7 +225,9 @@ describe('the check clock knows the mode', () => {
 
 describe('late entries and settings', () => {
   const today = () => new Intl.DateTimeFormat('en-CA', { timeZone: 'Europe/London' }).format(env.clock.now());
-  const report = async (from: string, to: string) => (await ward.ok('educator', 'get', `/reports?unitId=${UNIT}&from=${from}&to=${to}`)).body.report ?? (await ward.ok('educator', 'get', `/reports?unitId=${UNIT}&from=${from}&to=${to}`)).body;
+  const report = async (from: string, to: string) =>
+    (await ward.ok('educator', 'get', `/reports?unitId=${UNIT}&from=${from}&to=${to}`)).body.report ??
+    (await ward.ok('educator', 'get', `/reports?unitId=${UNIT}&from=${from}&to=${to}`)).body;
   const lateOf = (r: any) => r.onTime.overall.checks - r.onTime.overall.onTime;
   const overdueFlagsOf = (r: any) => r.responseTimes.find((x: any) => x.kind === 'overdue-check')?.flags ?? 0;
 
@@ -254,7 +256,7 @@ describe('late entries and settings', () => {
     expect(overdueFlagsOf(after)).toBeLessThanOrEqual(overdueFlagsOf(withOverdue));
   });
 
-  it('changing the interval 120 → 90 or the time zone leaves last week\'s figures unchanged, and reports mark the change (common practice)', async () => {
+  it("changing the interval 120 → 90 or the time zone leaves last week's figures unchanged, and reports mark the change (common practice)", async () => {
     const id = await admit();
     const day = today();
     // Checks 100 and 110 min apart: on time at 120, and some would be late at 90.

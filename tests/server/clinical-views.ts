@@ -17,7 +17,7 @@ export const UNIT = 'unit-north';
 /** One view's account of an infant: open flags and clocks, as far as the view tells them. */
 export interface ViewState {
   view: string;
-  flags: Array<{
+  flags: {
     id: string;
     kind: string;
     severity?: string;
@@ -26,7 +26,7 @@ export interface ViewState {
     unearnedEscalated?: boolean;
     /** The severities its escalations went out at, oldest first (when the view says). */
     escalationSeverities?: string[];
-  }>;
+  }[];
   next?: { clock: string; dueAt: string } | null;
   remoteDueAt?: string | null;
   manualDueAt?: string | null;
@@ -49,8 +49,7 @@ export interface Typed {
   confirmedImplausible?: boolean;
 }
 
-const centi = (v: number | null | undefined, unit: 'C' | 'F' = 'C') =>
-  v == null ? null : unit === 'C' ? Math.round(v * 100) : Math.round(((v - 32) * 500) / 9);
+const centi = (v: number | null | undefined, unit: 'C' | 'F' = 'C') => (v == null ? null : unit === 'C' ? Math.round(v * 100) : Math.round(((v - 32) * 500) / 9));
 
 export class Ward {
   private tokens: Partial<Record<Who, string>> = {};
@@ -74,7 +73,9 @@ export class Ward {
   /** A request as someone, signing in again if the clock has aged the session. */
   async call(who: Who, method: 'get' | 'post' | 'patch', path: string, body?: object): Promise<request.Response> {
     const send = async (fresh: boolean) => {
-      const req = request(this.env.app)[method](`/api${path}`).set({ Authorization: `Bearer ${await this.token(who, fresh)}` });
+      const req = request(this.env.app)
+        [method](`/api${path}`)
+        .set({ Authorization: `Bearer ${await this.token(who, fresh)}` });
       return body ? req.send(body) : req;
     };
     const res = await send(false);
@@ -156,7 +157,12 @@ export class Ward {
     const body =
       typed === 'entered-in-error'
         ? { id, reason: 'entered-in-error', note: 'Charted on the wrong infant.' }
-        : { id, reason: 'corrected-value', note: 'Typed the wrong value.', values: { unit: 'C', ...typed, ...(typed.remote != null && !typed.remoteSite ? { remoteSite: 'axilla' } : {}) } };
+        : {
+            id,
+            reason: 'corrected-value',
+            note: 'Typed the wrong value.',
+            values: { unit: 'C', ...typed, ...(typed.remote != null && !typed.remoteSite ? { remoteSite: 'axilla' } : {}) },
+          };
     const res = await this.ok('nurse', 'post', `/readings/${readingId}/corrections`, body);
     h.readings.push(
       typed === 'entered-in-error'
@@ -248,7 +254,11 @@ export class Ward {
         ...clocksOf(handover?.checks),
       },
       // The queue is the educator's list: it names each flag's kind; severity where it gives one.
-      { view: 'review queue', flags: queue.filter((i: any) => i.closedAt == null && !i.withdrawn && i.status !== 'withdrawn').map((i: any) => flagOf({ ...i, id: i.flagId })), severityOptional: true },
+      {
+        view: 'review queue',
+        flags: queue.filter((i: any) => i.closedAt == null && !i.withdrawn && i.status !== 'withdrawn').map((i: any) => flagOf({ ...i, id: i.flagId })),
+        severityOptional: true,
+      },
     ];
     return out;
   }
@@ -282,7 +292,7 @@ function flagOf(f: any): ViewState['flags'][number] {
 
 function clocksOf(checks: any): Omit<ViewState, 'view' | 'flags'> {
   if (!checks) return { next: null };
-  const rechecks: Array<{ dueAt: string }> = checks.rechecks ?? [];
+  const rechecks: { dueAt: string }[] = checks.rechecks ?? [];
   return {
     next: checks.next ? { clock: checks.next.clock, dueAt: checks.next.dueAt } : null,
     remoteDueAt: checks.remote?.dueAt ?? null,
@@ -309,8 +319,17 @@ export function modelView(ward: Ward, infantId: string, evaluate: (h: ModelHisto
     view: 'reference model',
     // After a sweep at `now`: escalated at its current severity once open longer than that
     // severity's delay since it reached it (a worsening starts a new escalation).
-    flags: state.open.map((f) => ({ id: f.key, kind: f.kind, severity: f.severity, band: f.kind === 'cold-stress' ? f.band! : null, escalated: f.escalateAfter != null && ward.now() > f.escalateAfter })),
-    next: { clock: state.clocks.nextDueAt === state.clocks.recheckDueAt ? 'recheck' : state.clocks.nextDueAt === state.clocks.manualDueAt ? 'manual' : 'remote', dueAt: iso(state.clocks.nextDueAt)! },
+    flags: state.open.map((f) => ({
+      id: f.key,
+      kind: f.kind,
+      severity: f.severity,
+      band: f.kind === 'cold-stress' ? f.band! : null,
+      escalated: f.escalateAfter != null && ward.now() > f.escalateAfter,
+    })),
+    next: {
+      clock: state.clocks.nextDueAt === state.clocks.recheckDueAt ? 'recheck' : state.clocks.nextDueAt === state.clocks.manualDueAt ? 'manual' : 'remote',
+      dueAt: iso(state.clocks.nextDueAt)!,
+    },
     remoteDueAt: iso(state.clocks.remoteDueAt),
     manualDueAt: iso(state.clocks.manualDueAt),
     recheckDueAt: iso(state.clocks.recheckDueAt),

@@ -30,7 +30,7 @@ const openFlagIds = (infantId: string) =>
   (
     env.database.sqlite
       .prepare('SELECT f.id FROM flags f LEFT JOIN flag_resolutions r ON r.flag_id = f.id WHERE f.infant_id = ? AND r.flag_id IS NULL ORDER BY f.id')
-      .all(infantId) as Array<{ id: string }>
+      .all(infantId) as { id: string }[]
   ).map((r) => r.id);
 
 describe('admission takes the hospital number and sex', () => {
@@ -51,7 +51,9 @@ describe('admission takes the hospital number and sex', () => {
     expect(res.status).toBe(201);
     const id = res.body.infant.id as string;
     expect(env.database.sqlite.prepare('SELECT hospital_number, sex FROM infants WHERE id = ?').get(id)).toEqual({ hospital_number: 'RX-204/7', sex: 'female' });
-    const fhir = JSON.parse((await get(`/exports/infants/${id}/fhir`, educator)).text) as { entry: Array<{ resource: { resourceType: string; identifier?: Array<{ value: string }>; gender?: string } }> };
+    const fhir = JSON.parse((await get(`/exports/infants/${id}/fhir`, educator)).text) as {
+      entry: { resource: { resourceType: string; identifier?: { value: string }[]; gender?: string } }[];
+    };
     const patient = fhir.entry.find((e) => e.resource.resourceType === 'Patient')!.resource;
     expect(patient.identifier?.[0]?.value).toBe('RX-204/7');
     expect(patient.gender).toBe('female');
@@ -114,7 +116,7 @@ describe('discharge with a reason and a destination', () => {
     for (const flagId of open) {
       const resolution = env.database.sqlite.prepare('SELECT how FROM flag_resolutions WHERE flag_id = ?').get(flagId) as { how: string };
       expect(resolution.how).toBe('discharged');
-      const closed = env.database.sqlite.prepare("SELECT detail FROM flag_events WHERE flag_id = ? AND event = 'closed'").all(flagId) as Array<{ detail: string }>;
+      const closed = env.database.sqlite.prepare("SELECT detail FROM flag_events WHERE flag_id = ? AND event = 'closed'").all(flagId) as { detail: string }[];
       expect(closed).toHaveLength(1);
       expect(JSON.parse(closed[0]!.detail)).toMatchObject({ how: 'discharged', reason: 'discharged' });
       const history = await get(`/flags/${flagId}/history`, nurse);
@@ -140,7 +142,9 @@ describe('discharge with a reason and a destination', () => {
     expect((await post('/infants/inf-ashgrove/readings', { id: randomUUID(), unit: 'C', probe: 36.6 }, nurse)).status).toBe(409);
     expect((await post('/infants/inf-ashgrove/placement', { id: randomUUID(), position: 'side' }, nurse)).status).toBe(409);
     expect((await post('/infants/inf-ashgrove/discharge', { reason: 'home' })).status).toBe(409);
-    const fhir = JSON.parse((await get('/exports/infants/inf-ashgrove/fhir', educator)).text) as { entry: Array<{ resource: { resourceType: string; status?: string; hospitalization?: { dischargeDisposition?: { coding: Array<{ code: string }>; text: string } } } }> };
+    const fhir = JSON.parse((await get('/exports/infants/inf-ashgrove/fhir', educator)).text) as {
+      entry: { resource: { resourceType: string; status?: string; hospitalization?: { dischargeDisposition?: { coding: { code: string }[]; text: string } } } }[];
+    };
     const encounter = fhir.entry.find((e) => e.resource.resourceType === 'Encounter')!.resource;
     expect(encounter.status).toBe('finished');
     expect(encounter.hospitalization?.dischargeDisposition?.coding[0]?.code).toBe('other-hcf');

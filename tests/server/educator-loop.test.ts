@@ -101,7 +101,10 @@ describe('a teaching note, acknowledged, amended and withdrawn', () => {
     const res = await post(`/api/reviews/${reviewId}/amend`, educator, { note: 'Check the probe site and the incubator humidity when the gap widens.' });
     expect(res.status).toBe(201);
     expect(res.body.review.version).toBe(2);
-    expect(res.body.review.versions.map((v: { note: string }) => v.note)).toEqual(['Check the probe site when the gap widens.', 'Check the probe site and the incubator humidity when the gap widens.']);
+    expect(res.body.review.versions.map((v: { note: string }) => v.note)).toEqual([
+      'Check the probe site when the gap widens.',
+      'Check the probe site and the incubator humidity when the gap widens.',
+    ]);
     expect(res.body.review.acknowledged).toBeNull();
     expect(count(env.database, 'review_events')).toBe(before + 1);
     const stored = env.database.sqlite.prepare('SELECT note FROM reviews WHERE id = ?').get(reviewId) as { note: string };
@@ -232,7 +235,7 @@ describe('the weekly digest in the unit’s zone and the reader’s settings', (
     env.mailer.sent.length = 0;
     await sendWeeklyDigests(env.app.context, new Date('2026-11-16T10:00:00Z'), { unitIds: ['unit-north'], force: true });
     const mail = env.mailer.sent.find((m) => m.to.includes(DEMO.educator))!;
-    expect(mail.text).toContain("time zone, Europe/London");
+    expect(mail.text).toContain('time zone, Europe/London');
     expect(mail.text).not.toContain('UTC');
     const itemLines = mail.text.split('\n').filter((l) => l.startsWith('  ') && l.includes(' shift · '));
     expect(itemLines.length).toBeGreaterThan(0);

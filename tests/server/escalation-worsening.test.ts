@@ -54,8 +54,7 @@ async function boardEscalations(flagId: string) {
   return board.beds.flatMap((b) => b.escalations).filter((e) => e.flagId === flagId);
 }
 
-const history = async (flagId: string) =>
-  (await ward.ok('nurse', 'get', `/flags/${flagId}/history`)).body.events as Array<{ event: string; at: string; text: string }>;
+const history = async (flagId: string) => (await ward.ok('nurse', 'get', `/flags/${flagId}/history`)).body.events as { event: string; at: string; text: string }[];
 
 const mailsAbout = (since: number, bed: string) => env.mailer.sent.slice(since).filter((m) => m.subject.startsWith(`Warmfold escalation: bed ${bed},`));
 
@@ -198,7 +197,15 @@ describe('re-escalation when an escalated flag worsens (common practice)', () =>
     // As the old code stored it: no severity, already sent.
     env.database.db
       .insert(escalations)
-      .values({ id: randomUUID(), flagId, unitId: 'unit-north', escalatedAt: env.clock.now(), mailedAt: env.clock.now(), recipient: JSON.stringify([{ userId: null, name: null, email: 'north-unit@warmfold.test' }]), channel: 'email' })
+      .values({
+        id: randomUUID(),
+        flagId,
+        unitId: 'unit-north',
+        escalatedAt: env.clock.now(),
+        mailedAt: env.clock.now(),
+        recipient: JSON.stringify([{ userId: null, name: null, email: 'north-unit@warmfold.test' }]),
+        channel: 'email',
+      })
       .run();
     ward.advance(45);
     await sweep();
@@ -217,7 +224,7 @@ describe('the migration to one escalation per flag and severity', () => {
       const before = path.join(dir, 'drizzle-before');
       fs.cpSync(path.join(process.cwd(), 'drizzle'), before, { recursive: true });
       const journalFile = path.join(before, 'meta', '_journal.json');
-      const journal = JSON.parse(fs.readFileSync(journalFile, 'utf8')) as { entries: Array<{ tag: string }> };
+      const journal = JSON.parse(fs.readFileSync(journalFile, 'utf8')) as { entries: { tag: string }[] };
       const at = journal.entries.findIndex((e) => e.tag.endsWith('_escalation_per_severity'));
       expect(at).toBeGreaterThan(0);
       journal.entries = journal.entries.slice(0, at);

@@ -27,7 +27,7 @@ const get = (path: string, token: string | null) => {
 const parseCsv = (text: string) => Papa.parse<Record<string, string>>(text, { header: true, skipEmptyLines: true }).data;
 
 describe('readings and flags CSV', () => {
-  it('exports the unit\'s readings for a date range, audited', async () => {
+  it("exports the unit's readings for a date range, audited", async () => {
     const audits = count(env.database, 'audit_events');
     const res = await get('/api/exports/readings.csv?unitId=unit-north&from=2026-11-13&to=2026-11-16', educator);
     expect(res.status).toBe(200);
@@ -50,7 +50,7 @@ describe('readings and flags CSV', () => {
     for (const r of rows) expect([r.kind, r.shift]).toEqual(['gap', 'night']);
   });
 
-  it('validates, and is the educator\'s', async () => {
+  it("validates, and is the educator's", async () => {
     const bad = await get('/api/exports/readings.csv?unitId=unit-north&from=2026-11-16&to=2026-11-01', educator);
     expect(bad.status).toBe(400);
     expect(bad.body.error.fields.to).toBeDefined();
@@ -100,14 +100,17 @@ describe('FHIR R4 bundle per infant', () => {
   });
 
   it('remote-site readings are body temperatures in Cel with the axillary code and body site', () => {
-    const temps = fhirpath.evaluate(bundle, "entry.resource.where(resourceType = 'Observation' and code.coding.where(system = 'http://loinc.org' and code = '8310-5').exists())") as Observation[];
+    const temps = fhirpath.evaluate(
+      bundle,
+      "entry.resource.where(resourceType = 'Observation' and code.coding.where(system = 'http://loinc.org' and code = '8310-5').exists())",
+    ) as Observation[];
     expect(temps.length).toBeGreaterThan(5);
     for (const o of temps) {
       expect(fhirpath.evaluate(o, "code.coding.where(system = 'http://loinc.org').code")).toEqual(['8310-5', '8328-7']);
       expect(fhirpath.evaluate(o, 'valueQuantity.system')).toEqual(['http://unitsofmeasure.org']);
       expect(fhirpath.evaluate(o, 'valueQuantity.code')).toEqual(['Cel']);
       expect(fhirpath.evaluate(o, "bodySite.coding.where(system = 'http://snomed.info/sct').code")).toEqual(['91470000']);
-      expect(fhirpath.evaluate(o, "category.coding.code")).toEqual(['vital-signs']);
+      expect(fhirpath.evaluate(o, 'category.coding.code')).toEqual(['vital-signs']);
     }
     // The open gap of the demo: remote site 36.20 °C.
     expect(fhirpath.evaluate(bundle, "entry.resource.where(resourceType = 'Observation' and code.coding.code contains '8310-5').valueQuantity.value")).toContain(36.2);
@@ -131,11 +134,13 @@ describe('FHIR R4 bundle per infant', () => {
 
   it('a rectal reading carries 8332-9 and the rectum body site', async () => {
     env.database.sqlite
-      .prepare("INSERT INTO readings (id, infant_id, unit_id, taken_at, recorded_at, recorded_by, probe_centi, remote_centi, remote_site, heat_signs, entered_unit) VALUES ('r-rectal', 'inf-ashgrove', 'unit-north', ?, ?, 'u-nurse', NULL, 3710, 'rectal', '[]', 'C')")
+      .prepare(
+        "INSERT INTO readings (id, infant_id, unit_id, taken_at, recorded_at, recorded_by, probe_centi, remote_centi, remote_site, heat_signs, entered_unit) VALUES ('r-rectal', 'inf-ashgrove', 'unit-north', ?, ?, 'u-nurse', NULL, 3710, 'rectal', '[]', 'C')",
+      )
       .run(Date.parse('2026-11-16T09:55:00Z'), Date.parse('2026-11-16T09:55:00Z'));
     const b = JSON.parse((await get('/api/exports/infants/inf-ashgrove/fhir', educator)).text) as Bundle;
     const o = fhirpath.evaluate(b, "entry.resource.where(id = 'r-rectal-remote')")[0];
-    expect(fhirpath.evaluate(o, "code.coding.code")).toEqual(['8310-5', '8332-9']);
+    expect(fhirpath.evaluate(o, 'code.coding.code')).toEqual(['8310-5', '8332-9']);
     expect(fhirpath.evaluate(o, 'bodySite.coding.code')).toEqual(['34402009']);
   });
 
@@ -153,11 +158,14 @@ describe('FHIR R4 bundle per infant', () => {
 });
 
 describe('exports a spreadsheet reads as written', () => {
-  const raw = (path: string) => get(path, educator).buffer(true).parse((res, cb) => {
-    const chunks: Buffer[] = [];
-    res.on('data', (c: Buffer) => chunks.push(c));
-    res.on('end', () => cb(null, Buffer.concat(chunks)));
-  });
+  const raw = (path: string) =>
+    get(path, educator)
+      .buffer(true)
+      .parse((res, cb) => {
+        const chunks: Buffer[] = [];
+        res.on('data', (c: Buffer) => chunks.push(c));
+        res.on('end', () => cb(null, Buffer.concat(chunks)));
+      });
 
   it('starts with the UTF-8 byte-order mark (EF BB BF, Unicode §23.8) and quotes every cell with a comma, semicolon, quote or line break (RFC 4180 §2)', async () => {
     const charge = await env.signIn(DEMO.charge);
@@ -183,7 +191,14 @@ describe('exports a spreadsheet reads as written', () => {
     try {
       expect((await request(env.app).post('/api/infants/inf-glimmerton-b/move').set('Authorization', `Bearer ${charge}`).send({ bedId: 'bed-N12' })).status).toBe(200);
       env.clock.set(new Date(before + 5 * 60_000));
-      expect((await request(env.app).post('/api/infants/inf-glimmerton-b/readings').set('Authorization', `Bearer ${charge}`).send({ id: '5d1c2b3a-4e5f-4a6b-8c7d-9e0f1a2b3c4d', unit: 'C', probe: 36.7, heatSigns: [] })).status).toBe(201);
+      expect(
+        (
+          await request(env.app)
+            .post('/api/infants/inf-glimmerton-b/readings')
+            .set('Authorization', `Bearer ${charge}`)
+            .send({ id: '5d1c2b3a-4e5f-4a6b-8c7d-9e0f1a2b3c4d', unit: 'C', probe: 36.7, heatSigns: [] })
+        ).status,
+      ).toBe(201);
       const rows = parseCsv((await get('/api/exports/readings.csv?unitId=unit-north&from=2026-11-13&to=2026-11-16&infantId=inf-glimmerton-b', educator)).text.slice(1));
       const beds = new Set(rows.filter((r) => Date.parse(r.taken_at!) < before).map((r) => r.bed));
       expect(beds).toEqual(new Set(['N08']));
@@ -197,10 +212,21 @@ describe('exports a spreadsheet reads as written', () => {
   });
 
   it('exports every matching flag whatever the page size, with the teaching notes written out', async () => {
-    const stored = (env.database.sqlite.prepare("SELECT COUNT(*) AS n FROM flags WHERE kind IN ('gap', 'overdue-check', 'heat-stress', 'manual-mode', 'cold-stress', 'fever', 'skin-to-skin-deviation')").get() as { n: number }).n;
+    const stored = (
+      env.database.sqlite
+        .prepare("SELECT COUNT(*) AS n FROM flags WHERE kind IN ('gap', 'overdue-check', 'heat-stress', 'manual-mode', 'cold-stress', 'fever', 'skin-to-skin-deviation')")
+        .get() as { n: number }
+    ).n;
     const queue = await get('/api/review/queue?status=all&limit=1', educator);
     const flagId = queue.body.items[0].flagId as string;
-    expect((await request(env.app).post(`/api/review/items/${flagId}/notes`).set('Authorization', `Bearer ${educator}`).send({ note: 'Good catch; recheck within 30 minutes, as the unit policy says.' })).status).toBe(201);
+    expect(
+      (
+        await request(env.app)
+          .post(`/api/review/items/${flagId}/notes`)
+          .set('Authorization', `Bearer ${educator}`)
+          .send({ note: 'Good catch; recheck within 30 minutes, as the unit policy says.' })
+      ).status,
+    ).toBe(201);
     const res = await get('/api/exports/flags.csv?limit=1&status=all', educator);
     const rows = parseCsv(res.text.slice(1));
     expect(rows.length).toBe(stored);

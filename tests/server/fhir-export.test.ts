@@ -57,7 +57,9 @@ function validationErrors(resource: Patient | Observation | Encounter | Bundle):
 describe('the validators', () => {
   it('report a broken Observation (so a pass means something)', () => {
     const good = {
-      resourceType: 'Observation', id: 'x', status: 'final',
+      resourceType: 'Observation',
+      id: 'x',
+      status: 'final',
       category: [{ coding: [{ system: 'http://terminology.hl7.org/CodeSystem/observation-category', code: 'vital-signs' }] }],
       code: { coding: [{ system: 'http://loinc.org', code: '8310-5' }] },
       subject: { reference: 'urn:uuid:00000000-0000-5000-8000-000000000000' },
@@ -88,12 +90,17 @@ const post = (path: string, body: object) => request(env.app).post(`/api${path}`
 /** Readings of inf-ashgrove with a remote-site value and a heart rate, oldest first (from the demo). */
 function ashgroveReadings(): { id: string; remote_centi: number; heart_rate: number }[] {
   return env.database.sqlite
-    .prepare("SELECT id, remote_centi, heart_rate FROM readings WHERE infant_id = 'inf-ashgrove' AND remote_centi IS NOT NULL AND heart_rate IS NOT NULL AND replaces_id IS NULL ORDER BY taken_at")
+    .prepare(
+      "SELECT id, remote_centi, heart_rate FROM readings WHERE infant_id = 'inf-ashgrove' AND remote_centi IS NOT NULL AND heart_rate IS NOT NULL AND replaces_id IS NULL ORDER BY taken_at",
+    )
     .all() as { id: string; remote_centi: number; heart_rate: number }[];
 }
 
 const entriesOf = (b: Bundle) => (b.entry ?? []) as (BundleEntry & { resource: Patient | Observation | Encounter })[];
-const observations = (b: Bundle) => entriesOf(b).map((e) => e.resource).filter((r): r is Observation => r.resourceType === 'Observation');
+const observations = (b: Bundle) =>
+  entriesOf(b)
+    .map((e) => e.resource)
+    .filter((r): r is Observation => r.resourceType === 'Observation');
 
 describe('a corrected and a withdrawn reading', () => {
   let corrected: string;
@@ -111,7 +118,9 @@ describe('a corrected and a withdrawn reading', () => {
     expect((await post(`/readings/${withdrawn}/corrections`, { id: randomUUID(), reason: 'entered-in-error', note: 'Charted on the wrong infant.' })).status).toBe(201);
     const first = randomUUID();
     expect((await post(`/readings/${twice}/corrections`, { id: first, reason: 'corrected-value', note: 'First fix.', values: { ...values, remote: 36.6 } })).status).toBe(201);
-    expect((await post(`/readings/${first}/corrections`, { id: randomUUID(), reason: 'corrected-value', note: 'Second fix.', values: { ...values, remote: 36.7 } })).status).toBe(201);
+    expect((await post(`/readings/${first}/corrections`, { id: randomUUID(), reason: 'corrected-value', note: 'Second fix.', values: { ...values, remote: 36.7 } })).status).toBe(
+      201,
+    );
     const res = await get('/exports/infants/inf-ashgrove/fhir', educator);
     expect(res.status).toBe(200);
     bundle = JSON.parse(res.text) as Bundle;
@@ -139,7 +148,9 @@ describe('a corrected and a withdrawn reading', () => {
     expect(remote(withdrawn)).toMatchObject({ id: `${withdrawn}-remote`, status: 'entered-in-error', meta: { versionId: '2' } });
     expect(byKey.get(`urn:warmfold:fhir:reading:heart-rate|${withdrawn}`)?.status).toBe('entered-in-error');
     // No Observation is keyed by a correction's own row id: the corrections are versions, not new readings.
-    const correctionIds = (env.database.sqlite.prepare("SELECT id FROM readings WHERE infant_id = 'inf-ashgrove' AND replaces_id IS NOT NULL").all() as { id: string }[]).map((r) => r.id);
+    const correctionIds = (env.database.sqlite.prepare("SELECT id FROM readings WHERE infant_id = 'inf-ashgrove' AND replaces_id IS NOT NULL").all() as { id: string }[]).map(
+      (r) => r.id,
+    );
     expect(correctionIds.length).toBe(4);
     for (const id of correctionIds) expect(all.filter((o) => o.identifier![0]!.value === id)).toEqual([]);
   });
@@ -164,16 +175,30 @@ describe('a corrected and a withdrawn reading', () => {
 
 describe('the Patient', () => {
   let admitted = '';
-  it('has the hospital number as an MR identifier, the sex as gender, and the birth date in the unit\'s zone', async () => {
+  it("has the hospital number as an MR identifier, the sex as gender, and the birth date in the unit's zone", async () => {
     // Born 08:30 on 4 Dec in Pacific/Auckland (NZDT, UTC+13): 19:30 on 3 Dec UTC. The birth date is 4 Dec.
     env.database.sqlite.prepare("UPDATE units SET time_zone = 'Pacific/Auckland' WHERE id = 'unit-north'").run();
     try {
       const charge = await env.signIn(DEMO.charge);
-      const bed = env.database.sqlite.prepare("SELECT b.id FROM beds b WHERE b.unit_id = 'unit-north' AND NOT EXISTS (SELECT 1 FROM infants i WHERE i.bed_id = b.id AND i.status = 'admitted') ORDER BY b.sort_order LIMIT 1").get() as { id: string };
-      const res = await request(env.app)
-        .post('/api/units/unit-north/infants')
-        .set('Authorization', `Bearer ${charge}`)
-        .send({ bedId: bed.id, displayName: 'Baby Tawhiri', birthAt: '2026-11-15T19:30:00Z', gestationWeeks: 34, gestationDays: 2, birthWeightGrams: 2100, heatSource: 'incubator', controlMode: 'air-servo', setTemperature: 32.5, tempUnit: 'C', hospitalNumber: 'TW-0048812', sex: 'female' });
+      const bed = env.database.sqlite
+        .prepare(
+          "SELECT b.id FROM beds b WHERE b.unit_id = 'unit-north' AND NOT EXISTS (SELECT 1 FROM infants i WHERE i.bed_id = b.id AND i.status = 'admitted') ORDER BY b.sort_order LIMIT 1",
+        )
+        .get() as { id: string };
+      const res = await request(env.app).post('/api/units/unit-north/infants').set('Authorization', `Bearer ${charge}`).send({
+        bedId: bed.id,
+        displayName: 'Baby Tawhiri',
+        birthAt: '2026-11-15T19:30:00Z',
+        gestationWeeks: 34,
+        gestationDays: 2,
+        birthWeightGrams: 2100,
+        heatSource: 'incubator',
+        controlMode: 'air-servo',
+        setTemperature: 32.5,
+        tempUnit: 'C',
+        hospitalNumber: 'TW-0048812',
+        sex: 'female',
+      });
       expect(res.status).toBe(201);
       admitted = res.body.infant.id as string;
     } finally {
@@ -189,16 +214,31 @@ describe('the Patient', () => {
     const patient = entriesOf(b).find((e) => e.resource.resourceType === 'Patient')!.resource as Patient;
     expect(patient.birthDate).toBe('2026-11-16');
     expect(patient.gender).toBe('female');
-    expect(patient.identifier).toEqual([expect.objectContaining({ system: 'urn:warmfold:fhir:hospital-number', value: 'TW-0048812', type: { coding: [expect.objectContaining({ system: 'http://terminology.hl7.org/CodeSystem/v2-0203', code: 'MR' })] } })]);
+    expect(patient.identifier).toEqual([
+      expect.objectContaining({
+        system: 'urn:warmfold:fhir:hospital-number',
+        value: 'TW-0048812',
+        type: { coding: [expect.objectContaining({ system: 'http://terminology.hl7.org/CodeSystem/v2-0203', code: 'MR' })] },
+      }),
+    ]);
     expect(validationErrors(patient)).toEqual([]);
   });
 
   it('refuses a hospital number with other characters, naming the field', async () => {
     const charge = await env.signIn(DEMO.charge);
-    const res = await request(env.app)
-      .post('/api/units/unit-north/infants')
-      .set('Authorization', `Bearer ${charge}`)
-      .send({ bedId: 'bed-N13', displayName: 'Baby Orrin', birthAt: '2026-11-15T08:00:00Z', gestationWeeks: 36, gestationDays: 0, birthWeightGrams: 2600, heatSource: 'incubator', controlMode: 'skin-servo', setTemperature: 36.5, hospitalNumber: 'a b;c', sex: 'male' });
+    const res = await request(env.app).post('/api/units/unit-north/infants').set('Authorization', `Bearer ${charge}`).send({
+      bedId: 'bed-N13',
+      displayName: 'Baby Orrin',
+      birthAt: '2026-11-15T08:00:00Z',
+      gestationWeeks: 36,
+      gestationDays: 0,
+      birthWeightGrams: 2600,
+      heatSource: 'incubator',
+      controlMode: 'skin-servo',
+      setTemperature: 36.5,
+      hospitalNumber: 'a b;c',
+      sex: 'male',
+    });
     expect(res.status).toBe(400);
     expect(res.body.error.fields.hospitalNumber).toMatch(/letters, digits/);
   });
@@ -217,11 +257,15 @@ describe('the bed at the time', () => {
       env.clock.set(new Date(at));
     }
     const b = JSON.parse((await get('/exports/infants/inf-dunmere/fhir', educator)).text) as Bundle;
-    const encounter = entriesOf(b).map((e) => e.resource).find((r): r is Encounter => r.resourceType === 'Encounter')!;
+    const encounter = entriesOf(b)
+      .map((e) => e.resource)
+      .find((r): r is Encounter => r.resourceType === 'Encounter')!;
     expect(validationErrors(encounter)).toEqual([]);
-    expect(encounter.location!.map((l) => [l.location.display, l.status])).toEqual([['Neonatal Unit North, bed N04', 'completed'], ['Neonatal Unit North, bed N11', 'active']]);
-    const bedAt = (iso: string) =>
-      encounter.location!.find((l) => l.period!.start! <= iso && (!l.period!.end || iso < l.period!.end))?.location.display;
+    expect(encounter.location!.map((l) => [l.location.display, l.status])).toEqual([
+      ['Neonatal Unit North, bed N04', 'completed'],
+      ['Neonatal Unit North, bed N11', 'active'],
+    ]);
+    const bedAt = (iso: string) => encounter.location!.find((l) => l.period!.start! <= iso && (!l.period!.end || iso < l.period!.end))?.location.display;
     const obs = observations(b);
     expect(obs.filter((o) => bedAt(o.effectiveDateTime!)?.endsWith('N11')).length).toBe(2);
     expect(obs.filter((o) => bedAt(o.effectiveDateTime!)?.endsWith('N04')).length).toBe(obs.length - 2);
@@ -235,9 +279,15 @@ describe('per unit and date range', () => {
     expect(res.headers['content-disposition']).toMatch(/fhir-2026-11-16-2026-11-16\.json/);
     const b = JSON.parse(res.text) as Bundle;
     const patients = entriesOf(b).filter((e) => e.resource.resourceType === 'Patient');
-    const charted = env.database.sqlite.prepare("SELECT COUNT(DISTINCT infant_id) AS n FROM readings WHERE unit_id = 'unit-north' AND taken_at >= ? AND taken_at < ?").get(Date.parse('2026-11-16T00:00:00Z'), Date.parse('2026-11-17T00:00:00Z')) as { n: number };
+    const charted = env.database.sqlite
+      .prepare("SELECT COUNT(DISTINCT infant_id) AS n FROM readings WHERE unit_id = 'unit-north' AND taken_at >= ? AND taken_at < ?")
+      .get(Date.parse('2026-11-16T00:00:00Z'), Date.parse('2026-11-17T00:00:00Z')) as { n: number };
     expect(patients.length).toBe(charted.n);
-    expect(entriesOf(b).map((e) => e.resource).flatMap(validationErrors)).toEqual([]);
+    expect(
+      entriesOf(b)
+        .map((e) => e.resource)
+        .flatMap(validationErrors),
+    ).toEqual([]);
     const other = await get('/exports/fhir?unitId=unit-north&from=2026-11-15&to=2026-11-16&infantId=inf-hartsease', educator);
     expect(other.status).toBe(400);
     expect(other.body.error.fields.infantId).toBeDefined();

@@ -77,7 +77,8 @@ async function views(infantId: string) {
   const mine = (await get<{ infants: InfantSummary[] }>('/infants/mine')).infants.find((i) => i.id === infantId)!;
   const detail = (await get<{ infant: InfantSummary }>(`/infants/${infantId}`)).infant;
   const flowsheet = await get<Flowsheet>(`/infants/${infantId}/flowsheet?hours=12`);
-  const handover = (await get<{ infants: Array<{ infant: { id: string }; flags: Array<{ kind: string; closedAt: string | null; severity?: string }> }> }>(`/infants/${infantId}/handover`)).infants?.[0];
+  const handover = (await get<{ infants: { infant: { id: string }; flags: { kind: string; closedAt: string | null; severity?: string }[] }[] }>(`/infants/${infantId}/handover`))
+    .infants?.[0];
   return { board, tile, mine, detail, flowsheet, handover };
 }
 
@@ -132,15 +133,32 @@ describe('severity and escalation', () => {
 
     // Unless the unit says so: a delay the administrator sets makes it escalate.
     const admin = await env.signIn(DEMO.admin);
-    const bad = await request(env.app).patch('/api/admin/units/unit-north').set(auth(admin)).send({ escalationDelays: { lukewarm: 5 } });
+    const bad = await request(env.app)
+      .patch('/api/admin/units/unit-north')
+      .set(auth(admin))
+      .send({ escalationDelays: { lukewarm: 5 } });
     expect(bad.status).toBe(400);
-    expect((await request(env.app).patch('/api/admin/units/unit-north').set(auth(admin)).send({ escalationDelays: { 'cold-stress': 30 } })).status).toBe(200);
+    expect(
+      (
+        await request(env.app)
+          .patch('/api/admin/units/unit-north')
+          .set(auth(admin))
+          .send({ escalationDelays: { 'cold-stress': 30 } })
+      ).status,
+    ).toBe(200);
     env.clock.advanceMinutes(1);
     await runEscalations(env.app.context, env.clock.now());
     await signInAgain();
     const told = (await views(id)).mine.openFlags[0]!;
     expect(told.escalation).toMatchObject({ to: [{ email: DEMO.charge }] });
-    expect((await request(env.app).patch('/api/admin/units/unit-north').set(auth(admin)).send({ escalationDelays: { 'cold-stress': null } })).status).toBe(200);
+    expect(
+      (
+        await request(env.app)
+          .patch('/api/admin/units/unit-north')
+          .set(auth(admin))
+          .send({ escalationDelays: { 'cold-stress': null } })
+      ).status,
+    ).toBe(200);
   });
 });
 
@@ -181,7 +199,7 @@ describe('check clocks that know the mode', () => {
     await chart(id, { probe: 36.9, remote: 36.8, remoteSite: 'axilla' });
     v = await views(id);
     expect(openKinds(v.mine)).toEqual([]);
-    const events = env.database.sqlite.prepare('SELECT event FROM flag_events WHERE flag_id = ? ORDER BY created_at, rowid').all(gap.id) as Array<{ event: string }>;
+    const events = env.database.sqlite.prepare('SELECT event FROM flag_events WHERE flag_id = ? ORDER BY created_at, rowid').all(gap.id) as { event: string }[];
     expect(events.map((e) => e.event)).toEqual(['raised', 'action', 'closed']);
   });
 });
@@ -196,12 +214,12 @@ describe('settings in force at the time', () => {
     const before = await report();
     // The change takes effect from now; every check in the report was taken before it.
     env.clock.advanceMinutes(1);
-    const onTime = (r: Record<string, unknown>) => JSON.stringify((r.report ?? r) as { onTime: unknown } && ((r.report ?? r) as { onTime: unknown }).onTime);
+    const onTime = (r: Record<string, unknown>) => JSON.stringify(((r.report ?? r) as { onTime: unknown }) && ((r.report ?? r) as { onTime: unknown }).onTime);
     expect((await request(env.app).patch('/api/admin/units/unit-north').set(auth(admin)).send({ checkIntervalMinutes: 90 })).status).toBe(200);
     expect((await request(env.app).patch('/api/admin/units/unit-north').set(auth(admin)).send({ timeZone: 'America/New_York' })).status).toBe(200);
     const after = await report();
     expect(onTime(after)).toBe(onTime(before));
-    const changes = ((after.report ?? after) as { settingsChanges: Array<{ checkIntervalMinutes: number; timeZone: string }> }).settingsChanges;
+    const changes = ((after.report ?? after) as { settingsChanges: { checkIntervalMinutes: number; timeZone: string }[] }).settingsChanges;
     // (earlier tests in this file changed other settings: the last two are these)
     expect(changes.slice(-2).map((c) => [c.checkIntervalMinutes, c.timeZone])).toEqual([
       [90, 'Europe/London'],
@@ -237,7 +255,7 @@ describe('late entries', () => {
     expect(f.infant.openFlags.filter((x) => x.kind === 'overdue-check')).toEqual([]);
     // The educator sees it struck through, never as a late check; reports leave it out.
     const educator = await env.signIn(DEMO.educator);
-    const queue = await get<{ items: Array<{ flagId: string; kind: string; withdrawn?: boolean }> }>(`/review/queue?status=all&limit=200`, educator);
+    const queue = await get<{ items: { flagId: string; kind: string; withdrawn?: boolean }[] }>(`/review/queue?status=all&limit=200`, educator);
     expect(queue.items.find((i) => i.flagId === withdrawn.id)).toMatchObject({ withdrawn: true });
     // Cold stress is reviewed like the other kinds (WHO 1997 via Miller 2011 bands).
     expect(queue.items.some((i) => i.kind === 'cold-stress')).toBe(true);

@@ -35,12 +35,14 @@ async function expectViewsMatchModel(id: string) {
 }
 
 const flowsheet = async (id: string) => (await ward.ok('nurse', 'get', `/infants/${id}/flowsheet?hours=72`)).body;
-const openKinds = async (id: string) => ((await ward.ok('nurse', 'get', `/infants/${id}`)).body.infant.openFlags as Array<{ kind: string }>).map((f) => f.kind).sort();
+const openKinds = async (id: string) => ((await ward.ok('nurse', 'get', `/infants/${id}`)).body.infant.openFlags as { kind: string }[]).map((f) => f.kind).sort();
 
-function lifecycleOf(infantId: string): Array<{ flag_id: string; event: string; detail: string }> {
-  return env.app.context.database.sqlite
-    .prepare('SELECT flag_id, event, detail FROM flag_events WHERE infant_id = ? ORDER BY created_at, rowid')
-    .all(infantId) as Array<{ flag_id: string; event: string; detail: string }>;
+function lifecycleOf(infantId: string): { flag_id: string; event: string; detail: string }[] {
+  return env.app.context.database.sqlite.prepare('SELECT flag_id, event, detail FROM flag_events WHERE infant_id = ? ORDER BY created_at, rowid').all(infantId) as {
+    flag_id: string;
+    event: string;
+    detail: string;
+  }[];
 }
 
 describe('a flag the rules see again is reopened', () => {
@@ -103,7 +105,11 @@ describe('a flag the rules see again is reopened', () => {
     ward.advance(5);
     await ward.correct(id, a, { remote: 36.7 });
     expect((await flowsheet(id)).flags.find((f: { id: string }) => f.id === cold.id)).toMatchObject({ status: 'withdrawn', withdrawn: { reason: 'reading-corrected' } });
-    const queue = (await ward.ok('educator', 'get', `/review/queue?infantId=${id}`)).body.items as Array<{ flagId: string; withdrawn: boolean; minutesToResolution: number | null }>;
+    const queue = (await ward.ok('educator', 'get', `/review/queue?infantId=${id}`)).body.items as {
+      flagId: string;
+      withdrawn: boolean;
+      minutesToResolution: number | null;
+    }[];
     const item = queue.find((i) => i.flagId === cold.id);
     if (item) expect(item).toMatchObject({ withdrawn: true, minutesToResolution: null });
     await expectViewsMatchModel(id);
@@ -143,7 +149,7 @@ describe('escalation at the moment of the write', () => {
     const id = await admit();
     await ward.chart(id, { remote: 31.8, confirmedImplausible: true });
     // No sweep here: the write itself escalated it; the mail goes out right after.
-    let esc: { sentAt: string | null; severity: string; to: Array<{ name: string | null }> } | undefined;
+    let esc: { sentAt: string | null; severity: string; to: { name: string | null }[] } | undefined;
     for (let i = 0; i < 40 && !esc?.sentAt; i += 1) {
       const board = await ward.board();
       esc = board.beds.find((b: { infant?: { id: string } }) => b.infant?.id === id)?.escalations?.[0];

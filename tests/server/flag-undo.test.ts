@@ -25,9 +25,13 @@ async function admit() {
   return id;
 }
 
-const openKinds = async (id: string) => ((await ward.ok('nurse', 'get', `/infants/${id}`)).body.infant.openFlags as Array<{ kind: string }>).map((f) => f.kind).sort();
+const openKinds = async (id: string) => ((await ward.ok('nurse', 'get', `/infants/${id}`)).body.infant.openFlags as { kind: string }[]).map((f) => f.kind).sort();
 const events = (infantId: string) =>
-  env.app.context.database.sqlite.prepare('SELECT flag_id, event, detail FROM flag_events WHERE infant_id = ? ORDER BY created_at, rowid').all(infantId) as Array<{ flag_id: string; event: string; detail: string }>;
+  env.app.context.database.sqlite.prepare('SELECT flag_id, event, detail FROM flag_events WHERE infant_id = ? ORDER BY created_at, rowid').all(infantId) as {
+    flag_id: string;
+    event: string;
+    detail: string;
+  }[];
 
 describe('undo a mistaken action', () => {
   it('undoing the action that let a recheck close a gap reopens the gap everywhere, with a reopened event; the action stays on record (common practice)', async () => {
@@ -44,7 +48,10 @@ describe('undo a mistaken action', () => {
     expect(undo.status).toBe(201);
     // The model is told the action never happened.
     const h = ward.histories.get(id)!;
-    h.actions.splice(h.actions.findIndex((a) => a.flagKey === gap.key), 1);
+    h.actions.splice(
+      h.actions.findIndex((a) => a.flagKey === gap.key),
+      1,
+    );
     expect(await openKinds(id)).toContain('gap');
     const views = await ward.views(id);
     const model = modelView(ward, id, evaluateModel);
@@ -72,7 +79,7 @@ describe('undo a mistaken action', () => {
     ward.advance(3);
     const undo = await ward.ok('nurse', 'post', `/flags/${gap.id}/actions/${act.body.action.id}/undo`, { id: randomUUID() });
     const reopenedId = undo.body.reopenedFlagIds[0] as string;
-    const history = (await ward.ok('nurse', 'get', `/flags/${reopenedId}/history`)).body.events as Array<{ text: string; by: { name: string } | null }>;
+    const history = (await ward.ok('nurse', 'get', `/flags/${reopenedId}/history`)).body.events as { text: string; by: { name: string } | null }[];
     const texts = history.map((e) => e.text);
     expect(texts[0]).toMatch(/^Raised/);
     expect(texts.some((t) => /^Action: [A-Z]/.test(t))).toBe(true);

@@ -37,7 +37,40 @@ function snapshot(): string {
   return `${counts.join(',')}|${last?.hash ?? ''}`;
 }
 
-const FIELDS = ['id', 'unit', 'probe', 'remote', 'remoteSite', 'air', 'set', 'controlMode', 'heaterOutputPct', 'heartRate', 'heatSigns', 'note', 'takenAt', 'lateReason', 'reason', 'values', 'kind', 'reference', 'limitCenti', 'email', 'password', 'name', 'role', 'unitId', 'bedId', 'infantId', 'nurseId', 'shift', 'displayName', 'tempUnit', '__proto__', 'constructor'];
+const FIELDS = [
+  'id',
+  'unit',
+  'probe',
+  'remote',
+  'remoteSite',
+  'air',
+  'set',
+  'controlMode',
+  'heaterOutputPct',
+  'heartRate',
+  'heatSigns',
+  'note',
+  'takenAt',
+  'lateReason',
+  'reason',
+  'values',
+  'kind',
+  'reference',
+  'limitCenti',
+  'email',
+  'password',
+  'name',
+  'role',
+  'unitId',
+  'bedId',
+  'infantId',
+  'nurseId',
+  'shift',
+  'displayName',
+  'tempUnit',
+  '__proto__',
+  'constructor',
+];
 
 const nasty = fc.oneof(
   fc.jsonValue(),
@@ -65,7 +98,7 @@ function writeRoutes(): WriteRoute[] {
     infants: 'inf-ashgrove',
     readings: (env.database.sqlite.prepare("SELECT id FROM readings WHERE infant_id = 'inf-cinderford' ORDER BY taken_at DESC LIMIT 1").get() as { id: string }).id,
     flags: (env.database.sqlite.prepare("SELECT id FROM flags WHERE unit_id = 'unit-north' LIMIT 1").get() as { id: string }).id,
-    'skin-to-skin': (env.database.sqlite.prepare("SELECT id FROM skin_to_skin_sessions LIMIT 1").get() as { id: string }).id,
+    'skin-to-skin': (env.database.sqlite.prepare('SELECT id FROM skin_to_skin_sessions LIMIT 1').get() as { id: string }).id,
   };
   const routes: WriteRoute[] = [];
   for (const [mount, router] of apiRouters(env.app.context)) {
@@ -102,7 +135,11 @@ describe('fuzzing every write route', () => {
       await fc.assert(
         fc.asyncProperty(body, async (payload) => {
           const before = snapshot();
-          const res = await request(env.app)[route.method](route.path).set('Authorization', `Bearer ${tokens[route.role]}`).set('Content-Type', 'application/json').send(JSON.stringify(payload) ?? 'null');
+          const res = await request(env.app)
+            [route.method](route.path)
+            .set('Authorization', `Bearer ${tokens[route.role]}`)
+            .set('Content-Type', 'application/json')
+            .send(JSON.stringify(payload) ?? 'null');
           runs += 1;
           if (res.status >= 500) throw new Error(`${route.method} ${route.path} answered ${res.status} to ${JSON.stringify(payload).slice(0, 200)}`);
           if (res.status >= 400) {

@@ -24,7 +24,15 @@ beforeAll(async () => {
   // A test certificate for localhost, made here by a registry library (selfsigned), not by the product.
   const pems = await generate([{ name: 'commonName', value: 'localhost' }], {
     keySize: 2048,
-    extensions: [{ name: 'subjectAltName', altNames: [{ type: 2, value: 'localhost' }, { type: 7, ip: '127.0.0.1' }] }],
+    extensions: [
+      {
+        name: 'subjectAltName',
+        altNames: [
+          { type: 2, value: 'localhost' },
+          { type: 7, ip: '127.0.0.1' },
+        ],
+      },
+    ],
   });
   certPem = pems.cert;
   certFile = path.join(dir, 'cert.pem');
@@ -67,7 +75,9 @@ test('with TLS_CERT_FILE and TLS_KEY_FILE the server answers over HTTPS with tha
     // The certificate presented is the one in the file (compared by node:crypto, not by the server).
     expect(res.peerCert).toBe(new X509Certificate(certPem).fingerprint256);
     // A plain-HTTP request to the HTTPS port is not answered as HTTP (the socket speaks TLS).
-    const plain = await fetch(`http://127.0.0.1:${port}/api/health`).then((r) => r.status).catch(() => 'refused');
+    const plain = await fetch(`http://127.0.0.1:${port}/api/health`)
+      .then((r) => r.status)
+      .catch(() => 'refused');
     expect(plain).not.toBe(200);
   } finally {
     await new Promise((r) => server.close(r));

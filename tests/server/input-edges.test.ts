@@ -26,8 +26,13 @@ const TABLES = ['readings', 'actions', 'infants', 'users', 'reviews', 'skin_to_s
 const snapshot = () => Object.fromEntries(TABLES.map((t) => [t, count(env.database, t)]));
 const as = (token: string, method: 'post' | 'patch', url: string) => request(env.app)[method](url).set('Authorization', `Bearer ${token}`);
 const openFlag = (infantId: string) =>
-  (env.database.sqlite.prepare('SELECT f.id FROM flags f LEFT JOIN flag_resolutions r ON r.flag_id = f.id WHERE f.infant_id = ? AND r.flag_id IS NULL ORDER BY f.raised_at LIMIT 1').get(infantId) as { id: string }).id;
-const aReading = (infantId: string) => (env.database.sqlite.prepare('SELECT id FROM readings WHERE infant_id = ? ORDER BY taken_at DESC LIMIT 1').get(infantId) as { id: string }).id;
+  (
+    env.database.sqlite
+      .prepare('SELECT f.id FROM flags f LEFT JOIN flag_resolutions r ON r.flag_id = f.id WHERE f.infant_id = ? AND r.flag_id IS NULL ORDER BY f.raised_at LIMIT 1')
+      .get(infantId) as { id: string }
+  ).id;
+const aReading = (infantId: string) =>
+  (env.database.sqlite.prepare('SELECT id FROM readings WHERE infant_id = ? ORDER BY taken_at DESC LIMIT 1').get(infantId) as { id: string }).id;
 
 // Bad strings, each with where the rule comes from.
 const LONE_HIGH = 'Probe re-sited \uD83D'; // RFC 8259 §8.2: an unpaired surrogate has no UTF-8 form
@@ -77,14 +82,66 @@ describe('free-text fields refuse what cannot be stored faithfully, naming the f
   });
 
   const cases: { what: string; token: () => string; method: 'post' | 'patch'; url: () => string; body: (bad: string) => object; field: string }[] = [
-    { what: 'reading note', token: () => nurse, method: 'post', url: () => '/api/infants/inf-ashgrove/readings', body: (note) => ({ id: randomUUID(), unit: 'C', probe: 36.8, note }), field: 'note' },
-    { what: 'late-entry reason', token: () => nurse, method: 'post', url: () => '/api/infants/inf-ashgrove/readings', body: (lateReason) => ({ id: randomUUID(), unit: 'C', probe: 36.8, lateReason }), field: 'lateReason' },
-    { what: 'correction note', token: () => nurse, method: 'post', url: () => `/api/readings/${aReading('inf-ashgrove')}/corrections`, body: (note) => ({ id: randomUUID(), reason: 'corrected-value', note }), field: 'note' },
-    { what: 'skin-to-skin carer', token: () => nurse, method: 'post', url: () => '/api/infants/inf-brightwater/skin-to-skin', body: (carer) => ({ id: randomUUID(), unit: 'C', reference: 36.7, limitCenti: 50, carer }), field: 'carer' },
+    {
+      what: 'reading note',
+      token: () => nurse,
+      method: 'post',
+      url: () => '/api/infants/inf-ashgrove/readings',
+      body: (note) => ({ id: randomUUID(), unit: 'C', probe: 36.8, note }),
+      field: 'note',
+    },
+    {
+      what: 'late-entry reason',
+      token: () => nurse,
+      method: 'post',
+      url: () => '/api/infants/inf-ashgrove/readings',
+      body: (lateReason) => ({ id: randomUUID(), unit: 'C', probe: 36.8, lateReason }),
+      field: 'lateReason',
+    },
+    {
+      what: 'correction note',
+      token: () => nurse,
+      method: 'post',
+      url: () => `/api/readings/${aReading('inf-ashgrove')}/corrections`,
+      body: (note) => ({ id: randomUUID(), reason: 'corrected-value', note }),
+      field: 'note',
+    },
+    {
+      what: 'skin-to-skin carer',
+      token: () => nurse,
+      method: 'post',
+      url: () => '/api/infants/inf-brightwater/skin-to-skin',
+      body: (carer) => ({ id: randomUUID(), unit: 'C', reference: 36.7, limitCenti: 50, carer }),
+      field: 'carer',
+    },
     { what: 'discharge note', token: () => charge, method: 'post', url: () => '/api/infants/inf-elderbrook/discharge', body: (note) => ({ note }), field: 'note' },
-    { what: 'admission display name', token: () => charge, method: 'post', url: () => '/api/units/unit-north/infants', body: (displayName) => ({ bedId: 'bed-N12', displayName, birthAt: '2026-11-15T08:00:00Z', gestationWeeks: 34, gestationDays: 2, birthWeightGrams: 2100, heatSource: 'incubator', controlMode: 'air-servo', setTemperature: 33 }), field: 'displayName' },
+    {
+      what: 'admission display name',
+      token: () => charge,
+      method: 'post',
+      url: () => '/api/units/unit-north/infants',
+      body: (displayName) => ({
+        bedId: 'bed-N12',
+        displayName,
+        birthAt: '2026-11-15T08:00:00Z',
+        gestationWeeks: 34,
+        gestationDays: 2,
+        birthWeightGrams: 2100,
+        heatSource: 'incubator',
+        controlMode: 'air-servo',
+        setTemperature: 33,
+      }),
+      field: 'displayName',
+    },
     { what: 'teaching note', token: () => educator, method: 'post', url: () => `/api/review/items/${openFlag('inf-ashgrove')}/notes`, body: (note) => ({ note }), field: 'note' },
-    { what: 'person name', token: () => admin, method: 'post', url: () => '/api/admin/users', body: (name) => ({ name, email: 'edge.case@warmfold.test', role: 'nurse', unitIds: ['unit-north'] }), field: 'name' },
+    {
+      what: 'person name',
+      token: () => admin,
+      method: 'post',
+      url: () => '/api/admin/users',
+      body: (name) => ({ name, email: 'edge.case@warmfold.test', role: 'nurse', unitIds: ['unit-north'] }),
+      field: 'name',
+    },
     { what: 'unit name', token: () => admin, method: 'patch', url: () => '/api/admin/units/unit-north', body: (name) => ({ name }), field: 'name' },
     { what: 'bed label', token: () => admin, method: 'post', url: () => '/api/admin/units/unit-north/beds', body: (label) => ({ label }), field: 'label' },
   ];
@@ -99,7 +156,9 @@ describe('free-text fields refuse what cannot be stored faithfully, naming the f
   });
 
   it('a search typed into the review queue (kept in the audit event of the read) follows the same rule', async () => {
-    const res = await request(env.app).get(`/api/review/queue?q=${encodeURIComponent(BIDI_OVERRIDE)}`).set('Authorization', `Bearer ${educator}`);
+    const res = await request(env.app)
+      .get(`/api/review/queue?q=${encodeURIComponent(BIDI_OVERRIDE)}`)
+      .set('Authorization', `Bearer ${educator}`);
     expect(res.status).toBe(400);
     expect(res.body.error.fields.q).toEqual(expect.any(String));
   });
@@ -133,7 +192,9 @@ describe('bodies that are not JSON', () => {
     const multipart = await as(charge, 'post', '/api/infants/inf-elderbrook/discharge').field('note', 'Home');
     expect(multipart.status).toBe(415);
     const flagId = openFlag('inf-brightwater');
-    const json = await as(nurse, 'post', `/api/flags/${flagId}/actions`).set('Content-Type', 'application/json; charset=utf-8').send(JSON.stringify({ id: randomUUID(), kind: 'checked-probe-contact' }));
+    const json = await as(nurse, 'post', `/api/flags/${flagId}/actions`)
+      .set('Content-Type', 'application/json; charset=utf-8')
+      .send(JSON.stringify({ id: randomUUID(), kind: 'checked-probe-contact' }));
     expect(json.status).toBe(201);
   });
 
@@ -156,7 +217,8 @@ describe('multipart uploads (RFC 7578) that cannot be parsed answer 400 naming t
   const raw = (payload: string) =>
     as(admin, 'post', '/api/admin/roster/preview').set('Content-Type', `multipart/form-data; boundary=${BOUNDARY}`).send(Buffer.from(payload, 'utf8'));
   const filesIn = () => (fs.existsSync(path.join(env.dir, 'uploads')) ? fs.readdirSync(path.join(env.dir, 'uploads')).length : 0);
-  const part = (disposition: string) => `--${BOUNDARY}\r\nContent-Disposition: form-data; name="file"; ${disposition}\r\nContent-Type: text/csv\r\n\r\n${ROSTER}\r\n--${BOUNDARY}--\r\n`;
+  const part = (disposition: string) =>
+    `--${BOUNDARY}\r\nContent-Disposition: form-data; name="file"; ${disposition}\r\nContent-Type: text/csv\r\n\r\n${ROSTER}\r\n--${BOUNDARY}--\r\n`;
 
   it.each([
     ['a NUL byte in the file name (RFC 5987 encoded)', part("filename*=utf-8''ro%00ster.csv")],

@@ -52,7 +52,7 @@ describe('list answers name the infants they returned', () => {
     expect(sorted(res.body.infants.map((i: { id: string }) => i.id))).toEqual(sorted([...NORTH_ADMITTED, ...SOUTH_ADMITTED]));
   });
 
-  it('/api/infants/mine names the nurse\'s own infants', async () => {
+  it("/api/infants/mine names the nurse's own infants", async () => {
     const mark = lastId();
     const res = await get(nurse, '/api/infants/mine');
     expect(res.status).toBe(200);
@@ -121,7 +121,10 @@ describe('list answers name the infants they returned', () => {
   });
 
   it("the unit's handover plans name their infants", async () => {
-    const written = await request(env.app).post('/api/infants/inf-ashgrove/handover-plan').set('Authorization', `Bearer ${charge}`).send({ plan: 'Recheck the probe site at 14:00.' });
+    const written = await request(env.app)
+      .post('/api/infants/inf-ashgrove/handover-plan')
+      .set('Authorization', `Bearer ${charge}`)
+      .send({ plan: 'Recheck the probe site at 14:00.' });
     expect(written.status).toBe(201);
     const mark = lastId();
     const res = await get(charge, '/api/units/unit-north/handover-plans');
@@ -140,7 +143,7 @@ describe('list answers name the infants they returned', () => {
   });
 });
 
-describe('a unit filter outside the caller\'s own is refused, not answered empty', () => {
+describe("a unit filter outside the caller's own is refused, not answered empty", () => {
   it.each([
     ['/api/infants?unitId=unit-south', () => nurse],
     ['/api/infants?unitId=unit-east', () => educator],

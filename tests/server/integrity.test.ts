@@ -51,7 +51,7 @@ describe('audit chain', () => {
     // Someone with file access removes the guard and rewrites history.
     db.prepare('DROP TRIGGER audit_events_no_update').run();
     const target = db.prepare('SELECT id FROM audit_events ORDER BY id LIMIT 1 OFFSET 5').get() as { id: number };
-    db.prepare("UPDATE audit_events SET after = '{\"probeCenti\":3650}' WHERE id = ?").run(target.id);
+    db.prepare('UPDATE audit_events SET after = \'{"probeCenti":3650}\' WHERE id = ?').run(target.id);
     const report = verifyAuditChain(db);
     db.close();
     expect(report.ok).toBe(false);

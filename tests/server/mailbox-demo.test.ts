@@ -63,7 +63,13 @@ it("an admin's reset of another person's password shows in his mailbox without t
   const hers = (await mailbox('southNurse')).find((m) => m.subject === 'Reset your Warmfold password');
   const token = linkIn(hers!.text);
   expect(token).toBeDefined();
-  expect((await request(env.app).post('/api/auth/password-reset').send({ token: decodeURIComponent(token!), password: NEW_PASSWORD })).status).toBe(204);
+  expect(
+    (
+      await request(env.app)
+        .post('/api/auth/password-reset')
+        .send({ token: decodeURIComponent(token!), password: NEW_PASSWORD })
+    ).status,
+  ).toBe(204);
   // Her password changed, so her sessions ended; she signs in with the new one.
   tokens.southNurse = await env.signIn(DEMO.southNurse, NEW_PASSWORD);
 });
@@ -83,7 +89,16 @@ it('a demo nurse who asks for a reset finds her own link in her own mailbox, and
 });
 
 it('a message to several people keeps its token links from every one of them', () => {
-  const row = { id: 1, receivedAt: new Date(0), from: 'w@x.test', to: `${DEMO.nurse}, ${DEMO.charge}`, subject: 's', text: 'Open https://h.test/reset-password?token=abc123 now', html: null, sentBy: null };
+  const row = {
+    id: 1,
+    receivedAt: new Date(0),
+    from: 'w@x.test',
+    to: `${DEMO.nurse}, ${DEMO.charge}`,
+    subject: 's',
+    text: 'Open https://h.test/reset-password?token=abc123 now',
+    html: null,
+    sentBy: null,
+  };
   const view = mailboxView(row, { userId: 'u-nurse', email: DEMO.nurse });
   expect(view!.text).not.toContain('abc123');
   expect(mailboxView(row, { userId: 'u-educator', email: DEMO.educator })).toBeNull();

@@ -28,7 +28,20 @@ const env: NodeJS.ProcessEnv = {
   DATA_DIR: path.join(dir, 'data'),
 };
 const setup = (args: string[]) => spawnSync(path.join(ROOT, 'node_modules', '.bin', 'tsx'), ['scripts/first-admin.ts', ...args], { cwd: ROOT, env, encoding: 'utf8' });
-const ARGS = ['--email', 'Rhea.Castellan@example-hospital.test', '--name', 'Rhea Castellan', '--unit', 'Neonatal Unit East', '--hospital', 'Example General', '--time-zone', 'Europe/Dublin', '--beds', '6'];
+const ARGS = [
+  '--email',
+  'Rhea.Castellan@example-hospital.test',
+  '--name',
+  'Rhea Castellan',
+  '--unit',
+  'Neonatal Unit East',
+  '--hospital',
+  'Example General',
+  '--time-zone',
+  'Europe/Dublin',
+  '--beds',
+  '6',
+];
 
 it('creates the unit and its administrator, whose printed link lets her in; a second run is refused', async () => {
   const first = setup(ARGS);
@@ -42,7 +55,13 @@ it('creates the unit and its administrator, whose printed link lets her in; a se
   try {
     const app = createApp({ db: database, mailer: new MemoryMailer(), clock: systemClock, config, log: () => {} });
     const password = 'east-wing-lantern-at-dawn';
-    expect((await request(app).post('/api/auth/invitations/accept').send({ token: decodeURIComponent(link![1]!), password })).status).toBe(204);
+    expect(
+      (
+        await request(app)
+          .post('/api/auth/invitations/accept')
+          .send({ token: decodeURIComponent(link![1]!), password })
+      ).status,
+    ).toBe(204);
     // The e-mail was stored as the sign-in form sends it: trimmed and lower case.
     const signIn = await request(app).post('/api/auth/sign-in').send({ email: 'rhea.castellan@example-hospital.test', password });
     expect(signIn.status).toBe(200);

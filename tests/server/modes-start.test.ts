@@ -29,7 +29,18 @@ interface Run {
 
 /** The child's whole environment: only what a test passes, over a few neutral defaults. */
 function childEnv(dataDir: string, extra: Record<string, string>): NodeJS.ProcessEnv {
-  return { NODE_ENV: 'test', PATH: process.env.PATH ?? '', HOME: process.env.HOME ?? '', PORT: '0', HOST: '127.0.0.1', SMTP_PORT: '0', DATA_DIR: dataDir, LOG_REQUESTS: 'false', ESCALATION_INTERVAL_SECONDS: '3600', ...extra };
+  return {
+    NODE_ENV: 'test',
+    PATH: process.env.PATH ?? '',
+    HOME: process.env.HOME ?? '',
+    PORT: '0',
+    HOST: '127.0.0.1',
+    SMTP_PORT: '0',
+    DATA_DIR: dataDir,
+    LOG_REQUESTS: 'false',
+    ESCALATION_INTERVAL_SECONDS: '3600',
+    ...extra,
+  };
 }
 
 /** Start server/index.ts; resolve when it prints its address or exits. */
@@ -72,7 +83,13 @@ afterAll(() => {
   for (const d of dirs) fs.rmSync(d, { recursive: true, force: true });
 });
 
-const PRODUCTION_ENV = { WARMFOLD_MODE: 'production', JWT_SECRET: SECRET, SMTP_HOST: 'relay.example-hospital.test', PUBLIC_URL: 'https://warmfold.example-hospital.test', AUDIT_KEY: `${SECRET}-audit` };
+const PRODUCTION_ENV = {
+  WARMFOLD_MODE: 'production',
+  JWT_SECRET: SECRET,
+  SMTP_HOST: 'relay.example-hospital.test',
+  PUBLIC_URL: 'https://warmfold.example-hospital.test',
+  AUDIT_KEY: `${SECRET}-audit`,
+};
 
 describe('a production start refuses what belongs to the demo', () => {
   it('with nothing set, exits with 78 and names JWT_SECRET, SMTP_HOST and PUBLIC_URL, writing nothing to the data folder', async () => {

@@ -162,7 +162,12 @@ describe('placement on admission and with each reading', () => {
     expect((await placementOf(infantId)).prompt).toBe(PRONE_PROMPT);
     tick();
     // ...and charting the infant as lying on the side clears the prompt.
-    const side = await post(`/readings/${value.body.reading.id}/corrections`, { id: randomUUID(), reason: 'corrected-value', note: 'She was on her side.', values: { unit: 'C', probe: 36.7, position: 'side' } });
+    const side = await post(`/readings/${value.body.reading.id}/corrections`, {
+      id: randomUUID(),
+      reason: 'corrected-value',
+      note: 'She was on her side.',
+      values: { unit: 'C', probe: 36.7, position: 'side' },
+    });
     expect(side.status).toBe(201);
     expect(await placementOf(infantId)).toMatchObject({ probeSite: 'abdomen', position: 'side', prompt: null });
     tick();
@@ -266,7 +271,10 @@ describe('current weight and incubator humidity', () => {
   });
 
   it('takes the bounds themselves (300 g, 8000 g, 0 %, 100 %)', async () => {
-    for (const body of [{ weightGrams: 300, humidityPct: 0 }, { weightGrams: 8000, humidityPct: 100 }]) {
+    for (const body of [
+      { weightGrams: 300, humidityPct: 0 },
+      { weightGrams: 8000, humidityPct: 100 },
+    ]) {
       tick();
       expect((await post('/infants/inf-brightwater/readings', { id: randomUUID(), unit: 'C', probe: 36.6, ...body })).status).toBe(201);
     }
@@ -275,11 +283,13 @@ describe('current weight and incubator humidity', () => {
   it('exports the weight to FHIR as LOINC 29463-7 in g, and no humidity', async () => {
     const res = await get('/exports/infants/inf-brightwater/fhir', educator);
     expect(res.status).toBe(200);
-    const bundle = JSON.parse(res.text) as { entry: Array<{ resource: { resourceType: string; code?: { coding?: Array<{ system: string; code: string }> }; valueQuantity?: { value: number; code: string; system: string } } }> };
+    const bundle = JSON.parse(res.text) as {
+      entry: {
+        resource: { resourceType: string; code?: { coding?: { system: string; code: string }[] }; valueQuantity?: { value: number; code: string; system: string } };
+      }[];
+    };
     const weights = bundle.entry.map((e) => e.resource).filter((r) => r.code?.coding?.some((c) => c.system === 'http://loinc.org' && c.code === '29463-7'));
-    expect(weights.map((w) => w.valueQuantity)).toEqual(
-      expect.arrayContaining([{ value: 1085, unit: 'g', system: 'http://unitsofmeasure.org', code: 'g' }]),
-    );
+    expect(weights.map((w) => w.valueQuantity)).toEqual(expect.arrayContaining([{ value: 1085, unit: 'g', system: 'http://unitsofmeasure.org', code: 'g' }]));
     expect(res.text).not.toMatch(/humidity/i);
   });
 });

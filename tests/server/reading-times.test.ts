@@ -17,7 +17,11 @@ beforeAll(async () => {
 afterAll(() => env.close());
 
 const INFANT = 'inf-glimmerton';
-const post = (path: string, body: object) => request(env.app).post(`/api${path}`).set({ Authorization: `Bearer ${nurse}` }).send(body);
+const post = (path: string, body: object) =>
+  request(env.app)
+    .post(`/api${path}`)
+    .set({ Authorization: `Bearer ${nurse}` })
+    .send(body);
 const reading = (values: Record<string, unknown> = {}) => ({ id: randomUUID(), unit: 'C', probe: 36.8, remote: 36.7, remoteSite: 'axilla', ...values });
 const written = () => [count(env.database, 'readings'), count(env.database, 'audit_events'), count(env.database, 'flags')];
 
@@ -38,7 +42,7 @@ describe('a reading time ahead of the clock', () => {
     expect(within.status).toBe(201);
   });
 
-  it('is refused for a correction too, on the correction\'s field', async () => {
+  it("is refused for a correction too, on the correction's field", async () => {
     const made = await post(`/infants/${INFANT}/readings`, reading());
     expect(made.status).toBe(201);
     const before = written();
@@ -81,7 +85,7 @@ describe('temperatures typed to one decimal place', () => {
     expect((await post(`/infants/${INFANT}/readings`, reading({ probe: 37, remote: 36.7 + 0.1 }))).status).toBe(201);
   });
 
-  it('refuses a second decimal in a correction\'s new values', async () => {
+  it("refuses a second decimal in a correction's new values", async () => {
     const made = await post(`/infants/${INFANT}/readings`, reading());
     const before = written();
     const res = await post(`/readings/${made.body.reading.id}/corrections`, {

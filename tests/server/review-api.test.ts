@@ -94,9 +94,14 @@ describe('review item and teaching notes', () => {
 
   it('a teaching note is appended, audited, marks the item reviewed and reaches the nurse concerned', async () => {
     const reviews = count(env.database, 'reviews');
-    const res = await request(env.app).post(`/api/review/items/${flagId}/notes`).set('Authorization', `Bearer ${educator}`).send({ note: 'Good catch: recheck within 30 minutes next time.' });
+    const res = await request(env.app)
+      .post(`/api/review/items/${flagId}/notes`)
+      .set('Authorization', `Bearer ${educator}`)
+      .send({ note: 'Good catch: recheck within 30 minutes next time.' });
     expect(res.status).toBe(201);
-    expect(res.body.review).toEqual(expect.objectContaining({ flagId, note: 'Good catch: recheck within 30 minutes next time.', reviewer: { id: 'u-educator', name: 'Priya Raman' } }));
+    expect(res.body.review).toEqual(
+      expect.objectContaining({ flagId, note: 'Good catch: recheck within 30 minutes next time.', reviewer: { id: 'u-educator', name: 'Priya Raman' } }),
+    );
     expect(count(env.database, 'reviews')).toBe(reviews + 1);
     env.clock.advanceMinutes(1);
     const second = await request(env.app).post(`/api/review/items/${flagId}/notes`).set('Authorization', `Bearer ${educator}`).send({ note: 'Discussed at handover.' });
@@ -171,7 +176,11 @@ describe('the demo for the educator', () => {
 describe('review queue paging and search', () => {
   /** The queue's flags counted straight from the tables (the review kinds, both units). */
   const storedFlags = () =>
-    (env.database.sqlite.prepare("SELECT COUNT(*) AS n FROM flags WHERE kind IN ('gap', 'overdue-check', 'heat-stress', 'manual-mode', 'cold-stress', 'fever', 'skin-to-skin-deviation')").get() as { n: number }).n;
+    (
+      env.database.sqlite
+        .prepare("SELECT COUNT(*) AS n FROM flags WHERE kind IN ('gap', 'overdue-check', 'heat-stress', 'manual-mode', 'cold-stress', 'fever', 'skin-to-skin-deviation')")
+        .get() as { n: number }
+    ).n;
 
   it('walks every item page by page with nextCursor: none twice, none left out, newest first', async () => {
     const seen: string[] = [];

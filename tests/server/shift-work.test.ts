@@ -21,7 +21,10 @@ afterAll(() => env.close());
 describe('the handover plan per infant and shift', () => {
   it('a nurse writes the plan; a new version replaces what is shown and the old one stays', async () => {
     expect((await request(env.app).get('/api/infants/inf-ashgrove/handover-plan').set(auth('nurse'))).body.plan).toBeNull();
-    const first = await request(env.app).post('/api/infants/inf-ashgrove/handover-plan').set(auth('nurse')).send({ plan: 'Wean set temperature by 0.2 °C if two remote readings are above 37.2.' });
+    const first = await request(env.app)
+      .post('/api/infants/inf-ashgrove/handover-plan')
+      .set(auth('nurse'))
+      .send({ plan: 'Wean set temperature by 0.2 °C if two remote readings are above 37.2.' });
     expect(first.status).toBe(201);
     expect(first.body.plan).toMatchObject({ infantId: 'inf-ashgrove', writtenBy: 'Nia Okafor' });
     expect(['day', 'night']).toContain(first.body.plan.shift);
@@ -52,11 +55,23 @@ describe('bulk assignment at shift change', () => {
     const res = await request(env.app)
       .post('/api/units/unit-north/assignments/bulk')
       .set(auth('charge'))
-      .send({ shift: 'next', assignments: [{ nurseId: 'u-nurse-2', infantIds: ['inf-ashgrove', 'inf-brightwater'] }, { nurseId: 'u-nurse-4', infantIds: ['inf-cinderford'] }] });
+      .send({
+        shift: 'next',
+        assignments: [
+          { nurseId: 'u-nurse-2', infantIds: ['inf-ashgrove', 'inf-brightwater'] },
+          { nurseId: 'u-nurse-4', infantIds: ['inf-cinderford'] },
+        ],
+      });
     expect(res.status).toBe(201);
     expect(res.body.assignments).toHaveLength(3);
-    const rows = env.database.sqlite.prepare('SELECT infant_id, nurse_id, shift_date, shift FROM assignments WHERE id IN (' + res.body.assignments.map(() => '?').join(',') + ') ORDER BY infant_id').all(...res.body.assignments.map((a: { id: string }) => a.id)) as { infant_id: string; nurse_id: string; shift_date: string; shift: string }[];
-    expect(rows.map((r) => [r.infant_id, r.nurse_id])).toEqual([['inf-ashgrove', 'u-nurse-2'], ['inf-brightwater', 'u-nurse-2'], ['inf-cinderford', 'u-nurse-4']]);
+    const rows = env.database.sqlite
+      .prepare('SELECT infant_id, nurse_id, shift_date, shift FROM assignments WHERE id IN (' + res.body.assignments.map(() => '?').join(',') + ') ORDER BY infant_id')
+      .all(...res.body.assignments.map((a: { id: string }) => a.id)) as { infant_id: string; nurse_id: string; shift_date: string; shift: string }[];
+    expect(rows.map((r) => [r.infant_id, r.nurse_id])).toEqual([
+      ['inf-ashgrove', 'u-nurse-2'],
+      ['inf-brightwater', 'u-nurse-2'],
+      ['inf-cinderford', 'u-nurse-4'],
+    ]);
     // One shift for all of them: the next one.
     expect(new Set(rows.map((r) => `${r.shift_date} ${r.shift}`)).size).toBe(1);
   });
@@ -66,13 +81,23 @@ describe('bulk assignment at shift change', () => {
     const bad = await request(env.app)
       .post('/api/units/unit-north/assignments/bulk')
       .set(auth('charge'))
-      .send({ assignments: [{ nurseId: 'u-nurse-2', infantIds: ['inf-ashgrove'] }, { nurseId: 'u-nurse-3', infantIds: ['inf-cinderford'] }] });
+      .send({
+        assignments: [
+          { nurseId: 'u-nurse-2', infantIds: ['inf-ashgrove'] },
+          { nurseId: 'u-nurse-3', infantIds: ['inf-cinderford'] },
+        ],
+      });
     expect(bad.status).toBe(400);
     expect(bad.body.error.fields).toHaveProperty('nurseId');
     const twice = await request(env.app)
       .post('/api/units/unit-north/assignments/bulk')
       .set(auth('charge'))
-      .send({ assignments: [{ nurseId: 'u-nurse-2', infantIds: ['inf-ashgrove'] }, { nurseId: 'u-nurse-4', infantIds: ['inf-ashgrove'] }] });
+      .send({
+        assignments: [
+          { nurseId: 'u-nurse-2', infantIds: ['inf-ashgrove'] },
+          { nurseId: 'u-nurse-4', infantIds: ['inf-ashgrove'] },
+        ],
+      });
     expect(twice.status).toBe(400);
     expect(JSON.stringify(twice.body.error.fields)).toMatch(/two nurses/);
     expect((await request(env.app).post('/api/units/unit-north/assignments/bulk').set(auth('nurse')).send({ assignments: [] })).status).toBe(403);
@@ -80,7 +105,10 @@ describe('bulk assignment at shift change', () => {
   });
 
   it('the nurses to choose from are active people of the unit who accepted their invitation', async () => {
-    const invited = await request(env.app).post('/api/admin/users').set(auth('admin')).send({ name: 'Rowan Pellew', email: 'rowan.pellew@warmfold.test', role: 'nurse', unitIds: ['unit-north'] });
+    const invited = await request(env.app)
+      .post('/api/admin/users')
+      .set(auth('admin'))
+      .send({ name: 'Rowan Pellew', email: 'rowan.pellew@warmfold.test', role: 'nurse', unitIds: ['unit-north'] });
     expect(invited.status).toBe(201);
     const nurses = await request(env.app).get('/api/units/unit-north/nurses').set(auth('charge'));
     const names = nurses.body.nurses.map((n: { name: string }) => n.name);
@@ -92,7 +120,10 @@ describe('bulk assignment at shift change', () => {
     expect(board.body.nurses.map((n: { name: string }) => n.name)).not.toContain('Rowan Pellew');
     expect(board.body.nurses.map((n: { name: string }) => n.name)).toContain('Kofi Mensah');
     // Nor can she be given infants before she has accepted.
-    const give = await request(env.app).post('/api/units/unit-north/assignments/bulk').set(auth('charge')).send({ assignments: [{ nurseId: invited.body.user.id, infantIds: ['inf-ashgrove'] }] });
+    const give = await request(env.app)
+      .post('/api/units/unit-north/assignments/bulk')
+      .set(auth('charge'))
+      .send({ assignments: [{ nurseId: invited.body.user.id, infantIds: ['inf-ashgrove'] }] });
     expect(give.status).toBe(400);
   });
 });

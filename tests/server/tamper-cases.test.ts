@@ -80,8 +80,18 @@ const triggerSql = (db: Database.Database, name: string) => (db.prepare("SELECT 
 
 /** Rewrite every event's hash from the first one on, as someone who knows the algorithm would. */
 function rechain(db: Database.Database): void {
-  const events = db.prepare('SELECT id, at, actor_id AS actorId, action, entity_type AS entityType, entity_id AS entityId, unit_id AS unitId, before, after FROM audit_events ORDER BY id').all() as {
-    id: number; at: number; actorId: string | null; action: string; entityType: string; entityId: string | null; unitId: string | null; before: string | null; after: string | null;
+  const events = db
+    .prepare('SELECT id, at, actor_id AS actorId, action, entity_type AS entityType, entity_id AS entityId, unit_id AS unitId, before, after FROM audit_events ORDER BY id')
+    .all() as {
+    id: number;
+    at: number;
+    actorId: string | null;
+    action: string;
+    entityType: string;
+    entityId: string | null;
+    unitId: string | null;
+    before: string | null;
+    after: string | null;
   }[];
   const update = db.prepare('UPDATE audit_events SET prev_hash = ?, hash = ? WHERE id = ?');
   let prev = GENESIS_HASH;
@@ -106,7 +116,9 @@ describe('a database the app wrote', () => {
 
   it('gives a reading written over HTTP exactly one row event, holding the hash of its content', () => {
     const { sqlite } = env.database;
-    const events = sqlite.prepare("SELECT after FROM audit_events WHERE action = 'row-insert' AND entity_type = 'readings' AND entity_id = ?").all(appReadingId) as { after: string }[];
+    const events = sqlite.prepare("SELECT after FROM audit_events WHERE action = 'row-insert' AND entity_type = 'readings' AND entity_id = ?").all(appReadingId) as {
+      after: string;
+    }[];
     expect(events).toHaveLength(1);
     const row = sqlite.prepare('SELECT probe_centi, remote_centi FROM readings WHERE id = ?').get(appReadingId);
     // 36.8 °C typed by the nurse is stored as 3680 hundredths (the product's unit convention).
@@ -121,7 +133,13 @@ describe('a database the app wrote', () => {
     sqlite.prepare("INSERT INTO beds (id, unit_id, label, sort_order, active) VALUES (?, 'unit-north', ?, 98, 1)").run(id, `K${Date.now()}`);
     sqlite.prepare('UPDATE beds SET id = ? WHERE id = ?').run(`${id}-renamed`, id);
     const actions = sqlite.prepare("SELECT action, entity_id FROM audit_events WHERE entity_type = 'beds' AND entity_id IN (?, ?) ORDER BY id").all(id, `${id}-renamed`);
-    expect(actions).toEqual(expect.arrayContaining([{ action: 'row-insert', entity_id: id }, { action: 'row-delete', entity_id: id }, { action: 'row-update', entity_id: `${id}-renamed` }]));
+    expect(actions).toEqual(
+      expect.arrayContaining([
+        { action: 'row-insert', entity_id: id },
+        { action: 'row-delete', entity_id: id },
+        { action: 'row-update', entity_id: `${id}-renamed` },
+      ]),
+    );
     expect(verifyRecord(sqlite).findings).toEqual([]);
   });
 
@@ -167,7 +185,9 @@ describe('the seven tamper cases', () => {
     const dayAgo = env.clock.now().getTime() - 24 * 3600_000;
     const { report } = await tamper('insert-reading', (db) =>
       db
-        .prepare("INSERT INTO readings (id, infant_id, unit_id, taken_at, recorded_at, recorded_by, probe_centi, remote_centi, remote_site) VALUES (?, 'inf-ashgrove', 'unit-north', ?, ?, 'u-nurse', 3690, 3680, 'axilla')")
+        .prepare(
+          "INSERT INTO readings (id, infant_id, unit_id, taken_at, recorded_at, recorded_by, probe_centi, remote_centi, remote_site) VALUES (?, 'inf-ashgrove', 'unit-north', ?, ?, 'u-nurse', 3690, 3680, 'axilla')",
+        )
         .run(forged, dayAgo, dayAgo + 60_000),
     );
     expect(report.ok).toBe(false);
@@ -201,7 +221,10 @@ describe('the seven tamper cases', () => {
       // The attacker also rewrites the row's event to the new content, then every hash after it.
       db.prepare('DROP TRIGGER audit_events_no_update').run();
       const canonical = (db.prepare(`SELECT ${canonicalSql(CHAINED.readings!, 1)} AS c FROM readings WHERE id = ?`).get(appReadingId) as { c: string }).c;
-      db.prepare("UPDATE audit_events SET after = ? WHERE action = 'row-insert' AND entity_type = 'readings' AND entity_id = ?").run(JSON.stringify({ v: 1, row: rowHash('readings', 1, canonical) }), appReadingId);
+      db.prepare("UPDATE audit_events SET after = ? WHERE action = 'row-insert' AND entity_type = 'readings' AND entity_id = ?").run(
+        JSON.stringify({ v: 1, row: rowHash('readings', 1, canonical) }),
+        appReadingId,
+      );
       rechain(db);
     });
     // Without the checkpoint the forgery is self-consistent: that is why the checkpoints exist.
@@ -222,7 +245,9 @@ describe('the seven tamper cases', () => {
   });
 
   it('7. a deleted middle audit event is named by the event after it, and npm run audit:verify exits 2', async () => {
-    const victim = env.database.sqlite.prepare("SELECT id, entity_id FROM audit_events WHERE action = 'row-insert' AND entity_type = 'readings' ORDER BY id LIMIT 1 OFFSET 20").get() as { id: number; entity_id: string };
+    const victim = env.database.sqlite
+      .prepare("SELECT id, entity_id FROM audit_events WHERE action = 'row-insert' AND entity_type = 'readings' ORDER BY id LIMIT 1 OFFSET 20")
+      .get() as { id: number; entity_id: string };
     const { file, report } = await tamper('delete-event', (db) => {
       db.prepare('DROP TRIGGER audit_events_no_delete').run();
       db.prepare('DELETE FROM audit_events WHERE id = ?').run(victim.id);

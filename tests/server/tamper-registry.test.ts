@@ -26,7 +26,9 @@ describe('the row ledger registry', () => {
     const newest = [...chained!.versions.at(-1)!].sort();
     if (newest.join() !== columns.join()) {
       const missing = columns.filter((c) => !newest.includes(c));
-      throw new Error(`${name}'s newest canonical version does not match its columns (missing: ${missing.join(', ') || 'none'}; extra: ${newest.filter((c) => !columns.includes(c)).join(', ') || 'none'}). Append a version, never edit an older one.`);
+      throw new Error(
+        `${name}'s newest canonical version does not match its columns (missing: ${missing.join(', ') || 'none'}; extra: ${newest.filter((c) => !columns.includes(c)).join(', ') || 'none'}). Append a version, never edit an older one.`,
+      );
     }
     for (const k of chained!.key) expect(columns).toContain(k);
     if (chained!.unit) expect(columns).toContain(chained!.unit);

@@ -32,7 +32,9 @@ const ROSTER = [
 describe('roster CSV', () => {
   it('previews with per-row errors before anything is written', async () => {
     const before = snapshot();
-    const bad = ['name,email,role,unit', 'Ok Person,ok.person@warmfold.test,nurse,unit-north', 'X,not-mail,pilot,Nowhere', 'Dup One,ok.person@warmfold.test,nurse,unit-north'].join('\n');
+    const bad = ['name,email,role,unit', 'Ok Person,ok.person@warmfold.test,nurse,unit-north', 'X,not-mail,pilot,Nowhere', 'Dup One,ok.person@warmfold.test,nurse,unit-north'].join(
+      '\n',
+    );
     const res = await upload('/api/admin/roster/preview', admin, bad, 'roster.csv');
     expect(res.status).toBe(201);
     expect(res.body.errorCount).toBe(2);
@@ -59,7 +61,12 @@ describe('roster CSV', () => {
     expect(imp.status).toBe(200);
     expect(imp.body).toEqual({ created: 2, skipped: 1, alreadyImported: false });
     expect(count(env.database, 'users')).toBe(users + 2);
-    expect(env.mailer.sent.slice(sent).map((m) => m.to[0]).sort()).toEqual(['bram.okonjo@warmfold.test', 'tamsin.hollow@warmfold.test']);
+    expect(
+      env.mailer.sent
+        .slice(sent)
+        .map((m) => m.to[0])
+        .sort(),
+    ).toEqual(['bram.okonjo@warmfold.test', 'tamsin.hollow@warmfold.test']);
 
     const before = snapshot();
     const again = await upload('/api/admin/roster/preview', admin, ROSTER, 'roster-copy.csv');
@@ -114,7 +121,9 @@ describe('readings CSV', () => {
     const imp = await post(`/api/readings-import/${preview.body.upload.id}/import`, charge);
     expect(imp.body).toEqual({ created: 3, skipped: 0, alreadyImported: false });
     expect(count(env.database, 'readings')).toBe(readings + 3);
-    const f = env.database.sqlite.prepare("SELECT probe_centi, remote_centi, remote_site, entered_unit FROM readings WHERE taken_at = ?").get(Date.parse('2026-11-16T09:41:00Z')) as Record<string, unknown>;
+    const f = env.database.sqlite
+      .prepare('SELECT probe_centi, remote_centi, remote_site, entered_unit FROM readings WHERE taken_at = ?')
+      .get(Date.parse('2026-11-16T09:41:00Z')) as Record<string, unknown>;
     expect(f).toEqual({ probe_centi: 3661, remote_centi: 3678, remote_site: 'rectal', entered_unit: 'F' });
 
     const before = snapshot();
@@ -186,7 +195,7 @@ describe('readings import: what it refuses and whom it credits', () => {
     expect(byLine[4]).toMatch(/^time: 2026-13-01 is not a date/);
   });
 
-  it('a time without an offset is the unit\'s wall clock; times the clocks skip or repeat are refused (UK clock changes, gov.uk: last Sunday of March and October at 01:00 UTC)', async () => {
+  it("a time without an offset is the unit's wall clock; times the clocks skip or repeat are refused (UK clock changes, gov.uk: last Sunday of March and October at 01:00 UTC)", async () => {
     const res = await preview([HEAD, 'N07,2026-11-16T09:30,36.6,,,C,,,,,', 'N07,2026-03-29T01:30,36.6,,,C,,,,,', 'N07,2026-10-25T01:30,36.6,,,C,,,,,'].join('\n'), 'zones.csv');
     const byLine = errorsOf(res.body);
     expect(byLine[2]).toBe('');
@@ -236,8 +245,13 @@ describe('readings import: what it refuses and whom it credits', () => {
     expect(errorsOf(res.body)[4]).toBe('taken_by: no nurse of this unit has the e-mail nobody@warmfold.test');
     const ok = await preview(text.split('\n').slice(0, 3).join('\n'), 'credit-ok.csv');
     expect((await importWith(ok.body.upload.id)).status).toBe(200);
-    const rows = env.database.sqlite.prepare("SELECT r.id, r.recorded_by, r.taken_by, r.upload_id FROM readings r WHERE r.upload_id = ? ORDER BY r.taken_at").all(ok.body.upload.id) as { id: string; recorded_by: string; taken_by: string | null; upload_id: string }[];
-    expect(rows.map((r) => [r.recorded_by, r.taken_by, r.upload_id])).toEqual([['u-charge', null, ok.body.upload.id], ['u-charge', 'u-nurse', ok.body.upload.id]]);
+    const rows = env.database.sqlite
+      .prepare('SELECT r.id, r.recorded_by, r.taken_by, r.upload_id FROM readings r WHERE r.upload_id = ? ORDER BY r.taken_at')
+      .all(ok.body.upload.id) as { id: string; recorded_by: string; taken_by: string | null; upload_id: string }[];
+    expect(rows.map((r) => [r.recorded_by, r.taken_by, r.upload_id])).toEqual([
+      ['u-charge', null, ok.body.upload.id],
+      ['u-charge', 'u-nurse', ok.body.upload.id],
+    ]);
     const educator = await env.signIn(DEMO.educator);
     const queue = await request(env.app).get('/api/review/queue?unitId=unit-north&kind=gap&limit=200').set('Authorization', `Bearer ${educator}`);
     const flagOf = (readingId: string) => env.database.sqlite.prepare('SELECT id FROM flags WHERE raised_by_reading_id = ?').get(readingId) as { id: string };
@@ -251,7 +265,10 @@ describe('readings import: what it refuses and whom it credits', () => {
     const res = await preview(Buffer.from(text, 'utf8'), 'semicolons.csv');
     expect(res.body).toEqual(expect.objectContaining({ errorCount: 0, toCreate: 1 }));
     expect((await importWith(res.body.upload.id)).status).toBe(200);
-    expect(env.database.sqlite.prepare('SELECT probe_centi, remote_centi FROM readings WHERE upload_id = ?').get(res.body.upload.id)).toEqual({ probe_centi: 3660, remote_centi: 3690 });
+    expect(env.database.sqlite.prepare('SELECT probe_centi, remote_centi FROM readings WHERE upload_id = ?').get(res.body.upload.id)).toEqual({
+      probe_centi: 3660,
+      remote_centi: 3690,
+    });
   });
 
   it('refuses a binary file and a file in another encoding as not text, writing nothing', async () => {
@@ -279,13 +296,19 @@ describe('readings import: what it refuses and whom it credits', () => {
   });
 
   it('the refused rows download as CSV with line, field and reason', async () => {
-    const res = await preview([HEAD, 'N07,2026-11-31T22:00,36.6,,,C,,,,,', 'N99,2026-11-16T09:00:00Z,36.6,,,C,,,,,', 'N07,2026-11-16T09:00:00Z,36.6,,,C,,,,,'].join('\n'), 'errs.csv');
+    const res = await preview(
+      [HEAD, 'N07,2026-11-31T22:00,36.6,,,C,,,,,', 'N99,2026-11-16T09:00:00Z,36.6,,,C,,,,,', 'N07,2026-11-16T09:00:00Z,36.6,,,C,,,,,'].join('\n'),
+      'errs.csv',
+    );
     const csv = await request(env.app).get(`/api/readings-import/${res.body.upload.id}/errors.csv`).set('Authorization', `Bearer ${charge}`).buffer(true);
     expect(csv.status).toBe(200);
     expect(csv.headers['content-disposition']).toMatch(/errs-errors\.csv/);
     expect(csv.text.startsWith('\uFEFF')).toBe(true);
     const rows = Papa.parse<Record<string, string>>(csv.text.slice(1), { header: true, skipEmptyLines: true }).data;
-    expect(rows.map((r) => [r.line, r.field])).toEqual([['2', 'time'], ['3', 'infant']]);
+    expect(rows.map((r) => [r.line, r.field])).toEqual([
+      ['2', 'time'],
+      ['3', 'infant'],
+    ]);
     expect(rows[0]!.reason).toBe('2026-11-31 is not a date (November 2026 has 30 days)');
     expect((await request(env.app).get(`/api/readings-import/${res.body.upload.id}/errors.csv`).set('Authorization', `Bearer ${nurse}`)).status).toBe(403);
   });

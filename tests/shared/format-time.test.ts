@@ -60,7 +60,7 @@ describe('formatInZone', () => {
  * offsets (from memory: London UTC+0 in winter and UTC+1 in summer, New York UTC−5 in winter,
  * Sydney UTC+11 in its summer, Kolkata UTC+5:30 all year), never taken from the code.
  */
-describe('formatWhen: the day named whenever it is not today, in the unit\'s zone', () => {
+describe("formatWhen: the day named whenever it is not today, in the unit's zone", () => {
   // A fixed clock: 2026-12-03 08:30 UTC. In London that is Thu 3 Dec 08:30; in New York Thu 3 Dec 03:30;
   // in Sydney Thu 3 Dec 19:30; in Kolkata Thu 3 Dec 14:00.
   const NOW = new Date('2026-12-03T08:30:00Z');
