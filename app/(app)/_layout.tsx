@@ -1,6 +1,7 @@
 import { Redirect, Slot } from 'expo-router';
 import { useAuth } from '@/components/auth/auth-provider';
 import { SessionSheet } from '@/components/auth/session-sheet';
+import { PendingSender } from '@/components/offline/pending-sender';
 import { AppShell } from '@/components/shell/app-shell';
 import { LoadingState } from '@/components/ui/state-view';
 
@@ -13,6 +14,8 @@ export default function SignedInLayout() {
     <AppShell>
       <Slot />
       <SessionSheet />
+      {/* Readings kept on the phone go out when the connection returns, from any screen. */}
+      <PendingSender />
     </AppShell>
   );
 }

@@ -1,7 +1,7 @@
 import { StyleSheet, View } from 'react-native';
-import { useTheme } from '../theme/theme-provider';
-import { Button } from '../ui/button';
-import { Text } from '../ui/text';
+import { useTheme } from '@/components/theme/theme-provider';
+import { Button } from '@/components/ui/button';
+import { Text } from '@/components/ui/text';
 import { useUpdateReady } from './service-worker';
 
 /** One line when a new build of Warmfold is ready; it takes over only when the nurse reloads. */
