@@ -1,4 +1,4 @@
-import { useEffect, useState } from 'react';
+import { useSyncExternalStore } from 'react';
 /**
  * A print stylesheet for the handover: A4 or Letter margins, no navigation or buttons, and every
  * scrolling area opened out so the whole handover prints, not just what is on screen.
@@ -22,18 +22,38 @@ export function PrintStyle() {
   return <style media="print">{PRINT_CSS}</style>;
 }
 
+/** When the page was last printed (or opened, until it is printed). */
+let printedAt = Date.now();
+const listeners = new Set<() => void>();
+
+function onBeforePrint() {
+  printedAt = Date.now();
+  listeners.forEach((l) => l());
+}
+
+function subscribe(listener: () => void): () => void {
+  if (listeners.size === 0) {
+    window.addEventListener('beforeprint', onBeforePrint);
+    // Opened now: until it is printed, "printed at" is the time the handover was opened.
+    printedAt = Date.now();
+  }
+  listeners.add(listener);
+  return () => {
+    listeners.delete(listener);
+    if (listeners.size === 0) window.removeEventListener('beforeprint', onBeforePrint);
+  };
+}
+
 /**
- * The time to print as "printed at": when the page was drawn, and again at the moment the browser
- * prints (its beforeprint event), so a handover opened at
- * the start of the shift and printed later says when it was printed.
+ * The time to print as "printed at": the moment the browser prints (its beforeprint event), so a
+ * handover opened at the start of the shift and printed later says when it was printed. An
+ * external store's change is drawn at once (synchronously, before the browser lays out the
+ * paper), where a state update from this event could come after the page is printed.
  */
 export function usePrintTime(): number {
-  const [at, setAt] = useState(() => Date.now());
-  useEffect(() => {
-    // beforeprint is a discrete event to React: the update is drawn before the browser lays out the paper.
-    const now = () => setAt(Date.now());
-    window.addEventListener('beforeprint', now);
-    return () => window.removeEventListener('beforeprint', now);
-  }, []);
-  return at;
+  return useSyncExternalStore(
+    subscribe,
+    () => printedAt,
+    () => printedAt,
+  );
 }
