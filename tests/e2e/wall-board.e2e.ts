@@ -265,6 +265,84 @@ describe('admitting and warming from the board', () => {
   });
 });
 
+describe('who the board offers as nurses, and Manage on the wall', () => {
+  it('lists only people who accepted their invitation; Manage opens in view with focus inside and gives it back on close', async () => {
+    // The administrator invites a nurse to the unit; she has not accepted yet.
+    const admin = await apiToken(ACCOUNTS.admin);
+    const invited = await fetch(`${BASE_URL}/api/admin/users`, {
+      method: 'POST',
+      headers: { Authorization: `Bearer ${admin}`, 'Content-Type': 'application/json' },
+      body: JSON.stringify({ name: 'Ruth Penhallow', email: 'ruth.penhallow@warmfold.test', role: 'nurse', unitIds: ['unit-north'] }),
+    });
+    assert.equal(invited.status, 201, `invited: ${invited.status}`);
+
+    const page = await newPage(browser, { width: 1440, height: 900 });
+    await openBoard(page);
+    await page.getByRole('button', { name: /^Filters/ }).click();
+    const nurses = await page.getByRole('radiogroup', { name: 'Nurse' }).getByRole('radio').allInnerTexts();
+    assert.ok(
+      nurses.some((n) => n.includes('Nia Okafor')),
+      `the demo's nurses are offered: ${nurses.join(', ')}`,
+    );
+    assert.ok(!nurses.some((n) => n.includes('Ruth Penhallow')), `an invitation not yet accepted is not offered: ${nurses.join(', ')}`);
+    await page.getByRole('button', { name: /^Filters/ }).click();
+
+    // Manage from a tile of the second row: the dialog is where she looks, focus goes in and comes back.
+    const manage = page.getByRole('button', { name: 'Manage bed N07' });
+    await manage.click();
+    const dialog = page.getByRole('dialog', { name: /^Bed N07/ });
+    await dialog.waitFor();
+    const box = await dialog.boundingBox();
+    assert.ok(box && box.y >= 0 && box.y + Math.min(box.height, 200) <= 900, 'the dialog is on screen');
+    assert.ok(await page.evaluate(() => document.activeElement?.closest('[role="dialog"]') !== null), 'focus moved into the dialog');
+    const assignable = await dialog.getByRole('radiogroup', { name: 'Assigned nurse' }).getByRole('radio').allInnerTexts();
+    assert.ok(!assignable.some((n) => n.includes('Ruth Penhallow')), `nobody who has not accepted can be assigned: ${assignable.join(', ')}`);
+    await shot(page, 'wall-board-manage');
+    await page.keyboard.press('Escape');
+    await dialog.waitFor({ state: 'detached' });
+    assert.ok(await manage.evaluate((el) => el === document.activeElement || el.contains(document.activeElement)), 'focus is back on Manage');
+    await page.context().close();
+  });
+  it('shift change assigns each nurse her beds in one step, from a dialog that opens in view and gives focus back', async () => {
+    const page = await newPage(browser, { width: 1440, height: 900 });
+    await openBoard(page);
+    const open = page.getByRole('button', { name: 'Shift change' });
+    await open.click();
+    const dialog = page.getByRole('dialog', { name: /^Shift change/ });
+    await dialog.waitFor();
+    const box = await dialog.boundingBox();
+    assert.ok(box && box.y >= 0 && box.y < 900, 'the dialog is on screen');
+    assert.ok(await page.evaluate(() => document.activeElement?.closest('[role="dialog"]') !== null), 'focus moved into the dialog');
+    await dialog.getByRole('radio', { name: 'This shift' }).click();
+    await dialog.getByRole('radiogroup', { name: 'Nurse' }).getByRole('radio', { name: 'Kofi Mensah' }).click();
+    await dialog.getByRole('checkbox', { name: /^N07, / }).click();
+    await dialog.getByRole('checkbox', { name: /^N08, / }).click();
+    await dialog.getByRole('radiogroup', { name: 'Nurse' }).getByRole('radio', { name: 'Inês Carvalho' }).click();
+    await dialog.getByRole('checkbox', { name: /^N12, / }).click();
+    await dialog.getByRole('list', { name: 'Assignments to make' }).getByText('Kofi Mensah: N07, N08').waitFor();
+    await shot(page, 'wall-board-shift-change');
+    await dialog.getByRole('button', { name: 'Assign 3 infants' }).click();
+    await dialog.waitFor({ state: 'detached' });
+    assert.ok(await open.evaluate((el) => el === document.activeElement || el.contains(document.activeElement)), 'focus is back on Shift change');
+    // One step, three infants, two nurses: the server holds each assignment and the tiles say it.
+    const token = await apiToken(ACCOUNTS.charge);
+    const res = await fetch(`${BASE_URL}/api/units/unit-north/board`, { headers: { Authorization: `Bearer ${token}` } });
+    const beds = ((await res.json()) as { beds: { label: string; infant: { assignedNurse: { name: string } | null } | null }[] }).beds;
+    const nurseOf = (label: string) => beds.find((b) => b.label === label)?.infant?.assignedNurse?.name;
+    assert.deepEqual([nurseOf('N07'), nurseOf('N08'), nurseOf('N12')], ['Kofi Mensah', 'Kofi Mensah', 'Inês Carvalho']);
+    await page.getByTestId('bed-N12').getByText('Inês Carvalho').waitFor();
+    assert.equal(
+      await page
+        .getByTestId('bed-N12')
+        .getByText(/^No nurse/)
+        .count(),
+      0,
+      'N12 is no longer marked as having no nurse',
+    );
+    await page.context().close();
+  });
+});
+
 describe('a full unit on the wall', () => {
   it('fourteen infants at 1440x900 and 1920x1080: every bed in one screen, no text cut, the crowded bed counts what it leaves out', async () => {
     const token = await apiToken(ACCOUNTS.charge);
