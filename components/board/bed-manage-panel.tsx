@@ -11,7 +11,7 @@ import { Card } from '@/components/ui/card';
 import { Segmented } from '@/components/ui/segmented';
 import { Text } from '@/components/ui/text';
 import { TextField } from '@/components/ui/text-field';
-import type { AdmitForm, AssignNurseInput, DischargeInfantInput } from '@/shared/schemas/unit';
+import type { AdmitForm as AdmitFormValues, AssignNurseInput, DischargeInfantInput } from '@/shared/schemas/unit';
 import {
   CONTROL_MODE_LABELS,
   CONTROL_MODES,
@@ -30,7 +30,7 @@ import type { BoardBed, BoardResponse } from '@/shared/types/board';
 import type { BedWarming } from '@/shared/schemas/warming';
 import { admitDefaultsFromWarming, WarmingForm } from '@/components/unit-shift/warming';
 
-const admitResolver = lazyZodResolver<AdmitForm>((m) => m.admitFormSchema);
+const admitResolver = lazyZodResolver<AdmitFormValues>((m) => m.admitFormSchema);
 const assignResolver = lazyZodResolver<AssignNurseInput>((m) => m.assignNurseSchema);
 const dischargeResolver = lazyZodResolver<DischargeInfantInput>((m) => m.dischargeInfantSchema);
 
@@ -77,7 +77,7 @@ function AdmitForm({ unitId, bed, tempUnit, onDone, warming }: { unitId: string;
   const admit = useAdmitInfantMutation(unitId);
   const today = new Date();
   const pad = (n: number) => String(n).padStart(2, '0');
-  const { control, handleSubmit, setValue } = useForm<AdmitForm>({
+  const { control, handleSubmit, setValue } = useForm<AdmitFormValues>({
     resolver: admitResolver,
     defaultValues: {
       displayName: '',
@@ -112,7 +112,9 @@ function AdmitForm({ unitId, bed, tempUnit, onDone, warming }: { unitId: string;
       <Controller
         control={control}
         name="sex"
-        render={({ field }) => <Segmented label="Sex" value={field.value} onChange={field.onChange} options={INFANT_SEXES.map((v) => ({ value: v, label: INFANT_SEX_LABELS[v] }))} />}
+        render={({ field }) => (
+          <Segmented label="Sex" value={field.value} onChange={field.onChange} options={INFANT_SEXES.map((v) => ({ value: v, label: INFANT_SEX_LABELS[v] }))} />
+        )}
       />
       <View style={styles.row}>
         <View style={styles.cell}>
@@ -136,12 +138,16 @@ function AdmitForm({ unitId, bed, tempUnit, onDone, warming }: { unitId: string;
       <Controller
         control={control}
         name="heatSource"
-        render={({ field }) => <Segmented label="Heat source" value={field.value} onChange={field.onChange} options={HEAT_SOURCES.map((v) => ({ value: v, label: HEAT_SOURCE_LABELS[v] }))} />}
+        render={({ field }) => (
+          <Segmented label="Heat source" value={field.value} onChange={field.onChange} options={HEAT_SOURCES.map((v) => ({ value: v, label: HEAT_SOURCE_LABELS[v] }))} />
+        )}
       />
       <Controller
         control={control}
         name="controlMode"
-        render={({ field }) => <Segmented label="Control mode" value={field.value} onChange={field.onChange} options={CONTROL_MODES.map((v) => ({ value: v, label: CONTROL_MODE_LABELS[v] }))} />}
+        render={({ field }) => (
+          <Segmented label="Control mode" value={field.value} onChange={field.onChange} options={CONTROL_MODES.map((v) => ({ value: v, label: CONTROL_MODE_LABELS[v] }))} />
+        )}
       />
       <TextField control={control} name="setTemperature" label="Set temperature" suffix={`°${tempUnit}`} keyboardType="decimal-pad" serverError={fields.setTemperature} />
       <AdmitPlacement control={control} setValue={setValue} />
@@ -157,7 +163,7 @@ function AdmitForm({ unitId, bed, tempUnit, onDone, warming }: { unitId: string;
 }
 
 /** The probe's place on admission: charted with the admission's settings and carried forward from there. */
-function AdmitPlacement({ control, setValue }: { control: Control<AdmitForm>; setValue: UseFormSetValue<AdmitForm> }) {
+function AdmitPlacement({ control, setValue }: { control: Control<AdmitFormValues>; setValue: UseFormSetValue<AdmitFormValues> }) {
   const [probeSite, probeCovered, position] = useWatch({ control, name: ['probeSite', 'probeCovered', 'position'] });
   return (
     <>
@@ -225,7 +231,13 @@ function OccupiedBed({ board, bed, onDone }: { board: BoardResponse; bed: BoardB
 
       <View style={styles.section}>
         <Segmented label="Move to an empty bed" value={target} onChange={setTarget} options={emptyBeds.map((b) => ({ value: b.bedId, label: b.label }))} />
-        <Button label="Move" variant="secondary" disabled={!target} busy={move.isPending} onPress={() => target && move.mutate({ infantId: infant.id, bedId: target }, { onSuccess: onDone })} />
+        <Button
+          label="Move"
+          variant="secondary"
+          disabled={!target}
+          busy={move.isPending}
+          onPress={() => target && move.mutate({ infantId: infant.id, bedId: target }, { onSuccess: onDone })}
+        />
       </View>
 
       <View style={styles.section}>
@@ -292,7 +304,12 @@ function DischargeForm({
   const withDestination = reason !== undefined && DISCHARGE_DESTINATION_ALLOWED.includes(reason);
   const submit = handleSubmit((input) =>
     discharge.mutate(
-      { infantId: infant.id, reason: input.reason, ...(withDestination && input.destination?.trim() ? { destination: input.destination.trim() } : {}), ...(input.note?.trim() ? { note: input.note.trim() } : {}) },
+      {
+        infantId: infant.id,
+        reason: input.reason,
+        ...(withDestination && input.destination?.trim() ? { destination: input.destination.trim() } : {}),
+        ...(input.note?.trim() ? { note: input.note.trim() } : {}),
+      },
       { onSuccess: onDone },
     ),
   );
