@@ -211,7 +211,7 @@ function InfantTile({
         wall && styles.wallTile,
         scale === 'medium' && styles.mediumTile,
       ]}
-      aria-label={`Bed ${bed.label}, ${infant.displayName}`}
+      aria-label={`Bed ${bed.label}, ${infant.displayName}, ${infant.assignedNurse ? `nurse ${infant.assignedNurse.name}` : 'no nurse assigned'}`}
       testID={`bed-${bed.label}`}
     >
       <View ref={contentRef} style={[styles.content, wall && styles.wallContent, scale === 'medium' && styles.mediumContent]}>
@@ -224,7 +224,7 @@ function InfantTile({
             {infant.assignedNurse ? (
               <View style={styles.nurse}>
                 <Icon name="users" size={lineStyle.fontSize! + 2} color={c.textMuted} />
-                <Text variant="label" tone="muted" numberOfLines={1} style={[lineStyle, styles.nurseName]} aria-label={`Nurse: ${infant.assignedNurse.name}`}>
+                <Text variant="label" tone="muted" numberOfLines={1} style={[lineStyle, styles.nurseName]}>
                   {infant.assignedNurse.name}
                 </Text>
               </View>
