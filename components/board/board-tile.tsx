@@ -179,6 +179,13 @@ function InfantTile({
   }
   // An acknowledged escalation a later one of the same flag (it worsened) stands in for is left out.
   const acknowledged = bed.escalations.filter((e, _, all) => e.sentAt && e.acknowledgedAt && !all.some((l) => l.flagId === e.flagId && l.sentAt && l.escalatedAt > e.escalatedAt));
+  // Told and acknowledged in the same words: one line, saying for how many flags.
+  const answered = new Map<string, number>();
+  for (const e of acknowledged) {
+    const line = escalationLine({ id: e.id, sentAt: e.sentAt!, to: e.to, how: 'email', acknowledgedAt: e.acknowledgedAt, acknowledgedBy: e.acknowledgedBy }, timeZone, clock)!;
+    const words = wall ? line.replace(' by e-mail;', ';') : line;
+    answered.set(words, (answered.get(words) ?? 0) + 1);
+  }
 
   // What a full wall tile leaves out, first to last: the bed, the infant, the countdown and an
   // escalation to acknowledge always stay, and so does the most severe flag until nothing else is left.
@@ -271,7 +278,7 @@ function InfantTile({
           [...told].map(([line, ids]) => (
             <View key={ids[0]} style={[styles.escalation, wall ? styles.escalationWall : { borderColor: c.danger }, scale === 'large' && styles.escalationBeside]}>
               <Text variant="label" tone="danger" style={[lineStyle, styles.escalationText]}>
-                {ids.length > 1 && !wall ? `${line}, about ${ids.length} flags` : line}
+                {ids.length > 1 && !wall ? `${line} (${ids.length} flags)` : line}
               </Text>
               {canManage ? (
                 <Button
@@ -312,15 +319,9 @@ function InfantTile({
         ) : null}
         {hidden.has('acknowledged')
           ? null
-          : acknowledged.map((e) => (
-              <Text key={e.id} variant="label" tone="muted" style={lineStyle}>
-                {wall
-                  ? escalationLine(
-                      { id: e.id, sentAt: e.sentAt!, to: e.to, how: 'email', acknowledgedAt: e.acknowledgedAt, acknowledgedBy: e.acknowledgedBy },
-                      timeZone,
-                      clock,
-                    )!.replace(' by e-mail;', ';')
-                  : escalationLine({ id: e.id, sentAt: e.sentAt!, to: e.to, how: 'email', acknowledgedAt: e.acknowledgedAt, acknowledgedBy: e.acknowledgedBy }, timeZone, clock)}
+          : [...answered].map(([line, count]) => (
+              <Text key={line} variant="label" tone="muted" style={lineStyle}>
+                {count > 1 ? `${line} (${count} flags)` : line}
               </Text>
             ))}
 
