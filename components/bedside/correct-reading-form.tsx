@@ -13,9 +13,10 @@ import { useFocusServerError } from '@/components/forms/focus-server-error';
 import type { CorrectReadingInput } from '@/shared/schemas/bedside';
 import { fromCentiCelsius, type TempUnit } from '@/shared/thermal/units';
 import type { CorrectionReason, ReadingVersion } from '@/shared/types/bedside';
-import { formatClock, formatDayAndTime, localDayKey } from '@/components/ui/format-time';
+import { formatClock, formatDayAndTime, formatDayTime, localDayKey } from '@/components/ui/format-time';
 import { CORRECTION_REASON_LABELS, REMOTE_SITE_OPTIONS, temp } from './format';
 import { dayOf, implausibleReasons, takenAtOf, toCreateReading, type ReadingFormValues } from './reading-form-values';
+import { readingDrafts } from './reading-draft';
 import { TakenAtField } from './taken-at-field';
 
 export interface CorrectReadingFormValues extends ReadingFormValues {
@@ -48,6 +49,11 @@ export interface CorrectReadingFormProps {
   serverMessage?: string | null;
   onSubmit: (body: CorrectReadingInput) => void;
   onCancel?: () => void;
+  /**
+   * Keep what she changes as a draft on this device (per reading and per user): it comes back
+   * after a reload or going back, and goes when the correction is saved or she discards it.
+   */
+  draft?: { userId: string; infantId: string; label: string };
 }
 
 /** A correction never edits the reading: it saves a new version with the reason, who and when. */
@@ -63,37 +69,58 @@ export function CorrectReadingForm({
   serverMessage,
   onSubmit,
   onCancel,
+  draft,
 }: CorrectReadingFormProps) {
   const resolver = useMemo(() => lazyZodResolver<CorrectReadingFormValues>((m) => m.correctReadingFormSchema(unit, timeZone, now)), [unit, timeZone, now]);
   useEffect(() => resolver.preload(), [resolver]);
   // The reading's own day and time: kept unless she changes them.
   const originalTime = formatClock(reading.takenAt, timeZone, '24h');
   const originalDay = localDayKey(reading.takenAt, timeZone);
-  const { control, handleSubmit, setValue, setFocus } = useForm<CorrectReadingFormValues>({
+  const defaults: CorrectReadingFormValues = {
+    reason: 'corrected-value',
+    why: '',
+    probe: str(reading.probeCenti, unit),
+    remote: str(reading.remoteCenti, unit),
+    remoteSite: reading.remoteSite ?? 'axilla',
+    air: str(reading.airCenti, unit),
+    set: str(reading.setCenti, unit),
+    controlMode: reading.controlMode,
+    heaterOutputPct: reading.heaterOutputPct === null ? '' : String(reading.heaterOutputPct),
+    heartRate: reading.heartRate === null ? '' : String(reading.heartRate),
+    heatSigns: reading.heatSigns as ReadingFormValues['heatSigns'],
+    note: reading.note ?? '',
+    time: originalTime,
+    day: originalDay,
+    lateReason: '',
+  };
+  // This user's draft of this reading's correction, found when the form opened.
+  const [restored, setRestored] = useState(() => (draft ? readingDrafts.get(draft.userId, draft.infantId, reading.id) : null));
+  const { control, handleSubmit, setValue, setFocus, reset } = useForm<CorrectReadingFormValues>({
     resolver,
-    defaultValues: {
-      reason: 'corrected-value',
-      why: '',
-      probe: str(reading.probeCenti, unit),
-      remote: str(reading.remoteCenti, unit),
-      remoteSite: reading.remoteSite ?? 'axilla',
-      air: str(reading.airCenti, unit),
-      set: str(reading.setCenti, unit),
-      controlMode: reading.controlMode,
-      heaterOutputPct: reading.heaterOutputPct === null ? '' : String(reading.heaterOutputPct),
-      heartRate: reading.heartRate === null ? '' : String(reading.heartRate),
-      heatSigns: reading.heatSigns as ReadingFormValues['heatSigns'],
-      note: reading.note ?? '',
-      time: originalTime,
-      day: originalDay,
-      lateReason: '',
-    },
+    defaultValues: { ...defaults, ...restored?.values },
   });
   const reason = useWatch({ control, name: 'reason' }) as CorrectionReason;
   // A refusal names fields: the first takes focus (not a request to confirm unusual values).
   useFocusServerError(serverFields['values.confirmedImplausible'] === 'confirm' ? undefined : serverFields, setFocus, SERVER_FIELD_ORDER);
   const remoteSite = useWatch({ control, name: 'remoteSite' });
-  const [id] = useState(makeId);
+  const [id, setId] = useState(() => restored?.readingId ?? makeId());
+  const [defaultsJson] = useState(() => JSON.stringify(defaults));
+  const all = useWatch({ control });
+  useEffect(() => {
+    if (!draft) return;
+    // Only what differs from the reading as charted is worth a draft.
+    const changed = JSON.stringify({ ...defaults, ...all }) !== defaultsJson;
+    if (changed) readingDrafts.keep({ userId: draft.userId, infantId: draft.infantId, correcting: reading.id, readingId: id, label: draft.label, values: all });
+    else readingDrafts.remove(draft.userId, draft.infantId, reading.id);
+    // eslint-disable-next-line react-hooks/exhaustive-deps -- the defaults are fixed when the form opens.
+  }, [all, draft?.userId, draft?.infantId, draft?.label, reading.id, id, defaultsJson]);
+  const discard = () => {
+    if (draft) readingDrafts.remove(draft.userId, draft.infantId, reading.id);
+    setRestored(null);
+    setId(makeId());
+    setConfirming(null);
+    reset(defaults);
+  };
   const [confirming, setConfirming] = useState<string[] | null>(null);
   const u = `°${unit}`;
   const withValues = reason !== 'entered-in-error';
@@ -122,6 +149,17 @@ export function CorrectReadingForm({
 
   return (
     <View style={styles.form}>
+      {restored ? (
+        <Card role="status">
+          <Text variant="bodyStrong">{`Draft kept from ${draftTime(restored.updatedAt, timeZone, clock, now())}`}</Text>
+          <Text variant="caption" tone="muted">
+            Your correction as you left it. Check it, then save, or discard the draft.
+          </Text>
+          <View style={styles.actions}>
+            <Button label="Discard draft" variant="secondary" compact onPress={discard} />
+          </View>
+        </Card>
+      ) : null}
       <Card>
         <Text variant="label">Correcting the reading of {formatDayAndTime(reading.takenAt, timeZone, clock, now())}</Text>
         <Text>
@@ -172,6 +210,13 @@ export function CorrectReadingForm({
       ) : null}
     </View>
   );
+}
+
+/** "03:12", or with the day when the draft is from another day. */
+function draftTime(iso: string, timeZone: string, clock: '24h' | '12h', at: Date): string {
+  const today = formatDayTime(at, timeZone, clock).split(',')[0];
+  const day = formatDayTime(iso, timeZone, clock);
+  return day.split(',')[0] === today ? formatClock(iso, timeZone, clock) : day;
 }
 
 const styles = StyleSheet.create({

@@ -6,6 +6,7 @@ import { useCorrectReadingMutation, useFlowsheetQuery } from '@/components/queri
 import { Screen } from '@/components/ui/screen';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/state-view';
 import { CorrectReadingForm } from './correct-reading-form';
+import { readingDrafts } from './reading-draft';
 
 export function CorrectReadingScreen({ infantId, readingId }: { infantId: string; readingId: string }) {
   const user = useUser();
@@ -39,12 +40,14 @@ export function CorrectReadingScreen({ infantId, readingId }: { infantId: string
         serverFields={fields}
         serverMessage={problem?.message}
         onCancel={back}
+        draft={{ userId: user.id, infantId, label: [sheet.data.infant.bedLabel, sheet.data.infant.displayName].filter(Boolean).join(' ') }}
         onSubmit={(body) =>
           mutation.mutate(
             // Always correct the current version: an older one is refused by the server.
             { readingId: reading.id, body },
             {
               onSuccess: () => {
+                readingDrafts.removeReading(body.id);
                 setFields({});
                 back();
               },

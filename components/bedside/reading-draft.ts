@@ -1,5 +1,6 @@
 import { useSyncExternalStore } from 'react';
 import { storage } from '@/components/api/storage';
+import type { CorrectionReason } from '@/shared/types/bedside';
 import type { ReadingFormValues } from './reading-form-values';
 
 /**
@@ -15,7 +16,9 @@ export interface ReadingDraft {
   readingId: string;
   /** Bed and name as the form showed them, for the sign-out warning. */
   label: string;
-  values: Partial<ReadingFormValues>;
+  /** A correction's draft: the reading it corrects (kept apart from the infant's record draft). */
+  correcting?: string;
+  values: Partial<ReadingFormValues> & { reason?: CorrectionReason; why?: string };
   /** When it was first kept, and last changed (ISO). */
   startedAt: string;
   updatedAt: string;
@@ -26,7 +29,7 @@ const listeners = new Set<() => void>();
 let cache: Record<string, ReadingDraft> | null = null;
 let list: ReadingDraft[] = [];
 
-const keyOf = (userId: string, infantId: string) => `${userId}/${infantId}`;
+const keyOf = (userId: string, infantId: string, correcting?: string) => (correcting ? `${userId}/${infantId}/${correcting}` : `${userId}/${infantId}`);
 
 function read(): Record<string, ReadingDraft> {
   if (cache) return cache;
@@ -71,13 +74,13 @@ export function hasTypedValues(values: Partial<ReadingFormValues> | Record<strin
 }
 
 export const readingDrafts = {
-  get(userId: string, infantId: string): ReadingDraft | null {
-    return read()[keyOf(userId, infantId)] ?? null;
+  get(userId: string, infantId: string, correcting?: string): ReadingDraft | null {
+    return read()[keyOf(userId, infantId, correcting)] ?? null;
   },
   /** Keep the values (replacing the infant's earlier draft by this user), or forget them when nothing is typed. */
-  keep(entry: { userId: string; infantId: string; readingId: string; label: string; values: Partial<ReadingFormValues> }, now = new Date()): void {
+  keep(entry: Omit<ReadingDraft, 'startedAt' | 'updatedAt'>, now = new Date()): void {
     const all = read();
-    const key = keyOf(entry.userId, entry.infantId);
+    const key = keyOf(entry.userId, entry.infantId, entry.correcting);
     if (!hasTypedValues(entry.values)) {
       if (all[key]) removeKey(key);
       return;
@@ -86,8 +89,8 @@ export const readingDrafts = {
     const at = now.toISOString();
     write({ ...all, [key]: { ...entry, startedAt: before && before.readingId === entry.readingId ? before.startedAt : at, updatedAt: at } });
   },
-  remove(userId: string, infantId: string): void {
-    removeKey(keyOf(userId, infantId));
+  remove(userId: string, infantId: string, correcting?: string): void {
+    removeKey(keyOf(userId, infantId, correcting));
   },
   /** Forget the draft that became this reading (it was saved, or discarded from the pending list). */
   removeReading(readingId: string): void {
