@@ -1,7 +1,7 @@
 import { Controller, useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { problemOf } from '@/components/api/client';
-import { clockTime } from '@/components/board/board-format';
+import { clockTime, minutesWords } from '@/components/board/board-format';
 import { Button } from '@/components/ui/button';
 import type { ClockSetting } from '@/components/ui/format-time';
 import { Segmented } from '@/components/ui/segmented';
@@ -23,11 +23,13 @@ export function admitDefaultsFromWarming(
 
 /** What an empty tile shows while its bed is warmed: since when, the settings, whom it is for. */
 export function WarmingLine({ warming, tempUnit, timeZone, clock, nowMs }: { warming: BedWarming; tempUnit: TempUnit; timeZone: string; clock: ClockSetting; nowMs: number }) {
-  const minutes = Math.max(0, Math.floor((nowMs - Date.parse(warming.since)) / 60_000));
+  // How long, in words: "under 1 min" at first, "1 h 05 min" later (never "0 min" or "65 min").
+  const seconds = (nowMs - Date.parse(warming.since)) / 1000;
+  const howLong = seconds < 60 ? 'under 1 min' : minutesWords(seconds);
   const forWhom = warming.expectedInfant ? ` · for ${warming.expectedInfant}` : '';
   return (
     <View style={styles.line}>
-      <StatusBadge tone="warning" icon="thermometer" label={`Warming for an admission, ${minutes} min`} large />
+      <StatusBadge tone="warning" icon="thermometer" label={`Warming for an admission, ${howLong}`} large />
       <Text variant="label">
         Since {clockTime(warming.since, timeZone, clock)} · {HEAT_SOURCE_LABELS[warming.heatSource]}, {CONTROL_MODE_LABELS[warming.controlMode].toLowerCase()}, set{' '}
         {formatTemperature(warming.setCenti, tempUnit)}

@@ -241,6 +241,8 @@ describe('admitting and warming from the board', () => {
     await dialog.getByRole('button', { name: 'Warm N13' }).click();
     const tile = page.getByTestId('bed-N13');
     await tile.getByText(/Warming for an admission/).waitFor();
+    // Just started: "under 1 min", never "0 min".
+    assert.match(await tile.innerText(), /Warming for an admission, under 1 min/);
     assert.match(await tile.innerText(), /Radiant warmer, skin servo, set 36\.5\s°C · for Twin 2 from delivery suite/);
     await shot(page, 'wall-board-warming');
     await page.getByRole('button', { name: 'Admit to N13' }).click();
