@@ -285,10 +285,16 @@ function FlagDetail({ flag, unit, tz, clock }: { flag: FlowsheetFlag; unit: 'C' 
   return null;
 }
 
-/** Flags closed in the window, most recent first: shown near the top so a closed flag is seen to close. */
-export function ClosedFlags({ sheet }: { sheet: Flowsheet }) {
+/**
+ * Flags closed in the window, most recent first: shown near the top so a closed flag is seen to close.
+ * A mistaken action on a closed flag can still be taken back; that opens the flag again, so it asks first.
+ */
+export function ClosedFlags({ sheet, canChart = false }: { sheet: Flowsheet; canChart?: boolean }) {
   const user = useUser();
   const tz = sheet.infant.timeZone;
+  const undo = useUndoActionMutation(sheet.infant.id);
+  const [asking, setAsking] = useState<string | null>(null);
+  const undoable = (f: FlowsheetFlag) => canChart && f.status === 'closed' && Boolean(f.id) && f.actions.length > 0;
   const closed = sheet.flags.filter((f) => f.status !== 'open').sort((a, b) => Date.parse(b.closedAt ?? b.raisedAt) - Date.parse(a.closedAt ?? a.raisedAt));
   if (!closed.length) return null;
   return (
@@ -312,10 +318,44 @@ export function ClosedFlags({ sheet }: { sheet: Flowsheet }) {
             />
           )}
           <Text variant="caption" tone="muted">
-            Raised {clockTime(f.raisedAt, tz, user.clock)} · {f.actions.map(actionWords).join(', ') || 'no actions recorded'}
+            Raised {clockTime(f.raisedAt, tz, user.clock)}
+            {undoable(f) ? '' : ` · ${f.actions.map(actionWords).join(', ') || 'no actions recorded'}`}
           </Text>
+          {undoable(f) ? (
+            <View style={styles.list} role="list" aria-label="Actions on this closed flag">
+              {f.actions.map((a) => (
+                <View key={a.id} role="listitem" style={styles.actionRow}>
+                  <Text variant="caption">
+                    ✓ {actionWords(a)} · {a.recordedBy.name} at {clockTime(a.at, tz, user.clock)}
+                  </Text>
+                  {asking === a.id ? (
+                    <>
+                      <Text variant="caption" role="alert">
+                        Undo this action? The flag opens again.
+                      </Text>
+                      <Button
+                        compact
+                        variant="danger"
+                        label="Undo and reopen"
+                        busy={undo.isPending && undo.variables?.actionId === a.id}
+                        onPress={() => undo.mutate({ flagId: a.flagId, actionId: a.id }, { onSuccess: () => setAsking(null) })}
+                      />
+                      <Button compact variant="quiet" label="Keep it" onPress={() => setAsking(null)} />
+                    </>
+                  ) : (
+                    <Button compact variant="quiet" label="Undo" onPress={() => setAsking(a.id)} />
+                  )}
+                </View>
+              ))}
+            </View>
+          ) : null}
         </View>
       ))}
+      {undo.isError ? (
+        <Text tone="danger" role="alert">
+          {problemOf(undo.error).message}
+        </Text>
+      ) : null}
     </Card>
   );
 }

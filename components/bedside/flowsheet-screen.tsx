@@ -103,7 +103,7 @@ function FlowsheetBody({ sheet, hours, setHours, canChart }: { sheet: Flowsheet;
           </View>
         ))}
       </View>
-      <ClosedFlags sheet={sheet} />
+      <ClosedFlags sheet={sheet} canChart={canChart && !sheet.discharge} />
       <SkinToSkinPanel sheet={sheet} canChart={canChart} now={now} />
       <Text variant="title" role="heading" aria-level={2}>
         Readings
