@@ -5,7 +5,7 @@
  */
 import type Database from 'better-sqlite3';
 import { and, asc, eq, inArray, sql } from 'drizzle-orm';
-import { flagEvents, flags, users } from '../../db/schema';
+import { actions, flagEvents, flags, users } from '../../db/schema';
 import { BAND_LABELS } from '../../shared/thermal/bands';
 import { SEVERITY_WORDS, type Severity } from '../../shared/thermal/severity';
 import { ACTION_LABELS, type ActionKind } from '../../shared/vocabulary';
@@ -36,7 +36,7 @@ const WITHDRAWN_WHY: Record<string, string> = {
   'entered-in-error': 'the reading that raised it was entered in error',
 };
 
-function words(event: string, severity: Severity | null, d: Record<string, unknown>): string {
+function words(event: string, severity: Severity | null, d: Record<string, unknown>, note: string | null): string {
   const sev = severity ? ` (${SEVERITY_WORDS[severity]})` : '';
   switch (event) {
     case 'raised':
@@ -44,7 +44,8 @@ function words(event: string, severity: Severity | null, d: Record<string, unkno
     case 'severity-changed':
       return `Worsened to ${typeof d.band === 'string' && d.band in BAND_LABELS ? BAND_LABELS[d.band as keyof typeof BAND_LABELS].toLowerCase() : 'a higher severity'}${sev}`;
     case 'action':
-      return `Action: ${ACTION_LABELS[d.kind as ActionKind] ?? 'something done'}`;
+      // "Something else" says what only in its note, so the note is part of the line.
+      return `Action: ${ACTION_LABELS[d.kind as ActionKind] ?? 'something done'}${note ? `. Note: ${note}` : ''}`;
     case 'action-undone':
       return `Action undone (entered in error): ${ACTION_LABELS[d.kind as ActionKind] ?? 'an action'}`;
     case 'recheck':
@@ -123,12 +124,25 @@ export function flagHistory(sqlite: Database.Database, flagId: string): FlagHist
     // Events written in one transaction keep the order they were written in.
     .orderBy(asc(flagEvents.createdAt), asc(eventOrder))
     .all();
-  return rows.map((r) => ({
+  const parsed = rows.map((r) => ({ ...r, d: JSON.parse(r.detail) as Record<string, unknown> }));
+  // The notes of the actions named by the events (an action event carries its action's id).
+  const actionIds = parsed.flatMap((r) => (r.event === 'action' && typeof r.d.actionId === 'string' ? [r.d.actionId] : []));
+  const notes = new Map(
+    actionIds.length
+      ? dbOf(sqlite)
+          .select({ id: actions.id, note: actions.note })
+          .from(actions)
+          .where(inArray(actions.id, actionIds))
+          .all()
+          .map((a) => [a.id, a.note?.trim() || null])
+      : [],
+  );
+  return parsed.map((r) => ({
     id: r.id,
     flagId: r.flagId,
     event: r.event,
     at: r.at.toISOString(),
     by: r.actorId && r.name ? { id: r.actorId, name: r.name } : null,
-    text: words(r.event, r.severity, JSON.parse(r.detail) as Record<string, unknown>),
+    text: words(r.event, r.severity, r.d, r.event === 'action' && typeof r.d.actionId === 'string' ? (notes.get(r.d.actionId) ?? null) : null),
   }));
 }

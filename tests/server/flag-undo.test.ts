@@ -89,6 +89,11 @@ describe('undo a mistaken action', () => {
     // Words, never internal codes.
     expect(texts.join(' ')).not.toMatch(/gap:|reading-corrected|check-recorded|severity-changed/);
     expect(history.find((e) => /^Action undone/.test(e.text))!.by).toMatchObject({ name: expect.any(String) });
+    // "Something else" says what in its note, and the history shows the note (common practice: an action charted without what was done says nothing).
+    ward.advance(1);
+    await ward.ok('nurse', 'post', `/flags/${reopenedId}/actions`, { id: randomUUID(), kind: 'other', note: 'Closed the porthole left open after a cares round.' });
+    const after = (await ward.ok('nurse', 'get', `/flags/${reopenedId}/history`)).body.events as { text: string }[];
+    expect(after[after.length - 1].text).toBe('Action: Something else (see note). Note: Closed the porthole left open after a cares round.');
   });
 
   it('an undo from another unit is refused, and a bad note says which field (common practice)', async () => {
