@@ -189,13 +189,14 @@ function InfantTile({
 
   // What a full wall tile leaves out, first to last: the bed, the infant, the countdown and an
   // escalation to acknowledge always stay, and so does the most severe flag until nothing else is left.
-  // (An acknowledged escalation outlasts the latest temperatures: whether someone answered matters more from across the room.)
+  // (An acknowledged escalation outlasts the latest temperatures and the milder flags, which "+N more
+  // flags" still counts: the charge nurse who pressed Acknowledge must see that it was taken.)
   const optional: string[] = ['equipment'];
   if (infant.placement && !infant.placement.prompt) optional.push('placement');
   optional.push('probe');
-  if (acknowledged.length) optional.push('acknowledged');
   if (infant.skinToSkin) optional.push('skin');
   for (const f of flags.slice(1).reverse()) optional.push(`flag:${f.key}`);
+  if (acknowledged.length) optional.push('acknowledged');
   if (caption) optional.push('caption');
   if (infant.placement?.prompt) optional.push('prompt');
   if (flags[0]) optional.push(`flag:${flags[0].key}`);
