@@ -180,7 +180,11 @@ async function oneRun(browser: Browser, opts: VitalsOptions, iife: string): Prom
     const remote = page.getByLabel('Remote-site temperature (°C)');
     await remote.click();
     await remote.pressSequentially('36.9', { delay: 50 });
-    await page.getByRole('radio', { name: /Axilla/ }).click();
+    // The remote site's Axilla comes first; the probe site's Axilla follows in the placement settings.
+    await page
+      .getByRole('radio', { name: /Axilla/ })
+      .first()
+      .click();
     await page.getByRole('button', { name: 'Save reading' }).click();
     // An unusual pre-filled value asks for a confirmation first; that is one more interaction.
     const confirm = page.getByRole('button', { name: 'Confirm and save' });
