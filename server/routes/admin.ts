@@ -27,11 +27,13 @@ import { addMembership, auditLog, createBed, createUnit, removeMembership, unitS
 import { createUser, listUnits, listUsers, sendLinkFor, setUserActive, updateUser } from '../services/admin-users';
 import { sendWeeklyDigests } from '../services/digest';
 import { mailLinkSafely } from '../services/email-links';
+import { importRoster, previewRoster } from '../services/uploads';
+import { csvUpload, uploadedFile } from './uploads';
 
 /** The settings checked across fields; one left out of a change is taken as stored. */
 type CrossChecked = 'checkIntervalMinutes' | 'dueSoonMinutes' | 'dayShiftStart' | 'nightShiftStart';
 
-/** Users, invitations, units, beds, settings and the digest, mounted at /api/admin: the administrator's. Admins never chart. */
+/** Users, invitations, units, beds, settings, the digest and the roster upload, mounted at /api/admin: the administrator's. Admins never chart. */
 export function adminRouter(ctx: AppContext) {
   const router = secureRouter();
   const id = (req: { params: unknown }, name = 'id') => (req.params as Record<string, string>)[name]!;
@@ -145,6 +147,17 @@ export function adminRouter(ctx: AppContext) {
   router.post('/digest/send', allow(ctx, 'admin:manage'), async (req, res) => {
     const result = await sendWeeklyDigests(ctx, ctx.clock.now(), { unitIds: req.auth!.unitIds, force: true, actorId: req.auth!.userId });
     res.json(result);
+  });
+
+  // The roster CSV upload: preview first, then import.
+  const upload = csvUpload(ctx);
+
+  router.post('/roster/preview', allow(ctx, 'admin:manage'), upload, (req, res) => {
+    res.status(201).json(previewRoster(ctx, uploadedFile(req), req.auth!));
+  });
+
+  router.post('/roster/:uploadId/import', allow(ctx, 'admin:manage'), async (req, res) => {
+    res.json(await importRoster(ctx, id(req, 'uploadId'), req.auth!));
   });
 
   return router;

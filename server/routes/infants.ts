@@ -1,3 +1,4 @@
+import type { z } from 'zod';
 import {
   createReadingSchema,
   flowsheetQuerySchema,
@@ -9,20 +10,31 @@ import {
   type StartSession,
 } from '../../shared/schemas/bedside';
 import { placementChangeSchema, type PlacementChange } from '../../shared/schemas/placement';
+import { handoverPlanSchema, type HandoverPlanInput } from '../../shared/schemas/shift-work';
+import { dischargeInfantSchema, moveInfantSchema, updateInfantSchema, type DischargeInfant, type MoveInfantInput } from '../../shared/schemas/unit';
 import type { AppContext } from '../context';
 import { allow, assertUnit, secureRouter } from '../middleware/access';
 import { valid, validate } from '../middleware/validate';
 import { auditListRead, auditRead } from '../read-audit';
+import { dischargeInfant, moveInfant, updateInfant } from '../services/admissions';
 import { flowsheetBody } from '../services/bedside';
 import { chartPlacementChange, createReading, startSession } from '../services/charting';
+import { infantHandover, infantHandoverCsv } from '../services/handover';
 import { admittedInfantIds, infantDetail, loadInfantFor, myInfantIds } from '../services/infants';
+import { currentPlan, writePlan } from '../services/shift-work';
 import { summarizeInfants } from '../services/summaries';
 
 type IdParams = { id: string };
 
+/**
+ * Everything under /api/infants: the lists and the chart, the bedside's writes, the charge nurse's
+ * moves, changes and discharges, the infant's handover (every read audited by the service) and its
+ * handover plan.
+ */
 export function infantsRouter(ctx: AppContext) {
   const router = secureRouter();
   const { sqlite } = ctx.database;
+  const infantFor = (req: Parameters<typeof assertUnit>[0]) => loadInfantFor(sqlite, req.auth!, (req.params as IdParams).id);
 
   /** The signed-in nurse's infants for the current shift (the latest assignment row wins). */
   router.get('/mine', allow(ctx, 'chart:read'), async (req, res) => {
@@ -96,6 +108,58 @@ export function infantsRouter(ctx: AppContext) {
   router.post('/:id/skin-to-skin', allow(ctx, 'chart:write'), validate('body', startSessionSchema), (req, res) => {
     const { session, created } = startSession(ctx, (req.params as IdParams).id, valid<StartSession>(req, 'body'), req.auth!);
     res.status(created ? 201 : 200).json({ session });
+  });
+
+  // Moving, changing and discharging an admitted infant: the charge nurse's work.
+  router.post('/:id/move', allow(ctx, 'unit:manage'), validate('body', moveInfantSchema), (req, res) => {
+    const infant = infantFor(req);
+    const { bedId } = valid<MoveInfantInput>(req, 'body');
+    res.json({ infant: { id: infant.id, ...moveInfant(ctx, infant, bedId, req.auth!.userId) } });
+  });
+
+  router.patch('/:id', allow(ctx, 'unit:manage'), validate('body', updateInfantSchema), (req, res) => {
+    const infant = infantFor(req);
+    res.json({ infant: updateInfant(ctx, infant, valid<z.output<typeof updateInfantSchema>>(req, 'body'), req.auth!.userId) });
+  });
+
+  router.post('/:id/discharge', allow(ctx, 'unit:manage'), validate('body', dischargeInfantSchema), (req, res) => {
+    const infant = infantFor(req);
+    const result = dischargeInfant(ctx, infant, valid<DischargeInfant>(req, 'body'), req.auth!.userId);
+    res.json({ infant: { id: infant.id, status: 'discharged' }, ...result });
+  });
+
+  // One infant's handover and its readings as CSV. Every read is audited by the service.
+  router.get('/:id/handover', allow(ctx, 'chart:read'), (req, res) => {
+    res.json(infantHandover(ctx, (req.params as IdParams).id, req.auth!, ctx.clock.now()));
+  });
+
+  router.get('/:id/handover.csv', allow(ctx, 'chart:read'), (req, res) => {
+    const { filename, csv } = infantHandoverCsv(ctx, (req.params as IdParams).id, req.auth!, ctx.clock.now());
+    res.set('Content-Type', 'text/csv; charset=utf-8');
+    res.set('Content-Disposition', `attachment; filename="${filename}"`);
+    res.send(csv);
+  });
+
+  // Shift change for one infant: its handover plan.
+  router.get('/:id/handover-plan', allow(ctx, 'chart:read'), async (req, res) => {
+    const infant = infantFor(req);
+    const plan = currentPlan(ctx, infant);
+    if (plan)
+      await auditRead(sqlite, {
+        at: ctx.clock.now(),
+        actorId: req.auth!.userId,
+        action: 'chart-read',
+        entityType: 'infant',
+        entityId: infant.id,
+        unitId: infant.unitId,
+        after: { view: 'handover-plan' },
+      });
+    res.json({ plan });
+  });
+
+  router.post('/:id/handover-plan', allow(ctx, 'chart:write'), validate('body', handoverPlanSchema), (req, res) => {
+    const infant = infantFor(req);
+    res.status(201).json({ plan: writePlan(ctx, infant, valid<HandoverPlanInput>(req, 'body').plan, req.auth!.userId) });
   });
 
   return router;

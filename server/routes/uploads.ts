@@ -11,7 +11,7 @@ import { ApiError, badRequest } from '../errors';
 import { allow, secureRouter } from '../middleware/access';
 import { multipartErrorsAs400, valid, validate } from '../middleware/validate';
 import { CSV_BOM } from '../../shared/csv';
-import { importReadings, importRoster, previewReadings, previewRoster, readingsErrorsCsv, uploadsDir, type UploadedFile } from '../services/uploads';
+import { importReadings, previewReadings, readingsErrorsCsv, uploadsDir, type UploadedFile } from '../services/uploads';
 
 const CSV_TYPES = new Set(['text/csv', 'application/csv', 'text/plain', 'application/vnd.ms-excel', 'text/comma-separated-values']);
 
@@ -36,6 +36,7 @@ function statingSizeLimit(handler: RequestHandler): RequestHandler {
 
 /**
  * One CSV file in the field `file`, kept on disk under the data folder; size and type limited.
+ * Used here and by the administrator's roster upload (admin.ts).
  * multipartErrorsAs400 stays the outermost wrapper: its mark is what lets the route take multipart.
  */
 export function csvUpload(ctx: AppContext) {
@@ -68,28 +69,12 @@ export function csvUpload(ctx: AppContext) {
 }
 
 /** The file multer stored, as the service takes it. */
-function uploadedFile(req: Request): UploadedFile {
+export function uploadedFile(req: Request): UploadedFile {
   if (!req.file) throw badRequest('Choose a CSV file to upload.', { file: 'Choose a CSV file.' });
   return { path: req.file.path, originalName: req.file.originalname, size: req.file.size };
 }
 
 const uploadId = (req: { params: unknown }) => (req.params as { uploadId: string }).uploadId;
-
-/** The administrator's roster CSV upload, mounted at /api/admin beside the admin routes: preview first, then import. */
-export function rosterUploadsRouter(ctx: AppContext) {
-  const router = secureRouter();
-  const upload = csvUpload(ctx);
-
-  router.post('/roster/preview', allow(ctx, 'admin:manage'), upload, (req, res) => {
-    res.status(201).json(previewRoster(ctx, uploadedFile(req), req.auth!));
-  });
-
-  router.post('/roster/:uploadId/import', allow(ctx, 'admin:manage'), async (req, res) => {
-    res.json(await importRoster(ctx, uploadId(req), req.auth!));
-  });
-
-  return router;
-}
 
 /** The charge nurse's readings CSV upload, mounted at /api/readings-import: preview first, then import. */
 export function readingsImportRouter(ctx: AppContext) {
