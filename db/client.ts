@@ -81,26 +81,3 @@ export function secureDataFiles(file: string): void {
 export function writeTx<T>(sqlite: Database.Database, fn: () => T): T {
   return sqlite.transaction(fn).immediate();
 }
-
-const statementCaches = new WeakMap<Database.Database, Map<string, Database.Statement>>();
-
-/**
- * The statement for `sql`, compiled once per connection and reused: compiling costs more than
- * most of Warmfold's lookups, and the hot routes (a reading, the board, a flowsheet) run a dozen
- * each. The statement is shared, so never switch its mode (pluck, raw, expand) unless every
- * caller of that SQL wants the same mode, and never iterate it while another call may use it;
- * use `sqlite.prepare` for those.
- */
-export function prepared(sqlite: Database.Database, sql: string): Database.Statement {
-  let cache = statementCaches.get(sqlite);
-  if (!cache) {
-    cache = new Map();
-    statementCaches.set(sqlite, cache);
-  }
-  let statement = cache.get(sql);
-  if (!statement) {
-    statement = sqlite.prepare(sql);
-    cache.set(sql, statement);
-  }
-  return statement;
-}
