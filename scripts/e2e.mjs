@@ -67,7 +67,8 @@ for (;;) {
 const files = fs
   .readdirSync(path.join(root, 'tests', 'e2e'))
   .filter((f) => f.endsWith('.e2e.ts'))
-  .filter((f) => !process.env.E2E_ONLY || f.includes(process.env.E2E_ONLY))
+  // E2E_ONLY=board runs the files whose names hold "board"; a comma list runs several (in order).
+  .filter((f) => !process.env.E2E_ONLY || process.env.E2E_ONLY.split(',').some((part) => f.includes(part.trim())))
   .map((f) => path.join('tests', 'e2e', f));
 const run = spawnSync('node', ['--import', 'tsx', '--test', '--test-concurrency=1', '--test-reporter=spec', ...files], {
   stdio: 'inherit',

@@ -13,6 +13,17 @@ import { ACCOUNTS, apiToken, BASE_URL, launch, newPage, PHONE, shot, signIn } fr
 let browser: Browser;
 before(async () => {
   browser = await launch();
+  // The demo gives N01 to N03 to the demo nurse, but the board story (which runs first on the same
+  // server) hands N02 to another nurse for its shift: give the three back, as a charge nurse would.
+  const charge = await apiToken(ACCOUNTS.charge);
+  for (const infantId of ['inf-ashgrove', 'inf-brightwater', 'inf-cinderford']) {
+    const res = await fetch(`${BASE_URL}/api/units/unit-north/assignments`, {
+      method: 'POST',
+      headers: { 'Content-Type': 'application/json', Authorization: `Bearer ${charge}` },
+      body: JSON.stringify({ infantId, nurseId: 'u-nurse' }),
+    });
+    assert.equal(res.status, 201, `assigning ${infantId} to the demo nurse`);
+  }
 });
 after(async () => {
   await browser.close();
