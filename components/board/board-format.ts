@@ -1,11 +1,11 @@
+import { duration } from '@/components/bedside/format';
 import { formatWhen, type ClockSetting } from '@/components/ui/format-time';
 import type { IconName } from '@/components/ui/icon';
 import type { StatusTone } from '@/components/ui/status-badge';
 
-/** "55 min" or "2 h 05 min": a span in words, never a clock-like "55:33". */
+/** "55 min" or "2 h 05 min": a span of seconds in the words every screen uses (never a clock-like "55:33"). */
 export function minutesWords(totalSeconds: number): string {
-  const m = Math.max(0, Math.floor(totalSeconds / 60));
-  return m < 60 ? `${m} min` : `${Math.floor(m / 60)} h ${String(m % 60).padStart(2, '0')} min`;
+  return duration(totalSeconds * 1000);
 }
 
 /** The same span held together on one line (no-break spaces): a narrow tile breaks before it, never inside it. */

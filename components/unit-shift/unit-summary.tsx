@@ -1,5 +1,5 @@
 import { StyleSheet, View } from 'react-native';
-import { clockTime } from '@/components/board/board-format';
+import { clockTime, countdown } from '@/components/board/board-format';
 import { flagLook } from '@/components/board/flag-look';
 import type { ClockSetting } from '@/components/ui/format-time';
 import { Text } from '@/components/ui/text';
@@ -14,9 +14,8 @@ import { placementShort } from '@/components/bedside/placement-values';
 export function nextCheckWords(h: HandoverInfant, nowMs: number, timeZone: string, clock: ClockSetting): string {
   const due = h.checks?.next?.dueAt ?? h.nextCheck.dueAt;
   if (!due) return 'No remote-site check charted';
-  const minutes = Math.round((Date.parse(due) - nowMs) / 60_000);
-  if (minutes < 0) return `Overdue by ${-minutes} min (due ${clockTime(due, timeZone, clock)})`;
-  return `Due ${clockTime(due, timeZone, clock)} (in ${minutes} min)`;
+  // The board's own countdown ("Overdue by 1 h 22 min"), so the printout and the wall agree.
+  return `${countdown(due, nowMs, 0).text} (due ${clockTime(due, timeZone, clock, nowMs)})`;
 }
 
 /**
