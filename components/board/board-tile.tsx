@@ -179,25 +179,31 @@ function InfantTile({
   }
   // An acknowledged escalation a later one of the same flag (it worsened) stands in for is left out.
   const acknowledged = bed.escalations.filter((e, _, all) => e.sentAt && e.acknowledgedAt && !all.some((l) => l.flagId === e.flagId && l.sentAt && l.escalatedAt > e.escalatedAt));
-  // Told and acknowledged in the same words: one line, saying for how many flags.
+  // Told and acknowledged in the same words: one line, saying for how many flags. A crowded wall
+  // tile first shortens it to the acknowledgement alone ("Acknowledged by … at 04:39").
   const answered = new Map<string, number>();
+  const answeredShort = new Map<string, number>();
   for (const e of acknowledged) {
     const line = escalationLine({ id: e.id, sentAt: e.sentAt!, to: e.to, how: 'email', acknowledgedAt: e.acknowledgedAt, acknowledgedBy: e.acknowledgedBy }, timeZone, clock)!;
     const words = wall ? line.replace(' by e-mail;', ';') : line;
     answered.set(words, (answered.get(words) ?? 0) + 1);
+    const short = `Acknowledged by ${e.acknowledgedBy?.name ?? 'the charge nurse'} at ${clockTime(e.acknowledgedAt!, timeZone, clock)}`;
+    answeredShort.set(short, (answeredShort.get(short) ?? 0) + 1);
   }
 
   // What a full wall tile leaves out, first to last: the bed, the infant, the countdown and an
   // escalation to acknowledge always stay, and so does the most severe flag until nothing else is left.
   // (An acknowledged escalation outlasts the latest temperatures and the milder flags, which "+N more
-  // flags" still counts: the charge nurse who pressed Acknowledge must see that it was taken.)
+  // flags" still counts, and, shortened to the acknowledgement alone, the clock's caption: the
+  // charge nurse who pressed Acknowledge must see that it was taken.)
   const optional: string[] = ['equipment'];
   if (infant.placement && !infant.placement.prompt) optional.push('placement');
   optional.push('probe');
   if (infant.skinToSkin) optional.push('skin');
   for (const f of flags.slice(1).reverse()) optional.push(`flag:${f.key}`);
-  if (acknowledged.length) optional.push('acknowledged');
+  if (acknowledged.length) optional.push('acknowledged-told');
   if (caption) optional.push('caption');
+  if (acknowledged.length) optional.push('acknowledged');
   if (infant.placement?.prompt) optional.push('prompt');
   if (flags[0]) optional.push(`flag:${flags[0].key}`);
   // Last of all the escalations' words: one Acknowledge for them all stays.
@@ -320,7 +326,7 @@ function InfantTile({
         ) : null}
         {hidden.has('acknowledged')
           ? null
-          : [...answered].map(([line, count]) => (
+          : [...(hidden.has('acknowledged-told') ? answeredShort : answered)].map(([line, count]) => (
               <Text key={line} variant="label" tone="muted" style={lineStyle}>
                 {count > 1 ? `${line} (${count} flags)` : line}
               </Text>

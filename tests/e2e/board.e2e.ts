@@ -48,7 +48,7 @@ describe('the charge nurse at the unit board (1440x900)', () => {
     // The server escalated the demo's overdue check at start-up; acknowledge it.
     await tile.getByText(/^Told Marta Lindqvist at/).waitFor();
     await tile.getByRole('button', { name: 'Acknowledge' }).click();
-    await tile.getByText(/acknowledged by Marta Lindqvist/).waitFor();
+    await tile.getByText(/acknowledged by Marta Lindqvist/i).waitFor();
     await shot(page, 'board-acknowledged');
 
     const charge = await apiToken(ACCOUNTS.charge);

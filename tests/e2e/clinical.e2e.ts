@@ -79,7 +79,7 @@ describe('severe hypothermia charted on a phone reaches the charge nurse', () =>
     await tile.getByText(/Told .*Marta Lindqvist/).waitFor({ timeout: 75_000 });
     await shot(wide, 'clinical-2-board-escalated');
     await tile.getByRole('button', { name: 'Acknowledge' }).click();
-    await tile.getByText(/acknowledged by Marta Lindqvist/).waitFor();
+    await tile.getByText(/acknowledged by Marta Lindqvist/i).waitFor();
     await shot(wide, 'clinical-3-board-acknowledged');
 
     // The nurse's card says whom it reached.

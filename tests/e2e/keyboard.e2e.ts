@@ -109,9 +109,17 @@ describe('keyboard alone (Chromium)', () => {
     await page.keyboard.press('Enter');
     await page
       .getByTestId(bedId)
-      .getByText(/acknowledged by Marta Lindqvist/)
+      .getByText(/acknowledged by Marta Lindqvist/i)
       .first()
-      .waitFor();
+      .waitFor()
+      .catch(async (err: Error) => {
+        await shot(page, 'keyboard-board-acknowledge-failed');
+        const tile = await page
+          .getByTestId(bedId)
+          .innerText()
+          .catch(() => '(no such tile on the board)');
+        throw new Error(`${err.message}\nThe tile says: ${tile}`);
+      });
     await page.context().close();
   });
 
