@@ -10,7 +10,7 @@
 import { randomUUID } from 'node:crypto';
 import type Database from 'better-sqlite3';
 import { insertReading, type NewReading } from '../server/services/bedside';
-import { loadInfantState, loadUnitRow, policyForUnit, primeRuleReadings, syncFlags, type SyncResult, type SyncWindow } from '../server/services/flags';
+import { loadInfantState, loadUnitRow, policyForUnit, syncFlags, type SyncResult, type SyncWindow } from '../server/services/flags';
 import { evaluateInfant } from '../shared/thermal';
 
 export const HOUR = 3_600_000;
@@ -52,9 +52,6 @@ export function checkRestartPoints(
   const compare = (label: string, infantId: string, now: Date, window: SyncWindow, change: () => void) => {
     // The flags the caller shows: a flowsheet asks from its window's start, a write from its reading's time.
     const fromMs = window.from;
-    // The servers prime the rules' reading cache outside the transaction; so does the check, on
-    // most steps, so both the cached and the uncached paths are compared.
-    if (rand() < 0.8) primeRuleReadings(sqlite, infantId);
     sqlite.exec('BEGIN IMMEDIATE');
     change();
     const a = syncFlags(sqlite, infantId, now, null, window);

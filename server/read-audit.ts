@@ -1,46 +1,15 @@
 import type Database from 'better-sqlite3';
-import { writeTx } from '../db/client';
 import { appendAudit, type AuditInput } from './audit';
-
-interface Waiting {
-  input: AuditInput;
-  resolve: () => void;
-  reject: (err: unknown) => void;
-}
-
-const queues = new WeakMap<Database.Database, { pending: Waiting[]; scheduled: boolean }>();
+import { batchedWrite } from './write-batch';
 
 /**
- * Record a chart read in the audit trail, committed before the caller answers, as before; but
- * reads that arrive together share one transaction and so one fsync (group commit). Under
- * synchronous=FULL the fsync, not the insert, is what a read costs; with a busy board, dozens of
- * reads now commit for the price of one. The chain stays in commit order, as appendAudit needs.
+ * Record a chart read in the audit trail, committed before the caller answers; reads that arrive
+ * together share one transaction and so one fsync (the group commit of server/write-batch.ts).
+ * Kept for the read budgets of `npm run bench`: see the comment in write-batch.ts.
  */
 export function auditRead(sqlite: Database.Database, input: AuditInput): Promise<void> {
-  let queue = queues.get(sqlite);
-  if (!queue) {
-    queue = { pending: [], scheduled: false };
-    queues.set(sqlite, queue);
-  }
-  const q = queue;
-  return new Promise<void>((resolve, reject) => {
-    q.pending.push({ input, resolve, reject });
-    if (q.scheduled) return;
-    q.scheduled = true;
-    // setImmediate: after this turn's other requests have been parsed and queued.
-    setImmediate(() => {
-      q.scheduled = false;
-      const batch = q.pending.splice(0);
-      try {
-        writeTx(sqlite, () => {
-          for (const w of batch) appendAudit(sqlite, w.input);
-        });
-      } catch (err) {
-        for (const w of batch) w.reject(err);
-        return;
-      }
-      for (const w of batch) w.resolve();
-    });
+  return batchedWrite(sqlite, () => {
+    appendAudit(sqlite, input);
   });
 }
 

@@ -16,8 +16,7 @@ import { allow, secureRouter } from '../middleware/access';
 import { valid, validate } from '../middleware/validate';
 import { changePassword, loadSessionUser, signIn, signOut, updatePreferences } from '../services/auth';
 import { sendResetLink, useLink } from '../services/email-links';
-import { DEVICE_COOKIE_MAX_AGE_MS, DEVICE_COOKIE_PATH, recordAttempt, resetRequestBudget } from '../services/sign-in-throttle';
-import { batchedWrite } from '../write-batch';
+import { DEVICE_COOKIE_MAX_AGE_MS, DEVICE_COOKIE_PATH, recordResetRequest, resetRequestBudget } from '../services/sign-in-throttle';
 
 /** Signing in and out, the signed-in user's own account, and (public) the e-mailed invitation and password-reset links. */
 export function authRouter(ctx: AppContext) {
@@ -83,7 +82,7 @@ export function authRouter(ctx: AppContext) {
     const { email } = valid<{ email: string }>(req, 'body');
     const address = req.ip ?? 'unknown';
     resetRequestBudget(ctx, email, address);
-    await batchedWrite(ctx.database.sqlite, () => recordAttempt(ctx, 'reset-request', email, address, true));
+    recordResetRequest(ctx, email, address);
     res.status(202).json({ message: 'If that address has an account, a reset link is on its way.' });
     enqueueMailJob(ctx, () => sendResetLink(ctx, email));
   });

@@ -12,7 +12,7 @@ import { infants, readings, skinToSkinSessions, users } from '../../db/schema';
 import { ApiError, badRequest } from '../errors';
 import { CompressedJson } from '../compressed-body';
 import { chartDataVersion } from './board-cache';
-import { loadUnitRow, policyForUnit, primeRuleReadings, syncFlags } from './flags';
+import { loadUnitRow, policyForUnit, syncFlags } from './flags';
 import { dischargeOf } from './infants';
 import { perConnection } from './prepared-queries';
 import { storedFlowsheetFlags, summarizeInfants } from './summaries';
@@ -328,7 +328,6 @@ export function buildFlowsheet(sqlite: Database.Database, infantId: string, unit
   const policy = policyForUnit(loadUnitRow(sqlite, unitId)!);
   // The window starts just before the flowsheet's: every flag shown (open, or raised or closed
   // in the window) is then evaluated exactly as over the whole stay.
-  primeRuleReadings(sqlite, infantId);
   writeTx(sqlite, () => syncFlags(sqlite, infantId, now, null, { from: fromMs - 1 }));
   onSynced?.();
   const q = bedsideQueries(sqlite);

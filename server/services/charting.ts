@@ -15,7 +15,6 @@ import type { CreateReadingResult, CurrentPlacement, SessionRecord } from '../..
 import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { ApiError, badRequest, conflict, notFound } from '../errors';
-import { batchedWrite } from '../write-batch';
 import {
   checkTakenAt,
   convertAndCheck,
@@ -30,7 +29,7 @@ import {
   type NewReading,
 } from './bedside';
 import { escalateAfterWrite } from './escalations';
-import { currentFlagIds, primeRuleReadings, syncFlags } from './flags';
+import { currentFlagIds, syncFlags } from './flags';
 import { assertActorUnit, loadInfant, loadInfantFor, requireAdmitted, type Actor } from './infants';
 import { recordPlacementChange, refreshPlacement, storedPlacement } from './placement';
 import { nextCheckJson, openFlagJson } from './summaries';
@@ -50,8 +49,8 @@ export function evaluationBody(ctx: AppContext, infantId: string, sync: Sync): O
 
 /**
  * Record a reading. Idempotent by the client's id: a retry returns the stored reading. The checks
- * run per request; the insert, its audit event and the flag sync run in a group-committed batch
- * (batchedWrite) and the answer is ready once the batch is durable.
+ * run per request; the insert, its audit event and the flag sync run in one write transaction,
+ * durable before the answer goes out.
  */
 export async function createReading(ctx: AppContext, infantId: string, input: CreateReading, actor: Actor): Promise<CreateReadingResult> {
   const { sqlite } = ctx.database;
@@ -79,9 +78,7 @@ export async function createReading(ctx: AppContext, infantId: string, input: Cr
   const takenAt = input.takenAt ? new Date(input.takenAt) : now;
   if (!already) checkTakenAt(takenAt, now, infant.admittedAt, input.lateReason);
 
-  // Outside any transaction: the rules' copy of the chart is brought up to date from committed rows.
-  primeRuleReadings(sqlite, infantId);
-  const result = await batchedWrite(sqlite, () => {
+  const result = writeTx(sqlite, () => {
     const again = replay();
     // Nothing changed: the rules need only run from now (syncFlags widens this as needed).
     if (again) return { created: false, sync: syncFlags(sqlite, infantId, now, actor.userId, { from: now.getTime() }) };

@@ -18,7 +18,7 @@ import { appendAudit } from '../audit';
 import type { AppContext } from '../context';
 import { conflict, notFound } from '../errors';
 import { appendFlagEvent, dbOf, loadPolicyVersions, readClocks, type StoredOpenFlag } from './flag-lifecycle';
-import { loadUnitRow, policyAt, primeRuleReadings, syncFlags, type SyncResult } from './flags';
+import { loadUnitRow, policyAt, syncFlags, type SyncResult } from './flags';
 
 export interface EscalationRun {
   /** Escalations created by this run. */
@@ -75,7 +75,6 @@ export function syncAdmittedInfants(ctx: AppContext, now: Date): void {
   const { sqlite } = ctx.database;
   const ids = dbOf(sqlite).select({ id: infants.id }).from(infants).where(eq(infants.status, 'admitted')).all();
   for (const { id } of ids) {
-    primeRuleReadings(sqlite, id);
     writeTx(sqlite, () => syncFlags(sqlite, id, now, null, { from: now.getTime() }));
   }
 }

@@ -14,7 +14,7 @@ import { auditRead } from '../read-audit';
 import { evaluationBody } from './charting';
 import { appendFlagEvent } from './flag-lifecycle';
 import { flagHistory } from './flag-history';
-import { primeRuleReadings, ruleKeyOf, syncFlags } from './flags';
+import { ruleKeyOf, syncFlags } from './flags';
 import { assertActorUnit, type Actor } from './infants';
 import { refreshPlacement } from './placement';
 
@@ -165,7 +165,6 @@ export function undoAction(ctx: AppContext, flagId: string, actionId: string, in
     .get();
   if (!action) throw notFound('That action');
   const now = ctx.clock.now();
-  primeRuleReadings(sqlite, action.infantId);
   const result = writeTx(sqlite, () => {
     const done = db.select({ id: actionUndos.id }).from(actionUndos).where(eq(actionUndos.actionId, actionId)).get();
     if (done) return { created: false, undoId: done.id, sync: syncFlags(sqlite, action.infantId, now, actor.userId) };

@@ -116,11 +116,6 @@ const flagQueries = perConnection((db) => ({
     .where(and(eq(readings.infantId, sql.placeholder('infantId')), gte(readings.takenAt, sql.placeholder('since'))))
     .orderBy(asc(readings.takenAt), asc(readings.recordedAt), asc(readingOrder))
     .prepare(),
-  readingsAfterRow: db
-    .select(ruleColumns)
-    .from(readings)
-    .where(and(eq(readings.infantId, sql.placeholder('infantId')), gt(readingOrder, sql.placeholder('after'))))
-    .prepare(),
   actions: db
     .select({ id: actions.id, flagKey: flags.key, kind: actions.kind, at: actions.at })
     .from(actions)
@@ -292,86 +287,6 @@ export function loadInfantState(sqlite: Database.Database, infantId: string, sin
 
 type RuleReading = ReturnType<typeof toRuleReading>;
 
-type CachedReading = RuleReading & { rowid: number; takenMs: number; recordedMs: number };
-
-interface CachedRuleReadings {
-  dataVersion: number;
-  /** Every row of the infant up to this rowid is in `readings`; later rows are read fresh. */
-  maxRowid: number;
-  /** In the rules' order (taken, then recorded), so a window is a binary search away. */
-  readings: CachedReading[];
-  usedAt: number;
-}
-
-const ruleReadingCaches = new WeakMap<Database.Database, Map<string, CachedRuleReadings>>();
-
-/**
- * Keep the infant's readings, parsed for the rules, in memory: reading and converting a long
- * stay's rows was most of a write's cost. Readings are never updated or deleted (a correction is
- * a new row), so rows once committed stay valid; this runs only outside a transaction, so only
- * committed rows are kept (never a row a rolled-back savepoint took back). A commit by another
- * connection (PRAGMA data_version) drops the entry: it could have been anything. Call it before
- * a write transaction that runs syncFlags; syncFlags reads the rows added since.
- */
-export function primeRuleReadings(sqlite: Database.Database, infantId: string): void {
-  if (sqlite.inTransaction) return;
-  let cache = ruleReadingCaches.get(sqlite);
-  if (!cache) {
-    cache = new Map();
-    ruleReadingCaches.set(sqlite, cache);
-  }
-  const dataVersion = dataVersionOf(sqlite);
-  const now = Date.now();
-  let entry = cache.get(infantId);
-  if (entry && entry.dataVersion !== dataVersion) entry = undefined;
-  const added = newRows(sqlite, infantId, entry?.maxRowid ?? -1);
-  const readings = mergeInOrder(entry?.readings ?? [], added);
-  const maxRowid = added.reduce((max, r) => Math.max(max, r.rowid), entry?.maxRowid ?? -1);
-  // Charts no one wrote to or read for ten minutes go (discharged infants).
-  for (const [id, e] of cache) if (now - e.usedAt > 600_000) cache.delete(id);
-  cache.set(infantId, { dataVersion, maxRowid, readings, usedAt: now });
-}
-
-/** SQLite's count of commits by other connections (better-sqlite3's pragma call, not SQL text). */
-function dataVersionOf(sqlite: Database.Database): number {
-  return Number(sqlite.pragma('data_version', { simple: true }));
-}
-
-function newRows(sqlite: Database.Database, infantId: string, afterRowid: number): CachedReading[] {
-  const rows = flagQueries(sqlite).readingsAfterRow.all({ infantId, after: afterRowid });
-  return rows.map((r) => ({ ...toRuleReading(r), rowid: r.rowid, takenMs: r.takenAt.getTime(), recordedMs: r.recordedAt.getTime() }));
-}
-
-/** The order of the query's ORDER BY taken_at, recorded_at. */
-const inRuleOrder = (a: CachedReading, b: CachedReading) => a.takenMs - b.takenMs || a.recordedMs - b.recordedMs || a.rowid - b.rowid;
-
-/** `sorted` with `added` merged in; new readings almost always go on the end. Neither is changed. */
-function mergeInOrder(sorted: CachedReading[], added: CachedReading[]): CachedReading[] {
-  if (added.length === 0) return sorted;
-  const fresh = added.slice().sort(inRuleOrder);
-  const last = sorted[sorted.length - 1];
-  if (last === undefined || inRuleOrder(last, fresh[0]!) <= 0) return sorted.concat(fresh);
-  return sorted.concat(fresh).sort(inRuleOrder);
-}
-
-/** The rules' readings from `since` (all when undefined), from the primed cache when it is valid. */
-function ruleReadings(sqlite: Database.Database, infantId: string, since: number | undefined): RuleReading[] | null {
-  const entry = ruleReadingCaches.get(sqlite)?.get(infantId);
-  if (!entry || entry.dataVersion !== dataVersionOf(sqlite)) return null;
-  entry.usedAt = Date.now();
-  const all = mergeInOrder(entry.readings, newRows(sqlite, infantId, entry.maxRowid));
-  if (since === undefined) return all === entry.readings ? all.slice() : all;
-  // The first reading taken at or after `since`.
-  let lo = 0;
-  let hi = all.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >>> 1;
-    if (all[mid]!.takenMs < since) lo = mid + 1;
-    else hi = mid;
-  }
-  return all.slice(lo);
-}
-
 function loadStateWith(sqlite: Database.Database, infantId: string, readings: RuleReading[]): InfantState {
   const q = flagQueries(sqlite);
   const infant = q.infant.get({ id: infantId });
@@ -466,8 +381,7 @@ export function syncFlags(sqlite: Database.Database, infantId: string, now: Date
   const windowFrom = window ? restartPoint(sqlite, infantId, infant.admittedAt.getTime(), { ...window, from: Math.min(window.from, now.getTime()) }) : null;
   let state: InfantState;
   const since = windowFrom ?? undefined;
-  const cached = ruleReadings(sqlite, infantId, since);
-  const loaded = cached ? loadStateWith(sqlite, infantId, cached) : loadInfantState(sqlite, infantId, since);
+  const loaded = loadInfantState(sqlite, infantId, since);
   if (windowFrom === null) state = loaded;
   else {
     const full = loaded;

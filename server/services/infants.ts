@@ -12,7 +12,7 @@ import { shiftAt } from '../../shared/shifts';
 import type { Flowsheet, InfantDetail } from '../../shared/types/bedside';
 import { appendAudit } from '../audit';
 import { ApiError, forbidden, notFound } from '../errors';
-import { loadUnitRow, primeRuleReadings, syncFlags } from './flags';
+import { loadUnitRow, syncFlags } from './flags';
 import { storedPlacement } from './placement';
 import { perConnection } from './prepared-queries';
 import { summarizeInfants } from './summaries';
@@ -134,7 +134,6 @@ function lastRemoteSite(sqlite: Database.Database, infantId: string): InfantDeta
  */
 export function infantDetail(sqlite: Database.Database, infant: Infant, actorId: string, now: Date): InfantDetail {
   const unit = loadUnitRow(sqlite, infant.unitId)!;
-  primeRuleReadings(sqlite, infant.id);
   writeTx(sqlite, () => {
     // Only time has passed: the rules need only run from now (syncFlags widens this as needed).
     if (infant.status === 'admitted') syncFlags(sqlite, infant.id, now, null, { from: now.getTime() });

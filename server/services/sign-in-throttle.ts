@@ -1,5 +1,6 @@
 import { and, count, eq, gt, isNull, min } from 'drizzle-orm';
 import { createHmac, randomBytes, timingSafeEqual } from 'node:crypto';
+import { writeTx } from '../../db/client';
 import { signInAttempts } from '../../db/schema';
 import type { AppContext } from '../context';
 import { ApiError } from '../errors';
@@ -100,6 +101,11 @@ export function signInBudget(ctx: AppContext, email: string, address: string, de
   const byAddress = tally(ctx, 'sign-in', since, 'address', address, true);
   if (byAddress.n >= ADDRESS_FAILURE_LIMIT) throw tooMany(message, byAddress.oldest, now);
   return { device: null };
+}
+
+/** A reset request, counted for its throttle in a write transaction of its own (known and unknown addresses alike). */
+export function recordResetRequest(ctx: AppContext, email: string, address: string): void {
+  writeTx(ctx.database.sqlite, () => recordAttempt(ctx, 'reset-request', email, address, true));
 }
 
 export function recordAttempt(ctx: AppContext, kind: Kind, email: string, address: string, succeeded: boolean, device: string | null = null): void {
