@@ -90,6 +90,8 @@ export async function untilCompressed(url: string, deadline: number): Promise<vo
  * overlap it measure the compression, not the API. A hospital's server has been up for days.
  */
 export async function untilBuildCompressed(base: string, webDir: string, timeoutMs = 300_000): Promise<void> {
+  // No web build copied (none was built): nothing to compress.
+  if (!fs.existsSync(webDir)) return;
   const deadline = Date.now() + timeoutMs;
   const files: string[] = [];
   const walk = (rel: string) => {
