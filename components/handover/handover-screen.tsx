@@ -98,10 +98,10 @@ export function InfantHandoverScreen({ infantId }: { infantId: string }) {
 
 export function MyHandoverScreen() {
   const user = useUser();
-  const [scope, setScope] = useState<Scope>('mine');
-  const mine = useMyHandoverQuery();
-  // The charge nurse hands the whole unit over to the next charge nurse.
+  // The charge nurse hands the whole unit over to the next charge nurse: her handover opens on it.
   const canHandOverUnit = can(user.role, 'unit:manage');
+  const [scope, setScope] = useState<Scope>(canHandOverUnit ? 'unit' : 'mine');
+  const mine = useMyHandoverQuery();
   const unit = useUnitHandoverQuery(canHandOverUnit && scope === 'unit' ? (user.unitIds[0] ?? null) : null);
   const choice = canHandOverUnit ? (
     <NoPrint>

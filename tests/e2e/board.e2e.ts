@@ -86,7 +86,7 @@ describe('the charge nurse at the unit board (1440x900)', () => {
     await page.context().close();
   });
 
-  it('hands the whole unit over: the charge nurse chooses "Whole unit" and sees every admitted infant by bed', async () => {
+  it('hands the whole unit over: the charge nurse’s handover opens on the whole unit, every admitted infant by bed', async () => {
     const page = await newPage(browser, WIDE);
     await signIn(page, ACCOUNTS.charge);
     await page.waitForURL((url) => url.pathname === '/board');
@@ -94,9 +94,9 @@ describe('the charge nurse at the unit board (1440x900)', () => {
     const { infants } = await api<{ infants: { infant: { displayName: string; bedLabel: string } }[] }>('/units/unit-north/handover', charge);
     assert.ok(infants.length > 2, 'the demo unit has several infants admitted');
     await page.goto(`${BASE_URL}/handover`);
-    await page.getByRole('heading', { name: 'My handover', level: 1 }).waitFor();
-    await page.getByRole('radio', { name: 'Whole unit' }).click();
+    // She hands the unit over, not her own (usually empty) list: the unit comes first.
     await page.getByRole('heading', { name: 'Unit handover', level: 1 }).waitFor();
+    assert.equal(await page.getByRole('radio', { name: 'Whole unit' }).getAttribute('aria-checked'), 'true');
     for (const h of infants) await page.getByText(h.infant.displayName, { exact: false }).first().waitFor();
     await page.emulateMedia({ media: 'print' });
     assert.equal(await page.getByRole('radio', { name: 'Whole unit' }).isVisible(), false, 'the choice is hidden in print');
